@@ -1,0 +1,237 @@
+/**
+ * The database schema: one file, every table. Timestamps are integer milliseconds since the
+ * Unix epoch (`…Ms`); every number carries its unit in its name. Row types are inferred from
+ * these tables, never written by hand.
+ *
+ * The two high-volume tables (`readings`, `wind_minutes`) store speeds as integer centimetres
+ * per second (`…Cmps`) and temperatures as tenths of a degree, and are WITHOUT ROWID tables
+ * keyed on (sensor, time): a reading costs about 20 bytes on disk instead of about 60 with REAL
+ * columns and a rowid index (see DEVELOPERS.md, "storage"). The WITHOUT ROWID clause is added by
+ * hand to the generated migration, because drizzle-kit has no option for it.
+ */
+import { sql } from 'drizzle-orm';
+import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+
+export const sitesTable = sqliteTable('sites', {
+  id: integer().primaryKey({ autoIncrement: true }),
+  name: text().notNull(),
+  altitudeM: real('altitude_m').notNull().default(0),
+  /** EN 1991-1-4 Table 4.1: '0', 'I', 'II', 'III', 'IV'. */
+  terrainCategory: text('terrain_category').notNull().default('II'),
+  timeZone: text('time_zone').notNull().default('UTC'),
+  /** 'isa' | 'measured' | 'fixed' (design.md 2.1). */
+  airDensityMode: text('air_density_mode').notNull().default('isa'),
+  fixedAirDensityKgM3: real('fixed_air_density_kg_m3'),
+  /** A height factor below 1 is applied only when this is on (design.md 2.2). */
+  heightReductionEnabled: integer('height_reduction_enabled', { mode: 'boolean' }).notNull().default(false),
+  directionalEnabled: integer('directional_enabled', { mode: 'boolean' }).notNull().default(false),
+  deadBandFraction: real('dead_band_fraction').notNull().default(0.1),
+  holdTimeMs: integer('hold_time_ms').notNull().default(15 * 60_000),
+  /** The site's default level list (JSON, see server/levels). */
+  defaultLevelsJson: text('default_levels_json', { mode: 'json' }).notNull(),
+  createdAtMs: integer('created_at_ms').notNull(),
+  updatedAtMs: integer('updated_at_ms').notNull(),
+});
+
+export const sensorsTable = sqliteTable(
+  'sensors',
+  {
+    id: integer().primaryKey({ autoIncrement: true }),
+    siteId: integer('site_id').notNull().references(() => sitesTable.id),
+    /** The key in the MQTT topic: [a-z0-9-], at most 64 characters (design.md 3). */
+    key: text().notNull(),
+    name: text().notNull(),
+    heightM: real('height_m').notNull(),
+    /** Where it stands on the site, in words ("mast by the north gate"), and optionally on a map. */
+    location: text().notNull().default(''),
+    latDeg: real('lat_deg'),
+    lonDeg: real('lon_deg'),
+    /** The speed unit its payloads use: 'm/s' | 'km/h' | 'kn' | 'mph'. */
+    unit: text().notNull().default('m/s'),
+    /** 'samples' (raw speed samples; the server computes gust and mean) | 'summaries'. */
+    mode: text().notNull().default('samples'),
+    silenceTimeoutMs: integer('silence_timeout_ms').notNull().default(30_000),
+    createdAtMs: integer('created_at_ms').notNull(),
+    retiredAtMs: integer('retired_at_ms'),
+  },
+  (t) => [uniqueIndex('sensors_key_unique').on(t.key)],
+);
+
+export const gatewaysTable = sqliteTable(
+  'gateways',
+  {
+    id: integer().primaryKey({ autoIncrement: true }),
+    siteId: integer('site_id').notNull().references(() => sitesTable.id),
+    name: text().notNull(),
+    /** The MQTT username. */
+    username: text().notNull(),
+    /** scrypt hash, see server/http/auth (format `scrypt$N$r$p$salt$hash`). */
+    passwordHash: text('password_hash').notNull(),
+    createdAtMs: integer('created_at_ms').notNull(),
+    revokedAtMs: integer('revoked_at_ms'),
+  },
+  (t) => [uniqueIndex('gateways_username_unique').on(t.username)],
+);
+
+export const gatewaySensorsTable = sqliteTable(
+  'gateway_sensors',
+  {
+    gatewayId: integer('gateway_id').notNull().references(() => gatewaysTable.id),
+    sensorId: integer('sensor_id').notNull().references(() => sensorsTable.id),
+  },
+  (t) => [primaryKey({ columns: [t.gatewayId, t.sensorId] })],
+);
+
+/** Every accepted reading (WITHOUT ROWID; de-duplicated on sensor and time). */
+export const readingsTable = sqliteTable(
+  'readings',
+  {
+    sensorId: integer('sensor_id').notNull(),
+    tsMs: integer('ts_ms').notNull(),
+    /** A sample, or the mean when `gustCmps` is given (a summary). */
+    speedCmps: integer('speed_cmps').notNull(),
+    gustCmps: integer('gust_cmps'),
+    /** Degrees the wind blows from, 0–359. */
+    dirDeg: integer('dir_deg'),
+    tempDeciC: integer('temp_deci_c'),
+    pressurePa: integer('pressure_pa'),
+    rhPct: integer('rh_pct'),
+    /** Bit 0: arrived in a buffered batch (stored, never used to trigger alerts). */
+    flags: integer().notNull().default(0),
+  },
+  (t) => [primaryKey({ columns: [t.sensorId, t.tsMs] })],
+);
+
+/** Per-sensor, per-minute rollups, maintained as readings arrive (WITHOUT ROWID). */
+export const windMinutesTable = sqliteTable(
+  'wind_minutes',
+  {
+    sensorId: integer('sensor_id').notNull(),
+    minuteMs: integer('minute_ms').notNull(),
+    sampleCount: integer('sample_count').notNull(),
+    speedSumCmps: integer('speed_sum_cmps').notNull(),
+    /** Highest 3-s gust in the minute (or highest reported gust for summaries). */
+    maxGustCmps: integer('max_gust_cmps').notNull(),
+    /** Sums of unit vectors (sin, cos of the from-direction) for the vector-mean direction. */
+    dirSinSum: real('dir_sin_sum').notNull().default(0),
+    dirCosSum: real('dir_cos_sum').notNull().default(0),
+    dirCount: integer('dir_count').notNull().default(0),
+  },
+  (t) => [primaryKey({ columns: [t.sensorId, t.minuteMs] })],
+);
+
+/** Rejected payloads, counted per sensor key (or topic) and reason. */
+export const rejectionsTable = sqliteTable(
+  'rejections',
+  {
+    /** The sensor key from the topic, or '*' when the topic named no sensor. */
+    sensorKey: text('sensor_key').notNull(),
+    reason: text().notNull(),
+    count: integer().notNull(),
+    firstAtMs: integer('first_at_ms').notNull(),
+    lastAtMs: integer('last_at_ms').notNull(),
+    lastDetail: text('last_detail').notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.sensorKey, t.reason] })],
+);
+
+export const structuresTable = sqliteTable('structures', {
+  id: integer().primaryKey({ autoIncrement: true }),
+  siteId: integer('site_id').notNull().references(() => sitesTable.id),
+  name: text().notNull(),
+  kind: text().notNull(),
+  /** The structure record as registered (engine record, JSON). */
+  recordJson: text('record_json', { mode: 'json' }).notNull(),
+  /** Azimuth the front faces toward, degrees clockwise from north. */
+  orientationDeg: real('orientation_deg').notNull().default(0),
+  location: text().notNull().default(''),
+  latDeg: real('lat_deg'),
+  lonDeg: real('lon_deg'),
+  /** Reference height for the gust transfer; null = the structure's top. */
+  referenceHeightM: real('reference_height_m'),
+  mobile: integer({ mode: 'boolean' }).notNull().default(false),
+  /** Sensor keys that govern (JSON array); null = every sensor on the site. */
+  sensorKeysJson: text('sensor_keys_json', { mode: 'json' }),
+  /** Level list (JSON); null = the site's defaults. */
+  levelsJson: text('levels_json', { mode: 'json' }),
+  createdAtMs: integer('created_at_ms').notNull(),
+  updatedAtMs: integer('updated_at_ms').notNull(),
+  retiredAtMs: integer('retired_at_ms'),
+});
+
+/** Per-structure, per-minute history of the live assessment. */
+export const structureMinutesTable = sqliteTable(
+  'structure_minutes',
+  {
+    structureId: integer('structure_id').notNull(),
+    minuteMs: integer('minute_ms').notNull(),
+    maxGustCmps: integer('max_gust_cmps').notNull(),
+    /** Highest governing utilization in the minute, in ten-thousandths (1 = 10000). */
+    maxUtilizationE4: integer('max_utilization_e4').notNull(),
+    maxLevel: integer('max_level').notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.structureId, t.minuteMs] })],
+);
+
+export const levelChangesTable = sqliteTable(
+  'level_changes',
+  {
+    id: integer().primaryKey({ autoIncrement: true }),
+    structureId: integer('structure_id').notNull(),
+    atMs: integer('at_ms').notNull(),
+    fromLevel: integer('from_level').notNull(),
+    toLevel: integer('to_level').notNull(),
+    /** Gust at the structure's height when it changed; null for a no-data change. */
+    gustMps: real('gust_mps'),
+    utilization: real(),
+    noData: integer('no_data', { mode: 'boolean' }).notNull().default(false),
+  },
+  (t) => [index('level_changes_structure_at').on(t.structureId, t.atMs), index('level_changes_at').on(t.atMs)],
+);
+
+export const alertsTable = sqliteTable(
+  'alerts',
+  {
+    id: integer().primaryKey({ autoIncrement: true }),
+    siteId: integer('site_id').notNull(),
+    /** 'level' | 'no-data' | 'sensor-silent' | 'sensor-implausible'. */
+    kind: text().notNull(),
+    structureId: integer('structure_id'),
+    sensorId: integer('sensor_id'),
+    level: integer(),
+    label: text().notNull(),
+    actionText: text('action_text').notNull().default(''),
+    raisedAtMs: integer('raised_at_ms').notNull(),
+    gustMps: real('gust_mps'),
+    utilization: real(),
+    acknowledgedAtMs: integer('acknowledged_at_ms'),
+    acknowledgedBy: text('acknowledged_by'),
+    acknowledgeNote: text('acknowledge_note'),
+    /** When the condition behind it ended (level lowered, sensor back); the record stays. */
+    clearedAtMs: integer('cleared_at_ms'),
+  },
+  (t) => [index('alerts_raised_at').on(t.raisedAtMs)],
+);
+
+export const auditTable = sqliteTable(
+  'audit',
+  {
+    id: integer().primaryKey({ autoIncrement: true }),
+    atMs: integer('at_ms').notNull(),
+    /** Who: a person's name or id, 'system', 'import'. */
+    actor: text().notNull(),
+    entity: text().notNull(),
+    entityId: text('entity_id').notNull(),
+    action: text().notNull(),
+    beforeJson: text('before_json', { mode: 'json' }),
+    afterJson: text('after_json', { mode: 'json' }),
+  },
+  (t) => [index('audit_at').on(t.atMs)],
+);
+
+/** Small key/value facts about this installation (schema notes, demo seeding done...). */
+export const metaTable = sqliteTable('meta', {
+  key: text().primaryKey(),
+  value: text().notNull(),
+  updatedAtMs: integer('updated_at_ms').notNull().default(sql`0`),
+});

@@ -1,0 +1,42 @@
+/**
+ * Password hashing with scrypt (memory-hard; RFC 7914) from Node's crypto. Stored as
+ * `scrypt$N$r$p$saltB64$hashB64` so the cost can rise later without breaking old hashes.
+ * N = 2^15, r = 8, p = 1 uses 32 MiB and about 50 ms per hash on this machine — slow enough to
+ * hurt guessing, fast enough for sign-in and MQTT CONNECT.
+ */
+import { randomBytes, scrypt, timingSafeEqual } from 'node:crypto';
+
+const costN = 2 ** 15;
+const blockSizeR = 8;
+const parallelP = 1;
+const keyLengthBytes = 32;
+const maxmemBytes = 64 * 1024 * 1024;
+
+function derive(password: string, salt: Buffer, n: number, r: number, p: number): Promise<Buffer> {
+  return new Promise((resolve, reject) => {
+    scrypt(password.normalize('NFC'), salt, keyLengthBytes, { N: n, r, p, maxmem: maxmemBytes }, (err, key) =>
+      err ? reject(err) : resolve(key),
+    );
+  });
+}
+
+export async function hashPassword(password: string): Promise<string> {
+  const salt = randomBytes(16);
+  const hash = await derive(password, salt, costN, blockSizeR, parallelP);
+  return `scrypt$${costN}$${blockSizeR}$${parallelP}$${salt.toString('base64')}$${hash.toString('base64')}`;
+}
+
+/** True when `password` matches `stored`; false for a wrong password or a malformed hash. */
+export async function verifyPassword(password: string, stored: string): Promise<boolean> {
+  const parts = stored.split('$');
+  if (parts.length !== 6 || parts[0] !== 'scrypt') return false;
+  const n = Number(parts[1]);
+  const r = Number(parts[2]);
+  const p = Number(parts[3]);
+  if (![n, r, p].every((v) => Number.isInteger(v) && v > 0)) return false;
+  const salt = Buffer.from(parts[4]!, 'base64');
+  const expected = Buffer.from(parts[5]!, 'base64');
+  if (expected.length !== keyLengthBytes) return false;
+  const actual = await derive(password, salt, n, r, p);
+  return timingSafeEqual(actual, expected);
+}

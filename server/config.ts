@@ -1,0 +1,85 @@
+/**
+ * Configuration from the environment, read and checked once at start (design.md 4a). Every
+ * variable is optional; the defaults run everything embedded on one machine.
+ */
+import path from 'node:path';
+
+export interface Config {
+  /** HTTP port (PORT, default 8080). */
+  httpPort: number;
+  /** HTTP bind address (HOST, default 0.0.0.0). */
+  httpHost: string;
+  /** Database and other state (DATA_DIR, default ./data). */
+  dataDir: string;
+  /** An external broker (MQTT_URL); null runs the embedded broker. */
+  mqttUrl: string | null;
+  mqttUsername: string | null;
+  mqttPassword: string | null;
+  /** PEM files for TLS to an external broker (MQTT_CA_FILE, MQTT_CERT_FILE, MQTT_KEY_FILE). */
+  mqttCaFile: string | null;
+  mqttCertFile: string | null;
+  mqttKeyFile: string | null;
+  /** MQTT protocol version to speak to an external broker: 4 (3.1.1) or 5 (MQTT_PROTOCOL_VERSION, default 5). */
+  mqttProtocolVersion: 4 | 5;
+  /** Client id for the persistent session on an external broker (MQTT_CLIENT_ID). */
+  mqttClientId: string;
+  /** Embedded broker port (MQTT_PORT, default 1883) and bind address (MQTT_HOST, default 0.0.0.0). */
+  mqttPort: number;
+  mqttHost: string;
+  /** Topic prefix (MQTT_TOPIC_PREFIX, default "wind"): topics are <prefix>/<sensorKey>/reading. */
+  topicPrefix: string;
+  /** Raw readings older than this are deleted; rollups are kept (RAW_RETENTION_DAYS, default 90). */
+  rawRetentionDays: number;
+  /** Log level for pino (LOG_LEVEL, default info). */
+  logLevel: string;
+  /** Run the invented demo site with simulated anemometers. */
+  demo: boolean;
+  /** Seed of the demo wind (DEMO_SEED, default 20260614). */
+  demoSeed: number;
+}
+
+export class ConfigError extends Error {}
+
+function intVar(env: NodeJS.ProcessEnv, name: string, fallback: number, min: number, max: number): number {
+  const raw = env[name];
+  if (raw === undefined || raw === '') return fallback;
+  const value = Number(raw);
+  if (!Number.isInteger(value) || value < min || value > max) {
+    throw new ConfigError(`${name} must be an integer from ${min} to ${max}, got "${raw}"`);
+  }
+  return value;
+}
+
+function textVar(env: NodeJS.ProcessEnv, name: string): string | null {
+  const raw = env[name];
+  return raw === undefined || raw === '' ? null : raw;
+}
+
+export function configFromEnv(env: NodeJS.ProcessEnv = process.env, argv: readonly string[] = []): Config {
+  const topicPrefix = textVar(env, 'MQTT_TOPIC_PREFIX') ?? 'wind';
+  if (!/^[A-Za-z0-9_-]+(\/[A-Za-z0-9_-]+)*$/.test(topicPrefix)) {
+    throw new ConfigError(`MQTT_TOPIC_PREFIX must be topic levels of letters, digits, - and _, got "${topicPrefix}"`);
+  }
+  const protocol = intVar(env, 'MQTT_PROTOCOL_VERSION', 5, 4, 5);
+  if (protocol !== 4 && protocol !== 5) throw new ConfigError('MQTT_PROTOCOL_VERSION must be 4 or 5');
+  return {
+    httpPort: intVar(env, 'PORT', 8080, 0, 65535),
+    httpHost: textVar(env, 'HOST') ?? '0.0.0.0',
+    dataDir: path.resolve(textVar(env, 'DATA_DIR') ?? './data'),
+    mqttUrl: textVar(env, 'MQTT_URL'),
+    mqttUsername: textVar(env, 'MQTT_USERNAME'),
+    mqttPassword: textVar(env, 'MQTT_PASSWORD'),
+    mqttCaFile: textVar(env, 'MQTT_CA_FILE'),
+    mqttCertFile: textVar(env, 'MQTT_CERT_FILE'),
+    mqttKeyFile: textVar(env, 'MQTT_KEY_FILE'),
+    mqttProtocolVersion: protocol,
+    mqttClientId: textVar(env, 'MQTT_CLIENT_ID') ?? 'holdfast-ingest',
+    mqttPort: intVar(env, 'MQTT_PORT', 1883, 0, 65535),
+    mqttHost: textVar(env, 'MQTT_HOST') ?? '0.0.0.0',
+    topicPrefix,
+    rawRetentionDays: intVar(env, 'RAW_RETENTION_DAYS', 90, 1, 36_500),
+    logLevel: textVar(env, 'LOG_LEVEL') ?? 'info',
+    demo: argv.includes('--demo') || env.DEMO === '1',
+    demoSeed: intVar(env, 'DEMO_SEED', 20260614, 0, 2 ** 31 - 1),
+  };
+}

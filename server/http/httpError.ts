@@ -1,0 +1,37 @@
+/**
+ * The one error type of the HTTP layer: a status, a message people can read, and for invalid
+ * input every offending field with the reason. `onError` in app.ts turns it into JSON; anything
+ * else becomes a plain 500 with no stack trace or SQL in the body.
+ */
+export interface FieldIssue {
+  /** Dotted path of the field ("structure.masses.2.xM"), or "" for the body itself. */
+  path: string;
+  message: string;
+}
+
+export class HttpError extends Error {
+  readonly status: 400 | 401 | 403 | 404 | 409 | 413 | 415 | 429 | 500 | 503;
+  readonly issues: FieldIssue[] | undefined;
+
+  constructor(status: HttpError['status'], message: string, issues?: FieldIssue[]) {
+    super(message);
+    this.status = status;
+    this.issues = issues;
+  }
+
+  static invalid(issues: FieldIssue[]): HttpError {
+    return new HttpError(400, 'invalid input', issues);
+  }
+
+  static notFound(what: string): HttpError {
+    return new HttpError(404, `${what} not found`);
+  }
+}
+
+/** Zod issues (or anything with path + message) as field issues with dotted paths. */
+export function fieldIssues(issues: ReadonlyArray<{ path: ReadonlyArray<PropertyKey>; message: string }>, prefix = ''): FieldIssue[] {
+  return issues.map((issue) => ({
+    path: [prefix, ...issue.path.map(String)].filter((p) => p !== '').join('.'),
+    message: issue.message,
+  }));
+}

@@ -1,0 +1,157 @@
+/**
+ * The embedded MQTT broker (aedes, MQTT 3.1.1), on by default so that a fresh machine needs
+ * nothing installed. Only registered gateways may connect, each with its own username and
+ * password, and each may publish only to the reading topics of its own sensors; every refusal is
+ * logged and counted. Subscriptions are refused: gateways publish, nobody listens here.
+ *
+ * Readings are taken in aedes's `authorizePublish` hook, which runs before the broker sends the
+ * gateway its PUBACK: the hook calls back only after the reading is committed, so a QoS 1
+ * publish acknowledged to a gateway is on disk (design.md 5). aedes hands all packets of one
+ * socket read to the hooks concurrently, which lets the write queue commit them together.
+ */
+import { createServer, type Server } from 'node:net';
+import { Aedes, type Client } from 'aedes';
+import type { Logger } from '../log.ts';
+import { verifyPassword } from '../auth/password.ts';
+import type { Registry, RegisteredGateway } from './registry.ts';
+import type { ReadingSink } from './sink.ts';
+import { sensorKeyOfTopic } from './topic.ts';
+
+/** aedes's CONNACK return codes (its `AuthErrorCode` is a const enum, not importable at run time). */
+const returnCodeBadCredentials = 4;
+const returnCodeNotAuthorized = 5;
+
+export interface EmbeddedBrokerOptions {
+  host: string;
+  port: number;
+  topicPrefix: string;
+  registry: Registry;
+  sink: ReadingSink;
+  log: Logger;
+  now?: () => number;
+}
+
+export interface BrokerStatus {
+  kind: 'embedded';
+  listening: boolean;
+  host: string;
+  port: number;
+  connectedGateways: number;
+  refusedConnections: number;
+  refusedPublishes: number;
+}
+
+export class PortInUseError extends Error {}
+
+export class EmbeddedBroker {
+  private aedes: Aedes | null = null;
+  private server: Server | null = null;
+  private readonly gatewayOfClient = new WeakMap<Client, RegisteredGateway>();
+  private readonly status: BrokerStatus;
+
+  constructor(private readonly options: EmbeddedBrokerOptions) {
+    this.status = {
+      kind: 'embedded',
+      listening: false,
+      host: options.host,
+      port: options.port,
+      connectedGateways: 0,
+      refusedConnections: 0,
+      refusedPublishes: 0,
+    };
+  }
+
+  async start(): Promise<void> {
+    const { registry, sink, log, topicPrefix } = this.options;
+    const now = this.options.now ?? Date.now;
+    const aedes = await Aedes.createBroker({
+      authenticate: (client, username, password, done) => {
+        const refuse = (why: string, code: number): void => {
+          this.status.refusedConnections++;
+          log.warn({ clientId: client.id, username, why }, 'MQTT connection refused');
+          done(Object.assign(new Error(why), { returnCode: code }) as never, false);
+        };
+        const gateway = username === undefined ? undefined : registry.gatewayByUsername(username);
+        if (!gateway || password === undefined) return refuse('unknown gateway or no password', returnCodeBadCredentials);
+        verifyPassword(password.toString('utf8'), gateway.passwordHash).then(
+          (ok) => {
+            // Re-read: the gateway may have been revoked while the hash was being checked.
+            const current = registry.gatewayByUsername(gateway.username);
+            if (!ok || !current) return refuse('bad credentials', returnCodeBadCredentials);
+            this.gatewayOfClient.set(client, current);
+            done(null, true);
+          },
+          (err: unknown) => refuse(`credential check failed: ${String(err)}`, returnCodeNotAuthorized),
+        );
+      },
+      authorizePublish: (client, packet, callback) => {
+        if (!client) return callback(null); // the broker's own $SYS messages
+        const stored = this.gatewayOfClient.get(client);
+        // Look the gateway up again: revoking credentials or changing its sensors takes effect at once.
+        const gateway = stored ? registry.gatewayByUsername(stored.username) : undefined;
+        const key = sensorKeyOfTopic(topicPrefix, packet.topic);
+        if (!gateway || key === null || !gateway.sensorKeys.has(key)) {
+          this.status.refusedPublishes++;
+          const detail = `gateway "${stored?.username ?? '?'}" may not publish to "${packet.topic}"`;
+          sink.refuse(key ?? '*', 'not-permitted', detail);
+          return callback(new Error(detail));
+        }
+        const payload = typeof packet.payload === 'string' ? Buffer.from(packet.payload) : packet.payload;
+        sink.accept(packet.topic, payload, now()).then(
+          () => callback(null),
+          (err: unknown) => {
+            // Not committed: refuse, so the gateway keeps the message and sends it again.
+            log.error({ err: String(err), topic: packet.topic }, 'reading not committed; gateway will resend');
+            callback(err instanceof Error ? err : new Error(String(err)));
+          },
+        );
+      },
+      authorizeSubscribe: (client, subscription, callback) => {
+        log.warn({ clientId: client.id, topic: subscription.topic }, 'MQTT subscription refused');
+        callback(null, null);
+      },
+    });
+    aedes.on('client', () => this.status.connectedGateways++);
+    aedes.on('clientDisconnect', () => this.status.connectedGateways--);
+    this.aedes = aedes;
+
+    const server = createServer(aedes.handle);
+    await new Promise<void>((resolve, reject) => {
+      server.once('error', (err: NodeJS.ErrnoException) => {
+        if (err.code === 'EADDRINUSE') {
+          reject(
+            new PortInUseError(
+              `MQTT port ${this.options.port} is already in use. Set MQTT_PORT to a free port for the embedded broker, ` +
+                `or set MQTT_URL to use the broker that is running there (see README, "Sensors and gateways").`,
+            ),
+          );
+        } else reject(err);
+      });
+      server.listen(this.options.port, this.options.host, () => resolve());
+    });
+    server.on('error', (err) => log.error({ err: String(err) }, 'embedded broker listener error'));
+    this.server = server;
+    const address = server.address();
+    if (address && typeof address === 'object') this.status.port = address.port;
+    this.status.listening = true;
+    log.info({ host: this.options.host, port: this.status.port }, 'embedded MQTT broker listening');
+  }
+
+  get port(): number {
+    return this.status.port;
+  }
+
+  health(): BrokerStatus {
+    return { ...this.status };
+  }
+
+  async stop(): Promise<void> {
+    this.status.listening = false;
+    const server = this.server;
+    const aedes = this.aedes;
+    this.server = null;
+    this.aedes = null;
+    if (aedes) await new Promise<void>((resolve) => aedes.close(() => resolve()));
+    if (server) await new Promise<void>((resolve) => server.close(() => resolve()));
+  }
+}

@@ -1,0 +1,8 @@
+/** The server's one logger (pino, JSON lines on stdout). */
+import { pino, type Logger } from 'pino';
+
+export type { Logger };
+
+export function createLogger(level: string): Logger {
+  return pino({ level, base: undefined, timestamp: pino.stdTimeFunctions.isoTime });
+}
