@@ -1,0 +1,97 @@
+/**
+ * Level definitions: the staged plan a competent person writes for a structure (design §2.4).
+ *
+ * Level 0 is calm (below every trigger) and is not written down; levels 1..n are, in order.
+ * A trigger is either a fraction of the structure's load capacity (a governing utilization) or
+ * an absolute gust in m/s. The state machine compares gusts only, so the caller turns every
+ * trigger into its equivalent gust for the structure's current assessment; that is also the only
+ * moment utilization and gust triggers can be compared, so their mutual order is checked there
+ * (see `checkLevelOrder`). Triggers of the same kind are comparable without a structure, and
+ * this schema checks their order.
+ *
+ * Limits are our own: up to 8 levels (a crew cannot follow more stages), labels ≤ 60 characters
+ * (they must fit a phone screen), action text ≤ 2000 characters. Fractions up to 1.5 allow a
+ * level above the designed capacity for structures whose safety factors leave margin; gusts up
+ * to 120 m/s match the plausible sensor range (design §3).
+ */
+import { z } from 'zod';
+
+export const maxLevelCount = 8;
+export const maxLevelLabelLength = 60;
+export const maxActionTextLength = 2000;
+/** Upper bound of a utilization trigger (fraction of load capacity, dimensionless). */
+export const maxTriggerFraction = 1.5;
+/** Upper bound of a gust trigger in m/s: the plausible range of a reading (design §3). */
+export const maxTriggerGustMps = 120;
+
+export const utilizationTriggerSchema = z.strictObject({
+  kind: z.literal('utilization'),
+  /** Governing utilization at which the level starts: 0.6 means 60 % of load capacity. */
+  fraction: z.number().gt(0).lte(maxTriggerFraction),
+});
+
+export const gustTriggerSchema = z.strictObject({
+  kind: z.literal('gust'),
+  /** Gust at the structure, m/s (for example the manufacturer's operational gust). */
+  gustMps: z.number().gt(0).lte(maxTriggerGustMps),
+});
+
+export const levelTriggerSchema = z.discriminatedUnion('kind', [utilizationTriggerSchema, gustTriggerSchema]);
+
+export const levelDefinitionSchema = z.strictObject({
+  label: z.string().trim().min(1, 'label must not be empty').max(maxLevelLabelLength),
+  trigger: levelTriggerSchema,
+  actionText: z.string().trim().max(maxActionTextLength),
+});
+
+export const levelListSchema = z
+  .array(levelDefinitionSchema)
+  .min(1)
+  .max(maxLevelCount)
+  .superRefine((levels, ctx) => {
+    // Same-kind triggers must rise with the level; mixed kinds are checked by the caller once
+    // the structure's equivalent gusts are known.
+    let lastFraction = 0;
+    let lastGustMps = 0;
+    const seenLabels = new Map<string, number>();
+    levels.forEach((level, index) => {
+      const { trigger } = level;
+      if (trigger.kind === 'utilization') {
+        if (trigger.fraction <= lastFraction) {
+          ctx.addIssue({
+            code: 'custom',
+            path: [index, 'trigger', 'fraction'],
+            message: `level ${index + 1}: fraction ${trigger.fraction} must be above the fraction of a lower level (${lastFraction})`,
+          });
+        }
+        lastFraction = Math.max(lastFraction, trigger.fraction);
+      } else {
+        if (trigger.gustMps <= lastGustMps) {
+          ctx.addIssue({
+            code: 'custom',
+            path: [index, 'trigger', 'gustMps'],
+            message: `level ${index + 1}: gust ${trigger.gustMps} m/s must be above the gust of a lower level (${lastGustMps} m/s)`,
+          });
+        }
+        lastGustMps = Math.max(lastGustMps, trigger.gustMps);
+      }
+      // Two stages with one name would leave a crew unsure which action applies.
+      const key = level.label.toLowerCase();
+      const firstIndex = seenLabels.get(key);
+      if (firstIndex === undefined) {
+        seenLabels.set(key, index);
+      } else {
+        ctx.addIssue({
+          code: 'custom',
+          path: [index, 'label'],
+          message: `level ${index + 1}: label "${level.label}" is already used by level ${firstIndex + 1}`,
+        });
+      }
+    });
+  });
+
+export type UtilizationTrigger = z.infer<typeof utilizationTriggerSchema>;
+export type GustTrigger = z.infer<typeof gustTriggerSchema>;
+export type LevelTrigger = z.infer<typeof levelTriggerSchema>;
+export type LevelDefinition = z.infer<typeof levelDefinitionSchema>;
+export type LevelList = z.infer<typeof levelListSchema>;
