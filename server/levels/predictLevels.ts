@@ -1,0 +1,113 @@
+/**
+ * Forecast check (design §2.5): the level each structure would reach in each forecast row.
+ *
+ * Each row's gust is taken to the structure by the structure's height factor (computed by the
+ * engine from the site's terrain and the structure's height; ratio of gust at the structure to
+ * gust at the forecast height) and compared with the structure's trigger gusts, as the live state
+ * machine does: a gust equal to a trigger reaches it. Dead band and hold time do not apply: a
+ * forecast row predicts the peak, not a sequence of readings.
+ *
+ * A row with no gust but a mean wind gets a gust estimated as mean × 1.66: the 3-second gust to
+ * 10-minute mean ratio for in-land exposure in Harper, Kepert & Ginger (2010), Guidelines for
+ * converting between various wind averaging periods in tropical cyclone conditions, WMO/TD-No.
+ * 1555. It is the highest of their 10-minute ratios (off-land 1.52, off-sea 1.38, at sea 1.23),
+ * above ESDU's 1.448 for open terrain, so it errs towards a higher level. A row with neither
+ * gives an unknown level (null), never calm.
+ */
+import { assertTriggerGustsMps, justifiedLevel } from './justifiedLevel.ts';
+
+/** 3-s gust / 10-min mean, in-land exposure (Harper, Kepert & Ginger 2010, WMO/TD-No. 1555). */
+export const inlandGustFactor = 1.66;
+
+export interface ForecastStructure {
+  readonly id: string;
+  /** Trigger gusts of levels 1..n at the structure, m/s, ascending. */
+  readonly triggerGustsMps: readonly number[];
+  /** Gust at the structure ÷ gust at the forecast's height (dimensionless, > 0). */
+  readonly heightFactor: number;
+}
+
+export interface ForecastInputRow {
+  /** Forecast valid time, ms since the Unix epoch. */
+  readonly timeMs: number;
+  /** Mean wind at the forecast's height, m/s, or null. */
+  readonly meanMps: number | null;
+  /** Gust at the forecast's height, m/s, or null. */
+  readonly gustMps: number | null;
+}
+
+export interface PredictedLevel {
+  readonly structureId: string;
+  /** The row's gust at the structure, m/s, or null when the row has no wind. */
+  readonly gustAtStructureMps: number | null;
+  /** Predicted level 0..n, or null (unknown) when the row has no wind. */
+  readonly level: number | null;
+}
+
+export interface ForecastPrediction {
+  readonly timeMs: number;
+  /** Gust used at the forecast's height, m/s: given, or estimated from the mean; null if neither. */
+  readonly gustMps: number | null;
+  /** Where the gust came from: the table's gust, the mean × 1.66, or nothing. */
+  readonly gustSource: 'gust' | 'mean' | null;
+  /** One entry per structure, in the order given. */
+  readonly levels: readonly PredictedLevel[];
+}
+
+const isSpeedOrNull = (value: number | null): boolean => value === null || (Number.isFinite(value) && value >= 0);
+
+/**
+ * The predicted level of every structure for every row. Throws a RangeError for a row whose time
+ * is not finite or whose mean or gust is neither null nor a finite number ≥ 0 m/s, for a structure
+ * whose ladder is not ascending or whose height factor is not a finite number > 0, or for an
+ * empty or repeated structure id.
+ *
+ * @example
+ * predictLevels([{ timeMs, meanMps: null, gustMps: 16 }], [{ id: 'stage-screen', triggerGustsMps: [15.49, 17.89, 20], heightFactor: 1.1 }])
+ * // → [{ timeMs, gustMps: 16, gustSource: 'gust', levels: [{ structureId: 'stage-screen', gustAtStructureMps: 17.6, level: 1 }] }]
+ */
+export function predictLevels(
+  rows: readonly ForecastInputRow[],
+  structures: readonly ForecastStructure[],
+): ForecastPrediction[] {
+  const ids = new Set<string>();
+  structures.forEach((structure, index) => {
+    if (typeof structure.id !== 'string' || structure.id.length === 0) {
+      throw new RangeError(`predictLevels: structures[${index}].id must be a non-empty string, got '${String(structure.id)}'`);
+    }
+    if (ids.has(structure.id)) {
+      throw new RangeError(`predictLevels: structures[${index}].id must be unique, got '${structure.id}' twice`);
+    }
+    ids.add(structure.id);
+    assertTriggerGustsMps(`predictLevels: structures[${index}] (${structure.id})`, structure.triggerGustsMps);
+    if (!(Number.isFinite(structure.heightFactor) && structure.heightFactor > 0)) {
+      throw new RangeError(
+        `predictLevels: structures[${index}].heightFactor must be a finite number > 0, got ${structure.heightFactor}`,
+      );
+    }
+  });
+
+  return rows.map((row, index) => {
+    if (!Number.isFinite(row.timeMs)) {
+      throw new RangeError(`predictLevels: rows[${index}].timeMs must be a finite time in ms since the epoch, got ${row.timeMs}`);
+    }
+    if (!isSpeedOrNull(row.gustMps)) {
+      throw new RangeError(`predictLevels: rows[${index}].gustMps must be null or a finite number ≥ 0 m/s, got ${row.gustMps}`);
+    }
+    if (!isSpeedOrNull(row.meanMps)) {
+      throw new RangeError(`predictLevels: rows[${index}].meanMps must be null or a finite number ≥ 0 m/s, got ${row.meanMps}`);
+    }
+    const gustSource = row.gustMps !== null ? 'gust' : row.meanMps !== null ? 'mean' : null;
+    const gustMps = row.gustMps ?? (row.meanMps === null ? null : row.meanMps * inlandGustFactor);
+    const levels = structures.map((structure): PredictedLevel => {
+      if (gustMps === null) return { structureId: structure.id, gustAtStructureMps: null, level: null };
+      const gustAtStructureMps = gustMps * structure.heightFactor;
+      return {
+        structureId: structure.id,
+        gustAtStructureMps,
+        level: justifiedLevel(gustAtStructureMps, structure.triggerGustsMps),
+      };
+    });
+    return { timeMs: row.timeMs, gustMps, gustSource, levels };
+  });
+}
