@@ -1,0 +1,110 @@
+/**
+ * What every structure record has besides its dimensions (design §4): a name, optional safety
+ * factors, rated gust, friction (or the ground surface it stands on), reference height and the
+ * source of any overridden coefficient; and how those become the expanded structure's settings.
+ */
+import { z } from 'zod';
+import { defaultSafetyFactors, safetyFactorSources, criteria } from '../stability.ts';
+import type { ExpandedStructure, SafetyFactors } from '../structure.ts';
+import { dimensionM, frictionCoefficient, gustMps, safetyFactor, sourceText } from '../recordFields.ts';
+import { frictionBySurface, type SourcedValue } from './coefficients.ts';
+
+export const recordBaseShape = {
+  name: z.string().trim().min(1, 'must not be empty').max(200, 'must be at most 200 characters'),
+  /** Partial safety factors; each one missing takes its default (1.5 / 2.0 / 1.5). */
+  safetyFactors: z
+    .strictObject({ overturning: safetyFactor().optional(), sliding: safetyFactor().optional(), uplift: safetyFactor().optional() })
+    .optional(),
+  /** The designer's or manufacturer's rated operational gust (usually a 3-s gust), m/s. */
+  ratedGustMps: gustMps().optional(),
+  /** Base-to-ground friction coefficient; when missing, the `surface` default. */
+  frictionCoefficient: frictionCoefficient().optional(),
+  /** Ground under the ballast, for the default friction coefficient (default grass, the lower). */
+  surface: z.enum(['grass', 'hard']).optional(),
+  /** Height the measured gust is transferred to, m (default: the top of the structure). */
+  referenceHeightM: dimensionM().optional(),
+  /** Source of any coefficient the record overrides: required when it overrides one. */
+  coefficientSource: sourceText().optional(),
+};
+
+const recordBaseSchema = z.object(recordBaseShape);
+export type RecordBase = z.infer<typeof recordBaseSchema>;
+
+/** A value in the expanded structure and the source it rests on, as listed in the response. */
+export interface SourceNote {
+  item: string;
+  value: number;
+  source: string;
+}
+
+/** A kind's record expanded to faces and masses (design §4: returned so an engineer can check it). */
+export interface Expansion {
+  structure: ExpandedStructure;
+  /** Height the site's measured gust is transferred to (default: the top of the structure), m. */
+  referenceHeightM: number;
+  sources: SourceNote[];
+  /** Assumptions of the template, in words. */
+  notes: string[];
+}
+
+/** Friction, safety factors and rated gust of a record, with their sources. */
+export function resistanceSettings(record: RecordBase): {
+  settings: Pick<ExpandedStructure, 'frictionCoefficient' | 'safetyFactors' | 'ratedGustMps'>;
+  sources: SourceNote[];
+} {
+  const sources: SourceNote[] = [];
+  const surface = record.surface ?? 'grass';
+  const friction: SourcedValue =
+    record.frictionCoefficient === undefined
+      ? frictionBySurface[surface]
+      : { value: record.frictionCoefficient, source: 'given in the record' };
+  sources.push({ item: 'friction coefficient μ', ...friction });
+
+  const safetyFactors = {} as SafetyFactors;
+  for (const criterion of criteria) {
+    const given = record.safetyFactors?.[criterion];
+    safetyFactors[criterion] = given ?? defaultSafetyFactors[criterion];
+    sources.push({
+      item: `safety factor γ (${criterion})`,
+      value: safetyFactors[criterion],
+      source: given === undefined ? safetyFactorSources[criterion] : 'given in the record',
+    });
+  }
+  const settings = { frictionCoefficient: friction.value, safetyFactors, ratedGustMps: record.ratedGustMps };
+  if (record.ratedGustMps !== undefined) {
+    sources.push({ item: 'rated gust, m/s', value: record.ratedGustMps, source: 'given in the record (designer or manufacturer)' });
+  }
+  return { settings, sources };
+}
+
+/** The default coefficient, or the record's override with its stated source. */
+export function chosenCoefficient(
+  item: string,
+  fallback: SourcedValue,
+  override: number | undefined,
+  coefficientSource: string | undefined,
+): SourceNote {
+  return override === undefined ? { item, ...fallback } : givenCoefficient(item, override, coefficientSource);
+}
+
+/** A coefficient the record gives, with its stated source. */
+export function givenCoefficient(item: string, value: number, coefficientSource: string | undefined): SourceNote {
+  return { item, value, source: `given in the record: ${coefficientSource ?? 'no source stated'}` };
+}
+
+/**
+ * Refinement for records with a `coefficients` block: an overridden coefficient needs a stated
+ * source (standard and clause, handbook and figure, or the manufacturer's sheet).
+ */
+export function requireCoefficientSource<
+  T extends { coefficients?: Record<string, number | undefined> | undefined; coefficientSource?: string | undefined },
+>(record: T, ctx: z.RefinementCtx<T>): void {
+  const overridden = Object.values(record.coefficients ?? {}).some((value) => value !== undefined);
+  if (overridden && record.coefficientSource === undefined) {
+    ctx.addIssue({
+      code: 'custom',
+      path: ['coefficientSource'],
+      message: 'is required when coefficients are overridden: name the standard and clause, handbook and figure, or manufacturer',
+    });
+  }
+}

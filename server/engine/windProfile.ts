@@ -1,0 +1,186 @@
+/**
+ * Wind profile over flat terrain, EN 1991-1-4 §4.3–4.5 (expressions 4.3–4.10, Table 4.1), and the
+ * transfers of a measured wind from the anemometer's height to the structure's (design §2.2).
+ *
+ * The orography factor c_0 is 1 (flat terrain) unless given; the turbulence factor k_I is 1.0
+ * (the recommended value). Heights run from 0 (clamped to z_min) to z_max = 200 m.
+ */
+import { assertAbove, assertInRange } from './rangeCheck.ts';
+import { dynamicPressurePa } from './dynamicPressure.ts';
+
+export const terrainCategories = ['0', 'I', 'II', 'III', 'IV'] as const;
+export type TerrainCategory = (typeof terrainCategories)[number];
+
+export interface TerrainParameters {
+  /** Roughness length z0, m. */
+  roughnessLengthM: number;
+  /** Minimum height z_min, m: below it the profile is taken constant. */
+  minimumHeightM: number;
+  description: string;
+}
+
+/** EN 1991-1-4 Table 4.1 (z_max = 200 m for every category). */
+export const terrainParameters: Readonly<Record<TerrainCategory, TerrainParameters>> = {
+  '0': { roughnessLengthM: 0.003, minimumHeightM: 1, description: 'sea or coastal area exposed to the open sea' },
+  I: { roughnessLengthM: 0.01, minimumHeightM: 1, description: 'lakes or flat land with negligible vegetation and no obstacles' },
+  II: { roughnessLengthM: 0.05, minimumHeightM: 2, description: 'low vegetation such as grass, isolated obstacles at least 20 obstacle heights apart' },
+  III: { roughnessLengthM: 0.3, minimumHeightM: 5, description: 'regular cover of vegetation or buildings, isolated obstacles (villages, suburbs, forest)' },
+  IV: { roughnessLengthM: 1.0, minimumHeightM: 10, description: 'at least 15 % of the surface covered by buildings higher than 15 m' },
+};
+
+/** z_max of EN 1991-1-4 §4.3.2, m. */
+export const profileMaximumHeightM = 200;
+/** Roughness length of category II, the reference terrain of expression 4.5, m. */
+const referenceRoughnessLengthM = 0.05;
+/** Turbulence factor k_I, recommended value (EN 1991-1-4 §4.4 note 2). */
+const turbulenceFactor = 1.0;
+
+function parametersOf(caller: string, category: TerrainCategory): TerrainParameters {
+  const parameters = terrainParameters[category];
+  if (parameters === undefined) {
+    throw new RangeError(`${caller}: terrainCategory must be one of ${terrainCategories.join(', ')}, got ${String(category)}`);
+  }
+  return parameters;
+}
+
+function assertHeight(caller: string, name: string, heightM: number): void {
+  assertInRange(caller, name, heightM, 0, profileMaximumHeightM, 'm');
+}
+
+/** ln(z/z0) with z clamped to z_min from below: the shape shared by 4.4 and 4.7. */
+function logHeightRatio(heightM: number, parameters: TerrainParameters): number {
+  return Math.log(Math.max(heightM, parameters.minimumHeightM) / parameters.roughnessLengthM);
+}
+
+/** Terrain factor k_r = 0.19 (z0 / z0,II)^0.07 (EN 1991-1-4 expression 4.5). */
+export function terrainFactor(category: TerrainCategory): number {
+  const { roughnessLengthM } = parametersOf('terrainFactor', category);
+  return 0.19 * (roughnessLengthM / referenceRoughnessLengthM) ** 0.07;
+}
+
+/** Roughness factor c_r(z) = k_r ln(z/z0), c_r(z_min) below z_min (EN 1991-1-4 expression 4.4). */
+export function roughnessFactor(heightM: number, category: TerrainCategory): number {
+  assertHeight('roughnessFactor', 'heightM', heightM);
+  return terrainFactor(category) * logHeightRatio(heightM, parametersOf('roughnessFactor', category));
+}
+
+/** Turbulence intensity I_v(z) = k_I / (c_0 ln(z/z0)), I_v(z_min) below z_min (EN 1991-1-4 expression 4.7). */
+export function turbulenceIntensity(heightM: number, category: TerrainCategory, orographyFactor = 1): number {
+  assertHeight('turbulenceIntensity', 'heightM', heightM);
+  assertAbove('turbulenceIntensity', 'orographyFactor', orographyFactor, 0);
+  return turbulenceFactor / (orographyFactor * logHeightRatio(heightM, parametersOf('turbulenceIntensity', category)));
+}
+
+export interface ProfileInput {
+  /** Basic wind velocity v_b (10-minute mean at 10 m in category II), m/s. */
+  baseWindMps: number;
+  heightM: number;
+  terrainCategory: TerrainCategory;
+  /** Orography factor c_0 (1 on flat terrain). */
+  orographyFactor?: number;
+}
+
+/** Mean wind v_m(z) = c_r(z) c_0(z) v_b in m/s (EN 1991-1-4 expression 4.3). */
+export function meanWindMps({ baseWindMps, heightM, terrainCategory, orographyFactor = 1 }: ProfileInput): number {
+  assertInRange('meanWindMps', 'baseWindMps', baseWindMps, 0, 120, 'm/s');
+  assertAbove('meanWindMps', 'orographyFactor', orographyFactor, 0);
+  return roughnessFactor(heightM, terrainCategory) * orographyFactor * baseWindMps;
+}
+
+/**
+ * Peak velocity pressure q_p(z) = [1 + 7 I_v(z)] ½ ρ v_m(z)² in Pa (EN 1991-1-4 expression 4.8).
+ * ρ defaults to 1.25 kg/m³, the value EN 1991-1-4 §4.5 recommends.
+ */
+export function peakVelocityPressurePa(input: ProfileInput & { airDensityKgM3?: number }): number {
+  const { heightM, terrainCategory, orographyFactor = 1, airDensityKgM3 = 1.25 } = input;
+  assertAbove('peakVelocityPressurePa', 'airDensityKgM3', airDensityKgM3, 0);
+  const meanMps = meanWindMps(input);
+  return (1 + 7 * turbulenceIntensity(heightM, terrainCategory, orographyFactor)) * dynamicPressurePa(meanMps, airDensityKgM3);
+}
+
+/**
+ * Exposure factor c_e(z) = q_p(z)/q_b = [1 + 7 I_v(z)] c_r(z)² c_0(z)² (EN 1991-1-4 expression 4.9):
+ * independent of v_b and ρ.
+ */
+export function exposureFactor(heightM: number, category: TerrainCategory, orographyFactor = 1): number {
+  const speedRatio = roughnessFactor(heightM, category) * orographyFactor;
+  return (1 + 7 * turbulenceIntensity(heightM, category, orographyFactor)) * speedRatio * speedRatio;
+}
+
+export interface GustHeightTransfer {
+  /** Height of the anemometer z_a, m. */
+  fromHeightM: number;
+  /** Reference height of the structure z_s (by default its top), m. */
+  toHeightM: number;
+  terrainCategory: TerrainCategory;
+  /**
+   * Whether a factor below 1 (structure lower than the anemometer) may be applied. Off by default:
+   * a lower wind at the structure is credited only when the competent person says so (design §2.2).
+   */
+  allowReduction: boolean;
+}
+
+/**
+ * Factor on a measured gust to get the gust at the structure: √(q_p(z_s)/q_p(z_a)), the peak
+ * velocity pressure profile of EN 1991-1-4 4.8 (the ratio of exposure factors, so neither v_b nor
+ * ρ enters). A factor above 1 is always applied; below 1 only when `allowReduction`.
+ */
+export function gustHeightFactor({ fromHeightM, toHeightM, terrainCategory, allowReduction }: GustHeightTransfer): number {
+  assertHeight('gustHeightFactor', 'fromHeightM', fromHeightM);
+  assertHeight('gustHeightFactor', 'toHeightM', toHeightM);
+  const ratio = Math.sqrt(exposureFactor(toHeightM, terrainCategory) / exposureFactor(fromHeightM, terrainCategory));
+  return allowReduction ? ratio : Math.max(1, ratio);
+}
+
+export interface LogLawTransfer {
+  speedMps: number;
+  fromHeightM: number;
+  toHeightM: number;
+  roughnessLengthM: number;
+}
+
+/**
+ * Mean wind moved to another height over the same terrain by the log law:
+ * u2 = u1 ln(z2/z0) / ln(z1/z0) (references §8). For mean winds only; gusts go with `gustHeightFactor`.
+ */
+export function logLawSpeedMps({ speedMps, fromHeightM, toHeightM, roughnessLengthM }: LogLawTransfer): number {
+  const caller = 'logLawSpeedMps';
+  assertInRange(caller, 'speedMps', speedMps, 0, 120, 'm/s');
+  assertAbove(caller, 'roughnessLengthM', roughnessLengthM, 0, 5, 'm');
+  assertAbove(caller, 'fromHeightM', fromHeightM, roughnessLengthM, profileMaximumHeightM, 'm');
+  assertAbove(caller, 'toHeightM', toHeightM, roughnessLengthM, profileMaximumHeightM, 'm');
+  return (speedMps * Math.log(toHeightM / roughnessLengthM)) / Math.log(fromHeightM / roughnessLengthM);
+}
+
+/**
+ * Mean wind moved by the power law u2 = u1 (z2/z1)^α, α ≈ 1/7 over open country (from memory:
+ * references §8). A cross-check of the log law, not used for assessments.
+ */
+export function powerLawSpeedMps(speedMps: number, fromHeightM: number, toHeightM: number, exponent = 1 / 7): number {
+  const caller = 'powerLawSpeedMps';
+  assertInRange(caller, 'speedMps', speedMps, 0, 120, 'm/s');
+  assertAbove(caller, 'fromHeightM', fromHeightM, 0, profileMaximumHeightM, 'm');
+  assertAbove(caller, 'toHeightM', toHeightM, 0, profileMaximumHeightM, 'm');
+  assertAbove(caller, 'exponent', exponent, 0, 1);
+  return speedMps * (toHeightM / fromHeightM) ** exponent;
+}
+
+export interface CrossTerrainTransfer {
+  /** Mean wind measured at `fromHeightM` over `fromCategory`, m/s. */
+  meanWindMps: number;
+  fromHeightM: number;
+  fromCategory: TerrainCategory;
+  toHeightM: number;
+  toCategory: TerrainCategory;
+}
+
+/**
+ * Mean wind moved across terrains (EN form, fully developed flow, references §8): the equivalent
+ * basic wind v_b,eq = v_m / c_r,A(z1), then v_m,B(z2) = c_r,B(z2) v_b,eq. c_r clamps at z_min.
+ */
+export function crossTerrainMeanWindMps(transfer: CrossTerrainTransfer): number {
+  const { meanWindMps: measuredMps, fromHeightM, fromCategory, toHeightM, toCategory } = transfer;
+  assertInRange('crossTerrainMeanWindMps', 'meanWindMps', measuredMps, 0, 120, 'm/s');
+  const equivalentBaseWindMps = measuredMps / roughnessFactor(fromHeightM, fromCategory);
+  return roughnessFactor(toHeightM, toCategory) * equivalentBaseWindMps;
+}
