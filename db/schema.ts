@@ -235,3 +235,51 @@ export const metaTable = sqliteTable('meta', {
   value: text().notNull(),
   updatedAtMs: integer('updated_at_ms').notNull().default(sql`0`),
 });
+
+/** People who sign in. Roles: 'viewer' < 'crew' < 'competent-person' < 'admin'. */
+export const peopleTable = sqliteTable(
+  'people',
+  {
+    id: integer().primaryKey({ autoIncrement: true }),
+    username: text().notNull(),
+    displayName: text('display_name').notNull(),
+    role: text().notNull(),
+    /** scrypt hash (server/auth/password.ts). */
+    passwordHash: text('password_hash').notNull(),
+    createdAtMs: integer('created_at_ms').notNull(),
+    disabledAtMs: integer('disabled_at_ms'),
+  },
+  (t) => [uniqueIndex('people_username_unique').on(t.username)],
+);
+
+/**
+ * Signed-in sessions. The cookie holds a random token; only its SHA-256 is stored, so a copy of
+ * the database signs nobody in. A session opened through a site link has `siteLinkId` and no person.
+ */
+export const sessionsTable = sqliteTable(
+  'sessions',
+  {
+    tokenHash: text('token_hash').primaryKey(),
+    personId: integer('person_id'),
+    siteLinkId: integer('site_link_id'),
+    csrfToken: text('csrf_token').notNull(),
+    createdAtMs: integer('created_at_ms').notNull(),
+    expiresAtMs: integer('expires_at_ms').notNull(),
+  },
+  (t) => [index('sessions_person').on(t.personId)],
+);
+
+/** Read-only links for stewards: a long random token (stored hashed), revocable, with expiry. */
+export const siteLinksTable = sqliteTable(
+  'site_links',
+  {
+    id: integer().primaryKey({ autoIncrement: true }),
+    tokenHash: text('token_hash').notNull(),
+    label: text().notNull(),
+    createdBy: text('created_by').notNull(),
+    createdAtMs: integer('created_at_ms').notNull(),
+    expiresAtMs: integer('expires_at_ms').notNull(),
+    revokedAtMs: integer('revoked_at_ms'),
+  },
+  (t) => [uniqueIndex('site_links_token_unique').on(t.tokenHash)],
+);

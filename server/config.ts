@@ -32,6 +32,11 @@ export interface Config {
   rawRetentionDays: number;
   /** Log level for pino (LOG_LEVEL, default info). */
   logLevel: string;
+  /** First administrator, created on first start when both are set (ADMIN_USERNAME, ADMIN_PASSWORD). */
+  adminUsername: string | null;
+  adminPassword: string | null;
+  /** Behind a TLS reverse proxy: trust X-Forwarded-Proto / X-Forwarded-For (TRUST_PROXY=1). */
+  trustProxy: boolean;
   /** Run the invented demo site with simulated anemometers. */
   demo: boolean;
   /** Seed of the demo wind (DEMO_SEED, default 20260614). */
@@ -79,6 +84,9 @@ export function configFromEnv(env: NodeJS.ProcessEnv = process.env, argv: readon
     topicPrefix,
     rawRetentionDays: intVar(env, 'RAW_RETENTION_DAYS', 90, 1, 36_500),
     logLevel: textVar(env, 'LOG_LEVEL') ?? 'info',
+    adminUsername: textVar(env, 'ADMIN_USERNAME'),
+    adminPassword: textVar(env, 'ADMIN_PASSWORD'),
+    trustProxy: env.TRUST_PROXY === '1' || env.TRUST_PROXY === 'true',
     demo: argv.includes('--demo') || env.DEMO === '1',
     demoSeed: intVar(env, 'DEMO_SEED', 20260614, 0, 2 ** 31 - 1),
   };

@@ -3,11 +3,16 @@
  * path. Created by the composition root (server/main.ts) with the services it needs; tests build
  * it in-process and call `app.request(...)`.
  */
+import fs from 'node:fs';
+import path from 'node:path';
+import { serveStatic } from '@hono/node-server/serve-static';
 import { Hono } from 'hono';
 import { bodyLimit } from 'hono/body-limit';
 import { secureHeaders } from 'hono/secure-headers';
 import { HttpError } from './httpError.ts';
 import { assessRoute } from './assess.ts';
+import { resolvePrincipal, type AccessOptions, type AppEnv } from './access.ts';
+import type { Logger } from '../log.ts';
 
 export interface HealthSource {
   /** The health report; `ok` false answers 503 so probes notice. */
@@ -16,8 +21,10 @@ export interface HealthSource {
 
 export interface AppServices {
   health: HealthSource;
-  /** Extra route groups mounted under /api (sensors, structures, log...). */
-  routes?: ReadonlyArray<{ path: string; app: Hono }>;
+  log: Logger;
+  access: AccessOptions;
+  /** Route groups and where they are mounted (sensors, structures, log...). */
+  routes?: ReadonlyArray<{ path: string; app: Hono<AppEnv> }>;
   /** Serves the built web app when given. */
   staticRoot?: string;
 }
@@ -25,8 +32,8 @@ export interface AppServices {
 /** Largest request body accepted (an import of a whole register fits comfortably). */
 export const maxBodyBytes = 2 * 1024 * 1024;
 
-export function createApp(services: AppServices): Hono {
-  const app = new Hono();
+export function createApp(services: AppServices): Hono<AppEnv> {
+  const app = new Hono<AppEnv>();
 
   app.use(
     '*',
@@ -53,6 +60,8 @@ export function createApp(services: AppServices): Hono {
     }),
   );
 
+  app.use('*', resolvePrincipal(services.access));
+
   app.get('/api/health', (c) => {
     const report = services.health.health();
     return c.json(report, report.ok ? 200 : 503);
@@ -60,6 +69,18 @@ export function createApp(services: AppServices): Hono {
   app.route('/api/assess', assessRoute);
   for (const group of services.routes ?? []) app.route(group.path, group.app);
 
+  app.all('/api/*', (c) => c.json({ error: 'not found' }, 404));
+  if (services.staticRoot && fs.existsSync(path.join(services.staticRoot, 'index.html'))) {
+    const root = path.relative(process.cwd(), services.staticRoot) || '.';
+    app.use('/assets/*', async (c, next) => {
+      await next();
+      // Built assets carry a content hash in their names: cache them for a year.
+      if (c.res.status === 200) c.header('Cache-Control', 'public, max-age=31536000, immutable');
+    });
+    app.use('*', serveStatic({ root }));
+    // Every other path is a screen of the single-page app.
+    app.get('*', serveStatic({ root, path: 'index.html' }));
+  }
   app.notFound((c) => c.json({ error: 'not found' }, 404));
   app.onError((err, c) => {
     if (err instanceof HttpError) {
@@ -69,7 +90,7 @@ export function createApp(services: AppServices): Hono {
       return c.json({ error: 'invalid input', issues: [{ path: '', message: 'body is not valid JSON' }] }, 400);
     }
     // Anything else is our fault: log it, tell the caller nothing about the inside.
-    console.error(err);
+    services.log.error({ err: err instanceof Error ? { message: err.message, stack: err.stack } : String(err), path: c.req.path }, 'request failed');
     return c.json({ error: 'internal error' }, 500);
   });
   return app;

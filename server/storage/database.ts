@@ -6,10 +6,13 @@ import fs from 'node:fs';
 import path from 'node:path';
 import Database from 'better-sqlite3';
 import { drizzle, type BetterSQLite3Database } from 'drizzle-orm/better-sqlite3';
+import type { BaseSQLiteDatabase } from 'drizzle-orm/sqlite-core';
 import { migrate } from 'drizzle-orm/better-sqlite3/migrator';
 import * as schema from '../../db/schema.ts';
 
 export type Db = BetterSQLite3Database<typeof schema> & { $client: Database.Database };
+/** The database or a transaction on it: what query functions take, so they compose inside transactions. */
+export type Tx = BaseSQLiteDatabase<'sync', Database.RunResult, typeof schema>;
 
 export interface OpenedDatabase {
   db: Db;

@@ -1,0 +1,49 @@
+/**
+ * Sign-in rate limiting: after `maxFailures` failed attempts within `windowMs` for the same
+ * username, or from the same address, further attempts are refused until the window has passed.
+ * A successful sign-in clears the username's count. In memory: a restart forgets, which costs an
+ * attacker a restart they cannot cause.
+ */
+export interface SignInLimiterOptions {
+  maxFailures: number;
+  windowMs: number;
+}
+
+export class SignInLimiter {
+  private readonly failures = new Map<string, number[]>();
+
+  constructor(private readonly options: SignInLimiterOptions = { maxFailures: 5, windowMs: 15 * 60_000 }) {}
+
+  /** Milliseconds until another attempt is allowed for any of `keys`, 0 when allowed now. */
+  retryAfterMs(keys: readonly string[], nowMs: number): number {
+    let wait = 0;
+    for (const key of keys) {
+      const recent = this.recent(key, nowMs);
+      if (recent.length >= this.options.maxFailures) wait = Math.max(wait, recent[0]! + this.options.windowMs - nowMs);
+    }
+    return wait;
+  }
+
+  fail(keys: readonly string[], nowMs: number): void {
+    for (const key of keys) {
+      const recent = this.recent(key, nowMs);
+      recent.push(nowMs);
+      this.failures.set(key, recent);
+    }
+    if (this.failures.size > 10_000) this.prune(nowMs);
+  }
+
+  succeed(key: string): void {
+    this.failures.delete(key);
+  }
+
+  private recent(key: string, nowMs: number): number[] {
+    return (this.failures.get(key) ?? []).filter((t) => nowMs - t < this.options.windowMs);
+  }
+
+  private prune(nowMs: number): void {
+    for (const [key, times] of this.failures) {
+      if (times.every((t) => nowMs - t >= this.options.windowMs)) this.failures.delete(key);
+    }
+  }
+}

@@ -1,0 +1,138 @@
+/**
+ * Sign-in, sign-out, first-administrator setup, people (administrators) and site links
+ * (competent person). Mounted at /api; the site-link opener at /link/:token.
+ */
+import { Hono } from 'hono';
+import { z } from 'zod';
+import { personInputSchema, personUpdateSchema, principalName, type Accounts } from '../../auth/accounts.ts';
+import type { SignInLimiter } from '../../auth/signInLimiter.ts';
+import { clearSessionCookie, requestIsSecure, requireRole, setSessionCookie, type AppEnv } from '../access.ts';
+import { HttpError } from '../httpError.ts';
+import { idParam, jsonBody } from '../validate.ts';
+
+export interface AccessRouteDeps {
+  accounts: Accounts;
+  limiter: SignInLimiter;
+  now: () => number;
+  trustProxy: boolean;
+}
+
+const signInSchema = z.strictObject({ username: z.string().min(1).max(64), password: z.string().min(1).max(200) });
+const setupSchema = z.strictObject({
+  code: z.string().min(1).max(100),
+  username: personInputSchema.shape.username,
+  displayName: personInputSchema.shape.displayName,
+  password: personInputSchema.shape.password,
+});
+const siteLinkSchema = z.strictObject({
+  label: z.string().trim().min(1, 'label must not be empty').max(100),
+  /** How long the link works, hours (at most 31 days: a festival and its build and break). */
+  validHours: z.number().gt(0).max(31 * 24).default(72),
+});
+
+function clientAddress(c: { req: { header(name: string): string | undefined } }, trustProxy: boolean, fallback: string): string {
+  if (trustProxy) {
+    const forwarded = c.req.header('x-forwarded-for');
+    if (forwarded) return forwarded.split(',')[0]!.trim();
+  }
+  return fallback;
+}
+
+export function accessRoutes(deps: AccessRouteDeps): Hono<AppEnv> {
+  const { accounts, limiter, now } = deps;
+  const api = new Hono<AppEnv>();
+
+  api.get('/session', (c) => {
+    const p = c.get('principal');
+    if (!p) return c.json({ signedIn: false, setupPending: accounts.setupPending });
+    return c.json({
+      signedIn: true,
+      kind: p.kind,
+      name: principalName(p),
+      role: p.role,
+      person: p.kind === 'person' ? p.person : null,
+      csrfToken: p.csrfToken,
+    });
+  });
+
+  api.post('/session', async (c) => {
+    const input = await jsonBody(c, signInSchema);
+    const remote = (c.env as { incoming?: { socket?: { remoteAddress?: string } } } | undefined)?.incoming?.socket?.remoteAddress ?? 'local';
+    const keys = [`user:${input.username.toLowerCase()}`, `addr:${clientAddress(c, deps.trustProxy, remote)}`];
+    const waitMs = limiter.retryAfterMs(keys, now());
+    if (waitMs > 0) {
+      c.header('Retry-After', String(Math.ceil(waitMs / 1000)));
+      throw new HttpError(429, `too many failed sign-ins; try again in ${Math.ceil(waitMs / 60_000)} min`);
+    }
+    const person = await accounts.checkPassword(input.username, input.password);
+    if (!person) {
+      limiter.fail(keys, now());
+      throw new HttpError(401, 'wrong username or password');
+    }
+    limiter.succeed(keys[0]!);
+    const session = accounts.openSession({ personId: person.id }, now());
+    setSessionCookie(c, session.token, session.expiresAtMs, requestIsSecure(c, deps.trustProxy));
+    return c.json({ signedIn: true, person, role: person.role, csrfToken: session.csrfToken, expiresAtMs: session.expiresAtMs });
+  });
+
+  api.delete('/session', (c) => {
+    const p = c.get('principal');
+    if (p) accounts.closeSession(p.sessionTokenHash);
+    clearSessionCookie(c);
+    return c.json({ signedIn: false });
+  });
+
+  api.post('/session/everywhere', requireRole('viewer'), (c) => {
+    const p = c.get('principal')!;
+    if (p.kind !== 'person') throw new HttpError(403, 'a site link has no other sessions');
+    const closed = accounts.closeAllSessionsOf(p.person.id);
+    clearSessionCookie(c);
+    return c.json({ signedIn: false, closedSessions: closed });
+  });
+
+  api.get('/setup', (c) => c.json({ setupPending: accounts.setupPending }));
+  api.post('/setup', async (c) => {
+    const input = await jsonBody(c, setupSchema);
+    const person = await accounts.completeSetup(input.code, input, now());
+    return c.json({ person }, 201);
+  });
+
+  api.get('/people', requireRole('admin'), (c) => c.json({ people: accounts.listPeople() }));
+  api.post('/people', requireRole('admin'), async (c) => {
+    const input = await jsonBody(c, personInputSchema);
+    return c.json({ person: await accounts.createPerson(input, principalName(c.get('principal')), now()) }, 201);
+  });
+  api.patch('/people/:id', requireRole('admin'), async (c) => {
+    const patch = await jsonBody(c, personUpdateSchema);
+    return c.json({ person: await accounts.updatePerson(idParam(c), patch, principalName(c.get('principal')), now()) });
+  });
+
+  api.get('/site-links', requireRole('competent-person'), (c) => c.json({ siteLinks: accounts.listSiteLinks() }));
+  api.post('/site-links', requireRole('competent-person'), async (c) => {
+    const input = await jsonBody(c, siteLinkSchema);
+    const link = accounts.createSiteLink(input.label, input.validHours * 3600_000, principalName(c.get('principal')), now());
+    const origin = new URL(c.req.url).origin;
+    return c.json({ id: link.id, label: input.label, expiresAtMs: link.expiresAtMs, url: `${origin}/link/${link.token}` }, 201);
+  });
+  api.delete('/site-links/:id', requireRole('competent-person'), (c) => {
+    accounts.revokeSiteLink(idParam(c), principalName(c.get('principal')), now());
+    return c.json({ revoked: true });
+  });
+
+  return api;
+}
+
+/** GET /link/:token — opens a read-only session for a steward and goes to the live board. */
+export function siteLinkOpener(deps: AccessRouteDeps): Hono<AppEnv> {
+  const app = new Hono<AppEnv>();
+  app.get('/:token', (c) => {
+    const link = deps.accounts.liveSiteLink(c.req.param('token'), deps.now());
+    if (!link) return c.text('This site link is not valid: it may have expired or been withdrawn. Ask the site office for a new one.', 404);
+    const lifetime = Math.max(0, link.expiresAtMs - deps.now());
+    const session = deps.accounts.openSession({ siteLinkId: link.id }, deps.now(), lifetime);
+    setSessionCookie(c, session.token, session.expiresAtMs, requestIsSecure(c, deps.trustProxy));
+    c.header('Referrer-Policy', 'no-referrer');
+    return c.redirect('/', 303);
+  });
+  return app;
+}

@@ -1,0 +1,21 @@
+/** What the API routes work with, handed over by the composition root. */
+import type { Accounts } from '../../auth/accounts.ts';
+import type { Registry } from '../../ingest/registry.ts';
+import type { RejectionLog } from '../../ingest/rejections.ts';
+import type { LiveHub } from '../../live/liveHub.ts';
+import type { Db } from '../../storage/database.ts';
+import type { Watch } from '../../watch/watch.ts';
+
+export interface ApiContext {
+  db: Db;
+  registry: Registry;
+  watch: Watch;
+  hub: LiveHub;
+  rejections: RejectionLog;
+  accounts: Accounts;
+  now: () => number;
+  /** Re-reads the register into the live watch after a change. */
+  reloadRegister: () => void;
+  topicPrefix: string;
+  health: () => Record<string, unknown>;
+}

@@ -1,0 +1,85 @@
+/**
+ * The site: where the event is (altitude, terrain category, time zone), how air density is
+ * found, whether the height transfer may reduce gusts and whether wind direction is used, the
+ * dead band and hold time of the levels, and the default levels. One site per server; the
+ * schema allows more for a later version that runs several.
+ */
+import { eq } from 'drizzle-orm';
+import { z } from 'zod';
+import { sitesTable } from '../../db/schema.ts';
+import { HttpError } from '../http/httpError.ts';
+import { levelListSchema } from '../levels/levelDefinition.ts';
+import { siteDefaultLevels } from '../levels/siteDefaultLevels.ts';
+import type { Db, Tx } from '../storage/database.ts';
+import { recordAudit } from './audit.ts';
+
+export const terrainCategories = ['0', 'I', 'II', 'III', 'IV'] as const;
+
+function isTimeZone(value: string): boolean {
+  try {
+    new Intl.DateTimeFormat('en', { timeZone: value });
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+export const siteUpdateSchema = z
+  .strictObject({
+    name: z.string().trim().min(1, 'name must not be empty').max(120),
+    altitudeM: z.number().min(-500, 'altitude below −500 m is not a place for an event').max(5000, 'altitude above 5000 m is outside ISA use here'),
+    terrainCategory: z.enum(terrainCategories),
+    timeZone: z.string().refine(isTimeZone, 'not an IANA time zone (e.g. Europe/London)'),
+    airDensityMode: z.enum(['isa', 'measured', 'fixed']),
+    /** Used when airDensityMode is 'fixed'; EN 1991-1-4 recommends 1.25 kg/m³. */
+    fixedAirDensityKgM3: z.number().min(0.9).max(1.5).nullable(),
+    heightReductionEnabled: z.boolean(),
+    directionalEnabled: z.boolean(),
+    deadBandFraction: z.number().min(0).max(0.5),
+    holdTimeMs: z.number().int().min(0).max(6 * 3600_000),
+    defaultLevels: levelListSchema,
+  })
+  .partial()
+  .superRefine((site, ctx) => {
+    if (site.airDensityMode === 'fixed' && (site.fixedAirDensityKgM3 === undefined || site.fixedAirDensityKgM3 === null)) {
+      ctx.addIssue({ code: 'custom', path: ['fixedAirDensityKgM3'], message: 'a fixed density is needed when airDensityMode is "fixed"' });
+    }
+  });
+
+export type SiteRow = typeof sitesTable.$inferSelect;
+
+export function getSite(db: Tx): SiteRow {
+  const row = db.select().from(sitesTable).orderBy(sitesTable.id).limit(1).get();
+  if (!row) throw HttpError.notFound('site');
+  return row;
+}
+
+/** On a fresh database: one site with conservative defaults (ISA, no height reduction, no direction). */
+export function ensureSite(db: Db, nowMs: number, name = 'Event site'): SiteRow {
+  const existing = db.select().from(sitesTable).orderBy(sitesTable.id).limit(1).get();
+  if (existing) return existing;
+  return db
+    .insert(sitesTable)
+    .values({ name, defaultLevelsJson: siteDefaultLevels, createdAtMs: nowMs, updatedAtMs: nowMs })
+    .returning()
+    .get();
+}
+
+export function updateSite(db: Db, patch: z.infer<typeof siteUpdateSchema>, actor: string, nowMs: number): SiteRow {
+  return db.transaction((tx) => {
+    const before = getSite(tx);
+    const { defaultLevels, ...rest } = patch;
+    const mode = rest.airDensityMode ?? before.airDensityMode;
+    if (mode === 'fixed' && (rest.fixedAirDensityKgM3 ?? before.fixedAirDensityKgM3) === null) {
+      throw HttpError.invalid([{ path: 'fixedAirDensityKgM3', message: 'a fixed density is needed when airDensityMode is "fixed"' }]);
+    }
+    const after = tx
+      .update(sitesTable)
+      .set({ ...rest, ...(defaultLevels ? { defaultLevelsJson: defaultLevels } : {}), updatedAtMs: nowMs })
+      .where(eq(sitesTable.id, before.id))
+      .returning()
+      .get();
+    recordAudit(tx, { actor, entity: 'site', entityId: before.id, action: 'update', before, after }, nowMs);
+    return after;
+  });
+}

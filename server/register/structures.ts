@@ -1,0 +1,180 @@
+/**
+ * Registering structures: the engine record (kind and dimensions, coefficients with sources,
+ * masses and ballast, safety factors, rated gust) plus where it stands and faces, which sensors
+ * govern it, whether it moves, and its own levels when the site's defaults do not fit.
+ * Every change is written to the audit trail in the same transaction.
+ */
+import { eq, isNull } from 'drizzle-orm';
+import { z } from 'zod';
+import { structuresTable, sensorsTable } from '../../db/schema.ts';
+import { expandStructure, isaAirDensityKgM3, validateStructureRecord, type StructureRecord } from '../engine/index.ts';
+import { HttpError, type FieldIssue } from '../http/httpError.ts';
+import { checkLevelOrder, levelListSchema, type LevelDefinition } from '../levels/index.ts';
+import type { Db, Tx } from '../storage/database.ts';
+import { rawTriggerGustsMps, structureModel } from '../watch/structureModel.ts';
+import { recordAudit } from './audit.ts';
+import { getSite } from './site.ts';
+
+export const structureInputSchema = z.strictObject({
+  /** The engine record: kind, name, dimensions, coefficients, masses (design.md 4). */
+  record: z.unknown(),
+  /** Azimuth the front faces toward, degrees clockwise from north. */
+  orientationDeg: z.number().min(0).max(360).default(0),
+  location: z.string().trim().max(200).default(''),
+  latDeg: z.number().min(-90).max(90).nullable().default(null),
+  lonDeg: z.number().min(-180).max(180).nullable().default(null),
+  /** Height the gust is transferred to, m; null = the structure's top. */
+  referenceHeightM: z.number().gt(0).max(200).nullable().default(null),
+  mobile: z.boolean().default(false),
+  /** Sensors whose wind governs; null or [] = every sensor on the site, the highest wins. */
+  sensorKeys: z.array(z.string()).max(200).nullable().default(null),
+  /** Own levels; null = the site's defaults. */
+  levels: levelListSchema.nullable().default(null),
+});
+export type StructureInput = z.infer<typeof structureInputSchema>;
+export const structureUpdateSchema = structureInputSchema.partial();
+
+export type StructureRow = typeof structuresTable.$inferSelect;
+
+export interface StructureView {
+  id: number;
+  name: string;
+  kind: string;
+  record: StructureRecord;
+  orientationDeg: number;
+  location: string;
+  latDeg: number | null;
+  lonDeg: number | null;
+  referenceHeightM: number | null;
+  mobile: boolean;
+  sensorKeys: string[] | null;
+  /** Own levels, or null when the site's defaults apply. */
+  levels: LevelDefinition[] | null;
+  createdAtMs: number;
+  updatedAtMs: number;
+}
+
+export function structureView(row: StructureRow): StructureView {
+  return {
+    id: row.id,
+    name: row.name,
+    kind: row.kind,
+    record: row.recordJson as StructureRecord,
+    orientationDeg: row.orientationDeg,
+    location: row.location,
+    latDeg: row.latDeg,
+    lonDeg: row.lonDeg,
+    referenceHeightM: row.referenceHeightM,
+    mobile: row.mobile,
+    sensorKeys: (row.sensorKeysJson as string[] | null) ?? null,
+    levels: (row.levelsJson as LevelDefinition[] | null) ?? null,
+    createdAtMs: row.createdAtMs,
+    updatedAtMs: row.updatedAtMs,
+  };
+}
+
+/**
+ * Checks a structure as a whole: the record (every field), that its sensors exist, and that its
+ * levels' trigger gusts rise from level to level at the site's ISA density. Returns the parsed
+ * record or throws 400 naming every problem.
+ */
+export function checkStructure(tx: Tx, input: StructureInput): StructureRecord {
+  const issues: FieldIssue[] = [];
+  const validation = validateStructureRecord(input.record);
+  if (!validation.ok) issues.push(...validation.issues.map((i) => ({ path: i.path ? `record.${i.path}` : 'record', message: i.message })));
+  if (input.sensorKeys && input.sensorKeys.length > 0) {
+    const known = new Set(tx.select({ key: sensorsTable.key }).from(sensorsTable).where(isNull(sensorsTable.retiredAtMs)).all().map((r) => r.key));
+    input.sensorKeys.forEach((key, i) => {
+      if (!known.has(key)) issues.push({ path: `sensorKeys.${i}`, message: `no sensor is registered with key "${key}"` });
+    });
+  }
+  if (!validation.ok) throw HttpError.invalid(issues);
+  const record = validation.record;
+  try {
+    const { referenceHeightM } = expandStructure(record);
+    const site = getSite(tx);
+    const model = structureModel(
+      { id: 0, name: record.name, kind: record.kind, recordJson: record, orientationDeg: input.orientationDeg, referenceHeightM: input.referenceHeightM ?? referenceHeightM, mobile: input.mobile, sensorKeysJson: null, levelsJson: input.levels },
+      site.defaultLevelsJson as LevelDefinition[],
+    );
+    // Mixed utilization and gust triggers can only be ordered once the structure is known.
+    const gusts = rawTriggerGustsMps(model, isaAirDensityKgM3(site.altitudeM));
+    for (const i of checkLevelOrder(gusts)) {
+      issues.push({
+        path: `levels.${i}.trigger`,
+        message: `level ${i + 1} triggers at ${gusts[i]!.toFixed(1)} m/s for this structure, not above level ${i} (${(gusts[i - 1] ?? 0).toFixed(1)} m/s)`,
+      });
+    }
+  } catch (err) {
+    issues.push({ path: 'record', message: err instanceof Error ? err.message : String(err) });
+  }
+  if (issues.length > 0) throw HttpError.invalid(issues);
+  return record;
+}
+
+export function listStructures(db: Tx): StructureView[] {
+  return db.select().from(structuresTable).where(isNull(structuresTable.retiredAtMs)).orderBy(structuresTable.name).all().map(structureView);
+}
+
+export function getStructureRow(db: Tx, id: number): StructureRow {
+  const row = db.select().from(structuresTable).where(eq(structuresTable.id, id)).get();
+  if (!row || row.retiredAtMs !== null) throw HttpError.notFound(`structure ${id}`);
+  return row;
+}
+
+function rowValues(input: StructureInput, record: StructureRecord) {
+  return {
+    name: record.name,
+    kind: record.kind,
+    recordJson: record,
+    orientationDeg: input.orientationDeg,
+    location: input.location,
+    latDeg: input.latDeg,
+    lonDeg: input.lonDeg,
+    referenceHeightM: input.referenceHeightM,
+    mobile: input.mobile,
+    sensorKeysJson: input.sensorKeys && input.sensorKeys.length > 0 ? input.sensorKeys : null,
+    levelsJson: input.levels,
+  };
+}
+
+export function createStructure(db: Db, siteId: number, input: StructureInput, actor: string, nowMs: number): StructureView {
+  return db.transaction((tx) => {
+    const record = checkStructure(tx, input);
+    const row = tx.insert(structuresTable).values({ siteId, ...rowValues(input, record), createdAtMs: nowMs, updatedAtMs: nowMs }).returning().get();
+    const view = structureView(row);
+    recordAudit(tx, { actor, entity: 'structure', entityId: row.id, action: 'create', after: view }, nowMs);
+    return view;
+  });
+}
+
+export function updateStructure(db: Db, id: number, patch: z.infer<typeof structureUpdateSchema>, actor: string, nowMs: number): StructureView {
+  return db.transaction((tx) => {
+    const before = structureView(getStructureRow(tx, id));
+    const merged: StructureInput = {
+      record: patch.record ?? before.record,
+      orientationDeg: patch.orientationDeg ?? before.orientationDeg,
+      location: patch.location ?? before.location,
+      latDeg: patch.latDeg === undefined ? before.latDeg : patch.latDeg,
+      lonDeg: patch.lonDeg === undefined ? before.lonDeg : patch.lonDeg,
+      referenceHeightM: patch.referenceHeightM === undefined ? before.referenceHeightM : patch.referenceHeightM,
+      mobile: patch.mobile ?? before.mobile,
+      sensorKeys: patch.sensorKeys === undefined ? before.sensorKeys : patch.sensorKeys,
+      levels: patch.levels === undefined ? before.levels : patch.levels,
+    };
+    const record = checkStructure(tx, merged);
+    const row = tx.update(structuresTable).set({ ...rowValues(merged, record), updatedAtMs: nowMs }).where(eq(structuresTable.id, id)).returning().get();
+    const after = structureView(row);
+    recordAudit(tx, { actor, entity: 'structure', entityId: id, action: 'update', before, after }, nowMs);
+    return after;
+  });
+}
+
+/** Retires a structure: it leaves the live board, its history stays in the log. */
+export function retireStructure(db: Db, id: number, actor: string, nowMs: number): void {
+  db.transaction((tx) => {
+    const before = structureView(getStructureRow(tx, id));
+    tx.update(structuresTable).set({ retiredAtMs: nowMs, updatedAtMs: nowMs }).where(eq(structuresTable.id, id)).run();
+    recordAudit(tx, { actor, entity: 'structure', entityId: id, action: 'retire', before }, nowMs);
+  });
+}

@@ -1,0 +1,278 @@
+/**
+ * The composition root: opens the database, builds the live watch from the register, starts the
+ * MQTT side (embedded broker or external client) and the HTTP server, and runs the once-a-second
+ * tick. `startServer` is what `npm start` runs and what the integration tests start on ephemeral
+ * ports and a temporary data folder.
+ */
+import path from 'node:path';
+import { serve, type ServerType } from '@hono/node-server';
+import { and, desc, eq, isNull, or } from 'drizzle-orm';
+import { alertsTable, levelChangesTable, sensorsTable, structuresTable } from '../db/schema.ts';
+import { Accounts } from './auth/accounts.ts';
+import { SignInLimiter } from './auth/signInLimiter.ts';
+import type { Config } from './config.ts';
+import { createApp } from './http/app.ts';
+import { EmbeddedBroker } from './ingest/embeddedBroker.ts';
+import { ExternalClient } from './ingest/externalClient.ts';
+import { IngestPipeline } from './ingest/pipeline.ts';
+import { Registry } from './ingest/registry.ts';
+import { RejectionLog } from './ingest/rejections.ts';
+import { LiveHub } from './live/liveHub.ts';
+import type { Logger } from './log.ts';
+import { ensureSite, getSite } from './register/site.ts';
+import { openDatabase, type Db, type OpenedDatabase } from './storage/database.ts';
+import { WriteQueue } from './storage/writeQueue.ts';
+import type { TerrainCategory } from './engine/index.ts';
+import type { LevelDefinition } from './levels/index.ts';
+import { Watch, type InitialState, type OpenAlert, type SiteSettings } from './watch/watch.ts';
+import { apiRoutes, type ApiContext } from './http/routes/apiRoutes.ts';
+import { accessRoutes, siteLinkOpener } from './http/routes/accessRoutes.ts';
+
+export interface RunningServer {
+  config: Config;
+  httpPort: number;
+  mqttPort: number | null;
+  db: Db;
+  opened: OpenedDatabase;
+  watch: Watch;
+  registry: Registry;
+  pipeline: IngestPipeline;
+  queue: WriteQueue;
+  hub: LiveHub;
+  accounts: Accounts;
+  /** Reloads the register into the watch (after changes made outside the API). */
+  reloadRegister(): void;
+  /** Runs one tick now (tests). */
+  tickNow(): Promise<void>;
+  close(): Promise<void>;
+}
+
+export interface StartOptions {
+  now?: () => number;
+  /** Tick period, ms (default 1000). */
+  tickMs?: number;
+  /** Serve the built web app from this folder (default web/dist when it exists). */
+  staticRoot?: string | null;
+  /** Runs before the HTTP server starts, with the register in place (the demo seeds here). */
+  beforeListen?: (server: RunningServer) => Promise<void> | void;
+}
+
+export function siteSettings(db: Db): SiteSettings {
+  const site = getSite(db);
+  return {
+    id: site.id,
+    name: site.name,
+    altitudeM: site.altitudeM,
+    terrainCategory: site.terrainCategory as TerrainCategory,
+    timeZone: site.timeZone,
+    airDensityMode: site.airDensityMode as SiteSettings['airDensityMode'],
+    fixedAirDensityKgM3: site.fixedAirDensityKgM3,
+    heightReductionEnabled: site.heightReductionEnabled,
+    directionalEnabled: site.directionalEnabled,
+    deadBandFraction: site.deadBandFraction,
+    holdTimeMs: site.holdTimeMs,
+    defaultLevels: site.defaultLevelsJson as LevelDefinition[],
+  };
+}
+
+function activeStructures(db: Db) {
+  return db.select().from(structuresTable).where(isNull(structuresTable.retiredAtMs)).all();
+}
+
+/** Last level of each structure and the alerts still open, to rebuild the watch after a restart. */
+export function initialState(db: Db): InitialState {
+  const levels = new Map<number, { level: number; sinceMs: number }>();
+  for (const s of activeStructures(db)) {
+    const last = db.select().from(levelChangesTable).where(and(eq(levelChangesTable.structureId, s.id), eq(levelChangesTable.noData, false))).orderBy(desc(levelChangesTable.atMs), desc(levelChangesTable.id)).limit(1).get();
+    if (last) levels.set(s.id, { level: last.toLevel, sinceMs: last.atMs });
+  }
+  const sensorKeys = new Map(db.select({ id: sensorsTable.id, key: sensorsTable.key, name: sensorsTable.name }).from(sensorsTable).all().map((s) => [s.id, s]));
+  const structureNames = new Map(db.select({ id: structuresTable.id, name: structuresTable.name }).from(structuresTable).all().map((s) => [s.id, s.name]));
+  const rows = db.select().from(alertsTable).where(or(isNull(alertsTable.acknowledgedAtMs), isNull(alertsTable.clearedAtMs))).all();
+  const alerts: OpenAlert[] = rows.map((r) => {
+    const sensor = r.sensorId !== null ? sensorKeys.get(r.sensorId) : undefined;
+    return {
+      id: r.id,
+      kind: r.kind as OpenAlert['kind'],
+      structureId: r.structureId,
+      sensorKey: sensor?.key ?? null,
+      level: r.level,
+      label: r.label,
+      actionText: r.actionText,
+      raisedAtMs: r.raisedAtMs,
+      gustMps: r.gustMps,
+      utilization: r.utilization,
+      lastSignalledAtMs: r.raisedAtMs,
+      clearedAtMs: r.clearedAtMs,
+      acknowledgedAtMs: r.acknowledgedAtMs,
+      acknowledgedBy: r.acknowledgedBy,
+      acknowledgeNote: r.acknowledgeNote,
+      subject: r.structureId !== null ? (structureNames.get(r.structureId) ?? `structure ${r.structureId}`) : (sensor?.name ?? 'sensor'),
+    };
+  });
+  return { levels, alerts };
+}
+
+export async function startServer(config: Config, log: Logger, options: StartOptions = {}): Promise<RunningServer> {
+  const now = options.now ?? Date.now;
+  const opened = openDatabase(path.join(config.dataDir, 'holdfast.sqlite'));
+  const { db, sqlite } = opened;
+  ensureSite(db, now());
+
+  const accounts = new Accounts(db);
+  const first = await accounts.prepareFirstAdmin({ username: config.adminUsername, password: config.adminPassword }, now());
+  if (first && 'created' in first) log.info({ username: first.created.username }, 'first administrator created from ADMIN_USERNAME / ADMIN_PASSWORD');
+  if (first && 'setupCode' in first) {
+    log.warn(
+      { setupCode: first.setupCode },
+      `nobody can sign in yet: open the web app and create the first administrator with setup code ${first.setupCode} (shown once; restart for a new one)`,
+    );
+  }
+
+  const registry = new Registry(db);
+  const rejections = new RejectionLog(sqlite, log, now);
+  const queue = new WriteQueue(sqlite, now);
+  const hub = new LiveHub();
+  const watch = new Watch({ hub, now, onNotice: (message, detail) => log.info(detail, message) });
+  const reloadRegister = (): void => watch.configure(siteSettings(db), registry.sensors(), activeStructures(db));
+  watch.configure(siteSettings(db), registry.sensors(), activeStructures(db), initialState(db));
+  registry.onReload(reloadRegister);
+
+  const pipeline = new IngestPipeline(config.topicPrefix, registry, rejections, watch, queue);
+
+  let broker: EmbeddedBroker | null = null;
+  let external: ExternalClient | null = null;
+  if (config.mqttUrl) {
+    external = new ExternalClient({
+      url: config.mqttUrl,
+      clientId: config.mqttClientId,
+      protocolVersion: config.mqttProtocolVersion,
+      username: config.mqttUsername,
+      password: config.mqttPassword,
+      caFile: config.mqttCaFile,
+      certFile: config.mqttCertFile,
+      keyFile: config.mqttKeyFile,
+      topicPrefix: config.topicPrefix,
+      sink: pipeline,
+      log,
+      now,
+    });
+    void external.start().catch(() => undefined);
+  } else {
+    broker = new EmbeddedBroker({ host: config.mqttHost, port: config.mqttPort, topicPrefix: config.topicPrefix, registry, sink: pipeline, log, now });
+    await broker.start();
+  }
+
+  let tickRunning = false;
+  const tickNow = async (): Promise<void> => {
+    if (tickRunning) return;
+    tickRunning = true;
+    try {
+      const result = watch.tick();
+      if (result) {
+        try {
+          await queue.enqueue(result.batch);
+        } catch (err) {
+          log.error({ err: String(err) }, 'could not store the live state; alerts continue from memory');
+        }
+        result.afterCommit();
+      }
+    } finally {
+      tickRunning = false;
+    }
+  };
+  const tickTimer = setInterval(() => void tickNow(), options.tickMs ?? 1_000);
+
+  const retentionTimer = setInterval(() => {
+    try {
+      const cutoff = now() - config.rawRetentionDays * 86_400_000;
+      const removed = sqlite.prepare('DELETE FROM readings WHERE ts_ms < ?').run(cutoff).changes;
+      if (removed > 0) log.info({ removed, cutoff }, 'raw readings past retention removed (per-minute rollups kept)');
+    } catch (err) {
+      log.error({ err: String(err) }, 'retention clean-up failed');
+    }
+  }, 3_600_000);
+  retentionTimer.unref();
+
+  const limiter = new SignInLimiter();
+  const health = () => {
+    const brokerHealth = broker ? broker.health() : external!.health();
+    const brokerOk = broker ? brokerHealth && (brokerHealth as { listening: boolean }).listening : external!.connected;
+    const dbOk = queue.stats.lastErrorAtMs === null || (queue.stats.lastCommitAtMs ?? 0) > queue.stats.lastErrorAtMs;
+    return {
+      ok: Boolean(brokerOk) && dbOk,
+      broker: brokerHealth,
+      database: {
+        ok: dbOk,
+        file: opened.file,
+        committedReadings: queue.stats.committedReadings,
+        duplicateReadings: queue.stats.duplicateReadings,
+        failedCommits: queue.stats.failedCommits,
+        lastError: queue.stats.lastError,
+        lastErrorAtMs: queue.stats.lastErrorAtMs,
+      },
+      ingest: { ...pipeline.counters, rejectedTotal: rejections.totalCount },
+      liveStreamClients: hub.listenerCount,
+      atMs: now(),
+    };
+  };
+
+  const running: RunningServer = {
+    config,
+    httpPort: 0,
+    mqttPort: broker ? broker.port : null,
+    db,
+    opened,
+    watch,
+    registry,
+    pipeline,
+    queue,
+    hub,
+    accounts,
+    reloadRegister,
+    tickNow,
+    close: async () => undefined,
+  };
+
+  const ctx: ApiContext = { db, registry, watch, hub, rejections, accounts, now, reloadRegister, topicPrefix: config.topicPrefix, health };
+  const staticRoot = options.staticRoot === undefined ? path.resolve('web/dist') : options.staticRoot;
+  const app = createApp({
+    health: { health },
+    log,
+    access: { accounts, now, csrfExempt: new Set(['/api/session', '/api/setup', '/api/assess']) },
+    routes: [
+      { path: '/api', app: accessRoutes({ accounts, limiter, now, trustProxy: config.trustProxy }) },
+      { path: '/api', app: apiRoutes(ctx) },
+      { path: '/link', app: siteLinkOpener({ accounts, limiter, now, trustProxy: config.trustProxy }) },
+    ],
+    staticRoot,
+  });
+
+  await options.beforeListen?.(running);
+
+  const server: ServerType = await new Promise((resolve, reject) => {
+    const s = serve({ fetch: app.fetch, port: config.httpPort, hostname: config.httpHost }, () => resolve(s));
+    s.once('error', (err: NodeJS.ErrnoException) => {
+      reject(err.code === 'EADDRINUSE' ? new Error(`HTTP port ${config.httpPort} is already in use: set PORT to a free port`) : err);
+    });
+  });
+  const address = server.address();
+  running.httpPort = address && typeof address === 'object' ? address.port : config.httpPort;
+  log.info({ url: `http://${config.httpHost === '0.0.0.0' ? 'localhost' : config.httpHost}:${running.httpPort}/`, mqttPort: running.mqttPort, mqttUrl: external ? external.health().url : null, dataDir: config.dataDir }, 'server started');
+
+  running.close = async () => {
+    clearInterval(tickTimer);
+    clearInterval(retentionTimer);
+    await new Promise<void>((resolve) => {
+      server.close(() => resolve());
+      // SSE connections stay open: end them so close completes.
+      (server as unknown as { closeAllConnections?: () => void }).closeAllConnections?.();
+    });
+    await broker?.stop();
+    await external?.stop();
+    queue.flush();
+    rejections.flush();
+    sqlite.close();
+  };
+  return running;
+}

@@ -1,0 +1,897 @@
+/**
+ * The live watch: per-sensor wind, per-structure load margin and level, and the open alerts,
+ * held in memory and fed by every accepted reading (design.md 2.2–2.4, data flow of 5).
+ *
+ * Per reading: the sensor's wind state takes it (3-s gust, 10-min mean); if it is live (not a
+ * late reading from a buffered batch) the structures it governs are re-evaluated in the same
+ * pass; level changes and alerts go into the same write batch as the reading, so they are
+ * committed together before the broker is acknowledged.
+ *
+ * Why the per-reading cost stays flat with many structures: without directional assessment,
+ * a structure's gust is max over its sensors of g_s · f(z_s → z_t), and the height factor
+ * f = max(1, r(z_t)/r(z_s)) with r(z) = √q_p(z) (EN 1991-1-4 4.8) splits, so
+ *   max_s g_s·f = max( max_s g_s , r(z_t) · max_s (g_s / r(z_s)) )
+ * (without the max(1, ·) when the site allows reduction). The two site-wide maxima are found
+ * once per reading; each structure then costs two multiplications and a comparison, and none
+ * at all when neither maximum moved. Structures with their own sensor list, or a site with
+ * directional assessment, take the direct loop over their sensors.
+ */
+import {
+  airDensity,
+  beaufortForce,
+  dynamicPressurePa,
+  gustHeightFactor,
+  horizontalShare,
+  isaAirDensityKgM3,
+  sideStability,
+  windOnStructure,
+  type TerrainCategory,
+} from '../engine/index.ts';
+import {
+  defaultResignalIntervalMs,
+  initialLevelState,
+  stepLevel,
+  type LevelDefinition,
+  type LevelEvent,
+  type LevelState,
+  type LevelStepParams,
+} from '../levels/index.ts';
+import type { Reading } from '../ingest/payload.ts';
+import type { ReadingConsumer } from '../ingest/pipeline.ts';
+import type { RegisteredSensor } from '../ingest/registry.ts';
+import type { LiveHub } from '../live/liveHub.ts';
+import type { AlertRow, WriteBatch } from '../storage/writeBatch.ts';
+import { emptyWriteBatch } from '../storage/writeBatch.ts';
+import { acceptReading, createSensorWindState, sensorSilent, stuckSensors, windSnapshot, type SensorWindState } from '../wind/index.ts';
+import { densityDependent, structureModel, type DensityDependent, type StructureModel, type StructureRow } from './structureModel.ts';
+
+/** A reading older than this at receipt is "late" (from a gateway's buffer): stored, not used live. */
+export const liveReadingMaxAgeMs = 60_000;
+/** Wind per sensor is announced on the live stream at most this often. */
+const windAnnounceIntervalMs = 1_000;
+/** After start, a structure or sensor must have had this long to report before "no data" alerts. */
+const startGraceMs = 30_000;
+
+export interface SiteSettings {
+  id: number;
+  name: string;
+  altitudeM: number;
+  terrainCategory: TerrainCategory;
+  timeZone: string;
+  airDensityMode: 'isa' | 'measured' | 'fixed';
+  fixedAirDensityKgM3: number | null;
+  heightReductionEnabled: boolean;
+  directionalEnabled: boolean;
+  deadBandFraction: number;
+  holdTimeMs: number;
+  defaultLevels: readonly LevelDefinition[];
+}
+
+interface SensorLive {
+  sensor: RegisteredSensor;
+  wind: SensorWindState;
+  /** The 3-s gust at the newest live reading, m/s; null before the first. */
+  gustMps: number | null;
+  dirDeg: number | null;
+  lastLiveAtMs: number | null;
+  /** √(q_p(z)/q_p(10 m)) at the sensor's height. */
+  profileRatio: number;
+  lastAnnouncedAtMs: number;
+  silentAlertId: number | null;
+  implausibleAlertId: number | null;
+  stuck: boolean;
+}
+
+interface StructureLive {
+  model: StructureModel;
+  density: DensityDependent;
+  profileRatio: number;
+  level: LevelState;
+  gustMps: number | null;
+  governingSensorKey: string | null;
+  /** The wind direction of the governing sensor (for directional assessment and display). */
+  windFromDeg: number | null;
+  evaluatedAtMs: number | null;
+  minuteMs: number;
+  minuteMaxGustMps: number;
+  minuteMaxLevel: number;
+  minuteDirty: boolean;
+  noDataAlertId: number | null;
+  error: string | null;
+}
+
+export interface OpenAlert {
+  id: number;
+  kind: AlertRow['kind'];
+  structureId: number | null;
+  sensorKey: string | null;
+  level: number | null;
+  label: string;
+  actionText: string;
+  raisedAtMs: number;
+  gustMps: number | null;
+  utilization: number | null;
+  lastSignalledAtMs: number;
+  clearedAtMs: number | null;
+  acknowledgedAtMs: number | null;
+  acknowledgedBy: string | null;
+  acknowledgeNote: string | null;
+  /** Where it belongs, for a screen: the structure's or sensor's name. */
+  subject: string;
+}
+
+export interface StructureState {
+  id: number;
+  name: string;
+  kind: string;
+  level: number;
+  levelLabel: string | null;
+  levelSinceMs: number;
+  noData: boolean;
+  gustMps: number | null;
+  governingSensorKey: string | null;
+  windFromDeg: number | null;
+  utilization: number | null;
+  governing: string | null;
+  side: string | null;
+  /** 1 − governing utilization; null when unknown. */
+  margin: number | null;
+  unbounded: boolean;
+  limitGustMps: number;
+  calculatedLimitGustMps: number;
+  ratedGustMps: number | null;
+  airDensityKgM3: number;
+  referenceHeightM: number;
+  triggerGustsMps: number[];
+  levels: Array<{ level: number; label: string; actionText: string; triggerGustMps: number; trigger: LevelDefinition['trigger'] }>;
+  evaluatedAtMs: number | null;
+  error: string | null;
+}
+
+export interface SensorState {
+  key: string;
+  name: string;
+  heightM: number;
+  currentGustMps: number | null;
+  peakGust10minMps: number | null;
+  mean10minMps: number | null;
+  meanDirDeg: number | null;
+  beaufort: number | null;
+  lastReadingTsMs: number | null;
+  lastReceivedAtMs: number | null;
+  silent: boolean;
+  implausible: string[];
+  temperatureC: number | null;
+  pressurePa: number | null;
+  rhPct: number | null;
+}
+
+export interface WatchOptions {
+  hub: LiveHub;
+  now?: () => number;
+  resignalIntervalMs?: number;
+  /** Called on level changes and sensor trouble, for the server log. */
+  onNotice?: (message: string, detail: Record<string, unknown>) => void;
+}
+
+export interface InitialState {
+  /** Last known level of each structure (from the level-change log), to rebuild after a restart. */
+  levels: Map<number, { level: number; sinceMs: number }>;
+  /** Alerts still open (not acknowledged, or not cleared). */
+  alerts: OpenAlert[];
+}
+
+export class Watch implements ReadingConsumer {
+  private site!: SiteSettings;
+  private sensors = new Map<number, SensorLive>();
+  private sensorsByKey = new Map<string, SensorLive>();
+  private structures = new Map<number, StructureLive>();
+  private readonly alerts = new Map<number, OpenAlert>();
+  private airDensityKgM3 = 1.225;
+  private airDensityBasis: 'isa' | 'measured' | 'fixed' = 'isa';
+  /** Site-wide maxima of the decomposition above; recomputed per live reading. */
+  private maxGustMps = -1;
+  private maxGustPerRatio = -1;
+  private maxSensorKey: string | null = null;
+  private maxRatioSensorKey: string | null = null;
+  private readonly startedAtMs: number;
+  private readonly now: () => number;
+  private readonly dirtyStructures = new Set<number>();
+  private params!: LevelStepParams;
+
+  constructor(private readonly options: WatchOptions) {
+    this.now = options.now ?? Date.now;
+    this.startedAtMs = this.now();
+  }
+
+  // ---------- configuration ----------
+
+  /**
+   * (Re)loads the register. Level states and wind states of sensors and structures that stay
+   * are kept; new ones start with no data. Throws nothing for a bad stored record: that
+   * structure shows the error and counts as no data.
+   */
+  configure(site: SiteSettings, sensors: readonly RegisteredSensor[], structures: readonly StructureRow[], initial?: InitialState): void {
+    const nowMs = this.now();
+    this.site = site;
+    this.params = { deadBandFraction: site.deadBandFraction, holdTimeMs: site.holdTimeMs };
+
+    const nextSensors = new Map<number, SensorLive>();
+    for (const sensor of sensors) {
+      const old = this.sensors.get(sensor.id);
+      const keepWind = old && old.sensor.silenceTimeoutMs === sensor.silenceTimeoutMs;
+      nextSensors.set(sensor.id, {
+        sensor,
+        wind: keepWind ? old.wind : createSensorWindState({ sensorKey: sensor.key, silenceTimeoutMs: sensor.silenceTimeoutMs }),
+        gustMps: keepWind ? old.gustMps : null,
+        dirDeg: keepWind ? old.dirDeg : null,
+        lastLiveAtMs: keepWind ? old.lastLiveAtMs : null,
+        profileRatio: this.profileRatio(sensor.heightM),
+        lastAnnouncedAtMs: old?.lastAnnouncedAtMs ?? 0,
+        silentAlertId: old?.silentAlertId ?? null,
+        implausibleAlertId: old?.implausibleAlertId ?? null,
+        stuck: old?.stuck ?? false,
+      });
+    }
+    this.sensors = nextSensors;
+    this.sensorsByKey = new Map([...nextSensors.values()].map((s) => [s.sensor.key, s]));
+
+    this.updateAirDensity();
+    const nextStructures = new Map<number, StructureLive>();
+    for (const row of structures) {
+      const old = this.structures.get(row.id);
+      const restored = initial?.levels.get(row.id);
+      let live: StructureLive;
+      try {
+        const model = structureModel(row, site.defaultLevels);
+        live = {
+          model,
+          density: densityDependent(model, this.airDensityKgM3),
+          profileRatio: this.profileRatio(model.referenceHeightM),
+          level: old?.level ?? restoredLevel(restored, nowMs),
+          gustMps: old?.gustMps ?? null,
+          governingSensorKey: old?.governingSensorKey ?? null,
+          windFromDeg: old?.windFromDeg ?? null,
+          evaluatedAtMs: old?.evaluatedAtMs ?? null,
+          minuteMs: old?.minuteMs ?? 0,
+          minuteMaxGustMps: old?.minuteMaxGustMps ?? 0,
+          minuteMaxLevel: old?.minuteMaxLevel ?? 0,
+          minuteDirty: old?.minuteDirty ?? false,
+          noDataAlertId: old?.noDataAlertId ?? null,
+          error: null,
+        };
+        // A changed ladder can leave the kept level above the levels that now exist.
+        if (live.level.level > model.levels.length) live.level = { ...live.level, level: model.levels.length };
+      } catch (err) {
+        live = brokenStructure(row, err, nowMs, old);
+      }
+      nextStructures.set(row.id, live);
+    }
+    this.structures = nextStructures;
+
+    if (initial) {
+      for (const alert of initial.alerts) {
+        this.alerts.set(alert.id, alert);
+        if (alert.clearedAtMs === null) {
+          if (alert.kind === 'no-data' && alert.structureId !== null) {
+            const s = this.structures.get(alert.structureId);
+            if (s) s.noDataAlertId = alert.id;
+          }
+          const sensor = alert.sensorKey ? this.sensorsByKey.get(alert.sensorKey) : undefined;
+          if (sensor && alert.kind === 'sensor-silent') sensor.silentAlertId = alert.id;
+          if (sensor && alert.kind === 'sensor-implausible') sensor.implausibleAlertId = alert.id;
+        }
+      }
+    }
+    this.recomputeMaxima(nowMs);
+    this.options.hub.publish('snapshot', this.snapshot());
+  }
+
+  private profileRatio(heightM: number): number {
+    // √(q_p(z)/q_p(10 m)), EN 1991-1-4 4.8; reduction allowed here because it is a ratio, the
+    // max(1, ·) of the site's choice is applied where ratios are combined.
+    return gustHeightFactor({ fromHeightM: 10, toHeightM: Math.max(0.1, heightM), terrainCategory: this.site.terrainCategory, allowReduction: true });
+  }
+
+  /** The height factor from a sensor to a structure, with the site's reduction rule. */
+  private heightFactor(sensor: SensorLive, structure: StructureLive): number {
+    const ratio = structure.profileRatio / sensor.profileRatio;
+    return this.site.heightReductionEnabled ? ratio : Math.max(1, ratio);
+  }
+
+  private updateAirDensity(): boolean {
+    const site = this.site;
+    let result: { densityKgM3: number; basis: 'isa' | 'measured' | 'fixed' };
+    if (site.airDensityMode === 'fixed' && site.fixedAirDensityKgM3 !== null) {
+      result = airDensity({ mode: 'fixed', densityKgM3: site.fixedAirDensityKgM3 });
+    } else if (site.airDensityMode === 'measured') {
+      const nowMs = this.now();
+      let measured: { tempC: number; pressurePa: number; rhPct: number | null } | null = null;
+      for (const s of this.sensors.values()) {
+        const snap = windSnapshot(s.wind, nowMs);
+        if (snap.temperatureC !== null && snap.pressurePa !== null) {
+          measured = { tempC: snap.temperatureC, pressurePa: snap.pressurePa, rhPct: snap.rhPct };
+          break;
+        }
+      }
+      try {
+        result = airDensity({ mode: 'measured', altitudeM: site.altitudeM, ...(measured ?? {}) });
+      } catch {
+        // A measurement outside the plausible range is not used: ISA at the site's altitude.
+        result = { densityKgM3: isaAirDensityKgM3(site.altitudeM), basis: 'isa' };
+      }
+    } else {
+      result = airDensity({ mode: 'isa', altitudeM: site.altitudeM });
+    }
+    const changed = Math.abs(result.densityKgM3 - this.airDensityKgM3) > 1e-4 || result.basis !== this.airDensityBasis;
+    this.airDensityKgM3 = result.densityKgM3;
+    this.airDensityBasis = result.basis;
+    return changed;
+  }
+
+  // ---------- the per-reading path ----------
+
+  take(sensor: RegisteredSensor, readings: readonly Reading[], receivedAtMs: number): { batch: WriteBatch; afterCommit: (() => void) | null } {
+    const batch = emptyWriteBatch();
+    const live = this.sensors.get(sensor.id);
+    let anyLive = false;
+    for (const reading of readings) {
+      let rollupGustMps = reading.gustMps ?? reading.speedMps;
+      const isLate = reading.tsMs < receivedAtMs - liveReadingMaxAgeMs;
+      if (live && !isLate) {
+        const result = acceptReading(live.wind, reading, receivedAtMs);
+        if (typeof result === 'number') {
+          rollupGustMps = result;
+          live.gustMps = result;
+          live.dirDeg = reading.dirDeg ?? live.dirDeg;
+          live.lastLiveAtMs = receivedAtMs;
+          anyLive = true;
+        }
+      }
+      batch.readings.push({
+        sensorId: sensor.id,
+        tsMs: reading.tsMs,
+        speedMps: reading.speedMps,
+        gustMps: reading.gustMps,
+        dirDeg: reading.dirDeg,
+        tempC: reading.tempC,
+        pressurePa: reading.pressurePa,
+        rhPct: reading.rhPct,
+        late: isLate,
+        rollupGustMps,
+      });
+    }
+    if (!live || !anyLive) return { batch, afterCommit: null };
+
+    if (this.site.airDensityMode === 'measured' && readings.some((r) => r.tempC !== null || r.pressurePa !== null)) {
+      if (this.updateAirDensity()) this.refreshDensity();
+    }
+    const announcements: Array<() => void> = [];
+    this.checkSensorHealth(live, receivedAtMs, batch, announcements);
+    const moved = this.recomputeMaxima(receivedAtMs);
+    for (const s of this.structures.values()) {
+      const governed = s.model ? (s.model.sensorKeys === null ? moved || this.site.directionalEnabled : s.model.sensorKeys.has(sensor.key)) : false;
+      if (governed) this.evaluate(s, receivedAtMs, batch, announcements);
+    }
+    if (receivedAtMs - live.lastAnnouncedAtMs >= windAnnounceIntervalMs) {
+      live.lastAnnouncedAtMs = receivedAtMs;
+      announcements.push(() => this.options.hub.publish('wind', this.sensorState(live, receivedAtMs)));
+    }
+    return { batch, afterCommit: announcements.length > 0 ? () => announcements.forEach((a) => a()) : null };
+  }
+
+  /** Recomputes the site-wide maxima over live sensors; true when either moved. */
+  private recomputeMaxima(nowMs: number): boolean {
+    let maxGust = -1;
+    let maxPerRatio = -1;
+    let maxKey: string | null = null;
+    let maxRatioKey: string | null = null;
+    for (const s of this.sensors.values()) {
+      if (!this.sensorUsable(s, nowMs)) continue;
+      const g = s.gustMps!;
+      if (g > maxGust) {
+        maxGust = g;
+        maxKey = s.sensor.key;
+      }
+      const perRatio = g / s.profileRatio;
+      if (perRatio > maxPerRatio) {
+        maxPerRatio = perRatio;
+        maxRatioKey = s.sensor.key;
+      }
+    }
+    const moved = maxGust !== this.maxGustMps || maxPerRatio !== this.maxGustPerRatio || maxKey !== this.maxSensorKey;
+    this.maxGustMps = maxGust;
+    this.maxGustPerRatio = maxPerRatio;
+    this.maxSensorKey = maxKey;
+    this.maxRatioSensorKey = maxRatioKey;
+    return moved;
+  }
+
+  private sensorUsable(s: SensorLive, nowMs: number): boolean {
+    return s.gustMps !== null && !sensorSilent(s.wind, nowMs) && s.implausibleAlertId === null && !s.stuck;
+  }
+
+  /** The structure's governing gust now: value, sensor and its direction; null when no sensor is live. */
+  private governingGust(s: StructureLive, nowMs: number): { gustMps: number; sensorKey: string; dirDeg: number | null } | null {
+    if (s.model.sensorKeys === null && !this.site.directionalEnabled) {
+      if (this.maxGustMps < 0) return null;
+      const fromMax = this.maxGustMps;
+      const fromProfile = s.profileRatio * this.maxGustPerRatio;
+      const useProfile = this.site.heightReductionEnabled || fromProfile > fromMax;
+      const key = useProfile ? this.maxRatioSensorKey! : this.maxSensorKey!;
+      return { gustMps: useProfile ? fromProfile : fromMax, sensorKey: key, dirDeg: this.sensorsByKey.get(key)?.dirDeg ?? null };
+    }
+    let best: { gustMps: number; sensorKey: string; dirDeg: number | null } | null = null;
+    let bestLoad = -1;
+    for (const sensor of this.sensors.values()) {
+      if (s.model.sensorKeys !== null && !s.model.sensorKeys.has(sensor.sensor.key)) continue;
+      if (!this.sensorUsable(sensor, nowMs)) continue;
+      const gust = sensor.gustMps! * this.heightFactor(sensor, s);
+      // With direction, the sensor whose wind loads the structure most governs, not the fastest.
+      const load = this.site.directionalEnabled ? this.governingUtilization(s, gust, sensor.dirDeg) : gust;
+      if (load > bestLoad) {
+        bestLoad = load;
+        best = { gustMps: gust, sensorKey: sensor.sensor.key, dirDeg: sensor.dirDeg };
+      }
+    }
+    return best;
+  }
+
+  private governingUtilization(s: StructureLive, gustMps: number, windFromDeg: number | null): number {
+    return this.assess(s, gustMps, windFromDeg).utilization;
+  }
+
+  /** Utilization of the worse wind case at this gust (and direction, when the site uses it). */
+  private assess(s: StructureLive, gustMps: number, windFromDeg: number | null): { utilization: number; governing: string; side: string } {
+    const qPa = dynamicPressurePa(Math.min(gustMps, 120), this.airDensityKgM3);
+    const cases = windOnStructure({ gustMps: Math.min(gustMps, 120), windFromDeg, orientationDeg: s.model.orientationDeg, directional: this.site.directionalEnabled });
+    let worst = { utilization: -1, governing: 'overturning', side: 'front' };
+    for (const c of cases) {
+      const r = sideStability(s.model.coefficients, c.side, qPa, horizontalShare(c));
+      if (r.utilization.governing > worst.utilization) worst = { utilization: r.utilization.governing, governing: r.governing, side: c.side };
+    }
+    return worst;
+  }
+
+  /**
+   * The gust compared with the level ladder. The ladder is in gust straight onto the worse side;
+   * with directional assessment a wind at an angle Δ loads the faces with v·|cos Δ| only, so the
+   * comparable gust is v·|cos Δ| (conservative: the ladder belongs to the worse side). Roof
+   * uplift does not drop when the wind turns, so a structure with uplift keeps the full gust.
+   */
+  private ladderGust(s: StructureLive, gustMps: number, windFromDeg: number | null): number {
+    if (!this.site.directionalEnabled || windFromDeg === null || s.model.coefficients.upliftAreaM2 > 0) return gustMps;
+    const [windCase] = windOnStructure({ gustMps, windFromDeg, orientationDeg: s.model.orientationDeg, directional: true });
+    return windCase!.normalGustMps;
+  }
+
+  private evaluate(s: StructureLive, nowMs: number, batch: WriteBatch, announcements: Array<() => void>): void {
+    if (s.error !== null) return;
+    const governing = this.governingGust(s, nowMs);
+    const wasNoData = s.level.noData;
+    const previousLevel = s.level.level;
+    let events: readonly LevelEvent[];
+    if (governing === null) {
+      ({ state: s.level, events } = stepLevel(s.level, { nowMs, gustMps: null, triggerGustsMps: s.density.triggerGustsMps }, this.params));
+      s.gustMps = null;
+      s.governingSensorKey = null;
+    } else {
+      const gustMps = Math.min(governing.gustMps, 120);
+      const comparable = this.ladderGust(s, gustMps, governing.dirDeg);
+      ({ state: s.level, events } = stepLevel(s.level, { nowMs, gustMps: comparable, triggerGustsMps: s.density.triggerGustsMps }, this.params));
+      s.gustMps = gustMps;
+      s.governingSensorKey = governing.sensorKey;
+      s.windFromDeg = governing.dirDeg;
+      this.noteMinute(s, nowMs, gustMps);
+    }
+    s.evaluatedAtMs = nowMs;
+    this.dirtyStructures.add(s.model.id);
+    for (const event of events) this.onLevelEvent(s, event, batch, announcements);
+    if (previousLevel !== s.level.level || wasNoData !== s.level.noData) {
+      announcements.push(() => this.options.hub.publish('structure', this.structureState(s)));
+    }
+  }
+
+  private noteMinute(s: StructureLive, nowMs: number, gustMps: number): void {
+    const minute = nowMs - (nowMs % 60_000);
+    if (minute !== s.minuteMs) {
+      s.minuteMs = minute;
+      s.minuteMaxGustMps = gustMps;
+      s.minuteMaxLevel = s.level.level;
+      s.minuteDirty = true;
+      return;
+    }
+    if (gustMps > s.minuteMaxGustMps) {
+      s.minuteMaxGustMps = gustMps;
+      s.minuteDirty = true;
+    }
+    if (s.level.level > s.minuteMaxLevel) {
+      s.minuteMaxLevel = s.level.level;
+      s.minuteDirty = true;
+    }
+  }
+
+  private onLevelEvent(s: StructureLive, event: LevelEvent, batch: WriteBatch, announcements: Array<() => void>): void {
+    const utilization = s.gustMps === null ? null : this.assess(s, s.gustMps, s.windFromDeg).utilization;
+    switch (event.type) {
+      case 'escalated':
+      case 'de-escalated': {
+        batch.levelChanges.push({ structureId: s.model.id, atMs: event.atMs, fromLevel: event.fromLevel, toLevel: event.toLevel, gustMps: event.gustMps, utilization, noData: false });
+        this.options.onNotice?.(`${s.model.name}: level ${event.fromLevel} → ${event.toLevel}`, { structureId: s.model.id, gustMps: event.gustMps });
+        if (event.type === 'escalated') {
+          const def = s.model.levels[event.toLevel - 1]!;
+          this.raise(
+            batch,
+            announcements,
+            { siteId: this.site.id, kind: 'level', structureId: s.model.id, sensorId: null, level: event.toLevel, label: def.label, actionText: def.actionText, raisedAtMs: event.atMs, gustMps: event.gustMps, utilization },
+            s.model.name,
+            null,
+          );
+        } else {
+          // Alerts of the levels left behind are cleared (their records stay until acknowledged).
+          for (const alert of this.alerts.values()) {
+            if (alert.kind === 'level' && alert.structureId === s.model.id && alert.clearedAtMs === null && (alert.level ?? 0) > event.toLevel) {
+              this.clear(alert, event.atMs, batch, announcements);
+            }
+          }
+        }
+        break;
+      }
+      case 'no-data': {
+        batch.levelChanges.push({ structureId: s.model.id, atMs: event.atMs, fromLevel: s.level.level, toLevel: s.level.level, gustMps: null, utilization: null, noData: true });
+        if (s.noDataAlertId === null && event.atMs - this.startedAtMs >= startGraceMs) this.raiseNoData(s, event.atMs, batch, announcements);
+        break;
+      }
+      case 'data-restored': {
+        if (s.noDataAlertId !== null) {
+          const alert = this.alerts.get(s.noDataAlertId);
+          if (alert) this.clear(alert, event.atMs, batch, announcements);
+          s.noDataAlertId = null;
+        }
+        break;
+      }
+    }
+  }
+
+  private raiseNoData(s: StructureLive, atMs: number, batch: WriteBatch, announcements: Array<() => void>): void {
+    const row: AlertRow = {
+      siteId: this.site.id,
+      kind: 'no-data',
+      structureId: s.model.id,
+      sensorId: null,
+      level: null,
+      label: 'No wind data',
+      actionText:
+        'No live wind reading reaches this structure. Treat the wind as unknown, not calm: its level is held, not lowered. ' +
+        'Check the anemometers and the gateway, watch the wind by hand and follow the wind management plan until readings return.',
+      raisedAtMs: atMs,
+      gustMps: null,
+      utilization: null,
+    };
+    this.raise(batch, announcements, row, s.model.name, null, (id) => (s.noDataAlertId = id));
+  }
+
+  private raise(batch: WriteBatch, announcements: Array<() => void>, row: AlertRow, subject: string, sensorKey: string | null, onId?: (id: number) => void): void {
+    const index = batch.alerts.length;
+    batch.alerts.push(row);
+    const previous = batch.onAlertIds;
+    batch.onAlertIds = (ids) => {
+      previous?.(ids);
+      const id = ids[index]!;
+      const alert: OpenAlert = {
+        id,
+        kind: row.kind,
+        structureId: row.structureId,
+        sensorKey,
+        level: row.level,
+        label: row.label,
+        actionText: row.actionText,
+        raisedAtMs: row.raisedAtMs,
+        gustMps: row.gustMps,
+        utilization: row.utilization !== null && Number.isFinite(row.utilization) ? row.utilization : null,
+        lastSignalledAtMs: row.raisedAtMs,
+        clearedAtMs: null,
+        acknowledgedAtMs: null,
+        acknowledgedBy: null,
+        acknowledgeNote: null,
+        subject,
+      };
+      this.alerts.set(id, alert);
+      onId?.(id);
+      announcements.push(() => this.options.hub.publish('alert', { ...alert, resignal: false }));
+    };
+  }
+
+  private clear(alert: OpenAlert, atMs: number, batch: WriteBatch, announcements: Array<() => void>): void {
+    alert.clearedAtMs = atMs;
+    batch.clearedAlerts.push({ id: alert.id, atMs });
+    if (alert.acknowledgedAtMs !== null) this.alerts.delete(alert.id);
+    announcements.push(() => this.options.hub.publish('alert-update', alert));
+  }
+
+  private checkSensorHealth(live: SensorLive, nowMs: number, batch: WriteBatch, announcements: Array<() => void>): void {
+    const snap = windSnapshot(live.wind, nowMs);
+    if (live.silentAlertId !== null) {
+      const alert = this.alerts.get(live.silentAlertId);
+      if (alert) this.clear(alert, nowMs, batch, announcements);
+      live.silentAlertId = null;
+    }
+    const implausible = snap.implausibleReasons.length > 0;
+    if (implausible && live.implausibleAlertId === null) {
+      this.raiseSensorAlert(live, 'sensor-implausible', nowMs, batch, announcements, snap.implausibleReasons.join(', '));
+    } else if (!implausible && live.implausibleAlertId !== null) {
+      const alert = this.alerts.get(live.implausibleAlertId);
+      if (alert) this.clear(alert, nowMs, batch, announcements);
+      live.implausibleAlertId = null;
+    }
+  }
+
+  private raiseSensorAlert(live: SensorLive, kind: 'sensor-silent' | 'sensor-implausible', atMs: number, batch: WriteBatch, announcements: Array<() => void>, why: string): void {
+    const texts =
+      kind === 'sensor-silent'
+        ? {
+            label: 'Sensor silent',
+            actionText: `No reading from ${live.sensor.name} for more than ${Math.round(live.sensor.silenceTimeoutMs / 1000)} s. Check its power, mounting and gateway. Structures that take their wind from it have one reading fewer; if it was their only one they show "no data".`,
+          }
+        : {
+            label: 'Sensor readings implausible',
+            actionText: `${live.sensor.name} is sending values that cannot be right (${why}); they are not used. Check it for damage, icing, a loose mounting or a wrong unit setting.`,
+          };
+    // Mark at once (before the commit gives the id) so the same trouble is not raised twice.
+    if (kind === 'sensor-silent') live.silentAlertId = -1;
+    else live.implausibleAlertId = -1;
+    this.raise(
+      batch,
+      announcements,
+      { siteId: this.site.id, kind, structureId: null, sensorId: live.sensor.id, level: null, ...texts, raisedAtMs: atMs, gustMps: null, utilization: null },
+      live.sensor.name,
+      live.sensor.key,
+      (id) => {
+        if (kind === 'sensor-silent') live.silentAlertId = id;
+        else live.implausibleAlertId = id;
+      },
+    );
+  }
+
+  // ---------- time passing ----------
+
+  /**
+   * Once a second: silent sensors, structures left without data, de-escalation holds that run
+   * out without new readings, re-signalling of unacknowledged alerts, per-minute history and the
+   * batched structure updates on the live stream. Returns what to commit, or null.
+   */
+  tick(): { batch: WriteBatch; afterCommit: () => void } | null {
+    const nowMs = this.now();
+    const batch = emptyWriteBatch();
+    const announcements: Array<() => void> = [];
+
+    if (this.site.airDensityMode === 'measured' && this.updateAirDensity()) this.refreshDensity();
+
+    // Stuck sensors (reading zero while their neighbours read wind) need every sensor's state.
+    const stuck = new Set(stuckSensors([...this.sensors.values()].map((s) => s.wind), nowMs).map((s) => s.sensorKey));
+    for (const s of this.sensors.values()) {
+      const isStuck = stuck.has(s.sensor.key);
+      if (isStuck && !s.stuck && s.implausibleAlertId === null) this.raiseSensorAlert(s, 'sensor-implausible', nowMs, batch, announcements, 'reads calm while the other sensors read wind');
+      s.stuck = isStuck;
+      const silent = sensorSilent(s.wind, nowMs);
+      const graceOver = nowMs - this.startedAtMs >= Math.max(startGraceMs, s.sensor.silenceTimeoutMs);
+      if (silent && graceOver && s.silentAlertId === null) this.raiseSensorAlert(s, 'sensor-silent', nowMs, batch, announcements, 'silent');
+    }
+    this.recomputeMaxima(nowMs);
+
+    for (const s of this.structures.values()) {
+      if (s.error !== null) continue;
+      // Re-evaluate: a sensor may have gone silent (→ no data), or a hold may have run out.
+      this.evaluate(s, nowMs, batch, announcements);
+      if (s.level.noData && s.noDataAlertId === null && nowMs - this.startedAtMs >= startGraceMs) this.raiseNoData(s, nowMs, batch, announcements);
+      if (s.minuteDirty) {
+        s.minuteDirty = false;
+        batch.structureMinutes.push({
+          structureId: s.model.id,
+          minuteMs: s.minuteMs,
+          gustMps: s.minuteMaxGustMps,
+          utilization: this.assess(s, s.minuteMaxGustMps, s.windFromDeg).utilization,
+          level: s.minuteMaxLevel,
+        });
+      }
+    }
+
+    const interval = this.options.resignalIntervalMs ?? defaultResignalIntervalMs;
+    for (const alert of this.alerts.values()) {
+      if (alert.acknowledgedAtMs === null && nowMs - alert.lastSignalledAtMs >= interval) {
+        alert.lastSignalledAtMs = nowMs;
+        announcements.push(() => this.options.hub.publish('alert', { ...alert, resignal: true }));
+      }
+    }
+
+    if (this.dirtyStructures.size > 0) {
+      const changed = [...this.dirtyStructures].map((id) => this.structures.get(id)).filter((s): s is StructureLive => s !== undefined);
+      this.dirtyStructures.clear();
+      announcements.push(() => this.options.hub.publish('structure', { structures: changed.map((s) => this.structureState(s)) }));
+    }
+    for (const s of this.sensors.values()) {
+      if (nowMs - s.lastAnnouncedAtMs >= 5_000) {
+        s.lastAnnouncedAtMs = nowMs;
+        announcements.push(() => this.options.hub.publish('wind', this.sensorState(s, nowMs)));
+      }
+    }
+
+    const empty = batch.readings.length + batch.structureMinutes.length + batch.levelChanges.length + batch.alerts.length + batch.clearedAlerts.length === 0;
+    if (empty && announcements.length === 0) return null;
+    return { batch, afterCommit: () => announcements.forEach((a) => a()) };
+  }
+
+  private refreshDensity(): void {
+    for (const s of this.structures.values()) {
+      if (s.error === null) s.density = densityDependent(s.model, this.airDensityKgM3);
+    }
+  }
+
+  // ---------- acknowledgement ----------
+
+  /** Marks an alert acknowledged in memory and announces it (the caller has stored it). */
+  acknowledged(id: number, by: string, note: string | null, atMs: number): OpenAlert | null {
+    const alert = this.alerts.get(id);
+    if (!alert) return null;
+    alert.acknowledgedAtMs = atMs;
+    alert.acknowledgedBy = by;
+    alert.acknowledgeNote = note;
+    if (alert.clearedAtMs !== null) this.alerts.delete(id);
+    this.options.hub.publish('alert-update', alert);
+    return alert;
+  }
+
+  // ---------- reading the state ----------
+
+  structureState(s: StructureLive): StructureState {
+    const m = s.model;
+    let utilization: number | null = null;
+    let governing: string | null = null;
+    let side: string | null = null;
+    if (s.gustMps !== null && !s.level.noData && s.error === null) {
+      const a = this.assess(s, s.gustMps, s.windFromDeg);
+      utilization = a.utilization;
+      governing = a.governing;
+      side = a.side;
+    }
+    const unbounded = utilization !== null && !Number.isFinite(utilization);
+    return {
+      id: m.id,
+      name: m.name,
+      kind: m.kind,
+      level: s.level.level,
+      levelLabel: s.level.level > 0 ? (m.levels[s.level.level - 1]?.label ?? null) : null,
+      levelSinceMs: s.level.sinceMs,
+      noData: s.level.noData || s.error !== null,
+      gustMps: s.level.noData ? null : s.gustMps,
+      governingSensorKey: s.level.noData ? null : s.governingSensorKey,
+      windFromDeg: s.windFromDeg,
+      utilization: unbounded ? null : utilization,
+      governing,
+      side,
+      margin: utilization === null || unbounded ? null : 1 - utilization,
+      unbounded,
+      limitGustMps: s.density.limitGustMps,
+      calculatedLimitGustMps: s.density.calculatedLimitGustMps,
+      ratedGustMps: m.ratedGustMps,
+      airDensityKgM3: s.density.airDensityKgM3,
+      referenceHeightM: m.referenceHeightM,
+      triggerGustsMps: s.density.triggerGustsMps,
+      levels: m.levels.map((l, i) => ({ level: i + 1, label: l.label, actionText: l.actionText, triggerGustMps: s.density.triggerGustsMps[i]!, trigger: l.trigger })),
+      evaluatedAtMs: s.evaluatedAtMs,
+      error: s.error,
+    };
+  }
+
+  sensorState(s: SensorLive, nowMs: number): SensorState {
+    const snap = windSnapshot(s.wind, nowMs);
+    const implausible: string[] = [...snap.implausibleReasons];
+    if (s.stuck) implausible.push('stuck');
+    return {
+      key: s.sensor.key,
+      name: s.sensor.name,
+      heightM: s.sensor.heightM,
+      currentGustMps: snap.currentGustMps,
+      peakGust10minMps: snap.peakGust10minMps,
+      mean10minMps: snap.mean10minMps,
+      meanDirDeg: snap.meanDirDeg,
+      beaufort: snap.mean10minMps === null ? null : beaufortForce(snap.mean10minMps),
+      lastReadingTsMs: snap.lastReadingTsMs,
+      lastReceivedAtMs: snap.lastReceivedAtMs,
+      silent: snap.silent,
+      implausible,
+      temperatureC: snap.temperatureC,
+      pressurePa: snap.pressurePa,
+      rhPct: snap.rhPct,
+    };
+  }
+
+  /** Everything a screen needs to start: site, air, sensors, structures (worst margin first), open alerts. */
+  snapshot(): {
+    atMs: number;
+    site: { id: number; name: string; timeZone: string; directionalEnabled: boolean; heightReductionEnabled: boolean };
+    air: { densityKgM3: number; basis: string };
+    sensors: SensorState[];
+    structures: StructureState[];
+    alerts: OpenAlert[];
+  } {
+    const nowMs = this.now();
+    const structures = [...this.structures.values()].map((s) => this.structureState(s));
+    structures.sort(byUrgency);
+    return {
+      atMs: nowMs,
+      site: { id: this.site.id, name: this.site.name, timeZone: this.site.timeZone, directionalEnabled: this.site.directionalEnabled, heightReductionEnabled: this.site.heightReductionEnabled },
+      air: { densityKgM3: this.airDensityKgM3, basis: this.airDensityBasis },
+      sensors: [...this.sensors.values()].map((s) => this.sensorState(s, nowMs)),
+      structures,
+      alerts: this.openAlerts(),
+    };
+  }
+
+  openAlerts(): OpenAlert[] {
+    return [...this.alerts.values()].filter((a) => a.acknowledgedAtMs === null || a.clearedAtMs === null).sort((a, b) => b.raisedAtMs - a.raisedAtMs);
+  }
+
+  structureStateById(id: number): StructureState | null {
+    const s = this.structures.get(id);
+    return s ? this.structureState(s) : null;
+  }
+
+  sensorStateByKey(key: string): SensorState | null {
+    const s = this.sensorsByKey.get(key);
+    return s ? this.sensorState(s, this.now()) : null;
+  }
+
+  get currentAirDensityKgM3(): number {
+    return this.airDensityKgM3;
+  }
+}
+
+/** No data first, then highest level, then least margin. */
+function byUrgency(a: StructureState, b: StructureState): number {
+  if (a.noData !== b.noData) return a.noData ? -1 : 1;
+  if (a.level !== b.level) return b.level - a.level;
+  const ma = a.margin ?? -Infinity;
+  const mb = b.margin ?? -Infinity;
+  return ma - mb;
+}
+
+function restoredLevel(restored: { level: number; sinceMs: number } | undefined, nowMs: number): LevelState {
+  const initial = initialLevelState(nowMs);
+  if (!restored || restored.level <= 0) return initial;
+  // After a restart the last logged level holds until readings justify lowering it (with the
+  // usual hold): a restart must never make a structure look calmer than it was.
+  return { ...initial, level: restored.level, sinceMs: restored.sinceMs };
+}
+
+function brokenStructure(row: StructureRow, err: unknown, nowMs: number, old: StructureLive | undefined): StructureLive {
+  const message = err instanceof Error ? err.message : String(err);
+  return {
+    model: {
+      id: row.id,
+      name: row.name,
+      kind: row.kind,
+      orientationDeg: row.orientationDeg,
+      mobile: row.mobile,
+      sensorKeys: null,
+      expanded: { baseDepthM: 1, frictionCoefficient: 0.3, faces: [], masses: [], safetyFactors: { overturning: 1.5, sliding: 2, uplift: 1.5 } },
+      coefficients: { front: { forceAreaM2: 0, momentVolumeM3: 0, weightMomentNm: 0 }, back: { forceAreaM2: 0, momentVolumeM3: 0, weightMomentNm: 0 }, upliftAreaM2: 0, weightN: 0, baseDepthM: 1, frictionCoefficient: 0.3, safetyFactors: { overturning: 1.5, sliding: 2, uplift: 1.5 } },
+      referenceHeightM: 1,
+      levels: [],
+      ratedGustMps: null,
+    },
+    density: { airDensityKgM3: 1.225, calculatedLimitGustMps: 0, limitGustMps: 0, triggerGustsMps: [] },
+    profileRatio: 1,
+    level: old?.level ?? { ...initialLevelState(nowMs) },
+    gustMps: null,
+    governingSensorKey: null,
+    windFromDeg: null,
+    evaluatedAtMs: null,
+    minuteMs: 0,
+    minuteMaxGustMps: 0,
+    minuteMaxLevel: 0,
+    minuteDirty: false,
+    noDataAlertId: old?.noDataAlertId ?? null,
+    error: `stored record cannot be assessed: ${message}`,
+  };
+}
