@@ -28,7 +28,8 @@ export const meanWindowMs = 600_000;
  * The longest time one raw sample stands for. A sample represents the wind from the previous
  * sample up to its own time (see acceptReading.ts); after a gap it stands for at most 3 s before
  * it, so a lone sample after a pause is its own 3-s mean (its value, undiluted: conservative) and
- * does not get minutes of weight in the 10-minute mean. It must not be shorter than
+ * does not get minutes of weight in the 10-minute mean. The very first sample, with no previous
+ * one, stands for 3 s too. It must not be shorter than
  * gustWindowMs, or the 3-s window could contain time no sample stands for.
  */
 export const sampleSpanCapMs = gustWindowMs;
