@@ -13,7 +13,9 @@ const degreesPerRadian = 180 / Math.PI;
 /** `angleDeg` folded into [0, 360). */
 export function normalizedAzimuthDeg(angleDeg: number): number {
   const folded = angleDeg % 360;
-  return folded < 0 ? folded + 360 : folded;
+  const positive = folded < 0 ? folded + 360 : folded;
+  // −1e-15 + 360 rounds to 360 in floating point: that is north, 0.
+  return positive >= 360 ? 0 : positive;
 }
 
 /** The smaller angle between two azimuths, 0..180°. */
