@@ -8,17 +8,17 @@
  * JSON has no Infinity: an unbounded utilization is null with `unbounded.<criterion>` true, and a
  * limit no gust reaches is null (see server/engine/assess.ts).
  */
-import { Hono } from 'hono';
+import { Hono, type Context } from 'hono';
 import { z } from 'zod';
-import { assessStructure, plausibleAirDensityKgM3, recordIssues, validateStructureRecord, type RecordIssue } from '../engine/index.ts';
-import { HttpError } from './httpError.ts';
+import { assessStructure, plausibleAirDensityKgM3, recordIssues, validateStructureRecord } from '../engine/index.ts';
+import type { FieldIssue } from './httpError.ts';
 
 /** Gust range accepted, m/s: the sensor plausibility bound of design §3. */
 const maxGustMps = 120;
 
 const assessBodySchema = z.strictObject({
   // Checked separately, so its issues carry the full record path.
-  structure: z.unknown(),
+  structure: z.unknown().optional(),
   gustMps: z.number().gte(0, 'must be ≥ 0 m/s').lte(maxGustMps, `must be ≤ ${maxGustMps} m/s`),
   airDensityKgM3: z
     .number()
@@ -27,27 +27,38 @@ const assessBodySchema = z.strictObject({
     .optional(),
 });
 
-async function jsonBody(request: Request): Promise<unknown> {
-  try {
-    return await request.json();
-  } catch {
-    // The parser's own message adds nothing a caller can act on.
-    throw HttpError.invalid([{ path: '', message: 'body is not valid JSON' }]);
-  }
+/**
+ * The 400 answer, the same body as `HttpError.invalid` renders in app.ts. Answered here rather
+ * than thrown so that the route behaves the same mounted or on its own (as in its tests).
+ */
+function invalidInput(c: Context, issues: FieldIssue[]): Response {
+  return c.json({ error: 'invalid input', issues }, 400);
+}
+
+function isPlainObject(value: unknown): value is Record<string, unknown> {
+  return typeof value === 'object' && value !== null && !Array.isArray(value);
 }
 
 export const assessRoute = new Hono();
 
 assessRoute.post('/', async (c) => {
-  const body = await jsonBody(c.req.raw);
+  let body: unknown;
+  try {
+    body = await c.req.json();
+  } catch {
+    // The parser's own message adds nothing a caller can act on.
+    return invalidInput(c, [{ path: '', message: 'body is not valid JSON' }]);
+  }
   const parsedBody = assessBodySchema.safeParse(body);
-  const issues: RecordIssue[] = parsedBody.success ? [] : recordIssues(parsedBody.error.issues);
-  const isObject = typeof body === 'object' && body !== null && !Array.isArray(body);
-  const structure = isObject ? validateStructureRecord((body as { structure?: unknown }).structure) : null;
+  const issues: FieldIssue[] = parsedBody.success ? [] : recordIssues(parsedBody.error.issues);
+  // The record is checked even when the rest of the body is wrong, so one answer names everything.
+  const structureInput = isPlainObject(body) ? body.structure : undefined;
+  const structure = structureInput === undefined ? null : validateStructureRecord(structureInput);
+  if (structureInput === undefined && isPlainObject(body)) issues.push({ path: 'structure', message: 'is required: a structure record' });
   if (structure && !structure.ok) {
     issues.push(...structure.issues.map((issue) => ({ ...issue, path: issue.path === '' ? 'structure' : `structure.${issue.path}` })));
   }
-  if (!parsedBody.success || !structure?.ok || issues.length > 0) throw HttpError.invalid(issues);
+  if (!parsedBody.success || !structure?.ok) return invalidInput(c, issues);
   const { gustMps, airDensityKgM3 } = parsedBody.data;
   return c.json(assessStructure(structure.record, { gustMps, airDensityKgM3 }));
 });
