@@ -164,20 +164,16 @@ export function sideStability(coefficients: StabilityCoefficients, side: Side, q
   const overturningMomentNm = sums.momentVolumeM3 * faceQPa;
   const upliftN = upliftAreaM2 * qPa;
   const restoringMomentNm = sums.weightMomentNm - (upliftN * baseDepthM) / 2;
-  const overturning = utilizationRatio(safetyFactors.overturning * overturningMomentNm, restoringMomentNm);
-  const sliding = utilizationRatio(safetyFactors.sliding * horizontalForceN, frictionCoefficient * (weightN - upliftN));
-  const uplift = utilizationRatio(safetyFactors.uplift * upliftN, weightN);
-  const byCriterion = { overturning, sliding, uplift };
-  const governing = governingCriterion(byCriterion);
-  return {
-    side,
-    horizontalForceN,
-    upliftN,
-    overturningMomentNm,
-    restoringMomentNm,
-    utilization: { ...byCriterion, governing: byCriterion[governing] },
-    governing,
+  // Runs per reading and structure: two objects, nothing else allocated.
+  const utilization: Utilizations = {
+    overturning: utilizationRatio(safetyFactors.overturning * overturningMomentNm, restoringMomentNm),
+    sliding: utilizationRatio(safetyFactors.sliding * horizontalForceN, frictionCoefficient * (weightN - upliftN)),
+    uplift: utilizationRatio(safetyFactors.uplift * upliftN, weightN),
+    governing: 0,
   };
+  const governing = governingCriterion(utilization);
+  utilization.governing = utilization[governing];
+  return { side, horizontalForceN, upliftN, overturningMomentNm, restoringMomentNm, utilization, governing };
 }
 
 export interface StabilityAtPressure {
