@@ -60,14 +60,17 @@ export function resistanceSettings(record: RecordBase): {
       : { value: record.frictionCoefficient, source: 'given in the record' };
   sources.push({ item: 'friction coefficient μ', ...friction });
 
-  const safetyFactors = {} as SafetyFactors;
+  const given = record.safetyFactors ?? {};
+  const safetyFactors: SafetyFactors = {
+    overturning: given.overturning ?? defaultSafetyFactors.overturning,
+    sliding: given.sliding ?? defaultSafetyFactors.sliding,
+    uplift: given.uplift ?? defaultSafetyFactors.uplift,
+  };
   for (const criterion of criteria) {
-    const given = record.safetyFactors?.[criterion];
-    safetyFactors[criterion] = given ?? defaultSafetyFactors[criterion];
     sources.push({
       item: `safety factor γ (${criterion})`,
       value: safetyFactors[criterion],
-      source: given === undefined ? safetyFactorSources[criterion] : 'given in the record',
+      source: given[criterion] === undefined ? safetyFactorSources[criterion] : 'given in the record',
     });
   }
   const settings = { frictionCoefficient: friction.value, safetyFactors, ratedGustMps: record.ratedGustMps };
