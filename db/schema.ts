@@ -147,8 +147,6 @@ export const structuresTable = sqliteTable('structures', {
   location: text().notNull().default(''),
   latDeg: real('lat_deg'),
   lonDeg: real('lon_deg'),
-  /** Reference height for the gust transfer; null = the structure's top. */
-  referenceHeightM: real('reference_height_m'),
   mobile: integer({ mode: 'boolean' }).notNull().default(false),
   /** Sensor keys that govern (JSON array); null = every sensor on the site. */
   sensorKeysJson: text('sensor_keys_json', { mode: 'json' }),

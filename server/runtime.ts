@@ -6,7 +6,7 @@
  */
 import path from 'node:path';
 import { serve, type ServerType } from '@hono/node-server';
-import { and, desc, eq, isNull, or } from 'drizzle-orm';
+import { desc, eq, isNull, or } from 'drizzle-orm';
 import { alertsTable, levelChangesTable, sensorsTable, structuresTable } from '../db/schema.ts';
 import { Accounts } from './auth/accounts.ts';
 import { SignInLimiter } from './auth/signInLimiter.ts';
@@ -83,7 +83,7 @@ function activeStructures(db: Db) {
 export function initialState(db: Db): InitialState {
   const levels = new Map<number, { level: number; sinceMs: number }>();
   for (const s of activeStructures(db)) {
-    const last = db.select().from(levelChangesTable).where(and(eq(levelChangesTable.structureId, s.id), eq(levelChangesTable.noData, false))).orderBy(desc(levelChangesTable.atMs), desc(levelChangesTable.id)).limit(1).get();
+    const last = db.select().from(levelChangesTable).where(eq(levelChangesTable.structureId, s.id)).orderBy(desc(levelChangesTable.atMs), desc(levelChangesTable.id)).limit(1).get();
     if (last) levels.set(s.id, { level: last.toLevel, sinceMs: last.atMs });
   }
   const sensorKeys = new Map(db.select({ id: sensorsTable.id, key: sensorsTable.key, name: sensorsTable.name }).from(sensorsTable).all().map((s) => [s.id, s]));
@@ -120,15 +120,6 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
   ensureSite(db, now());
 
   const accounts = new Accounts(db);
-  const first = await accounts.prepareFirstAdmin({ username: config.adminUsername, password: config.adminPassword }, now());
-  if (first && 'created' in first) log.info({ username: first.created.username }, 'first administrator created from ADMIN_USERNAME / ADMIN_PASSWORD');
-  if (first && 'setupCode' in first) {
-    log.warn(
-      { setupCode: first.setupCode },
-      `nobody can sign in yet: open the web app and create the first administrator with setup code ${first.setupCode} (shown once; restart for a new one)`,
-    );
-  }
-
   const registry = new Registry(db);
   const rejections = new RejectionLog(sqlite, log, now);
   const queue = new WriteQueue(sqlite, now);
@@ -249,6 +240,17 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
   });
 
   await options.beforeListen?.(running);
+
+  // After the demo's seeding, so a demo (which has its own sign-ins) prints no setup code.
+  const first = await accounts.prepareFirstAdmin({ username: config.adminUsername, password: config.adminPassword }, now());
+  if (first && 'created' in first) log.info({ username: first.created.username }, 'first administrator created from ADMIN_USERNAME / ADMIN_PASSWORD');
+  if (first && 'setupCode' in first) {
+    log.warn(
+      { setupCode: first.setupCode },
+      `nobody can sign in yet: open the web app and create the first administrator with setup code ${first.setupCode} (shown once; restart for a new one)`,
+    );
+  }
+
 
   const server: ServerType = await new Promise((resolve, reject) => {
     const s = serve({ fetch: app.fetch, port: config.httpPort, hostname: config.httpHost }, () => resolve(s));

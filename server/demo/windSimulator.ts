@@ -121,7 +121,7 @@ export class WindSimulator {
       // Gust bursts: on average one every ~2 minutes, lasting 3–8 s.
       if (s.burstLeftS <= 0 && this.random() < dtS / 120) {
         s.burstLeftS = 3 + 5 * this.random();
-        s.burstGain = 0.15 + 0.25 * this.random();
+        s.burstGain = 0.1 + 0.2 * this.random();
       }
       const burst = s.burstLeftS > 0 ? s.burstGain : 0;
       s.burstLeftS -= dtS;

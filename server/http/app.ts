@@ -26,7 +26,7 @@ export interface AppServices {
   /** Route groups and where they are mounted (sensors, structures, log...). */
   routes?: ReadonlyArray<{ path: string; app: Hono<AppEnv> }>;
   /** Serves the built web app when given. */
-  staticRoot?: string;
+  staticRoot?: string | null;
 }
 
 /** Largest request body accepted (an import of a whole register fits comfortably). */

@@ -7,7 +7,7 @@
 import { eq, isNull } from 'drizzle-orm';
 import { z } from 'zod';
 import { structuresTable, sensorsTable } from '../../db/schema.ts';
-import { expandStructure, isaAirDensityKgM3, validateStructureRecord, type StructureRecord } from '../engine/index.ts';
+import { isaAirDensityKgM3, validateStructureRecord, type StructureRecord } from '../engine/index.ts';
 import { HttpError, type FieldIssue } from '../http/httpError.ts';
 import { checkLevelOrder, levelListSchema, type LevelDefinition } from '../levels/index.ts';
 import type { Db, Tx } from '../storage/database.ts';
@@ -23,8 +23,6 @@ export const structureInputSchema = z.strictObject({
   location: z.string().trim().max(200).default(''),
   latDeg: z.number().min(-90).max(90).nullable().default(null),
   lonDeg: z.number().min(-180).max(180).nullable().default(null),
-  /** Height the gust is transferred to, m; null = the structure's top. */
-  referenceHeightM: z.number().gt(0).max(200).nullable().default(null),
   mobile: z.boolean().default(false),
   /** Sensors whose wind governs; null or [] = every sensor on the site, the highest wins. */
   sensorKeys: z.array(z.string()).max(200).nullable().default(null),
@@ -45,7 +43,6 @@ export interface StructureView {
   location: string;
   latDeg: number | null;
   lonDeg: number | null;
-  referenceHeightM: number | null;
   mobile: boolean;
   sensorKeys: string[] | null;
   /** Own levels, or null when the site's defaults apply. */
@@ -64,7 +61,6 @@ export function structureView(row: StructureRow): StructureView {
     location: row.location,
     latDeg: row.latDeg,
     lonDeg: row.lonDeg,
-    referenceHeightM: row.referenceHeightM,
     mobile: row.mobile,
     sensorKeys: (row.sensorKeysJson as string[] | null) ?? null,
     levels: (row.levelsJson as LevelDefinition[] | null) ?? null,
@@ -91,10 +87,9 @@ export function checkStructure(tx: Tx, input: StructureInput): StructureRecord {
   if (!validation.ok) throw HttpError.invalid(issues);
   const record = validation.record;
   try {
-    const { referenceHeightM } = expandStructure(record);
     const site = getSite(tx);
     const model = structureModel(
-      { id: 0, name: record.name, kind: record.kind, recordJson: record, orientationDeg: input.orientationDeg, referenceHeightM: input.referenceHeightM ?? referenceHeightM, mobile: input.mobile, sensorKeysJson: null, levelsJson: input.levels },
+      { id: 0, name: record.name, kind: record.kind, recordJson: record, orientationDeg: input.orientationDeg, mobile: input.mobile, sensorKeysJson: null, levelsJson: input.levels },
       site.defaultLevelsJson as LevelDefinition[],
     );
     // Mixed utilization and gust triggers can only be ordered once the structure is known.
@@ -131,7 +126,6 @@ function rowValues(input: StructureInput, record: StructureRecord) {
     location: input.location,
     latDeg: input.latDeg,
     lonDeg: input.lonDeg,
-    referenceHeightM: input.referenceHeightM,
     mobile: input.mobile,
     sensorKeysJson: input.sensorKeys && input.sensorKeys.length > 0 ? input.sensorKeys : null,
     levelsJson: input.levels,
@@ -157,7 +151,6 @@ export function updateStructure(db: Db, id: number, patch: z.infer<typeof struct
       location: patch.location ?? before.location,
       latDeg: patch.latDeg === undefined ? before.latDeg : patch.latDeg,
       lonDeg: patch.lonDeg === undefined ? before.lonDeg : patch.lonDeg,
-      referenceHeightM: patch.referenceHeightM === undefined ? before.referenceHeightM : patch.referenceHeightM,
       mobile: patch.mobile ?? before.mobile,
       sensorKeys: patch.sensorKeys === undefined ? before.sensorKeys : patch.sensorKeys,
       levels: patch.levels === undefined ? before.levels : patch.levels,

@@ -47,7 +47,6 @@ export interface StructureRow {
   kind: string;
   recordJson: unknown;
   orientationDeg: number;
-  referenceHeightM: number | null;
   mobile: boolean;
   sensorKeysJson: unknown;
   levelsJson: unknown;
@@ -66,7 +65,7 @@ export function structureModel(row: StructureRow, siteLevels: readonly LevelDefi
     sensorKeys: keys && keys.length > 0 ? new Set(keys) : null,
     expanded: structure,
     coefficients: stabilityCoefficients(structure),
-    referenceHeightM: row.referenceHeightM ?? referenceHeightM,
+    referenceHeightM,
     levels,
     ratedGustMps: structure.ratedGustMps ?? null,
   };

@@ -543,6 +543,7 @@ export class Watch implements ReadingConsumer {
         break;
       }
       case 'data-restored': {
+        batch.levelChanges.push({ structureId: s.model.id, atMs: event.atMs, fromLevel: s.level.level, toLevel: s.level.level, gustMps: s.gustMps, utilization, noData: false });
         if (s.noDataAlertId !== null) {
           const alert = this.alerts.get(s.noDataAlertId);
           if (alert) this.clear(alert, event.atMs, batch, announcements);

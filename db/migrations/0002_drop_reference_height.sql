@@ -1,0 +1,1 @@
+ALTER TABLE `structures` DROP COLUMN `reference_height_m`;

@@ -1,0 +1,201 @@
+/**
+ * `npm run demo`: the normal server with the invented demo site (see demoSite.ts). On first start
+ * it registers the site, sensors, a gateway, demo sign-ins and the structures, and writes a past
+ * windy day into the log by running the real watch over simulated readings in simulated time;
+ * then simulated anemometers publish over MQTT through the demo gateway like real ones, with a
+ * scripted windy spell a few minutes after start and again every 40 minutes.
+ */
+import { eq } from 'drizzle-orm';
+import mqtt, { type MqttClient } from 'mqtt';
+import { alertsTable, metaTable } from '../../db/schema.ts';
+import type { Config } from '../config.ts';
+import { LiveHub } from '../live/liveHub.ts';
+import type { Logger } from '../log.ts';
+import { recordAudit } from '../register/audit.ts';
+import { createGateway } from '../register/gateways.ts';
+import { createSensor } from '../register/sensors.ts';
+import { getSite, updateSite } from '../register/site.ts';
+import { createStructure, listStructures } from '../register/structures.ts';
+import { readingTopic } from '../ingest/topic.ts';
+import { siteSettings, startServer, type RunningServer } from '../runtime.ts';
+import type { Db } from '../storage/database.ts';
+import { WriteQueue } from '../storage/writeQueue.ts';
+import { zonedDayWindow } from '../http/routes/zonedDay.ts';
+import { Watch } from '../watch/watch.ts';
+import { mpsToSpeed, type SpeedUnit } from '../engine/units.ts';
+import { demoGatewayUsername, demoPeople, demoSensors, demoSiteName, demoStructures, demoTimeZone } from './demoSite.ts';
+import { seededRandom } from './random.ts';
+import { WindSimulator } from './windSimulator.ts';
+
+const seededKey = 'demo-seeded';
+const gatewayPasswordKey = 'demo-gateway-password';
+const actor = 'demo set-up';
+
+function meta(db: Db, key: string): string | null {
+  return db.select().from(metaTable).where(eq(metaTable.key, key)).get()?.value ?? null;
+}
+
+function setMeta(db: Db, key: string, value: string, nowMs: number): void {
+  db.insert(metaTable).values({ key, value, updatedAtMs: nowMs }).onConflictDoUpdate({ target: metaTable.key, set: { value, updatedAtMs: nowMs } }).run();
+}
+
+/** Registers the demo site once per data folder. */
+async function seedRegister(server: RunningServer, nowMs: number): Promise<void> {
+  const { db, accounts } = server;
+  if (meta(db, seededKey)) return;
+  updateSite(db, { name: demoSiteName, altitudeM: 85, terrainCategory: 'II', timeZone: demoTimeZone, airDensityMode: 'measured' }, actor, nowMs);
+  const site = getSite(db);
+  for (const person of demoPeople) {
+    if (!accounts.listPeople().some((p) => p.username === person.username)) await accounts.createPerson(person, actor, nowMs);
+  }
+  for (const sensor of demoSensors) createSensor(db, site.id, sensor, actor, nowMs);
+  const { password } = await createGateway(db, site.id, { name: 'Site gateway (demo)', username: demoGatewayUsername, sensorKeys: demoSensors.map((s) => s.key) }, actor, nowMs);
+  setMeta(db, gatewayPasswordKey, password, nowMs);
+  for (const structure of demoStructures) createStructure(db, site.id, structure, actor, nowMs);
+  server.registry.reload();
+  server.reloadRegister();
+}
+
+/** Spells for the live demo: the first 3 minutes after start, then every 40 minutes for a day. */
+function liveSpells(startMs: number, simStartMs: number) {
+  const spells = [];
+  for (let i = 0; i < 36; i++) {
+    spells.push({ startMs: startMs - simStartMs + 3 * 60_000 + i * 40 * 60_000, rampMs: 4 * 60_000, holdMs: 8 * 60_000, peakMeanMps: i % 3 === 1 ? 13 : 11 });
+  }
+  return spells;
+}
+
+/**
+ * Writes yesterday (in the site's time zone) into the log: simulated readings every 5 s from
+ * each sensor go through a watch of their own in simulated time, so the level changes, alerts
+ * and per-minute history are exactly what the live system would have recorded.
+ */
+function writePastDay(server: RunningServer, nowMs: number, seed: number, log: Logger): void {
+  const { db } = server;
+  const today = new Intl.DateTimeFormat('en-CA', { timeZone: demoTimeZone }).format(new Date(nowMs));
+  const [y, m, d] = today.split('-').map(Number) as [number, number, number];
+  const yesterday = new Date(Date.UTC(y, m - 1, d - 1)).toISOString().slice(0, 10);
+  const window = zonedDayWindow(yesterday, demoTimeZone)!;
+  let simNow = window.fromMs;
+  const watch = new Watch({ hub: new LiveHub(50), now: () => simNow });
+  const sensors = server.registry.sensors();
+  const structures = listStructures(db).map((s) => ({ ...s, recordJson: s.record, sensorKeysJson: s.sensorKeys, levelsJson: s.levels }));
+  watch.configure(siteSettings(db), sensors, structures);
+  const queue = new WriteQueue(db.$client, () => simNow);
+  const noon = window.fromMs + 12 * 3_600_000;
+  const simulator = new WindSimulator({
+    seed,
+    startMs: window.fromMs,
+    baseMeanMps: 4.5,
+    dailySwingMps: 1.5,
+    baseDirDeg: 240,
+    sensors: demoSensors.map((s) => ({ key: s.key, heightM: s.heightM })),
+    // A front through the afternoon: gusts high enough to take the weaker structures to their limits.
+    spells: [
+      { startMs: noon + 1.5 * 3_600_000 - window.fromMs, rampMs: 90 * 60_000, holdMs: 100 * 60_000, peakMeanMps: 12.5 },
+      { startMs: noon + 7 * 3_600_000 - window.fromMs, rampMs: 30 * 60_000, holdMs: 20 * 60_000, peakMeanMps: 9 },
+    ],
+  });
+  const byKey = new Map(sensors.map((s) => [s.key, s]));
+  const stepMs = 5_000;
+  let pending = 0;
+  for (simNow = window.fromMs; simNow < window.toMs; simNow += stepMs) {
+    for (const sample of simulator.sample(simNow)) {
+      const sensor = byKey.get(sample.key)!;
+      const { batch } = watch.take(sensor, [{ tsMs: sample.tsMs, speedMps: sample.speedMps, gustMps: null, dirDeg: sample.dirDeg, tempC: sample.tempC, pressurePa: sample.pressureHpa * 100, rhPct: sample.rhPct }], simNow);
+      void queue.enqueue(batch);
+      pending++;
+    }
+    const tick = watch.tick();
+    if (tick) void queue.enqueue(tick.batch);
+    if (++pending > 2_000) {
+      queue.flush();
+      pending = 0;
+    }
+  }
+  queue.flush();
+
+  // The crew acknowledged every alert within a few minutes, with what they did.
+  const random = seededRandom(seed + 1);
+  const crew = ['Sam Okoro (site crew)', 'Priya Nandakumar (stage manager)', 'Dana Whitlock (competent person)'];
+  const notes: Record<string, string[]> = {
+    Watch: ['Walked the line, ballast and ties fine.', 'Checked feet and straps, all tight.', 'Briefed the gate team.'],
+    Prepare: ['Side walls on the west face closed, stewards briefed.', 'Scrim unclipped on every second bay.', 'Screen content switched off, crew on standby.'],
+    'Stop and clear': ['Area cleared and taped off at 1.5 × height downwind.', 'Scrim dropped and rolled, path closed.', 'Marquee emptied, caterers moved to the barn.'],
+  };
+  const alerts = db.select().from(alertsTable).all().filter((a) => a.raisedAtMs >= window.fromMs && a.raisedAtMs < window.toMs);
+  for (const a of alerts) {
+    const by = crew[Math.floor(random() * crew.length)]!;
+    const options = notes[a.label] ?? ['Checked and logged.'];
+    const note = options[Math.floor(random() * options.length)]!;
+    const atMs = a.raisedAtMs + Math.round(30_000 + random() * 210_000);
+    db.update(alertsTable).set({ acknowledgedAtMs: atMs, acknowledgedBy: by, acknowledgeNote: note }).where(eq(alertsTable.id, a.id)).run();
+    recordAudit(db, { actor: by, entity: 'alert', entityId: a.id, action: 'acknowledge', after: { by, note } }, atMs);
+  }
+  log.info({ day: yesterday, readings: queue.stats.committedReadings, alerts: alerts.length }, 'demo: past windy day written to the log');
+}
+
+function startSimulator(server: RunningServer, config: Config, password: string, log: Logger): { stop: () => Promise<void> } {
+  const startMs = Date.now();
+  const simulator = new WindSimulator({
+    seed: config.demoSeed,
+    startMs,
+    baseMeanMps: 5,
+    dailySwingMps: 1.5,
+    baseDirDeg: 235,
+    sensors: demoSensors.map((s) => ({ key: s.key, heightM: s.heightM })),
+    spells: liveSpells(startMs, startMs),
+  });
+  const url = config.mqttUrl ?? `mqtt://127.0.0.1:${server.mqttPort}`;
+  const client: MqttClient = mqtt.connect(url, { username: demoGatewayUsername, password, clientId: `demo-gateway-${process.pid}`, reconnectPeriod: 2_000 });
+  client.on('error', (err) => log.warn({ err: err.message }, 'demo gateway: MQTT error'));
+  const units = new Map(demoSensors.map((s) => [s.key, s.unit as SpeedUnit]));
+  const timer = setInterval(() => {
+    if (!client.connected) return;
+    for (const sample of simulator.sample(Date.now())) {
+      const unit = units.get(sample.key) ?? 'm/s';
+      const payload = JSON.stringify({
+        ts: new Date(sample.tsMs).toISOString(),
+        speed: Math.round(mpsToSpeed(sample.speedMps, unit) * 100) / 100,
+        dir: sample.dirDeg,
+        ...(sample.key === 'north-mast' ? { tempC: sample.tempC, pressureHpa: sample.pressureHpa, rh: sample.rhPct } : {}),
+      });
+      client.publish(readingTopic(config.topicPrefix, sample.key), payload, { qos: 1 });
+    }
+  }, 1_000);
+  log.info({ url, sensors: demoSensors.map((s) => s.key) }, 'demo: simulated anemometers publishing once a second; a windy spell starts in 3 minutes and returns every 40 minutes');
+  return {
+    stop: async () => {
+      clearInterval(timer);
+      await client.endAsync();
+    },
+  };
+}
+
+export async function runDemo(config: Config, log: Logger): Promise<RunningServer> {
+  const server = await startServer(config, log, {
+    beforeListen: async (s) => {
+      const nowMs = Date.now();
+      if (!meta(s.db, seededKey)) {
+        await seedRegister(s, nowMs);
+        writePastDay(s, nowMs, config.demoSeed, log);
+        setMeta(s.db, seededKey, new Date(nowMs).toISOString(), nowMs);
+        // The live watch starts from what the past day left in the log.
+        s.reloadRegister();
+      }
+    },
+  });
+  const password = meta(server.db, gatewayPasswordKey);
+  if (!password) throw new Error('demo gateway password missing: delete the data folder and start the demo again');
+  const simulator = startSimulator(server, config, password, log);
+  log.warn(
+    { signIns: demoPeople.map((p) => `${p.username} / ${p.password} (${p.role})`) },
+    `DEMO ONLY — sign in at http://localhost:${server.httpPort}/ with these demo accounts. Never use them on a real site.`,
+  );
+  const close = server.close;
+  server.close = async () => {
+    await simulator.stop();
+    await close();
+  };
+  return server;
+}

@@ -1,0 +1,147 @@
+/**
+ * The demo scenario, invented for this product: Brackenfold Common, a village green hosting a
+ * two-day summer fair, with a food marquee, a mesh fence along the north boundary, a stage-side
+ * LED screen, a bandstand shell and a sponsor's arch, three anemometers on site, and one
+ * gateway. Demo only: none of these numbers describe a real structure.
+ */
+import type { StructureInput } from '../register/structures.ts';
+import type { SensorInput } from '../register/sensors.ts';
+
+export const demoSiteName = 'Brackenfold Common — Summer Fair (demo)';
+export const demoTimeZone = 'Europe/London';
+
+export const demoSensors: SensorInput[] = [
+  { key: 'north-mast', name: 'North mast', heightM: 10, location: 'Mast by the north fence, clear of the trees', latDeg: null, lonDeg: null, unit: 'm/s', mode: 'samples', silenceTimeoutMs: 30_000 },
+  { key: 'stage-roof', name: 'Stage roof', heightM: 8, location: 'Upwind corner of the stage roof', latDeg: null, lonDeg: null, unit: 'kn', mode: 'samples', silenceTimeoutMs: 30_000 },
+  { key: 'east-gate', name: 'East gate pole', heightM: 4, location: 'Pole at the east gate', latDeg: null, lonDeg: null, unit: 'km/h', mode: 'samples', silenceTimeoutMs: 30_000 },
+];
+
+export const demoGatewayUsername = 'brackenfold-gw';
+
+/** Demo sign-ins (documented in the README as demo only). */
+export const demoPeople = [
+  { username: 'admin', displayName: 'Fair office (admin)', role: 'admin' as const, password: 'demo-admin-only' },
+  { username: 'cp', displayName: 'Dana Whitlock (competent person)', role: 'competent-person' as const, password: 'demo-competent-person' },
+  { username: 'crew', displayName: 'Sam Okoro (site crew)', role: 'crew' as const, password: 'demo-crew-member' },
+  { username: 'steward', displayName: 'Gate steward', role: 'viewer' as const, password: 'demo-steward-view' },
+];
+
+const demoSource = 'demo data: invented for the Brackenfold demo site';
+
+export const demoStructures: StructureInput[] = [
+  {
+    record: {
+      kind: 'tent',
+      name: 'Food hall marquee',
+      lengthM: 18,
+      widthM: 9,
+      eaveHeightM: 2.5,
+      ridgeHeightM: 4.6,
+      wallsClosed: true,
+      legs: 14,
+      ballastPerLegKg: 1000,
+      selfWeightKg: 1600,
+      surface: 'grass',
+    },
+    orientationDeg: 250,
+    location: 'West lawn',
+    latDeg: null,
+    lonDeg: null,
+    mobile: false,
+    sensorKeys: null,
+    levels: null,
+  },
+  {
+    record: {
+      kind: 'banner',
+      name: 'North fence scrim',
+      widthM: 24,
+      heightM: 2.2,
+      clearanceM: 0.1,
+      solidity: 0.55,
+      feet: 13,
+      ballastPerFootKg: 250,
+      footDepthM: 1.4,
+      selfWeightKg: 380,
+      surface: 'grass',
+    },
+    orientationDeg: 0,
+    location: 'North boundary',
+    latDeg: null,
+    lonDeg: null,
+    mobile: false,
+    sensorKeys: ['north-mast'],
+    levels: [
+      { label: 'Watch', trigger: { kind: 'utilization', fraction: 0.6 }, actionText: 'Walk the fence line: check feet, ballast and cable ties. Keep the gate crew informed.' },
+      { label: 'Prepare', trigger: { kind: 'utilization', fraction: 0.8 }, actionText: 'Unclip the scrim from every second bay so it can be dropped fast; keep the public back from the fence.' },
+      { label: 'Stop and clear', trigger: { kind: 'utilization', fraction: 1 }, actionText: 'Drop the scrim to the ground and roll it. Close the path along the north fence.' },
+    ],
+  },
+  {
+    record: {
+      kind: 'screen',
+      name: 'Stage-left LED screen',
+      widthM: 5,
+      heightM: 3,
+      bottomHeightM: 3.5,
+      supportTowers: 2,
+      towerMassKg: 450,
+      screenMassKg: 900,
+      outriggerDepthM: 4,
+      ballastPerTowerKg: 1500,
+      ratedGustMps: 20,
+      surface: 'hard',
+    },
+    orientationDeg: 180,
+    location: 'Stage left, on the trackway',
+    latDeg: null,
+    lonDeg: null,
+    mobile: false,
+    sensorKeys: ['stage-roof', 'north-mast'],
+    levels: null,
+  },
+  {
+    record: {
+      kind: 'shell',
+      name: 'Bandstand shell',
+      radiusM: 4,
+      form: 'open',
+      selfWeightKg: 2400,
+      frontBallastKg: 800,
+      backBallastKg: 1800,
+      surface: 'grass',
+    },
+    orientationDeg: 90,
+    location: 'East end of the green',
+    latDeg: null,
+    lonDeg: null,
+    mobile: false,
+    sensorKeys: null,
+    levels: null,
+  },
+  {
+    record: {
+      kind: 'custom',
+      name: 'Sponsor arch',
+      baseDepthM: 1.5,
+      faces: [
+        { label: 'header panel 6 × 1 m', areaM2: 6, centroidHeightM: 3.5, cfFront: 1.8, cfBack: 1.8 },
+        { label: 'two legs 0.4 × 3 m', areaM2: 2.4, centroidHeightM: 1.5, cfFront: 1.2, cfBack: 1.2 },
+      ],
+      masses: [
+        { label: 'arch frame', massKg: 220, xM: 0.75 },
+        { label: 'water ballast, front', massKg: 500, xM: 0.1 },
+        { label: 'water ballast, back', massKg: 500, xM: 1.4 },
+      ],
+      surface: 'grass',
+      coefficientSource: `${demoSource}; header panel as EN 1991-1-4 7.4.3 signboard (1.80), legs a rectangular section taken at 1.2`,
+    },
+    orientationDeg: 90,
+    location: 'East gate',
+    latDeg: null,
+    lonDeg: null,
+    mobile: false,
+    sensorKeys: ['east-gate'],
+    levels: null,
+  },
+];

@@ -1,0 +1,263 @@
+/**
+ * Review and planning: wind and utilization history (downsampled), level changes, alerts and
+ * acknowledgements, the audit trail, the summary of a day, CSV exports of every log table, and
+ * the forecast check. All need the viewer role.
+ *
+ * Windows: `from` and `to` as epoch milliseconds or ISO 8601; or `day=YYYY-MM-DD`, a calendar day
+ * in the site's time zone. Default: the last 24 hours. At most 62 days at a time.
+ */
+import { Hono } from 'hono';
+import { and, asc, eq, gte, lt } from 'drizzle-orm';
+import { z } from 'zod';
+import { alertsTable, auditTable, levelChangesTable, sensorsTable, structuresTable } from '../../../db/schema.ts';
+import { gustHeightFactor, type TerrainCategory } from '../../engine/index.ts';
+import { parseForecastTable, predictLevels, forecastSpeedUnits } from '../../levels/index.ts';
+import { toCsv } from '../../register/csv.ts';
+import { getSite } from '../../register/site.ts';
+import { getSensor } from '../../register/sensors.ts';
+import { getStructureRow } from '../../register/structures.ts';
+import { daySummary } from '../../storage/daySummary.ts';
+import { LogQueries } from '../../storage/logQueries.ts';
+import { requireRole, type AppEnv } from '../access.ts';
+import { HttpError } from '../httpError.ts';
+import { idParam, jsonBody } from '../validate.ts';
+import type { ApiContext } from './apiContext.ts';
+import { zonedDayWindow } from './zonedDay.ts';
+
+const maxWindowMs = 62 * 86_400_000;
+
+function timeParam(raw: string | undefined, name: string): number | null {
+  if (raw === undefined || raw === '') return null;
+  const value = /^[0-9]{1,15}$/.test(raw) ? Number(raw) : Date.parse(raw);
+  if (!Number.isFinite(value)) throw HttpError.invalid([{ path: name, message: `"${raw.slice(0, 40)}" is not a time (epoch ms or ISO 8601)` }]);
+  return value;
+}
+
+export interface Window {
+  fromMs: number;
+  toMs: number;
+}
+
+export function windowOf(query: (name: string) => string | undefined, nowMs: number, timeZone: string): Window {
+  const day = query('day');
+  if (day !== undefined) {
+    const window = zonedDayWindow(day, timeZone);
+    if (!window) throw HttpError.invalid([{ path: 'day', message: `"${day.slice(0, 20)}" is not a date (YYYY-MM-DD)` }]);
+    return window;
+  }
+  const toMs = timeParam(query('to'), 'to') ?? nowMs;
+  const fromMs = timeParam(query('from'), 'from') ?? toMs - 86_400_000;
+  if (!(fromMs < toMs)) throw HttpError.invalid([{ path: 'from', message: 'must be before to' }]);
+  if (toMs - fromMs > maxWindowMs) throw HttpError.invalid([{ path: 'from', message: 'a window may span at most 62 days' }]);
+  return { fromMs, toMs };
+}
+
+function pointsParam(raw: string | undefined): number {
+  if (raw === undefined) return 2000;
+  const n = Number(raw);
+  if (!Number.isInteger(n) || n < 10 || n > 10_000) throw HttpError.invalid([{ path: 'points', message: 'must be an integer from 10 to 10000' }]);
+  return n;
+}
+
+const forecastSchema = z.strictObject({
+  text: z.string().min(1, 'paste the forecast table').max(200_000),
+  /** The unit of the speeds when the header does not say. */
+  unit: z.enum(forecastSpeedUnits).optional(),
+  /** Height the forecast speeds refer to, m (forecasts give 10 m). */
+  heightM: z.number().gt(0).max(200).default(10),
+});
+
+export const csvTables = ['readings', 'wind-minutes', 'structure-minutes', 'level-changes', 'alerts', 'audit'] as const;
+
+export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
+  const api = new Hono<AppEnv>();
+  const queries = new LogQueries(ctx.db.$client);
+  const viewer = requireRole('viewer');
+  const win = (c: { req: { query(name: string): string | undefined } }) => windowOf((n) => c.req.query(n), ctx.now(), getSite(ctx.db).timeZone);
+
+  api.get('/log/wind', viewer, (c) => {
+    const { fromMs, toMs } = win(c);
+    const points = pointsParam(c.req.query('points'));
+    const key = c.req.query('sensor');
+    const sensors = key ? [getSensor(ctx.db, key)] : ctx.db.select().from(sensorsTable).all().filter((s) => s.retiredAtMs === null);
+    return c.json({
+      fromMs,
+      toMs,
+      sensors: sensors.map((s) => ({ key: s.key, name: s.name, heightM: s.heightM, series: queries.windSeries(s.id, fromMs, toMs, points) })),
+    });
+  });
+
+  api.get('/log/structures/:id', viewer, (c) => {
+    const id = idParam(c);
+    const row = getStructureRow(ctx.db, id);
+    const { fromMs, toMs } = win(c);
+    const points = pointsParam(c.req.query('points'));
+    const changes = ctx.db
+      .select()
+      .from(levelChangesTable)
+      .where(and(eq(levelChangesTable.structureId, id), gte(levelChangesTable.atMs, fromMs), lt(levelChangesTable.atMs, toMs)))
+      .orderBy(asc(levelChangesTable.atMs))
+      .all();
+    const alerts = ctx.db
+      .select()
+      .from(alertsTable)
+      .where(and(eq(alertsTable.structureId, id), gte(alertsTable.raisedAtMs, fromMs), lt(alertsTable.raisedAtMs, toMs)))
+      .orderBy(asc(alertsTable.raisedAtMs))
+      .all();
+    return c.json({ fromMs, toMs, structure: { id: row.id, name: row.name, kind: row.kind }, live: ctx.watch.structureStateById(id), series: queries.structureSeries(id, fromMs, toMs, points), levelChanges: changes, alerts });
+  });
+
+  api.get('/log/levels', viewer, (c) => {
+    const { fromMs, toMs } = win(c);
+    const structure = c.req.query('structure');
+    const conditions = [gte(levelChangesTable.atMs, fromMs), lt(levelChangesTable.atMs, toMs)];
+    if (structure !== undefined) conditions.push(eq(levelChangesTable.structureId, Number(structure)));
+    const names = new Map(ctx.db.select({ id: structuresTable.id, name: structuresTable.name }).from(structuresTable).all().map((s) => [s.id, s.name]));
+    const rows = ctx.db.select().from(levelChangesTable).where(and(...conditions)).orderBy(asc(levelChangesTable.atMs)).limit(20_000).all();
+    return c.json({ fromMs, toMs, levelChanges: rows.map((r) => ({ ...r, structureName: names.get(r.structureId) ?? null })) });
+  });
+
+  api.get('/log/alerts', viewer, (c) => {
+    const { fromMs, toMs } = win(c);
+    const rows = ctx.db.select().from(alertsTable).where(and(gte(alertsTable.raisedAtMs, fromMs), lt(alertsTable.raisedAtMs, toMs))).orderBy(asc(alertsTable.raisedAtMs)).limit(20_000).all();
+    return c.json({ fromMs, toMs, alerts: rows });
+  });
+
+  api.get('/log/audit', viewer, (c) => {
+    const { fromMs, toMs } = win(c);
+    const rows = ctx.db.select().from(auditTable).where(and(gte(auditTable.atMs, fromMs), lt(auditTable.atMs, toMs))).orderBy(asc(auditTable.atMs)).limit(20_000).all();
+    return c.json({ fromMs, toMs, audit: rows });
+  });
+
+  api.get('/log/summary', viewer, (c) => {
+    const { fromMs, toMs } = win(c);
+    return c.json(daySummary(ctx.db, fromMs, toMs));
+  });
+
+  api.get('/export/:table{[a-z-]+\\.csv}', viewer, (c) => {
+    const table = c.req.param('table').replace(/\.csv$/, '') as (typeof csvTables)[number];
+    if (!csvTables.includes(table)) throw HttpError.notFound(`export "${table}"`);
+    const { fromMs, toMs } = win(c);
+    const csv = exportCsv(ctx, table, fromMs, toMs);
+    c.header('Content-Type', 'text/csv; charset=utf-8');
+    c.header('Content-Disposition', `attachment; filename="${table}-${new Date(fromMs).toISOString().slice(0, 10)}.csv"`);
+    return c.body(csv);
+  });
+
+  api.post('/forecast', viewer, async (c) => {
+    const input = await jsonBody(c, forecastSchema);
+    const site = getSite(ctx.db);
+    const table = parseForecastTable(input.text, { ...(input.unit ? { unit: input.unit } : {}), timeZone: site.timeZone });
+    if (!table.ok) {
+      throw HttpError.invalid(table.problems.map((p) => ({ path: p.line === null ? 'text' : `text.line ${p.line}${p.column ? `.${p.column}` : ''}`, message: p.message })));
+    }
+    const states = ctx.watch.snapshot().structures.filter((s) => !s.error && s.triggerGustsMps.length > 0);
+    const structures = states.map((s) => ({
+      id: String(s.id),
+      triggerGustsMps: s.triggerGustsMps,
+      heightFactor: gustHeightFactor({ fromHeightM: input.heightM, toHeightM: s.referenceHeightM, terrainCategory: site.terrainCategory as TerrainCategory, allowReduction: site.heightReductionEnabled }),
+    }));
+    const predictions = predictLevels(table.rows, structures);
+    return c.json({
+      heightM: input.heightM,
+      ignoredColumns: table.ignoredColumns,
+      structures: states.map((s) => ({ id: s.id, name: s.name, levels: s.levels.map((l) => ({ level: l.level, label: l.label, triggerGustMps: l.triggerGustMps })) })),
+      rows: predictions.map((p, i) => ({ ...p, meanMps: table.rows[i]!.meanMps, dirFromDeg: table.rows[i]!.dirFromDeg })),
+    });
+  });
+
+  return api;
+}
+
+function exportCsv(ctx: ApiContext, table: (typeof csvTables)[number], fromMs: number, toMs: number): string {
+  const sqlite = ctx.db.$client;
+  const iso = (ms: number | null) => (ms === null ? '' : new Date(ms).toISOString());
+  switch (table) {
+    case 'readings': {
+      const rows = sqlite
+        .prepare(
+          `SELECT s.key, r.ts_ms, r.speed_cmps, r.gust_cmps, r.dir_deg, r.temp_deci_c, r.pressure_pa, r.rh_pct, r.flags
+           FROM readings r JOIN sensors s ON s.id = r.sensor_id WHERE r.ts_ms >= ? AND r.ts_ms < ? ORDER BY r.ts_ms, s.key LIMIT 2000000`,
+        )
+        .raw()
+        .all(fromMs, toMs) as Array<[string, number, number, number | null, number | null, number | null, number | null, number | null, number]>;
+      return toCsv(
+        ['sensor', 'time_utc', 'ts_ms', 'speed_mps', 'gust_mps', 'dir_deg', 'temp_c', 'pressure_pa', 'rh_pct', 'late'],
+        rows.map((r) => [r[0], iso(r[1]), r[1], r[2] / 100, r[3] === null ? '' : r[3] / 100, r[4] ?? '', r[5] === null ? '' : r[5] / 10, r[6] ?? '', r[7] ?? '', r[8] & 1 ? 'yes' : '']),
+      );
+    }
+    case 'wind-minutes': {
+      const rows = sqlite
+        .prepare(
+          `SELECT s.key, w.minute_ms, w.sample_count, w.speed_sum_cmps, w.max_gust_cmps, w.dir_sin_sum, w.dir_cos_sum, w.dir_count
+           FROM wind_minutes w JOIN sensors s ON s.id = w.sensor_id WHERE w.minute_ms >= ? AND w.minute_ms < ? ORDER BY w.minute_ms, s.key`,
+        )
+        .raw()
+        .all(fromMs, toMs) as Array<[string, number, number, number, number, number, number, number]>;
+      return toCsv(
+        ['sensor', 'minute_utc', 'minute_ms', 'samples', 'mean_mps', 'max_gust_mps', 'mean_dir_deg'],
+        rows.map((r) => {
+          const dir = r[7] > 0 ? ((Math.atan2(r[5], r[6]) * 180) / Math.PI + 360) % 360 : null;
+          return [r[0], iso(r[1]), r[1], r[2], (r[3] / r[2] / 100).toFixed(2), r[4] / 100, dir === null ? '' : Math.round(dir)];
+        }),
+      );
+    }
+    case 'structure-minutes': {
+      const rows = sqlite
+        .prepare(
+          `SELECT t.name, m.minute_ms, m.max_gust_cmps, m.max_utilization_e4, m.max_level
+           FROM structure_minutes m JOIN structures t ON t.id = m.structure_id WHERE m.minute_ms >= ? AND m.minute_ms < ? ORDER BY m.minute_ms, t.name`,
+        )
+        .raw()
+        .all(fromMs, toMs) as Array<[string, number, number, number, number]>;
+      return toCsv(
+        ['structure', 'minute_utc', 'minute_ms', 'max_gust_mps', 'max_utilization', 'max_level'],
+        rows.map((r) => [r[0], iso(r[1]), r[1], r[2] / 100, r[3] >= 2_000_000_000 ? 'unbounded' : (r[3] / 10_000).toFixed(4), r[4]]),
+      );
+    }
+    case 'level-changes': {
+      const rows = sqlite
+        .prepare(
+          `SELECT t.name, c.at_ms, c.from_level, c.to_level, c.gust_mps, c.utilization, c.no_data
+           FROM level_changes c JOIN structures t ON t.id = c.structure_id WHERE c.at_ms >= ? AND c.at_ms < ? ORDER BY c.at_ms`,
+        )
+        .raw()
+        .all(fromMs, toMs) as Array<[string, number, number, number, number | null, number | null, number]>;
+      return toCsv(
+        ['structure', 'time_utc', 'at_ms', 'from_level', 'to_level', 'gust_mps', 'utilization', 'event'],
+        rows.map((r) => [r[0], iso(r[1]), r[1], r[2], r[3], r[4] ?? '', r[5] ?? '', r[6] ? 'no data' : r[3] > r[2] ? 'raised' : r[3] < r[2] ? 'lowered' : 'data back']),
+      );
+    }
+    case 'alerts': {
+      const rows = ctx.db.select().from(alertsTable).where(and(gte(alertsTable.raisedAtMs, fromMs), lt(alertsTable.raisedAtMs, toMs))).orderBy(asc(alertsTable.raisedAtMs)).all();
+      const names = new Map(ctx.db.select({ id: structuresTable.id, name: structuresTable.name }).from(structuresTable).all().map((s) => [s.id, s.name]));
+      const sensorNames = new Map(ctx.db.select({ id: sensorsTable.id, key: sensorsTable.key }).from(sensorsTable).all().map((s) => [s.id, s.key]));
+      return toCsv(
+        ['id', 'kind', 'structure', 'sensor', 'level', 'label', 'raised_utc', 'gust_mps', 'utilization', 'acknowledged_utc', 'acknowledged_by', 'note', 'cleared_utc', 'action'],
+        rows.map((a) => [
+          a.id,
+          a.kind,
+          a.structureId === null ? '' : (names.get(a.structureId) ?? a.structureId),
+          a.sensorId === null ? '' : (sensorNames.get(a.sensorId) ?? a.sensorId),
+          a.level ?? '',
+          a.label,
+          iso(a.raisedAtMs),
+          a.gustMps ?? '',
+          a.utilization ?? '',
+          iso(a.acknowledgedAtMs),
+          a.acknowledgedBy ?? '',
+          a.acknowledgeNote ?? '',
+          iso(a.clearedAtMs),
+          a.actionText,
+        ]),
+      );
+    }
+    case 'audit': {
+      const rows = ctx.db.select().from(auditTable).where(and(gte(auditTable.atMs, fromMs), lt(auditTable.atMs, toMs))).orderBy(asc(auditTable.atMs)).all();
+      return toCsv(
+        ['time_utc', 'who', 'what', 'id', 'action', 'before', 'after'],
+        rows.map((r) => [iso(r.atMs), r.actor, r.entity, r.entityId, r.action, r.beforeJson === null ? '' : JSON.stringify(r.beforeJson), r.afterJson === null ? '' : JSON.stringify(r.afterJson)]),
+      );
+    }
+  }
+}

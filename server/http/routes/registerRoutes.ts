@@ -1,0 +1,150 @@
+/**
+ * The register, before the event: site settings, sensors, gateways, structures, and import /
+ * export of the whole register. Reading needs the viewer role; changing needs the competent
+ * person. Every change reloads the live watch and is written to the audit trail.
+ */
+import { Hono } from 'hono';
+import { z } from 'zod';
+import { principalName } from '../../auth/accounts.ts';
+import { createGateway, gatewayInputSchema, gatewayUpdateSchema, getGateway, listGateways, revokeGateway, updateGateway } from '../../register/gateways.ts';
+import { exportRegister, importRegister, registerCsv, registerFromCsv, registerSchema } from '../../register/registerFile.ts';
+import { createSensor, getSensor, listSensors, retireSensor, sensorInputSchema, sensorUpdateSchema, updateSensor } from '../../register/sensors.ts';
+import { getSite, siteUpdateSchema, updateSite } from '../../register/site.ts';
+import { createStructure, getStructureRow, listStructures, retireStructure, structureInputSchema, structureUpdateSchema, structureView, updateStructure } from '../../register/structures.ts';
+import { readingTopic } from '../../ingest/topic.ts';
+import { requireRole, type AppEnv } from '../access.ts';
+import { check, idParam, jsonBody } from '../validate.ts';
+import type { ApiContext } from './apiContext.ts';
+
+const importSchema = z.strictObject({
+  /** 'merge': add and update by sensor key and structure name; 'replace': also retire what the file does not list. */
+  mode: z.enum(['merge', 'replace']).default('merge'),
+  register: z.unknown(),
+});
+
+export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
+  const api = new Hono<AppEnv>();
+  const actor = (c: { get(key: 'principal'): Parameters<typeof principalName>[0] }) => principalName(c.get('principal'));
+  const viewer = requireRole('viewer');
+  const editor = requireRole('competent-person');
+
+  // ---- site ----
+  api.get('/site', viewer, (c) => {
+    const site = getSite(ctx.db);
+    const { defaultLevelsJson, ...rest } = site;
+    return c.json({ site: { ...rest, defaultLevels: defaultLevelsJson }, airDensityKgM3: ctx.watch.currentAirDensityKgM3 });
+  });
+  api.patch('/site', editor, async (c) => {
+    const patch = await jsonBody(c, siteUpdateSchema);
+    const site = updateSite(ctx.db, patch, actor(c), ctx.now());
+    ctx.reloadRegister();
+    const { defaultLevelsJson, ...rest } = site;
+    return c.json({ site: { ...rest, defaultLevels: defaultLevelsJson } });
+  });
+
+  // ---- sensors ----
+  const sensorView = (s: ReturnType<typeof getSensor>) => ({
+    ...s,
+    topic: readingTopic(ctx.topicPrefix, s.key),
+    live: ctx.watch.sensorStateByKey(s.key),
+    rejections: ctx.rejections.list(s.key),
+  });
+  api.get('/sensors', viewer, (c) => c.json({ sensors: listSensors(ctx.db).map(sensorView) }));
+  api.get('/sensors/:key', viewer, (c) => c.json({ sensor: sensorView(getSensor(ctx.db, c.req.param('key'))) }));
+  api.post('/sensors', editor, async (c) => {
+    const input = await jsonBody(c, sensorInputSchema);
+    const site = getSite(ctx.db);
+    const sensor = createSensor(ctx.db, site.id, input, actor(c), ctx.now());
+    ctx.registry.reload();
+    return c.json({ sensor: sensorView(sensor) }, 201);
+  });
+  api.patch('/sensors/:key', editor, async (c) => {
+    const patch = await jsonBody(c, sensorUpdateSchema);
+    const sensor = updateSensor(ctx.db, c.req.param('key'), patch, actor(c), ctx.now());
+    ctx.registry.reload();
+    return c.json({ sensor: sensorView(sensor) });
+  });
+  api.delete('/sensors/:key', editor, (c) => {
+    retireSensor(ctx.db, c.req.param('key'), actor(c), ctx.now());
+    ctx.registry.reload();
+    return c.json({ retired: true });
+  });
+  /** Rejected payloads by sensor and reason (sensor key "*" = a topic that named no sensor). */
+  api.get('/rejections', viewer, (c) => c.json({ rejections: ctx.rejections.list(), total: ctx.rejections.totalCount }));
+
+  // ---- gateways (credentials: competent person only, even to read) ----
+  api.get('/gateways', editor, (c) => c.json({ gateways: listGateways(ctx.db) }));
+  api.get('/gateways/:id', editor, (c) => c.json({ gateway: getGateway(ctx.db, idParam(c)) }));
+  api.post('/gateways', editor, async (c) => {
+    const input = await jsonBody(c, gatewayInputSchema);
+    const site = getSite(ctx.db);
+    const { gateway, password } = await createGateway(ctx.db, site.id, input, actor(c), ctx.now());
+    ctx.registry.reload();
+    return c.json({ gateway, password, note: 'The password is shown once. Store it in the gateway now.' }, 201);
+  });
+  api.patch('/gateways/:id', editor, async (c) => {
+    const patch = await jsonBody(c, gatewayUpdateSchema);
+    const { gateway, password } = await updateGateway(ctx.db, idParam(c), patch, actor(c), ctx.now());
+    ctx.registry.reload();
+    return c.json(password ? { gateway, password, note: 'The new password is shown once.' } : { gateway });
+  });
+  api.delete('/gateways/:id', editor, (c) => {
+    const gateway = revokeGateway(ctx.db, idParam(c), actor(c), ctx.now());
+    ctx.registry.reload();
+    return c.json({ gateway });
+  });
+
+  // ---- structures ----
+  const withLive = (view: ReturnType<typeof structureView>) => ({ ...view, live: ctx.watch.structureStateById(view.id) });
+  api.get('/structures', viewer, (c) => c.json({ structures: listStructures(ctx.db).map(withLive) }));
+  api.get('/structures/:id', viewer, (c) => c.json({ structure: withLive(structureView(getStructureRow(ctx.db, idParam(c)))) }));
+  api.post('/structures', editor, async (c) => {
+    const input = await jsonBody(c, structureInputSchema);
+    const site = getSite(ctx.db);
+    const view = createStructure(ctx.db, site.id, input, actor(c), ctx.now());
+    ctx.reloadRegister();
+    return c.json({ structure: withLive(view) }, 201);
+  });
+  api.patch('/structures/:id', editor, async (c) => {
+    const id = idParam(c);
+    const patch = await jsonBody(c, structureUpdateSchema);
+    const view = updateStructure(ctx.db, id, patch, actor(c), ctx.now());
+    ctx.reloadRegister();
+    return c.json({ structure: withLive(view) });
+  });
+  api.delete('/structures/:id', editor, (c) => {
+    retireStructure(ctx.db, idParam(c), actor(c), ctx.now());
+    ctx.reloadRegister();
+    return c.json({ retired: true });
+  });
+
+  // ---- the whole register ----
+  api.get('/register', viewer, (c) => {
+    c.header('Content-Disposition', 'attachment; filename="register.json"');
+    return c.json(exportRegister(ctx.db, ctx.now()));
+  });
+  api.get('/register.csv', viewer, (c) => {
+    c.header('Content-Type', 'text/csv; charset=utf-8');
+    c.header('Content-Disposition', 'attachment; filename="register.csv"');
+    return c.body(registerCsv(exportRegister(ctx.db, ctx.now())));
+  });
+  api.post('/register/import', editor, async (c) => {
+    const type = (c.req.header('content-type') ?? '').toLowerCase();
+    let mode: 'merge' | 'replace';
+    let register: z.infer<typeof registerSchema>;
+    if (type.includes('text/csv')) {
+      mode = c.req.query('mode') === 'replace' ? 'replace' : 'merge';
+      register = registerFromCsv(await c.req.text());
+    } else {
+      const body = await jsonBody(c, importSchema);
+      mode = body.mode;
+      register = check(registerSchema, body.register, 'register');
+    }
+    const summary = importRegister(ctx.db, register, mode, actor(c), ctx.now());
+    ctx.registry.reload();
+    ctx.reloadRegister();
+    return c.json({ imported: summary });
+  });
+
+  return api;
+}

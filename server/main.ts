@@ -1,0 +1,46 @@
+/**
+ * `npm start` (and `npm run demo`): reads the configuration, starts the server, and stops it
+ * cleanly on SIGINT/SIGTERM. Startup problems (a port in use, a bad setting) end the process
+ * with one plain message naming the setting to change.
+ */
+import { ConfigError, configFromEnv } from './config.ts';
+import { PortInUseError } from './ingest/embeddedBroker.ts';
+import { createLogger } from './log.ts';
+import { startServer } from './runtime.ts';
+import { runDemo } from './demo/demo.ts';
+
+async function main(): Promise<void> {
+  let config;
+  try {
+    config = configFromEnv(process.env, process.argv.slice(2));
+  } catch (err) {
+    console.error(`holdfast: ${err instanceof ConfigError ? err.message : String(err)}`);
+    process.exit(2);
+  }
+  const log = createLogger(config.logLevel);
+  try {
+    const server = config.demo ? await runDemo(config, log) : await startServer(config, log);
+    let stopping = false;
+    const stop = (signal: string) => {
+      if (stopping) return;
+      stopping = true;
+      log.info({ signal }, 'stopping');
+      server.close().then(
+        () => process.exit(0),
+        (err: unknown) => {
+          log.error({ err: String(err) }, 'error while stopping');
+          process.exit(1);
+        },
+      );
+    };
+    process.on('SIGINT', () => stop('SIGINT'));
+    process.on('SIGTERM', () => stop('SIGTERM'));
+  } catch (err) {
+    if (err instanceof PortInUseError) log.fatal(err.message);
+    else log.fatal({ err: err instanceof Error ? { message: err.message, stack: err.stack } : String(err) }, 'could not start');
+    // Give pino a moment to write the line before exiting.
+    setTimeout(() => process.exit(1), 100);
+  }
+}
+
+void main();
