@@ -10,7 +10,9 @@
  */
 import { Hono, type Context } from 'hono';
 import { z } from 'zod';
-import { assessStructure, plausibleAirDensityKgM3, recordIssues, validateStructureRecord } from '../engine/index.ts';
+import { assessStructure, isaSeaLevelDensityKgM3, plausibleAirDensityKgM3, recordIssues, requiredBallastKg, validateStructureRecord } from '../engine/index.ts';
+import { checkLevelOrder, levelListSchema } from '../levels/index.ts';
+import { rawTriggerGustsMps } from '../watch/structureModel.ts';
 import type { FieldIssue } from './httpError.ts';
 
 /** Gust range accepted, m/s: the sensor plausibility bound of design §3. */
@@ -20,6 +22,15 @@ const assessBodySchema = z.strictObject({
   // Checked separately, so its issues carry the full record path.
   structure: z.unknown().optional(),
   gustMps: z.number().gte(0, 'must be ≥ 0 m/s').lte(maxGustMps, `must be ≤ ${maxGustMps} m/s`),
+  /**
+   * Extension (compatible): a level list, answered with each level's equivalent gust for this
+   * structure (`levels`), as the register form shows it.
+   */
+  levels: levelListSchema.optional(),
+  /** Extension: the design gust (m/s) for which `requiredBallast` is answered. */
+  designGustMps: z.number().gt(0, 'must be > 0 m/s').lte(maxGustMps, `must be ≤ ${maxGustMps} m/s`).optional(),
+  /** Extension: where extra ballast would go, m from the front edge (default the middle of the base). */
+  ballastXM: z.number().gte(0, 'must be ≥ 0 m').optional(),
   airDensityKgM3: z
     .number()
     .gte(plausibleAirDensityKgM3.min, `must be ≥ ${plausibleAirDensityKgM3.min} kg/m³`)
@@ -59,6 +70,21 @@ assessRoute.post('/', async (c) => {
     issues.push(...structure.issues.map((issue) => ({ ...issue, path: issue.path === '' ? 'structure' : `structure.${issue.path}` })));
   }
   if (!parsedBody.success || !structure?.ok) return invalidInput(c, issues);
-  const { gustMps, airDensityKgM3 } = parsedBody.data;
-  return c.json(assessStructure(structure.record, { gustMps, airDensityKgM3 }));
+  const { gustMps, airDensityKgM3, levels, designGustMps, ballastXM } = parsedBody.data;
+  const report = assessStructure(structure.record, { gustMps, airDensityKgM3 });
+  const density = airDensityKgM3 ?? isaSeaLevelDensityKgM3;
+  const extras: Record<string, unknown> = {};
+  if (levels) {
+    const model = { expanded: report.expanded, ratedGustMps: report.expanded.ratedGustMps ?? null, levels };
+    const gusts = rawTriggerGustsMps(model, density);
+    extras.levels = levels.map((level, i) => ({ level: i + 1, label: level.label, trigger: level.trigger, triggerGustMps: Number.isFinite(gusts[i]!) ? gusts[i] : null }));
+    extras.levelOrderProblems = checkLevelOrder(gusts).map((i) => ({ path: `levels.${i}.trigger`, message: `level ${i + 1} does not trigger above level ${i}` }));
+  }
+  if (designGustMps !== undefined) {
+    const xM = ballastXM ?? report.expanded.baseDepthM / 2;
+    if (xM > report.expanded.baseDepthM) return invalidInput(c, [{ path: 'ballastXM', message: `must be within the base (≤ ${report.expanded.baseDepthM} m)` }]);
+    const kg = requiredBallastKg(report.expanded, designGustMps, density, xM);
+    extras.requiredBallast = { designGustMps, xM, massKg: Number.isFinite(kg) ? kg : null, possible: Number.isFinite(kg) };
+  }
+  return c.json({ ...report, ...extras });
 });

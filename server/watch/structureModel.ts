@@ -90,7 +90,7 @@ export function triggerLadderMps(model: StructureModel, airDensityKgM3: number):
 }
 
 /** Each level's equivalent trigger gust as the levels say, before any ordering (m/s). */
-export function rawTriggerGustsMps(model: StructureModel, airDensityKgM3: number): number[] {
+export function rawTriggerGustsMps(model: Pick<StructureModel, 'levels' | 'expanded' | 'ratedGustMps'>, airDensityKgM3: number): number[] {
   return model.levels.map((level) => {
     if (level.trigger.kind === 'gust') return level.trigger.gustMps;
     const fraction = level.trigger.fraction;
