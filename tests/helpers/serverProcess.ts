@@ -1,0 +1,65 @@
+/**
+ * Runs the server as a separate process (`node --import tsx server/main.ts`), so a test can kill
+ * it with SIGKILL mid-stream and start it again on the same data folder, as a crash would.
+ */
+import { spawn, type ChildProcess } from 'node:child_process';
+import readline from 'node:readline';
+
+export interface ServerProcess {
+  proc: ChildProcess;
+  httpPort: number;
+  mqttPort: number | null;
+  /** Every JSON log line so far. */
+  logLines: Array<Record<string, unknown>>;
+  kill(signal?: NodeJS.Signals): Promise<void>;
+}
+
+export async function spawnServer(env: Record<string, string>, timeoutMs = 20_000): Promise<ServerProcess> {
+  const proc = spawn(process.execPath, ['--import', 'tsx', 'server/main.ts'], {
+    cwd: process.cwd(),
+    env: { ...process.env, HOST: '127.0.0.1', MQTT_HOST: '127.0.0.1', PORT: '0', LOG_LEVEL: 'info', ...env },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  const logLines: Array<Record<string, unknown>> = [];
+  let stderr = '';
+  proc.stderr!.on('data', (d: Buffer) => (stderr += d.toString()));
+  const lines = readline.createInterface({ input: proc.stdout! });
+  const started = new Promise<{ httpPort: number; mqttPort: number | null }>((resolve, reject) => {
+    const timer = setTimeout(() => reject(new Error(`server did not start in ${timeoutMs} ms; stderr: ${stderr.slice(-2000)}`)), timeoutMs);
+    lines.on('line', (line) => {
+      let entry: Record<string, unknown>;
+      try {
+        entry = JSON.parse(line) as Record<string, unknown>;
+      } catch {
+        return;
+      }
+      logLines.push(entry);
+      if (entry.msg === 'server started') {
+        clearTimeout(timer);
+        const url = new URL(String(entry.url));
+        resolve({ httpPort: Number(url.port), mqttPort: typeof entry.mqttPort === 'number' ? entry.mqttPort : null });
+      }
+      if (entry.level === 60) {
+        clearTimeout(timer);
+        reject(new Error(`server failed to start: ${String(entry.msg)}`));
+      }
+    });
+    proc.once('exit', (code) => {
+      clearTimeout(timer);
+      reject(new Error(`server exited with ${code} before starting; stderr: ${stderr.slice(-2000)}`));
+    });
+  });
+  const { httpPort, mqttPort } = await started;
+  return {
+    proc,
+    httpPort,
+    mqttPort,
+    logLines,
+    kill: (signal = 'SIGKILL') =>
+      new Promise<void>((resolve) => {
+        if (proc.exitCode !== null || proc.signalCode !== null) return resolve();
+        proc.once('exit', () => resolve());
+        proc.kill(signal);
+      }),
+  };
+}
