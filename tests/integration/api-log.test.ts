@@ -1,0 +1,358 @@
+/**
+ * Review and planning over HTTP: the log endpoints with their windows (from/to, day, and bad
+ * windows refused), the CSV exports, the forecast check, and acknowledging alerts.
+ *
+ * Scenario (invented): on Brackenfold Common a squall line passes; the north mast's gateway sends
+ * its buffered summaries and a 20 m/s gust that takes the gate arch to "Stop and clear". A crew
+ * member acknowledges the alert; the safety officer reviews the day and checks tomorrow's forecast.
+ */
+import mqtt from 'mqtt';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { ApiClient, adminPassword, adminUsername, startTestServer, waitFor, type TestServer } from '../helpers/testServer.ts';
+
+let ts: TestServer;
+let cp: ApiClient;
+let crew: ApiClient;
+let viewer: ApiClient;
+let archId = 0;
+let marqueeId = 0;
+/** When the gust arrived (the reading's timestamp). */
+let gustAtMs = 0;
+let archAlertId = 0;
+
+const crewName = 'Morgan Tait';
+const timeZone = 'Europe/London';
+
+const archLevels = [
+  { label: 'Watch', trigger: { kind: 'gust', gustMps: 5 }, actionText: 'Check the water ballast on the arch.' },
+  { label: 'Prepare', trigger: { kind: 'gust', gustMps: 8 }, actionText: 'Close the gate path under the arch.' },
+  { label: 'Stop and clear', trigger: { kind: 'gust', gustMps: 12 }, actionText: 'Lower the header board and keep everyone 5 m clear.' },
+];
+
+function paths(body: { issues?: Array<{ path: string }> } | null): string[] {
+  return (body?.issues ?? []).map((i) => i.path);
+}
+
+async function ok(res: Promise<{ status: number; body: any }>, status = 200): Promise<any> {
+  const r = await res;
+  expect(r.status, JSON.stringify(r.body)).toBe(status);
+  return r.body;
+}
+
+/** Today's date in the site's time zone, YYYY-MM-DD. */
+function siteDay(atMs: number): string {
+  return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(new Date(atMs));
+}
+
+beforeAll(async () => {
+  ts = await startTestServer();
+  const admin = new ApiClient(ts.baseUrl);
+  expect((await admin.signIn(adminUsername, adminPassword)).status).toBe(200);
+  for (const [username, displayName, role] of [
+    ['rowan.ashby', 'Rowan Ashby', 'competent-person'],
+    ['morgan.tait', crewName, 'crew'],
+    ['ellis.fairweather', 'Ellis Fairweather', 'viewer'],
+  ] as const) {
+    await ok(admin.json('POST', '/api/people', { username, displayName, role, password: `${username}-pass-1234` }), 201);
+  }
+  cp = new ApiClient(ts.baseUrl);
+  crew = new ApiClient(ts.baseUrl);
+  viewer = new ApiClient(ts.baseUrl);
+  expect((await cp.signIn('rowan.ashby', 'rowan.ashby-pass-1234')).status).toBe(200);
+  expect((await crew.signIn('morgan.tait', 'morgan.tait-pass-1234')).status).toBe(200);
+  expect((await viewer.signIn('ellis.fairweather', 'ellis.fairweather-pass-1234')).status).toBe(200);
+
+  await ok(cp.json('PATCH', '/api/site', { name: 'Brackenfold Common', timeZone }));
+  await ok(cp.json('POST', '/api/sensors', { key: 'north-mast', name: 'North mast', heightM: 10, mode: 'summaries' }), 201);
+  const gateway = await ok(cp.json('POST', '/api/gateways', { name: 'Mast gateway', username: 'brackenfold-gw', sensorKeys: ['north-mast'] }), 201);
+  const arch = await ok(
+    cp.json('POST', '/api/structures', {
+      record: {
+        kind: 'custom',
+        name: 'Gate arch',
+        baseDepthM: 1.5,
+        referenceHeightM: 10,
+        faces: [{ areaM2: 6, centroidHeightM: 3.5, cfFront: 1.8, cfBack: 1.8 }],
+        masses: [{ massKg: 1000, xM: 0.75 }],
+      },
+      levels: archLevels,
+    }),
+    201,
+  );
+  archId = arch.structure.id;
+  const marquee = await ok(
+    cp.json('POST', '/api/structures', {
+      record: { kind: 'tent', name: 'Hospitality marquee', lengthM: 12, widthM: 6, eaveHeightM: 2.4, ridgeHeightM: 4, wallsClosed: true, legs: 8, ballastPerLegKg: 500, selfWeightKg: 900, referenceHeightM: 10 },
+    }),
+    201,
+  );
+  marqueeId = marquee.structure.id;
+
+  // The gateway flushes two buffered summaries, then the squall's gust arrives.
+  gustAtMs = Date.now();
+  const client = await mqtt.connectAsync(`mqtt://127.0.0.1:${ts.server.mqttPort}`, { username: 'brackenfold-gw', password: gateway.password, reconnectPeriod: 0 });
+  await client.publishAsync(
+    'wind/north-mast/reading',
+    JSON.stringify([
+      { ts: gustAtMs - 180_000, speed: 3, gust: 4.5, dir: 240 },
+      { ts: gustAtMs - 120_000, speed: 4, gust: 6, dir: 245 },
+    ]),
+    { qos: 1 },
+  );
+  await client.publishAsync('wind/north-mast/reading', JSON.stringify({ ts: gustAtMs, speed: 11, gust: 20, dir: 250 }), { qos: 1 });
+  await client.endAsync();
+  const alert = await waitFor(
+    async () => (await viewer.json('GET', '/api/live')).body.alerts.find((a: { structureId: number; level: number }) => a.structureId === archId && a.level === 3),
+    5_000,
+    'the gate arch at Stop and clear',
+  );
+  archAlertId = alert.id;
+});
+
+afterAll(async () => {
+  await ts?.stop();
+});
+
+describe('log windows', () => {
+  it('answers the last 24 hours when no window is given', async () => {
+    const before = Date.now();
+    const body = await ok(viewer.json('GET', '/api/log/wind'));
+    expect(body.toMs).toBeGreaterThanOrEqual(before);
+    expect(body.toMs).toBeLessThanOrEqual(Date.now());
+    expect(body.toMs - body.fromMs).toBe(86_400_000);
+  });
+
+  it('takes from/to as epoch milliseconds and as ISO 8601', async () => {
+    const epoch = await ok(viewer.json('GET', `/api/log/audit?from=${Date.UTC(2026, 5, 13, 8)}&to=${Date.UTC(2026, 5, 13, 20)}`));
+    expect([epoch.fromMs, epoch.toMs]).toEqual([Date.UTC(2026, 5, 13, 8), Date.UTC(2026, 5, 13, 20)]);
+    const iso = await ok(viewer.json('GET', `/api/log/levels?from=${encodeURIComponent('2026-06-13T09:00:00+01:00')}&to=${encodeURIComponent('2026-06-13T21:00:00+01:00')}`));
+    expect([iso.fromMs, iso.toMs]).toEqual([Date.UTC(2026, 5, 13, 8), Date.UTC(2026, 5, 13, 20)]);
+  });
+
+  it('takes day=YYYY-MM-DD as a calendar day in the site’s time zone, 23 or 25 hours when the clocks change', async () => {
+    const summer = await ok(viewer.json('GET', '/api/log/alerts?day=2026-06-13'));
+    expect([summer.fromMs, summer.toMs]).toEqual([Date.UTC(2026, 5, 12, 23), Date.UTC(2026, 5, 13, 23)]);
+    const springForward = await ok(viewer.json('GET', '/api/log/alerts?day=2026-03-29'));
+    expect(springForward.toMs - springForward.fromMs).toBe(23 * 3_600_000);
+    const fallBack = await ok(viewer.json('GET', '/api/log/alerts?day=2026-10-25'));
+    expect(fallBack.toMs - fallBack.fromMs).toBe(25 * 3_600_000);
+  });
+
+  const endpoints = ['/api/log/wind', `/api/log/structures/{arch}`, '/api/log/levels', '/api/log/alerts', '/api/log/audit', '/api/log/summary', '/api/export/readings.csv'];
+  const badWindows: Array<[string, string, string]> = [
+    ['a from that is not a time', 'from=yesterday', 'from'],
+    ['a to that is not a time', 'to=soon', 'to'],
+    ['a from after to', `from=${Date.UTC(2026, 5, 14)}&to=${Date.UTC(2026, 5, 13)}`, 'from'],
+    ['an empty window (from = to)', `from=${Date.UTC(2026, 5, 13)}&to=${Date.UTC(2026, 5, 13)}`, 'from'],
+    ['a window of 63 days', `from=${Date.UTC(2026, 3, 1)}&to=${Date.UTC(2026, 3, 1) + 63 * 86_400_000}`, 'from'],
+    ['a day that does not exist', 'day=2026-02-30', 'day'],
+    ['a day written the British way', 'day=13/06/2026', 'day'],
+  ];
+  for (const endpoint of endpoints) {
+    it.each(badWindows)(`${endpoint} refuses %s with 400 naming it`, async (_what, query, path) => {
+      const res = await viewer.request('GET', `${endpoint.replace('{arch}', String(archId))}?${query}`);
+      expect(res.status).toBe(400);
+      const body = (await res.json()) as { issues: Array<{ path: string }> };
+      expect(paths(body)).toEqual([path]);
+    });
+  }
+
+  it.each([
+    ['points=5', '/api/log/wind'],
+    ['points=20000', '/api/log/wind'],
+    ['points=many', '/api/log/wind'],
+    ['points=100.5', '/api/log/structures/{arch}'],
+  ])('refuses %s on %s with 400 naming points', async (query, endpoint) => {
+    const res = await viewer.json('GET', `${endpoint.replace('{arch}', String(archId))}?${query}`);
+    expect(res.status).toBe(400);
+    expect(paths(res.body)).toEqual(['points']);
+  });
+});
+
+describe('log endpoints', () => {
+  it('GET /api/log/wind shows the gust and mean each sensor reported, buffered readings included', async () => {
+    const body = await ok(viewer.json('GET', `/api/log/wind?from=${gustAtMs - 300_000}&to=${gustAtMs + 1_000}&points=100`));
+    expect(body.sensors).toHaveLength(1);
+    const { key, series } = body.sensors[0];
+    expect(key).toBe('north-mast');
+    expect(series.source).toBe('readings');
+    expect(Math.max(...series.gustMps.filter((g: number | null) => g !== null))).toBe(20);
+    expect(series.gustMps.filter((g: number | null) => g !== null)).toEqual(expect.arrayContaining([4.5, 6, 20]));
+    expect(series.tMs.length).toBeLessThanOrEqual(100);
+  });
+
+  it('GET /api/log/wind?sensor= narrows to one sensor, and answers 404 for a sensor nobody registered', async () => {
+    expect((await ok(viewer.json('GET', '/api/log/wind?sensor=north-mast'))).sensors.map((s: { key: string }) => s.key)).toEqual(['north-mast']);
+    expect((await viewer.json('GET', '/api/log/wind?sensor=west-mast')).status).toBe(404);
+  });
+
+  it('GET /api/log/structures/:id shows the level change and the alert of the gust', async () => {
+    const body = await ok(viewer.json('GET', `/api/log/structures/${archId}`));
+    expect(body.structure).toEqual({ id: archId, name: 'Gate arch', kind: 'custom' });
+    const changes = body.levelChanges as Array<{ id: number; atMs: number; fromLevel: number; toLevel: number; gustMps: number | null; noData: boolean }>;
+    const raise = changes.find((c) => c.fromLevel === 0 && c.toLevel === 3);
+    expect(raise).toMatchObject({ structureId: archId, gustMps: 20, noData: false });
+    // Before the gust the arch had no data, then calm: no row may say it stood at level 3 before it was raised.
+    const others = changes.filter((c) => c !== raise);
+    expect(others.map((c) => [c.fromLevel, c.toLevel])).toEqual(others.map(() => [0, 0]));
+    expect(others.every((c) => c.atMs <= raise!.atMs)).toBe(true);
+    expect(body.alerts).toEqual([expect.objectContaining({ id: archAlertId, level: 3, label: 'Stop and clear', actionText: archLevels[2]!.actionText })]);
+    expect(body.live).toMatchObject({ id: archId, level: 3 });
+  });
+
+  it('GET /api/log/levels lists level changes with the structure’s name, and ?structure= narrows to one', async () => {
+    const all = await ok(viewer.json('GET', '/api/log/levels'));
+    expect(all.levelChanges).toEqual(expect.arrayContaining([expect.objectContaining({ structureId: archId, structureName: 'Gate arch', toLevel: 3 })]));
+    const one = await ok(viewer.json('GET', `/api/log/levels?structure=${marqueeId}`));
+    expect(one.levelChanges.every((c: { structureId: number }) => c.structureId === marqueeId)).toBe(true);
+    expect(one.levelChanges.map((c: { structureId: number }) => c.structureId)).not.toContain(archId);
+  });
+
+  it('GET /api/log/levels?structure= refuses an id that is not a number with 400 naming structure', async () => {
+    const res = await viewer.json('GET', '/api/log/levels?structure=gate-arch');
+    expect(res.status).toBe(400);
+    expect(paths(res.body)).toEqual(['structure']);
+  });
+
+  it('GET /api/log/summary?day= sums up the day per structure and sensor', async () => {
+    const body = await ok(viewer.json('GET', `/api/log/summary?day=${siteDay(gustAtMs)}`));
+    const arch = body.structures.find((s: { id: number }) => s.id === archId);
+    expect(arch).toMatchObject({ name: 'Gate arch', highestLevel: 3 });
+    expect(arch.alerts.map((a: { id: number }) => a.id)).toContain(archAlertId);
+    expect(body.sensors).toEqual([expect.objectContaining({ key: 'north-mast', maxGustMps: 20, readings: 3 })]);
+  });
+});
+
+describe('CSV exports (GET /api/export/<table>.csv)', () => {
+  const headers: Record<string, string> = {
+    readings: 'sensor,time_utc,ts_ms,speed_mps,gust_mps,dir_deg,temp_c,pressure_pa,rh_pct,late',
+    'wind-minutes': 'sensor,minute_utc,minute_ms,samples,mean_mps,max_gust_mps,mean_dir_deg',
+    'structure-minutes': 'structure,minute_utc,minute_ms,max_gust_mps,max_utilization,max_level',
+    'level-changes': 'structure,time_utc,at_ms,from_level,to_level,gust_mps,utilization,event',
+    alerts: 'id,kind,structure,sensor,level,label,raised_utc,gust_mps,utilization,acknowledged_utc,acknowledged_by,note,cleared_utc,action',
+    audit: 'time_utc,who,what,id,action,before,after',
+  };
+
+  it.each(Object.keys(headers))('%s.csv is text/csv with its header row, as an attachment', async (table) => {
+    const res = await viewer.request('GET', `/api/export/${table}.csv?day=${siteDay(gustAtMs)}`);
+    expect(res.status).toBe(200);
+    expect(res.headers.get('content-type')).toMatch(/^text\/csv/);
+    expect(res.headers.get('content-disposition')).toMatch(new RegExp(`^attachment; filename="${table}-\\d{4}-\\d{2}-\\d{2}\\.csv"$`));
+    const text = await res.text();
+    expect(text.split('\r\n')[0]).toBe(headers[table]);
+  });
+
+  it('readings.csv has one row per stored reading, in m/s', async () => {
+    const text = await (await viewer.request('GET', `/api/export/readings.csv?from=${gustAtMs - 300_000}&to=${gustAtMs + 1_000}`)).text();
+    const rows = text.trim().split('\r\n').slice(1).map((line) => line.split(','));
+    expect(rows.map((r) => [r[0], Number(r[2]), Number(r[3]), Number(r[4]), Number(r[5])])).toEqual([
+      ['north-mast', gustAtMs - 180_000, 3, 4.5, 240],
+      ['north-mast', gustAtMs - 120_000, 4, 6, 245],
+      ['north-mast', gustAtMs, 11, 20, 250],
+    ]);
+  });
+
+  it('level-changes.csv says the arch was raised to level 3 at 20 m/s', async () => {
+    const text = await (await viewer.request('GET', '/api/export/level-changes.csv')).text();
+    expect(text).toMatch(/\r\nGate arch,[^,]+,\d+,0,3,20,[^,]*,raised\r\n/);
+  });
+
+  it('a window outside the data gives the header row alone', async () => {
+    const text = await (await viewer.request('GET', '/api/export/readings.csv?day=2026-01-01')).text();
+    expect(text).toBe(`${headers.readings}\r\n`);
+  });
+
+  it.each(['sessions', 'people', 'READINGS', '..%2Fpeople'])('answers 404 for a table that is not exported (%s)', async (table) => {
+    const res = await viewer.request('GET', `/api/export/${table}.csv`);
+    expect(res.status).toBe(404);
+  });
+});
+
+describe('acknowledging alerts (POST /api/alerts/:id/acknowledge)', () => {
+  it('refuses a note over 2000 characters with 400 naming note, and leaves the alert open', async () => {
+    const res = await crew.json('POST', `/api/alerts/${archAlertId}/acknowledge`, { note: 'x'.repeat(2001) });
+    expect(res.status).toBe(400);
+    expect(paths(res.body)).toEqual(['note']);
+    const live = await ok(viewer.json('GET', '/api/live'));
+    expect(live.alerts.find((a: { id: number }) => a.id === archAlertId).acknowledgedAtMs).toBeNull();
+  });
+
+  it('records the crew member’s name and note, on the board and in the log', async () => {
+    const res = await crew.json('POST', `/api/alerts/${archAlertId}/acknowledge`, { note: 'Header board lowered, path closed.' });
+    expect(res.status).toBe(200);
+    expect(res.body.alert).toMatchObject({ id: archAlertId, acknowledgedBy: crewName, acknowledgeNote: 'Header board lowered, path closed.' });
+    expect(res.body.alert.acknowledgedAtMs).toEqual(expect.any(Number));
+
+    const live = await ok(viewer.json('GET', '/api/live'));
+    expect(live.alerts.find((a: { id: number }) => a.id === archAlertId)).toMatchObject({ acknowledgedBy: crewName, acknowledgeNote: 'Header board lowered, path closed.' });
+    const log = await ok(viewer.json('GET', '/api/log/alerts'));
+    expect(log.alerts.find((a: { id: number }) => a.id === archAlertId)).toMatchObject({ acknowledgedBy: crewName });
+    const audit = await ok(viewer.json('GET', '/api/log/audit'));
+    const entry = audit.audit.find((e: { entity: string; entityId: string }) => e.entity === 'alert' && e.entityId === String(archAlertId));
+    expect(entry).toMatchObject({ action: 'acknowledge', afterJson: { by: crewName, note: 'Header board lowered, path closed.' } });
+    expect(entry.actor).toContain(crewName);
+    const csv = await (await viewer.request('GET', '/api/export/alerts.csv')).text();
+    expect(csv).toContain(`${crewName},"Header board lowered, path closed."`);
+  });
+
+  it('answers 409 to a second acknowledgement and keeps the first', async () => {
+    const res = await cp.json('POST', `/api/alerts/${archAlertId}/acknowledge`, { note: 'Seen.' });
+    expect(res.status).toBe(409);
+    expect(res.body.error).toContain(crewName);
+    const log = await ok(viewer.json('GET', '/api/log/alerts'));
+    expect(log.alerts.find((a: { id: number }) => a.id === archAlertId)).toMatchObject({ acknowledgedBy: crewName, acknowledgeNote: 'Header board lowered, path closed.' });
+  });
+
+  it.each(['999999', 'abc', '0', '-1'])('answers 404 for alert %s', async (id) => {
+    const res = await crew.json('POST', `/api/alerts/${id}/acknowledge`, {});
+    expect(res.status).toBe(404);
+  });
+});
+
+describe('the forecast check (POST /api/forecast)', () => {
+  const table = ['time;gust (m/s);dir', '2026-06-14T12:00Z;3;W', '2026-06-14T13:00Z;9;WSW', '2026-06-14T14:00Z;30;SW'].join('\n');
+
+  it('answers each structure’s predicted level for every row of the table', async () => {
+    const body = await ok(viewer.json('POST', '/api/forecast', { text: table }));
+    expect(body.heightM).toBe(10);
+    expect(body.structures.find((s: { id: number }) => s.id === archId).levels.map((l: { triggerGustMps: number }) => l.triggerGustMps)).toEqual([5, 8, 12]);
+    expect(body.rows.map((r: { timeMs: number }) => r.timeMs)).toEqual([Date.UTC(2026, 5, 14, 12), Date.UTC(2026, 5, 14, 13), Date.UTC(2026, 5, 14, 14)]);
+    const archLevelsByRow = body.rows.map((r: { levels: Array<{ structureId: string; level: number; gustAtStructureMps: number }> }) => r.levels.find((l) => l.structureId === String(archId)));
+    expect(archLevelsByRow.map((l: { level: number }) => l.level)).toEqual([0, 2, 3]);
+    expect(archLevelsByRow.map((l: { gustAtStructureMps: number }) => l.gustAtStructureMps)).toEqual([3, 9, 30]);
+    expect(body.rows.map((r: { dirFromDeg: number }) => r.dirFromDeg)).toEqual([270, 247.5, 225]);
+    // The marquee is stronger than the arch but not than a 30 m/s gust.
+    const marquee = body.rows.map((r: { levels: Array<{ structureId: string; level: number }> }) => r.levels.find((l) => l.structureId === String(marqueeId))!.level);
+    expect(marquee[0]).toBe(0);
+    expect(marquee[2]).toBe(3);
+  });
+
+  it('takes the unit from the request when the header names none (36 km/h = 10 m/s)', async () => {
+    const body = await ok(viewer.json('POST', '/api/forecast', { text: 'time,gust\n2026-06-14T12:00Z,36', unit: 'km/h' }));
+    expect(body.rows[0].gustMps).toBeCloseTo(10, 9);
+    expect(body.rows[0].levels.find((l: { structureId: string }) => l.structureId === String(archId)).level).toBe(2);
+  });
+
+  it.each([
+    ['a speed that is not a number', 'time;gust (m/s)\n2026-06-14T12:00Z;9\n2026-06-14T13:00Z;fast', 'text.line 3.gust (m/s)'],
+    ['a time that is not a time', 'time;gust (m/s)\n14 June, noon;9', 'text.line 2.time'],
+    ['a gust below the mean', 'time;mean (m/s);gust (m/s)\n2026-06-14T12:00Z;12;9', 'text.line 2'],
+    ['a speed of 500 m/s', 'time;gust (m/s)\n2026-06-14T12:00Z;500', 'text.line 2.gust (m/s)'],
+    ['a header without a speed unit', 'time;gust\n2026-06-14T12:00Z;9', 'text.line 1.gust'],
+  ])('refuses a table with %s with 400 naming the line', async (_what, text, path) => {
+    const res = await viewer.json('POST', '/api/forecast', { text });
+    expect(res.status).toBe(400);
+    expect(paths(res.body).some((p) => p === path || p.startsWith(`${path}.`))).toBe(true);
+  });
+
+  it.each([
+    ['an empty table', { text: '' }, 'text'],
+    ['a unit nobody uses', { text: table, unit: 'furlongs' }, 'unit'],
+    ['a height of 0 m', { text: table, heightM: 0 }, 'heightM'],
+    ['no table at all', { unit: 'kn' }, 'text'],
+  ])('refuses %s with 400 naming the field', async (_what, body, path) => {
+    const res = await viewer.json('POST', '/api/forecast', body);
+    expect(res.status).toBe(400);
+    expect(paths(res.body)).toContain(path);
+  });
+});
