@@ -24,7 +24,7 @@ import { openDatabase, type Db, type OpenedDatabase } from './storage/database.t
 import { WriteQueue } from './storage/writeQueue.ts';
 import type { TerrainCategory } from './engine/index.ts';
 import type { LevelDefinition } from './levels/index.ts';
-import { Watch, type InitialState, type OpenAlert, type SiteSettings } from './watch/watch.ts';
+import { Watch, type InitialState, type OpenAlert, type SiteSettings, type SystemStatus } from './watch/watch.ts';
 import { apiRoutes, type ApiContext } from './http/routes/apiRoutes.ts';
 import { accessRoutes, siteLinkOpener } from './http/routes/accessRoutes.ts';
 
@@ -42,6 +42,8 @@ export interface RunningServer {
   accounts: Accounts;
   /** Reloads the register into the watch (after changes made outside the API). */
   reloadRegister(): void;
+  /** Reloads the register and rebuilds levels and open alerts from the log (after writing to it directly). */
+  rebuildFromLog(): void;
   /** Runs one tick now (tests). */
   tickNow(): Promise<void>;
   close(): Promise<void>;
@@ -110,7 +112,8 @@ export function initialState(db: Db): InitialState {
       subject: r.structureId !== null ? (structureNames.get(r.structureId) ?? `structure ${r.structureId}`) : (sensor?.name ?? 'sensor'),
     };
   });
-  return { levels, alerts };
+  const maxId = (db.$client.prepare('SELECT MAX(id) AS id FROM alerts').get() as { id: number | null }).id ?? 0;
+  return { levels, alerts, nextAlertId: maxId + 1 };
 }
 
 export async function startServer(config: Config, log: Logger, options: StartOptions = {}): Promise<RunningServer> {
@@ -124,7 +127,8 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
   const rejections = new RejectionLog(sqlite, log, now);
   const queue = new WriteQueue(sqlite, now);
   const hub = new LiveHub();
-  const watch = new Watch({ hub, now, onNotice: (message, detail) => log.info(detail, message) });
+  let systemStatus: () => SystemStatus = () => ({ storageOk: true, storageError: null, storageBacklogRows: 0, brokerOk: true, brokerState: 'starting' });
+  const watch = new Watch({ hub, now, onNotice: (message, detail) => log.info(detail, message), systemStatus: () => systemStatus() });
   const reloadRegister = (): void => watch.configure(siteSettings(db), registry.sensors(), activeStructures(db));
   watch.configure(siteSettings(db), registry.sensors(), activeStructures(db), initialState(db));
   registry.onReload(reloadRegister);
@@ -155,18 +159,21 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
   }
 
   let tickRunning = false;
+  let storageWasFailing = false;
   const tickNow = async (): Promise<void> => {
     if (tickRunning) return;
     tickRunning = true;
     try {
       const result = watch.tick();
       if (result) {
-        try {
-          await queue.enqueue(result.batch);
-        } catch (err) {
-          log.error({ err: String(err) }, 'could not store the live state; alerts continue from memory');
-        }
+        // Held in memory when the database cannot write: reported once below, on the change of state.
+        await queue.enqueue(result.batch);
         result.afterCommit();
+      }
+      if (queue.failing !== storageWasFailing) {
+        storageWasFailing = queue.failing;
+        if (queue.failing) log.error({ err: queue.stats.lastError, backlogRows: queue.stats.backlogRows }, 'DATABASE CANNOT WRITE: readings, level changes and alerts are held in memory and retried; alerting continues; a crash now would lose what is held');
+        else log.warn({ committedAfterRetry: true }, 'database writes again: the kept rows are stored');
       }
     } finally {
       tickRunning = false;
@@ -189,7 +196,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
   const health = () => {
     const brokerHealth = broker ? broker.health() : external!.health();
     const brokerOk = broker ? brokerHealth && (brokerHealth as { listening: boolean }).listening : external!.connected;
-    const dbOk = queue.stats.lastErrorAtMs === null || (queue.stats.lastCommitAtMs ?? 0) > queue.stats.lastErrorAtMs;
+    const dbOk = !queue.failing;
     return {
       ok: Boolean(brokerOk) && dbOk,
       broker: brokerHealth,
@@ -199,12 +206,25 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
         committedReadings: queue.stats.committedReadings,
         duplicateReadings: queue.stats.duplicateReadings,
         failedCommits: queue.stats.failedCommits,
+        backlogRows: queue.stats.backlogRows,
+        droppedBacklogReadings: queue.stats.droppedBacklogReadings,
         lastError: queue.stats.lastError,
         lastErrorAtMs: queue.stats.lastErrorAtMs,
       },
       ingest: { ...pipeline.counters, rejectedTotal: rejections.totalCount },
       liveStreamClients: hub.listenerCount,
       atMs: now(),
+    };
+  };
+
+  systemStatus = () => {
+    const brokerOk = broker ? broker.health().listening : external!.connected;
+    return {
+      storageOk: !queue.failing,
+      storageError: queue.failing ? (queue.stats.lastError ?? 'the database cannot write') : null,
+      storageBacklogRows: queue.stats.backlogRows,
+      brokerOk,
+      brokerState: broker ? (brokerOk ? 'listening' : 'stopped') : external!.health().state,
     };
   };
 
@@ -221,11 +241,12 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     hub,
     accounts,
     reloadRegister,
+    rebuildFromLog: () => watch.configure(siteSettings(db), registry.sensors(), activeStructures(db), initialState(db)),
     tickNow,
     close: async () => undefined,
   };
 
-  const ctx: ApiContext = { db, registry, watch, hub, rejections, accounts, now, reloadRegister, topicPrefix: config.topicPrefix, health };
+  const ctx: ApiContext = { db, registry, watch, queue, hub, rejections, accounts, now, reloadRegister, topicPrefix: config.topicPrefix, health };
   const staticRoot = options.staticRoot === undefined ? path.resolve('web/dist') : options.staticRoot;
   const app = createApp({
     health: { health },
@@ -273,6 +294,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     await broker?.stop();
     await external?.stop();
     queue.flush();
+    queue.stop();
     rejections.flush();
     sqlite.close();
   };

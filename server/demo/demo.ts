@@ -181,7 +181,7 @@ export async function runDemo(config: Config, log: Logger): Promise<RunningServe
         writePastDay(s, nowMs, config.demoSeed, log);
         setMeta(s.db, seededKey, new Date(nowMs).toISOString(), nowMs);
         // The live watch starts from what the past day left in the log.
-        s.reloadRegister();
+        s.rebuildFromLog();
       }
     },
   });

@@ -21,6 +21,19 @@ export async function jsonBody<S extends z.ZodType>(c: Context, schema: S): Prom
   return check(schema, body);
 }
 
+/**
+ * A PATCH body: checked like `jsonBody`, then only the fields the request named are kept. (A
+ * schema's defaults fill in absent fields — right for a new record, wrong for a change: a PATCH
+ * that names one field must leave the others as they are.)
+ */
+export async function jsonPatchBody<S extends z.ZodType>(c: Context, schema: S): Promise<Partial<z.infer<S>>> {
+  const parsed = (await jsonBody(c, schema)) as Record<string, unknown>;
+  const raw = (await c.req.json()) as Record<string, unknown>;
+  const out: Record<string, unknown> = {};
+  for (const key of Object.keys(parsed)) if (Object.prototype.hasOwnProperty.call(raw, key)) out[key] = parsed[key];
+  return out as Partial<z.infer<S>>;
+}
+
 export function check<S extends z.ZodType>(schema: S, value: unknown, prefix = ''): z.infer<S> {
   const result = schema.safeParse(value);
   if (!result.success) throw HttpError.invalid(fieldIssues(result.error.issues, prefix));

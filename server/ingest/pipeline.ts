@@ -26,11 +26,12 @@ export interface IngestCounters {
   acceptedReadings: number;
   rejectedMessages: number;
   rejectedReadings: number;
-  failedCommits: number;
+  /** Readings acknowledged while the database could not write, held in memory for retry. */
+  heldReadings: number;
 }
 
 export class IngestPipeline implements ReadingSink {
-  readonly counters: IngestCounters = { messages: 0, acceptedReadings: 0, rejectedMessages: 0, rejectedReadings: 0, failedCommits: 0 };
+  readonly counters: IngestCounters = { messages: 0, acceptedReadings: 0, rejectedMessages: 0, rejectedReadings: 0, heldReadings: 0 };
 
   constructor(
     private readonly topicPrefix: string,
@@ -62,12 +63,10 @@ export class IngestPipeline implements ReadingSink {
     if (parsed.readings.length === 0) return;
     const readings = parsed.readings.length > 1 ? [...parsed.readings].sort((a, b) => a.tsMs - b.tsMs) : parsed.readings;
     const { batch, afterCommit } = this.consumer.take(sensor, readings, receivedAtMs);
-    try {
-      await this.queue.enqueue(batch);
-    } catch (err) {
-      this.counters.failedCommits++;
-      throw err;
-    }
+    // Held (not stored) when the database cannot write: see WriteQueue. Either way the phones hear
+    // about it at once and the broker gets its acknowledgement.
+    const { stored } = await this.queue.enqueue(batch);
+    if (!stored) this.counters.heldReadings += readings.length;
     this.counters.acceptedReadings += readings.length;
     afterCommit?.();
   }

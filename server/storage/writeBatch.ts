@@ -39,6 +39,8 @@ export interface LevelChangeRow {
 }
 
 export interface AlertRow {
+  /** Given by the live watch, so an alert has its id (and can be shown and acknowledged) before it is stored. */
+  id: number;
   siteId: number;
   kind: 'level' | 'no-data' | 'sensor-silent' | 'sensor-implausible';
   structureId: number | null;
@@ -51,7 +53,16 @@ export interface AlertRow {
   utilization: number | null;
 }
 
-/** Everything written in one transaction. Alerts get their ids through `onAlertIds`. */
+export interface AcknowledgementRow {
+  alertId: number;
+  atMs: number;
+  by: string;
+  note: string | null;
+  /** Who, for the audit trail (the signed-in principal). */
+  actor: string;
+}
+
+/** Everything written in one transaction. */
 export interface WriteBatch {
   readings: ReadingRow[];
   structureMinutes: StructureMinuteRow[];
@@ -59,10 +70,13 @@ export interface WriteBatch {
   alerts: AlertRow[];
   /** Alerts cleared by this batch (the condition ended). */
   clearedAlerts: Array<{ id: number; atMs: number }>;
-  /** Called inside the transaction with the ids given to `alerts`, in order. */
-  onAlertIds?: (ids: number[]) => void;
+  acknowledgements: AcknowledgementRow[];
 }
 
 export function emptyWriteBatch(): WriteBatch {
-  return { readings: [], structureMinutes: [], levelChanges: [], alerts: [], clearedAlerts: [] };
+  return { readings: [], structureMinutes: [], levelChanges: [], alerts: [], clearedAlerts: [], acknowledgements: [] };
+}
+
+export function batchRowCount(batch: WriteBatch): number {
+  return batch.readings.length + batch.structureMinutes.length + batch.levelChanges.length + batch.alerts.length + batch.clearedAlerts.length + batch.acknowledgements.length;
 }

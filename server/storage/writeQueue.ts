@@ -4,18 +4,39 @@
  * one SQLite transaction. Ingest acknowledges a QoS 1 message to the broker only after its
  * promise resolves, so nothing the broker handed over is lost in a crash (design.md 5).
  *
+ * When the database cannot write (disk full, read-only folder), the failed batches are kept in
+ * memory (the backlog, bounded) and written first by the next commit that succeeds, retried every
+ * few seconds; `enqueue` then resolves with `stored: false` ("held"). The broker is acknowledged
+ * for held readings too: a gateway whose messages went unacknowledged would be disconnected and
+ * would replay its queue from the oldest message, and the newest gusts — the ones that matter —
+ * would reach the watch late or never. Live alerting comes first; the price is that a crash while
+ * the disk is full loses what was held (the README says so).
+ *
  * Raw prepared statements, not the query builder: this is the per-message path.
  */
 import type Database from 'better-sqlite3';
-import type { AlertRow, LevelChangeRow, ReadingRow, StructureMinuteRow, WriteBatch } from './writeBatch.ts';
+import type { AcknowledgementRow, AlertRow, LevelChangeRow, ReadingRow, StructureMinuteRow, WriteBatch } from './writeBatch.ts';
+import { batchRowCount } from './writeBatch.ts';
+
+/**
+ * Rows kept in memory while the database cannot write; beyond this the oldest readings go first
+ * (alerts, level changes and acknowledgements are never dropped). 200 000 rows is about 40 MB:
+ * 18 hours of three sensors at 1 Hz, half an hour of a hundred.
+ */
+export const maxBacklogRows = 200_000;
+const retryIntervalMs = 5_000;
 
 /** Stored utilization is in ten-thousandths; "no resistance left" is stored as this sentinel. */
 export const utilizationE4Unbounded = 2_000_000_000;
 
 interface Pending {
   batch: WriteBatch;
-  resolve: () => void;
-  reject: (err: unknown) => void;
+  resolve: (outcome: WriteOutcome) => void;
+}
+
+/** stored: committed now; false: held in memory for retry (the database could not write). */
+export interface WriteOutcome {
+  stored: boolean;
 }
 
 interface MinuteAggregate {
@@ -33,6 +54,10 @@ const minuteMs = 60_000;
 const toCmps = (speedMps: number): number => Math.round(speedMps * 100);
 
 export interface WriteQueueStats {
+  /** Rows waiting in memory for the database to accept writes again. */
+  backlogRows: number;
+  /** Reading rows dropped from a full backlog (lost: counted so health can say so). */
+  droppedBacklogReadings: number;
   committedBatches: number;
   committedReadings: number;
   duplicateReadings: number;
@@ -44,8 +69,12 @@ export interface WriteQueueStats {
 
 export class WriteQueue {
   private pending: Pending[] = [];
+  private backlog: WriteBatch[] = [];
+  private retryTimer: NodeJS.Timeout | null = null;
   private scheduled = false;
   readonly stats: WriteQueueStats = {
+    backlogRows: 0,
+    droppedBacklogReadings: 0,
     committedBatches: 0,
     committedReadings: 0,
     duplicateReadings: 0,
@@ -61,7 +90,9 @@ export class WriteQueue {
   private readonly insertLevelChange: Database.Statement;
   private readonly insertAlert: Database.Statement;
   private readonly clearAlert: Database.Statement;
-  private readonly commit: (batches: Pending[]) => void;
+  private readonly acknowledgeAlert: Database.Statement;
+  private readonly insertAudit: Database.Statement;
+  private readonly commit: (batches: WriteBatch[]) => void;
 
   constructor(
     private readonly sqlite: Database.Database,
@@ -94,21 +125,23 @@ export class WriteQueue {
       `INSERT INTO level_changes (structure_id, at_ms, from_level, to_level, gust_mps, utilization, no_data) VALUES (?, ?, ?, ?, ?, ?, ?)`,
     );
     this.insertAlert = sqlite.prepare(
-      `INSERT INTO alerts (site_id, kind, structure_id, sensor_id, level, label, action_text, raised_at_ms, gust_mps, utilization)
-       VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+      `INSERT OR IGNORE INTO alerts (id, site_id, kind, structure_id, sensor_id, level, label, action_text, raised_at_ms, gust_mps, utilization)
+       VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
     );
     this.clearAlert = sqlite.prepare(`UPDATE alerts SET cleared_at_ms = ? WHERE id = ? AND cleared_at_ms IS NULL`);
-    this.commit = sqlite.transaction((batches: Pending[]) => {
+    this.acknowledgeAlert = sqlite.prepare(
+      `UPDATE alerts SET acknowledged_at_ms = ?, acknowledged_by = ?, acknowledge_note = ? WHERE id = ? AND acknowledged_at_ms IS NULL`,
+    );
+    this.insertAudit = sqlite.prepare(`INSERT INTO audit (at_ms, actor, entity, entity_id, action, before_json, after_json) VALUES (?, ?, 'alert', ?, 'acknowledge', NULL, ?)`);
+    this.commit = sqlite.transaction((batches: WriteBatch[]) => {
       const minutes = new Map<string, MinuteAggregate>();
-      for (const { batch } of batches) {
+      for (const batch of batches) {
         for (const row of batch.readings) this.writeReading(row, minutes);
         for (const row of batch.structureMinutes) this.writeStructureMinute(row);
         for (const row of batch.levelChanges) this.writeLevelChange(row);
-        if (batch.alerts.length > 0) {
-          const ids = batch.alerts.map((row) => this.writeAlert(row));
-          batch.onAlertIds?.(ids);
-        }
+        for (const row of batch.alerts) this.writeAlert(row);
         for (const cleared of batch.clearedAlerts) this.clearAlert.run(cleared.atMs, cleared.id);
+        for (const ack of batch.acknowledgements) this.writeAcknowledgement(ack);
       }
       for (const m of minutes.values()) {
         this.upsertWindMinute.run(m.sensorId, m.minuteMs, m.count, m.speedSumCmps, m.maxGustCmps, m.dirSin, m.dirCos, m.dirCount);
@@ -116,10 +149,10 @@ export class WriteQueue {
     });
   }
 
-  /** Settles when the batch is committed (resolve) or the transaction failed (reject). */
-  enqueue(batch: WriteBatch): Promise<void> {
-    return new Promise<void>((resolve, reject) => {
-      this.pending.push({ batch, resolve, reject });
+  /** Resolves when the batch is committed (`stored: true`) or held for retry (`stored: false`). */
+  enqueue(batch: WriteBatch): Promise<WriteOutcome> {
+    return new Promise<WriteOutcome>((resolve) => {
+      this.pending.push({ batch, resolve });
       if (!this.scheduled) {
         this.scheduled = true;
         setImmediate(() => this.flush());
@@ -127,24 +160,60 @@ export class WriteQueue {
     });
   }
 
-  /** Commits everything pending now (also used at shutdown). */
+  /** Commits the backlog and everything pending now (also used at shutdown). */
   flush(): void {
     this.scheduled = false;
-    const batches = this.pending;
-    if (batches.length === 0) return;
+    const pending = this.pending;
+    if (pending.length === 0 && this.backlog.length === 0) return;
     this.pending = [];
+    const batches = [...this.backlog, ...pending.map((p) => p.batch)];
     try {
       this.commit(batches);
     } catch (err) {
       this.stats.failedCommits++;
       this.stats.lastError = err instanceof Error ? err.message : String(err);
       this.stats.lastErrorAtMs = this.now();
-      for (const p of batches) p.reject(err);
+      this.keepForRetry(batches);
+      for (const p of pending) p.resolve({ stored: false });
       return;
     }
-    this.stats.committedBatches += batches.length;
+    this.backlog = [];
+    this.stats.backlogRows = 0;
+    if (this.retryTimer) clearInterval(this.retryTimer);
+    this.retryTimer = null;
+    this.stats.committedBatches += pending.length;
     this.stats.lastCommitAtMs = this.now();
-    for (const p of batches) p.resolve();
+    for (const p of pending) p.resolve({ stored: true });
+  }
+
+  /** True while the last commit failed or rows wait in the backlog. */
+  get failing(): boolean {
+    return this.backlog.length > 0;
+  }
+
+  private keepForRetry(batches: WriteBatch[]): void {
+    this.backlog = batches;
+    let rows = batches.reduce((n, b) => n + batchRowCount(b), 0);
+    // Over the bound, drop the oldest readings first: the live state already took them; alerts,
+    // level changes and acknowledgements are what the log must not lose.
+    for (const b of this.backlog) {
+      if (rows <= maxBacklogRows) break;
+      const drop = Math.min(b.readings.length, rows - maxBacklogRows);
+      b.readings.splice(0, drop);
+      rows -= drop;
+      this.stats.droppedBacklogReadings += drop;
+    }
+    this.stats.backlogRows = rows;
+    if (!this.retryTimer) {
+      this.retryTimer = setInterval(() => this.flush(), retryIntervalMs);
+      this.retryTimer.unref();
+    }
+  }
+
+  /** Stops the retry timer (shutdown). */
+  stop(): void {
+    if (this.retryTimer) clearInterval(this.retryTimer);
+    this.retryTimer = null;
   }
 
   private writeReading(row: ReadingRow, minutes: Map<string, MinuteAggregate>): void {
@@ -193,8 +262,14 @@ export class WriteQueue {
     this.insertLevelChange.run(row.structureId, row.atMs, row.fromLevel, row.toLevel, row.gustMps, finiteOrNull(row.utilization), row.noData ? 1 : 0);
   }
 
-  private writeAlert(row: AlertRow): number {
-    const result = this.insertAlert.run(
+  private writeAcknowledgement(ack: AcknowledgementRow): void {
+    const result = this.acknowledgeAlert.run(ack.atMs, ack.by, ack.note, ack.alertId);
+    if (result.changes > 0) this.insertAudit.run(ack.atMs, ack.actor, String(ack.alertId), JSON.stringify({ by: ack.by, note: ack.note }));
+  }
+
+  private writeAlert(row: AlertRow): void {
+    this.insertAlert.run(
+      row.id,
       row.siteId,
       row.kind,
       row.structureId,
@@ -206,7 +281,6 @@ export class WriteQueue {
       row.gustMps,
       finiteOrNull(row.utilization),
     );
-    return Number(result.lastInsertRowid);
   }
 }
 

@@ -166,8 +166,20 @@ export interface SensorState {
   rhPct: number | null;
 }
 
+/** The state of the parts around the watch that a crew must know about (shown on every screen). */
+export interface SystemStatus {
+  storageOk: boolean;
+  storageError: string | null;
+  /** Rows held in memory until the database accepts writes again. */
+  storageBacklogRows: number;
+  brokerOk: boolean;
+  brokerState: string;
+}
+
 export interface WatchOptions {
   hub: LiveHub;
+  /** Storage and broker state, for the snapshot and the `health` stream event. */
+  systemStatus?: () => SystemStatus;
   now?: () => number;
   resignalIntervalMs?: number;
   /** Called on level changes and sensor trouble, for the server log. */
@@ -175,6 +187,8 @@ export interface WatchOptions {
 }
 
 export interface InitialState {
+  /** The next free alert id (one above the highest in the database). */
+  nextAlertId: number;
   /** Last known level of each structure (from the level-change log), to rebuild after a restart. */
   levels: Map<number, { level: number; sinceMs: number }>;
   /** Alerts still open (not acknowledged, or not cleared). */
@@ -197,6 +211,9 @@ export class Watch implements ReadingConsumer {
   private readonly startedAtMs: number;
   private readonly now: () => number;
   private readonly dirtyStructures = new Set<number>();
+  private lastSystemKey = '';
+  /** Alert ids are given here (the alerts table never gets rows from anywhere else). */
+  private nextAlertId = 1;
   private params!: LevelStepParams;
 
   constructor(private readonly options: WatchOptions) {
@@ -270,6 +287,7 @@ export class Watch implements ReadingConsumer {
     this.structures = nextStructures;
 
     if (initial) {
+      this.nextAlertId = Math.max(this.nextAlertId, initial.nextAlertId);
       for (const alert of initial.alerts) {
         this.alerts.set(alert.id, alert);
         if (alert.clearedAtMs === null) {
@@ -555,7 +573,7 @@ export class Watch implements ReadingConsumer {
   }
 
   private raiseNoData(s: StructureLive, atMs: number, batch: WriteBatch, announcements: Array<() => void>): void {
-    const row: AlertRow = {
+    const row: Omit<AlertRow, 'id'> = {
       siteId: this.site.id,
       kind: 'no-data',
       structureId: s.model.id,
@@ -569,38 +587,38 @@ export class Watch implements ReadingConsumer {
       gustMps: null,
       utilization: null,
     };
-    this.raise(batch, announcements, row, s.model.name, null, (id) => (s.noDataAlertId = id));
+    s.noDataAlertId = this.raise(batch, announcements, row, s.model.name, null);
   }
 
-  private raise(batch: WriteBatch, announcements: Array<() => void>, row: AlertRow, subject: string, sensorKey: string | null, onId?: (id: number) => void): void {
-    const index = batch.alerts.length;
-    batch.alerts.push(row);
-    const previous = batch.onAlertIds;
-    batch.onAlertIds = (ids) => {
-      previous?.(ids);
-      const id = ids[index]!;
-      const alert: OpenAlert = {
-        id,
-        kind: row.kind,
-        structureId: row.structureId,
-        sensorKey,
-        level: row.level,
-        label: row.label,
-        actionText: row.actionText,
-        raisedAtMs: row.raisedAtMs,
-        gustMps: row.gustMps,
-        utilization: row.utilization !== null && Number.isFinite(row.utilization) ? row.utilization : null,
-        lastSignalledAtMs: row.raisedAtMs,
-        clearedAtMs: null,
-        acknowledgedAtMs: null,
-        acknowledgedBy: null,
-        acknowledgeNote: null,
-        subject,
-      };
-      this.alerts.set(id, alert);
-      onId?.(id);
-      announcements.push(() => this.options.hub.publish('alert', { ...alert, resignal: false }));
+  /**
+   * Raises an alert: it gets its id here, is open in memory at once and goes into the batch. The
+   * announcement follows the commit — or follows anyway when the disk cannot take it (the caller
+   * runs the announcements either way): alerting never waits for storage.
+   */
+  private raise(batch: WriteBatch, announcements: Array<() => void>, row: Omit<AlertRow, 'id'>, subject: string, sensorKey: string | null): number {
+    const id = this.nextAlertId++;
+    batch.alerts.push({ ...row, id });
+    const alert: OpenAlert = {
+      id,
+      kind: row.kind,
+      structureId: row.structureId,
+      sensorKey,
+      level: row.level,
+      label: row.label,
+      actionText: row.actionText,
+      raisedAtMs: row.raisedAtMs,
+      gustMps: row.gustMps,
+      utilization: row.utilization !== null && Number.isFinite(row.utilization) ? row.utilization : null,
+      lastSignalledAtMs: row.raisedAtMs,
+      clearedAtMs: null,
+      acknowledgedAtMs: null,
+      acknowledgedBy: null,
+      acknowledgeNote: null,
+      subject,
     };
+    this.alerts.set(id, alert);
+    announcements.push(() => this.options.hub.publish('alert', { ...alert, resignal: false }));
+    return id;
   }
 
   private clear(alert: OpenAlert, atMs: number, batch: WriteBatch, announcements: Array<() => void>): void {
@@ -638,20 +656,15 @@ export class Watch implements ReadingConsumer {
             label: 'Sensor readings implausible',
             actionText: `${live.sensor.name} is sending values that cannot be right (${why}); they are not used. Check it for damage, icing, a loose mounting or a wrong unit setting.`,
           };
-    // Mark at once (before the commit gives the id) so the same trouble is not raised twice.
-    if (kind === 'sensor-silent') live.silentAlertId = -1;
-    else live.implausibleAlertId = -1;
-    this.raise(
+    const id = this.raise(
       batch,
       announcements,
       { siteId: this.site.id, kind, structureId: null, sensorId: live.sensor.id, level: null, ...texts, raisedAtMs: atMs, gustMps: null, utilization: null },
       live.sensor.name,
       live.sensor.key,
-      (id) => {
-        if (kind === 'sensor-silent') live.silentAlertId = id;
-        else live.implausibleAlertId = id;
-      },
     );
+    if (kind === 'sensor-silent') live.silentAlertId = id;
+    else live.implausibleAlertId = id;
   }
 
   // ---------- time passing ----------
@@ -694,6 +707,15 @@ export class Watch implements ReadingConsumer {
           utilization: this.assess(s, s.minuteMaxGustMps, s.windFromDeg).utilization,
           level: s.minuteMaxLevel,
         });
+      }
+    }
+
+    const system = this.options.systemStatus?.();
+    if (system) {
+      const key = `${system.storageOk}|${system.brokerOk}|${system.brokerState}`;
+      if (key !== this.lastSystemKey) {
+        this.lastSystemKey = key;
+        announcements.push(() => this.options.hub.publish('health', system));
       }
     }
 
@@ -743,6 +765,11 @@ export class Watch implements ReadingConsumer {
   }
 
   // ---------- reading the state ----------
+
+  /** An alert still open in memory (not yet acknowledged, or not yet cleared). */
+  openAlert(id: number): OpenAlert | null {
+    return this.alerts.get(id) ?? null;
+  }
 
   structureState(s: StructureLive): StructureState {
     const m = s.model;
@@ -815,6 +842,7 @@ export class Watch implements ReadingConsumer {
     sensors: SensorState[];
     structures: StructureState[];
     alerts: OpenAlert[];
+    system: SystemStatus | null;
   } {
     const nowMs = this.now();
     const structures = [...this.structures.values()].map((s) => this.structureState(s));
@@ -826,6 +854,7 @@ export class Watch implements ReadingConsumer {
       sensors: [...this.sensors.values()].map((s) => this.sensorState(s, nowMs)),
       structures,
       alerts: this.openAlerts(),
+      system: this.options.systemStatus?.() ?? null,
     };
   }
 

@@ -8,7 +8,7 @@ import { personInputSchema, personUpdateSchema, principalName, type Accounts } f
 import type { SignInLimiter } from '../../auth/signInLimiter.ts';
 import { clearSessionCookie, requestIsSecure, requireRole, setSessionCookie, type AppEnv } from '../access.ts';
 import { HttpError } from '../httpError.ts';
-import { idParam, jsonBody } from '../validate.ts';
+import { idParam, jsonBody, jsonPatchBody } from '../validate.ts';
 
 export interface AccessRouteDeps {
   accounts: Accounts;
@@ -103,7 +103,7 @@ export function accessRoutes(deps: AccessRouteDeps): Hono<AppEnv> {
     return c.json({ person: await accounts.createPerson(input, principalName(c.get('principal')), now()) }, 201);
   });
   api.patch('/people/:id', requireRole('admin'), async (c) => {
-    const patch = await jsonBody(c, personUpdateSchema);
+    const patch = await jsonPatchBody(c, personUpdateSchema);
     return c.json({ person: await accounts.updatePerson(idParam(c), patch, principalName(c.get('principal')), now()) });
   });
 

@@ -4,12 +4,15 @@ import type { Registry } from '../../ingest/registry.ts';
 import type { RejectionLog } from '../../ingest/rejections.ts';
 import type { LiveHub } from '../../live/liveHub.ts';
 import type { Db } from '../../storage/database.ts';
+import type { WriteQueue } from '../../storage/writeQueue.ts';
 import type { Watch } from '../../watch/watch.ts';
 
 export interface ApiContext {
   db: Db;
   registry: Registry;
   watch: Watch;
+  /** The group-commit queue (acknowledgements go through it, so they survive a full disk). */
+  queue: WriteQueue;
   hub: LiveHub;
   rejections: RejectionLog;
   accounts: Accounts;

@@ -14,11 +14,11 @@
  */
 import { Hono } from 'hono';
 import { streamSSE } from 'hono/streaming';
-import { and, eq, isNull } from 'drizzle-orm';
+import { eq } from 'drizzle-orm';
 import { z } from 'zod';
 import { alertsTable } from '../../../db/schema.ts';
 import { principalName } from '../../auth/accounts.ts';
-import { recordAudit } from '../../register/audit.ts';
+import { emptyWriteBatch } from '../../storage/writeBatch.ts';
 import { requireRole, type AppEnv } from '../access.ts';
 import { HttpError } from '../httpError.ts';
 import { idParam, jsonBody } from '../validate.ts';
@@ -88,23 +88,21 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
     const by = principal.kind === 'person' ? principal.person.displayName : principalName(principal);
     const note = body.note && body.note.length > 0 ? body.note : null;
     const atMs = ctx.now();
-    const row = ctx.db.transaction((tx) => {
-      const alert = tx.select().from(alertsTable).where(eq(alertsTable.id, id)).get();
-      if (!alert) throw HttpError.notFound(`alert ${id}`);
-      if (alert.acknowledgedAtMs !== null) {
-        throw new HttpError(409, `alert ${id} was acknowledged by ${alert.acknowledgedBy} at ${new Date(alert.acknowledgedAtMs).toISOString()}`);
-      }
-      const updated = tx
-        .update(alertsTable)
-        .set({ acknowledgedAtMs: atMs, acknowledgedBy: by, acknowledgeNote: note })
-        .where(and(eq(alertsTable.id, id), isNull(alertsTable.acknowledgedAtMs)))
-        .returning()
-        .get();
-      recordAudit(tx, { actor: principalName(principal), entity: 'alert', entityId: id, action: 'acknowledge', after: { by, note } }, atMs);
-      return updated;
-    });
-    ctx.watch.acknowledged(id, by, note, atMs);
-    return c.json({ alert: row });
+    // Every alert not yet acknowledged is open in the watch (rebuilt from the log at start), so the
+    // answer does not depend on the disk: an acknowledgement made while the disk is full counts
+    // at once and is stored when it can be.
+    const open = ctx.watch.openAlert(id);
+    if (!open) {
+      const stored = ctx.db.select().from(alertsTable).where(eq(alertsTable.id, id)).get();
+      if (!stored) throw HttpError.notFound(`alert ${id}`);
+      throw new HttpError(409, `alert ${id} was acknowledged by ${stored.acknowledgedBy ?? 'someone'}${stored.acknowledgedAtMs ? ` at ${new Date(stored.acknowledgedAtMs).toISOString()}` : ''}`);
+    }
+    if (open.acknowledgedAtMs !== null) {
+      throw new HttpError(409, `alert ${id} was acknowledged by ${open.acknowledgedBy} at ${new Date(open.acknowledgedAtMs).toISOString()}`);
+    }
+    const alert = ctx.watch.acknowledged(id, by, note, atMs)!;
+    const { stored } = await ctx.queue.enqueue({ ...emptyWriteBatch(), acknowledgements: [{ alertId: id, atMs, by, note, actor: principalName(principal) }] });
+    return c.json({ alert, stored });
   });
 
   return api;

@@ -13,7 +13,7 @@ import { getSite, siteUpdateSchema, updateSite } from '../../register/site.ts';
 import { createStructure, getStructureRow, listStructures, retireStructure, structureInputSchema, structureUpdateSchema, structureView, updateStructure } from '../../register/structures.ts';
 import { readingTopic } from '../../ingest/topic.ts';
 import { requireRole, type AppEnv } from '../access.ts';
-import { check, idParam, jsonBody } from '../validate.ts';
+import { check, idParam, jsonBody, jsonPatchBody } from '../validate.ts';
 import type { ApiContext } from './apiContext.ts';
 
 const importSchema = z.strictObject({
@@ -35,7 +35,7 @@ export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
     return c.json({ site: { ...rest, defaultLevels: defaultLevelsJson }, airDensityKgM3: ctx.watch.currentAirDensityKgM3 });
   });
   api.patch('/site', editor, async (c) => {
-    const patch = await jsonBody(c, siteUpdateSchema);
+    const patch = await jsonPatchBody(c, siteUpdateSchema);
     const site = updateSite(ctx.db, patch, actor(c), ctx.now());
     ctx.reloadRegister();
     const { defaultLevelsJson, ...rest } = site;
@@ -59,7 +59,7 @@ export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
     return c.json({ sensor: sensorView(sensor) }, 201);
   });
   api.patch('/sensors/:key', editor, async (c) => {
-    const patch = await jsonBody(c, sensorUpdateSchema);
+    const patch = await jsonPatchBody(c, sensorUpdateSchema);
     const sensor = updateSensor(ctx.db, c.req.param('key'), patch, actor(c), ctx.now());
     ctx.registry.reload();
     return c.json({ sensor: sensorView(sensor) });
@@ -83,7 +83,7 @@ export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
     return c.json({ gateway, password, note: 'The password is shown once. Store it in the gateway now.' }, 201);
   });
   api.patch('/gateways/:id', editor, async (c) => {
-    const patch = await jsonBody(c, gatewayUpdateSchema);
+    const patch = await jsonPatchBody(c, gatewayUpdateSchema);
     const { gateway, password } = await updateGateway(ctx.db, idParam(c), patch, actor(c), ctx.now());
     ctx.registry.reload();
     return c.json(password ? { gateway, password, note: 'The new password is shown once.' } : { gateway });
@@ -107,7 +107,7 @@ export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
   });
   api.patch('/structures/:id', editor, async (c) => {
     const id = idParam(c);
-    const patch = await jsonBody(c, structureUpdateSchema);
+    const patch = await jsonPatchBody(c, structureUpdateSchema);
     const view = updateStructure(ctx.db, id, patch, actor(c), ctx.now());
     ctx.reloadRegister();
     return c.json({ structure: withLive(view) });
