@@ -109,7 +109,7 @@ describe('an external broker', () => {
           broker.once('exit', () => resolve());
           broker.kill('SIGTERM');
         });
-        await waitFor(async () => ts.server.pipeline && (await fetch(`${ts.baseUrl}/api/health`).then((r) => r.json())).broker.state !== 'connected', 5_000, 'server notices the broker is gone');
+        await waitFor(async () => ts.server.pipeline && ((await fetch(`${ts.baseUrl}/api/health`).then((r) => r.json())) as any).broker.state !== 'connected', 5_000, 'server notices the broker is gone');
         const health = await fetch(`${ts.baseUrl}/api/health`);
         expect(health.status).toBe(503);
         broker = spawn('mosquitto', ['-c', path.join(dir, 'mosquitto.conf')], { stdio: 'ignore' });
@@ -119,7 +119,7 @@ describe('an external broker', () => {
     await Promise.all(acks);
     await waitFor(() => stored(ts, 'restart-mast') >= n, 20_000, `all ${n} stored after the restart`);
     expect(stored(ts, 'restart-mast')).toBe(n);
-    const health = await (await fetch(`${ts.baseUrl}/api/health`)).json();
+    const health = (await (await fetch(`${ts.baseUrl}/api/health`)).json()) as any;
     expect(health.broker.state).toBe('connected');
     expect(health.broker.reconnects).toBeGreaterThanOrEqual(1);
     await publisher.endAsync();
