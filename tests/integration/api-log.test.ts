@@ -157,6 +157,17 @@ describe('log windows', () => {
     });
   }
 
+  // One window parser serves every log endpoint: the audit trail stands for them all here.
+  it.each([
+    // With a `to` a day later, so the window check cannot refuse it for being too long.
+    ['a from in words, not ISO 8601 ("June 13", which JavaScript reads as 13 June 2001)', `from=June%2013&to=${Date.UTC(2001, 5, 14)}`, 'from'],
+    ['a to in words, not ISO 8601 ("x 1", which JavaScript reads as 1 January 2001)', 'to=x%201', 'to'],
+  ])('refuses %s with 400 naming it', async (_what, query, path) => {
+    const res = await viewer.json('GET', `/api/log/audit?${query}`);
+    expect(res.status).toBe(400);
+    expect(paths(res.body)).toEqual([path]);
+  });
+
   it.each([
     ['points=5', '/api/log/wind'],
     ['points=20000', '/api/log/wind'],
