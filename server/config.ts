@@ -65,6 +65,11 @@ export function configFromEnv(env: NodeJS.ProcessEnv = process.env, argv: readon
   if (!/^[A-Za-z0-9_-]+(\/[A-Za-z0-9_-]+)*$/.test(topicPrefix)) {
     throw new ConfigError(`MQTT_TOPIC_PREFIX must be topic levels of letters, digits, - and _, got "${topicPrefix}"`);
   }
+  const adminUsername = textVar(env, 'ADMIN_USERNAME');
+  const adminPassword = textVar(env, 'ADMIN_PASSWORD');
+  if ((adminUsername === null) !== (adminPassword === null)) throw new ConfigError('set both ADMIN_USERNAME and ADMIN_PASSWORD, or neither');
+  if (adminUsername !== null && !/^[a-z0-9._-]{2,64}$/.test(adminUsername)) throw new ConfigError('ADMIN_USERNAME must be 2–64 characters of a-z, 0-9, . _ -');
+  if (adminPassword !== null && (adminPassword.length < 12 || adminPassword.length > 200)) throw new ConfigError('ADMIN_PASSWORD must be 12 to 200 characters');
   const protocol = intVar(env, 'MQTT_PROTOCOL_VERSION', 5, 4, 5);
   if (protocol !== 4 && protocol !== 5) throw new ConfigError('MQTT_PROTOCOL_VERSION must be 4 or 5');
   return {
@@ -84,8 +89,8 @@ export function configFromEnv(env: NodeJS.ProcessEnv = process.env, argv: readon
     topicPrefix,
     rawRetentionDays: intVar(env, 'RAW_RETENTION_DAYS', 90, 1, 36_500),
     logLevel: textVar(env, 'LOG_LEVEL') ?? 'info',
-    adminUsername: textVar(env, 'ADMIN_USERNAME'),
-    adminPassword: textVar(env, 'ADMIN_PASSWORD'),
+    adminUsername,
+    adminPassword,
     trustProxy: env.TRUST_PROXY === '1' || env.TRUST_PROXY === 'true',
     demo: argv.includes('--demo') || env.DEMO === '1',
     demoSeed: intVar(env, 'DEMO_SEED', 20260614, 0, 2 ** 31 - 1),

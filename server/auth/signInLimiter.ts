@@ -24,6 +24,24 @@ export class SignInLimiter {
     return wait;
   }
 
+  /**
+   * Counts an attempt as failed before its password is checked, and returns the undo for when it
+   * turns out right. Counting first matters: twenty guesses sent at once must not all pass the
+   * check while the first password is still being hashed.
+   */
+  begin(keys: readonly string[], nowMs: number): () => void {
+    this.fail(keys, nowMs);
+    return () => {
+      for (const key of keys) {
+        const times = this.failures.get(key);
+        if (!times) continue;
+        const i = times.lastIndexOf(nowMs);
+        if (i >= 0) times.splice(i, 1);
+        if (times.length === 0) this.failures.delete(key);
+      }
+    };
+  }
+
   fail(keys: readonly string[], nowMs: number): void {
     for (const key of keys) {
       const recent = this.recent(key, nowMs);

@@ -53,6 +53,9 @@ function isPlainObject(value: unknown): value is Record<string, unknown> {
 export const assessRoute = new Hono();
 
 assessRoute.post('/', async (c) => {
+  if (!(c.req.header('content-type') ?? '').toLowerCase().includes('application/json')) {
+    return c.json({ error: 'send the body as application/json' }, 415);
+  }
   let body: unknown;
   try {
     body = await c.req.json();

@@ -28,10 +28,15 @@ export class HttpError extends Error {
   }
 }
 
-/** Zod issues (or anything with path + message) as field issues with dotted paths. */
-export function fieldIssues(issues: ReadonlyArray<{ path: ReadonlyArray<PropertyKey>; message: string }>, prefix = ''): FieldIssue[] {
-  return issues.map((issue) => ({
-    path: [prefix, ...issue.path.map(String)].filter((p) => p !== '').join('.'),
-    message: issue.message,
-  }));
+/**
+ * Zod issues (or anything with path + message) as field issues with dotted paths. An unknown key
+ * is reported at its own path ("is not a field..."), so a misspelt field is named, not its parent.
+ */
+export function fieldIssues(issues: ReadonlyArray<{ path: ReadonlyArray<PropertyKey>; message: string; code?: string; keys?: readonly string[] }>, prefix = ''): FieldIssue[] {
+  const dotted = (path: ReadonlyArray<PropertyKey>) => [prefix, ...path.map(String)].filter((p) => p !== '').join('.');
+  return issues.flatMap((issue) =>
+    issue.code === 'unrecognized_keys' && issue.keys
+      ? issue.keys.map((key) => ({ path: dotted([...issue.path, key]), message: 'is not a field here (check the spelling)' }))
+      : [{ path: dotted(issue.path), message: issue.message }],
+  );
 }

@@ -12,6 +12,11 @@ function field(value: unknown): string {
   return /[",\r\n]/.test(safe) ? `"${safe.replace(/"/g, '""')}"` : safe;
 }
 
+/** The text as written before `field` guarded it against formula injection. */
+export function unguard(text: string): string {
+  return /^'[=+\-@\t\r]/.test(text) ? text.slice(1) : text;
+}
+
 export function csvLine(values: readonly unknown[]): string {
   return values.map(field).join(',') + '\r\n';
 }

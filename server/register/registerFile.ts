@@ -19,7 +19,7 @@ import { sensorsTable, sitesTable, structuresTable } from '../../db/schema.ts';
 import { HttpError, type FieldIssue } from '../http/httpError.ts';
 import type { Db } from '../storage/database.ts';
 import { recordAudit } from './audit.ts';
-import { CsvError, parseCsv, toCsv } from './csv.ts';
+import { CsvError, parseCsv, toCsv, unguard } from './csv.ts';
 import { listGateways } from './gateways.ts';
 import { listSensors, sensorInputSchema } from './sensors.ts';
 import { getSite, siteUpdateSchema } from './site.ts';
@@ -157,7 +157,8 @@ export function registerFromCsv(text: string): RegisterFile {
   const header = rows[0] ?? [];
   const missing = csvHeader.filter((h) => !header.includes(h));
   if (missing.length > 0) throw HttpError.invalid([{ path: 'header', message: `missing columns: ${missing.join(', ')}` }]);
-  const col = (row: string[], name: (typeof csvHeader)[number]): string => row[header.indexOf(name)] ?? '';
+  // Undo the spreadsheet guard of csv.ts: a quote mark put before = + - @ on export.
+  const col = (row: string[], name: (typeof csvHeader)[number]): string => unguard(row[header.indexOf(name)] ?? '');
   const num = (v: string): number | null => (v.trim() === '' ? null : Number(v));
   const issues: FieldIssue[] = [];
   const json = (v: string, line: number, column: string): unknown => {

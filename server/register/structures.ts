@@ -4,7 +4,7 @@
  * govern it, whether it moves, and its own levels when the site's defaults do not fit.
  * Every change is written to the audit trail in the same transaction.
  */
-import { eq, isNull } from 'drizzle-orm';
+import { and, eq, isNull } from 'drizzle-orm';
 import { z } from 'zod';
 import { structuresTable, sensorsTable } from '../../db/schema.ts';
 import { isaAirDensityKgM3, validateStructureRecord, type StructureRecord } from '../engine/index.ts';
@@ -132,9 +132,16 @@ function rowValues(input: StructureInput, record: StructureRecord) {
   };
 }
 
+/** Structures are known by name on the board, in the log and in register files: one active structure per name. */
+function assertNameFree(tx: Tx, name: string, exceptId: number | null): void {
+  const clash = tx.select({ id: structuresTable.id }).from(structuresTable).where(and(eq(structuresTable.name, name), isNull(structuresTable.retiredAtMs))).all().find((r) => r.id !== exceptId);
+  if (clash) throw new HttpError(409, `a structure named "${name}" is registered (id ${clash.id}); choose another name`);
+}
+
 export function createStructure(db: Db, siteId: number, input: StructureInput, actor: string, nowMs: number): StructureView {
   return db.transaction((tx) => {
     const record = checkStructure(tx, input);
+    assertNameFree(tx, record.name, null);
     const row = tx.insert(structuresTable).values({ siteId, ...rowValues(input, record), createdAtMs: nowMs, updatedAtMs: nowMs }).returning().get();
     const view = structureView(row);
     recordAudit(tx, { actor, entity: 'structure', entityId: row.id, action: 'create', after: view }, nowMs);
@@ -156,6 +163,7 @@ export function updateStructure(db: Db, id: number, patch: z.infer<typeof struct
       levels: patch.levels === undefined ? before.levels : patch.levels,
     };
     const record = checkStructure(tx, merged);
+    assertNameFree(tx, record.name, id);
     const row = tx.update(structuresTable).set({ ...rowValues(merged, record), updatedAtMs: nowMs }).where(eq(structuresTable.id, id)).returning().get();
     const after = structureView(row);
     recordAudit(tx, { actor, entity: 'structure', entityId: id, action: 'update', before, after }, nowMs);

@@ -64,11 +64,10 @@ export function accessRoutes(deps: AccessRouteDeps): Hono<AppEnv> {
       c.header('Retry-After', String(Math.ceil(waitMs / 1000)));
       throw new HttpError(429, `too many failed sign-ins; try again in ${Math.ceil(waitMs / 60_000)} min`);
     }
+    const undo = limiter.begin(keys, now());
     const person = await accounts.checkPassword(input.username, input.password);
-    if (!person) {
-      limiter.fail(keys, now());
-      throw new HttpError(401, 'wrong username or password');
-    }
+    if (!person) throw new HttpError(401, 'wrong username or password');
+    undo();
     limiter.succeed(keys[0]!);
     const session = accounts.openSession({ personId: person.id }, now());
     setSessionCookie(c, session.token, session.expiresAtMs, requestIsSecure(c, deps.trustProxy));

@@ -26,10 +26,14 @@ import { zonedDayWindow } from './zonedDay.ts';
 
 const maxWindowMs = 62 * 86_400_000;
 
+/** ISO 8601: a date (UTC midnight), or a date and time with its zone (without one it would be the server's local time). */
+const isoPattern = /^[0-9]{4}-[0-9]{2}-[0-9]{2}(T[0-9]{2}:[0-9]{2}(:[0-9]{2}(\.[0-9]{1,9})?)?(Z|[+-][0-9]{2}:?[0-9]{2}))?$/;
+
 function timeParam(raw: string | undefined, name: string): number | null {
   if (raw === undefined || raw === '') return null;
-  const value = /^[0-9]{1,15}$/.test(raw) ? Number(raw) : Date.parse(raw);
-  if (!Number.isFinite(value)) throw HttpError.invalid([{ path: name, message: `"${raw.slice(0, 40)}" is not a time (epoch ms or ISO 8601)` }]);
+  // Only epoch ms or ISO 8601: Date.parse also reads words ("June 13" → 13 June 2001).
+  const value = /^[0-9]{1,15}$/.test(raw) ? Number(raw) : isoPattern.test(raw) ? Date.parse(raw) : NaN;
+  if (!Number.isFinite(value)) throw HttpError.invalid([{ path: name, message: `"${raw.slice(0, 40)}" is not a time: give epoch ms or ISO 8601 with a zone (2026-06-13T14:00:00Z)` }]);
   return value;
 }
 
@@ -111,7 +115,10 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
     const { fromMs, toMs } = win(c);
     const structure = c.req.query('structure');
     const conditions = [gte(levelChangesTable.atMs, fromMs), lt(levelChangesTable.atMs, toMs)];
-    if (structure !== undefined) conditions.push(eq(levelChangesTable.structureId, Number(structure)));
+    if (structure !== undefined) {
+      if (!/^[1-9][0-9]{0,14}$/.test(structure)) throw HttpError.invalid([{ path: 'structure', message: 'must be a structure id (a positive whole number)' }]);
+      conditions.push(eq(levelChangesTable.structureId, Number(structure)));
+    }
     const names = new Map(ctx.db.select({ id: structuresTable.id, name: structuresTable.name }).from(structuresTable).all().map((s) => [s.id, s.name]));
     const rows = ctx.db.select().from(levelChangesTable).where(and(...conditions)).orderBy(asc(levelChangesTable.atMs)).limit(20_000).all();
     return c.json({ fromMs, toMs, levelChanges: rows.map((r) => ({ ...r, structureName: names.get(r.structureId) ?? null })) });

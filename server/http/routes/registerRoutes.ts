@@ -3,7 +3,9 @@
  * export of the whole register. Reading needs the viewer role; changing needs the competent
  * person. Every change reloads the live watch and is written to the audit trail.
  */
-import { Hono } from 'hono';
+import { Hono, type Context } from 'hono';
+import { validateStructureRecord } from '../../engine/index.ts';
+import { HttpError, fieldIssues, type FieldIssue } from '../httpError.ts';
 import { z } from 'zod';
 import { principalName } from '../../auth/accounts.ts';
 import { createGateway, gatewayInputSchema, gatewayUpdateSchema, getGateway, listGateways, revokeGateway, updateGateway } from '../../register/gateways.ts';
@@ -21,6 +23,30 @@ const importSchema = z.strictObject({
   mode: z.enum(['merge', 'replace']).default('merge'),
   register: z.unknown(),
 });
+
+/**
+ * A structure body: the fields around the record and the record itself are checked together, so
+ * one answer names every problem (a bad latitude and a negative mass at once).
+ */
+async function structureBody<S extends z.ZodType>(c: Context, schema: S, patch = false): Promise<z.infer<S>> {
+  const raw = await jsonBody(c, z.unknown());
+  const issues: FieldIssue[] = [];
+  const parsed = schema.safeParse(raw);
+  if (!parsed.success) issues.push(...fieldIssues(parsed.error.issues));
+  const record = raw !== null && typeof raw === 'object' && 'record' in raw ? (raw as { record: unknown }).record : undefined;
+  if (record !== undefined) {
+    const v = validateStructureRecord(record);
+    if (!v.ok) issues.push(...v.issues.map((i) => ({ path: i.path ? `record.${i.path}` : 'record', message: i.message })));
+  } else if (!patch) {
+    issues.push({ path: 'record', message: 'is required: the structure record (kind, name, dimensions...)' });
+  }
+  if (issues.length > 0) throw HttpError.invalid(issues);
+  const data = (parsed as { data: Record<string, unknown> }).data;
+  if (!patch) return data as z.infer<S>;
+  const out: Record<string, unknown> = {};
+  for (const key of Object.keys(data)) if (Object.prototype.hasOwnProperty.call(raw, key)) out[key] = data[key];
+  return out as z.infer<S>;
+}
 
 export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
   const api = new Hono<AppEnv>();
@@ -99,7 +125,7 @@ export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
   api.get('/structures', viewer, (c) => c.json({ structures: listStructures(ctx.db).map(withLive) }));
   api.get('/structures/:id', viewer, (c) => c.json({ structure: withLive(structureView(getStructureRow(ctx.db, idParam(c)))) }));
   api.post('/structures', editor, async (c) => {
-    const input = await jsonBody(c, structureInputSchema);
+    const input = await structureBody(c, structureInputSchema);
     const site = getSite(ctx.db);
     const view = createStructure(ctx.db, site.id, input, actor(c), ctx.now());
     ctx.reloadRegister();
@@ -107,7 +133,7 @@ export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
   });
   api.patch('/structures/:id', editor, async (c) => {
     const id = idParam(c);
-    const patch = await jsonPatchBody(c, structureUpdateSchema);
+    const patch = (await structureBody(c, structureUpdateSchema, true)) as Partial<z.infer<typeof structureUpdateSchema>>;
     const view = updateStructure(ctx.db, id, patch, actor(c), ctx.now());
     ctx.reloadRegister();
     return c.json({ structure: withLive(view) });
