@@ -487,6 +487,23 @@ describe('structures of every kind (POST/GET/PATCH/DELETE /api/structures)', () 
     expect(await structureCount()).toBe(count);
   });
 
+  it('refuses renaming a structure to the name of another active one with 409, and keeps both as they were', async () => {
+    const id = ids.get('screen')!;
+    const before = (await viewer.json('GET', `/api/structures/${id}`)).body.structure;
+    const res = await cp.json('PATCH', `/api/structures/${id}`, { record: recordOf('screen', records().tent.name) });
+    expect(res.status).toBe(409);
+    expect((await viewer.json('GET', `/api/structures/${id}`)).body.structure).toEqual(before);
+  });
+
+  it('lets a retired structure’s name be used again', async () => {
+    const first = await cp.json('POST', '/api/structures', { record: recordOf('banner', 'Gate 3 banner') });
+    expect(first.status).toBe(201);
+    expect((await cp.json('DELETE', `/api/structures/${first.body.structure.id}`)).status).toBe(200);
+    const second = await cp.json('POST', '/api/structures', { record: recordOf('banner', 'Gate 3 banner') });
+    expect(second.status).toBe(201);
+    expect(second.body.structure.id).not.toBe(first.body.structure.id);
+  });
+
   const invalid: Array<[string, () => unknown, string[]]> = [
     ['a negative mass', () => ({ record: { ...recordOf('custom'), masses: [{ massKg: -50, xM: 0.6 }] } }), ['record.masses.0.massKg']],
     ['a mass outside the base', () => ({ record: { ...recordOf('custom'), masses: [{ massKg: 180, xM: 0.6 }, { massKg: 600, xM: 2.5 }] } }), ['record.masses.1.xM']],
