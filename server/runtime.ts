@@ -193,6 +193,8 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
   retentionTimer.unref();
 
   const limiter = new SignInLimiter();
+  // 30 failures in 15 minutes from one address: a crew behind one router, not a password list.
+  const addressLimiter = new SignInLimiter({ maxFailures: 30, windowMs: 15 * 60_000 });
   const health = () => {
     const brokerHealth = broker ? broker.health() : external!.health();
     const brokerOk = broker ? brokerHealth && (brokerHealth as { listening: boolean }).listening : external!.connected;
@@ -253,9 +255,9 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     log,
     access: { accounts, now, csrfExempt: new Set(['/api/session', '/api/setup', '/api/assess']) },
     routes: [
-      { path: '/api', app: accessRoutes({ accounts, limiter, now, trustProxy: config.trustProxy }) },
+      { path: '/api', app: accessRoutes({ accounts, limiter, addressLimiter, now, trustProxy: config.trustProxy }) },
       { path: '/api', app: apiRoutes(ctx) },
-      { path: '/link', app: siteLinkOpener({ accounts, limiter, now, trustProxy: config.trustProxy }) },
+      { path: '/link', app: siteLinkOpener({ accounts, limiter, addressLimiter, now, trustProxy: config.trustProxy }) },
     ],
     staticRoot,
   });

@@ -1,6 +1,7 @@
 /**
- * Sign-in rate limiting: after `maxFailures` failed attempts within `windowMs` for the same
- * username, or from the same address, further attempts are refused until the window has passed.
+ * Sign-in rate limiting: after `maxFailures` failed attempts within `windowMs` for the same key
+ * (a username; an address has its own limiter with a higher limit, since a site's crew often
+ * shares one address behind the same router), further attempts are refused until the window has passed.
  * A successful sign-in clears the username's count. In memory: a restart forgets, which costs an
  * attacker a restart they cannot cause.
  */

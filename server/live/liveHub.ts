@@ -4,7 +4,7 @@
  * it missed; one that was away too long gets a fresh snapshot instead. Dozens of phones cost
  * one JSON.stringify per event, not one per phone.
  */
-export type LiveEventKind = 'wind' | 'structure' | 'alert' | 'alert-update' | 'sensor' | 'health' | 'snapshot';
+export type LiveEventKind = 'wind' | 'structure' | 'structures' | 'alert' | 'alert-update' | 'health' | 'register';
 
 export interface LiveEvent {
   id: number;
@@ -20,20 +20,37 @@ export class LiveHub {
   private nextId = 1;
   private start = 0;
   private size = 0;
+  private bytes = 0;
   private readonly listeners = new Set<LiveListener>();
 
-  constructor(private readonly capacity = 2_000) {
+  /**
+   * @param capacity most events kept for replay
+   * @param maxBytes most characters of event data kept for replay (the oldest go first), so a
+   *   large site's big events cannot grow the ring without bound
+   */
+  constructor(
+    private readonly capacity = 2_000,
+    private readonly maxBytes = 4 * 1024 * 1024,
+  ) {
     this.ring = new Array<LiveEvent>(capacity);
   }
 
   publish(kind: LiveEventKind, payload: unknown): LiveEvent {
     const event: LiveEvent = { id: this.nextId++, kind, data: JSON.stringify(payload) };
-    const slot = (this.start + this.size) % this.capacity;
-    this.ring[slot] = event;
-    if (this.size < this.capacity) this.size++;
-    else this.start = (this.start + 1) % this.capacity;
+    if (this.size === this.capacity) this.dropOldest();
+    this.ring[(this.start + this.size) % this.capacity] = event;
+    this.size++;
+    this.bytes += event.data.length;
+    while (this.bytes > this.maxBytes && this.size > 1) this.dropOldest();
     for (const listener of this.listeners) listener(event);
     return event;
+  }
+
+  private dropOldest(): void {
+    const oldest = this.ring[this.start]!;
+    this.bytes -= oldest.data.length;
+    this.start = (this.start + 1) % this.capacity;
+    this.size--;
   }
 
   subscribe(listener: LiveListener): () => void {

@@ -98,6 +98,26 @@ interface StructureLive {
   minuteDirty: boolean;
   noDataAlertId: number | null;
   error: string | null;
+  /** What the last announcement showed (to announce only changes). */
+  shown: { level: number; noData: boolean; sensorKey: string | null; gustMps: number | null } | null;
+}
+
+/** The part of a structure's state that changes with the wind: the once-a-second `structures` event. */
+export interface StructureUpdate {
+  id: number;
+  level: number;
+  levelLabel: string | null;
+  levelSinceMs: number;
+  noData: boolean;
+  gustMps: number | null;
+  governingSensorKey: string | null;
+  windFromDeg: number | null;
+  utilization: number | null;
+  governing: string | null;
+  side: string | null;
+  margin: number | null;
+  unbounded: boolean;
+  evaluatedAtMs: number | null;
 }
 
 export interface OpenAlert {
@@ -276,6 +296,7 @@ export class Watch implements ReadingConsumer {
           minuteDirty: old?.minuteDirty ?? false,
           noDataAlertId: old?.noDataAlertId ?? null,
           error: null,
+          shown: null,
         };
         // A changed ladder can leave the kept level above the levels that now exist.
         if (live.level.level > model.levels.length) live.level = { ...live.level, level: model.levels.length };
@@ -302,7 +323,8 @@ export class Watch implements ReadingConsumer {
       }
     }
     this.recomputeMaxima(nowMs);
-    this.options.hub.publish('snapshot', this.snapshot());
+    // Screens fetch a fresh snapshot (GET /api/live) when the register changed: the event stays small.
+    this.options.hub.publish('register', { atMs: nowMs });
   }
 
   private profileRatio(heightM: number): number {
@@ -503,8 +525,14 @@ export class Watch implements ReadingConsumer {
       this.noteMinute(s, nowMs, gustMps);
     }
     s.evaluatedAtMs = nowMs;
-    this.dirtyStructures.add(s.model.id);
-    for (const event of events) this.onLevelEvent(s, event, batch, announcements);
+    // Announce (in the once-a-second batch) only what a screen would show differently: a gust
+    // moved by 0.05 m/s or more, another governing sensor, or a level or data state change.
+    const shown = s.shown;
+    if (shown === null || shown.level !== s.level.level || shown.noData !== s.level.noData || shown.sensorKey !== s.governingSensorKey || Math.abs((shown.gustMps ?? -1) - (s.gustMps ?? -1)) >= 0.05) {
+      s.shown = { level: s.level.level, noData: s.level.noData, sensorKey: s.governingSensorKey, gustMps: s.gustMps };
+      this.dirtyStructures.add(s.model.id);
+    }
+    for (const event of events) this.onLevelEvent(s, event, previousLevel, batch, announcements);
     if (previousLevel !== s.level.level || wasNoData !== s.level.noData) {
       announcements.push(() => this.options.hub.publish('structure', this.structureState(s)));
     }
@@ -529,7 +557,8 @@ export class Watch implements ReadingConsumer {
     }
   }
 
-  private onLevelEvent(s: StructureLive, event: LevelEvent, batch: WriteBatch, announcements: Array<() => void>): void {
+  /** `levelBefore`: the level before this step (no-data and data-back rows record the level they happened at). */
+  private onLevelEvent(s: StructureLive, event: LevelEvent, levelBefore: number, batch: WriteBatch, announcements: Array<() => void>): void {
     const utilization = s.gustMps === null ? null : this.assess(s, s.gustMps, s.windFromDeg).utilization;
     switch (event.type) {
       case 'escalated':
@@ -556,12 +585,12 @@ export class Watch implements ReadingConsumer {
         break;
       }
       case 'no-data': {
-        batch.levelChanges.push({ structureId: s.model.id, atMs: event.atMs, fromLevel: s.level.level, toLevel: s.level.level, gustMps: null, utilization: null, noData: true });
+        batch.levelChanges.push({ structureId: s.model.id, atMs: event.atMs, fromLevel: levelBefore, toLevel: levelBefore, gustMps: null, utilization: null, noData: true });
         if (s.noDataAlertId === null && event.atMs - this.startedAtMs >= startGraceMs) this.raiseNoData(s, event.atMs, batch, announcements);
         break;
       }
       case 'data-restored': {
-        batch.levelChanges.push({ structureId: s.model.id, atMs: event.atMs, fromLevel: s.level.level, toLevel: s.level.level, gustMps: s.gustMps, utilization, noData: false });
+        batch.levelChanges.push({ structureId: s.model.id, atMs: event.atMs, fromLevel: levelBefore, toLevel: levelBefore, gustMps: s.gustMps, utilization, noData: false });
         if (s.noDataAlertId !== null) {
           const alert = this.alerts.get(s.noDataAlertId);
           if (alert) this.clear(alert, event.atMs, batch, announcements);
@@ -730,7 +759,7 @@ export class Watch implements ReadingConsumer {
     if (this.dirtyStructures.size > 0) {
       const changed = [...this.dirtyStructures].map((id) => this.structures.get(id)).filter((s): s is StructureLive => s !== undefined);
       this.dirtyStructures.clear();
-      announcements.push(() => this.options.hub.publish('structure', { structures: changed.map((s) => this.structureState(s)) }));
+      announcements.push(() => this.options.hub.publish('structures', { atMs: nowMs, updates: changed.map((s) => this.structureUpdate(s)) }));
     }
     for (const s of this.sensors.values()) {
       if (nowMs - s.lastAnnouncedAtMs >= 5_000) {
@@ -808,6 +837,26 @@ export class Watch implements ReadingConsumer {
       levels: m.levels.map((l, i) => ({ level: i + 1, label: l.label, actionText: l.actionText, triggerGustMps: s.density.triggerGustsMps[i]!, trigger: l.trigger })),
       evaluatedAtMs: s.evaluatedAtMs,
       error: s.error,
+    };
+  }
+
+  structureUpdate(s: StructureLive): StructureUpdate {
+    const full = this.structureState(s);
+    return {
+      id: full.id,
+      level: full.level,
+      levelLabel: full.levelLabel,
+      levelSinceMs: full.levelSinceMs,
+      noData: full.noData,
+      gustMps: full.gustMps,
+      governingSensorKey: full.governingSensorKey,
+      windFromDeg: full.windFromDeg,
+      utilization: full.utilization,
+      governing: full.governing,
+      side: full.side,
+      margin: full.margin,
+      unbounded: full.unbounded,
+      evaluatedAtMs: full.evaluatedAtMs,
     };
   }
 
@@ -923,5 +972,6 @@ function brokenStructure(row: StructureRow, err: unknown, nowMs: number, old: St
     minuteDirty: false,
     noDataAlertId: old?.noDataAlertId ?? null,
     error: `stored record cannot be assessed: ${message}`,
+    shown: null,
   };
 }

@@ -12,7 +12,10 @@ import { idParam, jsonBody, jsonPatchBody } from '../validate.ts';
 
 export interface AccessRouteDeps {
   accounts: Accounts;
+  /** Failures per username (5 in 15 minutes). */
   limiter: SignInLimiter;
+  /** Failures per address (more: one router may carry a whole crew). */
+  addressLimiter: SignInLimiter;
   now: () => number;
   trustProxy: boolean;
 }
@@ -58,17 +61,20 @@ export function accessRoutes(deps: AccessRouteDeps): Hono<AppEnv> {
   api.post('/session', async (c) => {
     const input = await jsonBody(c, signInSchema);
     const remote = (c.env as { incoming?: { socket?: { remoteAddress?: string } } } | undefined)?.incoming?.socket?.remoteAddress ?? 'local';
-    const keys = [`user:${input.username.toLowerCase()}`, `addr:${clientAddress(c, deps.trustProxy, remote)}`];
-    const waitMs = limiter.retryAfterMs(keys, now());
+    const userKeys = [`user:${input.username.toLowerCase()}`];
+    const addressKeys = [`addr:${clientAddress(c, deps.trustProxy, remote)}`];
+    const waitMs = Math.max(limiter.retryAfterMs(userKeys, now()), deps.addressLimiter.retryAfterMs(addressKeys, now()));
     if (waitMs > 0) {
       c.header('Retry-After', String(Math.ceil(waitMs / 1000)));
       throw new HttpError(429, `too many failed sign-ins; try again in ${Math.ceil(waitMs / 60_000)} min`);
     }
-    const undo = limiter.begin(keys, now());
+    const undoUser = limiter.begin(userKeys, now());
+    const undoAddress = deps.addressLimiter.begin(addressKeys, now());
     const person = await accounts.checkPassword(input.username, input.password);
     if (!person) throw new HttpError(401, 'wrong username or password');
-    undo();
-    limiter.succeed(keys[0]!);
+    undoUser();
+    undoAddress();
+    limiter.succeed(userKeys[0]!);
     const session = accounts.openSession({ personId: person.id }, now());
     setSessionCookie(c, session.token, session.expiresAtMs, requestIsSecure(c, deps.trustProxy));
     return c.json({ signedIn: true, person, role: person.role, csrfToken: session.csrfToken, expiresAtMs: session.expiresAtMs });

@@ -6,8 +6,11 @@
  * - `snapshot`: everything (site, air, sensors, structures worst first, open alerts) — sent first
  *   on a new connection, and on a resumed one whose missed events are no longer kept;
  * - `wind`: one sensor's wind (at most once a second per sensor);
- * - `structure`: one structure's state when its level or data state changes, or
- *   `{structures: [...]}` once a second with every structure whose state moved;
+ * - `structure`: one structure's whole state when its level or data state changes;
+ * - `structures`: `{atMs, updates: [...]}` once a second with the wind-dependent part of every
+ *   structure whose shown state moved (gust by ≥ 0.05 m/s, level, data state, governing sensor);
+ * - `register`: the register changed (a structure, sensor or site setting): fetch /api/live again;
+ * - `health`: storage or broker state changed (`{storageOk, storageError, brokerOk, ...}`);
  * - `alert`: a new alert, or an unacknowledged one signalled again (`resignal: true`);
  * - `alert-update`: an alert acknowledged or cleared;
  * - `ping`: every 15 s, so proxies keep the connection and phones notice a dead one.
