@@ -23,7 +23,7 @@ import { CsvError, parseCsv, toCsv, unguard } from './csv.ts';
 import { listGateways } from './gateways.ts';
 import { listSensors, sensorInputSchema } from './sensors.ts';
 import { getSite, siteUpdateSchema } from './site.ts';
-import { checkStructure, listStructures, structureInputSchema } from './structures.ts';
+import { checkStructure, listStructures, structureColumns, structureInputSchema } from './structures.ts';
 
 export const registerFormat = 'holdfast-register';
 
@@ -300,19 +300,7 @@ export function importRegister(db: Db, file: RegisterFile, mode: 'merge' | 'repl
         }
         throw err;
       }
-      const values = {
-        name: record.name,
-        kind: record.kind,
-        recordJson: record,
-        orientationDeg: input.orientationDeg,
-        location: input.location,
-        latDeg: input.latDeg,
-        lonDeg: input.lonDeg,
-        mobile: input.mobile,
-        sensorKeysJson: input.sensorKeys && input.sensorKeys.length > 0 ? input.sensorKeys : null,
-        levelsJson: input.levels,
-        updatedAtMs: nowMs,
-      };
+      const values = { ...structureColumns(input, record), updatedAtMs: nowMs };
       const old = existingStructures.get(record.name);
       if (old) {
         tx.update(structuresTable).set(values).where(eq(structuresTable.id, old.id)).run();

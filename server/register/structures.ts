@@ -117,7 +117,8 @@ export function getStructureRow(db: Tx, id: number): StructureRow {
   return row;
 }
 
-function rowValues(input: StructureInput, record: StructureRecord) {
+/** The table's columns for a checked structure (the record's name and kind are columns too). */
+export function structureColumns(input: StructureInput, record: StructureRecord) {
   return {
     name: record.name,
     kind: record.kind,
@@ -142,7 +143,7 @@ export function createStructure(db: Db, siteId: number, input: StructureInput, a
   return db.transaction((tx) => {
     const record = checkStructure(tx, input);
     assertNameFree(tx, record.name, null);
-    const row = tx.insert(structuresTable).values({ siteId, ...rowValues(input, record), createdAtMs: nowMs, updatedAtMs: nowMs }).returning().get();
+    const row = tx.insert(structuresTable).values({ siteId, ...structureColumns(input, record), createdAtMs: nowMs, updatedAtMs: nowMs }).returning().get();
     const view = structureView(row);
     recordAudit(tx, { actor, entity: 'structure', entityId: row.id, action: 'create', after: view }, nowMs);
     return view;
@@ -164,7 +165,7 @@ export function updateStructure(db: Db, id: number, patch: z.infer<typeof struct
     };
     const record = checkStructure(tx, merged);
     assertNameFree(tx, record.name, id);
-    const row = tx.update(structuresTable).set({ ...rowValues(merged, record), updatedAtMs: nowMs }).where(eq(structuresTable.id, id)).returning().get();
+    const row = tx.update(structuresTable).set({ ...structureColumns(merged, record), updatedAtMs: nowMs }).where(eq(structuresTable.id, id)).returning().get();
     const after = structureView(row);
     recordAudit(tx, { actor, entity: 'structure', entityId: id, action: 'update', before, after }, nowMs);
     return after;

@@ -103,22 +103,10 @@ interface StructureLive {
 }
 
 /** The part of a structure's state that changes with the wind: the once-a-second `structures` event. */
-export interface StructureUpdate {
-  id: number;
-  level: number;
-  levelLabel: string | null;
-  levelSinceMs: number;
-  noData: boolean;
-  gustMps: number | null;
-  governingSensorKey: string | null;
-  windFromDeg: number | null;
-  utilization: number | null;
-  governing: string | null;
-  side: string | null;
-  margin: number | null;
-  unbounded: boolean;
-  evaluatedAtMs: number | null;
-}
+export type StructureUpdate = Pick<
+  StructureState,
+  'id' | 'level' | 'levelLabel' | 'levelSinceMs' | 'noData' | 'gustMps' | 'governingSensorKey' | 'windFromDeg' | 'utilization' | 'governing' | 'side' | 'margin' | 'unbounded' | 'evaluatedAtMs'
+>;
 
 export interface OpenAlert {
   id: number;
@@ -841,23 +829,8 @@ export class Watch implements ReadingConsumer {
   }
 
   structureUpdate(s: StructureLive): StructureUpdate {
-    const full = this.structureState(s);
-    return {
-      id: full.id,
-      level: full.level,
-      levelLabel: full.levelLabel,
-      levelSinceMs: full.levelSinceMs,
-      noData: full.noData,
-      gustMps: full.gustMps,
-      governingSensorKey: full.governingSensorKey,
-      windFromDeg: full.windFromDeg,
-      utilization: full.utilization,
-      governing: full.governing,
-      side: full.side,
-      margin: full.margin,
-      unbounded: full.unbounded,
-      evaluatedAtMs: full.evaluatedAtMs,
-    };
+    const { id, level, levelLabel, levelSinceMs, noData, gustMps, governingSensorKey, windFromDeg, utilization, governing, side, margin, unbounded, evaluatedAtMs } = this.structureState(s);
+    return { id, level, levelLabel, levelSinceMs, noData, gustMps, governingSensorKey, windFromDeg, utilization, governing, side, margin, unbounded, evaluatedAtMs };
   }
 
   sensorState(s: SensorLive, nowMs: number): SensorState {
