@@ -10,7 +10,7 @@
  */
 import { Hono, type Context } from 'hono';
 import { z } from 'zod';
-import { assessStructure, isaSeaLevelDensityKgM3, plausibleAirDensityKgM3, recordIssues, requiredBallastKg, validateStructureRecord } from '../engine/index.ts';
+import { assessStructure, highestTravelSpeedMps, isaSeaLevelDensityKgM3, plausibleAirDensityKgM3, recordIssues, requiredBallastKg, validateStructureRecord } from '../engine/index.ts';
 import { checkLevelOrder, levelListSchema } from '../levels/index.ts';
 import { rawTriggerGustsMps } from '../watch/structureModel.ts';
 import type { FieldIssue } from './httpError.ts';
@@ -29,6 +29,12 @@ const assessBodySchema = z.strictObject({
   levels: levelListSchema.optional(),
   /** Extension: the design gust (m/s) for which `requiredBallast` is answered. */
   designGustMps: z.number().gt(0, 'must be > 0 m/s').lte(maxGustMps, `must be ≤ ${maxGustMps} m/s`).optional(),
+  /**
+   * Extension, for mobile structures (a screen on a vehicle): with `gustMps` as the wind over the
+   * ground, the highest travel speed with the face raised (design.md 2.2). Directions in degrees;
+   * null or absent = the worst heading, straight into the wind.
+   */
+  travel: z.strictObject({ windFromDeg: z.number().min(0).max(360).nullable().optional(), headingDeg: z.number().min(0).max(360).nullable().optional() }).optional(),
   /** Extension: where extra ballast would go, m from the front edge (default the middle of the base). */
   ballastXM: z.number().gte(0, 'must be ≥ 0 m').optional(),
   airDensityKgM3: z
@@ -73,7 +79,7 @@ assessRoute.post('/', async (c) => {
     issues.push(...structure.issues.map((issue) => ({ ...issue, path: issue.path === '' ? 'structure' : `structure.${issue.path}` })));
   }
   if (!parsedBody.success || !structure?.ok) return invalidInput(c, issues);
-  const { gustMps, airDensityKgM3, levels, designGustMps, ballastXM } = parsedBody.data;
+  const { gustMps, airDensityKgM3, levels, designGustMps, ballastXM, travel } = parsedBody.data;
   const report = assessStructure(structure.record, { gustMps, airDensityKgM3 });
   const density = airDensityKgM3 ?? isaSeaLevelDensityKgM3;
   const extras: Record<string, unknown> = {};
@@ -88,6 +94,13 @@ assessRoute.post('/', async (c) => {
     if (xM > report.expanded.baseDepthM) return invalidInput(c, [{ path: 'ballastXM', message: `must be within the base (≤ ${report.expanded.baseDepthM} m)` }]);
     const kg = requiredBallastKg(report.expanded, designGustMps, density, xM);
     extras.requiredBallast = { designGustMps, xM, massKg: Number.isFinite(kg) ? kg : null, possible: Number.isFinite(kg) };
+  }
+  if (travel && report.limitGustMps !== null) {
+    extras.travel = {
+      windFromDeg: travel.windFromDeg ?? null,
+      headingDeg: travel.headingDeg ?? null,
+      ...highestTravelSpeedMps({ limitGustMps: report.limitGustMps, gustMps, windFromDeg: travel.windFromDeg ?? null, headingDeg: travel.headingDeg ?? null }),
+    };
   }
   return c.json({ ...report, ...extras });
 });

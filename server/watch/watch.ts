@@ -21,6 +21,7 @@ import {
   beaufortForce,
   dynamicPressurePa,
   gustHeightFactor,
+  highestTravelSpeedMps,
   horizontalShare,
   isaAirDensityKgM3,
   sideStability,
@@ -154,6 +155,12 @@ export interface StructureState {
   levels: Array<{ level: number; label: string; actionText: string; triggerGustMps: number; trigger: LevelDefinition['trigger'] }>;
   evaluatedAtMs: number | null;
   error: string | null;
+  mobile: boolean;
+  /**
+   * Mobile structures: the highest travel speed with the face raised in the current gust, heading
+   * straight into the wind (the worst case; design.md 2.2), m/s; null when not mobile or unknown.
+   */
+  highestTravelSpeedMps: number | null;
 }
 
 export interface SensorState {
@@ -825,6 +832,11 @@ export class Watch implements ReadingConsumer {
       levels: m.levels.map((l, i) => ({ level: i + 1, label: l.label, actionText: l.actionText, triggerGustMps: s.density.triggerGustsMps[i]!, trigger: l.trigger })),
       evaluatedAtMs: s.evaluatedAtMs,
       error: s.error,
+      mobile: m.mobile,
+      highestTravelSpeedMps:
+        m.mobile && s.gustMps !== null && !s.level.noData && Number.isFinite(s.density.limitGustMps)
+          ? highestTravelSpeedMps({ limitGustMps: s.density.limitGustMps, gustMps: Math.min(s.gustMps, 120), windFromDeg: null, headingDeg: null }).speedMps
+          : null,
     };
   }
 
