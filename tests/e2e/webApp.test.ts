@@ -1,0 +1,289 @@
+/**
+ * The web app in a real browser (Chromium) against the real server started in-process: sign in,
+ * register a sensor and a gateway, register a structure through the form and see its limit,
+ * publish wind over MQTT as the gateway and watch the structure go from "no data" to its top
+ * level on the live board, acknowledge the alert as crew, find it in the log, export the CSV.
+ * Along the way: what a viewer may not do is not offered, a dropped connection is shown, axe-core
+ * finds no serious or critical problem on the main screens, and screenshots of them are written
+ * at phone and desktop size to tests/artifacts/screenshots/.
+ *
+ * The steps run in order and share one server: each `it` is one stage of the same day on site.
+ */
+import fs from 'node:fs';
+import mqtt, { type MqttClient } from 'mqtt';
+import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import {
+  Api,
+  chromiumPath,
+  describeViolations,
+  desktop,
+  ensureWebBuilt,
+  launchBrowser,
+  phone,
+  screenshot,
+  seriousAxeViolations,
+  signInThroughForm,
+  startE2eServer,
+  type E2eServer,
+} from './support.ts';
+
+const haveChromium = fs.existsSync(chromiumPath);
+const skip = !haveChromium && !process.env.CI;
+if (skip) console.warn(`browser tests skipped: Chromium is not at ${chromiumPath} (apt-get install chromium); they are required when CI is set`);
+
+const admin = { username: 'site-admin', password: 'e2e-admin-password' };
+const crew = { username: 'rigger', displayName: 'Jo Marsh (rigger)', password: 'e2e-crew-password' };
+const steward = { username: 'steward', displayName: 'Gate steward', password: 'e2e-viewer-password' };
+const structureName = 'Car park banner';
+const sensorKey = 'mast-a';
+const ackNote = 'Banner dropped and rolled, path closed (e2e)';
+
+interface AssessAnswer {
+  limitGustMps: number | null;
+}
+interface OpenAlertView {
+  id: number;
+  subject: string;
+  label: string;
+  level: number | null;
+  acknowledgedBy: string | null;
+}
+
+describe.skipIf(skip)('web app in a real browser', () => {
+  let e2e: E2eServer;
+  let browser: Browser;
+  let adminApi: Api;
+  let adminContext: BrowserContext;
+  let page: Page;
+  let gatewayPassword = '';
+  let structureId = 0;
+  let limitGustMps = 0;
+  let gateway: MqttClient | null = null;
+
+  beforeAll(async () => {
+    if (!haveChromium) throw new Error(`Chromium is missing at ${chromiumPath}: install it (apt-get install chromium). CI requires the browser tests.`);
+    ensureWebBuilt();
+    e2e = await startE2eServer(admin);
+    browser = await launchBrowser();
+    adminApi = new Api(e2e.baseUrl);
+    await adminApi.signIn(admin.username, admin.password);
+    await adminApi.call('POST', '/api/people', { username: crew.username, displayName: crew.displayName, role: 'crew', password: crew.password });
+    await adminApi.call('POST', '/api/people', { username: steward.username, displayName: steward.displayName, role: 'viewer', password: steward.password });
+    adminContext = await browser.newContext({ viewport: phone, acceptDownloads: true });
+    adminContext.setDefaultTimeout(10_000);
+    page = await adminContext.newPage();
+  }, 60_000);
+
+  afterAll(async () => {
+    await gateway?.endAsync();
+    await browser?.close();
+    await e2e?.stop();
+  });
+
+  it('signs in through the form and shows the wind as unknown while nothing is registered', async () => {
+    await page.goto(`${e2e.baseUrl}/`);
+    await page.waitForSelector('#si-user');
+    await screenshot(page, 'sign-in-phone');
+    expect(await seriousAxeViolations(page).then(describeViolations)).toBe('');
+    await signInThroughForm(page, e2e.baseUrl, admin.username, admin.password);
+    await page.getByText('No sensors registered: the wind on site is unknown.').waitFor();
+    await expect(page.locator('header.top .role').textContent()).resolves.toBe('administrator');
+  });
+
+  it('registers a sensor and a gateway; the gateway password is shown once with its topic', async () => {
+    await page.goto(`${e2e.baseUrl}/#/sensors`);
+    await page.getByRole('button', { name: 'Register a sensor' }).click();
+    await page.fill('#sn-key', sensorKey);
+    await page.fill('#sn-name', 'Mast A');
+    await page.fill('#sn-h', '10');
+    await page.getByRole('button', { name: 'Register sensor' }).click();
+    await page.getByRole('heading', { name: 'Mast A' }).waitFor();
+    await page.getByText('no reading yet').first().waitFor();
+
+    await page.fill('#gw-name', 'Field gateway');
+    await page.fill('#gw-user', 'field-gw');
+    await page.getByLabel('Mast A (mast-a)').check();
+    await page.getByRole('button', { name: 'Make gateway' }).click();
+    const secret = page.getByTestId('gateway-password');
+    await secret.waitFor();
+    gatewayPassword = (await secret.textContent()) ?? '';
+    expect(gatewayPassword.length).toBeGreaterThanOrEqual(16);
+    await expect(page.locator('pre.command').textContent()).resolves.toContain(`-p ${e2e.server.mqttPort} -u field-gw`);
+    await expect(page.locator('pre.command').textContent()).resolves.toContain('wind/mast-a/reading');
+    await screenshot(page, 'sensors-gateway-phone');
+    await page.getByRole('button', { name: 'I have stored it' }).click();
+    await expect(page.getByTestId('gateway-password').count()).resolves.toBe(0);
+  });
+
+  it('registers a banner through the form and shows the limit the calculator gives for it', async () => {
+    await page.goto(`${e2e.baseUrl}/#/register/new`);
+    await page.getByRole('radio', { name: 'Banner, fence scrim or hoarding' }).click();
+    await page.fill('#sf-name', structureName);
+    const dims: Record<string, string> = { widthM: '6', heightM: '2', clearanceM: '0.2', feet: '4', ballastPerFootKg: '60', footDepthM: '0.8', selfWeightKg: '80' };
+    for (const [field, value] of Object.entries(dims)) await page.fill(`#sf-${field}`, value);
+
+    // The same record through the public calculator: the form must show that limit.
+    const record = { kind: 'banner', name: structureName, widthM: 6, heightM: 2, clearanceM: 0.2, feet: 4, ballastPerFootKg: 60, footDepthM: 0.8, selfWeightKg: 80, surface: 'grass' };
+    const site = await adminApi.call<{ airDensityKgM3: number }>('GET', '/api/site');
+    const expected = await adminApi.call<AssessAnswer>('POST', '/api/assess', { structure: record, gustMps: 20, airDensityKgM3: site.airDensityKgM3 });
+    expect(expected.limitGustMps).not.toBeNull();
+    limitGustMps = expected.limitGustMps!;
+    const shown = `${limitGustMps.toFixed(1)} m/s`;
+    await expect.poll(() => page.getByTestId('limit-gust').textContent(), { timeout: 5_000 }).toBe(shown);
+
+    // A field error from the server appears next to its field, and goes when it is fixed.
+    await page.fill('#sf-feet', '2.5');
+    await page.locator('#sf-feet').blur();
+    await page.locator('.field.has-error', { has: page.locator('#sf-feet') }).getByText('must be a whole number').waitFor();
+    await page.fill('#sf-feet', '4');
+    await expect.poll(() => page.locator('.field.has-error', { has: page.locator('#sf-feet') }).count()).toBe(0);
+
+    await page.locator('svg[aria-label^="Side view"]').waitFor();
+    await screenshot(page, 'register-form-phone');
+    await page.getByRole('button', { name: 'Register structure' }).click();
+    await page.waitForURL(/#\/register\/\d+$/);
+    structureId = Number(page.url().split('/').pop());
+    await page.getByText(`Saved “${structureName}”`).waitFor();
+    const saved = await adminApi.call<{ structure: { live: { limitGustMps: number } } }>('GET', `/api/structures/${structureId}`);
+    expect(saved.structure.live.limitGustMps).toBeCloseTo(limitGustMps, 6);
+  });
+
+  it('shows the new structure as "no data" before any reading, then escalates it to its top level on a strong gust', async () => {
+    await page.goto(`${e2e.baseUrl}/#/`);
+    const card = page.locator('a.structure-card', { hasText: structureName });
+    await card.getByText('No data — wind unknown').waitFor();
+    await expect(card.locator('.sc-margin').textContent()).resolves.toBe('unknown');
+
+    gateway = await mqtt.connectAsync(`mqtt://127.0.0.1:${e2e.server.mqttPort}`, { username: 'field-gw', password: gatewayPassword, clientId: 'e2e-gateway', reconnectPeriod: 0 });
+    const publish = (speed: number, gust: number) =>
+      gateway!.publishAsync(`wind/${sensorKey}/reading`, JSON.stringify({ ts: Date.now(), speed, gust, dir: 250 }), { qos: 1 });
+
+    // Light wind: the structure has data and sits below every level.
+    await publish(2, 3);
+    await card.getByText('Below all levels').waitFor({ timeout: 10_000 });
+    await expect(page.locator('.wind-now .big-figure .fig-value').textContent()).resolves.toBe('3.0');
+
+    // A gust 30 % above the limit: straight to the top level, with its alert on top.
+    const gustMps = Math.round(limitGustMps * 1.3 * 10) / 10;
+    await publish(Math.round((gustMps / 1.8) * 10) / 10, gustMps);
+    await card.getByText('Level 3 · Stop and clear').waitFor({ timeout: 10_000 });
+    await expect(card.locator('dd').nth(1).textContent()).resolves.toBe(`${gustMps.toFixed(1)} m/s`);
+    const alert = page.locator('article.alert-card', { hasText: structureName }).filter({ hasText: 'Stop and clear' });
+    await alert.waitFor();
+    await expect(alert.textContent()).resolves.toContain('Clear everyone out of the structure');
+    // The card is the first on the board: worst first.
+    await expect(page.locator('a.structure-card').first().textContent()).resolves.toContain(structureName);
+    await screenshot(page, 'board-alert-phone');
+  }, 30_000);
+
+  it('offers a viewer no Acknowledge button, and lets crew acknowledge with a note', async () => {
+    const viewerContext = await browser.newContext({ viewport: phone });
+    const viewerPage = await viewerContext.newPage();
+    await signInThroughForm(viewerPage, e2e.baseUrl, steward.username, steward.password);
+    const viewerAlert = viewerPage.locator('article.alert-card', { hasText: 'Stop and clear' });
+    await viewerAlert.waitFor();
+    await expect(viewerAlert.getByRole('button', { name: 'Acknowledge' }).count()).resolves.toBe(0);
+    await viewerAlert.getByText('Crew and above can acknowledge').waitFor();
+    await viewerContext.close();
+
+    const crewContext = await browser.newContext({ viewport: phone });
+    const crewPage = await crewContext.newPage();
+    await signInThroughForm(crewPage, e2e.baseUrl, crew.username, crew.password);
+    const alert = crewPage.locator('article.alert-card', { hasText: structureName }).filter({ hasText: 'Stop and clear' });
+    await alert.getByRole('button', { name: 'Acknowledge' }).click();
+    await alert.getByLabel('Note (optional): what you did or saw').fill(ackNote);
+    await alert.getByRole('button', { name: 'Confirm acknowledgement' }).click();
+    await alert.getByText(`Acknowledged by ${crew.displayName}`).waitFor();
+    await expect(alert.textContent()).resolves.toContain(ackNote);
+    await crewContext.close();
+
+    // The acknowledgement is stored with the person's name and note, and reaches the other phone live.
+    const live = await adminApi.call<{ alerts: OpenAlertView[] }>('GET', '/api/live');
+    const stored = live.alerts.find((a) => a.subject === structureName && a.label === 'Stop and clear');
+    expect(stored?.acknowledgedBy).toBe(crew.displayName);
+    await page.locator('article.alert-card', { hasText: structureName }).filter({ hasText: 'Stop and clear' }).getByText(`Acknowledged by ${crew.displayName}`).waitFor();
+  }, 30_000);
+
+  it('finds the alert and its acknowledgement in the log, and exports them as CSV', async () => {
+    await page.goto(`${e2e.baseUrl}/#/log`);
+    await page.getByRole('button', { name: 'Last hours' }).click();
+    const entry = page.locator('.timeline li', { hasText: `Alert — ${structureName}: level 3 · Stop and clear` });
+    await entry.waitFor();
+    await expect(entry.textContent()).resolves.toContain(`acknowledged by ${crew.displayName}`);
+    await expect(entry.textContent()).resolves.toContain(ackNote);
+    await page.locator('.timeline li', { hasText: `${structureName}: level raised 0 → 3` }).waitFor();
+
+    const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Alerts and acknowledgements' }).click()]);
+    const file = await download.path();
+    const csv = fs.readFileSync(file, 'utf8');
+    const header = csv.split('\n')[0]!;
+    expect(header).toContain('acknowledged_by');
+    const row = csv.split('\n').find((line) => line.includes(structureName) && line.includes('Stop and clear'));
+    expect(row, `no alert row for ${structureName} in:\n${csv}`).toBeDefined();
+    expect(row).toContain(crew.displayName);
+    expect(row).toContain(ackNote);
+    await screenshot(page, 'log-phone');
+  });
+
+  it('says so when the live connection drops, and recovers', async () => {
+    await page.goto(`${e2e.baseUrl}/#/`);
+    await page.locator('.pill-ok').waitFor();
+    await adminContext.setOffline(true);
+    // Offline in the browser: EventSource errors out; the board must not keep looking live.
+    await page.getByText('Treat the wind as unknown until this goes away.').waitFor();
+    await page.locator('.pill-bad', { hasText: 'offline' }).waitFor();
+    await expect(page.locator('main.board').getAttribute('class')).resolves.toContain('is-stale');
+    await screenshot(page, 'board-offline-phone');
+    await adminContext.setOffline(false);
+    await page.locator('.pill-ok').waitFor({ timeout: 15_000 });
+    await expect(page.getByText('Treat the wind as unknown until this goes away.').count()).resolves.toBe(0);
+  }, 40_000);
+
+  it('has no serious or critical axe-core violations on the main screens, and writes their screenshots', async () => {
+    const screens: Array<[string, string, string]> = [
+      ['board', '/', 'a.structure-card'],
+      ['structure', `/structure/${structureId}`, '.chart canvas'],
+      ['register-list', '/register', '.register-item'],
+      ['register-form', `/register/${structureId}`, '[data-testid=limit-gust]'],
+      ['site-settings', '/site', '#st-name'],
+      ['sensors', '/sensors', '.sensor-card'],
+      ['log', '/log', '.timeline li'],
+      ['plan', '/plan', '#fc-text'],
+      ['more', '/more', '#pref-h'],
+      ['people', '/people', '.person-card'],
+      ['site-links', '/links', '#sl-label'],
+    ];
+    const problems: string[] = [];
+    for (const [viewportName, viewport] of [
+      ['phone', phone],
+      ['desktop', desktop],
+    ] as const) {
+      await page.setViewportSize(viewport);
+      for (const [name, route, ready] of screens) {
+        await page.goto(`${e2e.baseUrl}/#${route}`);
+        await page.locator(ready).first().waitFor();
+        if (viewportName === 'phone') {
+          const found = await seriousAxeViolations(page);
+          if (found.length > 0) problems.push(`${name}:\n${describeViolations(found)}`);
+        }
+        await screenshot(page, `${name}-${viewportName}`);
+      }
+    }
+    // The forecast grid and the dark theme, once each.
+    await page.goto(`${e2e.baseUrl}/#/plan`);
+    await page.getByRole('button', { name: 'Use the example' }).click();
+    await page.getByRole('button', { name: 'Check the forecast' }).click();
+    await page.locator('table.forecast-grid').waitFor();
+    await expect(page.locator('table.forecast-grid thead').textContent()).resolves.toContain(structureName);
+    await screenshot(page, 'plan-forecast-desktop');
+    await page.emulateMedia({ colorScheme: 'dark' });
+    await page.setViewportSize(phone);
+    await page.goto(`${e2e.baseUrl}/#/`);
+    await page.locator('a.structure-card').first().waitFor();
+    const dark = await seriousAxeViolations(page);
+    if (dark.length > 0) problems.push(`board (dark):\n${describeViolations(dark)}`);
+    await screenshot(page, 'board-dark-phone');
+    expect(problems.join('\n\n')).toBe('');
+  }, 90_000);
+});

@@ -1,0 +1,176 @@
+/**
+ * The frame around every screen: a slim header (site, connection, who is signed in), the screen,
+ * and a bottom bar reachable with one thumb. Signed out: the sign-in or first-start screen.
+ */
+import { useEffect } from 'preact/hooks';
+import { keepScreenOn } from './alarm.ts';
+import { live, startLive, stopLive, type Connection } from './live.ts';
+import { href, useRoute } from './router.ts';
+import { loadSite, site } from './site.ts';
+import { may, roleNames, session } from './session.ts';
+import { useStore } from './store.ts';
+import { useNow } from './components/clock.ts';
+import { duration } from './units.ts';
+import { Board } from './screens/board.tsx';
+import { StructurePage } from './screens/structure.tsx';
+import { RegisterList } from './screens/registerList.tsx';
+import { StructureForm } from './screens/structureForm.tsx';
+import { SiteSettings } from './screens/siteSettings.tsx';
+import { Sensors } from './screens/sensors.tsx';
+import { LogScreen } from './screens/log.tsx';
+import { Plan } from './screens/plan.tsx';
+import { More } from './screens/more.tsx';
+import { People } from './screens/people.tsx';
+import { SiteLinks } from './screens/siteLinks.tsx';
+import { FirstStart, SignIn } from './screens/signIn.tsx';
+
+const tabs: Array<{ path: string; label: string; match: string[] }> = [
+  { path: '/', label: 'Board', match: ['', 'structure'] },
+  { path: '/register', label: 'Structures', match: ['register', 'site'] },
+  { path: '/sensors', label: 'Sensors', match: ['sensors'] },
+  { path: '/log', label: 'Log', match: ['log'] },
+  { path: '/plan', label: 'Plan', match: ['plan'] },
+  { path: '/more', label: 'More', match: ['more', 'people', 'links'] },
+];
+
+const connectionText: Record<Connection, string> = {
+  connecting: 'connecting…',
+  open: 'live',
+  reconnecting: 'reconnecting…',
+  offline: 'offline',
+};
+
+function ConnectionPill() {
+  const state = useStore(live);
+  const now = useNow();
+  const age = state.lastDataAtMs === null ? null : now - state.lastDataAtMs;
+  const ok = state.connection === 'open';
+  return (
+    <span class={`pill ${ok ? 'pill-ok' : 'pill-bad'}`} role="status" aria-live="polite">
+      <span class="pill-dot" aria-hidden="true" />
+      {connectionText[state.connection]}
+      {!ok && age !== null ? ` · data ${duration(age)} old` : ''}
+    </span>
+  );
+}
+
+function Screen() {
+  const { parts } = useRoute();
+  const s = useStore(session);
+  const [first, second] = parts;
+  switch (first ?? '') {
+    case '':
+    case 'board':
+      return <Board />;
+    case 'structure':
+      return <StructurePage id={Number(second)} />;
+    case 'register':
+      if (second === 'new') return <StructureForm id={null} />;
+      if (second && /^[0-9]+$/.test(second)) return <StructureForm id={Number(second)} />;
+      return <RegisterList />;
+    case 'site':
+      return <SiteSettings />;
+    case 'sensors':
+      return <Sensors />;
+    case 'log':
+      return <LogScreen />;
+    case 'plan':
+      return <Plan />;
+    case 'more':
+      return <More />;
+    case 'people':
+      return may(s, 'admin') ? <People /> : <Refused need="administrator" />;
+    case 'links':
+      return may(s, 'competent-person') ? <SiteLinks /> : <Refused need="competent person" />;
+    default:
+      return (
+        <main id="main">
+          <h1>Not found</h1>
+          <p>
+            There is no screen here. <a href={href('/')}>Go to the live board</a>.
+          </p>
+        </main>
+      );
+  }
+}
+
+function Refused({ need }: { need: string }) {
+  return (
+    <main id="main">
+      <h1>Not for this role</h1>
+      <p>This screen needs the {need} role. Ask an administrator if you need it.</p>
+    </main>
+  );
+}
+
+export function App() {
+  const s = useStore(session);
+  const { parts } = useRoute();
+  const siteInfo = useStore(site);
+  const signedIn = s.status === 'ready' && s.signedIn;
+
+  useEffect(() => {
+    if (!signedIn) return;
+    startLive();
+    void loadSite();
+    return () => stopLive();
+  }, [signedIn]);
+
+  // The screen stays on while the live board (or a structure) is open.
+  const onBoard = signedIn && (parts.length === 0 || parts[0] === 'board' || parts[0] === 'structure');
+  useEffect(() => {
+    keepScreenOn(onBoard);
+    return () => keepScreenOn(false);
+  }, [onBoard]);
+
+  if (s.status === 'loading') {
+    return (
+      <main class="narrow" id="main">
+        <p class="lead">Loading…</p>
+      </main>
+    );
+  }
+  if (s.status === 'error') {
+    return (
+      <main class="narrow" id="main">
+        <h1>The server cannot be reached</h1>
+        <p class="error-box">{s.message}</p>
+        <button class="primary" onClick={() => location.reload()}>
+          Try again
+        </button>
+      </main>
+    );
+  }
+  if (!s.signedIn) return s.setupPending ? <FirstStart /> : <SignIn />;
+
+  const current = parts[0] ?? '';
+  return (
+    <div class="shell">
+      <a class="skip" href="#main">
+        Skip to content
+      </a>
+      <header class="top">
+        <div class="top-site">
+          <span class="brand">Holdfast</span>
+          <span class="site-name">{siteInfo?.name ?? live.get().snapshot?.site.name ?? ''}</span>
+        </div>
+        <ConnectionPill />
+        <a class="who" href={href('/more')} title="Preferences and sign out">
+          {s.name.replace(/ \(.*\)$/, '')}
+          <span class="role">{roleNames[s.role]}</span>
+        </a>
+      </header>
+      <Screen />
+      <nav class="tabs" aria-label="Screens">
+        {tabs.map((t) => {
+          const active = t.match.includes(current);
+          return (
+            <a href={href(t.path)} class={active ? 'tab active' : 'tab'} aria-current={active ? 'page' : undefined}>
+              {t.label}
+            </a>
+          );
+        })}
+      </nav>
+    </div>
+  );
+}

@@ -1,0 +1,76 @@
+/**
+ * Editing a level ladder: up to 8 rows of label, trigger (percent of load capacity, or a gust
+ * in the chosen unit) and the action text the crew will read when the level is reached.
+ */
+import type { LevelRowDraft } from '../register/structureDraft.ts';
+import { speedUnitLabels, type SpeedUnit } from '../units.ts';
+import { LevelShape, levelTone } from './levelBadge.tsx';
+
+const maxLevels = 8;
+
+export function LevelsEditor(props: {
+  idPrefix: string;
+  levels: LevelRowDraft[];
+  unit: SpeedUnit;
+  onChange: (levels: LevelRowDraft[]) => void;
+  errors: Map<string, string>;
+  /** Each level's wind speed for this structure, from the calculator (m/s), when known. */
+  gustsText?: Array<string | null>;
+}) {
+  const { levels, unit } = props;
+  const set = (i: number, patch: Partial<LevelRowDraft>) => props.onChange(levels.map((l, j) => (j === i ? { ...l, ...patch } : l)));
+  const err = (i: number, k: string) => props.errors.get(`levels.${i}.${k}`) ?? (k === 'trigger' ? (props.errors.get(`levels.${i}.trigger.fraction`) ?? props.errors.get(`levels.${i}.trigger.gustMps`)) : undefined);
+  return (
+    <div class="levels-editor">
+      {props.errors.get('levels') ? <p class="field-error">{props.errors.get('levels')}</p> : null}
+      {levels.map((l, i) => {
+        const id = `${props.idPrefix}-${i}`;
+        const tErr = err(i, 'trigger');
+        const lErr = err(i, 'label');
+        return (
+          <fieldset class="level-row" key={i}>
+            <legend>
+              <LevelShape tone={levelTone(i + 1, levels.length)} size={22} /> Level {i + 1}
+              {props.gustsText?.[i] ? <span class="muted small"> — reached at {props.gustsText[i]}</span> : null}
+            </legend>
+            <div class="grid2">
+              <div class={`field${lErr ? ' has-error' : ''}`}>
+                <label for={`${id}-label`}>Label</label>
+                <input id={`${id}-label`} maxLength={60} value={l.label} onInput={(e) => set(i, { label: e.currentTarget.value })} />
+                {lErr ? <p class="field-error">{lErr}</p> : null}
+              </div>
+              <div class={`field${tErr ? ' has-error' : ''}`}>
+                <label for={`${id}-value`}>Trigger</label>
+                <div class="input-with-unit">
+                  <input id={`${id}-value`} inputMode="decimal" value={l.value} onInput={(e) => set(i, { value: e.currentTarget.value })} />
+                  <select aria-label={`Level ${i + 1} trigger kind`} value={l.kind} onChange={(e) => set(i, { kind: e.currentTarget.value as LevelRowDraft['kind'] })}>
+                    <option value="utilization">% of load capacity</option>
+                    <option value="gust">{speedUnitLabels[unit]} gust</option>
+                  </select>
+                </div>
+                {tErr ? <p class="field-error">{tErr}</p> : null}
+                <p class="help">Percent of load capacity (60 means the governing utilization reaches 0.6), or a gust at the structure (e.g. from the manufacturer’s sheet).</p>
+              </div>
+            </div>
+            <div class={`field wide${err(i, 'actionText') ? ' has-error' : ''}`}>
+              <label for={`${id}-action`}>Action the crew reads</label>
+              <textarea id={`${id}-action`} rows={3} maxLength={2000} value={l.actionText} onInput={(e) => set(i, { actionText: e.currentTarget.value })} />
+              {err(i, 'actionText') ? <p class="field-error">{err(i, 'actionText')}</p> : null}
+            </div>
+            <div class="row">
+              <button type="button" disabled={i === 0} onClick={() => props.onChange(levels.map((x, j) => (j === i - 1 ? levels[i]! : j === i ? levels[i - 1]! : x)))}>
+                Move up
+              </button>
+              <button type="button" disabled={levels.length <= 1} onClick={() => props.onChange(levels.filter((_, j) => j !== i))}>
+                Remove level {i + 1}
+              </button>
+            </div>
+          </fieldset>
+        );
+      })}
+      <button type="button" disabled={levels.length >= maxLevels} onClick={() => props.onChange([...levels, { label: '', kind: 'utilization', value: '', actionText: '' }])}>
+        Add a level
+      </button>
+    </div>
+  );
+}

@@ -1,0 +1,265 @@
+/**
+ * The live state of the site, kept current from the server's event stream (GET /api/stream):
+ * a snapshot first, then wind, structure and alert events (server/http/routes/liveRoutes.ts).
+ *
+ * Why a watchdog on top of EventSource's own reconnection: a phone that walks out of Wi-Fi range
+ * can keep a half-open TCP connection for minutes with no error event. The server pings every
+ * 15 s; when nothing at all has arrived for 35 s the connection is treated as dead, closed and
+ * opened again. Until it is back every screen says "reconnecting" and how old its data is, and
+ * nothing stale is allowed to look calm.
+ */
+import { api } from './api.ts';
+import { createStore } from './store.ts';
+import type { OpenAlert, SensorState, Snapshot, StructureState, WindLog } from './types.ts';
+
+export type Connection = 'connecting' | 'open' | 'reconnecting' | 'offline';
+
+export interface LiveState {
+  snapshot: Snapshot | null;
+  connection: Connection;
+  /** Client clock of the last event of any kind (ping included). */
+  lastEventAtMs: number | null;
+  /** Client clock of the last snapshot or data event. */
+  lastDataAtMs: number | null;
+  /** Server clock − client clock, ms: ages are computed against the server's clock. */
+  clockOffsetMs: number;
+}
+
+/** The server pings every 15 s (liveRoutes.ts); two missed pings and a margin mean a dead link. */
+const deadAfterMs = 35_000;
+/** Minutes of wind kept for the board's trend line. */
+export const trailMinutes = 30;
+
+export const live = createStore<LiveState>({ snapshot: null, connection: 'connecting', lastEventAtMs: null, lastDataAtMs: null, clockOffsetMs: 0 });
+
+/** Recent wind per sensor for the trend line: time (server ms), gust and mean in m/s. */
+export interface TrailPoint {
+  tMs: number;
+  gustMps: number | null;
+  meanMps: number | null;
+}
+export const windTrail = createStore<ReadonlyMap<string, TrailPoint[]>>(new Map());
+
+type AlertListener = (alert: OpenAlert & { resignal?: boolean }) => void;
+const alertListeners = new Set<AlertListener>();
+/** Called for every alert raised or signalled again while the stream is open. */
+export function onAlert(listener: AlertListener): () => void {
+  alertListeners.add(listener);
+  return () => alertListeners.delete(listener);
+}
+
+let source: EventSource | null = null;
+let watchdog: ReturnType<typeof setInterval> | null = null;
+let retryTimer: ReturnType<typeof setTimeout> | null = null;
+let running = false;
+
+/** Server time now, estimated from the last offset seen. */
+export function serverNow(): number {
+  return Date.now() + live.get().clockOffsetMs;
+}
+
+/** Same order as the server's snapshot: no data first, then highest level, then least margin. */
+function byUrgency(a: StructureState, b: StructureState): number {
+  if (a.noData !== b.noData) return a.noData ? -1 : 1;
+  if (a.level !== b.level) return b.level - a.level;
+  return (a.margin ?? -Infinity) - (b.margin ?? -Infinity);
+}
+
+function openAlerts(alerts: OpenAlert[]): OpenAlert[] {
+  return alerts.filter((a) => a.acknowledgedAtMs === null || a.clearedAtMs === null).sort((a, b) => b.raisedAtMs - a.raisedAtMs);
+}
+
+function withSnapshot(change: (s: Snapshot) => Snapshot): void {
+  const now = Date.now();
+  live.update((state) => (state.snapshot ? { ...state, snapshot: change(state.snapshot), lastDataAtMs: now, lastEventAtMs: now } : state));
+}
+
+function upsertStructures(list: StructureState[]): void {
+  withSnapshot((s) => {
+    const byId = new Map(s.structures.map((x) => [x.id, x]));
+    for (const st of list) byId.set(st.id, st);
+    return { ...s, structures: [...byId.values()].sort(byUrgency) };
+  });
+}
+
+function upsertAlert(alert: OpenAlert): void {
+  withSnapshot((s) => {
+    const rest = s.alerts.filter((a) => a.id !== alert.id);
+    return { ...s, alerts: openAlerts([...rest, alert]) };
+  });
+}
+
+function addTrail(sensor: SensorState): void {
+  const tMs = sensor.lastReceivedAtMs;
+  if (tMs === null) return;
+  windTrail.update((trails) => {
+    const next = new Map(trails);
+    const list = (next.get(sensor.key) ?? []).filter((p) => p.tMs >= tMs - trailMinutes * 60_000 && p.tMs < tMs);
+    list.push({ tMs, gustMps: sensor.currentGustMps, meanMps: sensor.mean10minMps });
+    next.set(sensor.key, list);
+    return next;
+  });
+}
+
+function handle(kind: string, data: string): void {
+  const now = Date.now();
+  if (kind === 'ping') {
+    const serverMs = Number(data);
+    live.update((s) => ({ ...s, lastEventAtMs: now, clockOffsetMs: Number.isFinite(serverMs) && serverMs > 0 ? serverMs - now : s.clockOffsetMs }));
+    return;
+  }
+  if (kind === 'hello') {
+    live.update((s) => ({ ...s, lastEventAtMs: now }));
+    return;
+  }
+  let payload: unknown;
+  try {
+    payload = JSON.parse(data);
+  } catch {
+    return;
+  }
+  switch (kind) {
+    case 'snapshot': {
+      const snap = payload as Snapshot;
+      live.update((s) => ({ ...s, snapshot: snap, lastDataAtMs: now, lastEventAtMs: now, clockOffsetMs: snap.atMs - now }));
+      for (const sensor of snap.sensors) addTrail(sensor);
+      break;
+    }
+    case 'wind': {
+      const sensor = payload as SensorState;
+      withSnapshot((s) => ({ ...s, sensors: s.sensors.some((x) => x.key === sensor.key) ? s.sensors.map((x) => (x.key === sensor.key ? sensor : x)) : [...s.sensors, sensor] }));
+      addTrail(sensor);
+      break;
+    }
+    case 'structure': {
+      const p = payload as StructureState | { structures: StructureState[] };
+      upsertStructures('structures' in p ? p.structures : [p]);
+      break;
+    }
+    case 'alert': {
+      const alert = payload as OpenAlert & { resignal?: boolean };
+      upsertAlert(alert);
+      for (const l of alertListeners) l(alert);
+      break;
+    }
+    case 'alert-update': {
+      upsertAlert(payload as OpenAlert);
+      break;
+    }
+    default:
+      live.update((s) => ({ ...s, lastEventAtMs: now }));
+  }
+}
+
+const kinds = ['hello', 'snapshot', 'wind', 'structure', 'alert', 'alert-update', 'ping', 'sensor', 'health'];
+
+function connect(): void {
+  if (!running) return;
+  source?.close();
+  const es = new EventSource('/api/stream');
+  source = es;
+  live.update((s) => ({ ...s, connection: s.snapshot ? 'reconnecting' : 'connecting' }));
+  es.onopen = () => {
+    live.update((s) => ({ ...s, connection: 'open', lastEventAtMs: Date.now() }));
+  };
+  es.onerror = () => {
+    if (source !== es) return;
+    live.update((s) => ({ ...s, connection: navigator.onLine === false ? 'offline' : 'reconnecting' }));
+    // CLOSED means the browser gave up (an HTTP error such as 401): retry ourselves, checking the
+    // session first so a signed-out phone goes to the sign-in screen instead of looping.
+    if (es.readyState === EventSource.CLOSED) scheduleRetry();
+  };
+  for (const kind of kinds) es.addEventListener(kind, (e) => handle(kind, (e as MessageEvent<string>).data));
+}
+
+function scheduleRetry(): void {
+  if (retryTimer !== null || !running) return;
+  retryTimer = setTimeout(() => {
+    retryTimer = null;
+    // 401 here tells the app the session is gone (api.ts); anything else: try the stream again.
+    api('/api/live')
+      .then(() => connect())
+      .catch(() => scheduleRetry());
+  }, 3_000);
+}
+
+/**
+ * Takes a fresh snapshot (GET /api/live). The stream announces changes of state, not changes of
+ * the register: a structure or sensor added, edited or retired reaches an open board through
+ * this — after the change on the phone that made it, on opening the board, and once a minute.
+ */
+export async function refreshSnapshot(): Promise<void> {
+  try {
+    const snap = await api<Snapshot>('/api/live');
+    const now = Date.now();
+    live.update((s) => ({ ...s, snapshot: snap, lastDataAtMs: s.connection === 'open' ? now : s.lastDataAtMs, clockOffsetMs: snap.atMs - now }));
+  } catch {
+    // The stream's own snapshot stands; a failed refresh changes nothing on screen.
+  }
+}
+
+/** How often the register is re-read while the stream runs (see refreshSnapshot). */
+const snapshotRefreshMs = 60_000;
+let refreshTimer: ReturnType<typeof setInterval> | null = null;
+
+/** Starts following the site (after sign-in). Seeds the trend lines from the last 30 minutes. */
+export function startLive(): void {
+  if (running) return;
+  running = true;
+  connect();
+  watchdog = setInterval(() => {
+    const s = live.get();
+    if (s.connection === 'open' && s.lastEventAtMs !== null && Date.now() - s.lastEventAtMs > deadAfterMs) {
+      live.update((x) => ({ ...x, connection: 'reconnecting' }));
+      connect();
+    }
+  }, 5_000);
+  refreshTimer = setInterval(() => {
+    if (live.get().connection === 'open') void refreshSnapshot();
+  }, snapshotRefreshMs);
+  void seedTrail();
+}
+
+export function stopLive(): void {
+  running = false;
+  source?.close();
+  source = null;
+  if (watchdog) clearInterval(watchdog);
+  if (refreshTimer) clearInterval(refreshTimer);
+  refreshTimer = null;
+  if (retryTimer) clearTimeout(retryTimer);
+  watchdog = null;
+  retryTimer = null;
+  live.set({ snapshot: null, connection: 'connecting', lastEventAtMs: null, lastDataAtMs: null, clockOffsetMs: 0 });
+  windTrail.set(new Map());
+}
+
+async function seedTrail(): Promise<void> {
+  try {
+    const to = Date.now();
+    const log = await api<WindLog>(`/api/log/wind?from=${to - trailMinutes * 60_000}&to=${to + 60_000}&points=120`);
+    windTrail.update((trails) => {
+      const next = new Map(trails);
+      for (const s of log.sensors) {
+        const seeded: TrailPoint[] = s.series.tMs.map((t, i) => ({ tMs: t, gustMps: s.series.gustMps[i] ?? null, meanMps: s.series.meanMps[i] ?? null }));
+        const newer = (next.get(s.key) ?? []).filter((p) => p.tMs > (seeded.at(-1)?.tMs ?? 0));
+        next.set(s.key, [...seeded, ...newer]);
+      }
+      return next;
+    });
+  } catch {
+    // The trend line is a nicety: without history it starts from the live readings.
+  }
+}
+
+// The phone knows before the stream does: drop the dead connection at once and say so, and
+// reconnect as soon as the network is back.
+window.addEventListener('offline', () => {
+  if (!running) return;
+  source?.close();
+  source = null;
+  live.update((s) => ({ ...s, connection: 'offline' }));
+});
+window.addEventListener('online', () => {
+  if (running && live.get().connection !== 'open') connect();
+});

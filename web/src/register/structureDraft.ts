@@ -1,0 +1,260 @@
+/**
+ * The register form's state as typed (strings, so half-typed numbers survive) and its conversion
+ * to the API's structure input. Speeds are typed in the person's unit and sent in m/s; a speed
+ * that was loaded and not touched is sent back exactly as stored, so opening and saving a record
+ * never shifts a rated gust by a rounding error.
+ */
+import type { LevelDefinition, StructureKind, StructureView } from '../types.ts';
+import { mpsToSpeed, speedToMps, type SpeedUnit } from '../units.ts';
+import { commonFields, kindFields, type FieldDef } from './kindFields.ts';
+
+export interface FaceRow {
+  label: string;
+  areaM2: string;
+  centroidHeightM: string;
+  cfFront: string;
+  cfBack: string;
+}
+export interface MassRow {
+  label: string;
+  massKg: string;
+  xM: string;
+}
+export interface LevelRowDraft {
+  label: string;
+  kind: 'utilization' | 'gust';
+  /** Percent of capacity, or a gust in the person's unit. */
+  value: string;
+  actionText: string;
+}
+
+export interface Draft {
+  kind: StructureKind;
+  name: string;
+  values: Record<string, string>;
+  faces: FaceRow[];
+  masses: MassRow[];
+  upliftOn: boolean;
+  uplift: { planAreaM2: string; liftCoefficient: string };
+  orientationDeg: string;
+  location: string;
+  latDeg: string;
+  lonDeg: string;
+  mobile: boolean;
+  /** Empty: every sensor on the site governs (the highest wins). */
+  sensorKeys: string[];
+  ownLevels: boolean;
+  levels: LevelRowDraft[];
+  /** Speeds as loaded: path → [text shown, exact m/s]. */
+  loadedSpeeds: Record<string, [string, number]>;
+}
+
+export function fieldsOf(kind: StructureKind): FieldDef[] {
+  return [...kindFields[kind], ...commonFields];
+}
+
+/** A number typed by a person: a decimal comma is accepted; empty is undefined; junk is NaN. */
+export function typedNumber(text: string): number | undefined {
+  const t = text.trim().replace(',', '.');
+  if (t === '') return undefined;
+  return /^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i.test(t) ? Number(t) : Number.NaN;
+}
+
+const roundSpeed = (v: number): string => String(Math.round(v * 100) / 100);
+
+export function levelsToDraft(levels: readonly LevelDefinition[], unit: SpeedUnit): LevelRowDraft[] {
+  return levels.map((l) => ({
+    label: l.label,
+    kind: l.trigger.kind,
+    value: l.trigger.kind === 'utilization' ? String(Math.round(l.trigger.fraction * 1000) / 10) : roundSpeed(mpsToSpeed(l.trigger.gustMps, unit)),
+    actionText: l.actionText,
+  }));
+}
+
+export function newDraft(kind: StructureKind, siteLevels: readonly LevelDefinition[], unit: SpeedUnit): Draft {
+  const values: Record<string, string> = {};
+  for (const f of fieldsOf(kind)) if (f.initial !== undefined) values[f.path] = f.initial;
+  return {
+    kind,
+    name: '',
+    values,
+    faces: [{ label: 'board', areaM2: '6', centroidHeightM: '2', cfFront: '1.8', cfBack: '1.8' }],
+    masses: [{ label: 'ballast', massKg: '1000', xM: '0.75' }],
+    upliftOn: false,
+    uplift: { planAreaM2: '', liftCoefficient: '' },
+    orientationDeg: '0',
+    location: '',
+    latDeg: '',
+    lonDeg: '',
+    mobile: false,
+    sensorKeys: [],
+    ownLevels: false,
+    levels: levelsToDraft(siteLevels, unit),
+    loadedSpeeds: {},
+  };
+}
+
+/** A new draft of another kind keeping what carries over (name, placement, levels, shared fields). */
+export function switchKind(d: Draft, kind: StructureKind, siteLevels: readonly LevelDefinition[], unit: SpeedUnit): Draft {
+  const fresh = newDraft(kind, siteLevels, unit);
+  const kept: Record<string, string> = { ...fresh.values };
+  for (const f of commonFields) if (d.values[f.path] !== undefined) kept[f.path] = d.values[f.path]!;
+  return { ...d, kind, values: kept };
+}
+
+function getPath(obj: unknown, path: string): unknown {
+  return path.split('.').reduce<unknown>((o, k) => (o !== null && typeof o === 'object' ? (o as Record<string, unknown>)[k] : undefined), obj);
+}
+
+function setPath(obj: Record<string, unknown>, path: string, value: unknown): void {
+  const keys = path.split('.');
+  let o = obj;
+  for (const k of keys.slice(0, -1)) {
+    if (typeof o[k] !== 'object' || o[k] === null) o[k] = {};
+    o = o[k] as Record<string, unknown>;
+  }
+  o[keys.at(-1)!] = value;
+}
+
+export function draftFromView(view: StructureView, siteLevels: readonly LevelDefinition[], unit: SpeedUnit): Draft {
+  const record = view.record as unknown as Record<string, unknown>;
+  const d = newDraft(view.record.kind, siteLevels, unit);
+  d.name = view.record.name;
+  d.values = {};
+  for (const f of fieldsOf(d.kind)) {
+    const v = getPath(record, f.path);
+    if (v === undefined || v === null) continue;
+    if (f.kind === 'speed' && typeof v === 'number') {
+      const text = roundSpeed(mpsToSpeed(v, unit));
+      d.values[f.path] = text;
+      d.loadedSpeeds[f.path] = [text, v];
+    } else d.values[f.path] = String(v);
+  }
+  if (view.record.kind === 'custom') {
+    const r = view.record;
+    d.faces = r.faces.map((f) => ({ label: f.label ?? '', areaM2: String(f.areaM2), centroidHeightM: String(f.centroidHeightM), cfFront: String(f.cfFront), cfBack: String(f.cfBack) }));
+    d.masses = r.masses.map((m) => ({ label: m.label ?? '', massKg: String(m.massKg), xM: String(m.xM) }));
+    d.upliftOn = r.uplift !== undefined;
+    d.uplift = r.uplift ? { planAreaM2: String(r.uplift.planAreaM2), liftCoefficient: String(r.uplift.liftCoefficient) } : d.uplift;
+  }
+  d.orientationDeg = String(view.orientationDeg);
+  d.location = view.location;
+  d.latDeg = view.latDeg === null ? '' : String(view.latDeg);
+  d.lonDeg = view.lonDeg === null ? '' : String(view.lonDeg);
+  d.mobile = view.mobile;
+  d.sensorKeys = view.sensorKeys ?? [];
+  d.ownLevels = view.levels !== null;
+  d.levels = levelsToDraft(view.levels ?? siteLevels, unit);
+  return d;
+}
+
+/** Problems found before asking the server (a field that is not a number), keyed like the server's. */
+export type LocalIssues = Map<string, string>;
+
+function numberOrText(text: string, path: string, issues: LocalIssues, int = false): number | string | undefined {
+  const n = typedNumber(text);
+  if (n === undefined) return undefined;
+  if (Number.isNaN(n)) {
+    issues.set(path, 'must be a number');
+    return text;
+  }
+  if (int && !Number.isInteger(n)) issues.set(path, 'must be a whole number');
+  return n;
+}
+
+/** The engine record the draft describes (invalid values are passed on for the server to name). */
+export function draftRecord(d: Draft, unit: SpeedUnit, issues: LocalIssues = new Map()): Record<string, unknown> {
+  const record: Record<string, unknown> = { kind: d.kind, name: d.name.trim() };
+  for (const f of fieldsOf(d.kind)) {
+    const text = d.values[f.path] ?? '';
+    if (text.trim() === '') continue;
+    let value: unknown;
+    switch (f.kind) {
+      case 'bool':
+        value = text === 'true';
+        break;
+      case 'text':
+      case 'select':
+        value = text.trim();
+        break;
+      case 'speed': {
+        const loaded = d.loadedSpeeds[f.path];
+        if (loaded && loaded[0] === text) value = loaded[1];
+        else {
+          const n = numberOrText(text, f.path, issues);
+          value = typeof n === 'number' ? speedToMps(n, unit) : n;
+        }
+        break;
+      }
+      default:
+        value = numberOrText(text, f.path, issues, f.kind === 'int');
+    }
+    if (value !== undefined) setPath(record, f.path, value);
+  }
+  if (d.kind === 'custom') {
+    record.faces = d.faces.map((f, i) => {
+      const face: Record<string, unknown> = {};
+      if (f.label.trim()) face.label = f.label.trim();
+      for (const k of ['areaM2', 'centroidHeightM', 'cfFront', 'cfBack'] as const) face[k] = numberOrText(f[k], `faces.${i}.${k}`, issues);
+      return face;
+    });
+    record.masses = d.masses.map((m, i) => {
+      const mass: Record<string, unknown> = {};
+      if (m.label.trim()) mass.label = m.label.trim();
+      for (const k of ['massKg', 'xM'] as const) mass[k] = numberOrText(m[k], `masses.${i}.${k}`, issues);
+      return mass;
+    });
+    if (d.upliftOn) {
+      record.uplift = {
+        planAreaM2: numberOrText(d.uplift.planAreaM2, 'uplift.planAreaM2', issues),
+        liftCoefficient: numberOrText(d.uplift.liftCoefficient, 'uplift.liftCoefficient', issues),
+      };
+    }
+  }
+  return record;
+}
+
+export function draftLevels(levels: readonly LevelRowDraft[], unit: SpeedUnit, issues: LocalIssues = new Map()): unknown[] {
+  return levels.map((l, i) => {
+    const n = typedNumber(l.value);
+    if (n === undefined || Number.isNaN(n)) issues.set(`levels.${i}.trigger`, n === undefined ? 'is required' : 'must be a number');
+    const trigger =
+      l.kind === 'utilization'
+        ? { kind: 'utilization', fraction: n === undefined || Number.isNaN(n) ? l.value : n / 100 }
+        : { kind: 'gust', gustMps: n === undefined || Number.isNaN(n) ? l.value : speedToMps(n, unit) };
+    return { label: l.label.trim(), trigger, actionText: l.actionText.trim() };
+  });
+}
+
+function optionalNumber(text: string, path: string, issues: LocalIssues): number | null {
+  const n = typedNumber(text);
+  if (n === undefined) return null;
+  if (Number.isNaN(n)) {
+    issues.set(path, 'must be a number');
+    return null;
+  }
+  return n;
+}
+
+/** The body of POST /api/structures (and PATCH): record, placement, sensors and levels. */
+export function draftInput(d: Draft, unit: SpeedUnit, issues: LocalIssues = new Map()): Record<string, unknown> {
+  const orientation = typedNumber(d.orientationDeg);
+  if (orientation !== undefined && Number.isNaN(orientation)) issues.set('orientationDeg', 'must be a number');
+  return {
+    record: draftRecord(d, unit, issues),
+    orientationDeg: orientation === undefined || Number.isNaN(orientation) ? 0 : orientation,
+    location: d.location.trim(),
+    latDeg: optionalNumber(d.latDeg, 'latDeg', issues),
+    lonDeg: optionalNumber(d.lonDeg, 'lonDeg', issues),
+    mobile: d.mobile,
+    sensorKeys: d.sensorKeys.length > 0 ? d.sensorKeys : null,
+    levels: d.ownLevels ? draftLevels(d.levels, unit, issues) : null,
+  };
+}
+
+/** A zod message made readable for a form ("Invalid input: expected number, received undefined" → "is required"). */
+export function plainMessage(message: string): string {
+  if (/received undefined/.test(message)) return 'is required';
+  if (/expected number, received (string|NaN)/.test(message)) return 'must be a number';
+  return message.replace(/^Invalid input: /, '');
+}

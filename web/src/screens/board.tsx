@@ -1,0 +1,336 @@
+/**
+ * The live board, phone first: open alerts with their actions on top, then the site's wind now,
+ * then every structure worst first with its level, margin, limit gust and its own current gust.
+ *
+ * Staleness rules (missing data is unknown, never calm):
+ * - a structure the server marks `noData` shows "No data — wind unknown" on grey hatching;
+ * - a sensor that is silent or implausible says so in words, and its numbers are struck through;
+ * - when the live connection is down, the whole board is marked stale with the age of its data,
+ *   and every number keeps the age beside it.
+ */
+import { useEffect, useMemo, useState } from 'preact/hooks';
+import { api, errorText } from '../api.ts';
+import { armSound, screenKeptOn, soundArmed } from '../alarm.ts';
+import { Caution } from '../components/caution.tsx';
+import { useNow } from '../components/clock.ts';
+import { LevelBadge, levelTone } from '../components/levelBadge.tsx';
+import { Sparkline } from '../components/sparkline.tsx';
+import { SpeedValue } from '../components/speedValue.tsx';
+import { WindArrow } from '../components/windArrow.tsx';
+import { live, refreshSnapshot, serverNow, trailMinutes, windTrail } from '../live.ts';
+import { prefs, setPref } from '../prefs.ts';
+import { href } from '../router.ts';
+import { may, session } from '../session.ts';
+import { useTimeZone } from '../site.ts';
+import { useStore } from '../store.ts';
+import type { OpenAlert, SensorState, StructureState } from '../types.ts';
+import { beaufortText, clockTime, compassPoint, duration, percent, speed, speedNumber, speedUnitLabels } from '../units.ts';
+
+/** A reading older than this is flagged on the board even before the server calls the sensor silent (the default silence timeout). */
+const staleReadingMs = 30_000;
+
+export function Board() {
+  const state = useStore(live);
+  const snap = state.snapshot;
+  const connected = state.connection === 'open';
+  useNow();
+  useEffect(() => {
+    if (state.snapshot) void refreshSnapshot();
+    // On opening the board only: the stream keeps it current from there.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, []);
+  const dataAgeMs = state.lastDataAtMs === null ? null : Date.now() - state.lastDataAtMs;
+
+  return (
+    <main id="main" class={`board${connected ? '' : ' is-stale'}`}>
+      <h1 class="visually-hidden">Live board</h1>
+      {!connected ? (
+        <div class="stale-banner" role="alert">
+          <strong>{state.connection === 'offline' ? 'No network.' : state.snapshot ? 'Connection lost — reconnecting…' : 'Connecting to the site…'}</strong>{' '}
+          {dataAgeMs !== null ? `What you see is ${duration(dataAgeMs)} old and may not be true now. ` : 'No live data yet. '}
+          Treat the wind as unknown until this goes away.
+        </div>
+      ) : null}
+      <AlarmControls />
+      {snap ? (
+        <>
+          <Alerts alerts={snap.alerts} />
+          <SiteWind sensors={snap.sensors} />
+          <section aria-labelledby="structures-h">
+            <h2 id="structures-h" class="section-h">
+              Structures <span class="muted small">worst first</span>
+            </h2>
+            {snap.structures.length === 0 ? <p class="empty">No structures registered yet.</p> : null}
+            <ul class="cards">
+              {snap.structures.map((s) => (
+                <li key={s.id}>
+                  <StructureCard s={s} sensors={snap.sensors} />
+                </li>
+              ))}
+            </ul>
+          </section>
+        </>
+      ) : (
+        <p class="unknown-box">Waiting for the first live data. Until it arrives the wind on site is unknown.</p>
+      )}
+      <Caution />
+    </main>
+  );
+}
+
+function AlarmControls() {
+  const p = useStore(prefs);
+  const armed = useStore(soundArmed);
+  const awake = useStore(screenKeptOn);
+  const toggle = async () => {
+    if (p.alarmSound) setPref('alarmSound', false);
+    else {
+      setPref('alarmSound', true);
+      await armSound();
+    }
+  };
+  return (
+    <div class="alarm-row">
+      <button type="button" class={`toggle${p.alarmSound ? ' on' : ''}`} aria-pressed={p.alarmSound} onClick={toggle}>
+        {p.alarmSound ? 'Alarm sound on' : 'Alarm sound off'}
+      </button>
+      {p.alarmSound && !armed ? (
+        <button type="button" class="warn-btn" onClick={() => void armSound()}>
+          Tap to allow sound
+        </button>
+      ) : null}
+      <span class="muted small">{awake === true ? 'Screen kept on' : awake === false ? 'Screen may sleep' : ''}</span>
+    </div>
+  );
+}
+
+function Alerts({ alerts }: { alerts: OpenAlert[] }) {
+  if (alerts.length === 0) return null;
+  const open = alerts.filter((a) => a.acknowledgedAtMs === null);
+  return (
+    <section aria-labelledby="alerts-h" class="alerts">
+      <h2 id="alerts-h" class="section-h">
+        Alerts <span class="count">{open.length > 0 ? `${open.length} to acknowledge` : 'all acknowledged'}</span>
+      </h2>
+      <ul class="cards">
+        {alerts.map((a) => (
+          <li key={a.id}>
+            <AlertCard a={a} />
+          </li>
+        ))}
+      </ul>
+    </section>
+  );
+}
+
+function alertTone(a: OpenAlert): string {
+  if (a.kind === 'level') return `tone-${levelTone(a.level, Math.max(a.level ?? 0, 3))}`;
+  return 'tone-nodata';
+}
+
+export function AlertCard({ a }: { a: OpenAlert }) {
+  const s = useStore(session);
+  const unit = useStore(prefs).unit;
+  const tz = useTimeZone();
+  const [open, setOpen] = useState(false);
+  const [note, setNote] = useState('');
+  const [busy, setBusy] = useState(false);
+  const [error, setError] = useState<string | null>(null);
+  const acked = a.acknowledgedAtMs !== null;
+  const canAck = may(s, 'crew') && !acked;
+
+  const acknowledge = async () => {
+    setBusy(true);
+    setError(null);
+    try {
+      const answer = await api<{ alert: { acknowledgedAtMs: number; acknowledgedBy: string; acknowledgeNote: string | null } }>(`/api/alerts/${a.id}/acknowledge`, { body: note.trim() ? { note: note.trim() } : {} });
+      live.update((st) =>
+        st.snapshot
+          ? {
+              ...st,
+              snapshot: {
+                ...st.snapshot,
+                alerts: st.snapshot.alerts
+                  .map((x) => (x.id === a.id ? { ...x, acknowledgedAtMs: answer.alert.acknowledgedAtMs, acknowledgedBy: answer.alert.acknowledgedBy, acknowledgeNote: answer.alert.acknowledgeNote } : x))
+                  .filter((x) => x.acknowledgedAtMs === null || x.clearedAtMs === null),
+              },
+            }
+          : st,
+      );
+      setOpen(false);
+    } catch (err) {
+      setError(errorText(err));
+    } finally {
+      setBusy(false);
+    }
+  };
+
+  return (
+    <article class={`alert-card ${alertTone(a)}${acked ? ' acked' : ''}`} aria-label={`${a.label}: ${a.subject}`}>
+      <header>
+        <span class="alert-label">{a.kind === 'level' ? `Level ${a.level} · ${a.label}` : a.label}</span>
+        <span class="alert-subject">{a.subject}</span>
+      </header>
+      <p class="alert-action">{a.actionText}</p>
+      <p class="alert-meta">
+        Raised {clockTime(a.raisedAtMs, tz)}
+        {a.gustMps !== null ? ` at a gust of ${speed(a.gustMps, unit)}` : ''}
+        {a.clearedAtMs !== null ? ` · condition ended ${clockTime(a.clearedAtMs, tz)}` : acked ? ' · still in force' : ''}
+      </p>
+      {acked ? (
+        <p class="ack-done">
+          ✓ Acknowledged by {a.acknowledgedBy} at {clockTime(a.acknowledgedAtMs!, tz)}
+          {a.acknowledgeNote ? `: “${a.acknowledgeNote}”` : ''}
+        </p>
+      ) : canAck ? (
+        open ? (
+          <div class="ack-form">
+            <label for={`note-${a.id}`}>Note (optional): what you did or saw</label>
+            <textarea id={`note-${a.id}`} rows={2} maxLength={2000} value={note} onInput={(e) => setNote(e.currentTarget.value)} />
+            <div class="row">
+              <button type="button" class="primary" disabled={busy} onClick={() => void acknowledge()}>
+                {busy ? 'Sending…' : 'Confirm acknowledgement'}
+              </button>
+              <button type="button" onClick={() => setOpen(false)}>
+                Cancel
+              </button>
+            </div>
+          </div>
+        ) : (
+          <button type="button" class="primary ack-btn" onClick={() => setOpen(true)}>
+            Acknowledge
+          </button>
+        )
+      ) : (
+        <p class="muted">Not yet acknowledged. Crew and above can acknowledge.</p>
+      )}
+      {error ? (
+        <p class="error-box" role="alert">
+          {error}
+        </p>
+      ) : null}
+    </article>
+  );
+}
+
+function sensorTrouble(s: SensorState, nowMs: number): string | null {
+  if (s.lastReceivedAtMs === null) return 'no reading yet';
+  if (s.silent) return `silent for ${duration(nowMs - s.lastReceivedAtMs)}`;
+  if (s.implausible.length > 0) return `implausible: ${s.implausible.join(', ')}`;
+  if (nowMs - s.lastReceivedAtMs > staleReadingMs) return `no reading for ${duration(nowMs - s.lastReceivedAtMs)}`;
+  return null;
+}
+
+function SiteWind({ sensors }: { sensors: SensorState[] }) {
+  const unit = useStore(prefs).unit;
+  const trails = useStore(windTrail);
+  const nowMs = serverNow();
+  // The site's wind is the strongest sensor that is reporting well: the one the structures feel.
+  const healthy = sensors.filter((s) => sensorTrouble(s, nowMs) === null && s.currentGustMps !== null);
+  const lead = healthy.length > 0 ? healthy.reduce((a, b) => ((b.currentGustMps ?? 0) > (a.currentGustMps ?? 0) ? b : a)) : null;
+  const points = useMemo(() => (lead ? (trails.get(lead.key) ?? []).map((p) => ({ tMs: p.tMs, value: p.gustMps })) : []), [lead?.key, trails]);
+
+  return (
+    <section aria-labelledby="wind-h" class="wind-panel">
+      <h2 id="wind-h" class="section-h">
+        Wind now
+      </h2>
+      {lead ? (
+        <div class="wind-now">
+          <div class="wind-figures">
+            <div class="big-figure">
+              <span class="fig-label">Gust</span>
+              <span class="fig-value">{speedNumber(lead.currentGustMps, unit)}</span>
+              <span class="fig-unit">{speedUnitLabels[unit]}</span>
+            </div>
+            <div class="mid-figure">
+              <span class="fig-label">Mean (10 min)</span>
+              <span class="fig-value">{speedNumber(lead.mean10minMps, unit)}</span>
+              <span class="fig-unit">{speedUnitLabels[unit]}</span>
+            </div>
+            <div class="dir-figure">
+              <WindArrow fromDeg={lead.meanDirDeg} />
+              <span>
+                from <strong>{compassPoint(lead.meanDirDeg) ?? 'unknown'}</strong>
+                {lead.meanDirDeg !== null ? ` ${Math.round(lead.meanDirDeg)}°` : ''}
+              </span>
+            </div>
+          </div>
+          <p class="wind-sub">
+            <strong>{beaufortText(lead.mean10minMps) ?? 'Beaufort unknown'}</strong> · highest gust in 10 min {speed(lead.peakGust10minMps, unit)} · at {lead.name} ({lead.heightM} m) ·{' '}
+            <span class="age">last reading {duration(nowMs - (lead.lastReceivedAtMs ?? nowMs))} ago</span>
+          </p>
+          <Sparkline points={points} fromMs={nowMs - trailMinutes * 60_000} toMs={nowMs} label={`gust at ${lead.name}, last ${trailMinutes} minutes`} />
+          <p class="muted small spark-caption">Gust at {lead.name}, last {trailMinutes} min</p>
+        </div>
+      ) : (
+        <p class="unknown-box">Wind unknown: no sensor is reporting good readings. Watch the wind by hand and follow the wind management plan.</p>
+      )}
+      {sensors.length > 0 ? (
+        <ul class="sensor-strip">
+          {sensors.map((s) => {
+            const trouble = sensorTrouble(s, nowMs);
+            return (
+              <li class={trouble ? 'sensor-bad' : ''} key={s.key}>
+                <span class="s-name">{s.name}</span>
+                <span class={`s-vals${trouble ? ' struck' : ''}`}>
+                  gust {speed(s.currentGustMps, unit)} · mean {speed(s.mean10minMps, unit)}
+                </span>
+                <span class="s-age">{trouble ? <strong class="bad-text">⚠ {trouble}</strong> : `last reading ${duration(nowMs - (s.lastReceivedAtMs ?? nowMs))} ago`}</span>
+              </li>
+            );
+          })}
+        </ul>
+      ) : (
+        <p class="unknown-box">No sensors registered: the wind on site is unknown.</p>
+      )}
+    </section>
+  );
+}
+
+export function StructureCard({ s, sensors }: { s: StructureState; sensors: SensorState[] }) {
+  const unit = useStore(prefs).unit;
+  const nowMs = serverNow();
+  const governing = s.governingSensorKey ? sensors.find((x) => x.key === s.governingSensorKey) : undefined;
+  const lastAt = governing?.lastReceivedAtMs ?? s.evaluatedAtMs;
+  const ageMs = lastAt === null ? null : nowMs - lastAt;
+  const stale = !s.noData && ageMs !== null && ageMs > staleReadingMs;
+  const tone = levelTone(s.level, s.levels.length, s.noData);
+  return (
+    <a class={`structure-card tone-${tone}${stale ? ' stale' : ''}`} href={href(`/structure/${s.id}`)}>
+      <div class="sc-head">
+        <span class="sc-name">{s.name}</span>
+        <LevelBadge level={s.level} label={s.levelLabel} count={s.levels.length} noData={s.noData} />
+      </div>
+      {s.error ? <p class="bad-text">This structure's stored record cannot be assessed: {s.error}</p> : null}
+      <dl class="sc-figures">
+        <div>
+          <dt>Margin</dt>
+          <dd class="sc-margin">{s.noData ? 'unknown' : s.unbounded ? 'none left' : percent(s.margin)}</dd>
+        </div>
+        <div>
+          <dt>Gust here</dt>
+          <dd>{s.noData ? 'unknown' : <SpeedValue mps={s.gustMps} unit={unit} />}</dd>
+        </div>
+        <div>
+          <dt>Limit gust</dt>
+          <dd>
+            <SpeedValue mps={s.limitGustMps} unit={unit} />
+          </dd>
+        </div>
+      </dl>
+      <p class="sc-foot">
+        {s.noData ? (
+          <strong class="bad-text">No live reading reaches it: treat the wind as unknown.</strong>
+        ) : ageMs === null ? (
+          'no reading yet'
+        ) : (
+          <span class={stale ? 'bad-text' : ''}>
+            last reading {duration(ageMs)} ago{governing ? ` · ${governing.name}` : ''}
+          </span>
+        )}
+        {s.level > 0 ? ` · at level ${s.level} since ${duration(nowMs - s.levelSinceMs)}` : ''} · at {s.referenceHeightM.toFixed(1)} m
+      </p>
+    </a>
+  );
+}

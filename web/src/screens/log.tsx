@@ -1,0 +1,377 @@
+/**
+ * The log of a day (in the site's time zone) or of the last hours: wind per sensor, utilization
+ * per structure, level changes and alerts with their acknowledgements on one timeline, a wind
+ * rose, the day's summary, CSV exports, and a printable day report (A4).
+ */
+import { useEffect, useMemo, useState } from 'preact/hooks';
+import type { JSX } from 'preact';
+import type uPlot from 'uplot';
+import { api, errorText } from '../api.ts';
+import { LevelShape, levelTone } from '../components/levelBadge.tsx';
+import { TimeChart } from '../components/timeChart.tsx';
+import { WindRose } from '../components/windRose.tsx';
+import { live } from '../live.ts';
+import { prefs } from '../prefs.ts';
+import { href } from '../router.ts';
+import { useTimeZone } from '../site.ts';
+import { useStore } from '../store.ts';
+import type { AlertRow, DaySummary, LevelChangeRow, StructureLog, WindLog } from '../types.ts';
+import { clockTime, dateTime, dayOf, duration, hourMinute, longDate, mpsToSpeed, percent, speed, speedUnitLabels } from '../units.ts';
+
+const exportTables = [
+  ['readings', 'Raw readings'],
+  ['wind-minutes', 'Wind per minute'],
+  ['structure-minutes', 'Structures per minute'],
+  ['level-changes', 'Level changes'],
+  ['alerts', 'Alerts and acknowledgements'],
+  ['audit', 'Changes to the register (audit)'],
+] as const;
+
+const lastHours = [6, 12, 24, 48];
+
+/** Union of the x values of several series, each series re-indexed onto it (null where missing). */
+export function alignSeries(xs: number[][], ys: Array<Array<number | null>>): uPlot.AlignedData {
+  const all = [...new Set(xs.flat())].sort((a, b) => a - b);
+  const index = new Map(all.map((x, i) => [x, i]));
+  const out: Array<Array<number | null>> = ys.map(() => new Array<number | null>(all.length).fill(null));
+  ys.forEach((y, s) => xs[s]!.forEach((x, i) => (out[s]![index.get(x)!] = y[i] ?? null)));
+  return [all, ...out] as uPlot.AlignedData;
+}
+
+interface LogData {
+  wind: WindLog;
+  summary: DaySummary;
+  levels: LevelChangeRow[];
+  alerts: AlertRow[];
+  structures: StructureLog[];
+}
+
+export function LogScreen() {
+  const tz = useTimeZone();
+  const unit = useStore(prefs).unit;
+  const snap = useStore(live).snapshot;
+  const today = dayOf(Date.now(), tz);
+  const [mode, setMode] = useState<'day' | 'hours'>('day');
+  const [day, setDay] = useState(today);
+  const [hours, setHours] = useState(24);
+  const [data, setData] = useState<LogData | null>(null);
+  const [error, setError] = useState<string | null>(null);
+  const [loading, setLoading] = useState(false);
+  /** Whether the opening day is settled: yesterday when today is quiet so far (nothing raised). */
+  const [decided, setDecided] = useState(false);
+  const [dayNote, setDayNote] = useState<string | null>(null);
+
+  useEffect(() => {
+    api<DaySummary>(`/api/log/summary?day=${today}`)
+      .then((t) => {
+        const quiet = t.alertCount === 0 && t.structures.every((s) => s.highestLevel === 0);
+        if (quiet) {
+          setDay(shiftDay(today, -1));
+          setDayNote('Today has been quiet so far (no level reached, no alert): showing yesterday.');
+        }
+      })
+      .catch(() => undefined)
+      .finally(() => setDecided(true));
+    // Only on opening the screen.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, []);
+
+  const query = useMemo(() => {
+    if (mode === 'day') return `day=${day}`;
+    const to = Date.now();
+    return `from=${to - hours * 3_600_000}&to=${to}`;
+  }, [mode, day, hours]);
+
+  useEffect(() => {
+    if (!decided) return;
+    let stop = false;
+    setLoading(true);
+    setError(null);
+    (async () => {
+      const [wind, summary, levels, alerts] = await Promise.all([
+        api<WindLog>(`/api/log/wind?${query}&points=720`),
+        api<DaySummary>(`/api/log/summary?${query}`),
+        api<{ levelChanges: LevelChangeRow[] }>(`/api/log/levels?${query}`),
+        api<{ alerts: AlertRow[] }>(`/api/log/alerts?${query}`),
+      ]);
+      const structures = await Promise.all(summary.structures.map((s) => api<StructureLog>(`/api/log/structures/${s.id}?${query}&points=720`).catch(() => null)));
+      if (!stop) setData({ wind, summary, levels: levels.levelChanges, alerts: alerts.alerts, structures: structures.filter((s): s is StructureLog => s !== null) });
+    })()
+      .catch((err) => {
+        if (!stop) setError(errorText(err));
+      })
+      .finally(() => {
+        if (!stop) setLoading(false);
+      });
+    return () => {
+      stop = true;
+    };
+  }, [query, decided]);
+
+  const title = mode === 'day' ? `Day report ${longDate(Date.parse(`${day}T12:00:00Z`), 'UTC')}` : `Last ${hours} hours`;
+  const csvQuery = query;
+
+  return (
+    <main id="main" class="log-page">
+      <h1>Log</h1>
+      <div class="log-controls no-print">
+        <div class="seg" role="group" aria-label="Period">
+          <button type="button" class={mode === 'day' ? 'on' : ''} aria-pressed={mode === 'day'} onClick={() => setMode('day')}>
+            A day
+          </button>
+          <button type="button" class={mode === 'hours' ? 'on' : ''} aria-pressed={mode === 'hours'} onClick={() => setMode('hours')}>
+            Last hours
+          </button>
+        </div>
+        {mode === 'day' ? (
+          <div class="field inline">
+            <label for="log-day">Day ({tz})</label>
+            <input
+              id="log-day"
+              type="date"
+              value={day}
+              max={today}
+              onChange={(e) => {
+                if (e.currentTarget.value) setDay(e.currentTarget.value);
+                setDayNote(null);
+              }}
+            />
+            <button type="button" onClick={() => (setDay(shiftDay(day, -1)), setDayNote(null))}>
+              Day before
+            </button>
+            <button type="button" disabled={day >= today} onClick={() => (setDay(shiftDay(day, 1)), setDayNote(null))}>
+              Day after
+            </button>
+          </div>
+        ) : (
+          <div class="seg" role="group" aria-label="Hours">
+            {lastHours.map((h) => (
+              <button type="button" class={h === hours ? 'on' : ''} aria-pressed={h === hours} onClick={() => setHours(h)}>
+                {h} h
+              </button>
+            ))}
+          </div>
+        )}
+        <button type="button" onClick={() => print()}>
+          Print day report
+        </button>
+      </div>
+      <h2 class="print-title">
+        {snap?.site.name ?? 'Site'} — {title} <span class="muted small">(times in {tz})</span>
+      </h2>
+      {dayNote && mode === 'day' ? <p class="muted no-print">{dayNote}</p> : null}
+      {error ? <p class="error-box">{error}</p> : null}
+      {loading && !data ? <p class="muted">Loading…</p> : null}
+      {data ? <LogBody data={data} unit={unit} tz={tz} /> : null}
+
+      <section class="no-print panel" aria-labelledby="csv-h">
+        <h2 id="csv-h">Export (CSV)</h2>
+        <ul class="plain-list csv-links">
+          {exportTables.map(([table, label]) => (
+            <li>
+              <a class="button" href={`/api/export/${table}.csv?${csvQuery}`} download>
+                {label}
+              </a>
+            </li>
+          ))}
+        </ul>
+      </section>
+    </main>
+  );
+}
+
+function shiftDay(day: string, by: number): string {
+  const d = new Date(`${day}T12:00:00Z`);
+  d.setUTCDate(d.getUTCDate() + by);
+  return d.toISOString().slice(0, 10);
+}
+
+function LogBody({ data, unit, tz }: { data: LogData; unit: Parameters<typeof speed>[1]; tz: string }) {
+  const u = speedUnitLabels[unit];
+  const { summary } = data;
+  const structureNames = new Map(summary.structures.map((s) => [s.id, s.name]));
+
+  const timeline = useMemo(() => {
+    type Item = { atMs: number; key: string; node: JSX.Element };
+    const items: Item[] = [];
+    for (const c of data.levels) {
+      const name = c.structureName ?? structureNames.get(c.structureId) ?? `structure ${c.structureId}`;
+      const what = c.noData ? 'no data: wind unknown, level held' : c.toLevel > c.fromLevel ? `level raised ${c.fromLevel} → ${c.toLevel}` : c.toLevel < c.fromLevel ? `level lowered ${c.fromLevel} → ${c.toLevel}` : `readings back, level ${c.toLevel}`;
+      items.push({
+        atMs: c.atMs,
+        key: `c${c.id}`,
+        node: (
+          <>
+            <span class="t-time">{clockTime(c.atMs, tz)}</span>
+            <span class="t-what">
+              <LevelShape tone={levelTone(c.toLevel, 3, c.noData)} size={18} /> <strong>{name}</strong>: {what}
+              {c.gustMps !== null ? ` at ${speed(c.gustMps, unit)}` : ''}
+              {c.utilization !== null ? `, ${percent(c.utilization)} of capacity` : ''}
+            </span>
+          </>
+        ),
+      });
+    }
+    for (const a of data.alerts) {
+      const subject = a.structureId !== null ? (structureNames.get(a.structureId) ?? `structure ${a.structureId}`) : 'sensor';
+      items.push({
+        atMs: a.raisedAtMs,
+        key: `a${a.id}`,
+        node: (
+          <>
+            <span class="t-time">{clockTime(a.raisedAtMs, tz)}</span>
+            <span class="t-what">
+              <strong>Alert</strong> — {subject}: {a.kind === 'level' ? `level ${a.level} · ${a.label}` : a.label}
+              {a.gustMps !== null ? ` at ${speed(a.gustMps, unit)}` : ''}
+            </span>
+            <span class="t-ack">
+              {a.acknowledgedAtMs !== null ? (
+                <>
+                  ✓ acknowledged by {a.acknowledgedBy} at {clockTime(a.acknowledgedAtMs, tz)} ({duration(a.acknowledgedAtMs - a.raisedAtMs)} after)
+                  {a.acknowledgeNote ? `: “${a.acknowledgeNote}”` : ''}
+                </>
+              ) : (
+                <strong class="bad-text">not acknowledged</strong>
+              )}
+              {a.clearedAtMs !== null ? ` · ended ${clockTime(a.clearedAtMs, tz)}` : ''}
+            </span>
+          </>
+        ),
+      });
+    }
+    return items.sort((a, b) => a.atMs - b.atMs);
+  }, [data, unit, tz]);
+
+  const roseSamples = data.wind.sensors.flatMap((s) => s.series.tMs.map((_, i) => ({ dirDeg: s.series.dirDeg[i] ?? null, meanMps: s.series.meanMps[i] ?? null })));
+  const utilData = useMemo(
+    () =>
+      alignSeries(
+        data.structures.map((s) => s.series.tMs.map((t) => t / 1000)),
+        data.structures.map((s) => s.series.utilization.map((v) => (v === null ? null : v * 100))),
+      ),
+    [data],
+  );
+  const maxUtil = Math.max(100, ...data.structures.flatMap((s) => s.series.utilization.filter((v): v is number => v !== null).map((v) => v * 100)));
+
+  return (
+    <>
+      <section aria-labelledby="sum-h" class="report-section">
+        <h2 id="sum-h">Summary</h2>
+        <p>
+          {summary.alertCount} alerts, {summary.unacknowledgedCount === 0 ? 'all acknowledged' : <strong class="bad-text">{summary.unacknowledgedCount} not acknowledged</strong>}.
+        </p>
+        <div class="table-scroll">
+          <table class="data stack-sm">
+            <caption>Structures</caption>
+            <thead>
+              <tr>
+                <th scope="col">Structure</th>
+                <th scope="col">Highest gust here</th>
+                <th scope="col">Highest utilization</th>
+                <th scope="col">Highest level</th>
+                <th scope="col">Time at levels 1+</th>
+                <th scope="col">No data</th>
+                <th scope="col">Alerts</th>
+              </tr>
+            </thead>
+            <tbody>
+              {summary.structures.map((s) => (
+                <tr>
+                  <th scope="row">
+                    <a href={href(`/structure/${s.id}`)}>{s.name}</a>
+                  </th>
+                  <td data-label="Highest gust here">{s.maxGustMps === null ? 'unknown' : `${speed(s.maxGustMps, unit)} at ${hourMinute(s.maxGustAtMs!, tz)}`}</td>
+                  <td data-label="Highest utilization">{s.unboundedAtMs !== null ? `unbounded at ${hourMinute(s.unboundedAtMs, tz)}` : s.maxUtilization === null ? 'unknown' : `${percent(s.maxUtilization)} at ${hourMinute(s.maxUtilizationAtMs!, tz)}`}</td>
+                  <td data-label="Highest level">
+                    <span class="lvl-cell">
+                      <LevelShape tone={levelTone(s.highestLevel, Math.max(3, s.msAtLevel.length - 1))} size={18} />
+                      {s.highestLevel}
+                    </span>
+                  </td>
+                  <td data-label="Time at levels 1+">{duration(s.msAtLevel.slice(1).reduce((a, b) => a + b, 0))}</td>
+                  <td data-label="No data" class={s.msNoData > 0 ? 'bad-text' : ''}>{duration(s.msNoData)}</td>
+                  <td data-label="Alerts">{s.alerts.length}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+        <div class="table-scroll">
+          <table class="data stack-sm">
+            <caption>Sensors</caption>
+            <thead>
+              <tr>
+                <th scope="col">Sensor</th>
+                <th scope="col">Highest gust</th>
+                <th scope="col">Mean</th>
+                <th scope="col">Readings</th>
+              </tr>
+            </thead>
+            <tbody>
+              {summary.sensors.map((s) => (
+                <tr>
+                  <th scope="row">{s.name}</th>
+                  <td data-label="Highest gust">{s.maxGustMps === null ? 'unknown' : `${speed(s.maxGustMps, unit)} at ${hourMinute(s.maxGustAtMs!, tz)}`}</td>
+                  <td data-label="Mean">{speed(s.meanMps, unit)}</td>
+                  <td data-label="Readings" class={s.readings === 0 ? 'bad-text' : ''}>{s.readings === 0 ? 'none (wind unknown)' : s.readings.toLocaleString('en-GB')}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      </section>
+
+      <section aria-labelledby="wind-log-h" class="report-section">
+        <h2 id="wind-log-h">Wind</h2>
+        {data.wind.sensors.map((s) => (
+          <TimeChart
+            key={s.key}
+            title={`${s.name} (${s.heightM} m): gust and mean in ${u}, direction in degrees`}
+            timeZone={tz}
+            height={220}
+            xRange={[data.wind.fromMs / 1000, data.wind.toMs / 1000]}
+            data={[s.series.tMs.map((t) => t / 1000), s.series.gustMps.map((g) => (g === null ? null : mpsToSpeed(g, unit))), s.series.meanMps.map((m) => (m === null ? null : mpsToSpeed(m, unit))), s.series.dirDeg]}
+            series={[
+              { label: `gust (${u})`, scale: 'speed', colorVar: '--series-gust', format: (v) => (v === null ? '—' : `${v.toFixed(1)} ${u}`) },
+              { label: `mean (${u})`, scale: 'speed', colorVar: '--series-mean', format: (v) => (v === null ? '—' : `${v.toFixed(1)} ${u}`) },
+              { label: 'from (°)', scale: 'deg', colorVar: '--series-dir', points: true, format: (v) => (v === null ? '—' : `${Math.round(v)}°`) },
+            ]}
+            axes={[
+              { scale: 'speed', label: u, side: 'left' },
+              { scale: 'deg', label: 'from, °', side: 'right', range: [0, 360] },
+            ]}
+          />
+        ))}
+        <WindRose samples={roseSamples} unit={unit} />
+      </section>
+
+      <section aria-labelledby="util-h" class="report-section">
+        <h2 id="util-h">Utilization per structure</h2>
+        {data.structures.length > 0 ? (
+          <TimeChart
+            title="Highest utilization per minute of each structure, % of load capacity (100 % = the limit)"
+            timeZone={tz}
+            data={utilData}
+            xRange={[data.wind.fromMs / 1000, data.wind.toMs / 1000]}
+            series={data.structures.map((s, i) => ({ label: s.structure.name, scale: 'pct', colorVar: `--multi-${i % 6}`, dash: i >= 6 ? [6, 3] : undefined, format: (v: number | null) => (v === null ? '—' : `${v.toFixed(0)} %`) }))}
+            axes={[{ scale: 'pct', label: '% of capacity', side: 'left', minMax: maxUtil }]}
+            bands={[{ scale: 'pct', from: 100, to: maxUtil * 1.1, colorVar: '--l3', label: 'limit (100 %)' }]}
+          />
+        ) : (
+          <p class="muted">No structures.</p>
+        )}
+      </section>
+
+      <section aria-labelledby="tl-h" class="report-section">
+        <h2 id="tl-h">Level changes and alerts</h2>
+        {timeline.length === 0 ? <p class="muted">No level changes or alerts in this period.</p> : null}
+        <ul class="timeline">
+          {timeline.map((i) => (
+            <li key={i.key}>{i.node}</li>
+          ))}
+        </ul>
+      </section>
+      <p class="print-only caution">Decision support only: the structure's designer or manufacturer ratings, the site's competent person and local regulations govern. Printed {dateTime(Date.now(), tz)}.</p>
+    </>
+  );
+}

@@ -1,0 +1,109 @@
+/**
+ * Site links (competent person): a URL that opens the live board read-only without an account,
+ * until it expires or is withdrawn — for stewards, by message. No QR code: a hand-written encoder
+ * would cost more than it is worth here; phones share links well enough.
+ */
+import { useEffect, useState } from 'preact/hooks';
+import { api, errorText } from '../api.ts';
+import { Field } from '../components/field.tsx';
+import { useTimeZone } from '../site.ts';
+import type { SiteLink } from '../types.ts';
+import { dateTime } from '../units.ts';
+import { typedNumber } from '../register/structureDraft.ts';
+
+export function SiteLinks() {
+  const tz = useTimeZone();
+  const [links, setLinks] = useState<SiteLink[] | null>(null);
+  const [label, setLabel] = useState('');
+  const [hours, setHours] = useState('72');
+  const [made, setMade] = useState<{ url: string; label: string; expiresAtMs: number } | null>(null);
+  const [error, setError] = useState<string | null>(null);
+  const [reload, setReload] = useState(0);
+  const [copied, setCopied] = useState(false);
+
+  useEffect(() => {
+    api<{ siteLinks: SiteLink[] }>('/api/site-links')
+      .then((a) => setLinks(a.siteLinks))
+      .catch((err) => setError(errorText(err)));
+  }, [reload]);
+
+  const create = async (e: Event) => {
+    e.preventDefault();
+    setError(null);
+    try {
+      const h = typedNumber(hours);
+      setMade(await api<{ url: string; label: string; expiresAtMs: number }>('/api/site-links', { body: { label: label.trim(), validHours: h ?? hours } }));
+      setCopied(false);
+      setLabel('');
+      setReload(reload + 1);
+    } catch (err) {
+      setError(errorText(err));
+    }
+  };
+  const revoke = async (l: SiteLink) => {
+    if (!confirm(`Withdraw the link “${l.label}”? Phones using it lose the board at once.`)) return;
+    try {
+      await api(`/api/site-links/${l.id}`, { method: 'DELETE' });
+      setReload(reload + 1);
+    } catch (err) {
+      setError(errorText(err));
+    }
+  };
+  const now = Date.now();
+
+  return (
+    <main id="main">
+      <h1>Site links</h1>
+      <p class="help">A site link opens the live board and the log read-only, without an account, until it expires or you withdraw it. Send it to stewards by message; anyone holding it can watch.</p>
+      {error ? <p class="error-box">{error}</p> : null}
+      {made ? (
+        <div class="secret-box" role="status">
+          <h2>Link for “{made.label}”</h2>
+          <p>Shown once: copy it now. Works until {dateTime(made.expiresAtMs, tz)}.</p>
+          <p class="secret">
+            <code data-testid="site-link-url">{made.url}</code>
+          </p>
+          <div class="row">
+            <button type="button" onClick={() => navigator.clipboard?.writeText(made.url).then(() => setCopied(true))}>
+              {copied ? 'Copied' : 'Copy link'}
+            </button>
+            <button type="button" onClick={() => setMade(null)}>
+              Done
+            </button>
+          </div>
+        </div>
+      ) : null}
+      <form class="panel stack" onSubmit={create}>
+        <h2>Make a link</h2>
+        <div class="grid2">
+          <Field id="sl-label" label="For whom" help="E.g. “Gate stewards, Saturday”. Shown in the audit trail.">
+            <input id="sl-label" maxLength={100} value={label} onInput={(e) => setLabel(e.currentTarget.value)} />
+          </Field>
+          <Field id="sl-hours" label="Valid for" unit="hours" help="At most 744 h (31 days). Default 72 h.">
+            <input id="sl-hours" inputMode="decimal" value={hours} onInput={(e) => setHours(e.currentTarget.value)} />
+          </Field>
+        </div>
+        <button type="submit" class="primary">
+          Make link
+        </button>
+      </form>
+      <h2>Links</h2>
+      {links && links.length === 0 ? <p class="muted">No links yet.</p> : null}
+      <ul class="plain-list">
+        {(links ?? []).map((l) => {
+          const over = l.revokedAtMs !== null || l.expiresAtMs <= now;
+          return (
+            <li class={`gw-item${over ? ' revoked' : ''}`} key={l.id}>
+              <strong>{l.label}</strong> — by {l.createdBy}, {dateTime(l.createdAtMs, tz)} · {l.revokedAtMs !== null ? `withdrawn ${dateTime(l.revokedAtMs, tz)}` : l.expiresAtMs <= now ? 'expired' : `until ${dateTime(l.expiresAtMs, tz)}`}
+              {!over ? (
+                <button type="button" class="danger" onClick={() => void revoke(l)}>
+                  Withdraw
+                </button>
+              ) : null}
+            </li>
+          );
+        })}
+      </ul>
+    </main>
+  );
+}

@@ -1,0 +1,220 @@
+/**
+ * The site's settings (competent person): where it is, how air density is found, whether gusts
+ * may be reduced with height and whether direction is used, the levels' dead band and hold time,
+ * and the default levels every structure takes unless it has its own.
+ */
+import { useEffect, useState } from 'preact/hooks';
+import { api, ApiError, errorText } from '../api.ts';
+import { Caution } from '../components/caution.tsx';
+import { Field } from '../components/field.tsx';
+import { LevelsEditor } from '../components/levelsEditor.tsx';
+import { draftLevels, levelsToDraft, plainMessage, typedNumber, type LevelRowDraft } from '../register/structureDraft.ts';
+import { prefs } from '../prefs.ts';
+import { href } from '../router.ts';
+import { may, session } from '../session.ts';
+import { loadSite, site, siteDensity } from '../site.ts';
+import { refreshSnapshot } from '../live.ts';
+import { useStore } from '../store.ts';
+import type { SiteView } from '../types.ts';
+import { quantity } from '../units.ts';
+
+interface SiteDraft {
+  name: string;
+  altitudeM: string;
+  terrainCategory: string;
+  timeZone: string;
+  airDensityMode: SiteView['airDensityMode'];
+  fixedAirDensityKgM3: string;
+  heightReductionEnabled: boolean;
+  directionalEnabled: boolean;
+  deadBandPct: string;
+  holdMin: string;
+  levels: LevelRowDraft[];
+}
+
+const terrainHelp: Record<string, string> = {
+  '0': '0 — sea or coastal area exposed to the open sea',
+  I: 'I — lakes or flat land with no obstacles',
+  II: 'II — low vegetation such as grass, isolated obstacles (the usual open field)',
+  III: 'III — regular cover of vegetation or buildings, isolated obstacles (villages, suburbs, forest)',
+  IV: 'IV — at least 15 % of the area covered with buildings over 15 m (town centres)',
+};
+
+function toDraft(s: SiteView, unit: Parameters<typeof levelsToDraft>[1]): SiteDraft {
+  return {
+    name: s.name,
+    altitudeM: String(s.altitudeM),
+    terrainCategory: s.terrainCategory,
+    timeZone: s.timeZone,
+    airDensityMode: s.airDensityMode,
+    fixedAirDensityKgM3: s.fixedAirDensityKgM3 === null ? '' : String(s.fixedAirDensityKgM3),
+    heightReductionEnabled: s.heightReductionEnabled,
+    directionalEnabled: s.directionalEnabled,
+    deadBandPct: String(Math.round(s.deadBandFraction * 1000) / 10),
+    holdMin: String(Math.round((s.holdTimeMs / 60_000) * 10) / 10),
+    levels: levelsToDraft(s.defaultLevels, unit),
+  };
+}
+
+export function SiteSettings() {
+  const current = useStore(site);
+  const density = useStore(siteDensity);
+  const unit = useStore(prefs).unit;
+  const canEdit = may(useStore(session), 'competent-person');
+  const [d, setD] = useState<SiteDraft | null>(null);
+  const [issues, setIssues] = useState<Map<string, string>>(new Map());
+  const [message, setMessage] = useState<{ ok: boolean; text: string } | null>(null);
+  const [busy, setBusy] = useState(false);
+
+  useEffect(() => {
+    if (current && !d) setD(toDraft(current, unit));
+    if (!current) void loadSite();
+  }, [current]);
+
+  if (!d) return <main id="main">Loading…</main>;
+  const set = (patch: Partial<SiteDraft>) => setD({ ...d, ...patch });
+  const e = (k: string) => (issues.get(k) ? plainMessage(issues.get(k)!) : undefined);
+
+  const save = async () => {
+    setBusy(true);
+    setMessage(null);
+    setIssues(new Map());
+    const local = new Map<string, string>();
+    const n = (text: string, key: string): number | string => {
+      const v = typedNumber(text);
+      if (v === undefined || Number.isNaN(v)) {
+        local.set(key, v === undefined ? 'is required' : 'must be a number');
+        return text;
+      }
+      return v;
+    };
+    const dead = n(d.deadBandPct, 'deadBandFraction');
+    const hold = n(d.holdMin, 'holdTimeMs');
+    const body = {
+      name: d.name.trim(),
+      altitudeM: n(d.altitudeM, 'altitudeM'),
+      terrainCategory: d.terrainCategory,
+      timeZone: d.timeZone.trim(),
+      airDensityMode: d.airDensityMode,
+      fixedAirDensityKgM3: d.fixedAirDensityKgM3.trim() === '' ? null : n(d.fixedAirDensityKgM3, 'fixedAirDensityKgM3'),
+      heightReductionEnabled: d.heightReductionEnabled,
+      directionalEnabled: d.directionalEnabled,
+      deadBandFraction: typeof dead === 'number' ? dead / 100 : dead,
+      holdTimeMs: typeof hold === 'number' ? Math.round(hold * 60_000) : hold,
+      defaultLevels: draftLevels(d.levels, unit, local),
+    };
+    if (local.size > 0) {
+      setIssues(local);
+      setMessage({ ok: false, text: 'Not saved: some fields need attention.' });
+      setBusy(false);
+      return;
+    }
+    try {
+      await api('/api/site', { method: 'PATCH', body });
+      await loadSite();
+      void refreshSnapshot();
+      setMessage({ ok: true, text: 'Site settings saved. Every structure has been re-assessed with them.' });
+    } catch (err) {
+      if (err instanceof ApiError && err.issues.length > 0) {
+        const m = new Map<string, string>();
+        for (const i of err.issues) m.set(i.path.replace(/^defaultLevels/, 'levels'), i.message);
+        setIssues(m);
+      }
+      setMessage({ ok: false, text: `Not saved: ${errorText(err)}` });
+    } finally {
+      setBusy(false);
+    }
+  };
+
+  return (
+    <main id="main" class="form-page">
+      <p class="crumbs">
+        <a href={href('/register')}>← Structures</a>
+      </p>
+      <h1>Site settings</h1>
+      <Caution />
+      {!canEdit ? <p class="note-box">Only a competent person can change the site settings.</p> : null}
+      <fieldset disabled={!canEdit} class="bare">
+        <section>
+          <h2>The site</h2>
+          <div class="grid2">
+            <Field id="st-name" label="Site name" error={e('name')}>
+              <input id="st-name" value={d.name} maxLength={120} onInput={(ev) => set({ name: ev.currentTarget.value })} />
+            </Field>
+            <Field id="st-tz" label="Time zone" error={e('timeZone')} help="IANA name, e.g. Europe/London. Days in the log and times on every screen are in this zone.">
+              <input id="st-tz" value={d.timeZone} onInput={(ev) => set({ timeZone: ev.currentTarget.value })} />
+            </Field>
+            <Field id="st-alt" label="Altitude" unit="m" error={e('altitudeM')} help="Above sea level; sets the ISA air density (ISO 2533).">
+              <input id="st-alt" inputMode="decimal" value={d.altitudeM} onInput={(ev) => set({ altitudeM: ev.currentTarget.value })} />
+            </Field>
+            <Field id="st-terrain" label="Terrain category (EN 1991-1-4 Table 4.1)" error={e('terrainCategory')} help="The ground roughness upwind: it shapes how the gust changes with height between a sensor and a structure.">
+              <select id="st-terrain" value={d.terrainCategory} onChange={(ev) => set({ terrainCategory: ev.currentTarget.value })}>
+                {Object.entries(terrainHelp).map(([k, v]) => (
+                  <option value={k}>{v}</option>
+                ))}
+              </select>
+            </Field>
+          </div>
+        </section>
+        <section>
+          <h2>Air and wind</h2>
+          <div class="grid2">
+            <Field
+              id="st-density"
+              label="Air density"
+              error={e('airDensityMode')}
+              help={`ISA at the site’s altitude (ISO 2533); measured from a sensor’s temperature, pressure and humidity (WMO CIMO method); or a fixed value (EN 1991-1-4 recommends 1.25 kg/m³). Now: ${density === null ? 'unknown' : quantity(density, 'kg/m³', 3)}.`}
+            >
+              <select id="st-density" value={d.airDensityMode} onChange={(ev) => set({ airDensityMode: ev.currentTarget.value as SiteDraft['airDensityMode'] })}>
+                <option value="isa">ISA at the site’s altitude</option>
+                <option value="measured">measured on site</option>
+                <option value="fixed">fixed value</option>
+              </select>
+            </Field>
+            <Field id="st-fixed" label="Fixed air density" unit="kg/m³" error={e('fixedAirDensityKgM3')} help="Used only with “fixed value”; 0.9–1.5.">
+              <input id="st-fixed" inputMode="decimal" value={d.fixedAirDensityKgM3} onInput={(ev) => set({ fixedAirDensityKgM3: ev.currentTarget.value })} />
+            </Field>
+          </div>
+          <label class="check">
+            <input type="checkbox" checked={d.heightReductionEnabled} onChange={(ev) => set({ heightReductionEnabled: ev.currentTarget.checked })} />
+            Allow gusts to be reduced for structures lower than the sensor
+          </label>
+          <p class="help">Off (the safe default): a structure below the sensor takes the sensor’s gust; one above it takes a higher gust from the EN 1991-1-4 profile.</p>
+          <label class="check">
+            <input type="checkbox" checked={d.directionalEnabled} onChange={(ev) => set({ directionalEnabled: ev.currentTarget.checked })} />
+            Use wind direction
+          </label>
+          <p class="help">Off (the safe default): every structure is assessed for wind straight onto each side, and the worse side governs. On: each face sees the wind’s normal component and its windward side’s coefficient (needs each structure’s orientation).</p>
+        </section>
+        <section>
+          <h2>Lowering levels</h2>
+          <div class="grid2">
+            <Field id="st-dead" label="Dead band" unit="%" error={e('deadBandFraction')} help="A level is lowered only once the gust is this far below its trigger (0–50 %; default 10 %): no flapping between levels.">
+              <input id="st-dead" inputMode="decimal" value={d.deadBandPct} onInput={(ev) => set({ deadBandPct: ev.currentTarget.value })} />
+            </Field>
+            <Field id="st-hold" label="Hold time" unit="min" error={e('holdTimeMs')} help="…and only after it has stayed there this long (0–360 min; default 15 min). Raising is always at once.">
+              <input id="st-hold" inputMode="decimal" value={d.holdMin} onInput={(ev) => set({ holdMin: ev.currentTarget.value })} />
+            </Field>
+          </div>
+        </section>
+        <section>
+          <h2>Default levels and actions</h2>
+          <p class="help">Every structure without its own levels takes these. 60 % and 80 % of load capacity follow published event guidance; 100 % is the limit.</p>
+          <LevelsEditor idPrefix="dl" levels={d.levels} unit={unit} errors={issues} onChange={(levels) => set({ levels })} />
+        </section>
+      </fieldset>
+      {message ? (
+        <p class={message.ok ? 'ok-box' : 'error-box'} role={message.ok ? 'status' : 'alert'}>
+          {message.text}
+        </p>
+      ) : null}
+      {canEdit ? (
+        <div class="row save-row">
+          <button type="button" class="primary" disabled={busy} onClick={() => void save()}>
+            {busy ? 'Saving…' : 'Save site settings'}
+          </button>
+        </div>
+      ) : null}
+    </main>
+  );
+}

@@ -1,0 +1,229 @@
+/**
+ * One structure: its live level and margin, a chart of the gust at its height and its
+ * utilization over the last hours with the level thresholds as bands, its levels and actions,
+ * and its alert history.
+ */
+import { useEffect, useMemo, useState } from 'preact/hooks';
+import type uPlot from 'uplot';
+import { api, errorText } from '../api.ts';
+import { Caution } from '../components/caution.tsx';
+import { useNow } from '../components/clock.ts';
+import { LevelBadge } from '../components/levelBadge.tsx';
+import { LevelsTable } from '../components/levelsTable.tsx';
+import { SpeedValue } from '../components/speedValue.tsx';
+import { TimeChart, type Band } from '../components/timeChart.tsx';
+import { live, serverNow } from '../live.ts';
+import { prefs } from '../prefs.ts';
+import { href } from '../router.ts';
+import { may, session } from '../session.ts';
+import { useTimeZone } from '../site.ts';
+import { useStore } from '../store.ts';
+import type { AlertRow, StructureLog, StructureState } from '../types.ts';
+import { dateTime, duration, mpsToSpeed, percent, quantity, speed, speedUnitLabels } from '../units.ts';
+import { levelTone } from '../components/levelBadge.tsx';
+
+const windows = [
+  { hours: 1, label: '1 h' },
+  { hours: 3, label: '3 h' },
+  { hours: 12, label: '12 h' },
+  { hours: 24, label: '24 h' },
+];
+
+/** The chart's history is refetched this often while the page is open (per-minute rollups). */
+const refreshMs = 30_000;
+
+export function levelBands(s: StructureState, unitFactor: (mps: number) => number, scale: string): Band[] {
+  const n = s.levels.length;
+  return s.levels.map((l, i) => ({
+    scale,
+    from: unitFactor(l.triggerGustMps),
+    to: i + 1 < n ? unitFactor(s.levels[i + 1]!.triggerGustMps) : unitFactor(l.triggerGustMps * 1.5),
+    colorVar: `--${levelTone(l.level, n)}`,
+    label: `${l.level} · ${l.label}`,
+  }));
+}
+
+export function StructurePage({ id }: { id: number }) {
+  const snap = useStore(live).snapshot;
+  const s = snap?.structures.find((x) => x.id === id) ?? null;
+  const unit = useStore(prefs).unit;
+  const tz = useTimeZone();
+  const who = useStore(session);
+  useNow();
+  const [hours, setHours] = useState(3);
+  const [windowTo, setWindowTo] = useState(() => Date.now());
+  const [log, setLog] = useState<StructureLog | null>(null);
+  const [history, setHistory] = useState<AlertRow[] | null>(null);
+  const [error, setError] = useState<string | null>(null);
+
+  useEffect(() => {
+    let stop = false;
+    const load = async () => {
+      try {
+        const to = Date.now() + 60_000;
+        const answer = await api<StructureLog>(`/api/log/structures/${id}?from=${to - hours * 3_600_000}&to=${to}&points=720`);
+        if (!stop) {
+          setWindowTo(to);
+          setLog(answer);
+          setError(null);
+        }
+      } catch (err) {
+        if (!stop) setError(errorText(err));
+      }
+    };
+    void load();
+    const timer = setInterval(() => void load(), refreshMs);
+    return () => {
+      stop = true;
+      clearInterval(timer);
+    };
+  }, [id, hours]);
+
+  useEffect(() => {
+    const to = Date.now() + 60_000;
+    api<StructureLog>(`/api/log/structures/${id}?from=${to - 7 * 86_400_000}&to=${to}&points=10`)
+      .then((a) => setHistory(a.alerts.slice().reverse()))
+      .catch((err) => setError(errorText(err)));
+  }, [id]);
+
+  const toUnit = (mps: number) => mpsToSpeed(mps, unit);
+  const data = useMemo((): uPlot.AlignedData => {
+    if (!log) return [[], [], []];
+    const t = log.series.tMs.map((ms) => ms / 1000);
+    const gust: Array<number | null> = log.series.gustMps.map((g) => toUnit(g));
+    const util: Array<number | null> = log.series.utilization.map((u) => (u === null ? null : u * 100));
+    // The live value as the last point, so the chart ends "now" between the minute rollups.
+    if (s && !s.noData && s.gustMps !== null && s.evaluatedAtMs !== null && (t.at(-1) ?? 0) < s.evaluatedAtMs / 1000) {
+      t.push(s.evaluatedAtMs / 1000);
+      gust.push(toUnit(s.gustMps));
+      util.push(s.utilization === null ? null : s.utilization * 100);
+    }
+    return [t, gust, util];
+  }, [log, unit, s?.evaluatedAtMs, s?.gustMps]);
+
+  const name = s?.name ?? log?.structure.name ?? `Structure ${id}`;
+  if (!snap && !log) {
+    return (
+      <main id="main">
+        <p class="unknown-box">Loading… until live data arrives this structure's wind is unknown.</p>
+      </main>
+    );
+  }
+  if (snap && !s && !log && error) {
+    return (
+      <main id="main">
+        <h1>Structure not found</h1>
+        <p class="error-box">{error}</p>
+      </main>
+    );
+  }
+  const top = s ? Math.max(...s.levels.map((l) => l.triggerGustMps), s.limitGustMps) : 0;
+
+  return (
+    <main id="main">
+      <p class="crumbs">
+        <a href={href('/')}>← Live board</a>
+      </p>
+      <h1>{name}</h1>
+      {s ? (
+        <section class={`structure-live tone-${levelTone(s.level, s.levels.length, s.noData)}`} aria-label="Now">
+          <LevelBadge level={s.level} label={s.levelLabel} count={s.levels.length} noData={s.noData} big />
+          <dl class="sc-figures big">
+            <div>
+              <dt>Margin</dt>
+              <dd>{s.noData ? 'unknown' : s.unbounded ? 'none left' : percent(s.margin)}</dd>
+            </div>
+            <div>
+              <dt>Utilization</dt>
+              <dd>{s.noData ? 'unknown' : s.unbounded ? 'unbounded' : percent(s.utilization)}</dd>
+            </div>
+            <div>
+              <dt>Gust here</dt>
+              <dd>{s.noData ? 'unknown' : <SpeedValue mps={s.gustMps} unit={unit} />}</dd>
+            </div>
+            <div>
+              <dt>Limit gust</dt>
+              <dd>
+                <SpeedValue mps={s.limitGustMps} unit={unit} />
+              </dd>
+            </div>
+          </dl>
+          <p class="muted">
+            {s.governing ? `Governed by ${s.governing}${s.side ? `, wind onto the ${s.side}` : ''}. ` : ''}
+            Calculated limit {speed(s.calculatedLimitGustMps, unit)}
+            {s.ratedGustMps !== null ? `, rated ${speed(s.ratedGustMps, unit)}` : ', no rated gust given'}; gust taken at {quantity(s.referenceHeightM, 'm')}; air {quantity(s.airDensityKgM3, 'kg/m³', 3)}.
+            {s.evaluatedAtMs !== null ? ` Last assessed ${duration(serverNow() - s.evaluatedAtMs)} ago.` : ' Not assessed yet.'}
+            {s.level > 0 ? ` At level ${s.level} since ${dateTime(s.levelSinceMs, tz)}.` : ''}
+          </p>
+          {s.error ? <p class="error-box">{s.error}</p> : null}
+        </section>
+      ) : (
+        <p class="unknown-box">No live state for this structure: its wind is unknown.</p>
+      )}
+      <Caution />
+
+      <section aria-labelledby="chart-h">
+        <h2 id="chart-h">Gust and utilization</h2>
+        <div class="seg" role="group" aria-label="Time window">
+          {windows.map((w) => (
+            <button type="button" class={w.hours === hours ? 'on' : ''} aria-pressed={w.hours === hours} onClick={() => setHours(w.hours)}>
+              {w.label}
+            </button>
+          ))}
+        </div>
+        {error ? <p class="error-box">{error}</p> : null}
+        {log && log.series.tMs.length === 0 && data[0].length === 0 ? <p class="unknown-box">No readings in this window: the wind here was unknown.</p> : null}
+        {s ? (
+          <TimeChart
+            title={`Highest gust per minute at ${name} (${speedUnitLabels[unit]}) and utilization (%), with level thresholds as bands`}
+            timeZone={tz}
+            data={data}
+            series={[
+              { label: `gust here (${speedUnitLabels[unit]})`, scale: 'speed', colorVar: '--series-gust', width: 2, format: (v) => (v === null ? '—' : `${v.toFixed(1)} ${speedUnitLabels[unit]}`) },
+              { label: 'utilization (%)', scale: 'pct', colorVar: '--series-util', width: 2, dash: [6, 4], format: (v) => (v === null ? '—' : `${v.toFixed(0)} %`) },
+            ]}
+            axes={[
+              { scale: 'speed', label: `gust, ${speedUnitLabels[unit]}`, side: 'left', minMax: toUnit(top) * 1.12 },
+              { scale: 'pct', label: 'utilization, %', side: 'right', minMax: 100 },
+            ]}
+            bands={levelBands(s, toUnit, 'speed')}
+            xRange={[(windowTo - hours * 3_600_000) / 1000, windowTo / 1000]}
+          />
+        ) : null}
+      </section>
+
+      {s ? (
+        <section aria-labelledby="levels-h">
+          <h2 id="levels-h">Levels and actions</h2>
+          <LevelsTable levels={s.levels} unit={unit} />
+          {may(who, 'competent-person') ? (
+            <p>
+              <a class="button" href={href(`/register/${id}`)}>
+                Edit structure and levels
+              </a>
+            </p>
+          ) : null}
+        </section>
+      ) : null}
+
+      <section aria-labelledby="hist-h">
+        <h2 id="hist-h">Alerts, last 7 days</h2>
+        {history === null ? <p class="muted">Loading…</p> : history.length === 0 ? <p class="muted">No alerts for this structure in the last 7 days.</p> : null}
+        <ul class="timeline">
+          {(history ?? []).map((a) => (
+            <li key={a.id}>
+              <span class="t-time">{dateTime(a.raisedAtMs, tz)}</span>
+              <span class="t-what">
+                <strong>{a.kind === 'level' ? `Level ${a.level} · ${a.label}` : a.label}</strong>
+                {a.gustMps !== null ? ` at ${speed(a.gustMps, unit)}` : ''}
+              </span>
+              <span class="t-ack">
+                {a.acknowledgedAtMs !== null ? `✓ ${a.acknowledgedBy}, ${dateTime(a.acknowledgedAtMs, tz)}${a.acknowledgeNote ? `: “${a.acknowledgeNote}”` : ''}` : <strong class="bad-text">not acknowledged</strong>}
+              </span>
+            </li>
+          ))}
+        </ul>
+      </section>
+    </main>
+  );
+}

@@ -1,0 +1,591 @@
+/**
+ * Registering or editing a structure (competent person): a form per kind with help on every
+ * field, the calculator's answer as you type (debounced POST /api/assess), the side view, the
+ * levels and actions, and where it stands and which sensors govern it.
+ *
+ * Field errors come from the server's 400 `issues` (the calculator's paths start "structure.",
+ * the register's "record."); a local check only catches text that is not a number. Before a save
+ * is tried, only fields the person has touched show their complaints, so a new form does not
+ * start as a wall of red.
+ */
+import { useEffect, useMemo, useRef, useState } from 'preact/hooks';
+import { api, ApiError, errorText } from '../api.ts';
+import { Caution } from '../components/caution.tsx';
+import { described, Field } from '../components/field.tsx';
+import { LevelsEditor } from '../components/levelsEditor.tsx';
+import { SideView } from '../components/sideView.tsx';
+import { faceColumns, kindFields, kindIntro, kindNames, massColumns, commonFields, type FieldDef } from '../register/kindFields.ts';
+import { draftFromView, draftInput, draftLevels, draftRecord, newDraft, plainMessage, switchKind, typedNumber, type Draft } from '../register/structureDraft.ts';
+import { refreshSnapshot } from '../live.ts';
+import { prefs } from '../prefs.ts';
+import { href, navigate } from '../router.ts';
+import { may, session } from '../session.ts';
+import { site, siteDensity } from '../site.ts';
+import { useStore } from '../store.ts';
+import type { AssessAnswer, SensorView, StructureKind, StructureWithLive } from '../types.ts';
+import { kiloNewtonMetres, kiloNewtons, mpsToSpeed, percent, quantity, speed, speedToMps, speedUnitLabels } from '../units.ts';
+
+const kinds: StructureKind[] = ['tent', 'banner', 'screen', 'shell', 'custom'];
+/** Pause after the last keystroke before asking the calculator, ms. */
+const debounceMs = 350;
+
+export function StructureForm({ id }: { id: number | null }) {
+  const who = useStore(session);
+  const unit = useStore(prefs).unit;
+  const siteInfo = useStore(site);
+  const density = useStore(siteDensity);
+  const siteLevels = siteInfo?.defaultLevels ?? [];
+  const canEdit = may(who, 'competent-person');
+
+  const [draft, setDraft] = useState<Draft | null>(id === null ? null : null);
+  const [loadError, setLoadError] = useState<string | null>(null);
+  const [sensors, setSensors] = useState<SensorView[]>([]);
+  const [checkGust, setCheckGust] = useState(() => String(Math.round(mpsToSpeed(20, unit))));
+  const [answer, setAnswer] = useState<AssessAnswer | null>(null);
+  const [assessIssues, setAssessIssues] = useState<Map<string, string>>(new Map());
+  const [saveIssues, setSaveIssues] = useState<Map<string, string>>(new Map());
+  const [touched, setTouched] = useState<Set<string>>(new Set());
+  const [triedSave, setTriedSave] = useState(false);
+  const [saving, setSaving] = useState(false);
+  const [message, setMessage] = useState<{ ok: boolean; text: string } | null>(null);
+  const seq = useRef(0);
+
+  // Load the structure (or start a new draft once the site's default levels are known).
+  useEffect(() => {
+    if (id === null) {
+      if (siteInfo && !draft) setDraft(newDraft('tent', siteLevels, unit));
+      return;
+    }
+    api<{ structure: StructureWithLive }>(`/api/structures/${id}`)
+      .then((a) => setDraft(draftFromView(a.structure, siteLevels, unit)))
+      .catch((err) => setLoadError(errorText(err)));
+    // Loaded once per id; the site's levels only seed a new draft.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [id, siteInfo === null]);
+
+  useEffect(() => {
+    api<{ sensors: SensorView[] }>('/api/sensors')
+      .then((a) => setSensors(a.sensors))
+      .catch(() => setSensors([]));
+  }, []);
+
+  const local = useMemo(() => new Map<string, string>(), [draft, checkGust]);
+  const record = useMemo(() => (draft ? draftRecord(draft, unit, local) : null), [draft, unit, local]);
+  const levelsForAssess = useMemo(() => (draft ? (draft.ownLevels ? draftLevels(draft.levels, unit, local) : siteLevels) : []), [draft, unit, siteLevels, local]);
+  const checkGustMps = (() => {
+    const n = typedNumber(checkGust);
+    return n === undefined || Number.isNaN(n) ? null : speedToMps(n, unit);
+  })();
+
+  // Ask the calculator as the person types.
+  useEffect(() => {
+    if (!record || checkGustMps === null) return;
+    const mine = ++seq.current;
+    const controller = new AbortController();
+    const timer = setTimeout(() => {
+      // The calculator needs a name; an unnamed draft is still worth calculating while typing.
+      const structure = record.name === '' ? { ...record, name: 'unnamed' } : record;
+      const body: Record<string, unknown> = { structure, gustMps: Math.min(120, Math.max(0, checkGustMps)), levels: levelsForAssess };
+      if (checkGustMps > 0) body.designGustMps = Math.min(120, checkGustMps);
+      if (density !== null) body.airDensityKgM3 = density;
+      api<AssessAnswer>('/api/assess', { body, signal: controller.signal })
+        .then((a) => {
+          if (mine !== seq.current) return;
+          setAnswer(a);
+          setAssessIssues(new Map(a.levelOrderProblems?.map((p) => [p.path, p.message]) ?? []));
+        })
+        .catch((err) => {
+          if (mine !== seq.current || (err instanceof DOMException && err.name === 'AbortError')) return;
+          if (err instanceof ApiError && err.status === 400) {
+            const m = new Map<string, string>();
+            for (const i of err.issues) {
+              const path = i.path.startsWith('structure.') ? i.path.slice('structure.'.length) : i.path;
+              m.set(path, m.has(path) ? `${m.get(path)}; ${plainMessage(i.message)}` : plainMessage(i.message));
+            }
+            setAssessIssues(m);
+            setAnswer(null);
+          } else setMessage({ ok: false, text: errorText(err) });
+        });
+    }, debounceMs);
+    return () => {
+      clearTimeout(timer);
+      controller.abort();
+    };
+  }, [JSON.stringify(record), JSON.stringify(levelsForAssess), checkGustMps, density]);
+
+  if (loadError) {
+    return (
+      <main id="main">
+        <p class="crumbs">
+          <a href={href('/register')}>← Structures</a>
+        </p>
+        <h1>Cannot open this structure</h1>
+        <p class="error-box">{loadError}</p>
+      </main>
+    );
+  }
+  if (!draft) {
+    return (
+      <main id="main">
+        <p class="muted">Loading…</p>
+      </main>
+    );
+  }
+
+  const update = (patch: Partial<Draft>) => setDraft({ ...draft, ...patch });
+  const touch = (path: string) => {
+    if (!touched.has(path)) setTouched(new Set([...touched, path]));
+  };
+  /** The complaint to show next to a field: a save's answer first, then the calculator's. */
+  const errorFor = (path: string): string | undefined => {
+    const fromSave = saveIssues.get(`record.${path}`) ?? saveIssues.get(path);
+    if (fromSave) return plainMessage(fromSave);
+    if (!triedSave && !touched.has(path)) return undefined;
+    return local.get(path) ?? assessIssues.get(path);
+  };
+  const levelErrors = new Map<string, string>();
+  for (const [k, v] of [...assessIssues, ...saveIssues, ...local]) if (k.startsWith('levels')) levelErrors.set(k, plainMessage(v));
+
+  const save = async () => {
+    setTriedSave(true);
+    setSaving(true);
+    setMessage(null);
+    setSaveIssues(new Map());
+    const issues = new Map<string, string>();
+    const input = draftInput(draft, unit, issues);
+    try {
+      const answerSaved = id === null ? await api<{ structure: StructureWithLive }>('/api/structures', { body: input }) : await api<{ structure: StructureWithLive }>(`/api/structures/${id}`, { method: 'PATCH', body: input });
+      setMessage({ ok: true, text: `Saved “${answerSaved.structure.name}”. It is on the live board now.` });
+      void refreshSnapshot();
+      if (id === null) navigate(`/register/${answerSaved.structure.id}`);
+      else setDraft(draftFromView(answerSaved.structure, siteLevels, unit));
+    } catch (err) {
+      if (err instanceof ApiError && err.issues.length > 0) {
+        const m = new Map<string, string>();
+        for (const i of err.issues) m.set(i.path, m.has(i.path) ? `${m.get(i.path)}; ${i.message}` : i.message);
+        setSaveIssues(m);
+        setMessage({ ok: false, text: `Not saved: ${err.issues.length} ${err.issues.length === 1 ? 'field needs' : 'fields need'} attention (marked below).` });
+      } else setMessage({ ok: false, text: `Not saved: ${errorText(err)}` });
+    } finally {
+      setSaving(false);
+    }
+  };
+
+  const retire = async () => {
+    if (id === null || !confirm(`Retire “${draft.name}”? It leaves the live board; its history stays in the log.`)) return;
+    try {
+      await api(`/api/structures/${id}`, { method: 'DELETE' });
+      void refreshSnapshot();
+      navigate('/register');
+    } catch (err) {
+      setMessage({ ok: false, text: errorText(err) });
+    }
+  };
+
+  const fieldInput = (f: FieldDef) => {
+    const fid = `sf-${f.path.replace(/\./g, '-')}`;
+    const value = draft.values[f.path] ?? '';
+    const err = errorFor(f.path);
+    const set = (v: string) => {
+      touch(f.path);
+      update({ values: { ...draft.values, [f.path]: v } });
+    };
+    const unitLabel = f.kind === 'speed' ? speedUnitLabels[unit] : f.unit === 'count' ? undefined : f.unit;
+    let control;
+    if (f.kind === 'bool' || f.kind === 'select') {
+      control = (
+        <select id={fid} value={value} onChange={(e) => set(e.currentTarget.value)} aria-describedby={described(fid, true, !!err)}>
+          {f.optional && f.kind === 'select' && !f.initial ? <option value="">default</option> : null}
+          {f.options!.map(([v, label]) => (
+            <option value={v}>{label}</option>
+          ))}
+        </select>
+      );
+    } else {
+      control = (
+        <input
+          id={fid}
+          value={value}
+          inputMode={f.kind === 'text' ? 'text' : f.kind === 'int' ? 'numeric' : 'decimal'}
+          placeholder={f.placeholder ?? ''}
+          aria-invalid={err ? true : undefined}
+          aria-describedby={described(fid, true, !!err)}
+          onInput={(e) => set(e.currentTarget.value)}
+          onBlur={() => touch(f.path)}
+        />
+      );
+    }
+    return (
+      <Field id={fid} label={f.label} unit={unitLabel} help={f.help} error={err} key={f.path}>
+        {control}
+      </Field>
+    );
+  };
+
+  const nameErr = errorFor('name');
+  const levelGusts = answer?.levels?.map((l) => (l.triggerGustMps === null ? 'no gust reaches it' : speed(l.triggerGustMps, unit))) ?? [];
+
+  return (
+    <main id="main" class="form-page">
+      <p class="crumbs">
+        <a href={href('/register')}>← Structures</a>
+        {id !== null ? (
+          <>
+            {' · '}
+            <a href={href(`/structure/${id}`)}>live view</a>
+          </>
+        ) : null}
+      </p>
+      <h1>{id === null ? 'Register a structure' : `Edit: ${draft.name || 'structure'}`}</h1>
+      <Caution />
+      {!canEdit ? <p class="note-box">You can try numbers here, but only a competent person can save changes to the register.</p> : null}
+
+      <div class="form-layout">
+        <div class="form-main">
+          <section aria-labelledby="what-h">
+            <h2 id="what-h">What it is</h2>
+            <div class="field">
+              <span class="label-like" id="kind-label">
+                Kind
+              </span>
+              <div class="seg wrap" role="radiogroup" aria-labelledby="kind-label">
+                {kinds.map((k) => (
+                  <button type="button" role="radio" aria-checked={draft.kind === k} class={draft.kind === k ? 'on' : ''} onClick={() => setDraft(switchKind(draft, k, siteLevels, unit))}>
+                    {kindNames[k]}
+                  </button>
+                ))}
+              </div>
+              <p class="help">{kindIntro[draft.kind]}</p>
+            </div>
+            <Field id="sf-name" label="Name" error={nameErr} help="As the crew know it; shown on the board, in alerts and in the log.">
+              <input
+                id="sf-name"
+                value={draft.name}
+                maxLength={200}
+                aria-describedby={described('sf-name', true, !!nameErr)}
+                onInput={(e) => {
+                  touch('name');
+                  update({ name: e.currentTarget.value });
+                }}
+              />
+            </Field>
+          </section>
+
+          <section aria-labelledby="dims-h">
+            <h2 id="dims-h">Dimensions, masses and coefficients</h2>
+            <div class="grid2">{kindFields[draft.kind].map(fieldInput)}</div>
+            {draft.kind === 'custom' ? <CustomRows draft={draft} update={update} errorFor={errorFor} touch={touch} /> : null}
+          </section>
+
+          <section aria-labelledby="res-h">
+            <h2 id="res-h">Ground, safety factors, rated gust</h2>
+            <div class="grid2">{commonFields.map(fieldInput)}</div>
+          </section>
+
+          <section aria-labelledby="lv-h">
+            <h2 id="lv-h">Levels and actions</h2>
+            <label class="check">
+              <input
+                type="checkbox"
+                checked={!draft.ownLevels}
+                onChange={(e) => {
+                  const useSite = e.currentTarget.checked;
+                  update({ ownLevels: !useSite, levels: useSite ? draft.levels : draft.levels.length > 0 ? draft.levels : [] });
+                }}
+              />
+              Use the site’s default levels
+            </label>
+            {draft.ownLevels ? (
+              <LevelsEditor idPrefix="sl" levels={draft.levels} unit={unit} errors={levelErrors} gustsText={levelGusts} onChange={(levels) => update({ levels })} />
+            ) : (
+              <ul class="plain-list">
+                {(answer?.levels ?? siteLevels.map((l, i) => ({ level: i + 1, label: l.label, triggerGustMps: null, trigger: l.trigger }))).map((l) => (
+                  <li>
+                    <strong>
+                      {l.level} · {l.label}
+                    </strong>
+                    : {l.trigger.kind === 'utilization' ? `${Math.round(l.trigger.fraction * 100)} % of load capacity` : `gust ${speed(l.trigger.gustMps, unit)}`}
+                    {l.triggerGustMps !== null ? ` → reached at ${speed(l.triggerGustMps, unit)}` : ''}
+                  </li>
+                ))}
+              </ul>
+            )}
+          </section>
+
+          <section aria-labelledby="where-h">
+            <h2 id="where-h">Where it stands and what measures its wind</h2>
+            <div class="grid2">
+              <Field id="sf-orient" label="Front faces towards" unit="° from north" error={errorFor('orientationDeg')} help="Azimuth the front side faces, degrees clockwise from north (0 north, 90 east). Used when the site assesses wind direction.">
+                <input id="sf-orient" inputMode="decimal" value={draft.orientationDeg} onInput={(e) => update({ orientationDeg: e.currentTarget.value })} />
+              </Field>
+              <Field id="sf-loc" label="Location on site" error={errorFor('location')} help="In words the crew know: “west lawn, by the bar”.">
+                <input id="sf-loc" maxLength={200} value={draft.location} onInput={(e) => update({ location: e.currentTarget.value })} />
+              </Field>
+              <Field id="sf-lat" label="Latitude" unit="°" error={errorFor('latDeg')} help="Optional, −90 to 90.">
+                <input id="sf-lat" inputMode="decimal" value={draft.latDeg} onInput={(e) => update({ latDeg: e.currentTarget.value })} />
+              </Field>
+              <Field id="sf-lon" label="Longitude" unit="°" error={errorFor('lonDeg')} help="Optional, −180 to 180.">
+                <input id="sf-lon" inputMode="decimal" value={draft.lonDeg} onInput={(e) => update({ lonDeg: e.currentTarget.value })} />
+              </Field>
+            </div>
+            <label class="check">
+              <input type="checkbox" checked={draft.mobile} onChange={(e) => update({ mobile: e.currentTarget.checked })} />
+              Mobile (a screen on a vehicle, a towed unit)
+            </label>
+            <fieldset class="sensor-pick">
+              <legend>Sensors that govern</legend>
+              <p class="help">None ticked: every sensor on the site, the highest gust wins (the safe default). Tick sensors only when others cannot see this structure’s wind.</p>
+              {sensors.length === 0 ? <p class="muted">No sensors registered.</p> : null}
+              {sensors.map((s, i) => (
+                <label class="check" key={s.key}>
+                  <input
+                    type="checkbox"
+                    checked={draft.sensorKeys.includes(s.key)}
+                    onChange={(e) => update({ sensorKeys: e.currentTarget.checked ? [...draft.sensorKeys, s.key] : draft.sensorKeys.filter((k) => k !== s.key) })}
+                  />
+                  {s.name} ({s.key}, {s.heightM} m)
+                  {saveIssues.get(`sensorKeys.${i}`) ? <span class="field-error"> {saveIssues.get(`sensorKeys.${i}`)}</span> : null}
+                </label>
+              ))}
+            </fieldset>
+          </section>
+
+          {message ? (
+            <p class={message.ok ? 'ok-box' : 'error-box'} role={message.ok ? 'status' : 'alert'}>
+              {message.text}
+            </p>
+          ) : null}
+          {canEdit ? (
+            <div class="row save-row">
+              <button type="button" class="primary" disabled={saving} onClick={() => void save()}>
+                {saving ? 'Saving…' : id === null ? 'Register structure' : 'Save changes'}
+              </button>
+              {id !== null ? (
+                <button type="button" class="danger" onClick={() => void retire()}>
+                  Retire
+                </button>
+              ) : null}
+            </div>
+          ) : null}
+        </div>
+
+        <aside class="form-side" aria-labelledby="calc-h">
+          <h2 id="calc-h">Calculated</h2>
+          <Field id="sf-check" label="Check gust at the structure" unit={speedUnitLabels[unit]} error={checkGustMps === null ? 'must be a number' : checkGustMps > 120 ? 'at most 120 m/s' : undefined} help="Loads below are at this gust; it is also the design gust for the extra ballast. Air density: the site’s current value.">
+            <input id="sf-check" inputMode="decimal" value={checkGust} onInput={(e) => setCheckGust(e.currentTarget.value)} />
+          </Field>
+          <Results answer={answer} hasIssues={assessIssues.size > 0 || local.size > 0} unit={unit} />
+          {answer && record ? <SideView answer={answer} record={record} /> : null}
+        </aside>
+      </div>
+    </main>
+  );
+}
+
+function Results({ answer, hasIssues, unit }: { answer: AssessAnswer | null; hasIssues: boolean; unit: Parameters<typeof speed>[1] }) {
+  if (!answer) {
+    return <p class="unknown-box">{hasIssues ? 'Some fields need attention before the limit can be calculated (marked next to them once touched).' : 'Calculating…'}</p>;
+  }
+  const u = answer.utilization;
+  const util = (v: number | null, unbounded: boolean) => (unbounded ? 'unbounded (resistance gone)' : percent(v));
+  const rb = answer.requiredBallast;
+  return (
+    <div class="results" aria-live="polite">
+      <div class="limit-box">
+        <span class="fig-label">Limit gust</span>
+        <span class="limit-value" data-testid="limit-gust">
+          {answer.limitGustMps === null ? 'no limit found' : speed(answer.limitGustMps, unit)}
+        </span>
+        <span class="small">
+          {answer.limitGovernedBy === 'rated'
+            ? `the rated gust governs (calculated ${speed(answer.calculatedLimitGustMps, unit)})`
+            : `calculated: ${answer.calculatedLimit.criterion}, wind onto the ${answer.calculatedLimit.side}`}
+        </span>
+      </div>
+      <table class="kv">
+        <caption>At the check gust of {speed(answer.gustMps, unit)}</caption>
+        <tbody>
+          <tr>
+            <th scope="row">Dynamic pressure q</th>
+            <td>{quantity(answer.qPa, 'Pa', 0)}</td>
+          </tr>
+          <tr>
+            <th scope="row">Horizontal force</th>
+            <td>{kiloNewtons(answer.horizontalForceN)}</td>
+          </tr>
+          <tr>
+            <th scope="row">Uplift</th>
+            <td>{kiloNewtons(answer.upliftN)}</td>
+          </tr>
+          <tr>
+            <th scope="row">Overturning moment</th>
+            <td>{kiloNewtonMetres(answer.overturningMomentNm)}</td>
+          </tr>
+          <tr>
+            <th scope="row">Restoring moment</th>
+            <td>{kiloNewtonMetres(answer.restoringMomentNm)}</td>
+          </tr>
+          <tr>
+            <th scope="row">Utilization: overturning</th>
+            <td>{util(u.overturning, answer.unbounded.overturning)}</td>
+          </tr>
+          <tr>
+            <th scope="row">Utilization: sliding</th>
+            <td>{util(u.sliding, answer.unbounded.sliding)}</td>
+          </tr>
+          <tr>
+            <th scope="row">Utilization: uplift</th>
+            <td>{util(u.uplift, answer.unbounded.uplift)}</td>
+          </tr>
+          <tr class="strong-row">
+            <th scope="row">Governing</th>
+            <td>
+              {answer.governing}, wind onto the {answer.side}: {util(u.governing, answer.unbounded.governing)}
+            </td>
+          </tr>
+          <tr>
+            <th scope="row">Total mass</th>
+            <td>{quantity(answer.expanded.totalMassKg, 'kg', 0)}</td>
+          </tr>
+          <tr>
+            <th scope="row">Gust taken at</th>
+            <td>{quantity(answer.expanded.referenceHeightM, 'm', 2)}</td>
+          </tr>
+        </tbody>
+      </table>
+      {rb ? (
+        <p class={rb.massKg !== null && rb.massKg > 0 ? 'note-box' : 'ok-box'}>
+          {rb.massKg === null
+            ? `No extra mass at x = ${rb.xM.toFixed(2)} m can hold it at ${speed(rb.designGustMps, unit)}: put ballast elsewhere.`
+            : rb.massKg > 0
+              ? `Extra ballast for a design gust of ${speed(rb.designGustMps, unit)}: ${quantity(Math.ceil(rb.massKg), 'kg', 0)} at x = ${rb.xM.toFixed(2)} m (middle of the base).`
+              : `No extra ballast needed for a design gust of ${speed(rb.designGustMps, unit)}.`}
+        </p>
+      ) : null}
+      {answer.levels ? (
+        <table class="kv">
+          <caption>Levels for this structure</caption>
+          <tbody>
+            {answer.levels.map((l) => (
+              <tr>
+                <th scope="row">
+                  {l.level} · {l.label}
+                </th>
+                <td>{l.triggerGustMps === null ? 'no gust reaches it' : speed(l.triggerGustMps, unit)}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      ) : null}
+      <details>
+        <summary>Sources of the coefficients and assumptions</summary>
+        <ul class="sources">
+          {answer.sources.map((s) => (
+            <li>
+              <strong>{s.item}</strong> = {s.value}: {s.source}
+            </li>
+          ))}
+          {answer.notes.map((n) => (
+            <li>{n}</li>
+          ))}
+        </ul>
+      </details>
+    </div>
+  );
+}
+
+function CustomRows(props: { draft: Draft; update: (p: Partial<Draft>) => void; errorFor: (path: string) => string | undefined; touch: (path: string) => void }) {
+  const { draft, update, errorFor, touch } = props;
+  return (
+    <>
+      <fieldset class="rows-editor">
+        <legend>Wind-loaded faces</legend>
+        <p class="help">Each face: F = c_f · q · A at its centroid height. {faceColumns.map((c) => `${c.label}${c.unit ? ` (${c.unit})` : ''}: ${c.help}`).join(' ')}</p>
+        {errorFor('faces') ? <p class="field-error">{errorFor('faces')}</p> : null}
+        {draft.faces.map((f, i) => (
+          <div class="row-grid faces" key={i}>
+            {faceColumns.map((c) => {
+              const path = `faces.${i}.${c.key}`;
+              const err = errorFor(path);
+              return (
+                <div class={`field${err ? ' has-error' : ''}`}>
+                  <label for={`face-${i}-${c.key}`}>
+                    {c.label}
+                    {c.unit ? ` (${c.unit})` : ''}
+                  </label>
+                  <input
+                    id={`face-${i}-${c.key}`}
+                    inputMode={c.key === 'label' ? 'text' : 'decimal'}
+                    value={f[c.key]}
+                    onInput={(e) => {
+                      touch(path);
+                      update({ faces: draft.faces.map((x, j) => (j === i ? { ...x, [c.key]: e.currentTarget.value } : x)) });
+                    }}
+                  />
+                  {err ? <p class="field-error">{err}</p> : null}
+                </div>
+              );
+            })}
+            <button type="button" class="row-remove" aria-label={`Remove face ${i + 1}`} disabled={draft.faces.length <= 1} onClick={() => update({ faces: draft.faces.filter((_, j) => j !== i) })}>
+              Remove
+            </button>
+          </div>
+        ))}
+        <button type="button" onClick={() => update({ faces: [...draft.faces, { label: '', areaM2: '', centroidHeightM: '', cfFront: '', cfBack: '' }] })}>
+          Add a face
+        </button>
+      </fieldset>
+      <fieldset class="rows-editor">
+        <legend>Resisting masses</legend>
+        <p class="help">{massColumns.map((c) => `${c.label}${c.unit ? ` (${c.unit})` : ''}: ${c.help}`).join(' ')}</p>
+        {errorFor('masses') ? <p class="field-error">{errorFor('masses')}</p> : null}
+        {draft.masses.map((m, i) => (
+          <div class="row-grid masses" key={i}>
+            {massColumns.map((c) => {
+              const path = `masses.${i}.${c.key}`;
+              const err = errorFor(path);
+              return (
+                <div class={`field${err ? ' has-error' : ''}`}>
+                  <label for={`mass-${i}-${c.key}`}>
+                    {c.key === 'label' ? 'What' : c.label}
+                    {c.unit ? ` (${c.unit})` : ''}
+                  </label>
+                  <input
+                    id={`mass-${i}-${c.key}`}
+                    inputMode={c.key === 'label' ? 'text' : 'decimal'}
+                    value={m[c.key]}
+                    onInput={(e) => {
+                      touch(path);
+                      update({ masses: draft.masses.map((x, j) => (j === i ? { ...x, [c.key]: e.currentTarget.value } : x)) });
+                    }}
+                  />
+                  {err ? <p class="field-error">{err}</p> : null}
+                </div>
+              );
+            })}
+            <button type="button" class="row-remove" aria-label={`Remove mass ${i + 1}`} disabled={draft.masses.length <= 1} onClick={() => update({ masses: draft.masses.filter((_, j) => j !== i) })}>
+              Remove
+            </button>
+          </div>
+        ))}
+        <button type="button" onClick={() => update({ masses: [...draft.masses, { label: '', massKg: '', xM: '' }] })}>
+          Add a mass
+        </button>
+      </fieldset>
+      <label class="check">
+        <input type="checkbox" checked={draft.upliftOn} onChange={(e) => update({ upliftOn: e.currentTarget.checked })} />
+        Roof or canopy uplift
+      </label>
+      {draft.upliftOn ? (
+        <div class="grid2">
+          <Field id="sf-up-area" label="Plan area" unit="m²" error={errorFor('uplift.planAreaM2')} help="Area seen from above that the wind lifts; the uplift acts at the middle of the base.">
+            <input id="sf-up-area" inputMode="decimal" value={draft.uplift.planAreaM2} onInput={(e) => update({ uplift: { ...draft.uplift, planAreaM2: e.currentTarget.value } })} />
+          </Field>
+          <Field id="sf-up-c" label="Lift coefficient c_lift" error={errorFor('uplift.liftCoefficient')} help="Net upward force coefficient, ≥ 0 (downforce is never credited). Needs its source below.">
+            <input id="sf-up-c" inputMode="decimal" value={draft.uplift.liftCoefficient} onInput={(e) => update({ uplift: { ...draft.uplift, liftCoefficient: e.currentTarget.value } })} />
+          </Field>
+        </div>
+      ) : null}
+    </>
+  );
+}
