@@ -155,7 +155,13 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     void external.start().catch(() => undefined);
   } else {
     broker = new EmbeddedBroker({ host: config.mqttHost, port: config.mqttPort, topicPrefix: config.topicPrefix, registry, sink: pipeline, log, now });
-    await broker.start();
+    try {
+      await broker.start();
+    } catch (err) {
+      await broker.stop().catch(() => undefined);
+      sqlite.close();
+      throw err;
+    }
   }
 
   let tickRunning = false;

@@ -135,4 +135,8 @@ describe('the embedded broker', () => {
     expect(storedCount('roof-mast')).toBe(before);
     await expect(connect('roof-gw', otherPassword)).rejects.toThrow();
   });
+
+  it('stops the server with a message naming MQTT_PORT and MQTT_URL when its port is taken', async () => {
+    await expect(startTestServer({ MQTT_PORT: String(ts.server.mqttPort) })).rejects.toThrow(/MQTT_PORT.*MQTT_URL/s);
+  });
 });
