@@ -72,6 +72,14 @@ describe.skipIf(skip)('web app in a real browser', () => {
     await adminApi.call('POST', '/api/people', { username: steward.username, displayName: steward.displayName, role: 'viewer', password: steward.password });
     adminContext = await browser.newContext({ viewport: phone, acceptDownloads: true });
     adminContext.setDefaultTimeout(10_000);
+    // Count what the alarm does (no speaker or motor in a headless browser): oscillators started
+    // by the beep, and vibration patterns asked for.
+    await adminContext.addInitScript(`
+      window.__oscillators = 0; window.__vibrations = 0;
+      const create = AudioContext.prototype.createOscillator;
+      AudioContext.prototype.createOscillator = function () { window.__oscillators++; return create.call(this); };
+      Object.defineProperty(navigator, 'vibrate', { value: () => { window.__vibrations++; return true; } });
+    `);
     page = await adminContext.newPage();
   }, 60_000);
 
@@ -164,6 +172,11 @@ describe.skipIf(skip)('web app in a real browser', () => {
     await card.getByText('Below all levels').waitFor({ timeout: 10_000 });
     await expect(page.locator('.wind-now .big-figure .fig-value').textContent()).resolves.toBe('3.0');
 
+    // The alarm is switched on with a tap (browsers allow sound only after one).
+    await page.getByRole('button', { name: 'Alarm sound off' }).click();
+    await page.getByRole('button', { name: 'Alarm sound on' }).waitFor();
+    const before = (await page.evaluate('[window.__oscillators, window.__vibrations]')) as [number, number];
+
     // A gust 30 % above the limit: straight to the top level, with its alert on top.
     const gustMps = Math.round(limitGustMps * 1.3 * 10) / 10;
     await publish(Math.round((gustMps / 1.8) * 10) / 10, gustMps);
@@ -174,7 +187,16 @@ describe.skipIf(skip)('web app in a real browser', () => {
     await expect(alert.textContent()).resolves.toContain('Clear everyone out of the structure');
     // The card is the first on the board: worst first.
     await expect(page.locator('a.structure-card').first().textContent()).resolves.toContain(structureName);
+    // The alert sounded (three tones) and vibrated.
+    const after = (await page.evaluate('[window.__oscillators, window.__vibrations]')) as [number, number];
+    expect(after[0] - before[0]).toBeGreaterThanOrEqual(3);
+    expect(after[1] - before[1]).toBeGreaterThanOrEqual(1);
     await screenshot(page, 'board-alert-phone');
+    // On any other screen the unacknowledged alert is one tap from the board.
+    await page.goto(`${e2e.baseUrl}/#/log`);
+    await page.locator('.alert-strip', { hasText: `Alert: ${structureName} — Stop and clear` }).waitFor();
+    await page.locator('.alert-strip a').click();
+    await page.waitForURL(/#\/$/);
   }, 30_000);
 
   it('offers a viewer no Acknowledge button, and lets crew acknowledge with a note', async () => {

@@ -3,8 +3,8 @@
  * and a bottom bar reachable with one thumb. Signed out: the sign-in or first-start screen.
  */
 import { useEffect } from 'preact/hooks';
-import { keepScreenOn } from './alarm.ts';
-import { live, startLive, stopLive, type Connection } from './live.ts';
+import { keepScreenOn, signalAlert } from './alarm.ts';
+import { live, onAlert, startLive, stopLive, type Connection } from './live.ts';
 import { href, useRoute } from './router.ts';
 import { loadSite, site } from './site.ts';
 import { may, roleNames, session } from './session.ts';
@@ -51,6 +51,21 @@ function ConnectionPill() {
       {connectionText[state.connection]}
       {!ok && age !== null ? ` · data ${duration(age)} old` : ''}
     </span>
+  );
+}
+
+/** On every screen but the board: open alerts are one tap away. */
+function AlertStrip() {
+  const snap = useStore(live).snapshot;
+  const open = snap?.alerts.filter((a) => a.acknowledgedAtMs === null) ?? [];
+  if (open.length === 0) return null;
+  const first = open[0]!;
+  return (
+    <div class="alert-strip" role="alert">
+      <a href={href('/')}>
+        ⚠ {open.length === 1 ? `Alert: ${first.subject} — ${first.label}` : `${open.length} alerts to acknowledge (latest: ${first.subject} — ${first.label})`}. Open the board.
+      </a>
+    </div>
   );
 }
 
@@ -113,7 +128,15 @@ export function App() {
     if (!signedIn) return;
     startLive();
     void loadSite();
-    return () => stopLive();
+    // Sound and vibration for every alert raised or signalled again while it is unacknowledged,
+    // whichever screen is open.
+    const off = onAlert((a) => {
+      if (a.acknowledgedAtMs === null) signalAlert();
+    });
+    return () => {
+      off();
+      stopLive();
+    };
   }, [signedIn]);
 
   // The screen stays on while the live board (or a structure) is open.
@@ -160,6 +183,7 @@ export function App() {
           <span class="role">{roleNames[s.role]}</span>
         </a>
       </header>
+      {!onBoard ? <AlertStrip /> : null}
       <Screen />
       <nav class="tabs" aria-label="Screens">
         {tabs.map((t) => {

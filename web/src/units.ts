@@ -38,10 +38,11 @@ export function compassPoint(deg: number | null | undefined): string | null {
   return compassPoints[index]!;
 }
 
-/** A fraction as a whole percentage ("62 %"), or "unknown". */
+/** A fraction as a whole percentage ("62 %", "−71 %" with a true minus sign), or "unknown". */
 export function percent(fraction: number | null | undefined): string {
   if (fraction === null || fraction === undefined || !Number.isFinite(fraction)) return 'unknown';
-  return `${Math.round(fraction * 100)} %`;
+  const p = Math.round(fraction * 100);
+  return `${p < 0 ? '−' : ''}${Math.abs(p)} %`;
 }
 
 /** A number with its unit and a fixed number of decimals, or "—". */

@@ -45,6 +45,21 @@ export function faceExtents(record: Record<string, unknown>, faces: AssessAnswer
   }
 }
 
+const round3 = (v: number): number => Math.round(v * 1000) / 1000;
+
+/** Masses grouped by position (within 2 % of the base depth), heaviest first in each stack. */
+function massStacks(masses: AssessAnswer['expanded']['masses'], depthM: number): Array<{ xM: number; massesKg: number[] }> {
+  const stacks: Array<{ xM: number; massesKg: number[] }> = [];
+  for (const m of masses) {
+    if (m.massKg <= 0) continue;
+    const near = stacks.find((s) => Math.abs(s.xM - m.xM) <= 0.02 * depthM);
+    if (near) near.massesKg.push(m.massKg);
+    else stacks.push({ xM: m.xM, massesKg: [m.massKg] });
+  }
+  for (const s of stacks) s.massesKg.sort((a, b) => b - a);
+  return stacks;
+}
+
 export function SideView({ answer, record }: { answer: AssessAnswer; record: Record<string, unknown> }) {
   const ex = answer.expanded;
   const depth = ex.baseDepthM;
@@ -55,9 +70,9 @@ export function SideView({ answer, record }: { answer: AssessAnswer; record: Rec
   const spanM = Math.max(depth, topM * 0.9);
   // Drawing space in SVG units: a strip on top for the wind, the structure below, labels left.
   const W = 480;
-  const H = 400;
+  const H = 460;
   const left = 130;
-  const ground = H - 50;
+  const ground = H - 96;
   const skyTop = 70;
   const scale = Math.min((W - left - 60) / spanM, (ground - skyTop) / topM);
   const X = (m: number) => left + m * scale;
@@ -81,16 +96,16 @@ export function SideView({ answer, record }: { answer: AssessAnswer; record: Rec
         </defs>
         <rect x="0" y={ground} width={W} height="14" fill="url(#hatch-ground)" />
         <line x1="0" y1={ground} x2={W} y2={ground} class="sv-ground" />
-        {/* Base depth */}
-        <line x1={X(0)} y1={ground + 26} x2={X(depth)} y2={ground + 26} class="sv-dim" marker-start="url(#arrow-head)" marker-end="url(#arrow-head)" />
-        <text x={X(depth / 2)} y={ground + 40} text-anchor="middle" class="sv-text">
+        {/* Base depth; below it the edges, the tipping one named. */}
+        <line x1={X(0)} y1={ground + 52} x2={X(depth)} y2={ground + 52} class="sv-dim" marker-start="url(#arrow-head)" marker-end="url(#arrow-head)" />
+        <text x={X(depth / 2)} y={ground + 70} text-anchor="middle" class="sv-text small">
           base {depth.toFixed(2)} m
         </text>
-        <text x={X(0)} y={ground + 40} text-anchor="middle" class="sv-text small">
-          front
+        <text x={X(0)} y={ground + 90} text-anchor={windFromLeft ? 'middle' : 'start'} class={`sv-text small${windFromLeft ? '' : ' strong'}`}>
+          {windFromLeft ? 'front' : 'front: tipping edge'}
         </text>
-        <text x={X(depth)} y={ground + 40} text-anchor="middle" class="sv-text small">
-          back
+        <text x={X(depth)} y={ground + 90} text-anchor={windFromLeft ? 'end' : 'middle'} class={`sv-text small${windFromLeft ? ' strong' : ''}`}>
+          {windFromLeft ? 'back: tipping edge' : 'back'}
         </text>
         {/* Faces */}
         {ex.faces.map((f, i) => {
@@ -104,7 +119,12 @@ export function SideView({ answer, record }: { answer: AssessAnswer; record: Rec
           const xFace = windFromLeft ? x0 : x0 + w;
           return (
             <g key={i}>
-              <rect x={x0} y={Y(top)} width={w} height={Math.max(2, (top - bottom) * scale)} class={`sv-face sv-face-${i % 3}`} />
+              {record.kind === 'shell' ? (
+                // A quarter sphere seen from the side: its open face up the front edge, the curve to the back.
+                <path d={`M${X(0)} ${Y(bottom)} V${Y(top)} A${(top - bottom) * scale} ${(top - bottom) * scale} 0 0 1 ${X(top - bottom)} ${Y(bottom)} Z`} class={`sv-face sv-face-${i % 3}`} />
+              ) : (
+                <rect x={x0} y={Y(top)} width={w} height={Math.max(2, (top - bottom) * scale)} class={`sv-face sv-face-${i % 3}`} />
+              )}
               <line x1={windFromLeft ? xFace - len : xFace + len} y1={y} x2={xFace - (windFromLeft ? 2 : -2)} y2={y} class="sv-force" marker-end="url(#arrow-head)" />
               <text x={windFromLeft ? xFace - len : xFace + len} y={y - 7} text-anchor={windFromLeft ? 'start' : 'end'} class="sv-text small strong">
                 {kiloNewtons(forceN)}
@@ -115,26 +135,29 @@ export function SideView({ answer, record }: { answer: AssessAnswer; record: Rec
             </g>
           );
         })}
-        {/* Masses: block height ∝ √mass so a 10 t block does not hide a 100 kg one. */}
-        {ex.masses.map((m, i) => {
-          if (m.massKg <= 0) return null;
-          const h = 10 + 26 * Math.sqrt(m.massKg / maxMass);
+        {/* Masses: block height ∝ √mass so a 10 t block does not hide a 100 kg one; masses at one
+            position are stacked and labelled together. */}
+        {massStacks(ex.masses, depth).map((stack, i) => {
           const w = 26;
-          const cx = Math.min(Math.max(X(m.xM), X(0) + w / 2), X(depth) - w / 2);
+          const cx = Math.min(Math.max(X(stack.xM), X(0) + w / 2), X(depth) - w / 2);
+          let top = ground;
+          const blocks = stack.massesKg.map((kg, j) => {
+            const h = 8 + 22 * Math.sqrt(kg / maxMass);
+            top -= h;
+            return <rect key={j} x={cx - w / 2} y={top} width={w} height={h} class="sv-mass" />;
+          });
           return (
             <g key={`m${i}`}>
-              <rect x={cx - w / 2} y={ground - h} width={w} height={h} class="sv-mass" />
-              <text x={cx} y={ground - h - 4 - (i % 2) * 12} text-anchor="middle" class="sv-text small strong">
-                {Math.round(m.massKg).toLocaleString('en-GB')} kg
+              {blocks}
+              <line x1={cx} y1={ground} x2={cx} y2={ground + 18 + (i % 2) * 16} class="sv-dim" />
+              <text x={cx} y={ground + 32 + (i % 2) * 16} text-anchor={cx < X(depth / 4) ? 'start' : cx > X((3 * depth) / 4) ? 'end' : 'middle'} class="sv-text small strong">
+                {stack.massesKg.map((kg) => `${Math.round(kg).toLocaleString('en-GB')}`).join(' + ')} kg
               </text>
             </g>
           );
         })}
         {/* Tipping edge */}
         <path d={`M${X(tipX)} ${ground} l-9 14 h18 Z`} class="sv-tip" />
-        <text x={X(tipX) + (windFromLeft ? 12 : -12)} y={ground + 12} text-anchor={windFromLeft ? 'start' : 'end'} class="sv-text small strong">
-          tipping edge
-        </text>
         {/* Wind */}
         <g transform={windFromLeft ? '' : `translate(${W} 0) scale(-1 1)`}>
           <line x1="10" y1="26" x2="90" y2="26" class="sv-wind" marker-end="url(#arrow-head)" />
@@ -155,7 +178,7 @@ export function SideView({ answer, record }: { answer: AssessAnswer; record: Rec
           const cfWind = windFromLeft ? f.cfFront : f.cfBack;
           return (
             <li>
-              {f.label ?? `face ${i + 1}`}: {f.areaM2.toFixed(1)} m², c_f {cfWind}, at {f.centroidHeightM.toFixed(2)} m → {kiloNewtons(cfWind * answer.qPa * f.areaM2)}
+              {f.label ?? `face ${i + 1}`}: {f.areaM2.toFixed(1)} m², c_f {round3(cfWind)}, at {f.centroidHeightM.toFixed(2)} m → {kiloNewtons(cfWind * answer.qPa * f.areaM2)}
             </li>
           );
         })}

@@ -131,7 +131,8 @@ export function TimeChart(props: {
             stroke: cssVar(s.colorVar),
             width: s.width ?? 2,
             ...(s.dash ? { dash: s.dash } : {}),
-            ...(s.points ? { paths: () => null, points: { show: true, size: 5, fill: cssVar(s.colorVar) } } : { points: { show: false } }),
+            // Lines show their points only where data is sparse (uPlot's default), so a lone reading is visible.
+            ...(s.points ? { paths: () => null, points: { show: true, size: 5, fill: cssVar(s.colorVar) } } : {}),
             spanGaps: false,
             value: (_u, v) => s.format(v),
           }),

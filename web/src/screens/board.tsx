@@ -329,7 +329,7 @@ export function StructureCard({ s, sensors }: { s: StructureState; sensors: Sens
             last reading {duration(ageMs)} ago{governing ? ` · ${governing.name}` : ''}
           </span>
         )}
-        {s.level > 0 ? ` · at level ${s.level} since ${duration(nowMs - s.levelSinceMs)}` : ''} · at {s.referenceHeightM.toFixed(1)} m
+        {s.level > 0 ? ` · at level ${s.level} since ${duration(nowMs - s.levelSinceMs)}` : ''} · gust taken at {s.referenceHeightM.toFixed(1)} m
       </p>
     </a>
   );

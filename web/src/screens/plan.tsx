@@ -15,13 +15,20 @@ import { prefs } from '../prefs.ts';
 import { useTimeZone } from '../site.ts';
 import { useStore } from '../store.ts';
 import type { ForecastAnswer, StructureWithLive } from '../types.ts';
-import { compassPoint, dateTime, speed, speedNumber, speedUnitLabels, speedUnits, type SpeedUnit } from '../units.ts';
+import { compassPoint, dateTime, dayOf, speed, speedUnitLabels, speedUnits, type SpeedUnit } from '../units.ts';
 import { typedNumber } from '../register/structureDraft.ts';
 
-const example = `time,mean (km/h),gust (km/h),direction
-2026-06-13 12:00,22,38,SW
-2026-06-13 13:00,28,47,WSW
-2026-06-13 14:00,34,58,W`;
+/** An example table for tomorrow noon to 15:00 (site time), so it always lies ahead. */
+function exampleTable(timeZone: string): string {
+  const tomorrow = dayOf(Date.now() + 86_400_000, timeZone);
+  const rows = [
+    ['12:00', 22, 38, 'SW'],
+    ['13:00', 28, 47, 'WSW'],
+    ['14:00', 34, 58, 'W'],
+    ['15:00', 30, 51, 'W'],
+  ];
+  return ['time,mean (km/h),gust (km/h),direction', ...rows.map(([t, m, g, d]) => `${tomorrow} ${t},${m},${g},${d}`)].join('\n');
+}
 
 export function Plan() {
   const [tab, setTab] = useState<'forecast' | 'plan'>('forecast');
@@ -51,6 +58,7 @@ function ForecastCheck() {
   const [error, setError] = useState<string | null>(null);
   const [problems, setProblems] = useState<string[]>([]);
   const [busy, setBusy] = useState(false);
+  const example = exampleTable(tz);
 
   const check = async () => {
     setBusy(true);
@@ -159,7 +167,7 @@ function ForecastCheck() {
                             <LevelShape tone={tone} size={18} />
                             <span>{level === null ? 'unknown' : level === 0 ? 'below all' : `${level} · ${s.levels[level - 1]?.label ?? ''}`}</span>
                           </span>
-                          <span class="muted small">{p?.gustAtStructureMps != null ? speedNumber(p.gustAtStructureMps, unit) : ''}</span>
+                          <span class="muted small">{p?.gustAtStructureMps != null ? `gust here ${speed(p.gustAtStructureMps, unit)}` : ''}</span>
                         </td>
                       );
                     })}
