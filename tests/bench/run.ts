@@ -1,0 +1,338 @@
+/**
+ * `npm run bench`: the benchmarks of design.md section 6, each measured side by side with its
+ * baseline in one run, printed as one table with the target beside each figure and written as
+ * JSON to tests/artifacts/bench.json. Benchmarks are not tests: nothing here passes or fails a
+ * build; a figure that misses its target is marked MISS.
+ *
+ *   1 ingest throughput (embedded broker; Mosquitto when installed)   ingest.ts
+ *   2 reading → level change on the live stream                      latency.ts
+ *   3 log queries over a generated festival                           festival.ts
+ *   4 bytes per stored reading                                        festival.ts
+ *   5 resident memory of the server under load                        latency.ts
+ *   6 front-end JavaScript, gzipped                                   frontend.ts
+ *
+ * Environment (all optional; defaults keep the run to a few minutes on two cores, the first run
+ * longer while it generates the festival database, which is then cached):
+ *   BENCH_ONLY               comma list of ingest, latency, logs, frontend (default: all)
+ *   BENCH_SENSORS            anemometers on the benchmark site (100)
+ *   BENCH_STRUCTURES         registered structures (1000)
+ *   BENCH_GATEWAYS           gateway connections of the publisher (4)
+ *   BENCH_INGEST_READINGS    readings per timed ingest burst (30000)
+ *   BENCH_INGEST_REPEATS     interleaved repeats of each ingest run; the best of each counts (2)
+ *   BENCH_INFLIGHT           QoS 1 publishes awaiting PUBACK per gateway connection (50)
+ *   BENCH_MOSQUITTO          0 skips the Mosquitto runs (default: run them when `mosquitto` is installed)
+ *   BENCH_LATENCY_CHANGES    level changes timed on the live stream (200)
+ *   BENCH_BACKGROUND_PER_S   background readings per second during the latency run (200)
+ *   BENCH_MEMORY_BURST       readings of the full-speed burst during the memory measurement (30000)
+ *   BENCH_FESTIVAL_SENSORS, BENCH_FESTIVAL_DAYS, BENCH_FESTIVAL_HZ   the generated log (10, 6, 1)
+ *   BENCH_QUERY_REPS, BENCH_FULLSCAN_REPS                            timed repetitions (10, 3)
+ *   BENCH_PROFILE=1          server processes write CPU profiles to tests/artifacts/profiles/
+ *                            (read them with tests/bench/profileSummary.ts)
+ *   BENCH_MEMORY_TRACE=1     the latency server appends process.memoryUsage() to
+ *                            tests/artifacts/bench-memory.jsonl every 500 ms (=gc: every 2 s after
+ *                            a forced full collection, to see the live heap; slows the server)
+ *   BENCH_KEEP=1             keep the servers' data folders in tests/artifacts/bench-work/
+ *
+ * Ports: 127.0.0.1 and ephemeral ports only.
+ */
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { performance } from 'node:perf_hooks';
+import { spawnServer } from '../helpers/serverProcess.ts';
+import { hasBinary, procMemoryKb, sleep } from './common.ts';
+import { festivalDatabase, measureStorage, timeLogQueries, type QueryTiming, type StorageResult } from './festival.ts';
+import { writeTemplate, type Fleet } from './fleet.ts';
+import { measureFrontend, type FrontendResult } from './frontend.ts';
+import { runBreakdown, type BreakdownResult } from './breakdown.ts';
+import { runIngest, stopGracefully, type IngestResult } from './ingest.ts';
+import { runLatency, type LatencyResult } from './latency.ts';
+
+const env = process.env;
+const num = (name: string, fallback: number): number => {
+  const raw = env[name];
+  if (raw === undefined || raw === '') return fallback;
+  const v = Number(raw);
+  if (!Number.isFinite(v) || v <= 0) throw new Error(`${name} must be a positive number, got "${raw}"`);
+  return v;
+};
+
+const only = new Set((env.BENCH_ONLY ?? 'ingest,latency,logs,frontend').split(',').map((s) => s.trim()).filter(Boolean));
+const artifacts = path.resolve('tests/artifacts');
+const workDir = path.join(artifacts, 'bench-work');
+const profileDir = path.join(artifacts, 'profiles');
+const jsonFile = path.join(artifacts, 'bench.json');
+
+const settings = {
+  sensors: num('BENCH_SENSORS', 100),
+  structures: num('BENCH_STRUCTURES', 1000),
+  gateways: num('BENCH_GATEWAYS', 4),
+  ingestReadings: num('BENCH_INGEST_READINGS', 30_000),
+  ingestRepeats: num('BENCH_INGEST_REPEATS', 2),
+  inflight: num('BENCH_INFLIGHT', 50),
+  mosquitto: env.BENCH_MOSQUITTO === '0' ? false : hasBinary('mosquitto'),
+  latencyChanges: num('BENCH_LATENCY_CHANGES', 200),
+  backgroundPerS: num('BENCH_BACKGROUND_PER_S', 200),
+  memoryBurst: num('BENCH_MEMORY_BURST', 30_000),
+  festival: { sensors: num('BENCH_FESTIVAL_SENSORS', 10), days: num('BENCH_FESTIVAL_DAYS', 6), hz: num('BENCH_FESTIVAL_HZ', 1), seed: 20260612, startMs: Date.UTC(2026, 5, 8) },
+  queryReps: num('BENCH_QUERY_REPS', 10),
+  fullScanReps: num('BENCH_FULLSCAN_REPS', 3),
+  profile: env.BENCH_PROFILE === '1',
+  memoryTrace: env.BENCH_MEMORY_TRACE === '1' || env.BENCH_MEMORY_TRACE === 'gc',
+  seed: 20260614,
+  /** Mean wind at 10 m of the simulated readings, m/s: a breezy day that leaves the site calm. */
+  baseMeanMps: 4.5,
+};
+
+function serverEnv(extra: Record<string, string> = {}): Record<string, string> {
+  const hooks = settings.profile || Object.keys(extra).length > 0;
+  if (!hooks) return {};
+  return {
+    NODE_OPTIONS: `--import tsx --import ${path.resolve('tests/bench/serverHook.ts')}${env.BENCH_MEMORY_TRACE === 'gc' ? ' --expose-gc' : ''}`,
+    ...(settings.profile ? { BENCH_PROFILE_DIR: profileDir } : {}),
+    ...extra,
+  };
+}
+
+const log = (line: string): void => console.log(line);
+
+interface Row {
+  what: string;
+  measured: string;
+  target: string;
+  verdict: 'ok' | 'MISS' | 'info' | 'n/a';
+}
+
+const rows: Row[] = [];
+const mb = (kb: number): string => `${(kb / 1024).toFixed(0)} MB`;
+const ms = (v: number): string => (v >= 100 ? v.toFixed(0) : v >= 10 ? v.toFixed(1) : v.toFixed(2));
+
+async function memoryContext(): Promise<{ nodeTsxIdleKb: number; emptyServerKb: number }> {
+  // What the runtime costs before any register: node with tsx's loader, and the server with nothing registered.
+  const { spawn } = await import('node:child_process');
+  const idle = spawn(process.execPath, ['--import', 'tsx', '--eval', 'setInterval(() => {}, 1000)'], { stdio: 'ignore' });
+  await sleep(2_000);
+  const nodeTsxIdleKb = procMemoryKb(idle.pid!)?.rssKb ?? 0;
+  idle.kill('SIGKILL');
+  const dir = path.join(workDir, 'empty-server');
+  fs.rmSync(dir, { recursive: true, force: true });
+  const server = await spawnServer({ DATA_DIR: dir, MQTT_PORT: '0' }, 60_000);
+  await sleep(2_000);
+  const emptyServerKb = procMemoryKb(server.proc.pid!)?.rssKb ?? 0;
+  await stopGracefully(server);
+  return { nodeTsxIdleKb, emptyServerKb };
+}
+
+async function main(): Promise<void> {
+  const started = performance.now();
+  fs.mkdirSync(artifacts, { recursive: true });
+  fs.rmSync(workDir, { recursive: true, force: true });
+  fs.mkdirSync(workDir, { recursive: true });
+  if (settings.profile) fs.rmSync(profileDir, { recursive: true, force: true });
+  log(`holdfast benchmarks — ${os.cpus().length} × ${os.cpus()[0]?.model ?? 'cpu'}, node ${process.version}, ${new Date().toISOString()}`);
+
+  const result: {
+    settings: typeof settings;
+    machine: { cpus: number; model: string; memMb: number; node: string };
+    fleet?: Omit<Fleet, 'gateways' | 'sensors'> & { sensors: number; gateways: number };
+    ingest?: IngestResult;
+    breakdown?: BreakdownResult;
+    latency?: LatencyResult;
+    loadAverage: Record<string, number[]>;
+    memoryContext?: { nodeTsxIdleKb: number; emptyServerKb: number };
+    festival?: { readings: number; generatedSeconds: number | null; cached: boolean };
+    logQueries?: QueryTiming[];
+    storage?: StorageResult;
+    frontend?: FrontendResult;
+    rows: Row[];
+    seconds: number;
+  } = {
+    settings,
+    machine: { cpus: os.cpus().length, model: os.cpus()[0]?.model ?? '', memMb: Math.round(os.totalmem() / 2 ** 20), node: process.version },
+    rows,
+    seconds: 0,
+    loadAverage: {},
+  };
+  // Other work on the machine shows in every timing: the 1-minute load average is kept per section.
+  const load = (section: string): void => {
+    const l = os.loadavg().map((v) => Math.round(v * 100) / 100);
+    result.loadAverage[section] = l;
+    log(`  (load average ${l.join(' ')} on ${os.cpus().length} cores)`);
+  };
+
+  let fleet: Fleet | null = null;
+  const templateDir = path.join(workDir, 'template');
+  if (only.has('ingest') || only.has('latency')) {
+    log(`\nregister: ${settings.sensors} sensors, ${settings.gateways} gateways, ${settings.structures} structures …`);
+    fleet = await writeTemplate({ dir: templateDir, sensors: settings.sensors, gateways: settings.gateways, structures: settings.structures, seed: settings.seed, minFirstTriggerMps: 14 });
+    result.fleet = { structures: fleet.structures, minFirstTriggerMps: fleet.minFirstTriggerMps, kinds: fleet.kinds, sensors: fleet.sensors.length, gateways: fleet.gateways.length };
+    log(`  kinds ${JSON.stringify(fleet.kinds)}, lowest first-level trigger ${fleet.minFirstTriggerMps.toFixed(1)} m/s`);
+  }
+
+  // 1. ingest throughput
+  if (only.has('ingest') && fleet) {
+    log(`\n1. ingest throughput: ${settings.ingestReadings} readings per burst, ${settings.gateways} gateway connections × ${settings.inflight} in flight, ${settings.ingestRepeats} repeat(s)${settings.mosquitto ? '' : ' (Mosquitto not installed or BENCH_MOSQUITTO=0: embedded broker only)'}`);
+    const ingest = await runIngest({
+      templateDir,
+      workDir,
+      fleet,
+      readings: settings.ingestReadings,
+      warmupReadings: 2_000,
+      inflight: settings.inflight,
+      stepMs: 25,
+      seed: settings.seed,
+      baseMeanMps: settings.baseMeanMps,
+      repeats: settings.ingestRepeats,
+      mosquitto: settings.mosquitto,
+      serverEnv: serverEnv(),
+      log,
+    });
+    result.ingest = ingest;
+    const e = ingest.embedded;
+    rows.push({
+      what: '1 ingest, embedded broker: server ÷ bare aedes (hook only counts)',
+      measured: `${Math.round(e.serverPerS)} / ${Math.round(e.bareHookPerS)} readings/s = ${e.ratio.toFixed(2)}`,
+      target: '≥ 0.70',
+      verdict: e.ratio >= 0.7 ? 'ok' : 'MISS',
+    });
+    rows.push({
+      what: '  same server ÷ aedes + counting mqtt.js subscriber',
+      measured: `${Math.round(e.serverPerS)} / ${Math.round(e.bareSubscriberPerS)} readings/s = ${e.ratioToSubscriber.toFixed(2)}`,
+      target: '(info)',
+      verdict: 'info',
+    });
+    if (ingest.mosquitto) {
+      const m = ingest.mosquitto;
+      rows.push({
+        what: '1 ingest, Mosquitto: server ÷ counting mqtt.js subscriber',
+        measured: `${Math.round(m.serverPerS)} / ${Math.round(m.barePerS)} readings/s = ${m.ratio.toFixed(2)}`,
+        target: '≥ 0.70',
+        verdict: m.ratio >= 0.7 ? 'ok' : 'MISS',
+      });
+    } else rows.push({ what: '1 ingest, Mosquitto', measured: 'not run (no mosquitto binary)', target: '≥ 0.70', verdict: 'n/a' });
+    load('ingest');
+    const breakdown = runBreakdown({ templateDir, workDir, fleet, readings: 20_000, naturalGroup: 100, seed: settings.seed, baseMeanMps: settings.baseMeanMps });
+    result.breakdown = breakdown;
+    const commits = breakdown.commitUs.map((c) => `${c.us.toFixed(1)} µs at ${c.perCommit}/commit`).join(', ');
+    log(`  in-process, per reading: parse ${breakdown.parseUs.toFixed(1)} µs, watch ${breakdown.takeUs.toFixed(1)} µs (${(100 * breakdown.slowTakeShare).toFixed(1)} % of readings move the site's highest gust and take ${breakdown.slowTakeMeanUs.toFixed(0)} µs re-assessing the structures; the rest ${breakdown.fastTakeMeanUs.toFixed(1)} µs), commit ${commits}`);
+    rows.push({
+      what: '  in-process µs/reading: parse + watch + commit (1 | 100 | 1000 per commit)',
+      measured: `${breakdown.parseUs.toFixed(1)} + ${breakdown.takeUs.toFixed(1)} + ${breakdown.commitUs.map((c) => c.us.toFixed(1)).join(' | ')}`,
+      target: '(info)',
+      verdict: 'info',
+    });
+    const late = ingest.runs.filter((r) => r.stored).reduce((n, r) => n + (r.stored!.late + r.stored!.noDataEvents), 0);
+    if (late > 0) log(`  WARNING: ${late} readings were late or structures lost data during ingest runs: not every reading was assessed live`);
+  }
+
+  // 2 and 5. latency and memory
+  if (only.has('latency') && fleet) {
+    log(`\n2 and 5. level change on the live stream (${settings.latencyChanges} changes, ${settings.backgroundPerS} readings/s background) and resident memory`);
+    const memoryFile = path.join(artifacts, 'bench-memory.jsonl');
+    if (settings.memoryTrace) fs.rmSync(memoryFile, { force: true });
+    const latency = await runLatency({
+      templateDir,
+      workDir,
+      fleet,
+      changes: settings.latencyChanges,
+      backgroundPerS: settings.backgroundPerS,
+      burstReadings: settings.memoryBurst,
+      inflight: settings.inflight,
+      seed: settings.seed + 7,
+      baseMeanMps: settings.baseMeanMps,
+      serverEnv: serverEnv(settings.memoryTrace ? { BENCH_MEMORY_FILE: memoryFile } : {}),
+      log,
+    });
+    result.latency = latency;
+    load('latency');
+    log(`  probe triggers ${latency.probeTriggersMps.map((t) => t.toFixed(2)).join(' / ')} m/s, published ${latency.probeHighMps.toFixed(2)} ↔ ${latency.probeLowMps.toFixed(2)} m/s (other structures' lowest first trigger ${latency.othersMinFirstTriggerMps.toFixed(2)} m/s)`);
+    log(`  ${latency.changes} changes timed (${latency.missed} missed): p50 ${ms(latency.p50Ms)} ms, p90 ${ms(latency.p90Ms)} ms, p99 ${ms(latency.p99Ms)} ms, max ${ms(latency.maxMs)} ms (up p99 ${ms(latency.upP99Ms)}, down p99 ${ms(latency.downP99Ms)})`);
+    log(`  background: ${latency.backgroundPerS.toFixed(0)} readings/s published (${latency.backgroundSkipped} skipped: a gateway had ${settings.inflight} unacknowledged)`);
+    log(`  live stream: ${(latency.stream.bytesPerS / 1024).toFixed(0)} kB/s to one client; events/s ${JSON.stringify(latency.stream.eventsPerS)}`);
+    log(`  memory: ${mb(latency.memory.startedRssKb)} after start, max ${mb(latency.memory.latencyPhase.maxRssKb)} during the latency phase, max ${mb(latency.memory.burst.maxRssKb)} during a full-speed burst of ${latency.memory.burst.readings} readings, VmHWM ${mb(latency.memory.hwmKb)}`);
+    rows.push({
+      what: '2 reading → level change on the live stream',
+      measured: `p50 ${ms(latency.p50Ms)} ms, p99 ${ms(latency.p99Ms)} ms (n=${latency.changes}, ${latency.backgroundPerS.toFixed(0)}/s bg)`,
+      target: 'p99 ≤ 50 ms',
+      verdict: latency.p99Ms <= 50 && latency.missed === 0 ? 'ok' : 'MISS',
+    });
+    const context = await memoryContext();
+    result.memoryContext = context;
+    log(`  for comparison: node + tsx idle ${mb(context.nodeTsxIdleKb)}, server with an empty register ${mb(context.emptyServerKb)}`);
+    const maxRss = Math.max(latency.memory.latencyPhase.maxRssKb, latency.memory.burst.maxRssKb);
+    rows.push({
+      what: `5 resident memory (${fleet.sensors.length} sensors, ${fleet.structures} structures, under load)`,
+      measured: `max VmRSS ${mb(maxRss)} (${mb(latency.memory.latencyPhase.maxRssKb)} at ${settings.backgroundPerS}/s, ${mb(latency.memory.burst.maxRssKb)} in a burst)`,
+      target: '≤ 200 MB',
+      verdict: maxRss <= 200 * 1024 ? 'ok' : 'MISS',
+    });
+    rows.push({ what: '  for comparison: node + tsx idle / server, empty register', measured: `${mb(context.nodeTsxIdleKb)} / ${mb(context.emptyServerKb)}`, target: '(info)', verdict: 'info' });
+  }
+
+  // 3 and 4. log queries and storage
+  if (only.has('logs')) {
+    const f = settings.festival;
+    log(`\n3 and 4. log queries and storage: festival of ${f.sensors} sensors × ${f.days} days at ${f.hz} Hz`);
+    const festival = await festivalDatabase(path.join(artifacts, 'bench-festival'), f, log);
+    result.festival = { readings: festival.readings, generatedSeconds: festival.generatedSeconds, cached: festival.cached };
+    log(`  ${festival.readings} readings ${festival.cached ? `(cached in ${path.relative(process.cwd(), festival.file)})` : `generated in ${festival.generatedSeconds?.toFixed(1)} s`}`);
+    const queries = timeLogQueries(festival.file, f, settings.queryReps, settings.fullScanReps);
+    result.logQueries = queries;
+    load('logs');
+    for (const q of queries) {
+      log(`  ${q.window}: windSeries ${ms(q.indexedMedianMs)} ms median (max ${ms(q.indexedMaxMs)}), ${q.points} points from ${q.rowsScanned} ${q.source === 'minutes' ? 'minute rollups' : 'raw readings'}; full scan ${ms(q.fullScanMedianMs)} ms (${q.speedUp.toFixed(0)}×); with integer buckets ${q.integerBuckets.points} points in ${ms(q.integerBuckets.medianMs)} ms (max ${ms(q.integerBuckets.maxMs)})`);
+      rows.push({
+        what: `3 log query, ${q.window}`,
+        measured: `${ms(q.indexedMedianMs)} ms (max ${ms(q.indexedMaxMs)}), ${q.points} pts; full scan ${ms(q.fullScanMedianMs)} ms`,
+        target: '≤ 100 ms, ≤ 2,000 pts',
+        verdict: q.indexedMaxMs <= 100 && q.points <= 2_000 ? 'ok' : 'MISS',
+      });
+    }
+    rows.push({
+      what: '  same queries, integer bucket division (bench copy of the SQL)',
+      measured: `${queries.map((q) => ms(q.integerBuckets.medianMs)).join(' / ')} ms (max ${ms(Math.max(...queries.map((q) => q.integerBuckets.maxMs)))}), ≤ ${Math.max(...queries.map((q) => q.integerBuckets.points))} pts`,
+      target: '(info)',
+      verdict: 'info',
+    });
+    const storage = measureStorage(festival.file);
+    result.storage = storage;
+    for (const t of storage.tables.slice(0, 4)) log(`  dbstat ${t.name}: ${(t.bytes / 2 ** 20).toFixed(1)} MiB in ${t.pages} pages${t.rows !== null ? `, ${t.rows} rows` : ''}`);
+    rows.push({
+      what: '4 storage per stored reading (file + WAL after checkpoint)',
+      measured: `${storage.bytesPerReading.toFixed(1)} B (readings table ${storage.readingsTableBytesPerReading?.toFixed(1) ?? '?'} B)`,
+      target: '≤ 40 B',
+      verdict: storage.bytesPerReading <= 40 ? 'ok' : 'MISS',
+    });
+  }
+
+  // 6. front end
+  if (only.has('frontend')) {
+    const fe = measureFrontend();
+    result.frontend = fe;
+    rows.push({
+      what: '6 front-end JS, gzipped (web/dist/assets/*.js)',
+      measured: fe.built ? `${(fe.totalGzipBytes / 1024).toFixed(1)} kB gz (${(fe.totalBytes / 1024).toFixed(0)} kB raw, ${fe.files.length} files)` : 'not built',
+      target: '≤ 150 kB',
+      verdict: fe.built ? (fe.totalGzipBytes <= 150 * 1024 ? 'ok' : 'MISS') : 'n/a',
+    });
+  }
+
+  result.seconds = (performance.now() - started) / 1000;
+  const w = [Math.max(...rows.map((r) => r.what.length), 4), Math.max(...rows.map((r) => r.measured.length), 8), Math.max(...rows.map((r) => r.target.length), 6)];
+  const line = (a: string, b: string, c: string, d: string): string => `${a.padEnd(w[0]!)} │ ${b.padEnd(w[1]!)} │ ${c.padEnd(w[2]!)} │ ${d}`;
+  log('');
+  log(line('what', 'measured', 'target', ''));
+  log(`${'─'.repeat(w[0]!)}─┼─${'─'.repeat(w[1]!)}─┼─${'─'.repeat(w[2]!)}─┼─────`);
+  for (const r of rows) log(line(r.what, r.measured, r.target, r.verdict));
+  log(`\n${result.seconds.toFixed(0)} s; JSON in ${path.relative(process.cwd(), jsonFile)}${settings.profile ? `; CPU profiles in ${path.relative(process.cwd(), profileDir)}` : ''}`);
+  fs.writeFileSync(jsonFile, JSON.stringify(result, null, 2));
+  if (env.BENCH_KEEP !== '1') fs.rmSync(workDir, { recursive: true, force: true });
+}
+
+main().then(
+  () => process.exit(0),
+  (err: unknown) => {
+    console.error(err instanceof Error ? (err.stack ?? err.message) : String(err));
+    process.exit(1);
+  },
+);
