@@ -10,7 +10,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { chromium, type Browser, type Page } from 'playwright-core';
 import { configFromEnv } from '../../server/config.ts';
-import { createLogger } from '../../server/log.ts';
+import { createLogger, type Logger } from '../../server/log.ts';
 import { startServer, type RunningServer } from '../../server/runtime.ts';
 
 export const chromiumPath = '/usr/bin/chromium';
@@ -26,12 +26,39 @@ function newestMtimeMs(entry: string): number {
   return Math.max(stat.mtimeMs, ...fs.readdirSync(entry).map((name) => newestMtimeMs(path.join(entry, name))));
 }
 
-/** Builds web/dist when it is missing or older than web/src, web/index.html or vite.config.ts. */
-export function ensureWebBuilt(): void {
+function webIsStale(): boolean {
   const sources = ['web/src', 'web/index.html', 'web/public', 'vite.config.ts'].map((p) => path.resolve(p)).filter((p) => fs.existsSync(p));
   const newest = Math.max(...sources.map(newestMtimeMs));
-  if (fs.existsSync(distIndex) && fs.statSync(distIndex).mtimeMs >= newest) return;
-  execFileSync(process.execPath, [path.resolve('node_modules/vite/bin/vite.js'), 'build', '--logLevel', 'warn'], { stdio: 'inherit' });
+  return !fs.existsSync(distIndex) || fs.statSync(distIndex).mtimeMs < newest;
+}
+
+const sleepMs = (ms: number): void => void Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, ms);
+
+/**
+ * Builds web/dist when it is missing or older than web/src, web/index.html or vite.config.ts.
+ * Test files run in parallel processes: a lock file lets one build while the others wait, so no
+ * server ever serves a half-emptied dist folder.
+ */
+export function ensureWebBuilt(): void {
+  if (!webIsStale()) return;
+  const lock = path.resolve('web/.build.lock');
+  const deadline = Date.now() + 120_000;
+  for (;;) {
+    try {
+      fs.writeFileSync(lock, String(process.pid), { flag: 'wx' });
+      break;
+    } catch {
+      // Another test process is building: wait for it, then check again.
+      if (Date.now() > deadline) throw new Error(`web build lock ${lock} held for 2 minutes: remove it if no build is running`);
+      sleepMs(200);
+      if (!fs.existsSync(lock) && !webIsStale()) return;
+    }
+  }
+  try {
+    if (webIsStale()) execFileSync(process.execPath, [path.resolve('node_modules/vite/bin/vite.js'), 'build', '--logLevel', 'warn'], { stdio: 'inherit' });
+  } finally {
+    fs.rmSync(lock, { force: true });
+  }
 }
 
 export async function launchBrowser(): Promise<Browser> {
@@ -48,7 +75,8 @@ export interface E2eServer {
   stop(): Promise<void>;
 }
 
-export async function startE2eServer(admin: { username: string; password: string }): Promise<E2eServer> {
+/** A fresh server; without `admin` nobody exists yet and the server logs a one-time setup code. */
+export async function startE2eServer(admin: { username: string; password: string } | null, log: Logger = createLogger('warn')): Promise<E2eServer> {
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'holdfast-e2e-'));
   const config = configFromEnv({
     DATA_DIR: dataDir,
@@ -56,10 +84,9 @@ export async function startE2eServer(admin: { username: string; password: string
     HOST: '127.0.0.1',
     MQTT_PORT: '0',
     MQTT_HOST: '127.0.0.1',
-    ADMIN_USERNAME: admin.username,
-    ADMIN_PASSWORD: admin.password,
+    ...(admin ? { ADMIN_USERNAME: admin.username, ADMIN_PASSWORD: admin.password } : {}),
   });
-  const server = await startServer(config, createLogger('warn'), { staticRoot: path.resolve('web/dist') });
+  const server = await startServer(config, log, { staticRoot: path.resolve('web/dist') });
   return {
     server,
     baseUrl: `http://127.0.0.1:${server.httpPort}`,

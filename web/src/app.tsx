@@ -179,7 +179,7 @@ export function App() {
         </div>
         <ConnectionPill />
         <a class="who" href={href('/more')} title="Preferences and sign out">
-          {s.name.replace(/ \(.*\)$/, '')}
+          {s.person ? s.person.displayName : s.name}
           <span class="role">{roleNames[s.role]}</span>
         </a>
       </header>

@@ -44,7 +44,7 @@ export function LevelsEditor(props: {
                 <div class="input-with-unit">
                   <input id={`${id}-value`} inputMode="decimal" value={l.value} onInput={(e) => set(i, { value: e.currentTarget.value })} />
                   <select aria-label={`Level ${i + 1} trigger kind`} value={l.kind} onChange={(e) => set(i, { kind: e.currentTarget.value as LevelRowDraft['kind'] })}>
-                    <option value="utilization">% of load capacity</option>
+                    <option value="utilization">% of capacity</option>
                     <option value="gust">{speedUnitLabels[unit]} gust</option>
                   </select>
                 </div>

@@ -34,7 +34,8 @@ export function More() {
       <section class="panel" aria-labelledby="who-h">
         <h2 id="who-h">Signed in</h2>
         <p>
-          <strong>{s.name}</strong> — {roleNames[s.role]}
+          <strong>{s.person ? s.person.displayName : s.name}</strong>
+          {s.person ? <span class="muted"> (username {s.person.username})</span> : null} — {roleNames[s.role]}
           {s.kind === 'link' ? ' (site link: read-only board and log)' : ''}
         </p>
         <div class="row">

@@ -15,7 +15,7 @@ import { may, session } from '../session.ts';
 import { useTimeZone } from '../site.ts';
 import { useStore } from '../store.ts';
 import type { GatewayView, SensorView } from '../types.ts';
-import { dateTime, duration, speed, speedUnitLabels, speedUnits, type SpeedUnit } from '../units.ts';
+import { beaufortText, dateTime, duration, speedUnitLabels, speedUnits, type SpeedUnit } from '../units.ts';
 import { plainMessage, typedNumber } from '../register/structureDraft.ts';
 
 export function Sensors() {
@@ -87,7 +87,7 @@ function SensorCard({ s, canEdit, onEdit }: { s: SensorView; canEdit: boolean; o
           </dd>
         </div>
         <div>
-          <dt>Mean (10 min)</dt>
+          <dt>Mean (10 min){l?.mean10minMps != null ? ` · ${beaufortText(l.mean10minMps)}` : ''}</dt>
           <dd class={trouble ? 'struck' : ''}>
             <SpeedValue mps={l?.mean10minMps} unit={unit} />
           </dd>
