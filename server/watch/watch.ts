@@ -156,6 +156,8 @@ export interface StructureState {
   evaluatedAtMs: number | null;
   error: string | null;
   mobile: boolean;
+  /** The sensors whose wind governs it; null = every sensor on the site. */
+  sensorKeys: string[] | null;
   /**
    * Mobile structures: the highest travel speed with the face raised in the current gust, heading
    * straight into the wind (the worst case; design.md 2.2), m/s; null when not mobile or unknown.
@@ -167,6 +169,8 @@ export interface SensorState {
   key: string;
   name: string;
   heightM: number;
+  /** The sensor's own silence timeout, ms: a screen whose stream dropped can judge staleness itself. */
+  silenceTimeoutMs: number;
   currentGustMps: number | null;
   peakGust10minMps: number | null;
   mean10minMps: number | null;
@@ -833,6 +837,7 @@ export class Watch implements ReadingConsumer {
       evaluatedAtMs: s.evaluatedAtMs,
       error: s.error,
       mobile: m.mobile,
+      sensorKeys: m.sensorKeys === null ? null : [...m.sensorKeys],
       highestTravelSpeedMps:
         m.mobile && s.gustMps !== null && !s.level.noData && Number.isFinite(s.density.limitGustMps)
           ? highestTravelSpeedMps({ limitGustMps: s.density.limitGustMps, gustMps: Math.min(s.gustMps, 120), windFromDeg: null, headingDeg: null }).speedMps
@@ -853,6 +858,7 @@ export class Watch implements ReadingConsumer {
       key: s.sensor.key,
       name: s.sensor.name,
       heightM: s.sensor.heightM,
+      silenceTimeoutMs: s.sensor.silenceTimeoutMs,
       currentGustMps: snap.currentGustMps,
       peakGust10minMps: snap.peakGust10minMps,
       mean10minMps: snap.mean10minMps,
