@@ -262,6 +262,20 @@ describe.skipIf(skip)('web app in a real browser', () => {
     await expect(page.getByText('Treat the wind as unknown until this goes away.').count()).resolves.toBe(0);
   }, 40_000);
 
+  it('shows speeds in the unit chosen on this device, with the choice kept across a reload', async () => {
+    await page.goto(`${e2e.baseUrl}/#/more`);
+    await page.getByLabel('km/h').check();
+    await page.goto(`${e2e.baseUrl}/#/`);
+    const limit = page.locator('a.structure-card', { hasText: structureName }).locator('dd').nth(2);
+    await expect.poll(() => limit.textContent()).toBe(`${(limitGustMps * 3.6).toFixed(0)} km/h`);
+    await page.reload();
+    await expect.poll(() => limit.textContent()).toBe(`${(limitGustMps * 3.6).toFixed(0)} km/h`);
+    await page.goto(`${e2e.baseUrl}/#/more`);
+    await page.getByLabel('m/s').check();
+    await page.goto(`${e2e.baseUrl}/#/`);
+    await expect.poll(() => limit.textContent()).toBe(`${limitGustMps.toFixed(1)} m/s`);
+  });
+
   it('has no serious or critical axe-core violations on the main screens, and writes their screenshots', async () => {
     const screens: Array<[string, string, string]> = [
       ['board', '/', 'a.structure-card'],
