@@ -150,9 +150,10 @@ describe.skipIf(skip)('web app in a real browser', () => {
     await page.locator('svg[aria-label^="Side view"]').waitFor();
     await screenshot(page, 'register-form-phone');
     await page.getByRole('button', { name: 'Register structure' }).click();
-    await page.waitForURL(/#\/register\/\d+$/);
-    structureId = Number(page.url().split('/').pop());
-    await page.getByText(`Saved “${structureName}”`).waitFor();
+    await page.waitForURL(/#\/register\/\d+\?saved=1$/);
+    structureId = Number(/register\/(\d+)/.exec(page.url())![1]);
+    await page.getByText('Saved. It is on the live board now.').waitFor();
+    await expect(page.locator('#sf-name').inputValue()).resolves.toBe(structureName);
     const saved = await adminApi.call<{ structure: { live: { limitGustMps: number } } }>('GET', `/api/structures/${structureId}`);
     expect(saved.structure.live.limitGustMps).toBeCloseTo(limitGustMps, 6);
   });

@@ -80,8 +80,9 @@ function Screen() {
     case 'structure':
       return <StructurePage id={Number(second)} />;
     case 'register':
-      if (second === 'new') return <StructureForm id={null} />;
-      if (second && /^[0-9]+$/.test(second)) return <StructureForm id={Number(second)} />;
+      // Keyed by the path part so a new form never starts from the last structure's draft.
+      if (second === 'new') return <StructureForm key="new" id={null} />;
+      if (second && /^[0-9]+$/.test(second)) return <StructureForm key={second} id={Number(second)} />;
       return <RegisterList />;
     case 'site':
       return <SiteSettings />;

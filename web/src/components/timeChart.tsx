@@ -175,7 +175,6 @@ export function TimeChart(props: {
       plot.current = null;
     };
     // The chart is rebuilt only when its shape changes; new data goes through setData below.
-    // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [shapeKey]);
 
   useEffect(() => {

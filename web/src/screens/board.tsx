@@ -37,7 +37,6 @@ export function Board() {
   useEffect(() => {
     if (state.snapshot) void refreshSnapshot();
     // On opening the board only: the stream keeps it current from there.
-    // eslint-disable-next-line react-hooks/exhaustive-deps
   }, []);
   const dataAgeMs = state.lastDataAtMs === null ? null : Date.now() - state.lastDataAtMs;
 

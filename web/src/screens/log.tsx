@@ -73,7 +73,6 @@ export function LogScreen() {
       .catch(() => undefined)
       .finally(() => setDecided(true));
     // Only on opening the screen.
-    // eslint-disable-next-line react-hooks/exhaustive-deps
   }, []);
 
   const query = useMemo(() => {

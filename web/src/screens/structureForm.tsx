@@ -18,7 +18,7 @@ import { faceColumns, kindFields, kindIntro, kindNames, massColumns, commonField
 import { draftFromView, draftInput, draftLevels, draftRecord, newDraft, plainMessage, switchKind, typedNumber, type Draft } from '../register/structureDraft.ts';
 import { refreshSnapshot } from '../live.ts';
 import { prefs } from '../prefs.ts';
-import { href, navigate } from '../router.ts';
+import { href, navigate, useRoute } from '../router.ts';
 import { may, session } from '../session.ts';
 import { site, siteDensity } from '../site.ts';
 import { useStore } from '../store.ts';
@@ -37,7 +37,7 @@ export function StructureForm({ id }: { id: number | null }) {
   const siteLevels = siteInfo?.defaultLevels ?? [];
   const canEdit = may(who, 'competent-person');
 
-  const [draft, setDraft] = useState<Draft | null>(id === null ? null : null);
+  const [draft, setDraft] = useState<Draft | null>(null);
   const [loadError, setLoadError] = useState<string | null>(null);
   const [sensors, setSensors] = useState<SensorView[]>([]);
   const [checkGust, setCheckGust] = useState(() => String(Math.round(mpsToSpeed(20, unit))));
@@ -47,7 +47,9 @@ export function StructureForm({ id }: { id: number | null }) {
   const [touched, setTouched] = useState<Set<string>>(new Set());
   const [triedSave, setTriedSave] = useState(false);
   const [saving, setSaving] = useState(false);
-  const [message, setMessage] = useState<{ ok: boolean; text: string } | null>(null);
+  // A new structure is saved and the page moves to its own address: the confirmation travels in the query.
+  const justSaved = useRoute().query.get('saved') === '1';
+  const [message, setMessage] = useState<{ ok: boolean; text: string } | null>(justSaved ? { ok: true, text: 'Saved. It is on the live board now.' } : null);
   const seq = useRef(0);
 
   // Load the structure (or start a new draft once the site's default levels are known).
@@ -60,7 +62,6 @@ export function StructureForm({ id }: { id: number | null }) {
       .then((a) => setDraft(draftFromView(a.structure, siteLevels, unit)))
       .catch((err) => setLoadError(errorText(err)));
     // Loaded once per id; the site's levels only seed a new draft.
-    // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [id, siteInfo === null]);
 
   useEffect(() => {
@@ -155,10 +156,12 @@ export function StructureForm({ id }: { id: number | null }) {
     const input = draftInput(draft, unit, issues);
     try {
       const answerSaved = id === null ? await api<{ structure: StructureWithLive }>('/api/structures', { body: input }) : await api<{ structure: StructureWithLive }>(`/api/structures/${id}`, { method: 'PATCH', body: input });
-      setMessage({ ok: true, text: `Saved “${answerSaved.structure.name}”. It is on the live board now.` });
       void refreshSnapshot();
-      if (id === null) navigate(`/register/${answerSaved.structure.id}`);
-      else setDraft(draftFromView(answerSaved.structure, siteLevels, unit));
+      if (id === null) navigate(`/register/${answerSaved.structure.id}?saved=1`);
+      else {
+        setMessage({ ok: true, text: `Saved “${answerSaved.structure.name}”. It is on the live board now.` });
+        setDraft(draftFromView(answerSaved.structure, siteLevels, unit));
+      }
     } catch (err) {
       if (err instanceof ApiError && err.issues.length > 0) {
         const m = new Map<string, string>();
