@@ -60,6 +60,8 @@ describe.skipIf(skip)('web app in a real browser', () => {
   let structureId = 0;
   let limitGustMps = 0;
   let gateway: MqttClient | null = null;
+  /** Script errors and console errors of the admin's page (a refused CSP, an exception). */
+  const pageErrors: string[] = [];
 
   beforeAll(async () => {
     if (!haveChromium) throw new Error(`Chromium is missing at ${chromiumPath}: install it (apt-get install chromium). CI requires the browser tests.`);
@@ -81,6 +83,12 @@ describe.skipIf(skip)('web app in a real browser', () => {
       Object.defineProperty(navigator, 'vibrate', { value: () => { window.__vibrations++; return true; } });
     `);
     page = await adminContext.newPage();
+    page.on('pageerror', (err) => pageErrors.push(`page error: ${err.message}`));
+    // A 4xx answer is logged by the browser as "Failed to load resource" — expected while a form
+    // holds invalid input; anything else logged as an error is a defect.
+    page.on('console', (m) => {
+      if (m.type() === 'error' && !m.text().startsWith('Failed to load resource')) pageErrors.push(`console: ${m.text()}`);
+    });
   }, 60_000);
 
   afterAll(async () => {
@@ -322,5 +330,6 @@ describe.skipIf(skip)('web app in a real browser', () => {
     if (dark.length > 0) problems.push(`board (dark):\n${describeViolations(dark)}`);
     await screenshot(page, 'board-dark-phone');
     expect(problems.join('\n\n')).toBe('');
+    expect(pageErrors).toEqual([]);
   }, 90_000);
 });

@@ -6,8 +6,7 @@
  * in the readings must show as a gap, not as calm).
  */
 import { useEffect, useRef } from 'preact/hooks';
-import uPlot from 'uplot';
-import 'uplot/dist/uPlot.min.css';
+import type uPlot from 'uplot';
 import { prefs } from '../prefs.ts';
 import { useStore } from '../store.ts';
 import { clockTime, dateTime, hourMinute } from '../units.ts';
@@ -96,12 +95,29 @@ export function TimeChart(props: {
 }) {
   const host = useRef<HTMLDivElement | null>(null);
   const plot = useRef<uPlot | null>(null);
+  // The newest data, for a chart built after the library has loaded.
+  const dataRef = useRef(props.data);
+  dataRef.current = props.data;
   const theme = useStore(prefs).theme;
   const shapeKey = JSON.stringify([theme, props.xRange, props.series.map((s) => [s.label, s.scale, s.colorVar]), props.axes.map((a) => [a.scale, a.label, a.range, a.minMax]), props.bands, props.timeZone, props.height]);
 
   useEffect(() => {
     const el = host.current;
     if (!el) return;
+    let cancelled = false;
+    let cleanup: (() => void) | null = null;
+    void import('./uplotLoader.ts').then(({ default: UPlot }) => {
+      if (cancelled) return;
+      cleanup = build(UPlot, el);
+    });
+    return () => {
+      cancelled = true;
+      cleanup?.();
+    };
+    // The chart is rebuilt only when its shape changes; new data goes through setData below.
+  }, [shapeKey]);
+
+  function build(UPlot: typeof uPlot, el: HTMLDivElement): () => void {
     const fg = cssVar('--fg');
     const grid = cssVar('--grid');
     const scales: uPlot.Scales = { x: props.xRange ? { time: true, range: () => props.xRange! } : { time: true } };
@@ -118,7 +134,7 @@ export function TimeChart(props: {
     const opts: uPlot.Options = {
       width: Math.max(280, el.clientWidth),
       height: props.height ?? 260,
-      tzDate: (ts) => uPlot.tzDate(new Date(ts * 1e3), props.timeZone),
+      tzDate: (ts) => UPlot.tzDate(new Date(ts * 1e3), props.timeZone),
       scales,
       legend: { live: true },
       cursor: { drag: { x: false, y: false } },
@@ -165,7 +181,7 @@ export function TimeChart(props: {
       ],
       plugins: props.bands && props.bands.length > 0 ? [bandsPlugin(props.bands)] : [],
     };
-    const u = new uPlot(opts, props.data, el);
+    const u = new UPlot(opts, dataRef.current, el);
     plot.current = u;
     const ro = new ResizeObserver(() => u.setSize({ width: Math.max(280, el.clientWidth), height: props.height ?? 260 }));
     ro.observe(el);
@@ -174,8 +190,7 @@ export function TimeChart(props: {
       u.destroy();
       plot.current = null;
     };
-    // The chart is rebuilt only when its shape changes; new data goes through setData below.
-  }, [shapeKey]);
+  }
 
   useEffect(() => {
     plot.current?.setData(props.data);
