@@ -142,7 +142,7 @@ export const commonFields: FieldDef[] = [
   { path: 'safetyFactors.overturning', label: 'Safety factor γ, overturning', kind: 'number', optional: true, placeholder: String(defaultSafetyFactors.overturning), help: `1–5. Empty: ${defaultSafetyFactors.overturning} — ${safetyFactorSources.overturning}.` },
   { path: 'safetyFactors.sliding', label: 'Safety factor γ, sliding', kind: 'number', optional: true, placeholder: String(defaultSafetyFactors.sliding), help: `1–5. Empty: ${defaultSafetyFactors.sliding} — ${safetyFactorSources.sliding}.` },
   { path: 'safetyFactors.uplift', label: 'Safety factor γ, uplift', kind: 'number', optional: true, placeholder: String(defaultSafetyFactors.uplift), help: `1–5. Empty: ${defaultSafetyFactors.uplift} — ${safetyFactorSources.uplift}.` },
-  { path: 'coefficientSource', label: 'Source of overridden coefficients', kind: 'text', optional: true, help: 'Required when any coefficient above (or any face of an “other” structure) is given: name the standard and clause, the handbook and figure, or the manufacturer’s sheet.' },
+  { path: 'coefficientSource', label: 'Source of overridden coefficients', kind: 'text', optional: true, help: 'Required when you give any coefficient above: name the standard and clause, the handbook and figure, or the manufacturer’s sheet. For an “other” structure it is quoted as the source of its faces’ coefficients.' },
 ];
 
 export const faceColumns = [

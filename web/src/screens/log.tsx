@@ -257,7 +257,7 @@ function LogBody({ data, unit, tz }: { data: LogData; unit: Parameters<typeof sp
       <section aria-labelledby="sum-h" class="report-section">
         <h2 id="sum-h">Summary</h2>
         <p>
-          {summary.alertCount} alerts, {summary.unacknowledgedCount === 0 ? 'all acknowledged' : <strong class="bad-text">{summary.unacknowledgedCount} not acknowledged</strong>}.
+          {summary.alertCount} {summary.alertCount === 1 ? 'alert' : 'alerts'}, {summary.unacknowledgedCount === 0 ? 'all acknowledged' : <strong class="bad-text">{summary.unacknowledgedCount} not acknowledged</strong>}.
         </p>
         <div class="table-scroll">
           <table class="data stack-sm">
