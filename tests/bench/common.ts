@@ -13,6 +13,23 @@ export const wallMs = (): number => performance.timeOrigin + performance.now();
 
 export const sleep = (ms: number): Promise<void> => new Promise((r) => setTimeout(r, ms));
 
+/** Every process the benchmarks start, so a run that fails half-way leaves none behind (`killTracked`). */
+const tracked = new Set<ChildProcess>();
+
+export function track(proc: ChildProcess): ChildProcess {
+  tracked.add(proc);
+  proc.once('exit', () => tracked.delete(proc));
+  return proc;
+}
+
+/** SIGKILLs every tracked process still running (each by its own pid). */
+export function killTracked(): void {
+  for (const proc of tracked) {
+    if (proc.exitCode === null && proc.signalCode === null) proc.kill('SIGKILL');
+  }
+  tracked.clear();
+}
+
 /** A child process running one of the benchmark scripts under tsx, spoken to over IPC. */
 export class Child<Cmd, Reply extends { kind: string }> {
   readonly proc: ChildProcess;
@@ -22,11 +39,13 @@ export class Child<Cmd, Reply extends { kind: string }> {
   private stderr = '';
 
   constructor(script: string, env: Record<string, string> = {}) {
-    this.proc = fork(path.resolve('tests/bench', script), [], {
-      execArgv: ['--import', 'tsx'],
-      env: { ...process.env, ...env },
-      stdio: ['ignore', 'inherit', 'pipe', 'ipc'],
-    });
+    this.proc = track(
+      fork(path.resolve('tests/bench', script), [], {
+        execArgv: ['--import', 'tsx'],
+        env: { ...process.env, ...env },
+        stdio: ['ignore', 'inherit', 'pipe', 'ipc'],
+      }),
+    );
     this.proc.stderr?.on('data', (d: Buffer) => {
       this.stderr = (this.stderr + d.toString()).slice(-4000);
     });
@@ -117,7 +136,7 @@ export async function startMosquitto(dir: string): Promise<{ url: string; port: 
   const port = await freePort();
   const conf = path.join(dir, 'mosquitto.conf');
   fs.writeFileSync(conf, `listener ${port} 127.0.0.1\nallow_anonymous true\nmax_queued_messages 0\nmax_queued_bytes 0\npersistence false\n`);
-  const proc = spawn('mosquitto', ['-c', conf], { stdio: 'ignore' });
+  const proc = track(spawn('mosquitto', ['-c', conf], { stdio: 'ignore' }));
   const deadline = Date.now() + 5_000;
   while (!(await portOpen(port))) {
     if (Date.now() > deadline || proc.exitCode !== null) throw new Error('mosquitto did not start listening within 5 s');
@@ -134,6 +153,34 @@ export async function startMosquitto(dir: string): Promise<{ url: string; port: 
         proc.kill('SIGKILL');
       }),
   };
+}
+
+let clockTicksPerS: number | null = null;
+
+/**
+ * CPU time a process has used so far (user + system, all its threads), seconds, from
+ * /proc/<pid>/stat; null when unavailable. Unlike wall-clock rates, CPU time per reading hardly
+ * changes with what else the machine is doing.
+ */
+export function cpuSeconds(pid: number): number | null {
+  try {
+    if (clockTicksPerS === null) {
+      try {
+        clockTicksPerS = Number(execFileSync('getconf', ['CLK_TCK'], { encoding: 'utf8' }).trim()) || 100;
+      } catch {
+        clockTicksPerS = 100;
+      }
+    }
+    const stat = fs.readFileSync(`/proc/${pid}/stat`, 'utf8');
+    // Fields after the command name (which may contain spaces) start after the last ')'.
+    const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+    const utime = Number(fields[11]);
+    const stime = Number(fields[12]);
+    if (!Number.isFinite(utime) || !Number.isFinite(stime)) return null;
+    return (utime + stime) / clockTicksPerS;
+  } catch {
+    return null;
+  }
 }
 
 /** VmRSS and VmHWM of a process, kB, from /proc (null when unavailable). */

@@ -22,7 +22,7 @@ import path from 'node:path';
 import Database from 'better-sqlite3';
 import { spawnServer, type ServerProcess } from '../helpers/serverProcess.ts';
 import type { BareCommand, BareReply } from './bareBroker.ts';
-import { Child, sampleMemory, sleep, startMosquitto, wallMs } from './common.ts';
+import { Child, cpuSeconds, sampleMemory, sleep, startMosquitto, track, wallMs } from './common.ts';
 import type { SubscriberCommand, SubscriberReply } from './countingSubscriber.ts';
 import { copyTemplate, topicPrefix, type Fleet } from './fleet.ts';
 import type { PublisherCommand, PublisherConnection, PublisherReply } from './publisher.ts';
@@ -51,6 +51,8 @@ export interface IngestRun {
   readings: number;
   seconds: number;
   perS: number;
+  /** CPU time the process under test used per reading during the timed burst, µs (null: unknown). */
+  cpuUsPerReading: number | null;
   /** Server runs: what the database holds afterwards. */
   stored?: { readings: number; late: number; levelChanges: number; noDataEvents: number; alerts: number };
   /** Server runs: resident memory of the server process during the run. */
@@ -122,6 +124,20 @@ export async function stopGracefully(server: ServerProcess): Promise<void> {
   clearTimeout(timer);
 }
 
+/** CPU seconds of `pid` between `start()` and `stop()`, as µs per reading (null when /proc is unavailable). */
+function cpuMeter(pid: number): { start: () => void; usPerReading: (readings: number) => number | null } {
+  let at: number | null = null;
+  return {
+    start: () => {
+      at = cpuSeconds(pid);
+    },
+    usPerReading: (readings) => {
+      const now = cpuSeconds(pid);
+      return at === null || now === null ? null : ((now - at) * 1e6) / readings;
+    },
+  };
+}
+
 // ---------- embedded broker ----------
 
 async function embeddedBare(o: IngestOptions, mode: 'hook' | 'subscriber', repeat: number): Promise<IngestRun> {
@@ -132,17 +148,22 @@ async function embeddedBare(o: IngestOptions, mode: 'hook' | 'subscriber', repea
     const { port } = await bare.next('listening', 30_000);
     pub = await startPublisher(o, `mqtt://127.0.0.1:${port}`, false, `bare-${mode}`);
     bare.send({ cmd: 'expect', count: o.warmupReadings });
+    const cpu = cpuMeter(bare.proc.pid!);
     const main = await bursts(
       o,
       pub,
-      () => bare.send({ cmd: 'expect', count: o.readings }),
+      () => {
+        bare.send({ cmd: 'expect', count: o.readings });
+        cpu.start();
+      },
       async () => void (await bare.next('counted', 30_000)),
     );
     const counted = await bare.next('counted', 60_000);
+    const cpuUsPerReading = cpu.usPerReading(o.readings);
     // The hook counts as it acknowledges; the subscriber variant is timed where it counts.
     const end = mode === 'hook' ? main.finishedAtMs : counted.lastAtMs;
     const seconds = (end - main.startedAtMs) / 1000;
-    return { broker: 'embedded', variant: mode === 'hook' ? 'bare-hook' : 'bare-subscriber', repeat, readings: o.readings, seconds, perS: o.readings / seconds };
+    return { broker: 'embedded', variant: mode === 'hook' ? 'bare-hook' : 'bare-subscriber', repeat, readings: o.readings, seconds, perS: o.readings / seconds, cpuUsPerReading };
   } finally {
     await pub?.kill();
     await bare.kill();
@@ -152,12 +173,15 @@ async function embeddedBare(o: IngestOptions, mode: 'hook' | 'subscriber', repea
 async function embeddedServer(o: IngestOptions, repeat: number): Promise<IngestRun> {
   const dataDir = copyTemplate(o.templateDir, path.join(o.workDir, `ingest-embedded-${repeat}`));
   const server = await spawnServer({ ...o.serverEnv, DATA_DIR: dataDir, MQTT_PORT: '0', MQTT_TOPIC_PREFIX: topicPrefix }, 60_000);
+  track(server.proc);
   let pub: Publisher | null = null;
   let memory: ReturnType<typeof sampleMemory> | null = null;
   try {
     pub = await startPublisher(o, `mqtt://127.0.0.1:${server.mqttPort}`, true, 'server');
     memory = sampleMemory(server.proc.pid!);
-    const main = await bursts(o, pub, () => undefined, async () => undefined);
+    const cpu = cpuMeter(server.proc.pid!);
+    const main = await bursts(o, pub, () => cpu.start(), async () => undefined);
+    const cpuUsPerReading = cpu.usPerReading(o.readings);
     const mem = memory.stop();
     memory = null;
     const seconds = (main.finishedAtMs - main.startedAtMs) / 1000;
@@ -169,6 +193,7 @@ async function embeddedServer(o: IngestOptions, repeat: number): Promise<IngestR
       readings: o.readings,
       seconds,
       perS: o.readings / seconds,
+      cpuUsPerReading,
       stored: storedFigures(dataDir),
       memory: { maxRssKb: mem.maxRssKb, hwmKb: mem.hwmKb },
     };
@@ -190,15 +215,20 @@ async function mosquittoBare(o: IngestOptions, repeat: number): Promise<IngestRu
     await sub.next('subscribed', 30_000);
     sub.send({ cmd: 'expect', count: o.warmupReadings });
     pub = await startPublisher(o, broker.url, false, `mosq-bare-${repeat}`);
+    const cpu = cpuMeter(sub.proc.pid!);
     const main = await bursts(
       o,
       pub,
-      () => sub.send({ cmd: 'expect', count: o.readings }),
+      () => {
+        sub.send({ cmd: 'expect', count: o.readings });
+        cpu.start();
+      },
       async () => void (await sub.next('counted', 30_000)),
     );
     const counted = await sub.next('counted', 120_000);
+    const cpuUsPerReading = cpu.usPerReading(o.readings);
     const seconds = (counted.lastAtMs - main.startedAtMs) / 1000;
-    return { broker: 'mosquitto', variant: 'bare-subscriber', repeat, readings: o.readings, seconds, perS: o.readings / seconds };
+    return { broker: 'mosquitto', variant: 'bare-subscriber', repeat, readings: o.readings, seconds, perS: o.readings / seconds, cpuUsPerReading };
   } finally {
     await pub?.kill();
     await sub.kill();
@@ -214,6 +244,7 @@ async function mosquittoServer(o: IngestOptions, repeat: number): Promise<Ingest
   let memory: ReturnType<typeof sampleMemory> | null = null;
   try {
     server = await spawnServer({ ...o.serverEnv, DATA_DIR: dataDir, MQTT_URL: broker.url, MQTT_CLIENT_ID: `holdfast-bench-${repeat}`, MQTT_PROTOCOL_VERSION: '5', MQTT_TOPIC_PREFIX: topicPrefix }, 60_000);
+    track(server.proc);
     const s = server;
     const connectedBy = Date.now() + 20_000;
     while ((await health(s)).broker.state !== 'connected') {
@@ -233,11 +264,13 @@ async function mosquittoServer(o: IngestOptions, repeat: number): Promise<Ingest
       }
     };
     memory = sampleMemory(s.proc.pid!);
-    const main = await bursts(o, pub, () => undefined, async () => {
+    const cpu = cpuMeter(s.proc.pid!);
+    const main = await bursts(o, pub, () => cpu.start(), async () => {
       await waitStored(o.warmupReadings, 60_000);
       base = (await health(s)).database.committedReadings;
     });
     const end = await waitStored(base + o.readings, 120_000);
+    const cpuUsPerReading = cpu.usPerReading(o.readings);
     const mem = memory.stop();
     memory = null;
     const seconds = (end - main.startedAtMs) / 1000;
@@ -249,6 +282,7 @@ async function mosquittoServer(o: IngestOptions, repeat: number): Promise<Ingest
       readings: o.readings,
       seconds,
       perS: o.readings / seconds,
+      cpuUsPerReading,
       stored: storedFigures(dataDir),
       memory: { maxRssKb: mem.maxRssKb, hwmKb: mem.hwmKb },
     };
@@ -262,19 +296,43 @@ async function mosquittoServer(o: IngestOptions, repeat: number): Promise<Ingest
 
 export interface IngestResult {
   runs: IngestRun[];
-  embedded: { serverPerS: number; bareHookPerS: number; bareSubscriberPerS: number; ratio: number; ratioToSubscriber: number };
-  mosquitto: { serverPerS: number; barePerS: number; ratio: number } | null;
+  /**
+   * Ratios are taken per repeat, between runs made one after the other (the machine's other work
+   * changes from minute to minute), and the median of the repeats is reported; readings/s are
+   * the medians too.
+   */
+  embedded: { serverPerS: number; bareHookPerS: number; bareSubscriberPerS: number; ratio: number; ratioToSubscriber: number; ratios: number[]; cpu: CpuFigures };
+  mosquitto: { serverPerS: number; barePerS: number; ratio: number; ratios: number[]; cpu: CpuFigures } | null;
 }
 
-const best = (runs: IngestRun[], broker: IngestRun['broker'], variant: IngestRun['variant']): number =>
-  Math.max(...runs.filter((r) => r.broker === broker && r.variant === variant).map((r) => r.perS));
+/**
+ * CPU time per reading of the process under test (median over repeats), and the throughput
+ * ratio it implies if each process had a core of its own: baseline CPU ÷ server CPU. It hardly
+ * depends on the machine's other work, but it does not see waiting (round trips, a serialized
+ * acknowledgement): the wall-clock ratio is the target's figure.
+ */
+export interface CpuFigures {
+  serverUs: number;
+  bareUs: number;
+  ratio: number;
+}
+
+function rate(runs: IngestRun[], broker: IngestRun['broker'], variant: IngestRun['variant'], repeat: number): number {
+  return runs.find((r) => r.broker === broker && r.variant === variant && r.repeat === repeat)?.perS ?? Number.NaN;
+}
+
+function medianOf(values: number[]): number {
+  const sorted = [...values].sort((a, b) => a - b);
+  const mid = sorted.length / 2;
+  return sorted.length % 2 ? sorted[Math.floor(mid)]! : (sorted[mid - 1]! + sorted[mid]!) / 2;
+}
 
 export async function runIngest(o: IngestOptions): Promise<IngestResult> {
   fs.mkdirSync(o.workDir, { recursive: true });
   const runs: IngestRun[] = [];
   const note = (r: IngestRun): void => {
     runs.push(r);
-    o.log(`  ${r.broker} ${r.variant} #${r.repeat}: ${Math.round(r.perS)} readings/s (${r.readings} in ${r.seconds.toFixed(2)} s)${r.stored ? `, stored ${r.stored.readings} (late ${r.stored.late}), level changes ${r.stored.levelChanges}, no-data events ${r.stored.noDataEvents}, alerts ${r.stored.alerts}` : ''}${r.memory ? `, max RSS ${(r.memory.maxRssKb / 1024).toFixed(0)} MB` : ''}`);
+    o.log(`  ${r.broker} ${r.variant} #${r.repeat}: ${Math.round(r.perS)} readings/s (${r.readings} in ${r.seconds.toFixed(2)} s, ${r.cpuUsPerReading === null ? '?' : r.cpuUsPerReading.toFixed(0)} µs CPU per reading)${r.stored ? `, stored ${r.stored.readings} (late ${r.stored.late}), level changes ${r.stored.levelChanges}, no-data events ${r.stored.noDataEvents}, alerts ${r.stored.alerts}` : ''}${r.memory ? `, max RSS ${(r.memory.maxRssKb / 1024).toFixed(0)} MB` : ''}`);
   };
   // Interleaved, so a slow spell of the machine does not favour one side.
   for (let repeat = 1; repeat <= o.repeats; repeat++) {
@@ -288,14 +346,31 @@ export async function runIngest(o: IngestOptions): Promise<IngestResult> {
       note(await mosquittoServer(o, repeat));
     }
   }
-  const server = best(runs, 'embedded', 'server');
-  const hook = best(runs, 'embedded', 'bare-hook');
-  const subscriber = best(runs, 'embedded', 'bare-subscriber');
+  const repeats = Array.from({ length: o.repeats }, (_, i) => i + 1);
+  const series = (broker: IngestRun['broker'], variant: IngestRun['variant']): number[] => repeats.map((i) => rate(runs, broker, variant, i));
+  const ratios = repeats.map((i) => rate(runs, 'embedded', 'server', i) / rate(runs, 'embedded', 'bare-hook', i));
+  const toSubscriber = repeats.map((i) => rate(runs, 'embedded', 'server', i) / rate(runs, 'embedded', 'bare-subscriber', i));
+  const mosquittoRatios = repeats.map((i) => rate(runs, 'mosquitto', 'server', i) / rate(runs, 'mosquitto', 'bare-subscriber', i));
+  const cpuOf = (broker: IngestRun['broker'], variant: IngestRun['variant']): number =>
+    medianOf(runs.filter((r) => r.broker === broker && r.variant === variant && r.cpuUsPerReading !== null).map((r) => r.cpuUsPerReading!));
+  const cpuFigures = (broker: IngestRun['broker'], bare: IngestRun['variant']): CpuFigures => {
+    const serverUs = cpuOf(broker, 'server');
+    const bareUs = cpuOf(broker, bare);
+    return { serverUs, bareUs, ratio: bareUs / serverUs };
+  };
   return {
     runs,
-    embedded: { serverPerS: server, bareHookPerS: hook, bareSubscriberPerS: subscriber, ratio: server / hook, ratioToSubscriber: server / subscriber },
+    embedded: {
+      serverPerS: medianOf(series('embedded', 'server')),
+      bareHookPerS: medianOf(series('embedded', 'bare-hook')),
+      bareSubscriberPerS: medianOf(series('embedded', 'bare-subscriber')),
+      ratio: medianOf(ratios),
+      ratioToSubscriber: medianOf(toSubscriber),
+      ratios,
+      cpu: cpuFigures('embedded', 'bare-hook'),
+    },
     mosquitto: o.mosquitto
-      ? { serverPerS: best(runs, 'mosquitto', 'server'), barePerS: best(runs, 'mosquitto', 'bare-subscriber'), ratio: best(runs, 'mosquitto', 'server') / best(runs, 'mosquitto', 'bare-subscriber') }
+      ? { serverPerS: medianOf(series('mosquitto', 'server')), barePerS: medianOf(series('mosquitto', 'bare-subscriber')), ratio: medianOf(mosquittoRatios), ratios: mosquittoRatios, cpu: cpuFigures('mosquitto', 'bare-subscriber') }
       : null,
   };
 }

@@ -23,7 +23,7 @@ import { performance } from 'node:perf_hooks';
 import mqtt from 'mqtt';
 import { spawnServer } from '../helpers/serverProcess.ts';
 import { ApiClient } from '../helpers/testServer.ts';
-import { Child, procMemoryKb, quantile, sampleMemory, sleep, wallMs } from './common.ts';
+import { Child, procMemoryKb, quantile, sampleMemory, sleep, track, wallMs } from './common.ts';
 import { copyTemplate, topicPrefix, type Fleet } from './fleet.ts';
 import { stopGracefully } from './ingest.ts';
 import type { PublisherCommand, PublisherReply } from './publisher.ts';
@@ -170,6 +170,7 @@ async function watchStream(api: ApiClient, probeId: number): Promise<StreamWatch
 export async function runLatency(o: LatencyOptions): Promise<LatencyResult> {
   const dataDir = copyTemplate(o.templateDir, path.join(o.workDir, 'latency'));
   const server = await spawnServer({ ...o.serverEnv, DATA_DIR: dataDir, MQTT_PORT: '0', MQTT_TOPIC_PREFIX: topicPrefix, ADMIN_USERNAME: adminUser, ADMIN_PASSWORD: adminPassword }, 60_000);
+  track(server.proc);
   const pid = server.proc.pid!;
   const startedRssKb = procMemoryKb(pid)?.rssKb ?? 0;
   const pub: Child<PublisherCommand, PublisherReply> = new Child('publisher.ts');
