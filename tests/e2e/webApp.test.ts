@@ -257,6 +257,42 @@ describe.skipIf(skip)('web app in a real browser', () => {
     await screenshot(page, 'log-phone');
   });
 
+  it('shows a rejected payload on the Sensors screen by its reason, and stores nothing from it', async () => {
+    const storedBefore = e2e.server.queue.stats.committedReadings;
+    await gateway!.publishAsync(`wind/${sensorKey}/reading`, '{"ts": 1, "speed": 5, "colour": "blue"}', { qos: 1 });
+    await page.goto(`${e2e.baseUrl}/#/sensors`);
+    const card = page.locator('article.sensor-card', { hasText: 'Mast A' });
+    const row = card.locator('table tr', { hasText: 'unknown-field' });
+    await expect.poll(async () => {
+      await page.reload();
+      return row.count();
+    }).toBe(1);
+    await expect(row.locator('td').nth(1).textContent()).resolves.toBe('1');
+    expect(e2e.server.queue.stats.committedReadings).toBe(storedBefore);
+  });
+
+  it('hands a steward a site link that opens the board read-only', async () => {
+    await page.goto(`${e2e.baseUrl}/#/links`);
+    await page.fill('#sl-label', 'Gate stewards');
+    await page.fill('#sl-hours', '12');
+    await page.getByRole('button', { name: 'Make link' }).click();
+    const url = (await page.getByTestId('site-link-url').textContent()) ?? '';
+    expect(url).toMatch(/\/link\/[A-Za-z0-9_-]+$/);
+    await page.getByRole('button', { name: 'Done' }).click();
+    await page.locator('li', { hasText: 'Gate stewards' }).getByRole('button', { name: 'Withdraw' }).waitFor();
+
+    const stewardContext = await browser.newContext({ viewport: phone });
+    const stewardPage = await stewardContext.newPage();
+    await stewardPage.goto(url);
+    await stewardPage.locator('a.structure-card', { hasText: structureName }).waitFor();
+    await expect(stewardPage.locator('header.top .role').textContent()).resolves.toBe('viewer');
+    await expect(stewardPage.getByRole('button', { name: 'Acknowledge' }).count()).resolves.toBe(0);
+    await stewardPage.goto(`${e2e.baseUrl}/#/register`);
+    await stewardPage.locator('.register-item').first().waitFor();
+    await expect(stewardPage.getByRole('link', { name: 'Register a structure' }).count()).resolves.toBe(0);
+    await stewardContext.close();
+  });
+
   it('says so when the live connection drops, and recovers', async () => {
     await page.goto(`${e2e.baseUrl}/#/`);
     await page.locator('.pill-ok').waitFor();
