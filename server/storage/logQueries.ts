@@ -30,11 +30,15 @@ export interface StructureSeries {
   level: number[];
 }
 
-/** A bucket width that gives at most `maxPoints` buckets over the window (whole minutes from a minute up). */
+/**
+ * A bucket width that gives at most `maxPoints` buckets over the window. From 30 s up it is whole
+ * minutes (answered from the per-minute rollups: a day in 1 440 points rather than 2 000 from
+ * 86 400 raw rows); below that whole seconds, from the raw readings.
+ */
 export function bucketWidthMs(fromMs: number, toMs: number, maxPoints: number): number {
   const raw = Math.ceil((toMs - fromMs) / maxPoints);
-  if (raw < minuteMs) return Math.max(1_000, Math.ceil(raw / 1_000) * 1_000);
-  return Math.ceil(raw / minuteMs) * minuteMs;
+  if (raw < minuteMs / 2) return Math.max(1_000, Math.ceil(raw / 1_000) * 1_000);
+  return Math.max(minuteMs, Math.ceil(raw / minuteMs) * minuteMs);
 }
 
 export class LogQueries {
@@ -43,21 +47,23 @@ export class LogQueries {
   private readonly structureFromMinutes: Database.Statement;
 
   constructor(private readonly sqlite: Database.Database) {
-    // Buckets are aligned to the window start: bucket = (t − from) / width.
+    // Buckets are aligned to the window start: bucket = (t − from) / width, in integer division.
+    // better-sqlite3 binds every JS number as REAL, so the CASTs matter: without them the division
+    // is exact and every row becomes its own bucket.
     this.windFromMinutes = sqlite.prepare(
-      `SELECT (minute_ms - @from) / @width AS b, SUM(sample_count) AS n, SUM(speed_sum_cmps) AS s, MAX(max_gust_cmps) AS g,
+      `SELECT CAST(minute_ms - @from AS INTEGER) / CAST(@width AS INTEGER) AS b, SUM(sample_count) AS n, SUM(speed_sum_cmps) AS s, MAX(max_gust_cmps) AS g,
               SUM(dir_sin_sum) AS ds, SUM(dir_cos_sum) AS dc, SUM(dir_count) AS dn
        FROM wind_minutes WHERE sensor_id = @sensor AND minute_ms >= @from AND minute_ms < @to GROUP BY b ORDER BY b`,
     );
     this.windFromReadings = sqlite.prepare(
-      `SELECT (ts_ms - @from) / @width AS b, COUNT(*) AS n, SUM(speed_cmps) AS s, MAX(COALESCE(gust_cmps, speed_cmps)) AS g,
+      `SELECT CAST(ts_ms - @from AS INTEGER) / CAST(@width AS INTEGER) AS b, COUNT(*) AS n, SUM(speed_cmps) AS s, MAX(COALESCE(gust_cmps, speed_cmps)) AS g,
               SUM(CASE WHEN dir_deg IS NULL THEN 0 ELSE sin(radians(dir_deg)) END) AS ds,
               SUM(CASE WHEN dir_deg IS NULL THEN 0 ELSE cos(radians(dir_deg)) END) AS dc,
               COUNT(dir_deg) AS dn
        FROM readings WHERE sensor_id = @sensor AND ts_ms >= @from AND ts_ms < @to GROUP BY b ORDER BY b`,
     );
     this.structureFromMinutes = sqlite.prepare(
-      `SELECT (minute_ms - @from) / @width AS b, MAX(max_gust_cmps) AS g, MAX(max_utilization_e4) AS u, MAX(max_level) AS l
+      `SELECT CAST(minute_ms - @from AS INTEGER) / CAST(@width AS INTEGER) AS b, MAX(max_gust_cmps) AS g, MAX(max_utilization_e4) AS u, MAX(max_level) AS l
        FROM structure_minutes WHERE structure_id = @structure AND minute_ms >= @from AND minute_ms < @to GROUP BY b ORDER BY b`,
     );
   }

@@ -1,0 +1,79 @@
+/**
+ * Log queries against real SQLite: a window is answered with at most the points asked for, each
+ * point the mean and highest gust of its span, from the rollups when a point spans a minute or
+ * more and from the raw readings below that. Named regression: buckets must use integer division
+ * (better-sqlite3 binds numbers as REAL; a real division made one bucket per row).
+ */
+import { describe, expect, it } from 'vitest';
+import { openDatabase } from '../../server/storage/database.ts';
+import { LogQueries } from '../../server/storage/logQueries.ts';
+import { emptyWriteBatch } from '../../server/storage/writeBatch.ts';
+import { WriteQueue } from '../../server/storage/writeQueue.ts';
+
+const dayStart = Date.UTC(2026, 5, 13);
+
+function seededDay() {
+  const { db, sqlite } = openDatabase(':memory:');
+  sqlite.prepare("INSERT INTO sites (id, name, default_levels_json, created_at_ms, updated_at_ms) VALUES (1, 'Brackenfold Common', '[]', 0, 0)").run();
+  sqlite.prepare("INSERT INTO sensors (id, site_id, key, name, height_m, created_at_ms) VALUES (1, 1, 'north-mast', 'North mast', 10, 0)").run();
+  const queue = new WriteQueue(sqlite);
+  // One reading a second for a day; speed = 5 m/s + (minute of the hour) / 10, gust 1.5 × speed.
+  for (let hour = 0; hour < 24; hour++) {
+    const batch = emptyWriteBatch();
+    for (let s = 0; s < 3600; s++) {
+      const t = dayStart + hour * 3_600_000 + s * 1000;
+      const speed = 5 + Math.floor(s / 60) / 10;
+      batch.readings.push({ sensorId: 1, tsMs: t, speedMps: speed, gustMps: null, dirDeg: 270, tempC: null, pressurePa: null, rhPct: null, late: false, rollupGustMps: speed * 1.5 });
+    }
+    void queue.enqueue(batch);
+    queue.flush();
+  }
+  return { db, sqlite, queries: new LogQueries(sqlite) };
+}
+
+describe('the wind history of a day (86 400 readings)', () => {
+  const { queries } = seededDay();
+
+  it('answers a day with at most 2 000 points, from the per-minute rollups', () => {
+    const series = queries.windSeries(1, dayStart, dayStart + 86_400_000, 2_000);
+    expect(series.source).toBe('minutes');
+    expect(series.tMs.length).toBeLessThanOrEqual(2_000);
+    expect(series.tMs.length).toBeGreaterThan(1_400);
+    expect(series.bucketMs).toBe(60_000);
+    // Minute 37 of hour 5: every reading 5 + 3.7 m/s; gust 1.5 times that.
+    const i = series.tMs.indexOf(dayStart + 5 * 3_600_000 + 37 * 60_000);
+    expect(series.meanMps[i]).toBeCloseTo(8.7, 9);
+    expect(series.gustMps[i]).toBeCloseTo(13.05, 9);
+    expect(series.samples[i]).toBe(60);
+    expect(series.dirDeg[i]).toBeCloseTo(270, 6);
+  });
+
+  it('answers a 6-hour window in 200 points of 2 minutes, each the mean of its 120 readings', () => {
+    const from = dayStart + 3_600_000;
+    const series = queries.windSeries(1, from, from + 6 * 3_600_000, 200);
+    expect(series.tMs.length).toBe(180);
+    expect(series.bucketMs).toBe(120_000);
+    // The first bucket: minutes 0 and 1 of hour 1 → speeds 5.0 and 5.1, 60 readings each.
+    expect(series.meanMps[0]).toBeCloseTo(5.05, 9);
+    expect(series.gustMps[0]).toBeCloseTo(5.1 * 1.5, 9);
+    expect(series.samples[0]).toBe(120);
+  });
+
+  it('answers a 10-minute window from the raw readings, 100 points of 6 s', () => {
+    const from = dayStart + 7_200_000;
+    const series = queries.windSeries(1, from, from + 600_000, 100);
+    expect(series.source).toBe('readings');
+    expect(series.bucketMs).toBe(6_000);
+    expect(series.tMs.length).toBe(100);
+    expect(series.samples.every((n) => n === 6)).toBe(true);
+  });
+
+  it('gives the same buckets as the naive full scan', () => {
+    const from = dayStart + 3 * 3_600_000 + 123_000;
+    const to = from + 20 * 60_000;
+    const fast = queries.windSeries(1, from, to, 400);
+    const naive = queries.windSeriesByFullScan(1, from, to, 400);
+    expect(fast.tMs).toEqual(naive.tMs);
+    fast.meanMps.forEach((m, i) => expect(m).toBeCloseTo(naive.meanMps[i]!, 9));
+  });
+});
