@@ -82,13 +82,13 @@ function SensorCard({ s, canEdit, onEdit }: { s: SensorView; canEdit: boolean; o
       <dl class="sc-figures">
         <div>
           <dt>Gust (3 s)</dt>
-          <dd class={trouble ? 'struck' : ''}>
+          <dd class={trouble && l?.lastReceivedAtMs != null ? 'struck' : ''}>
             <SpeedValue mps={l?.currentGustMps} unit={unit} />
           </dd>
         </div>
         <div>
           <dt>Mean (10 min){l?.mean10minMps != null ? ` · ${beaufortText(l.mean10minMps)}` : ''}</dt>
-          <dd class={trouble ? 'struck' : ''}>
+          <dd class={trouble && l?.lastReceivedAtMs != null ? 'struck' : ''}>
             <SpeedValue mps={l?.mean10minMps} unit={unit} />
           </dd>
         </div>
