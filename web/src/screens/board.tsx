@@ -26,8 +26,11 @@ import { useStore } from '../store.ts';
 import type { OpenAlert, SensorState, StructureState } from '../types.ts';
 import { beaufortText, clockTime, compassPoint, duration, percent, speed, speedNumber, speedUnitLabels } from '../units.ts';
 
-/** A reading older than this is flagged on the board even before the server calls the sensor silent (the default silence timeout). */
-const staleReadingMs = 30_000;
+/**
+ * A reading older than its sensor's own silence timeout is flagged on the board by the phone
+ * itself, so a board whose stream has dropped still turns stale on time.
+ */
+const staleAfterMs = (s: SensorState | undefined): number => s?.silenceTimeoutMs ?? 30_000;
 
 export function Board() {
   const state = useStore(live);
@@ -216,7 +219,7 @@ function sensorTrouble(s: SensorState, nowMs: number): string | null {
   if (s.lastReceivedAtMs === null) return 'no reading yet';
   if (s.silent) return `silent for ${duration(nowMs - s.lastReceivedAtMs)}`;
   if (s.implausible.length > 0) return `implausible: ${s.implausible.join(', ')}`;
-  if (nowMs - s.lastReceivedAtMs > staleReadingMs) return `no reading for ${duration(nowMs - s.lastReceivedAtMs)}`;
+  if (nowMs - s.lastReceivedAtMs > staleAfterMs(s)) return `no reading for ${duration(nowMs - s.lastReceivedAtMs)}`;
   return null;
 }
 
@@ -293,7 +296,10 @@ export function StructureCard({ s, sensors }: { s: StructureState; sensors: Sens
   const governing = s.governingSensorKey ? sensors.find((x) => x.key === s.governingSensorKey) : undefined;
   const lastAt = governing?.lastReceivedAtMs ?? s.evaluatedAtMs;
   const ageMs = lastAt === null ? null : nowMs - lastAt;
-  const stale = !s.noData && ageMs !== null && ageMs > staleReadingMs;
+  const stale = !s.noData && ageMs !== null && ageMs > staleAfterMs(governing);
+  // The sensors this structure listens to (all when it names none) that are not reporting well.
+  const own = s.sensorKeys === null ? sensors : sensors.filter((x) => s.sensorKeys!.includes(x.key));
+  const quiet = own.filter((x) => sensorTrouble(x, nowMs) !== null).map((x) => x.name);
   const tone = levelTone(s.level, s.levels.length, s.noData);
   return (
     <a class={`structure-card tone-${tone}${stale ? ' stale' : ''}`} href={href(`/structure/${s.id}`)}>
@@ -302,6 +308,11 @@ export function StructureCard({ s, sensors }: { s: StructureState; sensors: Sens
         <LevelBadge level={s.level} label={s.levelLabel} count={s.levels.length} noData={s.noData} />
       </div>
       {s.error ? <p class="bad-text">This structure's stored record cannot be assessed: {s.error}</p> : null}
+      {s.mobile ? (
+        <p class="mobile-line">
+          Mobile: {s.highestTravelSpeedMps === null ? 'highest travel speed with the face raised unknown' : `travel at most ${speed(s.highestTravelSpeedMps, unit)} with the face raised (into the wind)`}
+        </p>
+      ) : null}
       <dl class="sc-figures">
         <div>
           <dt>Margin</dt>
@@ -320,7 +331,9 @@ export function StructureCard({ s, sensors }: { s: StructureState; sensors: Sens
       </dl>
       <p class="sc-foot">
         {s.noData ? (
-          <strong class="bad-text">No live reading reaches it: treat the wind as unknown.</strong>
+          <strong class="bad-text">
+            No live reading reaches it{quiet.length > 0 ? ` (${quiet.join(', ')}: no good reading)` : ''}: treat the wind as unknown.
+          </strong>
         ) : ageMs === null ? (
           'no reading yet'
         ) : (

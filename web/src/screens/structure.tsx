@@ -155,6 +155,11 @@ export function StructurePage({ id }: { id: number }) {
             {s.evaluatedAtMs !== null ? ` Last assessed ${duration(serverNow() - s.evaluatedAtMs)} ago.` : ' Not assessed yet.'}
             {s.level > 0 ? ` At level ${s.level} since ${dateTime(s.levelSinceMs, tz)}.` : ''}
           </p>
+          {s.mobile ? (
+            <p class="mobile-line">
+              Mobile: {s.highestTravelSpeedMps === null ? 'the highest travel speed with the face raised is unknown' : `the highest travel speed with the face raised, heading into the wind, is ${speed(s.highestTravelSpeedMps, unit)} in the current gust`}.
+            </p>
+          ) : null}
           {s.error ? <p class="error-box">{s.error}</p> : null}
         </section>
       ) : (
