@@ -171,6 +171,7 @@ describe.skipIf(skip)('web app in a real browser', () => {
     const card = page.locator('a.structure-card', { hasText: structureName });
     await card.getByText('No data — wind unknown').waitFor();
     await expect(card.locator('.sc-margin').textContent()).resolves.toBe('unknown');
+    await expect(card.locator('.sc-foot').textContent()).resolves.toContain('No live reading reaches it (Mast A: no good reading)');
 
     gateway = await mqtt.connectAsync(`mqtt://127.0.0.1:${e2e.server.mqttPort}`, { username: 'field-gw', password: gatewayPassword, clientId: 'e2e-gateway', reconnectPeriod: 0 });
     const publish = (speed: number, gust: number) =>
