@@ -7,7 +7,7 @@
 import path from 'node:path';
 import { serve, type ServerType } from '@hono/node-server';
 import { desc, eq, isNull, or } from 'drizzle-orm';
-import { alertsTable, levelChangesTable, sensorsTable, structuresTable } from '../db/schema.ts';
+import { alertsTable, sensorsTable, structuresTable } from '../db/schema.ts';
 import { Accounts } from './auth/accounts.ts';
 import { SignInLimiter } from './auth/signInLimiter.ts';
 import type { Config } from './config.ts';
@@ -84,14 +84,19 @@ function activeStructures(db: Db) {
 /** Last level of each structure and the alerts still open, to rebuild the watch after a restart. */
 export function initialState(db: Db): InitialState {
   const levels = new Map<number, { level: number; sinceMs: number }>();
-  for (const s of activeStructures(db)) {
-    const last = db.select().from(levelChangesTable).where(eq(levelChangesTable.structureId, s.id)).orderBy(desc(levelChangesTable.atMs), desc(levelChangesTable.id)).limit(1).get();
-    if (last) levels.set(s.id, { level: last.toLevel, sinceMs: last.atMs });
-  }
+  // The last logged row of each structure, in one pass over the (small) level-change log.
+  const rows = db.$client
+    .prepare(
+      `SELECT structure_id AS id, to_level AS level, at_ms AS atMs FROM (
+         SELECT structure_id, to_level, at_ms, ROW_NUMBER() OVER (PARTITION BY structure_id ORDER BY at_ms DESC, id DESC) AS rn FROM level_changes
+       ) WHERE rn = 1`,
+    )
+    .all() as Array<{ id: number; level: number; atMs: number }>;
+  for (const r of rows) levels.set(r.id, { level: r.level, sinceMs: r.atMs });
   const sensorKeys = new Map(db.select({ id: sensorsTable.id, key: sensorsTable.key, name: sensorsTable.name }).from(sensorsTable).all().map((s) => [s.id, s]));
   const structureNames = new Map(db.select({ id: structuresTable.id, name: structuresTable.name }).from(structuresTable).all().map((s) => [s.id, s.name]));
-  const rows = db.select().from(alertsTable).where(or(isNull(alertsTable.acknowledgedAtMs), isNull(alertsTable.clearedAtMs))).all();
-  const alerts: OpenAlert[] = rows.map((r) => {
+  const alertRows = db.select().from(alertsTable).where(or(isNull(alertsTable.acknowledgedAtMs), isNull(alertsTable.clearedAtMs))).all();
+  const alerts: OpenAlert[] = alertRows.map((r) => {
     const sensor = r.sensorId !== null ? sensorKeys.get(r.sensorId) : undefined;
     return {
       id: r.id,

@@ -47,12 +47,19 @@ export interface DaySummary {
   unacknowledgedCount: number;
 }
 
-export function daySummary(db: Db, fromMs: number, toMs: number): DaySummary {
+/**
+ * `nowMs`: time not yet lived (the rest of today) is counted nowhere; nor is time before a
+ * structure was registered or first logged, whichever came first.
+ */
+export function daySummary(db: Db, fromMs: number, toMs: number, nowMs: number): DaySummary {
   const sqlite = db.$client;
   const structures = db.select().from(structuresTable).orderBy(asc(structuresTable.name)).all();
   const maxGust = sqlite.prepare('SELECT minute_ms AS t, max_gust_cmps AS g FROM structure_minutes WHERE structure_id = ? AND minute_ms >= ? AND minute_ms < ? ORDER BY max_gust_cmps DESC, minute_ms LIMIT 1');
   const maxUtil = sqlite.prepare('SELECT minute_ms AS t, max_utilization_e4 AS u FROM structure_minutes WHERE structure_id = ? AND minute_ms >= ? AND minute_ms < ? ORDER BY max_utilization_e4 DESC, minute_ms LIMIT 1');
   const minuteCount = sqlite.prepare('SELECT COUNT(*) AS n, MAX(max_level) AS l FROM structure_minutes WHERE structure_id = ? AND minute_ms >= ? AND minute_ms < ?');
+  const firstLogged = sqlite.prepare(
+    'SELECT MIN(t) AS t FROM (SELECT MIN(minute_ms) AS t FROM structure_minutes WHERE structure_id = ? UNION ALL SELECT MIN(at_ms) FROM level_changes WHERE structure_id = ?)',
+  );
 
   const alerts = db.select().from(alertsTable).where(and(gte(alertsTable.raisedAtMs, fromMs), lt(alertsTable.raisedAtMs, toMs))).orderBy(asc(alertsTable.raisedAtMs)).all();
 
@@ -80,8 +87,9 @@ export function daySummary(db: Db, fromMs: number, toMs: number): DaySummary {
     let msNoData = 0;
     let level = before?.toLevel ?? 0;
     let noData = before?.noData ?? true;
-    let t = fromMs;
-    const end = Math.min(toMs, s.retiredAtMs ?? toMs);
+    const logged = (firstLogged.get(s.id, s.id) as { t: number | null }).t;
+    let t = Math.max(fromMs, Math.min(s.createdAtMs, logged ?? s.createdAtMs));
+    const end = Math.min(toMs, nowMs, s.retiredAtMs ?? toMs);
     let highestLevel = level;
     for (const c of changes) {
       if (c.atMs > t) {

@@ -78,6 +78,7 @@ interface SensorLive {
   /** √(q_p(z)/q_p(10 m)) at the sensor's height. */
   profileRatio: number;
   lastAnnouncedAtMs: number;
+  lastHealthCheckAtMs: number;
   silentAlertId: number | null;
   implausibleAlertId: number | null;
   stuck: boolean;
@@ -219,6 +220,9 @@ export class Watch implements ReadingConsumer {
   private sensors = new Map<number, SensorLive>();
   private sensorsByKey = new Map<string, SensorLive>();
   private structures = new Map<number, StructureLive>();
+  /** Structures taking their wind from every sensor, and those with their own list, by sensor key. */
+  private allSensorStructures: StructureLive[] = [];
+  private structuresBySensorKey = new Map<string, StructureLive[]>();
   private readonly alerts = new Map<number, OpenAlert>();
   private airDensityKgM3 = 1.225;
   private airDensityBasis: 'isa' | 'measured' | 'fixed' = 'isa';
@@ -264,6 +268,7 @@ export class Watch implements ReadingConsumer {
         lastLiveAtMs: keepWind ? old.lastLiveAtMs : null,
         profileRatio: this.profileRatio(sensor.heightM),
         lastAnnouncedAtMs: old?.lastAnnouncedAtMs ?? 0,
+        lastHealthCheckAtMs: old?.lastHealthCheckAtMs ?? 0,
         silentAlertId: old?.silentAlertId ?? null,
         implausibleAlertId: old?.implausibleAlertId ?? null,
         stuck: old?.stuck ?? false,
@@ -305,6 +310,20 @@ export class Watch implements ReadingConsumer {
       nextStructures.set(row.id, live);
     }
     this.structures = nextStructures;
+    this.allSensorStructures = [];
+    this.structuresBySensorKey = new Map();
+    for (const s of nextStructures.values()) {
+      if (s.error !== null) continue;
+      if (s.model.sensorKeys === null) {
+        this.allSensorStructures.push(s);
+        continue;
+      }
+      for (const key of s.model.sensorKeys) {
+        const list = this.structuresBySensorKey.get(key) ?? [];
+        list.push(s);
+        this.structuresBySensorKey.set(key, list);
+      }
+    }
 
     if (initial) {
       this.nextAlertId = Math.max(this.nextAlertId, initial.nextAlertId);
@@ -406,12 +425,17 @@ export class Watch implements ReadingConsumer {
       if (this.updateAirDensity()) this.refreshDensity();
     }
     const announcements: Array<() => void> = [];
-    this.checkSensorHealth(live, receivedAtMs, batch, announcements);
-    const moved = this.recomputeMaxima(receivedAtMs);
-    for (const s of this.structures.values()) {
-      const governed = s.model ? (s.model.sensorKeys === null ? moved || this.site.directionalEnabled : s.model.sensorKeys.has(sensor.key)) : false;
-      if (governed) this.evaluate(s, receivedAtMs, batch, announcements);
+    // Plausibility is judged over seconds to minutes: once a second is enough, and a snapshot per
+    // reading would be the costliest step of ingest.
+    if (receivedAtMs - live.lastHealthCheckAtMs >= 1_000 || live.silentAlertId !== null) {
+      live.lastHealthCheckAtMs = receivedAtMs;
+      this.checkSensorHealth(live, receivedAtMs, batch, announcements);
     }
+    const moved = this.recomputeMaxima(receivedAtMs);
+    // Structures on every sensor change only when a site-wide maximum moved (or with direction);
+    // structures with their own sensor list only when one of theirs reported.
+    if (moved || this.site.directionalEnabled) for (const s of this.allSensorStructures) this.evaluate(s, receivedAtMs, batch, announcements);
+    for (const s of this.structuresBySensorKey.get(sensor.key) ?? noStructures) this.evaluate(s, receivedAtMs, batch, announcements);
     if (receivedAtMs - live.lastAnnouncedAtMs >= windAnnounceIntervalMs) {
       live.lastAnnouncedAtMs = receivedAtMs;
       announcements.push(() => this.options.hub.publish('wind', this.sensorState(live, receivedAtMs)));
@@ -517,7 +541,10 @@ export class Watch implements ReadingConsumer {
     } else {
       const gustMps = Math.min(governing.gustMps, 120);
       const comparable = this.ladderGust(s, gustMps, governing.dirDeg);
-      ({ state: s.level, events } = stepLevel(s.level, { nowMs, gustMps: comparable, triggerGustsMps: s.density.triggerGustsMps }, this.params));
+      // Calm, with data, below the first trigger: the state machine would change nothing.
+      const calm = s.level.level === 0 && !s.level.noData && comparable < s.density.triggerGustsMps[0]!;
+      if (calm) events = noLevelEvents;
+      else ({ state: s.level, events } = stepLevel(s.level, { nowMs, gustMps: comparable, triggerGustsMps: s.density.triggerGustsMps }, this.params));
       s.gustMps = gustMps;
       s.governingSensorKey = governing.sensorKey;
       s.windFromDeg = governing.dirDeg;
@@ -916,6 +943,9 @@ export class Watch implements ReadingConsumer {
     return this.airDensityKgM3;
   }
 }
+
+const noLevelEvents: readonly LevelEvent[] = Object.freeze([]);
+const noStructures: readonly StructureLive[] = Object.freeze([]);
 
 /** No data first, then highest level, then least margin. */
 function byUrgency(a: StructureState, b: StructureState): number {

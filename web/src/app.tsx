@@ -54,6 +54,31 @@ function ConnectionPill() {
   );
 }
 
+/**
+ * On every screen, the board included: the server cannot store (disk full, read-only folder) or
+ * has lost its MQTT broker. Loud on purpose: the first means the log is at risk, the second that
+ * no new wind arrives.
+ */
+function SystemTrouble() {
+  const system = useStore(live).snapshot?.system;
+  if (!system || (system.storageOk && system.brokerOk)) return null;
+  return (
+    <div class="system-trouble" role="alert">
+      {!system.storageOk ? (
+        <p>
+          <strong>The server cannot store data</strong> ({system.storageError ?? 'database error'}). Alerts go on from memory; {system.storageBacklogRows} rows wait to be
+          stored. Tell the site office: free the disk now.
+        </p>
+      ) : null}
+      {!system.brokerOk ? (
+        <p>
+          <strong>No connection to the sensors' MQTT broker</strong> ({system.brokerState}). New wind readings cannot arrive: watch the wind by hand.
+        </p>
+      ) : null}
+    </div>
+  );
+}
+
 /** On every screen but the board: open alerts are one tap away. */
 function AlertStrip() {
   const snap = useStore(live).snapshot;
@@ -184,6 +209,7 @@ export function App() {
           <span class="role">{roleNames[s.role]}</span>
         </a>
       </header>
+      <SystemTrouble />
       {!onBoard ? <AlertStrip /> : null}
       <Screen />
       <nav class="tabs" aria-label="Screens">

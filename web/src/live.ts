@@ -132,8 +132,26 @@ function handle(kind: string, data: string): void {
       break;
     }
     case 'structure': {
-      const p = payload as StructureState | { structures: StructureState[] };
-      upsertStructures('structures' in p ? p.structures : [p]);
+      upsertStructures([payload as StructureState]);
+      break;
+    }
+    case 'structures': {
+      // Once a second: only the wind-dependent fields of the structures whose shown state moved.
+      const { updates } = payload as { updates: Array<Partial<StructureState> & { id: number }> };
+      withSnapshot((s) => {
+        const byId = new Map(updates.map((u) => [u.id, u]));
+        return { ...s, structures: s.structures.map((x) => (byId.has(x.id) ? { ...x, ...byId.get(x.id)! } : x)).sort(byUrgency) };
+      });
+      break;
+    }
+    case 'register': {
+      // A structure, sensor or site setting changed somewhere: take the register as it is now.
+      void refreshSnapshot();
+      break;
+    }
+    case 'health': {
+      const system = payload as Snapshot['system'];
+      withSnapshot((s) => ({ ...s, system }));
       break;
     }
     case 'alert': {
@@ -151,7 +169,7 @@ function handle(kind: string, data: string): void {
   }
 }
 
-const kinds = ['hello', 'snapshot', 'wind', 'structure', 'alert', 'alert-update', 'ping', 'sensor', 'health'];
+const kinds = ['hello', 'snapshot', 'wind', 'structure', 'structures', 'register', 'alert', 'alert-update', 'ping', 'health'];
 
 function connect(): void {
   if (!running) return;

@@ -138,7 +138,7 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
 
   api.get('/log/summary', viewer, (c) => {
     const { fromMs, toMs } = win(c);
-    return c.json(daySummary(ctx.db, fromMs, toMs));
+    return c.json(daySummary(ctx.db, fromMs, toMs, ctx.now()));
   });
 
   api.get('/export/:table{[a-z-]+\\.csv}', viewer, (c) => {
