@@ -130,7 +130,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
   const accounts = new Accounts(db);
   const registry = new Registry(db);
   const rejections = new RejectionLog(sqlite, log, now);
-  const queue = new WriteQueue(sqlite, now);
+  const queue = new WriteQueue(sqlite, now, config.mqttUrl ? 0 : 2);
   const hub = new LiveHub();
   let systemStatus: () => SystemStatus = () => ({ storageOk: true, storageError: null, storageBacklogRows: 0, brokerOk: true, brokerState: 'starting' });
   const watch = new Watch({ hub, now, onNotice: (message, detail) => log.info(detail, message), systemStatus: () => systemStatus() });

@@ -25,12 +25,6 @@ import { batchRowCount } from './writeBatch.ts';
  */
 export const maxBacklogRows = 200_000;
 const retryIntervalMs = 5_000;
-/**
- * How long the first batch waits for company before the commit: a commit writes a WAL page per
- * sensor touched, so 100 readings in one commit cost about a fifth of 100 commits (measured by
- * `npm run bench`). 2 ms is a small part of the 50 ms budget from reading to screen.
- */
-const groupWindowMs = 2;
 /** A group this large is committed at once. */
 const maxGroupBatches = 500;
 
@@ -102,9 +96,18 @@ export class WriteQueue {
   private readonly insertAudit: Database.Statement;
   private readonly commit: (batches: WriteBatch[]) => void;
 
+  /**
+   * @param groupWindowMs how long the first batch of a group waits for company before the commit.
+   *   A commit writes a WAL page per sensor touched, so 100 readings in one commit cost about a
+   *   fifth of 100 commits (`npm run bench`). Worth it only where messages arrive concurrently
+   *   (the embedded broker takes every gateway's packets at once: 2 ms, a small part of the 50 ms
+   *   budget from reading to screen); an external broker's client hands over one message at a
+   *   time and waits for its commit, so there the wait would only slow it (0: next turn).
+   */
   constructor(
     private readonly sqlite: Database.Database,
     private readonly now: () => number = Date.now,
+    private readonly groupWindowMs = 0,
   ) {
     this.insertReading = sqlite.prepare(
       `INSERT OR IGNORE INTO readings (sensor_id, ts_ms, speed_cmps, gust_cmps, dir_deg, temp_deci_c, pressure_pa, rh_pct, flags)
@@ -165,7 +168,8 @@ export class WriteQueue {
         this.flush();
       } else if (!this.scheduled) {
         this.scheduled = true;
-        setTimeout(() => this.flush(), groupWindowMs);
+        if (this.groupWindowMs > 0) setTimeout(() => this.flush(), this.groupWindowMs);
+        else setImmediate(() => this.flush());
       }
     });
   }
