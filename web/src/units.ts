@@ -17,10 +17,16 @@ export function speedNumber(mps: number | null | undefined, unit: SpeedUnit): st
   return mpsToSpeed(mps, unit).toFixed(decimals[unit]);
 }
 
-/** A speed with its unit ("12.4 m/s"), or "unknown". */
+/**
+ * The space between a number and its unit: a no-break space, so that "12.4 m/s" or "−71 %" never
+ * splits across two lines on a narrow screen.
+ */
+export const unitSpace = '\u00a0';
+
+/** A speed with its unit ("12.4 m/s", joined by a no-break space), or "unknown". */
 export function speed(mps: number | null | undefined, unit: SpeedUnit): string {
   if (mps === null || mps === undefined || !Number.isFinite(mps)) return 'unknown';
-  return `${speedNumber(mps, unit)} ${speedUnitLabels[unit]}`;
+  return `${speedNumber(mps, unit)}${unitSpace}${speedUnitLabels[unit]}`;
 }
 
 /** "Force 6" for a mean wind, or null when unknown. */
@@ -38,17 +44,17 @@ export function compassPoint(deg: number | null | undefined): string | null {
   return compassPoints[index]!;
 }
 
-/** A fraction as a whole percentage ("62 %", "−71 %" with a true minus sign), or "unknown". */
+/** A fraction as a whole percentage ("62 %", "−71 %" with a true minus sign, no-break space), or "unknown". */
 export function percent(fraction: number | null | undefined): string {
   if (fraction === null || fraction === undefined || !Number.isFinite(fraction)) return 'unknown';
   const p = Math.round(fraction * 100);
-  return `${p < 0 ? '−' : ''}${Math.abs(p)} %`;
+  return `${p < 0 ? '−' : ''}${Math.abs(p)}${unitSpace}%`;
 }
 
 /** A number with its unit and a fixed number of decimals, or "—". */
 export function quantity(value: number | null | undefined, unit: string, digits = 1): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return '—';
-  return `${value.toLocaleString('en-GB', { minimumFractionDigits: digits, maximumFractionDigits: digits })} ${unit}`;
+  return `${value.toLocaleString('en-GB', { minimumFractionDigits: digits, maximumFractionDigits: digits })}${unitSpace}${unit}`;
 }
 
 /** A force in kN, a moment in kN·m (inputs in N and N·m). */
@@ -58,12 +64,13 @@ export const kiloNewtonMetres = (nm: number | null | undefined): string => quant
 /** "12 s", "4 min", "2 h 5 min", "3 d" — how long ago, for people at arm's length. */
 export function duration(ms: number): string {
   const s = Math.max(0, Math.round(ms / 1000));
-  if (s < 90) return `${s} s`;
+  const _ = unitSpace;
+  if (s < 90) return `${s}${_}s`;
   const min = Math.round(s / 60);
-  if (min < 90) return `${min} min`;
+  if (min < 90) return `${min}${_}min`;
   const h = Math.floor(min / 60);
-  if (h < 48) return `${h} h ${min % 60} min`;
-  return `${Math.floor(h / 24)} d`;
+  if (h < 48) return `${h}${_}h ${min % 60}${_}min`;
+  return `${Math.floor(h / 24)}${_}d`;
 }
 
 const formatters = new Map<string, Intl.DateTimeFormat>();

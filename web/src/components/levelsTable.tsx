@@ -16,7 +16,7 @@ export interface LevelRow {
 }
 
 export function triggerText(t: LevelTrigger, unit: SpeedUnit): string {
-  return t.kind === 'utilization' ? `${Math.round(t.fraction * 100)} % of load capacity` : `gust of ${speed(t.gustMps, unit)} (set directly)`;
+  return t.kind === 'utilization' ? `${Math.round(t.fraction * 100)}\u00a0% of load capacity` : `gust of ${speed(t.gustMps, unit)} (set directly)`;
 }
 
 export function LevelsTable({ levels, unit, caption }: { levels: LevelRow[]; unit: SpeedUnit; caption?: string }) {

@@ -78,7 +78,7 @@ export function WindRose({ samples, unit, size = 300 }: { samples: RoseSample[];
           ))}
         </ul>
         <p class="muted small">
-          Most often from {compassPoint(top[0] * 22.5)} ({Math.round((top[1] / withDir) * 100)} %). Outer ring = {Math.round((maxSector / withDir) * 100)} % of the time.
+          Most often from {compassPoint(top[0] * 22.5)} ({Math.round((top[1] / withDir) * 100)}&nbsp;%). Outer ring = {Math.round((maxSector / withDir) * 100)}&nbsp;% of the time.
           {withoutDir > 0 ? ` ${withoutDir} periods without a direction are not in the rose.` : ''}
         </p>
       </figcaption>

@@ -123,7 +123,7 @@ export function LogScreen() {
           </button>
         </div>
         {mode === 'day' ? (
-          <div class="field inline">
+          <div class="field inline day-picker">
             <label for="log-day">Day ({tz})</label>
             <input
               id="log-day"

@@ -216,7 +216,7 @@ function ActionPlan() {
             <>
               <p class="small">
                 Limit gust {speed(s.live.limitGustMps, unit)}
-                {unit !== 'km/h' ? ` (${speed(s.live.limitGustMps, 'km/h')})` : ''} at {s.live.referenceHeightM.toFixed(1)} m · {s.levels ? 'own levels' : 'site levels'}
+                {unit !== 'km/h' ? ` (${speed(s.live.limitGustMps, 'km/h')})` : ''} at {s.live.referenceHeightM.toFixed(1)}&nbsp;m · {s.levels ? 'own levels' : 'site levels'}
               </p>
               <LevelsTable levels={s.live.levels} unit={unit} />
             </>

@@ -87,9 +87,10 @@ function SensorCard({ s, canEdit, onEdit }: { s: SensorView; canEdit: boolean; o
           </dd>
         </div>
         <div>
-          <dt>Mean (10 min){l?.mean10minMps != null ? ` · ${beaufortText(l.mean10minMps)}` : ''}</dt>
+          <dt>Mean (10 min)</dt>
           <dd class={trouble && l?.lastReceivedAtMs != null ? 'struck' : ''}>
             <SpeedValue mps={l?.mean10minMps} unit={unit} />
+            {l?.mean10minMps != null ? <span class="fig-note">{beaufortText(l.mean10minMps)}</span> : null}
           </dd>
         </div>
         <div>
@@ -98,10 +99,10 @@ function SensorCard({ s, canEdit, onEdit }: { s: SensorView; canEdit: boolean; o
         </div>
       </dl>
       <p class="muted small">
-        key <code>{s.key}</code> · {s.heightM} m high · {s.location || 'no location given'} · payloads in {s.unit}, {s.mode === 'samples' ? 'raw samples' : 'ready summaries'} · silent after {Math.round(s.silenceTimeoutMs / 1000)} s · topic <code>{s.topic}</code>
+        key <code>{s.key}</code> · {s.heightM}&nbsp;m high · {s.location || 'no location given'} · payloads in {s.unit}, {s.mode === 'samples' ? 'raw samples' : 'ready summaries'} · silent after {Math.round(s.silenceTimeoutMs / 1000)} s · topic <code>{s.topic}</code>
         {l?.temperatureC != null ? ` · ${l.temperatureC.toFixed(1)} °C` : ''}
         {l?.pressurePa != null ? ` · ${(l.pressurePa / 100).toFixed(1)} hPa` : ''}
-        {l?.rhPct != null ? ` · ${Math.round(l.rhPct)} % RH` : ''}
+        {l?.rhPct != null ? ` · ${Math.round(l.rhPct)}\u00a0% RH` : ''}
       </p>
       {s.rejections.length > 0 ? (
         <table class="kv">

@@ -307,7 +307,7 @@ export function StructureForm({ id }: { id: number | null }) {
                     <strong>
                       {l.level} · {l.label}
                     </strong>
-                    : {l.trigger.kind === 'utilization' ? `${Math.round(l.trigger.fraction * 100)} % of load capacity` : `gust ${speed(l.trigger.gustMps, unit)}`}
+                    : {l.trigger.kind === 'utilization' ? `${Math.round(l.trigger.fraction * 100)}\u00a0% of load capacity` : `gust ${speed(l.trigger.gustMps, unit)}`}
                     {l.triggerGustMps !== null ? ` → reached at ${speed(l.triggerGustMps, unit)}` : ''}
                   </li>
                 ))}
