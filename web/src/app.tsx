@@ -205,7 +205,7 @@ export function App() {
         </div>
         <ConnectionPill />
         <a class="who" href={href('/more')} title="Preferences and sign out">
-          {s.person ? s.person.displayName : s.name}
+          <span class="who-name">{s.person ? s.person.displayName : s.name}</span>
           <span class="role">{roleNames[s.role]}</span>
         </a>
       </header>
