@@ -145,7 +145,8 @@ describe.skipIf(skip)('web app in a real browser', () => {
     const expected = await adminApi.call<AssessAnswer>('POST', '/api/assess', { structure: record, gustMps: 20, airDensityKgM3: site.airDensityKgM3 });
     expect(expected.limitGustMps).not.toBeNull();
     limitGustMps = expected.limitGustMps!;
-    const shown = `${limitGustMps.toFixed(1)} m/s`;
+    // Number and unit joined by a no-break space: they never split across two lines.
+    const shown = `${limitGustMps.toFixed(1)}\u00a0m/s`;
     await expect.poll(() => page.getByTestId('limit-gust').textContent(), { timeout: 5_000 }).toBe(shown);
 
     // A field error from the server appears next to its field, and goes when it is fixed.
@@ -226,15 +227,20 @@ describe.skipIf(skip)('web app in a real browser', () => {
     await alert.getByRole('button', { name: 'Acknowledge' }).click();
     await alert.getByLabel('Note (optional): what you did or saw').fill(ackNote);
     await alert.getByRole('button', { name: 'Confirm acknowledgement' }).click();
-    await alert.getByText(`Acknowledged by ${crew.displayName}`).waitFor();
-    await expect(alert.textContent()).resolves.toContain(ackNote);
+    // Acknowledged and still in force: one line under the structure's name, with who and the note.
+    const line = crewPage.locator('li.alert-group', { hasText: structureName }).locator('li.ack-line', { hasText: 'Stop and clear' });
+    await line.locator('.ack-line-text', { hasText: `✓ ${crew.displayName}` }).waitFor();
+    await expect(crewPage.locator('li.alert-group', { hasText: structureName }).locator('.acked-h').textContent()).resolves.toMatch(/acknowledged, still in force/i);
+    await expect(crewPage.locator('article.alert-card', { hasText: 'Stop and clear' }).count()).resolves.toBe(0);
+    await line.locator('summary').click();
+    await line.getByText(ackNote, { exact: false }).waitFor();
     await crewContext.close();
 
     // The acknowledgement is stored with the person's name and note, and reaches the other phone live.
     const live = await adminApi.call<{ alerts: OpenAlertView[] }>('GET', '/api/live');
     const stored = live.alerts.find((a) => a.subject === structureName && a.label === 'Stop and clear');
     expect(stored?.acknowledgedBy).toBe(crew.displayName);
-    await page.locator('article.alert-card', { hasText: structureName }).filter({ hasText: 'Stop and clear' }).getByText(`Acknowledged by ${crew.displayName}`).waitFor();
+    await page.locator('li.alert-group', { hasText: structureName }).locator('li.ack-line', { hasText: 'Stop and clear' }).locator('.ack-line-text', { hasText: `✓ ${crew.displayName}` }).waitFor();
   }, 30_000);
 
   it('finds the alert and its acknowledgement in the log, and exports them as CSV', async () => {
