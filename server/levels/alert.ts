@@ -76,7 +76,7 @@ export function escalationAlert(event: EscalatedEvent, levels: readonly LevelDef
   };
 }
 
-const noDataActionText =
+export const noDataActionText =
   'No live wind reading reaches this structure. Its level is held, not lowered: treat the wind as ' +
   'unknown, not calm. Check the anemometers and the gateway, watch the wind by hand (a handheld ' +
   'anemometer) and follow the wind plan until readings return.';

@@ -38,6 +38,7 @@ export {
   alertKinds,
   escalationAlert,
   noDataAlert,
+  noDataActionText,
   sensorAlert,
   type Acknowledgement,
   type Alert,

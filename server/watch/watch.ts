@@ -31,6 +31,7 @@ import {
 import {
   defaultResignalIntervalMs,
   initialLevelState,
+  noDataActionText,
   stepLevel,
   type LevelDefinition,
   type LevelEvent,
@@ -635,9 +636,7 @@ export class Watch implements ReadingConsumer {
       sensorId: null,
       level: null,
       label: 'No wind data',
-      actionText:
-        'No live wind reading reaches this structure. Treat the wind as unknown, not calm: its level is held, not lowered. ' +
-        'Check the anemometers and the gateway, watch the wind by hand and follow the wind management plan until readings return.',
+      actionText: noDataActionText,
       raisedAtMs: atMs,
       gustMps: null,
       utilization: null,
