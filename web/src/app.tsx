@@ -85,10 +85,16 @@ function AlertStrip() {
   const open = snap?.alerts.filter((a) => a.acknowledgedAtMs === null) ?? [];
   if (open.length === 0) return null;
   const first = open[0]!;
+  // One line on a phone: what is open (cut with an ellipsis if need be) and where to go.
   return (
     <div class="alert-strip" role="alert">
       <a href={href('/')}>
-        ⚠ {open.length === 1 ? `Alert: ${first.subject} — ${first.label}` : `${open.length} alerts to acknowledge (latest: ${first.subject} — ${first.label})`}. Open the board.
+        <span class="strip-what">
+          ⚠ {open.length === 1 ? `Alert: ${first.subject} — ${first.label}` : `${open.length} alerts to acknowledge (latest: ${first.subject} — ${first.label})`}.
+        </span>
+        <span class="strip-go">
+          <span class="strip-go-text">Open the board </span>›
+        </span>
       </a>
     </div>
   );

@@ -95,7 +95,7 @@ function SensorCard({ s, canEdit, onEdit }: { s: SensorView; canEdit: boolean; o
         </div>
         <div>
           <dt>Last reading</dt>
-          <dd>{age === null ? 'never' : `${duration(age)} ago`}</dd>
+          <dd class="fig-age">{age === null ? 'never' : `${duration(age)} ago`}</dd>
         </div>
       </dl>
       <p class="muted small">

@@ -94,11 +94,15 @@ export function SiteLinks() {
           const over = l.revokedAtMs !== null || l.expiresAtMs <= now;
           return (
             <li class={`gw-item${over ? ' revoked' : ''}`} key={l.id}>
-              <strong>{l.label}</strong> — by {l.createdBy}, {dateTime(l.createdAtMs, tz)} · {l.revokedAtMs !== null ? `withdrawn ${dateTime(l.revokedAtMs, tz)}` : l.expiresAtMs <= now ? 'expired' : `until ${dateTime(l.expiresAtMs, tz)}`}
+              <p>
+                <strong>{l.label}</strong> — by {l.createdBy}, {dateTime(l.createdAtMs, tz)} · {l.revokedAtMs !== null ? `withdrawn ${dateTime(l.revokedAtMs, tz)}` : l.expiresAtMs <= now ? 'expired' : `until ${dateTime(l.expiresAtMs, tz)}`}
+              </p>
               {!over ? (
-                <button type="button" class="danger" onClick={() => void revoke(l)}>
-                  Withdraw
-                </button>
+                <div class="row">
+                  <button type="button" class="danger" onClick={() => void revoke(l)}>
+                    Withdraw
+                  </button>
+                </div>
               ) : null}
             </li>
           );
