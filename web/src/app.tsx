@@ -49,7 +49,7 @@ function ConnectionPill() {
     <span class={`pill ${ok ? 'pill-ok' : 'pill-bad'}`} role="status" aria-live="polite">
       <span class="pill-dot" aria-hidden="true" />
       {connectionText[state.connection]}
-      {!ok && age !== null ? ` · data ${duration(age)} old` : ''}
+      {!ok && age !== null ? <span class="pill-age"> · data {duration(age)} old</span> : null}
     </span>
   );
 }
