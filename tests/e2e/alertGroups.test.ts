@@ -182,7 +182,7 @@ describe.skipIf(skip)('alerts grouped by structure on the live board', () => {
     await screenshot(page, 'board-groups-phone');
     // Three full cards with the default action texts: the wind starts within two screens, the
     // first structure's name is in view by the end of the third (about two screens down).
-    const top = (selector: string) => page.locator(selector).first().evaluate((el) => el.getBoundingClientRect().top + window.scrollY);
+    const top = (selector: string) => page.locator(selector).first().evaluate((el) => el.getBoundingClientRect().top + (globalThis as unknown as { scrollY: number }).scrollY);
     const windTop = await top('.wind-panel');
     const firstStructure = await top('a.structure-card .sc-name');
     console.log(`wind panel at ${Math.round(windTop)} px, first structure at ${Math.round(firstStructure)} px (screen ${phone.height} px)`);

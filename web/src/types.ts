@@ -16,6 +16,7 @@ import type { Role } from '../../server/auth/roles.ts';
 import type { LevelDefinition, LevelTrigger } from '../../server/levels/levelDefinition.ts';
 import type { RejectionCount } from '../../server/ingest/rejections.ts';
 import type { ForecastPrediction } from '../../server/levels/predictLevels.ts';
+import type { alertsTable } from '../../db/schema.ts';
 
 export type {
   OpenAlert,
@@ -96,23 +97,8 @@ export interface LevelChangeRow {
   structureName?: string | null;
 }
 
-export interface AlertRow {
-  id: number;
-  siteId: number;
-  kind: string;
-  structureId: number | null;
-  sensorId: number | null;
-  level: number | null;
-  label: string;
-  actionText: string;
-  raisedAtMs: number;
-  gustMps: number | null;
-  utilization: number | null;
-  acknowledgedAtMs: number | null;
-  acknowledgedBy: string | null;
-  acknowledgeNote: string | null;
-  clearedAtMs: number | null;
-}
+/** An alert as the log answers it: the table's row. */
+export type AlertRow = typeof alertsTable.$inferSelect;
 
 /** GET /api/log/structures/:id */
 export interface StructureLog {
