@@ -21,6 +21,7 @@ import { LiveHub } from './live/liveHub.ts';
 import type { Logger } from './log.ts';
 import { ensureSite, getSite } from './register/site.ts';
 import { openDatabase, type Db, type OpenedDatabase } from './storage/database.ts';
+import { removeRawReadingsBefore } from './storage/retention.ts';
 import { WriteQueue } from './storage/writeQueue.ts';
 import type { TerrainCategory } from './engine/index.ts';
 import type { LevelDefinition } from './levels/index.ts';
@@ -195,7 +196,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
   const retentionTimer = setInterval(() => {
     try {
       const cutoff = now() - config.rawRetentionDays * 86_400_000;
-      const removed = sqlite.prepare('DELETE FROM readings WHERE ts_ms < ?').run(cutoff).changes;
+      const removed = removeRawReadingsBefore(sqlite, cutoff);
       if (removed > 0) log.info({ removed, cutoff }, 'raw readings past retention removed (per-minute rollups kept)');
     } catch (err) {
       log.error({ err: String(err) }, 'retention clean-up failed');

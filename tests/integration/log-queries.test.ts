@@ -77,3 +77,17 @@ describe('the wind history of a day (86 400 readings)', () => {
     fast.meanMps.forEach((m, i) => expect(m).toBeCloseTo(naive.meanMps[i]!, 9));
   });
 });
+
+describe('raw-reading retention', () => {
+  it('deletes raw readings before the cutoff and keeps the per-minute rollups, so the day still answers', async () => {
+    const { removeRawReadingsBefore } = await import('../../server/storage/retention.ts');
+    const { sqlite, queries } = seededDay();
+    const cutoff = dayStart + 12 * 3_600_000;
+    expect(removeRawReadingsBefore(sqlite, cutoff)).toBe(12 * 3600);
+    expect((sqlite.prepare('SELECT COUNT(*) AS n FROM readings').get() as { n: number }).n).toBe(12 * 3600);
+    const morning = queries.windSeries(1, dayStart, cutoff, 1_000);
+    expect(morning.source).toBe('minutes');
+    expect(morning.tMs.length).toBe(720);
+    expect(morning.meanMps[0]).toBeCloseTo(5, 9);
+  });
+});
