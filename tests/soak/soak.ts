@@ -52,7 +52,7 @@ async function main(): Promise<void> {
     const reader = res.body!.getReader();
     return (async () => {
       for (;;) if ((await reader.read()).done) return;
-    })();
+    })().catch(() => undefined); // the server going away at the end ends the stream
   });
 
   const client = await mqtt.connectAsync(`mqtt://127.0.0.1:${mqttPort}`, { username: 'soak-gw', password: gw.body.password });
