@@ -2,7 +2,8 @@
 import { speedNumber, speedUnitLabels, type SpeedUnit } from '../units.ts';
 
 export function SpeedValue({ mps, unit }: { mps: number | null | undefined; unit: SpeedUnit }) {
-  if (mps === null || mps === undefined || !Number.isFinite(mps)) return <>unknown</>;
+  // Smaller than a figure so the word fits the figure's column on a phone; never grey: unknown is not calm.
+  if (mps === null || mps === undefined || !Number.isFinite(mps)) return <span class="unknown-value">unknown</span>;
   return (
     <>
       {speedNumber(mps, unit)}
