@@ -1,21 +1,11 @@
 /**
- * Speed units a forecast table may use, and how they are spelled in headers.
- *
- * The factors are the exact definitions (1 knot = 1852 m per hour, BIPM SI brochure table 8;
- * 1 mph = 0.44704 m/s, international yard and pound agreement 1959; 1 km/h = 1/3.6 m/s). They
- * repeat the site's speed-unit table in server/engine/units.ts on purpose: this folder may not
- * depend on the engine while both are being written; the unit names are the same, so the two can
- * be merged into one table later.
+ * Speed units a forecast table may use, and how they are spelled in headers. The units and their
+ * factors are the site's one table in server/engine/units.ts (exact definitions, sources there).
  */
-export const forecastSpeedUnits = ['m/s', 'km/h', 'kn', 'mph'] as const;
-export type ForecastSpeedUnit = (typeof forecastSpeedUnits)[number];
+import { isSpeedUnit, speedToMps, speedUnits, type SpeedUnit } from '../engine/units.ts';
 
-const mpsPerUnit: Readonly<Record<ForecastSpeedUnit, number>> = {
-  'm/s': 1,
-  'km/h': 1 / 3.6,
-  kn: 1852 / 3600,
-  mph: 0.44704,
-};
+export const forecastSpeedUnits = speedUnits;
+export type ForecastSpeedUnit = SpeedUnit;
 
 /** Header spellings (lower case, inner spaces collapsed) → unit. */
 const spellings: ReadonlyMap<string, ForecastSpeedUnit> = new Map([
@@ -31,11 +21,7 @@ export function forecastSpeedUnitOf(spelling: string): ForecastSpeedUnit | null 
 }
 
 /** Whether `value` is one of the unit names accepted as a separate argument. */
-export function isForecastSpeedUnit(value: unknown): value is ForecastSpeedUnit {
-  return typeof value === 'string' && (forecastSpeedUnits as readonly string[]).includes(value);
-}
+export const isForecastSpeedUnit = isSpeedUnit;
 
 /** A speed given in `unit`, in m/s. */
-export function forecastSpeedMps(speed: number, unit: ForecastSpeedUnit): number {
-  return speed * mpsPerUnit[unit];
-}
+export const forecastSpeedMps = speedToMps;
