@@ -11,7 +11,6 @@
  */
 import { execFileSync, spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
-import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import Database from 'better-sqlite3';
@@ -19,6 +18,7 @@ import mqtt, { type MqttClient } from 'mqtt';
 import { afterAll, describe, expect, it } from 'vitest';
 import { ApiClient, waitFor } from '../helpers/testServer.ts';
 import { spawnServer, type ServerProcess } from '../helpers/serverProcess.ts';
+import { freePort, waitForListener } from '../helpers/ports.ts';
 
 const admin = { ADMIN_USERNAME: 'crash-admin', ADMIN_PASSWORD: 'crash-admin-password' };
 const cleanups: Array<() => Promise<void> | void> = [];
@@ -26,15 +26,6 @@ afterAll(async () => {
   for (const c of cleanups.reverse()) await c();
 });
 
-async function freePort(): Promise<number> {
-  return new Promise((resolve) => {
-    const s = net.createServer();
-    s.listen(0, '127.0.0.1', () => {
-      const port = (s.address() as net.AddressInfo).port;
-      s.close(() => resolve(port));
-    });
-  });
-}
 
 function countStored(dataDir: string): number {
   const db = new Database(path.join(dataDir, 'holdfast.sqlite'), { readonly: true, fileMustExist: true });
@@ -131,18 +122,7 @@ describe('a server killed with SIGKILL mid-stream', () => {
       fs.writeFileSync(path.join(dir, 'mosquitto.conf'), `listener ${port} 127.0.0.1\nallow_anonymous true\nmax_queued_messages 0\npersistence false\n`);
       const broker: ChildProcess = spawn('mosquitto', ['-c', path.join(dir, 'mosquitto.conf')], { stdio: 'ignore' });
       cleanups.push(() => void broker.kill('SIGKILL'));
-      await waitFor(
-        () =>
-          new Promise<boolean>((resolve) => {
-            const s = net.connect(port, '127.0.0.1', () => {
-              s.end();
-              resolve(true);
-            });
-            s.on('error', () => resolve(false));
-          }),
-        5_000,
-        'mosquitto listening',
-      );
+      await waitForListener(port, 'mosquitto listening');
       const env = { ...admin, DATA_DIR: dir, MQTT_URL: `mqtt://127.0.0.1:${port}`, MQTT_PROTOCOL_VERSION: protocol, MQTT_CLIENT_ID: `holdfast-crash-${protocol}` };
       let server = await spawnServer(env);
       cleanups.push(async () => {

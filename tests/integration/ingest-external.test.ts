@@ -4,12 +4,12 @@
  */
 import { execFileSync, spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
-import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import mqtt from 'mqtt';
 import { afterAll, describe, expect, it } from 'vitest';
 import { ApiClient, adminPassword, adminUsername, startTestServer, waitFor, type TestServer } from '../helpers/testServer.ts';
+import { freePort, waitForListener } from '../helpers/ports.ts';
 
 const testUrl = process.env.MQTT_TEST_URL;
 const hasMosquitto = (() => {
@@ -66,12 +66,7 @@ describe('an external broker', () => {
     // Mosquitto started as root drops to its own user: it must be able to write its state here.
     fs.chmodSync(dir, 0o777);
     cleanups.push(() => fs.rmSync(dir, { recursive: true, force: true }));
-    const port = await new Promise<number>((resolve) => {
-      const s = net.createServer().listen(0, '127.0.0.1', () => {
-        const p = (s.address() as net.AddressInfo).port;
-        s.close(() => resolve(p));
-      });
-    });
+    const port = await freePort();
     // Persistence on, queue unlimited: what the README asks of operators.
     fs.writeFileSync(
       path.join(dir, 'mosquitto.conf'),
@@ -79,19 +74,7 @@ describe('an external broker', () => {
     );
     let broker: ChildProcess = spawn('mosquitto', ['-c', path.join(dir, 'mosquitto.conf')], { stdio: 'ignore' });
     cleanups.push(() => void broker.kill('SIGKILL'));
-    const listening = () =>
-      waitFor(
-        () =>
-          new Promise<boolean>((resolve) => {
-            const s = net.connect(port, '127.0.0.1', () => {
-              s.end();
-              resolve(true);
-            });
-            s.on('error', () => resolve(false));
-          }),
-        5_000,
-        'broker listening',
-      );
+    const listening = () => waitForListener(port, 'broker listening');
     await listening();
     const ts = await serverOn(`mqtt://127.0.0.1:${port}`, 'holdfast-restart-test', 'restart-mast');
     const prefix = `holdfast-test-${process.pid}`;

@@ -5,12 +5,12 @@
  * summary; exits 0 (it reports, it does not judge). Loopback only; bounded in time.
  */
 import fs from 'node:fs';
-import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import mqtt from 'mqtt';
 import { ApiClient } from '../helpers/testServer.ts';
 import { spawnServer } from '../helpers/serverProcess.ts';
+import { freePort } from '../helpers/ports.ts';
 import { WindSimulator } from '../../server/demo/windSimulator.ts';
 
 const minutes = Number(process.env.SOAK_MINUTES ?? 10);
@@ -23,14 +23,6 @@ function rssMb(pid: number): number {
   return Number(/VmRSS:\s+(\d+)/.exec(status)![1]) / 1024;
 }
 
-async function freePort(): Promise<number> {
-  return new Promise((resolve) => {
-    const s = net.createServer().listen(0, '127.0.0.1', () => {
-      const port = (s.address() as net.AddressInfo).port;
-      s.close(() => resolve(port));
-    });
-  });
-}
 
 async function main(): Promise<void> {
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'holdfast-soak-'));
