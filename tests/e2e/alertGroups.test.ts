@@ -9,14 +9,12 @@
  * screens; "Acknowledge all 3" acknowledges every one of them on the server (GET /api/live), after
  * which the two still in force stay on the board as one line each with who acknowledged them.
  */
-import fs from 'node:fs';
 import mqtt, { type MqttClient } from 'mqtt';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { siteDefaultLevels } from '../../server/levels/siteDefaultLevels.ts';
 import {
   Api,
-  chromiumPath,
   describeViolations,
   desktop,
   ensureWebBuilt,
@@ -27,10 +25,11 @@ import {
   signInThroughForm,
   startE2eServer,
   type E2eServer,
+  requireChromium,
+  skipBrowserTests,
 } from './support.ts';
 
-const haveChromium = fs.existsSync(chromiumPath);
-const skip = !haveChromium && !process.env.CI;
+const skip = skipBrowserTests;
 
 const admin = { username: 'site-admin', password: 'e2e-admin-password' };
 const crew = { username: 'rigger', displayName: 'Jo Marsh (rigger)', password: 'e2e-crew-password' };
@@ -93,7 +92,7 @@ describe.skipIf(skip)('alerts grouped by structure on the live board', () => {
   };
 
   beforeAll(async () => {
-    if (!haveChromium) throw new Error(`Chromium is missing at ${chromiumPath}: install it (apt-get install chromium). CI requires the browser tests.`);
+    requireChromium();
     ensureWebBuilt();
     e2e = await startE2eServer(admin);
     browser = await launchBrowser();

@@ -2,14 +2,12 @@
  * A fresh server with nobody in it: the app opens on "First start", takes the one-time setup code
  * the server printed in its log, creates the first administrator and signs them in.
  */
-import fs from 'node:fs';
 import { pino } from 'pino';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
-import { chromiumPath, describeViolations, ensureWebBuilt, launchBrowser, phone, screenshot, seriousAxeViolations, startE2eServer, type E2eServer } from './support.ts';
+import { describeViolations, ensureWebBuilt, launchBrowser, phone, screenshot, seriousAxeViolations, startE2eServer, type E2eServer, requireChromium, skipBrowserTests } from './support.ts';
 
-const haveChromium = fs.existsSync(chromiumPath);
-const skip = !haveChromium && !process.env.CI;
+const skip = skipBrowserTests;
 
 describe.skipIf(skip)('first start in a real browser', () => {
   let e2e: E2eServer;
@@ -17,7 +15,7 @@ describe.skipIf(skip)('first start in a real browser', () => {
   const logLines: string[] = [];
 
   beforeAll(async () => {
-    if (!haveChromium) throw new Error(`Chromium is missing at ${chromiumPath}: install it (apt-get install chromium). CI requires the browser tests.`);
+    requireChromium();
     ensureWebBuilt();
     const log = pino({ level: 'warn' }, { write: (line: string) => void logLines.push(line) });
     e2e = await startE2eServer(null, log);

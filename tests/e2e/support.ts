@@ -158,3 +158,14 @@ export async function screenshot(page: Page, name: string): Promise<void> {
   fs.mkdirSync(screenshotDir, { recursive: true });
   await page.screenshot({ path: path.join(screenshotDir, `${name}.png`), fullPage: true });
 }
+
+/** Whether Chromium is installed where the tests look for it. */
+export const haveChromium = fs.existsSync(chromiumPath);
+/** Skip the browser tests on a machine without Chromium — never in CI, where they are required. */
+export const skipBrowserTests = !haveChromium && !process.env.CI;
+if (skipBrowserTests) console.warn(`browser tests skipped: Chromium is not at ${chromiumPath} (apt-get install chromium); they are required when CI is set`);
+
+/** Throws (in CI) when the browser is missing, with what to install. */
+export function requireChromium(): void {
+  if (!haveChromium) throw new Error(`Chromium is missing at ${chromiumPath}: install it (apt-get install chromium). CI requires the browser tests.`);
+}

@@ -15,7 +15,6 @@ import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import {
   Api,
-  chromiumPath,
   describeViolations,
   desktop,
   ensureWebBuilt,
@@ -26,11 +25,11 @@ import {
   signInThroughForm,
   startE2eServer,
   type E2eServer,
+  requireChromium,
+  skipBrowserTests,
 } from './support.ts';
 
-const haveChromium = fs.existsSync(chromiumPath);
-const skip = !haveChromium && !process.env.CI;
-if (skip) console.warn(`browser tests skipped: Chromium is not at ${chromiumPath} (apt-get install chromium); they are required when CI is set`);
+const skip = skipBrowserTests;
 
 const admin = { username: 'site-admin', password: 'e2e-admin-password' };
 const crew = { username: 'rigger', displayName: 'Jo Marsh (rigger)', password: 'e2e-crew-password' };
@@ -64,7 +63,7 @@ describe.skipIf(skip)('web app in a real browser', () => {
   const pageErrors: string[] = [];
 
   beforeAll(async () => {
-    if (!haveChromium) throw new Error(`Chromium is missing at ${chromiumPath}: install it (apt-get install chromium). CI requires the browser tests.`);
+    requireChromium();
     ensureWebBuilt();
     e2e = await startE2eServer(admin);
     browser = await launchBrowser();
