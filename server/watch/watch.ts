@@ -422,9 +422,6 @@ export class Watch implements ReadingConsumer {
     }
     if (!live || !anyLive) return { batch, afterCommit: null };
 
-    if (this.site.airDensityMode === 'measured' && readings.some((r) => r.tempC !== null || r.pressurePa !== null)) {
-      if (this.updateAirDensity()) this.refreshDensity();
-    }
     const announcements: Array<() => void> = [];
     // Plausibility is judged over seconds to minutes: once a second is enough, and a snapshot per
     // reading would be the costliest step of ingest.
@@ -733,6 +730,8 @@ export class Watch implements ReadingConsumer {
     const batch = emptyWriteBatch();
     const announcements: Array<() => void> = [];
 
+    // Measured air density follows temperature and pressure, which change over minutes: once a
+    // second here is plenty, and keeps a look across every sensor off the per-reading path.
     if (this.site.airDensityMode === 'measured' && this.updateAirDensity()) this.refreshDensity();
 
     // Stuck sensors (reading zero while their neighbours read wind) need every sensor's state.
