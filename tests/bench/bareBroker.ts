@@ -2,16 +2,15 @@
  * The embedded broker's baselines, run as a child process (`fork`, IPC) like the server, on
  * 127.0.0.1 and an ephemeral port:
  *
- * - `hook` — aedes exactly as the server builds it (Aedes.createBroker, one net server), with an
- *   `authorizePublish` that only counts and calls back at once. This is the fairest baseline for
- *   the embedded broker: the server takes each reading in that very hook and acknowledges the
- *   gateway's QoS 1 publish from it, so the difference between the two is exactly what the server
- *   adds per reading (topic → sensor, payload parsing, wind state, assessing 1,000 structures,
- *   the group commit) and nothing else. Both are measured at the publisher's PUBACKs.
  * - `subscriber` — aedes with no hooks plus a counting mqtt.js subscriber (QoS 1) in the same
- *   process: the literal "bare mqtt.js subscriber" of the design's target. It adds a forwarding
- *   hop (serialize, socket, parse, PUBACK) that the server does not have, so it is reported
- *   beside the hook baseline, not used for the target ratio.
+ *   process: the "bare mqtt.js subscriber that only counts, same broker and publisher" of the
+ *   design's target (design.md 6), and the target's baseline.
+ * - `hook` — aedes exactly as the server builds it (Aedes.createBroker, one net server), with an
+ *   `authorizePublish` that only counts and calls back at once. Stricter than the target: the
+ *   subscriber baseline pays a forwarding hop (serialize, socket, parse, PUBACK) that the server,
+ *   which takes each reading in that very hook, does not. The difference between server and hook
+ *   is exactly what the server adds per reading (topic → sensor, payload parsing, wind state,
+ *   assessing 1,000 structures, the group commit); printed for information.
  */
 import { createServer, type AddressInfo } from 'node:net';
 import { Aedes } from 'aedes';
