@@ -193,15 +193,29 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
   };
   const tickTimer = setInterval(() => void tickNow(), options.tickMs ?? 1_000);
 
-  const retentionTimer = setInterval(() => {
-    try {
-      const cutoff = now() - config.rawRetentionDays * 86_400_000;
-      const removed = removeRawReadingsBefore(sqlite, cutoff);
-      if (removed > 0) log.info({ removed, cutoff }, 'raw readings past retention removed (per-minute rollups kept)');
-    } catch (err) {
-      log.error({ err: String(err) }, 'retention clean-up failed');
-    }
-  }, 3_600_000);
+  let retentionRunning = false;
+  let closing = false;
+  const runRetention = (): void => {
+    if (retentionRunning || closing) return;
+    retentionRunning = true;
+    const cutoff = now() - config.rawRetentionDays * 86_400_000;
+    removeRawReadingsBefore(sqlite, cutoff, { pause: () => new Promise((resolve, reject) => setImmediate(() => (closing ? reject(new Error('server closing')) : resolve()))) })
+      .then(
+        (removed) => {
+          if (removed > 0) log.info({ removed, cutoff }, 'raw readings past retention removed (per-minute rollups kept)');
+        },
+        (err: unknown) => {
+          if (!closing) log.error({ err: String(err) }, 'retention clean-up failed');
+        },
+      )
+      .finally(() => {
+        retentionRunning = false;
+      });
+  };
+  // A minute after start (a server restarted every night still cleans up), then hourly.
+  const retentionFirst = setTimeout(runRetention, 60_000);
+  retentionFirst.unref();
+  const retentionTimer = setInterval(runRetention, 3_600_000);
   retentionTimer.unref();
 
   const limiter = new SignInLimiter();
@@ -298,7 +312,9 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
   log.info({ url: `http://${config.httpHost === '0.0.0.0' ? 'localhost' : config.httpHost}:${running.httpPort}/`, mqttPort: running.mqttPort, mqttUrl: external ? external.health().url : null, dataDir: config.dataDir }, 'server started');
 
   running.close = async () => {
+    closing = true;
     clearInterval(tickTimer);
+    clearTimeout(retentionFirst);
     clearInterval(retentionTimer);
     await new Promise<void>((resolve) => {
       server.close(() => resolve());

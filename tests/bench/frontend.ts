@@ -1,7 +1,7 @@
 /**
  * Benchmark 6: the front end's JavaScript, gzipped (zlib's default level, as a web server would
- * send it), summed over web/dist/assets/*.js. Nothing is built here: run `npm run build` first;
- * without web/dist the row says "not built".
+ * send it), summed over web/dist/assets/*.js, as `npm run bench` builds it (`npm run build` runs
+ * first); without web/dist the row says "not built".
  */
 import fs from 'node:fs';
 import path from 'node:path';

@@ -4,9 +4,9 @@
  * in one run, with the same publisher (one child process, four gateway connections, the same
  * prepared readings) and the same broker.
  *
- * Every process under test is a child process started the same way (`node --import tsx`): the
- * server with spawnServer (server/main.ts), the baselines from bareBroker.ts and
- * countingSubscriber.ts. Each run starts from scratch (fresh data folder; for Mosquitto a fresh
+ * Every process under test is a child process: the server compiled, as `npm start` runs it
+ * (spawnServer, dist/server/main.js), the baselines from bareBroker.ts and countingSubscriber.ts
+ * under tsx (its loader transforms the files once at import; nothing per message). Each run starts from scratch (fresh data folder; for Mosquitto a fresh
  * broker, so no session of an earlier run queues messages), warms up with a short burst, then
  * times the main burst.
  *
@@ -174,7 +174,7 @@ async function embeddedBare(o: IngestOptions, mode: 'hook' | 'subscriber', repea
 
 async function embeddedServer(o: IngestOptions, repeat: number): Promise<IngestRun> {
   const dataDir = copyTemplate(o.templateDir, path.join(o.workDir, `ingest-embedded-${repeat}`));
-  const server = await spawnServer({ ...o.serverEnv, DATA_DIR: dataDir, MQTT_PORT: '0', MQTT_TOPIC_PREFIX: topicPrefix }, 60_000);
+  const server = await spawnServer({ ...o.serverEnv, DATA_DIR: dataDir, MQTT_PORT: '0', MQTT_TOPIC_PREFIX: topicPrefix }, 60_000, { compiled: true });
   track(server.proc);
   let pub: Publisher | null = null;
   let memory: ReturnType<typeof sampleMemory> | null = null;
@@ -245,7 +245,7 @@ async function mosquittoServer(o: IngestOptions, repeat: number): Promise<Ingest
   let pub: Publisher | null = null;
   let memory: ReturnType<typeof sampleMemory> | null = null;
   try {
-    server = await spawnServer({ ...o.serverEnv, DATA_DIR: dataDir, MQTT_URL: broker.url, MQTT_CLIENT_ID: `holdfast-bench-${repeat}`, MQTT_PROTOCOL_VERSION: '5', MQTT_TOPIC_PREFIX: topicPrefix }, 60_000);
+    server = await spawnServer({ ...o.serverEnv, DATA_DIR: dataDir, MQTT_URL: broker.url, MQTT_CLIENT_ID: `holdfast-bench-${repeat}`, MQTT_PROTOCOL_VERSION: '5', MQTT_TOPIC_PREFIX: topicPrefix }, 60_000, { compiled: true });
     track(server.proc);
     const s = server;
     const connectedBy = Date.now() + 20_000;

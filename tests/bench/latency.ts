@@ -1,6 +1,6 @@
 /**
  * Benchmark 2, reading → level change on the live stream, and benchmark 5, resident memory,
- * on one server process (spawnServer: `node --import tsx server/main.ts`, embedded broker) with
+ * on one server process (spawnServer: the compiled `dist/server/main.js`, as `npm start` runs it, embedded broker) with
  * the benchmark register (100 sensors, 1,000 structures taking their wind from every sensor).
  *
  * Latency: a signed-in client reads /api/stream (Server-Sent Events) while a publisher child
@@ -169,7 +169,7 @@ async function watchStream(api: ApiClient, probeId: number): Promise<StreamWatch
 
 export async function runLatency(o: LatencyOptions): Promise<LatencyResult> {
   const dataDir = copyTemplate(o.templateDir, path.join(o.workDir, 'latency'));
-  const server = await spawnServer({ ...o.serverEnv, DATA_DIR: dataDir, MQTT_PORT: '0', MQTT_TOPIC_PREFIX: topicPrefix, ADMIN_USERNAME: adminUser, ADMIN_PASSWORD: adminPassword }, 60_000);
+  const server = await spawnServer({ ...o.serverEnv, DATA_DIR: dataDir, MQTT_PORT: '0', MQTT_TOPIC_PREFIX: topicPrefix, ADMIN_USERNAME: adminUser, ADMIN_PASSWORD: adminPassword }, 60_000, { compiled: true });
   track(server.proc);
   const pid = server.proc.pid!;
   const startedRssKb = procMemoryKb(pid)?.rssKb ?? 0;

@@ -107,21 +107,21 @@ const rows: Row[] = [];
 const mb = (kb: number): string => `${(kb / 1024).toFixed(0)} MB`;
 const ms = (v: number): string => (v >= 100 ? v.toFixed(0) : v >= 10 ? v.toFixed(1) : v.toFixed(2));
 
-async function memoryContext(): Promise<{ nodeTsxIdleKb: number; emptyServerKb: number }> {
-  // What the runtime costs before any register: node with tsx's loader, and the server with nothing registered.
+async function memoryContext(): Promise<{ nodeIdleKb: number; emptyServerKb: number }> {
+  // What the runtime costs before any register: node itself, and the server with nothing registered.
   const { spawn } = await import('node:child_process');
-  const idle = track(spawn(process.execPath, ['--import', 'tsx', '--eval', 'setInterval(() => {}, 1000)'], { stdio: 'ignore' }));
+  const idle = track(spawn(process.execPath, ['--eval', 'setInterval(() => {}, 1000)'], { stdio: 'ignore' }));
   await sleep(2_000);
-  const nodeTsxIdleKb = procMemoryKb(idle.pid!)?.rssKb ?? 0;
+  const nodeIdleKb = procMemoryKb(idle.pid!)?.rssKb ?? 0;
   idle.kill('SIGKILL');
   const dir = path.join(workDir, 'empty-server');
   fs.rmSync(dir, { recursive: true, force: true });
-  const server = await spawnServer({ DATA_DIR: dir, MQTT_PORT: '0' }, 60_000);
+  const server = await spawnServer({ DATA_DIR: dir, MQTT_PORT: '0' }, 60_000, { compiled: true });
   track(server.proc);
   await sleep(2_000);
   const emptyServerKb = procMemoryKb(server.proc.pid!)?.rssKb ?? 0;
   await stopGracefully(server);
-  return { nodeTsxIdleKb, emptyServerKb };
+  return { nodeIdleKb, emptyServerKb };
 }
 
 async function main(): Promise<void> {
@@ -140,7 +140,7 @@ async function main(): Promise<void> {
     breakdown?: BreakdownResult;
     latency?: LatencyResult;
     loadAverage: Record<string, number[]>;
-    memoryContext?: { nodeTsxIdleKb: number; emptyServerKb: number };
+    memoryContext?: { nodeIdleKb: number; emptyServerKb: number };
     festival?: { readings: number; generatedSeconds: number | null; cached: boolean };
     logQueries?: QueryTiming[];
     storage?: StorageResult;
@@ -271,7 +271,7 @@ async function main(): Promise<void> {
     });
     const context = await memoryContext();
     result.memoryContext = context;
-    log(`  for comparison: node + tsx idle ${mb(context.nodeTsxIdleKb)}, server with an empty register ${mb(context.emptyServerKb)}`);
+    log(`  for comparison: node idle ${mb(context.nodeIdleKb)}, server with an empty register ${mb(context.emptyServerKb)}`);
     const maxRss = Math.max(latency.memory.latencyPhase.maxRssKb, latency.memory.burst.maxRssKb);
     rows.push({
       what: `5 resident memory (${fleet.sensors.length} sensors, ${fleet.structures} structures, under load)`,
@@ -279,7 +279,7 @@ async function main(): Promise<void> {
       target: '≤ 200 MB',
       verdict: maxRss <= 200 * 1024 ? 'ok' : 'MISS',
     });
-    rows.push({ what: '  for comparison: node + tsx idle / server, empty register', measured: `${mb(context.nodeTsxIdleKb)} / ${mb(context.emptyServerKb)}`, target: '(info)', verdict: 'info' });
+    rows.push({ what: '  for comparison: node idle / server, empty register', measured: `${mb(context.nodeIdleKb)} / ${mb(context.emptyServerKb)}`, target: '(info)', verdict: 'info' });
   }
 
   // 3 and 4. log queries and storage

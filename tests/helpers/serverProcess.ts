@@ -1,6 +1,8 @@
 /**
  * Runs the server as a separate process (`node --import tsx server/main.ts`), so a test can kill
  * it with SIGKILL mid-stream and start it again on the same data folder, as a crash would.
+ * `compiled: true` runs `dist/server/main.js` instead, as `npm start` does (build first): the
+ * benchmarks and the soak measure the server as shipped, without the tsx loader's memory.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import readline from 'node:readline';
@@ -14,8 +16,9 @@ export interface ServerProcess {
   kill(signal?: NodeJS.Signals): Promise<void>;
 }
 
-export async function spawnServer(env: Record<string, string>, timeoutMs = 20_000): Promise<ServerProcess> {
-  const proc = spawn(process.execPath, ['--import', 'tsx', 'server/main.ts'], {
+export async function spawnServer(env: Record<string, string>, timeoutMs = 20_000, options: { compiled?: boolean } = {}): Promise<ServerProcess> {
+  const args = options.compiled ? ['dist/server/main.js'] : ['--import', 'tsx', 'server/main.ts'];
+  const proc = spawn(process.execPath, args, {
     cwd: process.cwd(),
     env: { ...process.env, HOST: '127.0.0.1', MQTT_HOST: '127.0.0.1', PORT: '0', LOG_LEVEL: 'info', ...env },
     stdio: ['ignore', 'pipe', 'pipe'],

@@ -83,11 +83,30 @@ describe('raw-reading retention', () => {
     const { removeRawReadingsBefore } = await import('../../server/storage/retention.ts');
     const { sqlite, queries } = seededDay();
     const cutoff = dayStart + 12 * 3_600_000;
-    expect(removeRawReadingsBefore(sqlite, cutoff)).toBe(12 * 3600);
+    expect(await removeRawReadingsBefore(sqlite, cutoff)).toBe(12 * 3600);
     expect((sqlite.prepare('SELECT COUNT(*) AS n FROM readings').get() as { n: number }).n).toBe(12 * 3600);
     const morning = queries.windSeries(1, dayStart, cutoff, 1_000);
     expect(morning.source).toBe('minutes');
     expect(morning.tMs.length).toBe(720);
     expect(morning.meanMps[0]).toBeCloseTo(5, 9);
+  });
+
+  it('deletes slice by slice per sensor, giving the event loop back between slices, and skips long gaps', async () => {
+    const { removeRawReadingsBefore } = await import('../../server/storage/retention.ts');
+    const { sqlite } = seededDay();
+    // A second sensor with one reading a month before the day and a few inside it.
+    sqlite.prepare("INSERT INTO sensors (id, site_id, key, name, height_m, created_at_ms) VALUES (2, 1, 'mast-2', 'Mast 2', 10, 0)").run();
+    const insert = sqlite.prepare('INSERT INTO readings (sensor_id, ts_ms, speed_cmps, flags) VALUES (2, ?, 500, 0)');
+    for (const ts of [dayStart - 30 * 86_400_000, dayStart + 1_000, dayStart + 13 * 3_600_000]) insert.run(ts);
+    const cutoff = dayStart + 6 * 3_600_000;
+    let pauses = 0;
+    const removed = await removeRawReadingsBefore(sqlite, cutoff, { sliceMs: 3_600_000, pause: async () => void pauses++ });
+    // Sensor 1: 6 h × 3 600 readings; sensor 2: the two before the cutoff.
+    expect(removed).toBe(6 * 3600 + 2);
+    // Sensor 1: six one-hour slices; sensor 2: the month-old reading, then straight to the day's.
+    expect(pauses).toBe(6 + 2);
+    const left = (id: number) => (sqlite.prepare('SELECT COUNT(*) AS n, MIN(ts_ms) AS first FROM readings WHERE sensor_id = ?').get(id) as { n: number; first: number });
+    expect(left(1)).toEqual({ n: 18 * 3600, first: cutoff });
+    expect(left(2)).toEqual({ n: 1, first: dayStart + 13 * 3_600_000 });
   });
 });

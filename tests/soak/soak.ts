@@ -27,7 +27,7 @@ function rssMb(pid: number): number {
 async function main(): Promise<void> {
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'holdfast-soak-'));
   const mqttPort = await freePort();
-  const server = await spawnServer({ DATA_DIR: dataDir, MQTT_PORT: String(mqttPort), ADMIN_USERNAME: 'soak-admin', ADMIN_PASSWORD: 'soak-admin-password' });
+  const server = await spawnServer({ DATA_DIR: dataDir, MQTT_PORT: String(mqttPort), ADMIN_USERNAME: 'soak-admin', ADMIN_PASSWORD: 'soak-admin-password' }, 60_000, { compiled: true });
   const api = new ApiClient(`http://127.0.0.1:${server.httpPort}`);
   await api.signIn('soak-admin', 'soak-admin-password');
   const keys = Array.from({ length: sensorCount }, (_, i) => `soak-${i}`);
