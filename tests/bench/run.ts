@@ -272,10 +272,11 @@ async function main(): Promise<void> {
     const context = await memoryContext();
     result.memoryContext = context;
     log(`  for comparison: node idle ${mb(context.nodeIdleKb)}, server with an empty register ${mb(context.emptyServerKb)}`);
-    const maxRss = Math.max(latency.memory.latencyPhase.maxRssKb, latency.memory.burst.maxRssKb);
+    // The verdict takes the kernel's peak (VmHWM), which also sees spikes between samples.
+    const maxRss = Math.max(latency.memory.latencyPhase.maxRssKb, latency.memory.burst.maxRssKb, latency.memory.hwmKb);
     rows.push({
       what: `5 resident memory (${fleet.sensors.length} sensors, ${fleet.structures} structures, under load)`,
-      measured: `max VmRSS ${mb(maxRss)} (${mb(latency.memory.latencyPhase.maxRssKb)} at ${settings.backgroundPerS}/s, ${mb(latency.memory.burst.maxRssKb)} in a burst)`,
+      measured: `peak ${mb(maxRss)} (sampled ${mb(latency.memory.latencyPhase.maxRssKb)} at ${settings.backgroundPerS}/s, ${mb(latency.memory.burst.maxRssKb)} in a burst; VmHWM ${mb(latency.memory.hwmKb)})`,
       target: '≤ 200 MB',
       verdict: maxRss <= 200 * 1024 ? 'ok' : 'MISS',
     });
