@@ -143,14 +143,19 @@ async function subscribed(broker: Broker): Promise<void> {
   );
 }
 
+/** A TCP broker, the subscriber connected and subscribed with a HeldSink, and a publisher. */
+async function subscriberWithHeldSink() {
+  const broker = await startBroker('tcp');
+  const sink = new HeldSink();
+  const c = client(`mqtt://127.0.0.1:${broker.port}`, sink);
+  await c.start();
+  await subscribed(broker);
+  return { broker, sink, c, pub: await publisher(broker.port) };
+}
+
 describe('the external-broker subscriber', () => {
   it('acknowledges a QoS 1 message only after the sink has committed it, in the order received', async () => {
-    const broker = await startBroker('tcp');
-    const sink = new HeldSink();
-    const c = client(`mqtt://127.0.0.1:${broker.port}`, sink);
-    await c.start();
-    await subscribed(broker);
-    const pub = await publisher(broker.port);
+    const { broker, sink, pub } = await subscriberWithHeldSink();
     const n = 200;
     await Promise.all(Array.from({ length: n }, (_, i) => pub.publishAsync(`${prefix}/mast-${i % 7}/reading`, String(i), { qos: 1 })));
     // The broker lets a limited number of messages be in flight to one subscriber at once.
@@ -171,12 +176,7 @@ describe('the external-broker subscriber', () => {
   });
 
   it('leaves a message that could not be committed unacknowledged, drops the connection and takes the redelivery', async () => {
-    const broker = await startBroker('tcp');
-    const sink = new HeldSink();
-    const c = client(`mqtt://127.0.0.1:${broker.port}`, sink);
-    await c.start();
-    await subscribed(broker);
-    const pub = await publisher(broker.port);
+    const { broker, sink, c, pub } = await subscriberWithHeldSink();
     await pub.publishAsync(`${prefix}/mast-a/reading`, 'first', { qos: 1 });
     await waitFor(() => sink.held === 1, 5_000, 'first message handed over');
     sink.failFirst();
