@@ -10,6 +10,7 @@
  * The steps run in order and share one server: each `it` is one stage of the same day on site.
  */
 import fs from 'node:fs';
+import jsQRModule from 'jsqr';
 import mqtt, { type MqttClient } from 'mqtt';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -284,6 +285,25 @@ describe.skipIf(skip)('web app in a real browser', () => {
     await page.getByRole('button', { name: 'Make link' }).click();
     const url = (await page.getByTestId('site-link-url').textContent()) ?? '';
     expect(url).toMatch(/\/link\/[A-Za-z0-9_-]+$/);
+    // The scan code, drawn as the browser renders it, read back by jsQR (an independent decoder
+    // from the npm registry): it must carry exactly the link.
+    const side = 400;
+    const pixels = await page.getByTestId('scan-code').evaluate(async (svg, px) => {
+      // Runs in the page: DOM names through globalThis (the test project is typed without DOM).
+      const w = globalThis as any;
+      const img = new w.Image();
+      img.src = `data:image/svg+xml;charset=utf-8,${encodeURIComponent(new w.XMLSerializer().serializeToString(svg))}`;
+      await img.decode();
+      const canvas = w.document.createElement('canvas');
+      canvas.width = px;
+      canvas.height = px;
+      const ctx = canvas.getContext('2d');
+      ctx.drawImage(img, 0, 0, px, px);
+      return Array.from(ctx.getImageData(0, 0, px, px).data as ArrayLike<number>);
+    }, side);
+    const jsQR = (jsQRModule as unknown as { default: typeof jsQRModule.default }).default;
+    expect(jsQR(Uint8ClampedArray.from(pixels), side, side)?.data).toBe(url);
+    await screenshot(page, 'site-link-made');
     await page.getByRole('button', { name: 'Done' }).click();
     await page.locator('li', { hasText: 'Gate stewards' }).getByRole('button', { name: 'Withdraw' }).waitFor();
 

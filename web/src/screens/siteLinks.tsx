@@ -1,11 +1,12 @@
 /**
  * Site links (competent person): a URL that opens the live board read-only without an account,
- * until it expires or is withdrawn — for stewards, by message. No QR code: a hand-written encoder
- * would cost more than it is worth here; phones share links well enough.
+ * until it expires or is withdrawn — for stewards, by message, or scanned off this screen at a
+ * briefing (the QR code is shown with the link, once, like the link itself).
  */
 import { useEffect, useState } from 'preact/hooks';
 import { api, errorText } from '../api.ts';
 import { Field } from '../components/field.tsx';
+import { ScanCode } from '../components/scanCode.tsx';
 import { useTimeZone } from '../site.ts';
 import type { SiteLink } from '../types.ts';
 import { dateTime } from '../units.ts';
@@ -54,12 +55,12 @@ export function SiteLinks() {
   return (
     <main id="main">
       <h1>Site links</h1>
-      <p class="help">A site link opens the live board and the log read-only, without an account, until it expires or you withdraw it. Send it to stewards by message; anyone holding it can watch.</p>
+      <p class="help">A site link opens the live board and the log read-only, without an account, until it expires or you withdraw it. Send it to stewards by message or let them scan its code; anyone holding it can watch.</p>
       {error ? <p class="error-box">{error}</p> : null}
       {made ? (
         <div class="secret-box" role="status">
           <h2>Link for “{made.label}”</h2>
-          <p>Shown once: copy it now. Works until {dateTime(made.expiresAtMs, tz)}.</p>
+          <p>Shown once: copy it or let phones scan it now. Works until {dateTime(made.expiresAtMs, tz)}.</p>
           <p class="secret">
             <code data-testid="site-link-url">{made.url}</code>
           </p>
@@ -67,6 +68,10 @@ export function SiteLinks() {
             <button type="button" onClick={() => navigator.clipboard?.writeText(made.url).then(() => setCopied(true))}>
               {copied ? 'Copied' : 'Copy link'}
             </button>
+          </div>
+          <ScanCode text={made.url} label={`Scan code of the site link for ${made.label}`} />
+          <p class="help">Point a phone camera at the code to open the board. Anyone who can see this screen can scan it.</p>
+          <div class="row">
             <button type="button" onClick={() => setMade(null)}>
               Done
             </button>
