@@ -1,8 +1,14 @@
 /**
- * Soak: runs the server as its own process under a steady load for a while and reports how its
- * resident memory grows. `npm run soak` (SOAK_MINUTES, default 10; SOAK_RATE readings/s, default
- * 100; SOAK_SENSORS, default 20; SOAK_STRUCTURES, default 200). Prints a line per sample and a
- * summary; exits 0 (it reports, it does not judge). Loopback only; bounded in time.
+ * Soak: runs the server (compiled, as `npm start` does) as its own process under a steady load
+ * for a while and reports how its memory grows. `npm run soak` (SOAK_MINUTES, default 10;
+ * SOAK_RATE readings/s, default 100; SOAK_SENSORS, default 20; SOAK_STRUCTURES, default 200).
+ * Prints a line per sample and a summary; exits 0 (it reports, it does not judge). Loopback only;
+ * bounded in time.
+ *
+ * The resident set saw-tooths as V8 grows and shrinks its heap, so first-versus-last says little;
+ * the server is also started with heapProbe.mjs, which forces a full collection every 30 s and
+ * records the live heap, and the summary fits a straight line (least squares) through those
+ * samples after the first two minutes: the slope is the growth per hour.
  */
 import fs from 'node:fs';
 import os from 'node:os';
@@ -27,7 +33,19 @@ function rssMb(pid: number): number {
 async function main(): Promise<void> {
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'holdfast-soak-'));
   const mqttPort = await freePort();
-  const server = await spawnServer({ DATA_DIR: dataDir, MQTT_PORT: String(mqttPort), ADMIN_USERNAME: 'soak-admin', ADMIN_PASSWORD: 'soak-admin-password' }, 60_000, { compiled: true });
+  const probeFile = path.join(dataDir, 'heap-probe.jsonl');
+  const server = await spawnServer(
+    {
+      DATA_DIR: dataDir,
+      MQTT_PORT: String(mqttPort),
+      ADMIN_USERNAME: 'soak-admin',
+      ADMIN_PASSWORD: 'soak-admin-password',
+      NODE_OPTIONS: `--expose-gc --import ${path.resolve('tests/soak/heapProbe.mjs')}`,
+      HEAP_PROBE_FILE: probeFile,
+    },
+    60_000,
+    { compiled: true },
+  );
   const api = new ApiClient(`http://127.0.0.1:${server.httpPort}`);
   await api.signIn('soak-admin', 'soak-admin-password');
   const keys = Array.from({ length: sensorCount }, (_, i) => `soak-${i}`);
@@ -72,13 +90,41 @@ async function main(): Promise<void> {
   await client.endAsync();
   await server.kill('SIGTERM');
   void drains;
-  const first = samples[Math.min(1, samples.length - 1)]!;
-  const last = samples.at(-1)!;
-  const hours = Math.max(1e-9, (last.atS - first.atS) / 3600);
+  const probes = fs.existsSync(probeFile)
+    ? fs
+        .readFileSync(probeFile, 'utf8')
+        .trim()
+        .split('\n')
+        .map((line) => JSON.parse(line) as { atMs: number; rss: number; heapUsed: number })
+    : [];
   console.log(`\nsoak: ${minutes} min, ${published} readings (${(published / (minutes * 60)).toFixed(0)}/s), ${sensorCount} sensors, ${structureCount} structures, 5 stream clients`);
-  console.log(`resident memory: first sample after warm-up ${first.rssMb} MB, last ${last.rssMb} MB, growth ${(last.rssMb - first.rssMb).toFixed(1)} MB (${((last.rssMb - first.rssMb) / hours).toFixed(1)} MB/h)`);
+  const rssValues = samples.map((s) => s.rssMb);
+  console.log(`resident memory: ${Math.min(...rssValues).toFixed(1)} to ${Math.max(...rssValues).toFixed(1)} MB over the run; first sample ${samples[0]!.rssMb} MB, last ${samples.at(-1)!.rssMb} MB`);
+  const settled = probes.filter((p) => p.atMs - startedAt >= 120_000);
+  if (settled.length >= 3) {
+    const mb = (b: number): number => b / 2 ** 20;
+    const slope = (values: number[]): number => leastSquaresSlope(settled.map((p) => (p.atMs - startedAt) / 3_600_000), values);
+    const heap = settled.map((p) => mb(p.heapUsed));
+    console.log(
+      `live heap after a full collection (${settled.length} samples from minute 2 on): ${heap[0]!.toFixed(1)} → ${heap.at(-1)!.toFixed(1)} MB, trend ${slope(heap).toFixed(1)} MB/h; resident set at those moments ${mb(settled[0]!.rss).toFixed(1)} → ${mb(settled.at(-1)!.rss).toFixed(1)} MB, trend ${slope(settled.map((p) => mb(p.rss))).toFixed(1)} MB/h`,
+    );
+  } else console.log('live heap: too few probe samples after minute 2 for a trend (run longer: SOAK_MINUTES)');
   fs.rmSync(dataDir, { recursive: true, force: true });
   process.exit(0);
+}
+
+/** Slope of the least-squares line through (x, y). */
+function leastSquaresSlope(x: number[], y: number[]): number {
+  const n = x.length;
+  const mx = x.reduce((a, b) => a + b, 0) / n;
+  const my = y.reduce((a, b) => a + b, 0) / n;
+  let sxy = 0;
+  let sxx = 0;
+  for (let i = 0; i < n; i++) {
+    sxy += (x[i]! - mx) * (y[i]! - my);
+    sxx += (x[i]! - mx) ** 2;
+  }
+  return sxx === 0 ? 0 : sxy / sxx;
 }
 
 void main();
