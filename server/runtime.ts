@@ -22,7 +22,7 @@ import type { Logger } from './log.ts';
 import { ensureSite, getSite } from './register/site.ts';
 import { openDatabase, type Db, type OpenedDatabase } from './storage/database.ts';
 import { removeRawReadingsBefore } from './storage/retention.ts';
-import { WriteQueue } from './storage/writeQueue.ts';
+import { rebuildNewestMinutes, WriteQueue } from './storage/writeQueue.ts';
 import type { TerrainCategory } from './engine/index.ts';
 import type { LevelDefinition } from './levels/index.ts';
 import { Watch, type InitialState, type OpenAlert, type SiteSettings, type SystemStatus } from './watch/watch.ts';
@@ -131,6 +131,8 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
   const accounts = new Accounts(db);
   const registry = new Registry(db);
   const rejections = new RejectionLog(sqlite, log, now);
+  // Each sensor's newest minute rollup lived in memory until the last stop: recompute it.
+  rebuildNewestMinutes(sqlite);
   const queue = new WriteQueue(sqlite, now, config.mqttUrl ? 0 : 2);
   const hub = new LiveHub();
   let systemStatus: () => SystemStatus = () => ({ storageOk: true, storageError: null, storageBacklogRows: 0, brokerOk: true, brokerState: 'starting' });
@@ -176,6 +178,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     if (tickRunning) return;
     tickRunning = true;
     try {
+      queue.writeOpenMinutes();
       const result = watch.tick();
       if (result) {
         // Held in memory when the database cannot write: reported once below, on the change of state.
@@ -323,7 +326,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     });
     await broker?.stop();
     await external?.stop();
-    queue.flush();
+    queue.settle();
     queue.stop();
     rejections.flush();
     sqlite.close();

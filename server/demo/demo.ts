@@ -113,7 +113,7 @@ function writePastDay(server: RunningServer, nowMs: number, seed: number, log: L
       pending = 0;
     }
   }
-  queue.flush();
+  queue.settle();
 
   // The crew acknowledged every alert within a few minutes, with what they did.
   const random = seededRandom(seed + 1);

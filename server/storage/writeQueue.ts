@@ -12,6 +12,14 @@
  * would reach the watch late or never. Live alerting comes first; the price is that a crash while
  * the disk is full loses what was held (the README says so).
  *
+ * Per-minute wind rollups: each sensor's newest minute is summed in memory and written when the
+ * sensor moves on to the next minute (in the same transaction as that minute's first reading),
+ * and what it gathered so far by `writeOpenMinutes` (the server's 1 Hz tick, and at shutdown):
+ * an upsert per sensor per second instead of one per commit, which cost about a third of the
+ * commit (`npm run bench`). Readings for older minutes (out of order, late) are upserted at once.
+ * After a crash, `rebuildNewestMinutes` recomputes each sensor's newest minute from its raw
+ * readings, so the log never misses what the memory held.
+ *
  * Raw prepared statements, not the query builder: this is the per-message path.
  */
 import type Database from 'better-sqlite3';
@@ -52,6 +60,16 @@ interface MinuteAggregate {
   dirCount: number;
 }
 
+/** Rollups a commit touches: each sensor's open minute (copies), and older minutes to upsert. */
+interface MinuteWork {
+  open: Map<number, MinuteAggregate>;
+  older: Map<string, MinuteAggregate>;
+}
+
+function emptyMinute(sensorId: number, minuteMs: number): MinuteAggregate {
+  return { sensorId, minuteMs, count: 0, speedSumCmps: 0, maxGustCmps: 0, dirSin: 0, dirCos: 0, dirCount: 0 };
+}
+
 const minuteMs = 60_000;
 const toCmps = (speedMps: number): number => Math.round(speedMps * 100);
 
@@ -71,6 +89,8 @@ export interface WriteQueueStats {
 
 export class WriteQueue {
   private pending: Pending[] = [];
+  /** Per sensor: its newest minute, and what that minute gathered since it was last written. */
+  private openMinutes = new Map<number, MinuteAggregate>();
   private backlog: WriteBatch[] = [];
   private retryTimer: NodeJS.Timeout | null = null;
   private scheduled = false;
@@ -94,7 +114,8 @@ export class WriteQueue {
   private readonly clearAlert: Database.Statement;
   private readonly acknowledgeAlert: Database.Statement;
   private readonly insertAudit: Database.Statement;
-  private readonly commit: (batches: WriteBatch[]) => void;
+  private readonly commit: (batches: WriteBatch[]) => Map<number, MinuteAggregate>;
+  private readonly commitMinutes: (aggregates: MinuteAggregate[]) => void;
 
   /**
    * @param groupWindowMs how long the first batch of a group waits for company before the commit.
@@ -145,7 +166,9 @@ export class WriteQueue {
     );
     this.insertAudit = sqlite.prepare(`INSERT INTO audit (at_ms, actor, entity, entity_id, action, before_json, after_json) VALUES (?, ?, 'alert', ?, 'acknowledge', NULL, ?)`);
     this.commit = sqlite.transaction((batches: WriteBatch[]) => {
-      const minutes = new Map<string, MinuteAggregate>();
+      // Open minutes are changed on copies, adopted only once the transaction commits: a
+      // rolled-back commit is retried from the backlog and must not be counted twice.
+      const minutes: MinuteWork = { older: new Map(), open: new Map() };
       for (const batch of batches) {
         for (const row of batch.readings) this.writeReading(row, minutes);
         for (const row of batch.structureMinutes) this.writeStructureMinute(row);
@@ -154,9 +177,11 @@ export class WriteQueue {
         for (const cleared of batch.clearedAlerts) this.clearAlert.run(cleared.atMs, cleared.id);
         for (const ack of batch.acknowledgements) this.writeAcknowledgement(ack);
       }
-      for (const m of minutes.values()) {
-        this.upsertWindMinute.run(m.sensorId, m.minuteMs, m.count, m.speedSumCmps, m.maxGustCmps, m.dirSin, m.dirCos, m.dirCount);
-      }
+      for (const m of minutes.older.values()) this.writeMinute(m);
+      return minutes.open;
+    });
+    this.commitMinutes = sqlite.transaction((aggregates: MinuteAggregate[]) => {
+      for (const m of aggregates) this.writeMinute(m);
     });
   }
 
@@ -181,8 +206,9 @@ export class WriteQueue {
     if (pending.length === 0 && this.backlog.length === 0) return;
     this.pending = [];
     const batches = [...this.backlog, ...pending.map((p) => p.batch)];
+    let opened: Map<number, MinuteAggregate>;
     try {
-      this.commit(batches);
+      opened = this.commit(batches);
     } catch (err) {
       this.stats.failedCommits++;
       this.stats.lastError = err instanceof Error ? err.message : String(err);
@@ -191,6 +217,7 @@ export class WriteQueue {
       for (const p of pending) p.resolve({ stored: false });
       return;
     }
+    for (const [sensorId, agg] of opened) this.openMinutes.set(sensorId, agg);
     this.backlog = [];
     this.stats.backlogRows = 0;
     if (this.retryTimer) clearInterval(this.retryTimer);
@@ -198,6 +225,30 @@ export class WriteQueue {
     this.stats.committedBatches += pending.length;
     this.stats.lastCommitAtMs = this.now();
     for (const p of pending) p.resolve({ stored: true });
+  }
+
+  /**
+   * Writes what each sensor's newest minute gathered since it was last written (the 1 Hz tick;
+   * shutdown). Nothing is lost when the database cannot write: the sums stay in memory and go
+   * with the next call that succeeds.
+   */
+  writeOpenMinutes(): void {
+    const dirty = [...this.openMinutes.values()].filter((m) => m.count > 0);
+    if (dirty.length === 0) return;
+    try {
+      this.commitMinutes(dirty);
+    } catch (err) {
+      this.stats.lastError = err instanceof Error ? err.message : String(err);
+      this.stats.lastErrorAtMs = this.now();
+      return;
+    }
+    for (const m of dirty) this.openMinutes.set(m.sensorId, emptyMinute(m.sensorId, m.minuteMs));
+  }
+
+  /** Commits everything pending and the open minutes: shutdown, and tools that read right after writing. */
+  settle(): void {
+    this.flush();
+    this.writeOpenMinutes();
   }
 
   /** True while the last commit failed or rows wait in the backlog. */
@@ -230,7 +281,7 @@ export class WriteQueue {
     this.retryTimer = null;
   }
 
-  private writeReading(row: ReadingRow, minutes: Map<string, MinuteAggregate>): void {
+  private writeReading(row: ReadingRow, minutes: MinuteWork): void {
     const speedCmps = toCmps(row.speedMps);
     const result = this.insertReading.run(
       row.sensorId,
@@ -250,12 +301,26 @@ export class WriteQueue {
     }
     this.stats.committedReadings++;
     const minute = row.tsMs - (row.tsMs % minuteMs);
-    const key = `${row.sensorId}:${minute}`;
-    let agg = minutes.get(key);
-    if (!agg) {
-      agg = { sensorId: row.sensorId, minuteMs: minute, count: 0, speedSumCmps: 0, maxGustCmps: 0, dirSin: 0, dirCos: 0, dirCount: 0 };
-      minutes.set(key, agg);
+    let open = minutes.open.get(row.sensorId);
+    if (!open) {
+      const current = this.openMinutes.get(row.sensorId);
+      open = current ? { ...current } : emptyMinute(row.sensorId, minute);
     }
+    let agg: MinuteAggregate;
+    if (minute === open.minuteMs) {
+      agg = open;
+    } else if (minute > open.minuteMs) {
+      // The sensor moved on: its finished minute is written with this reading.
+      if (open.count > 0) this.writeMinute(open);
+      open = emptyMinute(row.sensorId, minute);
+      agg = open;
+    } else {
+      // An older minute (out of order, or late): upserted with this commit.
+      const key = `${row.sensorId}:${minute}`;
+      agg = minutes.older.get(key) ?? emptyMinute(row.sensorId, minute);
+      minutes.older.set(key, agg);
+    }
+    minutes.open.set(row.sensorId, open);
     agg.count++;
     agg.speedSumCmps += speedCmps;
     agg.maxGustCmps = Math.max(agg.maxGustCmps, toCmps(row.rollupGustMps), speedCmps);
@@ -265,6 +330,10 @@ export class WriteQueue {
       agg.dirCos += Math.cos(rad);
       agg.dirCount++;
     }
+  }
+
+  private writeMinute(m: MinuteAggregate): void {
+    this.upsertWindMinute.run(m.sensorId, m.minuteMs, m.count, m.speedSumCmps, m.maxGustCmps, m.dirSin, m.dirCos, m.dirCount);
   }
 
   private writeStructureMinute(row: StructureMinuteRow): void {
@@ -300,4 +369,54 @@ export class WriteQueue {
 
 function finiteOrNull(value: number | null): number | null {
   return value !== null && Number.isFinite(value) ? value : null;
+}
+
+/**
+ * After a start (a crash may have lost what memory held of each sensor's newest minute), each
+ * sensor's newest minute is recomputed from its raw readings: count, speed sum and direction sums
+ * exactly; the highest gust as the larger of the stored one and the highest raw speed or gust in
+ * the minute (the live 3-s gust is not stored per reading; at worst this errs high). Walks the
+ * sensors along the primary key: a seek per sensor, not a scan. Returns the minutes rewritten.
+ */
+export function rebuildNewestMinutes(sqlite: Database.Database): number {
+  const nextSensor = sqlite.prepare('SELECT sensor_id AS id FROM readings WHERE sensor_id > ? ORDER BY sensor_id LIMIT 1');
+  const newest = sqlite.prepare('SELECT MAX(ts_ms) AS ts FROM readings WHERE sensor_id = ?');
+  const rows = sqlite.prepare('SELECT speed_cmps AS speed, gust_cmps AS gust, dir_deg AS dir FROM readings WHERE sensor_id = ? AND ts_ms >= ? AND ts_ms < ?');
+  const write = sqlite.prepare(
+    `INSERT INTO wind_minutes (sensor_id, minute_ms, sample_count, speed_sum_cmps, max_gust_cmps, dir_sin_sum, dir_cos_sum, dir_count)
+     VALUES (?, ?, ?, ?, ?, ?, ?, ?)
+     ON CONFLICT (sensor_id, minute_ms) DO UPDATE SET
+       sample_count = excluded.sample_count,
+       speed_sum_cmps = excluded.speed_sum_cmps,
+       max_gust_cmps = max(max_gust_cmps, excluded.max_gust_cmps),
+       dir_sin_sum = excluded.dir_sin_sum,
+       dir_cos_sum = excluded.dir_cos_sum,
+       dir_count = excluded.dir_count`,
+  );
+  let rebuilt = 0;
+  sqlite.transaction(() => {
+    let after = Number.MIN_SAFE_INTEGER;
+    for (;;) {
+      const sensor = nextSensor.get(after) as { id: number } | undefined;
+      if (!sensor) break;
+      after = sensor.id;
+      const ts = (newest.get(sensor.id) as { ts: number }).ts;
+      const minute = ts - (ts % minuteMs);
+      const agg = emptyMinute(sensor.id, minute);
+      for (const r of rows.iterate(sensor.id, minute, minute + minuteMs) as Iterable<{ speed: number; gust: number | null; dir: number | null }>) {
+        agg.count++;
+        agg.speedSumCmps += r.speed;
+        agg.maxGustCmps = Math.max(agg.maxGustCmps, r.speed, r.gust ?? 0);
+        if (r.dir !== null) {
+          const rad = (r.dir * Math.PI) / 180;
+          agg.dirSin += Math.sin(rad);
+          agg.dirCos += Math.cos(rad);
+          agg.dirCount++;
+        }
+      }
+      write.run(agg.sensorId, agg.minuteMs, agg.count, agg.speedSumCmps, agg.maxGustCmps, agg.dirSin, agg.dirCos, agg.dirCount);
+      rebuilt++;
+    }
+  })();
+  return rebuilt;
 }

@@ -85,7 +85,7 @@ function feed(templateDir: string, dir: string, msgs: Array<{ key: string; paylo
       queue.flush();
       commitMs += performance.now() - t;
     }
-    if (queue.stats.committedReadings !== msgs.length) throw new Error(`breakdown: ${queue.stats.committedReadings} of ${msgs.length} committed`);
+    if (queue.stats.committedReadings !== msgs.length) throw new Error(`breakdown (${perCommit}/commit): ${queue.stats.committedReadings} of ${msgs.length} committed (${queue.stats.lastError ?? "no error"}, ${queue.stats.duplicateReadings} duplicates, ${queue.stats.failedCommits} failed)`);
     return { takes, parseMs, commitMs };
   } finally {
     sqlite.close();

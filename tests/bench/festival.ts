@@ -136,7 +136,7 @@ async function generate(file: string, p: FestivalParams, log: (line: string) => 
         nextLog += dayMs;
       }
     }
-    queue.flush();
+    queue.settle();
     if (queue.stats.failedCommits > 0) throw new Error(`festival generation: ${queue.stats.failedCommits} failed commits: ${queue.stats.lastError}`);
     sqlite.pragma('synchronous = NORMAL');
     sqlite.pragma('wal_checkpoint(TRUNCATE)');

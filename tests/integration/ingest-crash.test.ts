@@ -27,10 +27,10 @@ afterAll(async () => {
 });
 
 
-function countStored(dataDir: string): number {
+function countStored(dataDir: string, sql = 'SELECT COUNT(*) AS n FROM readings'): number {
   const db = new Database(path.join(dataDir, 'holdfast.sqlite'), { readonly: true, fileMustExist: true });
   try {
-    return (db.prepare('SELECT COUNT(*) AS n FROM readings').get() as { n: number }).n;
+    return (db.prepare(sql).get() as { n: number }).n;
   } finally {
     db.close();
   }
@@ -100,9 +100,15 @@ describe('a server killed with SIGKILL mid-stream', () => {
       }
     });
     await (restarting ?? Promise.resolve());
+    // A last kill right after the stream (what memory held of the newest minute is lost), then a
+    // start (which recomputes it from the raw readings) and a clean stop.
+    await server.kill('SIGKILL');
+    server = await spawnServer(env);
     await server.kill('SIGTERM');
     expect(killAt, 'both kills happened mid-stream').toEqual([]);
     expect(countStored(dataDir)).toBe(total);
+    // The per-minute rollups count every stored reading once.
+    expect(countStored(dataDir, 'SELECT SUM(sample_count) AS n FROM wind_minutes')).toBe(total);
   }, 60_000);
 
   const mosquitto = (() => {

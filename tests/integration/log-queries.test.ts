@@ -28,6 +28,8 @@ function seededDay() {
     void queue.enqueue(batch);
     queue.flush();
   }
+  // The day's last minute is still open in memory until the queue settles (as at shutdown).
+  queue.settle();
   return { db, sqlite, queries: new LogQueries(sqlite) };
 }
 
