@@ -18,7 +18,7 @@
  *   BENCH_STRUCTURES         registered structures (1000)
  *   BENCH_GATEWAYS           gateway connections of the publisher (4)
  *   BENCH_INGEST_READINGS    readings per timed ingest burst (30000)
- *   BENCH_INGEST_REPEATS     interleaved repeats of each ingest run; ratios per repeat, median reported (3)
+ *   BENCH_INGEST_REPEATS     interleaved repeats of each ingest run; ratios per repeat, median reported (5)
  *   BENCH_INFLIGHT           QoS 1 publishes awaiting PUBACK per gateway connection (50)
  *   BENCH_MOSQUITTO          0 skips the Mosquitto runs (default: run them when `mosquitto` is installed)
  *   BENCH_LATENCY_CHANGES    level changes timed on the live stream (200)
@@ -68,7 +68,7 @@ const settings = {
   structures: num('BENCH_STRUCTURES', 1000),
   gateways: num('BENCH_GATEWAYS', 4),
   ingestReadings: num('BENCH_INGEST_READINGS', 30_000),
-  ingestRepeats: num('BENCH_INGEST_REPEATS', 3),
+  ingestRepeats: num('BENCH_INGEST_REPEATS', 5),
   inflight: num('BENCH_INFLIGHT', 50),
   mosquitto: env.BENCH_MOSQUITTO === '0' ? false : hasBinary('mosquitto'),
   latencyChanges: num('BENCH_LATENCY_CHANGES', 200),
