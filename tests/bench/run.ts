@@ -17,8 +17,8 @@
  *   BENCH_SENSORS            anemometers on the benchmark site (100)
  *   BENCH_STRUCTURES         registered structures (1000)
  *   BENCH_GATEWAYS           gateway connections of the publisher (4)
- *   BENCH_INGEST_READINGS    readings per timed ingest burst (30000)
- *   BENCH_INGEST_REPEATS     interleaved repeats of each ingest run; ratios per repeat, median reported (5)
+ *   BENCH_INGEST_READINGS    readings per timed ingest burst (100000: seconds of steady state, not a JIT warm-up)
+ *   BENCH_INGEST_REPEATS     interleaved repeats of each ingest run; ratios per repeat, median reported (3)
  *   BENCH_INFLIGHT           QoS 1 publishes awaiting PUBACK per gateway connection (50)
  *   BENCH_MOSQUITTO          0 skips the Mosquitto runs (default: run them when `mosquitto` is installed)
  *   BENCH_LATENCY_CHANGES    level changes timed on the live stream (200)
@@ -67,8 +67,8 @@ const settings = {
   sensors: num('BENCH_SENSORS', 100),
   structures: num('BENCH_STRUCTURES', 1000),
   gateways: num('BENCH_GATEWAYS', 4),
-  ingestReadings: num('BENCH_INGEST_READINGS', 30_000),
-  ingestRepeats: num('BENCH_INGEST_REPEATS', 5),
+  ingestReadings: num('BENCH_INGEST_READINGS', 100_000),
+  ingestRepeats: num('BENCH_INGEST_REPEATS', 3),
   inflight: num('BENCH_INFLIGHT', 50),
   mosquitto: env.BENCH_MOSQUITTO === '0' ? false : hasBinary('mosquitto'),
   latencyChanges: num('BENCH_LATENCY_CHANGES', 200),
