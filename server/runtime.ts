@@ -132,8 +132,8 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
   const registry = new Registry(db);
   const rejections = new RejectionLog(sqlite, log, now);
   // Each sensor's newest minute rollup lived in memory until the last stop: recompute it.
-  rebuildNewestMinutes(sqlite);
-  const queue = new WriteQueue(sqlite, now, config.mqttUrl ? 0 : 2);
+  const newestMinutes = rebuildNewestMinutes(sqlite);
+  const queue = new WriteQueue(sqlite, now, config.mqttUrl ? 0 : 2, newestMinutes);
   const hub = new LiveHub();
   let systemStatus: () => SystemStatus = () => ({ storageOk: true, storageError: null, storageBacklogRows: 0, brokerOk: true, brokerState: 'starting' });
   const watch = new Watch({ hub, now, onNotice: (message, detail) => log.info(detail, message), systemStatus: () => systemStatus() });

@@ -122,14 +122,19 @@ export class WriteQueue {
    *   A commit writes a WAL page per sensor touched, so 100 readings in one commit cost about a
    *   fifth of 100 commits (`npm run bench`). Worth it only where messages arrive concurrently
    *   (the embedded broker takes every gateway's packets at once: 2 ms, a small part of the 50 ms
-   *   budget from reading to screen); an external broker's client hands over one message at a
-   *   time and waits for its commit, so there the wait would only slow it (0: next turn).
+   *   budget from reading to screen); the external-broker subscriber already hands over all
+   *   messages of one socket read in the same turn (0: next turn).
+   * @param newestMinutes each sensor's newest stored minute, from `rebuildNewestMinutes` at start:
+   *   a sensor's first reading after a restart that is older than that minute (a replayed, late
+   *   one) is then upserted at once rather than held as the sensor's open minute.
    */
   constructor(
     private readonly sqlite: Database.Database,
     private readonly now: () => number = Date.now,
     private readonly groupWindowMs = 0,
+    newestMinutes: ReadonlyMap<number, number> = new Map(),
   ) {
+    for (const [sensorId, minute] of newestMinutes) this.openMinutes.set(sensorId, emptyMinute(sensorId, minute));
     this.insertReading = sqlite.prepare(
       `INSERT OR IGNORE INTO readings (sensor_id, ts_ms, speed_cmps, gust_cmps, dir_deg, temp_deci_c, pressure_pa, rh_pct, flags)
        VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`,
@@ -374,11 +379,13 @@ function finiteOrNull(value: number | null): number | null {
 /**
  * After a start (a crash may have lost what memory held of each sensor's newest minute), each
  * sensor's newest minute is recomputed from its raw readings: count, speed sum and direction sums
- * exactly; the highest gust as the larger of the stored one and the highest raw speed or gust in
- * the minute (the live 3-s gust is not stored per reading; at worst this errs high). Walks the
- * sensors along the primary key: a seek per sensor, not a scan. Returns the minutes rewritten.
+ * (from the stored whole degrees); the highest gust as the larger of the stored one and the
+ * highest raw speed or gust in the minute (the live 3-s gust is not stored per reading; at worst
+ * this errs high). A minute whose raw readings are fewer than its stored count (retention deleted
+ * part of it) keeps its stored sums. Walks the sensors along the primary key: a seek per sensor,
+ * not a scan. Returns each sensor's newest minute, for the write queue to start from.
  */
-export function rebuildNewestMinutes(sqlite: Database.Database): number {
+export function rebuildNewestMinutes(sqlite: Database.Database): Map<number, number> {
   const nextSensor = sqlite.prepare('SELECT sensor_id AS id FROM readings WHERE sensor_id > ? ORDER BY sensor_id LIMIT 1');
   const newest = sqlite.prepare('SELECT MAX(ts_ms) AS ts FROM readings WHERE sensor_id = ?');
   const rows = sqlite.prepare('SELECT speed_cmps AS speed, gust_cmps AS gust, dir_deg AS dir FROM readings WHERE sensor_id = ? AND ts_ms >= ? AND ts_ms < ?');
@@ -386,14 +393,15 @@ export function rebuildNewestMinutes(sqlite: Database.Database): number {
     `INSERT INTO wind_minutes (sensor_id, minute_ms, sample_count, speed_sum_cmps, max_gust_cmps, dir_sin_sum, dir_cos_sum, dir_count)
      VALUES (?, ?, ?, ?, ?, ?, ?, ?)
      ON CONFLICT (sensor_id, minute_ms) DO UPDATE SET
-       sample_count = excluded.sample_count,
        speed_sum_cmps = excluded.speed_sum_cmps,
        max_gust_cmps = max(max_gust_cmps, excluded.max_gust_cmps),
        dir_sin_sum = excluded.dir_sin_sum,
        dir_cos_sum = excluded.dir_cos_sum,
-       dir_count = excluded.dir_count`,
+       dir_count = excluded.dir_count,
+       sample_count = excluded.sample_count
+     WHERE excluded.sample_count >= wind_minutes.sample_count`,
   );
-  let rebuilt = 0;
+  const newestBySensor = new Map<number, number>();
   sqlite.transaction(() => {
     let after = Number.MIN_SAFE_INTEGER;
     for (;;) {
@@ -415,8 +423,8 @@ export function rebuildNewestMinutes(sqlite: Database.Database): number {
         }
       }
       write.run(agg.sensorId, agg.minuteMs, agg.count, agg.speedSumCmps, agg.maxGustCmps, agg.dirSin, agg.dirCos, agg.dirCount);
-      rebuilt++;
+      newestBySensor.set(sensor.id, minute);
     }
   })();
-  return rebuilt;
+  return newestBySensor;
 }

@@ -121,17 +121,20 @@ describe('per-minute wind rollups', () => {
     sqlite.close();
   });
 
-  it('count nothing twice when commits fail for a while and are retried from memory', () => {
+  it('count nothing twice when commits fail part-way for a while and are retried from memory', () => {
     const { sqlite } = freshDatabase();
     const queue = new WriteQueue(sqlite);
     const rows = readings(7);
     const third = Math.floor(rows.length / 3);
-    feed(queue, rows, 107, (i) => {
-      // A read-only spell in the middle (SQLITE_READONLY on every write, as storage-fault.test.ts).
-      if (i >= third && i < 2 * third) sqlite.pragma('query_only = ON');
-      else sqlite.pragma('query_only = OFF');
-    });
-    sqlite.pragma('query_only = OFF');
+    // A failing spell in the middle: a write fails part-way through a commit (on every seventh
+    // timestamp), after the commit has already summed earlier readings into its minutes; the
+    // transaction rolls back and the batches are retried from memory.
+    const failPartWay = (on: boolean): void => {
+      if (on) sqlite.exec("CREATE TEMP TRIGGER IF NOT EXISTS fail_part_way BEFORE INSERT ON readings WHEN NEW.ts_ms % 7 = 3 BEGIN SELECT RAISE(ABORT, 'disk I/O error (simulated)'); END");
+      else sqlite.exec('DROP TRIGGER IF EXISTS temp.fail_part_way');
+    };
+    feed(queue, rows, 107, (i) => failPartWay(i >= third && i < 2 * third));
+    failPartWay(false);
     expect(queue.stats.failedCommits).toBeGreaterThan(0);
     queue.settle();
     expect(queue.failing).toBe(false);
@@ -153,11 +156,44 @@ describe('per-minute wind rollups', () => {
     queue.flush();
     const count = (sql: string): number => (sqlite.prepare(sql).get() as { n: number }).n;
     expect(count('SELECT SUM(sample_count) AS n FROM wind_minutes')).toBeLessThan(count('SELECT COUNT(*) AS n FROM readings'));
-    expect(rebuildNewestMinutes(sqlite)).toBe(3);
+    expect(rebuildNewestMinutes(sqlite).size).toBe(3);
     expectRollupsMatchRaw(sqlite);
     // A second start changes nothing.
-    expect(rebuildNewestMinutes(sqlite)).toBe(3);
+    expect([...rebuildNewestMinutes(sqlite).values()]).toEqual([1, 2, 3].map(() => t0 + 13 * 60_000));
     expectRollupsMatchRaw(sqlite);
+    sqlite.close();
+  });
+
+  it('keep a replayed late reading that is a sensor’s first after a restart, even if the server then crashes', () => {
+    const { sqlite } = freshDatabase();
+    const first = new WriteQueue(sqlite);
+    feed(first, readings(13), 113);
+    first.settle();
+    // Restart: the queue starts from each sensor's newest stored minute.
+    const queue = new WriteQueue(sqlite, Date.now, 0, rebuildNewestMinutes(sqlite));
+    const batch = emptyWriteBatch();
+    batch.readings.push({ sensorId: 2, tsMs: t0 + 3 * 60_000 + 777, speedMps: 9.99, gustMps: null, dirDeg: 90, tempC: null, pressurePa: null, rhPct: null, late: true, rollupGustMps: 9.99 });
+    void queue.enqueue(batch);
+    queue.flush();
+    // Crash before the next once-a-second write, then a start.
+    rebuildNewestMinutes(sqlite);
+    expectRollupsMatchRaw(sqlite);
+    sqlite.close();
+  });
+
+  it('keep a minute whose raw readings retention has partly deleted when the server restarts', async () => {
+    const { removeRawReadingsBefore } = await import('../../server/storage/retention.ts');
+    const { sqlite } = freshDatabase();
+    const queue = new WriteQueue(sqlite);
+    feed(queue, readings(17), 117);
+    queue.settle();
+    const minuteRow = (sensorId: number) =>
+      sqlite.prepare('SELECT * FROM wind_minutes WHERE sensor_id = ? ORDER BY minute_ms DESC LIMIT 1').get(sensorId) as MinuteRow;
+    const before = minuteRow(1);
+    // Retention's cutoff falls in the middle of sensor 1's newest minute.
+    await removeRawReadingsBefore(sqlite, before.minute_ms + 30_000, { pause: async () => undefined });
+    rebuildNewestMinutes(sqlite);
+    expect(minuteRow(1)).toEqual(before);
     sqlite.close();
   });
 });

@@ -78,6 +78,16 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
   const queries = new LogQueries(ctx.db.$client);
   const viewer = requireRole('viewer');
   const win = (c: { req: { query(name: string): string | undefined } }) => windowOf((n) => c.req.query(n), ctx.now(), getSite(ctx.db).timeZone);
+  // Each sensor's newest minute rollup is summed in memory between ticks: write it before a
+  // read, so the log and its exports include the reading that just came in.
+  api.use('/log/*', async (_c, next) => {
+    ctx.queue.writeOpenMinutes();
+    await next();
+  });
+  api.use('/export/*', async (_c, next) => {
+    ctx.queue.writeOpenMinutes();
+    await next();
+  });
 
   api.get('/log/wind', viewer, (c) => {
     const { fromMs, toMs } = win(c);
