@@ -45,6 +45,32 @@ export interface Config {
 
 export class ConfigError extends Error {}
 
+const brokerSchemes = ['mqtt:', 'mqtts:', 'tcp:', 'ssl:', 'tls:', 'ws:', 'wss:'];
+
+/** MQTT_URL: a URL of a scheme we speak, credentials we can send. Messages never echo a password. */
+function checkBrokerUrl(raw: string, protocol: 4 | 5, username: string | null, password: string | null): void {
+  let url: URL;
+  try {
+    url = new URL(raw);
+  } catch {
+    throw new ConfigError('MQTT_URL is not a URL (e.g. mqtt://broker.local:1883)');
+  }
+  if (!brokerSchemes.includes(url.protocol)) throw new ConfigError(`MQTT_URL must start with mqtt://, mqtts://, ws:// or wss://, got "${url.protocol}//"`);
+  if (!url.hostname) throw new ConfigError('MQTT_URL has no host name');
+  for (const [part, value] of [['user name', url.username], ['password', url.password]] as const) {
+    try {
+      decodeURIComponent(value);
+    } catch {
+      throw new ConfigError(`the ${part} in MQTT_URL is not valid percent-encoding (write % as %25)`);
+    }
+  }
+  const effectiveUser = username ?? (url.username || null);
+  const effectivePassword = password ?? (url.password || null);
+  if (protocol === 4 && effectivePassword !== null && effectiveUser === null) {
+    throw new ConfigError('MQTT 3.1.1 does not allow a password without a user name: set MQTT_USERNAME, or MQTT_PROTOCOL_VERSION=5');
+  }
+}
+
 function intVar(env: NodeJS.ProcessEnv, name: string, fallback: number, min: number, max: number): number {
   const raw = env[name];
   if (raw === undefined || raw === '') return fallback;
@@ -72,11 +98,13 @@ export function configFromEnv(env: NodeJS.ProcessEnv = process.env, argv: readon
   if (adminPassword !== null && (adminPassword.length < 12 || adminPassword.length > 200)) throw new ConfigError('ADMIN_PASSWORD must be 12 to 200 characters');
   const protocol = intVar(env, 'MQTT_PROTOCOL_VERSION', 5, 4, 5);
   if (protocol !== 4 && protocol !== 5) throw new ConfigError('MQTT_PROTOCOL_VERSION must be 4 or 5');
+  const mqttUrl = textVar(env, 'MQTT_URL');
+  if (mqttUrl !== null) checkBrokerUrl(mqttUrl, protocol, textVar(env, 'MQTT_USERNAME'), textVar(env, 'MQTT_PASSWORD'));
   return {
     httpPort: intVar(env, 'PORT', 8080, 0, 65535),
     httpHost: textVar(env, 'HOST') ?? '0.0.0.0',
     dataDir: path.resolve(textVar(env, 'DATA_DIR') ?? './data'),
-    mqttUrl: textVar(env, 'MQTT_URL'),
+    mqttUrl,
     mqttUsername: textVar(env, 'MQTT_USERNAME'),
     mqttPassword: textVar(env, 'MQTT_PASSWORD'),
     mqttCaFile: textVar(env, 'MQTT_CA_FILE'),

@@ -155,6 +155,9 @@ class Connection {
   }
 
   private onData(chunk: Buffer): void {
+    // After a failure or during a graceful end, nothing more is handed to the pipeline: it could
+    // never be acknowledged on this connection, and the broker sends it again.
+    if (this.closed) return;
     this.lastReceivedMs = Date.now();
     this.parser.parse(chunk);
     if (this.chunkAcks.length === 0 || this.closed) return;
@@ -188,9 +191,12 @@ class Connection {
         const p = packet as mqttPacket.IPublishPacket;
         const payload = typeof p.payload === 'string' ? Buffer.from(p.payload) : p.payload;
         const done = this.o.sink.accept(p.topic, payload, (this.o.now ?? Date.now)());
-        if (p.qos === 0) {
-          done.catch((err: unknown) => this.o.log.error({ err: String(err), topic: p.topic }, 'QoS 0 reading not committed'));
-        } else {
+        // Handled here at once: if this connection ends before the chunk's acks are chained (a
+        // DISCONNECT later in the same read), a failed commit must not be an unhandled rejection.
+        done.catch((err: unknown) => {
+          if (p.qos === 0) this.o.log.error({ err: String(err), topic: p.topic }, 'QoS 0 reading not committed');
+        });
+        if (p.qos !== 0) {
           this.chunkAcks.push({ done, type: p.qos === 1 ? ackType.puback : ackType.pubrec, messageId: p.messageId ?? 0 });
         }
         return;
@@ -228,6 +234,8 @@ class Connection {
       return;
     }
     this.connected = true;
+    // MQTT 5 (3.2.2.3.14): a keep-alive the broker sets in CONNACK is the one to use.
+    const keepaliveS = (this.o.protocolVersion === 5 ? packet.properties?.serverKeepAlive : undefined) ?? this.o.keepaliveS;
     // Subscribing again on a present session is harmless and covers a lost subscription.
     this.send(
       mqttPacket.generate(
@@ -235,7 +243,9 @@ class Connection {
         { protocolVersion: this.o.protocolVersion },
       ),
     );
-    const keepaliveMs = this.o.keepaliveS * 1000;
+    this.client.connackReceived(packet.sessionPresent);
+    if (keepaliveS <= 0) return; // keep-alive off: the broker does not expect pings
+    const keepaliveMs = keepaliveS * 1000;
     this.keepaliveTimer = setInterval(() => {
       const now = Date.now();
       // The broker answers PINGREQ; silence for 1.5 keep-alive periods means a dead link
@@ -247,7 +257,6 @@ class Connection {
       }
     }, keepaliveMs / 4);
     this.keepaliveTimer.unref();
-    this.client.connackReceived(packet.sessionPresent);
   }
 
   /** Ends the connection after an error; the client decides whether to reconnect. */
@@ -321,22 +330,23 @@ export class ExternalClient {
   }
 
   private open(): void {
-    let stream: Duplex;
+    let stream: Duplex | null = null;
     try {
       stream = openStream(this.options);
+      this.connection = new Connection(stream, this, {
+        ...this.options,
+        ...this.credentials,
+        keepaliveS: this.options.keepaliveS ?? 30,
+        connectTimeoutMs: this.options.connectTimeoutMs ?? 10_000,
+      });
     } catch (err) {
-      // A bad URL or an unreadable certificate file: reported, retried like a broker outage.
+      // A bad URL, an unreadable certificate file, a CONNECT the codec refuses: reported, and
+      // retried like a broker outage (a certificate file may be fixed in place).
+      stream?.destroy();
       this.status.lastError = err instanceof Error ? err.message : String(err);
       this.options.log.error({ url: this.status.url, err: this.status.lastError }, 'cannot open the MQTT connection');
       this.scheduleReconnect();
-      return;
     }
-    this.connection = new Connection(stream, this, {
-      ...this.options,
-      ...this.credentials,
-      keepaliveS: this.options.keepaliveS ?? 30,
-      connectTimeoutMs: this.options.connectTimeoutMs ?? 10_000,
-    });
   }
 
   /** @internal from Connection */
@@ -419,7 +429,14 @@ function credentialsOf(o: ExternalClientOptions): { username: string | null; pas
   } catch {
     fromUrl = null;
   }
-  const decode = (s: string | undefined): string | null => (s ? decodeURIComponent(s) : null);
+  const decode = (s: string | undefined): string | null => {
+    if (!s) return null;
+    try {
+      return decodeURIComponent(s);
+    } catch {
+      return s; // not percent-encoded after all (config.ts warns of this at start)
+    }
+  };
   return {
     username: o.username ?? decode(fromUrl?.username),
     password: o.password ?? decode(fromUrl?.password),

@@ -54,15 +54,25 @@ export class IngestPipeline implements ReadingSink {
     const sensor = this.registry.sensorByKey(key);
     if (!sensor) return this.reject(key, 'unknown-sensor', `no sensor is registered with key "${key}"`);
 
-    const parsed = parseReadingPayload(payload, { receivedAtMs, unit: sensor.unit as SpeedUnit });
-    if (!parsed.ok) return this.reject(key, parsed.reason, parsed.detail);
-    for (const bad of parsed.rejected ?? []) {
-      this.counters.rejectedReadings++;
-      this.rejections.record(key, bad.reason, bad.detail);
+    let taken: ReturnType<ReadingConsumer['take']>;
+    let readings: readonly Reading[];
+    try {
+      const parsed = parseReadingPayload(payload, { receivedAtMs, unit: sensor.unit as SpeedUnit });
+      if (!parsed.ok) return this.reject(key, parsed.reason, parsed.detail);
+      for (const bad of parsed.rejected ?? []) {
+        this.counters.rejectedReadings++;
+        this.rejections.record(key, bad.reason, bad.detail);
+      }
+      if (parsed.readings.length === 0) return;
+      readings = parsed.readings.length > 1 ? [...parsed.readings].sort((a, b) => a.tsMs - b.tsMs) : parsed.readings;
+      taken = this.consumer.take(sensor, readings, receivedAtMs);
+    } catch (err) {
+      // A defect of ours, not a storage failure: leaving the message unacknowledged would have the
+      // broker redeliver it for ever and hold up every message behind it. Rejected, counted and
+      // logged (the rejection log names it), nothing stored.
+      return this.reject(key, 'internal-error', `the server could not handle this message: ${String(err).slice(0, 200)}`);
     }
-    if (parsed.readings.length === 0) return;
-    const readings = parsed.readings.length > 1 ? [...parsed.readings].sort((a, b) => a.tsMs - b.tsMs) : parsed.readings;
-    const { batch, afterCommit } = this.consumer.take(sensor, readings, receivedAtMs);
+    const { batch, afterCommit } = taken;
     // Held (not stored) when the database cannot write: see WriteQueue. Either way the phones hear
     // about it at once and the broker gets its acknowledgement.
     const { stored } = await this.queue.enqueue(batch);

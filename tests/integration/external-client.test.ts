@@ -16,6 +16,7 @@ import path from 'node:path';
 import tls from 'node:tls';
 import { Aedes, type Client, type PublishPacket } from 'aedes';
 import mqtt from 'mqtt';
+import * as mqttPacket from 'mqtt-packet';
 import { WebSocketServer, createWebSocketStream } from 'ws';
 import { afterAll, describe, expect, it } from 'vitest';
 import { ExternalClient } from '../../server/ingest/externalClient.ts';
@@ -85,6 +86,11 @@ class HeldSink implements ReadingSink {
   }
   release(): void {
     for (const w of this.waiting.splice(0)) w.resolve();
+  }
+  /** Commits all held messages but the oldest, newest first. */
+  releaseAllButFirst(): void {
+    const rest = this.waiting.splice(1);
+    for (const w of rest.reverse()) w.resolve();
   }
   failFirst(): void {
     const first = this.waiting.shift();
@@ -175,19 +181,63 @@ describe('the external-broker subscriber', () => {
     expect(sink.received).toEqual(broker.acked);
   });
 
-  it('leaves a message that could not be committed unacknowledged, drops the connection and takes the redelivery', async () => {
+  it('holds the acks of a later socket read until every earlier message is committed', async () => {
+    const { broker, sink, pub } = await subscriberWithHeldSink();
+    // Two separate reads: the second publish goes out only once the first reached the sink.
+    await pub.publishAsync(`${prefix}/mast-a/reading`, 'early', { qos: 1 });
+    await waitFor(() => sink.held === 1, 5_000, 'first read handed over');
+    await Promise.all(['late-1', 'late-2', 'late-3'].map((m) => pub.publishAsync(`${prefix}/mast-b/reading`, m, { qos: 1 })));
+    await waitFor(() => sink.held === 4, 5_000, 'later reads handed over');
+    sink.releaseAllButFirst();
+    await new Promise((r) => setTimeout(r, 300));
+    expect(broker.acked).toEqual([]);
+    sink.release();
+    await waitFor(() => broker.acked.length === 4, 5_000, 'all acknowledged');
+    expect(broker.acked).toEqual(['early', 'late-1', 'late-2', 'late-3']);
+  });
+
+  it('leaves a message that could not be committed unacknowledged, and what came after it, drops the connection and takes the redelivery', async () => {
     const { broker, sink, c, pub } = await subscriberWithHeldSink();
     await pub.publishAsync(`${prefix}/mast-a/reading`, 'first', { qos: 1 });
     await waitFor(() => sink.held === 1, 5_000, 'first message handed over');
+    await pub.publishAsync(`${prefix}/mast-a/reading`, 'second', { qos: 1 });
+    await waitFor(() => sink.held === 2, 5_000, 'second message handed over');
     sink.failFirst();
+    sink.release(); // 'second' commits, but its connection is gone: no ack for it there
     await waitFor(() => c.health().reconnects >= 1, 5_000, 'reconnected after the failure');
-    await waitFor(() => sink.held === 1, 5_000, 'the message delivered again');
-    expect(sink.received).toEqual(['first', 'first']);
+    await waitFor(() => sink.held === 2, 5_000, 'both delivered again');
+    expect(sink.received).toEqual(['first', 'second', 'first', 'second']);
     expect(broker.acked).toEqual([]);
     expect(c.health().lastError).toMatch(/not committed/);
     sink.release();
-    await waitFor(() => broker.acked.length === 1, 5_000, 'acknowledged after the commit');
-    expect(broker.acked).toEqual(['first']);
+    await waitFor(() => broker.acked.length === 2, 5_000, 'acknowledged after the commit');
+    expect(broker.acked).toEqual(['first', 'second']);
+  });
+
+  it('survives a failed commit of a message that came in the same read as the broker’s DISCONNECT', async () => {
+    // A broker of the test's own, in raw MQTT 3.1.1 packets (mqtt-packet): CONNACK, SUBACK, then
+    // one write holding a PUBLISH and a DISCONNECT. The commit then fails; an unhandled promise
+    // rejection would end the process (and fail this run).
+    const server = net.createServer((socket) => {
+      const parser = mqttPacket.parser({ protocolVersion: 4 });
+      parser.on('packet', (packet: mqttPacket.Packet) => {
+        if (packet.cmd === 'connect') socket.write(mqttPacket.generate({ cmd: 'connack', returnCode: 0, sessionPresent: false }));
+        if (packet.cmd === 'subscribe') {
+          socket.write(mqttPacket.generate({ cmd: 'suback', messageId: packet.messageId!, granted: [1] }));
+          socket.write(Buffer.concat([mqttPacket.generate({ cmd: 'publish', topic: `${prefix}/mast-a/reading`, payload: Buffer.from('doomed'), qos: 1, messageId: 7, dup: false, retain: false }), mqttPacket.generate({ cmd: 'disconnect' })]));
+        }
+      });
+      socket.on('data', (d) => parser.parse(d));
+      socket.on('error', () => undefined);
+    });
+    await new Promise<void>((r) => server.listen(0, '127.0.0.1', () => r()));
+    cleanups.push(() => new Promise((r) => server.close(() => r(undefined))));
+    const failing: ReadingSink = { accept: () => Promise.reject(new Error('disk I/O error')), refuse: () => undefined };
+    const c = client(`mqtt://127.0.0.1:${(server.address() as net.AddressInfo).port}`, failing, { clientId: 'disconnect-test' });
+    void c.start().catch(() => undefined);
+    await waitFor(() => /disconnected/.test(c.health().lastError ?? ''), 5_000, 'the DISCONNECT seen');
+    await new Promise((r) => setTimeout(r, 200));
+    await c.stop();
   });
 
   it('speaks MQTT over WebSocket (ws://)', async () => {

@@ -25,6 +25,7 @@ export function ScanCode({ text, label }: { text: string; label: string }) {
   useEffect(() => {
     let current = true;
     setDrawn(null);
+    setFailed(false);
     import('./scanCodeEncoder.ts')
       .then(({ encode }) => {
         const qr = encode(text, { ecc: 'M', border: 4 });
