@@ -52,7 +52,8 @@ export interface ExternalClientOptions {
 export interface ExternalClientStatus {
   kind: 'external';
   url: string;
-  state: 'connecting' | 'connected' | 'reconnecting' | 'offline' | 'stopped';
+  /** subscription-refused: connected, but the broker refused the reading topics (its ACL): nothing can arrive. */
+  state: 'connecting' | 'connected' | 'subscription-refused' | 'reconnecting' | 'offline' | 'stopped';
   sinceMs: number;
   reconnects: number;
   nextRetryMs: number;
@@ -361,7 +362,8 @@ export class ExternalClient {
 
   /** @internal from Connection */
   subscribeRefused(granted: unknown[]): void {
-    this.status.lastError = `the broker refused the subscription (${JSON.stringify(granted)})`;
+    this.status.state = 'subscription-refused';
+    this.status.lastError = `the broker refused the subscription to the reading topics (${JSON.stringify(granted)}): check its access control list`;
     this.options.log.error({ url: this.status.url, granted }, 'could not subscribe to reading topics');
   }
 
@@ -388,7 +390,7 @@ export class ExternalClient {
   private scheduleReconnect(): void {
     if (this.status.state === 'stopped' || this.retryTimer) return;
     const waitMs = this.status.nextRetryMs;
-    if (this.status.state === 'connected') this.status.state = 'offline';
+    if (this.status.state === 'connected' || this.status.state === 'subscription-refused') this.status.state = 'offline';
     this.retryTimer = setTimeout(() => {
       this.retryTimer = null;
       if (this.status.state === 'stopped') return;

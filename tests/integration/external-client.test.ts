@@ -39,9 +39,10 @@ interface Broker {
   port: number;
 }
 
-async function startBroker(kind: 'tcp' | 'ws' | 'tls', options: { tlsFiles?: { key: Buffer; cert: Buffer }; password?: string } = {}): Promise<Broker> {
+async function startBroker(kind: 'tcp' | 'ws' | 'tls', options: { tlsFiles?: { key: Buffer; cert: Buffer }; password?: string; refuseSubscriptions?: boolean } = {}): Promise<Broker> {
   const acked: string[] = [];
   const aedes = await Aedes.createBroker({
+    ...(options.refuseSubscriptions ? { authorizeSubscribe: (_client: unknown, _sub: unknown, callback: (err: Error | null, sub: null) => void) => callback(null, null) } : {}),
     authenticate: (_client, username, password, done) => {
       if (options.password === undefined) return done(null, true);
       if (username === 'ingest' && password?.toString() === options.password) return done(null, true);
@@ -276,6 +277,15 @@ describe('the external-broker subscriber', () => {
     const c = client(`mqtts://localhost:${broker.port}`, sink, { caFile: cert });
     await c.start();
     expect(c.health().state).toBe('connected');
+  });
+
+  it('does not call itself connected when the broker refuses the subscription (an ACL without the reading topics)', async () => {
+    const broker = await startBroker('tcp', { refuseSubscriptions: true });
+    const c = client(`mqtt://127.0.0.1:${broker.port}`, new OpenSink(), { clientId: 'acl-test' });
+    await c.start();
+    await waitFor(() => c.health().state === 'subscription-refused', 5_000, 'refusal reported');
+    expect(c.connected).toBe(false);
+    expect(c.health().lastError).toMatch(/refused the subscription/);
   });
 
   it('reports refused credentials, and takes the user name and password from the URL', async () => {
