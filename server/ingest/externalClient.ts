@@ -101,6 +101,9 @@ interface PendingAck {
   messageId: number;
 }
 
+/** The client's options with the defaults filled in and the credentials resolved. */
+type ConnectionSettings = ExternalClientOptions & { keepaliveS: number; connectTimeoutMs: number };
+
 /** One network connection to the broker, from open to close. */
 class Connection {
   private readonly parser: ReturnType<typeof mqttPacket.parser>;
@@ -118,8 +121,7 @@ class Connection {
   constructor(
     readonly stream: Duplex,
     private readonly client: ExternalClient,
-    private readonly o: Required<Pick<ExternalClientOptions, 'protocolVersion' | 'clientId' | 'keepaliveS' | 'connectTimeoutMs'>> &
-      ExternalClientOptions & { username: string | null; password: string | null },
+    private readonly o: ConnectionSettings,
   ) {
     this.parser = mqttPacket.parser({ protocolVersion: o.protocolVersion });
     this.parser.on('packet', (packet: mqttPacket.Packet) => this.onPacket(packet));

@@ -51,6 +51,7 @@
  * are clocks reset to 1970 or epoch seconds sent as milliseconds (engineering judgement).
  */
 import { isSpeedUnit, speedToMps, type SpeedUnit } from '../engine/units.ts';
+import type { WindReading } from '../wind/index.ts';
 
 /** Every reason a payload or one of its readings is rejected. */
 export const rejectReasons = [
@@ -95,19 +96,8 @@ export const rejectReasons = [
 ] as const;
 export type RejectReason = (typeof rejectReasons)[number];
 
-/** One reading in SI units; null where the payload said nothing. */
-export interface Reading {
-  /** Sample time, epoch ms. */
-  readonly tsMs: number;
-  /** An instantaneous sample, or the mean when gustMps is given (m/s). */
-  readonly speedMps: number;
-  readonly gustMps: number | null;
-  /** Direction the wind blows from, degrees [0, 360) clockwise from north. */
-  readonly dirDeg: number | null;
-  readonly tempC: number | null;
-  readonly pressurePa: number | null;
-  readonly rhPct: number | null;
-}
+/** One reading in SI units; null where the payload said nothing: what the wind state takes. */
+export type Reading = WindReading;
 
 /** A reading of a batch that was rejected on its own; index is the array element or record. */
 export interface RejectedReading {

@@ -21,28 +21,39 @@ export interface RetentionOptions {
 
 const yieldToEventLoop = (): Promise<void> => new Promise((resolve) => setImmediate(resolve));
 
+/**
+ * The ids of the sensors that have raw readings, ascending, found along the primary key (a seek
+ * per sensor, not a scan of the table). Each id is looked up when asked for, so the caller may
+ * write between ids.
+ */
+export function* sensorsWithReadings(sqlite: Database.Database): Generator<number> {
+  const next = sqlite.prepare('SELECT sensor_id AS id FROM readings WHERE sensor_id > ? ORDER BY sensor_id LIMIT 1');
+  let after = Number.MIN_SAFE_INTEGER;
+  for (;;) {
+    const row = next.get(after) as { id: number } | undefined;
+    if (!row) return;
+    after = row.id;
+    yield row.id;
+  }
+}
+
 /** Deletes raw readings stamped before `cutoffMs`, slice by slice; resolves with how many went. */
 export async function removeRawReadingsBefore(sqlite: Database.Database, cutoffMs: number, options: RetentionOptions = {}): Promise<number> {
   const sliceMs = options.sliceMs ?? 3_600_000;
   if (!(sliceMs > 0)) throw new RangeError(`sliceMs must be > 0, got ${sliceMs}`);
   const pause = options.pause ?? yieldToEventLoop;
   // Each of these uses the primary key (sensor_id, ts_ms): a seek, not a scan.
-  const nextSensor = sqlite.prepare('SELECT sensor_id AS id FROM readings WHERE sensor_id > ? ORDER BY sensor_id LIMIT 1');
   const oldest = sqlite.prepare('SELECT MIN(ts_ms) AS ts FROM readings WHERE sensor_id = ?');
   const removeSlice = sqlite.prepare('DELETE FROM readings WHERE sensor_id = ? AND ts_ms < ?');
   let removed = 0;
-  let after = Number.MIN_SAFE_INTEGER;
-  for (;;) {
-    const row = nextSensor.get(after) as { id: number } | undefined;
-    if (!row) break;
-    after = row.id;
-    let from = (oldest.get(row.id) as { ts: number | null }).ts;
+  for (const sensorId of sensorsWithReadings(sqlite)) {
+    let from = (oldest.get(sensorId) as { ts: number | null }).ts;
     while (from !== null && from < cutoffMs) {
       const upTo = Math.min(cutoffMs, from + sliceMs);
-      removed += removeSlice.run(row.id, upTo).changes;
+      removed += removeSlice.run(sensorId, upTo).changes;
       await pause();
       // Re-read rather than step: a sensor that was away for weeks is not walked hour by hour.
-      from = (oldest.get(row.id) as { ts: number | null }).ts;
+      from = (oldest.get(sensorId) as { ts: number | null }).ts;
     }
   }
   return removed;

@@ -24,6 +24,7 @@
  */
 import type Database from 'better-sqlite3';
 import type { AcknowledgementRow, AlertRow, LevelChangeRow, ReadingRow, StructureMinuteRow, WriteBatch } from './writeBatch.ts';
+import { sensorsWithReadings } from './retention.ts';
 import { batchRowCount } from './writeBatch.ts';
 
 /**
@@ -386,7 +387,6 @@ function finiteOrNull(value: number | null): number | null {
  * not a scan. Returns each sensor's newest minute, for the write queue to start from.
  */
 export function rebuildNewestMinutes(sqlite: Database.Database): Map<number, number> {
-  const nextSensor = sqlite.prepare('SELECT sensor_id AS id FROM readings WHERE sensor_id > ? ORDER BY sensor_id LIMIT 1');
   const newest = sqlite.prepare('SELECT MAX(ts_ms) AS ts FROM readings WHERE sensor_id = ?');
   const rows = sqlite.prepare('SELECT speed_cmps AS speed, gust_cmps AS gust, dir_deg AS dir FROM readings WHERE sensor_id = ? AND ts_ms >= ? AND ts_ms < ?');
   const write = sqlite.prepare(
@@ -403,15 +403,11 @@ export function rebuildNewestMinutes(sqlite: Database.Database): Map<number, num
   );
   const newestBySensor = new Map<number, number>();
   sqlite.transaction(() => {
-    let after = Number.MIN_SAFE_INTEGER;
-    for (;;) {
-      const sensor = nextSensor.get(after) as { id: number } | undefined;
-      if (!sensor) break;
-      after = sensor.id;
-      const ts = (newest.get(sensor.id) as { ts: number }).ts;
+    for (const sensorId of sensorsWithReadings(sqlite)) {
+      const ts = (newest.get(sensorId) as { ts: number }).ts;
       const minute = ts - (ts % minuteMs);
-      const agg = emptyMinute(sensor.id, minute);
-      for (const r of rows.iterate(sensor.id, minute, minute + minuteMs) as Iterable<{ speed: number; gust: number | null; dir: number | null }>) {
+      const agg = emptyMinute(sensorId, minute);
+      for (const r of rows.iterate(sensorId, minute, minute + minuteMs) as Iterable<{ speed: number; gust: number | null; dir: number | null }>) {
         agg.count++;
         agg.speedSumCmps += r.speed;
         agg.maxGustCmps = Math.max(agg.maxGustCmps, r.speed, r.gust ?? 0);
@@ -423,7 +419,7 @@ export function rebuildNewestMinutes(sqlite: Database.Database): Map<number, num
         }
       }
       write.run(agg.sensorId, agg.minuteMs, agg.count, agg.speedSumCmps, agg.maxGustCmps, agg.dirSin, agg.dirCos, agg.dirCount);
-      newestBySensor.set(sensor.id, minute);
+      newestBySensor.set(sensorId, minute);
     }
   })();
   return newestBySensor;

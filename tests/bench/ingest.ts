@@ -119,6 +119,21 @@ async function health(server: ServerProcess): Promise<{ broker: { state?: string
   return (await res.json()) as { broker: { state?: string }; database: { committedReadings: number } };
 }
 
+/** A server run's figures, with what its database holds afterwards. */
+function serverRun(broker: IngestRun['broker'], o: IngestOptions, repeat: number, seconds: number, cpuUsPerReading: number | null, dataDir: string, mem: { maxRssKb: number; hwmKb: number }): IngestRun {
+  return {
+    broker,
+    variant: 'server',
+    repeat,
+    readings: o.readings,
+    seconds,
+    perS: o.readings / seconds,
+    cpuUsPerReading,
+    stored: storedFigures(dataDir),
+    memory: { maxRssKb: mem.maxRssKb, hwmKb: mem.hwmKb },
+  };
+}
+
 /** SIGTERM (the server closes cleanly, and a CPU profile is written), SIGKILL after 10 s. */
 export async function stopGracefully(server: ServerProcess): Promise<void> {
   const timer = setTimeout(() => void server.kill('SIGKILL'), 10_000);
@@ -188,17 +203,7 @@ async function embeddedServer(o: IngestOptions, repeat: number): Promise<IngestR
     memory = null;
     const seconds = (main.finishedAtMs - main.startedAtMs) / 1000;
     await stopGracefully(server);
-    return {
-      broker: 'embedded',
-      variant: 'server',
-      repeat,
-      readings: o.readings,
-      seconds,
-      perS: o.readings / seconds,
-      cpuUsPerReading,
-      stored: storedFigures(dataDir),
-      memory: { maxRssKb: mem.maxRssKb, hwmKb: mem.hwmKb },
-    };
+    return serverRun('embedded', o, repeat, seconds, cpuUsPerReading, dataDir, mem);
   } finally {
     memory?.stop();
     await pub?.kill();
@@ -277,17 +282,7 @@ async function mosquittoServer(o: IngestOptions, repeat: number): Promise<Ingest
     memory = null;
     const seconds = (end - main.startedAtMs) / 1000;
     await stopGracefully(s);
-    return {
-      broker: 'mosquitto',
-      variant: 'server',
-      repeat,
-      readings: o.readings,
-      seconds,
-      perS: o.readings / seconds,
-      cpuUsPerReading,
-      stored: storedFigures(dataDir),
-      memory: { maxRssKb: mem.maxRssKb, hwmKb: mem.hwmKb },
-    };
+    return serverRun('mosquitto', o, repeat, seconds, cpuUsPerReading, dataDir, mem);
   } finally {
     memory?.stop();
     await pub?.kill();

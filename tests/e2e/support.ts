@@ -6,12 +6,10 @@
  */
 import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
-import os from 'node:os';
 import path from 'node:path';
 import { chromium, type Browser, type Page } from 'playwright-core';
-import { configFromEnv } from '../../server/config.ts';
 import { createLogger, type Logger } from '../../server/log.ts';
-import { startServer, type RunningServer } from '../../server/runtime.ts';
+import { startTestServer, type TestServer } from '../helpers/testServer.ts';
 
 export const chromiumPath = '/usr/bin/chromium';
 export const screenshotDir = path.resolve('tests/artifacts/screenshots');
@@ -69,32 +67,11 @@ export async function launchBrowser(): Promise<Browser> {
   });
 }
 
-export interface E2eServer {
-  server: RunningServer;
-  baseUrl: string;
-  stop(): Promise<void>;
-}
+export type E2eServer = TestServer;
 
-/** A fresh server; without `admin` nobody exists yet and the server logs a one-time setup code. */
-export async function startE2eServer(admin: { username: string; password: string } | null, log: Logger = createLogger('warn')): Promise<E2eServer> {
-  const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'holdfast-e2e-'));
-  const config = configFromEnv({
-    DATA_DIR: dataDir,
-    PORT: '0',
-    HOST: '127.0.0.1',
-    MQTT_PORT: '0',
-    MQTT_HOST: '127.0.0.1',
-    ...(admin ? { ADMIN_USERNAME: admin.username, ADMIN_PASSWORD: admin.password } : {}),
-  });
-  const server = await startServer(config, log, { staticRoot: path.resolve('web/dist') });
-  return {
-    server,
-    baseUrl: `http://127.0.0.1:${server.httpPort}`,
-    stop: async () => {
-      await server.close();
-      fs.rmSync(dataDir, { recursive: true, force: true });
-    },
-  };
+/** A fresh server serving the built web app; without `admin` nobody exists yet and the server logs a one-time setup code. */
+export function startE2eServer(admin: { username: string; password: string } | null, log: Logger = createLogger('warn')): Promise<E2eServer> {
+  return startTestServer({ ADMIN_USERNAME: admin?.username ?? '', ADMIN_PASSWORD: admin?.password ?? '' }, { staticRoot: path.resolve('web/dist') }, log);
 }
 
 /** Signs in like a browser (session cookie, CSRF header on changes) for set-up and cross-checks. */

@@ -7,7 +7,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { configFromEnv } from '../../server/config.ts';
-import { createLogger } from '../../server/log.ts';
+import { createLogger, type Logger } from '../../server/log.ts';
 import { startServer, type RunningServer, type StartOptions } from '../../server/runtime.ts';
 
 export const adminUsername = 'test-admin';
@@ -20,7 +20,8 @@ export interface TestServer {
   stop(): Promise<void>;
 }
 
-export async function startTestServer(env: Record<string, string> = {}, options: StartOptions = {}): Promise<TestServer> {
+/** `env` overrides the defaults below (an empty value unsets one: ADMIN_USERNAME: '' starts with nobody). */
+export async function startTestServer(env: Record<string, string> = {}, options: StartOptions = {}, log: Logger = createLogger(process.env.TEST_LOG_LEVEL ?? 'silent')): Promise<TestServer> {
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'holdfast-test-'));
   const config = configFromEnv({
     DATA_DIR: dataDir,
@@ -32,7 +33,7 @@ export async function startTestServer(env: Record<string, string> = {}, options:
     ADMIN_PASSWORD: adminPassword,
     ...env,
   });
-  const server = await startServer(config, createLogger(process.env.TEST_LOG_LEVEL ?? 'silent'), { staticRoot: null, ...options });
+  const server = await startServer(config, log, { staticRoot: null, ...options });
   return {
     server,
     baseUrl: `http://127.0.0.1:${server.httpPort}`,

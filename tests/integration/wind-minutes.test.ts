@@ -10,6 +10,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
+import { seededRandom as random } from '../../server/demo/random.ts';
 import { openDatabase } from '../../server/storage/database.ts';
 import { emptyWriteBatch, type ReadingRow } from '../../server/storage/writeBatch.ts';
 import { rebuildNewestMinutes, WriteQueue } from '../../server/storage/writeQueue.ts';
@@ -28,17 +29,6 @@ function freshDatabase() {
   return opened;
 }
 
-/** A seeded pseudo-random sequence (mulberry32), so a failure can be replayed. */
-function random(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 const t0 = Date.UTC(2026, 5, 13, 14, 0, 0);
 

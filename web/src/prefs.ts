@@ -49,11 +49,12 @@ export function setPref<K extends keyof Prefs>(name: K, value: Prefs[K]): void {
   prefs.update((p) => ({ ...p, [name]: value }));
 }
 
-/** Sets data-theme on <html>; "system" follows prefers-color-scheme through the stylesheet. */
+/**
+ * Sets data-theme on <html> to the theme in force, "system" resolved through prefers-color-scheme
+ * (main.tsx calls this again when the phone switches), so the stylesheet has one dark palette.
+ */
 export function applyTheme(theme: Theme): void {
-  const root = document.documentElement;
-  if (theme === 'system') root.removeAttribute('data-theme');
-  else root.setAttribute('data-theme', theme);
   const dark = theme === 'dark' || (theme === 'system' && matchMedia('(prefers-color-scheme: dark)').matches);
+  document.documentElement.setAttribute('data-theme', dark ? 'dark' : 'light');
   document.querySelector('meta[name="theme-color"]')?.setAttribute('content', dark ? '#0b0d10' : '#ffffff');
 }

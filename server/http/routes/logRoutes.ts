@@ -6,7 +6,7 @@
  * Windows: `from` and `to` as epoch milliseconds or ISO 8601; or `day=YYYY-MM-DD`, a calendar day
  * in the site's time zone. Default: the last 24 hours. At most 62 days at a time.
  */
-import { Hono } from 'hono';
+import { Hono, type MiddlewareHandler } from 'hono';
 import { and, asc, eq, gte, lt } from 'drizzle-orm';
 import { z } from 'zod';
 import { alertsTable, auditTable, levelChangesTable, sensorsTable, structuresTable } from '../../../db/schema.ts';
@@ -80,14 +80,12 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
   const win = (c: { req: { query(name: string): string | undefined } }) => windowOf((n) => c.req.query(n), ctx.now(), getSite(ctx.db).timeZone);
   // Each sensor's newest minute rollup is summed in memory between ticks: write it before a
   // read, so the log and its exports include the reading that just came in.
-  api.use('/log/*', async (_c, next) => {
+  const withOpenMinutes: MiddlewareHandler<AppEnv> = async (_c, next) => {
     ctx.queue.writeOpenMinutes();
     await next();
-  });
-  api.use('/export/*', async (_c, next) => {
-    ctx.queue.writeOpenMinutes();
-    await next();
-  });
+  };
+  api.use('/log/*', withOpenMinutes);
+  api.use('/export/*', withOpenMinutes);
 
   api.get('/log/wind', viewer, (c) => {
     const { fromMs, toMs } = win(c);

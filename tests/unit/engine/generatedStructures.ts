@@ -2,21 +2,10 @@
  * Seeded structures for the property tests: a small PRNG (mulberry32, public domain) so that
  * every run checks the same few hundred structures and a failure can be replayed by its index.
  */
+import { seededRandom, type Random } from '../../../server/demo/random.ts';
 import type { ExpandedStructure } from '../../../server/engine/index.ts';
 
-export type Random = () => number;
-
-/** mulberry32: 32-bit state, uniform in [0, 1). */
-export function seededRandom(seed: number): Random {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+export { seededRandom, type Random };
 
 export function between(random: Random, min: number, max: number): number {
   return min + (max - min) * random();

@@ -26,16 +26,7 @@ export function regularSamples(startMs: number, intervalMs: number, count: numbe
 }
 
 /** Deterministic pseudo-random numbers in [0, 1) (mulberry32), so failures reproduce. */
-export function seededRandom(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+export { seededRandom } from '../../../server/demo/random.ts';
 
 /** Smallest angle between two compass directions, degrees. */
 export function angleBetweenDeg(aDeg: number, bDeg: number): number {

@@ -22,7 +22,7 @@ import { useNow } from '../components/clock.ts';
 import { LevelBadge, LevelShape, levelTone } from '../components/levelBadge.tsx';
 import { useMedia } from '../components/media.ts';
 import { Sparkline } from '../components/sparkline.tsx';
-import { SpeedValue } from '../components/speedValue.tsx';
+import { StructureFigures } from '../components/structureFigures.tsx';
 import { WindArrow } from '../components/windArrow.tsx';
 import { live, refreshSnapshot, serverNow, trailMinutes, windTrail } from '../live.ts';
 import { prefs, setPref } from '../prefs.ts';
@@ -31,7 +31,7 @@ import { may, session } from '../session.ts';
 import { useTimeZone } from '../site.ts';
 import { useStore } from '../store.ts';
 import type { OpenAlert, SensorState, StructureState } from '../types.ts';
-import { beaufortText, clockTime, compassPoint, duration, hourMinute, percent, speed, speedNumber, speedUnitLabels } from '../units.ts';
+import { beaufortText, clockTime, compassPoint, duration, hourMinute, speed, speedNumber, speedUnitLabels } from '../units.ts';
 
 /**
  * A reading older than its sensor's own silence timeout is flagged on the board by the phone
@@ -462,22 +462,7 @@ export function StructureCard({ s, sensors }: { s: StructureState; sensors: Sens
           Mobile: {s.highestTravelSpeedMps === null ? 'highest travel speed with the face raised unknown' : `travel at most ${speed(s.highestTravelSpeedMps, unit)} with the face raised (into the wind)`}
         </p>
       ) : null}
-      <dl class="sc-figures">
-        <div>
-          <dt>Margin</dt>
-          <dd class="sc-margin">{s.noData ? 'unknown' : s.unbounded ? 'none left' : percent(s.margin)}</dd>
-        </div>
-        <div>
-          <dt>Gust here</dt>
-          <dd>{s.noData ? 'unknown' : <SpeedValue mps={s.gustMps} unit={unit} />}</dd>
-        </div>
-        <div>
-          <dt>Limit gust</dt>
-          <dd>
-            <SpeedValue mps={s.limitGustMps} unit={unit} />
-          </dd>
-        </div>
-      </dl>
+      <StructureFigures s={s} unit={unit} />
       <p class="sc-foot">
         {s.noData ? (
           <strong class="bad-text">

@@ -10,7 +10,7 @@ import { Caution } from '../components/caution.tsx';
 import { useNow } from '../components/clock.ts';
 import { LevelBadge } from '../components/levelBadge.tsx';
 import { LevelsTable } from '../components/levelsTable.tsx';
-import { SpeedValue } from '../components/speedValue.tsx';
+import { StructureFigures } from '../components/structureFigures.tsx';
 import { TimeChart, type Band } from '../components/timeChart.tsx';
 import { live, serverNow } from '../live.ts';
 import { prefs } from '../prefs.ts';
@@ -19,7 +19,7 @@ import { may, session } from '../session.ts';
 import { useTimeZone } from '../site.ts';
 import { useStore } from '../store.ts';
 import type { AlertRow, StructureLog, StructureState } from '../types.ts';
-import { dateTime, duration, mpsToSpeed, percent, quantity, speed, speedUnitLabels } from '../units.ts';
+import { dateTime, duration, mpsToSpeed, quantity, speed, speedUnitLabels } from '../units.ts';
 import { levelTone } from '../components/levelBadge.tsx';
 
 const windows = [
@@ -128,26 +128,7 @@ export function StructurePage({ id }: { id: number }) {
       {s ? (
         <section class={`structure-live tone-${levelTone(s.level, s.levels.length, s.noData)}`} aria-label="Now">
           <LevelBadge level={s.level} label={s.levelLabel} count={s.levels.length} noData={s.noData} big />
-          <dl class="sc-figures big">
-            <div>
-              <dt>Margin</dt>
-              <dd>{s.noData ? 'unknown' : s.unbounded ? 'none left' : percent(s.margin)}</dd>
-            </div>
-            <div>
-              <dt>Utilization</dt>
-              <dd>{s.noData ? 'unknown' : s.unbounded ? 'unbounded' : percent(s.utilization)}</dd>
-            </div>
-            <div>
-              <dt>Gust here</dt>
-              <dd>{s.noData ? 'unknown' : <SpeedValue mps={s.gustMps} unit={unit} />}</dd>
-            </div>
-            <div>
-              <dt>Limit gust</dt>
-              <dd>
-                <SpeedValue mps={s.limitGustMps} unit={unit} />
-              </dd>
-            </div>
-          </dl>
+          <StructureFigures s={s} unit={unit} detailed />
           <p class="muted">
             {s.governing ? `Governed by ${s.governing}${s.side ? `, wind onto the ${s.side}` : ''}. ` : ''}
             Calculated limit {speed(s.calculatedLimitGustMps, unit)}
