@@ -1,12 +1,13 @@
 /**
- * Wind direction relative to a structure, and relative wind on a moving one (design §2.2).
+ * Azimuths, and relative wind on a moving structure (design §2.2). A structure's assessment in
+ * every direction is in directions.ts and stability.ts: the wind speed is never reduced by the
+ * cosine of an angle (design §2.2 v2).
  *
  * Conventions (meteorological): directions are degrees clockwise from north; a wind direction is
  * where the wind blows FROM. A structure's `orientationDeg` is the azimuth its front faces toward
  * (the outward normal of the front face). Wind from 0° onto a structure oriented 0° hits the front.
  */
 import { assertInRange } from './rangeCheck.ts';
-import type { Side } from './stability.ts';
 
 const degreesPerRadian = 180 / Math.PI;
 
@@ -22,56 +23,6 @@ export function normalizedAzimuthDeg(angleDeg: number): number {
 export function angleBetweenDeg(aDeg: number, bDeg: number): number {
   const difference = Math.abs(normalizedAzimuthDeg(aDeg) - normalizedAzimuthDeg(bDeg));
   return difference > 180 ? 360 - difference : difference;
-}
-
-export interface WindOnStructureInput {
-  /** Gust at the structure, m/s. */
-  gustMps: number;
-  /** Where the wind blows from, degrees; null when the sensor gives no direction. */
-  windFromDeg: number | null;
-  /** Azimuth the structure's front faces toward, degrees. */
-  orientationDeg: number;
-  /** Whether the site enables directional assessment. */
-  directional: boolean;
-}
-
-export interface WindCase {
-  /** The side the wind blows onto. */
-  side: Side;
-  /** The gust itself, m/s: roof uplift does not drop when the wind turns, so it keeps this. */
-  gustMps: number;
-  /** Component of the gust normal to the faces, m/s: what loads the faces. */
-  normalGustMps: number;
-}
-
-/**
- * The cases to assess for one gust. Directional with a direction: one case, the windward side
- * (front when the wind is within 90° of the orientation) with the normal component v·|cos Δ|.
- * Otherwise (not directional, or no direction): both sides at full speed; the worse governs.
- */
-export function windOnStructure({ gustMps, windFromDeg, orientationDeg, directional }: WindOnStructureInput): WindCase[] {
-  assertInRange('windOnStructure', 'gustMps', gustMps, 0, 120, 'm/s');
-  assertInRange('windOnStructure', 'orientationDeg', orientationDeg, -360, 360, '°');
-  if (!directional || windFromDeg === null) {
-    return [
-      { side: 'front', gustMps, normalGustMps: gustMps },
-      { side: 'back', gustMps, normalGustMps: gustMps },
-    ];
-  }
-  assertInRange('windOnStructure', 'windFromDeg', windFromDeg, -360, 360, '°');
-  const offsetDeg = angleBetweenDeg(windFromDeg, orientationDeg);
-  const side: Side = offsetDeg < 90 ? 'front' : 'back';
-  return [{ side, gustMps, normalGustMps: gustMps * Math.abs(Math.cos(offsetDeg / degreesPerRadian)) }];
-}
-
-/**
- * Share of the full-gust dynamic pressure that loads the faces in a wind case: (v_n / v)², the
- * `horizontalShare` argument of the stability functions (1 when the gust is 0).
- */
-export function horizontalShare(windCase: WindCase): number {
-  if (windCase.gustMps === 0) return 1;
-  const ratio = windCase.normalGustMps / windCase.gustMps;
-  return ratio * ratio;
 }
 
 export interface RelativeWindInput {

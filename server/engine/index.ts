@@ -4,8 +4,10 @@
  * - air: ISA (ISO 2533), moist air (WMO CIMO), the site's density modes.
  * - wind profile: EN 1991-1-4 terrain, roughness, turbulence, peak velocity pressure, gust height
  *   factor; log-law, power-law and cross-terrain transfers.
- * - direction: windward side and normal component, relative wind, travel speed of mobile structures.
- * - stability: overturning, sliding, uplift; limit gust, trigger gusts, required ballast.
+ * - directions: the structure's frame, face incidence and ψ, the directions assessed.
+ * - direction: azimuths, relative wind and travel speed of mobile structures.
+ * - stability: every direction, every edge, elements; overturning, sliding, uplift; limit gust,
+ *   effective capacity with the rating, required ballast.
  * - records and kinds: the schema of every structure record, validation, expansion to faces and masses.
  * - assess: the calculator's report (POST /api/assess).
  * - units: speed units and Beaufort.
@@ -50,47 +52,65 @@ export {
   type TerrainCategory,
   type TerrainParameters,
 } from './windProfile.ts';
+export { angleBetweenDeg, highestTravelSpeedMps, normalizedAzimuthDeg, relativeWindMps, type RelativeWind, type TravelSpeed } from './direction.ts';
 export {
-  angleBetweenDeg,
-  highestTravelSpeedMps,
-  horizontalShare,
-  normalizedAzimuthDeg,
-  relativeWindMps,
-  windOnStructure,
-  type RelativeWind,
-  type TravelSpeed,
-  type WindCase,
-} from './direction.ts';
+  assessedDirectionsDeg,
+  azimuthDeg,
+  directionStepDeg,
+  faceIncidence,
+  faceNormal,
+  inSector,
+  obliqueShare,
+  travelDirection,
+  wrappedDeg,
+  type DirectionSector,
+  type FaceIncidence,
+} from './directions.ts';
 export {
-  calculatedLimitGust,
+  bodyCoefficients,
+  calculatedLimitGustMps,
   criteria,
-  criterionPressuresPa,
   defaultSafetyFactors,
+  directionUtilizations,
+  edges,
+  edgeWords,
   effectiveLimitGustMps,
+  effectiveLimitMps,
+  effectiveUtilization,
+  governingCase,
+  governingPerPa,
+  gustAtFractionMps,
+  gustAtPerPaMps,
   gustForUtilizationMps,
-  requiredBallastKg,
+  parts,
+  requiredBallast,
   safetyFactorSources,
-  sideLimitGustsMps,
-  sideStability,
-  sides,
-  stabilityAtGust,
-  stabilityAtPressure,
   stabilityCoefficients,
+  utilizationAtPa,
+  type AssessedDirections,
+  type BodyCoefficients,
   type Criterion,
-  type LimitGust,
-  type Side,
-  type SideStability,
-  type StabilityAtPressure,
+  type DirectionCoefficients,
+  type Edge,
+  type GoverningCase,
+  type RequiredBallast,
   type StabilityCoefficients,
+  type Utilizations,
 } from './stability.ts';
+export { compassPointName, criterionWords, governingWords, sideName, windWords } from './caseWords.ts';
 export {
+  directionalUpliftSchema,
+  elementSchema,
   expandedStructureSchema,
   faceSchema,
   massSchema,
   safetyFactorsSchema,
   upliftSchema,
+  type DirectionalUplift,
+  type Element,
   type ExpandedStructure,
   type Face,
+  type StabilityBody,
   type Mass,
   type SafetyFactors,
   type Uplift,
@@ -122,4 +142,13 @@ export {
   type SourceNote,
   type SourcedValue,
 } from './kinds/index.ts';
-export { assessStructure, type AssessmentOptions, type AssessmentReport, type SideReport } from './assess.ts';
+export {
+  assessCoefficients,
+  assessStructure,
+  type AssessmentOptions,
+  type AssessmentReport,
+  type Bounded,
+  type DirectionReport,
+  type ElementReport,
+  type UtilizationReport,
+} from './assess.ts';

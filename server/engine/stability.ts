@@ -1,314 +1,447 @@
 /**
- * Stability of a ballasted structure in wind: overturning, sliding and uplift (design §2.3).
+ * Stability of a ballasted structure in wind from every direction (design §2.3 v2): tipping about
+ * each edge of its rectangular base, sliding on the vector sum of the face forces, and uplift.
  *
- * Everything the wind does is proportional to q = ½ρv², so the structure reduces to a few sums
- * per side that do not depend on the wind (`stabilityCoefficients`, computed once per structure):
- *   A = Σ cf·A_i (m², force per unit q),  C = Σ cf·A_i·h_i (m³, overturning moment per unit q),
- *   B = c_lift·A_plan (m², uplift per unit q),  W = gΣm (N),  M_w = gΣm·lever (N·m).
- * Then F = A q, M_ot = C q, F_up = B q and, with d the base depth, μ the friction coefficient:
- *   U_ot = γ_ot C q / (M_w − B q d/2),  U_sl = γ_sl A q / (μ (W − B q)),  U_up = γ_up B q / W.
- * A resistance ≤ 0 makes that utilization unbounded (Infinity): the structure has nothing left.
+ * For one relative direction θ, with F⃗_i the face forces in plan, h_i their heights, F_up the
+ * uplift at plan point u, W = gΣm and, for each base edge e with outward normal n_e:
+ *   M_h,e = max(0, Σ h_i F⃗_i·n_e)          wind moment (a favourable wind effect is not counted:
+ *                                           EN 1990 Table A1.2(A) γ_Q,inf = 0)
+ *   M_u,e = F_up · dist(u, e)              uplift moment
+ *   M_w,e = g Σ m_j · dist(m_j, e)         restoring moment
+ *   U_ot = max_e γ_ot (M_h,e + M_u,e) / M_w,e   (unbounded when M_w,e ≤ 0 and the numerator > 0)
+ *   U_sl = γ_sl (|F⃗| + μ F_up) / (μ W)
+ *   U_up = γ_up F_up / W
+ * The whole wind action is factored, uplift included (EN 1990 EQU: γ_Q on every destabilizing
+ * variable action), and the resistance is self-weight alone. Every force and moment of the wind is
+ * proportional to q = ½ρv², so every utilization is U = k·q: this module computes the k of each
+ * direction and criterion once per structure (`stabilityCoefficients`), and everything else —
+ * utilization at a gust, limit gusts, level gusts, required ballast — is closed-form from them:
+ *   U(v) = k·½ρv²,   v_lim = √(2/(ρk)),   fraction f of capacity at v_lim·√f.
  *
- * Sides: wind onto the front tips the structure about the back edge (lever of a mass = d − x);
- * wind onto the back tips it about the front edge (lever = x). Both are assessed; the worse governs.
- *
- * Limits are solved in closed form per criterion (design §2.3), in q and then v = √(2q/ρ):
- *   overturning q = M_w / (γ_ot C + B d/2),  sliding q = μW / (γ_sl A + μB),  uplift q = W / (γ_up B).
- * With uplift the resistance falls with q too, so scaling a utilization by U^−½ would be wrong.
+ * A record without `baseWidthM` is a strip (first-round records): only the front and back edges
+ * are checked, and the report warns that wind onto the ends was not.
  */
 import { assertAirDensity } from './air.ts';
 import { dynamicPressurePa, speedForDynamicPressureMps } from './dynamicPressure.ts';
+import { assessedDirectionsDeg, faceIncidence, faceNormal, inSector, wrappedDeg, type DirectionSector } from './directions.ts';
 import { standardGravityMps2 } from './gravity.ts';
 import { assertAbove, assertInRange } from './rangeCheck.ts';
-import type { ExpandedStructure, SafetyFactors } from './structure.ts';
+import type { ExpandedStructure, SafetyFactors, StabilityBody, Uplift } from './structure.ts';
 
-export const sides = ['front', 'back'] as const;
-export type Side = (typeof sides)[number];
 export const criteria = ['overturning', 'sliding', 'uplift'] as const;
 export type Criterion = (typeof criteria)[number];
+/** Base edges: front x = 0, back x = d, ends y = 0 and y = w. */
+export const edges = ['front', 'back', 'endY0', 'endYW'] as const;
+export type Edge = (typeof edges)[number];
 
 /** Defaults for γ_ot, γ_sl, γ_up, each with its source (design §2.3). */
 export const defaultSafetyFactors: Readonly<SafetyFactors> = { overturning: 1.5, sliding: 2.0, uplift: 1.5 };
 export const safetyFactorSources: Readonly<Record<Criterion, string>> = {
-  overturning: 'common practice for ballasted temporary structures (EN 1997-1 Table A.1 EQU gives about 1.67 effective)',
+  overturning: 'common practice for ballasted temporary structures (EN 1990 Table A1.2(A) EQU gives about 1.67 effective against self-weight)',
   sliding: 'HSE research report RR071 "Friction in temporary works" (2003): at least 2.0 on lateral load carried by friction',
-  uplift: 'common practice for ballasted temporary structures',
+  uplift: 'common practice for ballasted temporary structures (EN 1990 Table A1.2(A) EQU gives about 1.67 effective against self-weight)',
 };
-
-/** Sums of one side that do not depend on the wind. */
-export interface SideCoefficients {
-  /** Σ cf·A: horizontal force per unit q, m² (N/Pa). */
-  forceAreaM2: number;
-  /** Σ cf·A·h: overturning moment per unit q, m³ (N·m/Pa). */
-  momentVolumeM3: number;
-  /** g Σ m·lever about this side's tipping edge, N·m. */
-  weightMomentNm: number;
-}
-
-/** A structure reduced to what its stability depends on: compute once, evaluate per gust. */
-export interface StabilityCoefficients {
-  front: SideCoefficients;
-  back: SideCoefficients;
-  /** c_lift·A_plan: uplift per unit q, m² (N/Pa); 0 without uplift. */
-  upliftAreaM2: number;
-  /** g Σ m, N. */
-  weightN: number;
-  baseDepthM: number;
-  frictionCoefficient: number;
-  safetyFactors: SafetyFactors;
-}
 
 export type Utilizations = Record<Criterion, number> & { governing: number };
 
-/** One side at one gust. Utilizations are Infinity when that resistance is gone (≤ 0). */
-export interface SideStability {
-  side: Side;
-  horizontalForceN: number;
-  upliftN: number;
-  overturningMomentNm: number;
-  /** g Σ m·lever − F_up·d/2, N·m: may be ≤ 0 (then overturning is unbounded). */
-  restoringMomentNm: number;
-  utilization: Utilizations;
-  /** The criterion with the highest utilization (first of overturning, sliding, uplift on a tie). */
+/**
+ * One direction of one body, per unit dynamic pressure: every figure of the wind × q gives its
+ * value at that q. Restoring moments and the weight do not depend on the wind.
+ */
+export interface DirectionCoefficients {
+  /** θ, degrees relative to the front (see directions.ts). */
+  directionDeg: number;
+  /** The uplift case assessed in this direction (the worst of those that apply), if any. */
+  upliftLabel: string | null;
+  /** |F⃗| per unit q, m² (N/Pa). */
+  forcePerPaM2: number;
+  /** F⃗ per unit q in plan, m². */
+  forceXPerPaM2: number;
+  forceYPerPaM2: number;
+  /** F_up per unit q, m². */
+  upliftPerPaM2: number;
+  /** M_h,e + M_u,e per unit q about each edge, m³ (N·m/Pa). */
+  windMomentPerPaM3: Record<Edge, number>;
+  /** M_w,e, N·m. */
+  restoringMomentNm: Record<Edge, number>;
+  /** k of each criterion (overturning: the worst edge), and the highest as `governing`, 1/Pa. */
+  utilizationPerPa: Utilizations;
   governing: Criterion;
+  /** The edge the overturning check tips about. */
+  tippingEdge: Edge;
 }
 
-export interface LimitGust {
-  /** Lowest gust at which a utilization reaches 1 (Infinity when no load grows with the wind), m/s. */
-  gustMps: number;
-  side: Side;
-  criterion: Criterion;
+/** A body (the structure or one element) reduced to its direction coefficients. */
+export interface BodyCoefficients {
+  /** null for the structure's body, else the element's name. */
+  element: string | null;
+  /** True for a strip record (no baseWidthM): only the front and back edges are checked. */
+  strip: boolean;
+  weightN: number;
+  frictionCoefficient: number;
+  safetyFactors: SafetyFactors;
+  baseDepthM: number;
+  baseWidthM: number | null;
+  directions: DirectionCoefficients[];
 }
 
-function checkedNumber(caller: string, name: string, value: number, min: number, max: number, unit = ''): number {
+/** A whole structure: its body, its elements and the rating. Compute once, evaluate per gust. */
+export interface StabilityCoefficients {
+  body: BodyCoefficients;
+  elements: BodyCoefficients[];
+  ratedGustMps: number | null;
+}
+
+/** The worst direction (and part) of a structure, by k: the same at every gust, since U = k·q. */
+export interface GoverningCase {
+  part: BodyCoefficients;
+  direction: DirectionCoefficients;
+}
+
+function checked(caller: string, name: string, value: number, min: number, max: number, unit = ''): number {
   assertInRange(caller, name, value, min, max, unit);
   return value;
 }
 
-/**
- * The wind-independent sums of a structure (see the module comment). Checks every number and
- * throws a RangeError naming the offending field: a NaN here would hide a failure.
- */
-export function stabilityCoefficients(structure: ExpandedStructure): StabilityCoefficients {
-  const caller = 'stabilityCoefficients';
-  const baseDepthM = structure.baseDepthM;
-  assertAbove(caller, 'baseDepthM', baseDepthM, 0, 200, 'm');
-  assertAbove(caller, 'frictionCoefficient', structure.frictionCoefficient, 0, 1);
-  for (const criterion of criteria) {
-    assertInRange(caller, `safetyFactors.${criterion}`, structure.safetyFactors[criterion], 1, 5);
-  }
-  if (structure.faces.length === 0) throw new RangeError(`${caller}: faces must list at least one face, got none`);
+const edgeNormals: Readonly<Record<Edge, { x: number; y: number }>> = {
+  front: { x: -1, y: 0 },
+  back: { x: 1, y: 0 },
+  endY0: { x: 0, y: -1 },
+  endYW: { x: 0, y: 1 },
+};
 
-  const front = { forceAreaM2: 0, momentVolumeM3: 0, weightMomentNm: 0 };
-  const back = { forceAreaM2: 0, momentVolumeM3: 0, weightMomentNm: 0 };
-  structure.faces.forEach((face, index) => {
-    const areaM2 = checkedNumber(caller, `faces.${index}.areaM2`, face.areaM2, 0, 40_000, 'm²');
-    const heightM = checkedNumber(caller, `faces.${index}.centroidHeightM`, face.centroidHeightM, 0, 200, 'm');
-    const cfFront = checkedNumber(caller, `faces.${index}.cfFront`, face.cfFront, 0, 4);
-    const cfBack = checkedNumber(caller, `faces.${index}.cfBack`, face.cfBack, 0, 4);
-    front.forceAreaM2 += cfFront * areaM2;
-    front.momentVolumeM3 += cfFront * areaM2 * heightM;
-    back.forceAreaM2 += cfBack * areaM2;
-    back.momentVolumeM3 += cfBack * areaM2 * heightM;
-  });
-
-  let weightN = 0;
-  structure.masses.forEach((mass, index) => {
-    const massKg = checkedNumber(caller, `masses.${index}.massKg`, mass.massKg, 0, 1e6, 'kg');
-    const xM = checkedNumber(caller, `masses.${index}.xM`, mass.xM, 0, baseDepthM, 'm (within the base)');
-    const massWeightN = standardGravityMps2 * massKg;
-    weightN += massWeightN;
-    front.weightMomentNm += massWeightN * (baseDepthM - xM);
-    back.weightMomentNm += massWeightN * xM;
-  });
-
-  let upliftAreaM2 = 0;
-  if (structure.uplift) {
-    const planAreaM2 = checkedNumber(caller, 'uplift.planAreaM2', structure.uplift.planAreaM2, 0, 40_000, 'm²');
-    upliftAreaM2 = planAreaM2 * checkedNumber(caller, 'uplift.liftCoefficient', structure.uplift.liftCoefficient, 0, 4);
-  }
-  if (structure.ratedGustMps !== undefined) assertAbove(caller, 'ratedGustMps', structure.ratedGustMps, 0, 120, 'm/s');
-
-  return {
-    front,
-    back,
-    upliftAreaM2,
-    weightN,
-    baseDepthM,
-    frictionCoefficient: structure.frictionCoefficient,
-    safetyFactors: { ...structure.safetyFactors },
-  };
+/** Distance of a plan point from each edge (the lever about that edge), m. */
+function distancesM(xM: number, yM: number, depthM: number, widthM: number): Record<Edge, number> {
+  return { front: xM, back: depthM - xM, endY0: yM, endYW: widthM - yM };
 }
 
-/** demand/capacity, unbounded (Infinity) when the capacity is gone (≤ 0), as design §2.3 says. */
-function utilizationRatio(demand: number, capacity: number): number {
-  return capacity > 0 ? demand / capacity : Infinity;
+/** k = demand/capacity per unit q; unbounded when the capacity is gone and something loads it. */
+function perPa(demandPerPa: number, capacity: number): number {
+  if (demandPerPa <= 0) return 0;
+  return capacity > 0 ? demandPerPa / capacity : Infinity;
 }
 
-function governingCriterion(utilization: Record<Criterion, number>): Criterion {
+function governingOf(utilization: Record<Criterion, number>): Criterion {
   let governing: Criterion = 'overturning';
   for (const criterion of criteria) if (utilization[criterion] > utilization[governing]) governing = criterion;
   return governing;
 }
 
-/**
- * One side of a structure at dynamic pressure `qPa`. `horizontalShare` (0..1, default 1) scales
- * the load on the faces only: in directional assessment the faces see the normal component
- * ((v_n/v)², see direction.ts) while roof uplift keeps the full gust.
- */
-export function sideStability(coefficients: StabilityCoefficients, side: Side, qPa: number, horizontalShare = 1): SideStability {
-  const { upliftAreaM2, weightN, baseDepthM, frictionCoefficient, safetyFactors } = coefficients;
-  const sums = coefficients[side];
-  const faceQPa = qPa * horizontalShare;
-  const horizontalForceN = sums.forceAreaM2 * faceQPa;
-  const overturningMomentNm = sums.momentVolumeM3 * faceQPa;
-  const upliftN = upliftAreaM2 * qPa;
-  const restoringMomentNm = sums.weightMomentNm - (upliftN * baseDepthM) / 2;
-  // Runs per reading and structure: two objects, nothing else allocated.
-  const utilization: Utilizations = {
-    overturning: utilizationRatio(safetyFactors.overturning * overturningMomentNm, restoringMomentNm),
-    sliding: utilizationRatio(safetyFactors.sliding * horizontalForceN, frictionCoefficient * (weightN - upliftN)),
-    uplift: utilizationRatio(safetyFactors.uplift * upliftN, weightN),
-    governing: 0,
-  };
-  const governing = governingCriterion(utilization);
-  utilization.governing = utilization[governing];
-  return { side, horizontalForceN, upliftN, overturningMomentNm, restoringMomentNm, utilization, governing };
+interface CheckedUplift {
+  label: string | null;
+  perPaM2: number;
+  distancesM: Record<Edge, number>;
 }
 
-export interface StabilityAtPressure {
-  qPa: number;
-  front: SideStability;
-  back: SideStability;
-  /** The side with the higher governing utilization (front on a tie). */
-  governingSide: Side;
-}
-
-/** Both sides at dynamic pressure `qPa`, and which governs. */
-export function stabilityAtPressure(coefficients: StabilityCoefficients, qPa: number): StabilityAtPressure {
-  const front = sideStability(coefficients, 'front', qPa);
-  const back = sideStability(coefficients, 'back', qPa);
-  const governingSide: Side = back.utilization.governing > front.utilization.governing ? 'back' : 'front';
-  return { qPa, front, back, governingSide };
-}
-
-/** Both sides of a structure at one gust (m/s) in air of density `airDensityKgM3`. */
-export function stabilityAtGust(structure: ExpandedStructure, gustMps: number, airDensityKgM3: number): StabilityAtPressure {
-  assertInRange('stabilityAtGust', 'gustMps', gustMps, 0, 120, 'm/s');
-  assertAirDensity('stabilityAtGust', airDensityKgM3);
-  return stabilityAtPressure(stabilityCoefficients(structure), dynamicPressurePa(gustMps, airDensityKgM3));
-}
-
-/** numerator/denominator for a limit q: 0 when there is no resistance, Infinity when nothing loads it. */
-function limitQuotient(resistance: number, loadPerQ: number): number {
-  if (resistance <= 0) return 0;
-  return loadPerQ > 0 ? resistance / loadPerQ : Infinity;
+function checkedUplift(caller: string, path: string, uplift: Uplift, depthM: number, widthM: number): CheckedUplift {
+  const planAreaM2 = checked(caller, `${path}.planAreaM2`, uplift.planAreaM2, 0, 40_000, 'm²');
+  const lift = checked(caller, `${path}.liftCoefficient`, uplift.liftCoefficient, 0, 4);
+  const xM = checked(caller, `${path}.xM`, uplift.xM ?? depthM / 2, 0, depthM, 'm (within the base)');
+  const yM = checked(caller, `${path}.yM`, uplift.yM ?? widthM / 2, 0, widthM, 'm (within the base)');
+  return { label: uplift.label ?? null, perPaM2: planAreaM2 * lift, distancesM: distancesM(xM, yM, depthM, widthM) };
 }
 
 /**
- * The dynamic pressure (Pa) at which each criterion of one side reaches utilization `fraction`
- * (1 for the limit): the closed forms of the module comment with every γ divided by `fraction`.
- * Where a utilization jumps (a side with no face load: U_ot goes from 0 to unbounded when uplift
- * eats the restoring moment) this is the pressure of the jump, the lowest q with U ≥ fraction.
+ * The direction coefficients of one body. Checks every number and throws a RangeError naming the
+ * offending field: a NaN here would hide a failure.
  */
-export function criterionPressuresPa(
-  coefficients: StabilityCoefficients,
-  side: Side,
-  fraction = 1,
-  horizontalShare = 1,
-): Record<Criterion, number> {
-  const { upliftAreaM2: b, weightN, baseDepthM, frictionCoefficient: mu, safetyFactors } = coefficients;
-  const sums = coefficients[side];
-  const scale = 1 / fraction;
+export function bodyCoefficients(body: StabilityBody, element: string | null = null, extraDirectionsDeg: readonly number[] = []): BodyCoefficients {
+  const caller = element === null ? 'stabilityCoefficients' : `stabilityCoefficients (element "${element}")`;
+  const depthM = body.baseDepthM;
+  assertAbove(caller, 'baseDepthM', depthM, 0, 200, 'm');
+  const strip = body.baseWidthM === undefined;
+  if (!strip) assertAbove(caller, 'baseWidthM', body.baseWidthM!, 0, 200, 'm');
+  // A strip has no ends to tip about; its y positions do not enter.
+  const widthM = body.baseWidthM ?? 0;
+  assertAbove(caller, 'frictionCoefficient', body.frictionCoefficient, 0, 1);
+  for (const criterion of criteria) assertInRange(caller, `safetyFactors.${criterion}`, body.safetyFactors[criterion], 1, 5);
+  const usedEdges: readonly Edge[] = strip ? ['front', 'back'] : edges;
+
+  const faces = body.faces.map((face, index) => {
+    const areaM2 = checked(caller, `faces.${index}.areaM2`, face.areaM2, 0, 40_000, 'm²');
+    const heightM = checked(caller, `faces.${index}.centroidHeightM`, face.centroidHeightM, 0, 200, 'm');
+    const facingDeg = checked(caller, `faces.${index}.facingDeg`, face.facingDeg ?? 0, 0, 360, '°');
+    return {
+      facingDeg,
+      heightM,
+      frontPerPaM2: checked(caller, `faces.${index}.cfFront`, face.cfFront, 0, 4) * areaM2,
+      backPerPaM2: checked(caller, `faces.${index}.cfBack`, face.cfBack, 0, 4) * areaM2,
+      normal: faceNormal(facingDeg),
+    };
+  });
+
+  let weightN = 0;
+  const restoringMomentNm: Record<Edge, number> = { front: 0, back: 0, endY0: 0, endYW: 0 };
+  body.masses.forEach((mass, index) => {
+    const massWeightN = standardGravityMps2 * checked(caller, `masses.${index}.massKg`, mass.massKg, 0, 1e6, 'kg');
+    const xM = checked(caller, `masses.${index}.xM`, mass.xM, 0, depthM, 'm (within the base)');
+    const yM = checked(caller, `masses.${index}.yM`, mass.yM ?? widthM / 2, 0, widthM, 'm (within the base)');
+    weightN += massWeightN;
+    const levers = distancesM(xM, yM, depthM, widthM);
+    for (const edge of edges) restoringMomentNm[edge] += massWeightN * levers[edge];
+  });
+
+  const plainUplift = body.uplift ? checkedUplift(caller, 'uplift', body.uplift, depthM, widthM) : null;
+  const upliftCases = (body.upliftCases ?? []).map((uplift, index) => ({
+    sector: { centreDeg: checked(caller, `upliftCases.${index}.centreDeg`, uplift.centreDeg, 0, 360, '°'), halfWidthDeg: uplift.halfWidthDeg },
+    uplift: checkedUplift(caller, `upliftCases.${index}`, uplift, depthM, widthM),
+  }));
+
+  const { safetyFactors, frictionCoefficient: mu } = body;
+  const directionsDeg = assessedDirectionsDeg([...faces.map((face) => face.facingDeg), ...extraDirectionsDeg]);
+  const directions = directionsDeg.map((directionDeg): DirectionCoefficients => {
+    let forceX = 0;
+    let forceY = 0;
+    const faceMoment: Record<Edge, number> = { front: 0, back: 0, endY0: 0, endYW: 0 };
+    for (const face of faces) {
+      const incidence = faceIncidence(directionDeg, face.facingDeg);
+      if (incidence.share === 0) continue;
+      // From the windward side to the leeward side: −n onto the front side, +n onto the back.
+      const magnitude = (incidence.side === 'front' ? face.frontPerPaM2 : face.backPerPaM2) * incidence.share;
+      const sign = incidence.side === 'front' ? -1 : 1;
+      const fx = sign * magnitude * face.normal.x;
+      const fy = sign * magnitude * face.normal.y;
+      forceX += fx;
+      forceY += fy;
+      for (const edge of usedEdges) faceMoment[edge] += face.heightM * (fx * edgeNormals[edge].x + fy * edgeNormals[edge].y);
+    }
+    const forcePerPaM2 = Math.hypot(forceX, forceY);
+    const applicable = upliftCases.filter((entry) => inSector(directionDeg, entry.sector)).map((entry) => entry.uplift);
+    const alternatives: Array<CheckedUplift | null> = applicable.length > 0 ? applicable : [plainUplift];
+
+    let best: DirectionCoefficients | null = null;
+    for (const uplift of alternatives) {
+      const upliftPerPaM2 = uplift?.perPaM2 ?? 0;
+      const windMomentPerPaM3: Record<Edge, number> = { front: 0, back: 0, endY0: 0, endYW: 0 };
+      let overturning = 0;
+      let tippingEdge: Edge = 'back';
+      for (const edge of usedEdges) {
+        windMomentPerPaM3[edge] = Math.max(0, faceMoment[edge]) + upliftPerPaM2 * (uplift?.distancesM[edge] ?? 0);
+        const k = perPa(safetyFactors.overturning * windMomentPerPaM3[edge], restoringMomentNm[edge]);
+        if (k > overturning) {
+          overturning = k;
+          tippingEdge = edge;
+        }
+      }
+      if (overturning === 0) tippingEdge = travelEdge(forceX, forceY);
+      const utilization = {
+        overturning,
+        sliding: perPa(safetyFactors.sliding * (forcePerPaM2 + mu * upliftPerPaM2), mu * weightN),
+        uplift: perPa(safetyFactors.uplift * upliftPerPaM2, weightN),
+      };
+      const governing = governingOf(utilization);
+      const candidate: DirectionCoefficients = {
+        directionDeg,
+        upliftLabel: uplift?.label ?? null,
+        forcePerPaM2,
+        forceXPerPaM2: forceX,
+        forceYPerPaM2: forceY,
+        upliftPerPaM2,
+        windMomentPerPaM3,
+        restoringMomentNm: { ...restoringMomentNm },
+        utilizationPerPa: { ...utilization, governing: utilization[governing] },
+        governing,
+        tippingEdge,
+      };
+      if (best === null || candidate.utilizationPerPa.governing > best.utilizationPerPa.governing) best = candidate;
+    }
+    return best!;
+  });
+
   return {
-    overturning: limitQuotient(
-      sums.weightMomentNm,
-      safetyFactors.overturning * scale * sums.momentVolumeM3 * horizontalShare + (b * baseDepthM) / 2,
-    ),
-    sliding: limitQuotient(mu * weightN, safetyFactors.sliding * scale * sums.forceAreaM2 * horizontalShare + mu * b),
-    uplift: limitQuotient(weightN, safetyFactors.uplift * scale * b),
+    element,
+    strip,
+    weightN,
+    frictionCoefficient: mu,
+    safetyFactors: { ...safetyFactors },
+    baseDepthM: depthM,
+    baseWidthM: strip ? null : widthM,
+    directions,
   };
 }
 
-/** Lowest entry over both sides and all criteria (front before back, criteria in order, on a tie). */
-function lowestPressure(coefficients: StabilityCoefficients, fraction: number): { qPa: number; side: Side; criterion: Criterion } {
-  let lowest = { qPa: Infinity, side: 'front' as Side, criterion: 'overturning' as Criterion };
-  for (const side of sides) {
-    const pressures = criterionPressuresPa(coefficients, side, fraction);
-    for (const criterion of criteria) {
-      if (pressures[criterion] < lowest.qPa) lowest = { qPa: pressures[criterion], side, criterion };
+/** The edge the horizontal force pushes across (for a direction with nothing to tip). */
+function travelEdge(forceX: number, forceY: number): Edge {
+  if (Math.abs(forceX) >= Math.abs(forceY)) return forceX >= 0 ? 'back' : 'front';
+  return forceY >= 0 ? 'endYW' : 'endY0';
+}
+
+/** The whole structure's coefficients: body, elements (each on its own base), rating. */
+export function stabilityCoefficients(structure: ExpandedStructure): StabilityCoefficients {
+  if (structure.ratedGustMps !== undefined) assertAbove('stabilityCoefficients', 'ratedGustMps', structure.ratedGustMps, 0, 120, 'm/s');
+  // Every part is assessed in every direction any part has a face normal in, so that the
+  // structure's directions line up across its parts.
+  const normals = [structure, ...(structure.elements ?? [])].flatMap((part) => part.faces.map((face) => face.facingDeg ?? 0));
+  return {
+    body: bodyCoefficients(structure, null, normals),
+    elements: (structure.elements ?? []).map((element) => bodyCoefficients(element, element.name, normals)),
+    ratedGustMps: structure.ratedGustMps ?? null,
+  };
+}
+
+/** k × q, with an unbounded k giving 0 at q = 0 (no wind, no load) and Infinity above. */
+export function utilizationAtPa(perPaValue: number, qPa: number): number {
+  if (qPa === 0) return 0;
+  return perPaValue * qPa;
+}
+
+/** Utilizations of one direction at dynamic pressure q. */
+export function directionUtilizations(direction: DirectionCoefficients, qPa: number): Utilizations {
+  const k = direction.utilizationPerPa;
+  return {
+    overturning: utilizationAtPa(k.overturning, qPa),
+    sliding: utilizationAtPa(k.sliding, qPa),
+    uplift: utilizationAtPa(k.uplift, qPa),
+    governing: utilizationAtPa(k.governing, qPa),
+  };
+}
+
+/** Relative direction of the wind, or the sector of directions to assess: null = every direction. */
+export type AssessedDirections = DirectionSector | null;
+
+/** Parts of the structure: the body first, then its elements. */
+export function parts(coefficients: StabilityCoefficients): BodyCoefficients[] {
+  return [coefficients.body, ...coefficients.elements];
+}
+
+/**
+ * The governing case: the part and direction with the highest k (within `sector` when given; the
+ * body's first direction on a tie). Since every U = k·q this is the governing case at every gust.
+ */
+export function governingCase(coefficients: StabilityCoefficients, sector: AssessedDirections = null): GoverningCase {
+  let best: GoverningCase | null = null;
+  for (const part of parts(coefficients)) {
+    for (const direction of part.directions) {
+      if (sector !== null && !inSector(direction.directionDeg, sector)) continue;
+      if (best === null || direction.utilizationPerPa.governing > best.direction.utilizationPerPa.governing) best = { part, direction };
     }
   }
-  return lowest;
+  // A sector always holds at least one of the 15° directions when it is 7.5° wide or more; a
+  // narrower one falls back to the nearest direction assessed.
+  if (best === null) return nearestCase(coefficients, sector!.centreDeg);
+  return best;
 }
 
-/** The calculated limit: the lowest gust at which any utilization of either side reaches 1. */
-export function calculatedLimitGust(structure: ExpandedStructure, airDensityKgM3: number): LimitGust {
-  assertAirDensity('calculatedLimitGust', airDensityKgM3);
-  const { qPa, side, criterion } = lowestPressure(stabilityCoefficients(structure), 1);
-  return { gustMps: speedForDynamicPressureMps(qPa, airDensityKgM3), side, criterion };
+function nearestCase(coefficients: StabilityCoefficients, centreDeg: number): GoverningCase {
+  const nearestDeg = coefficients.body.directions.reduce((nearest, direction) =>
+    Math.abs(wrappedDeg(direction.directionDeg - centreDeg)) < Math.abs(wrappedDeg(nearest.directionDeg - centreDeg)) ? direction : nearest,
+  ).directionDeg;
+  return governingCase(coefficients, { centreDeg: nearestDeg, halfWidthDeg: 0 });
 }
 
-/** Per-side limit gusts (m/s) of each criterion: for the report. */
-export function sideLimitGustsMps(coefficients: StabilityCoefficients, side: Side, airDensityKgM3: number): Record<Criterion, number> {
-  const pressures = criterionPressuresPa(coefficients, side);
-  return {
-    overturning: speedForDynamicPressureMps(pressures.overturning, airDensityKgM3),
-    sliding: speedForDynamicPressureMps(pressures.sliding, airDensityKgM3),
-    uplift: speedForDynamicPressureMps(pressures.uplift, airDensityKgM3),
-  };
+/** The highest governing k (1/Pa) of the structure, within the sector when given. */
+export function governingPerPa(coefficients: StabilityCoefficients, sector: AssessedDirections = null): number {
+  return governingCase(coefficients, sector).direction.utilizationPerPa.governing;
 }
 
-/** Effective limit gust, m/s: the lower of the calculated limit and the rated gust (design §2.3). */
+/** The gust (m/s) at which utilization k·q reaches `fraction`: √(2f/(ρk)); Infinity when k = 0, 0 when unbounded. */
+export function gustAtPerPaMps(perPaValue: number, fraction: number, airDensityKgM3: number): number {
+  if (perPaValue <= 0) return Infinity;
+  if (!Number.isFinite(perPaValue)) return 0;
+  return speedForDynamicPressureMps(fraction / perPaValue, airDensityKgM3);
+}
+
+/** The calculated limit gust (m/s): the lowest over parts, directions and criteria (within the sector). */
+export function calculatedLimitGustMps(coefficients: StabilityCoefficients, airDensityKgM3: number, sector: AssessedDirections = null): number {
+  assertAirDensity('calculatedLimitGustMps', airDensityKgM3);
+  return gustAtPerPaMps(governingPerPa(coefficients, sector), 1, airDensityKgM3);
+}
+
+/** The effective limit (design §2.3): the lower of the calculated limit and the rated gust, m/s. */
+export function effectiveLimitMps(coefficients: StabilityCoefficients, airDensityKgM3: number, sector: AssessedDirections = null): number {
+  const calculated = calculatedLimitGustMps(coefficients, airDensityKgM3, sector);
+  return coefficients.ratedGustMps === null ? calculated : Math.min(calculated, coefficients.ratedGustMps);
+}
+
+/** Effective utilization at a gust: max(U, (v / v_rated)²) (design §2.3). */
+export function effectiveUtilization(coefficients: StabilityCoefficients, gustMps: number, airDensityKgM3: number, sector: AssessedDirections = null): number {
+  const calculated = utilizationAtPa(governingPerPa(coefficients, sector), dynamicPressurePa(gustMps, airDensityKgM3));
+  if (coefficients.ratedGustMps === null) return calculated;
+  const ratio = gustMps / coefficients.ratedGustMps;
+  return Math.max(calculated, ratio * ratio);
+}
+
+/** The gust (m/s) at which the effective utilization reaches `fraction` of capacity: v_lim,eff·√f. */
+export function gustAtFractionMps(coefficients: StabilityCoefficients, fraction: number, airDensityKgM3: number, sector: AssessedDirections = null): number {
+  assertAbove('gustAtFractionMps', 'fraction', fraction, 0, 10);
+  return effectiveLimitMps(coefficients, airDensityKgM3, sector) * Math.sqrt(fraction);
+}
+
+/** The whole-structure effective limit from an expanded structure, m/s (compute coefficients once where it matters). */
 export function effectiveLimitGustMps(structure: ExpandedStructure, airDensityKgM3: number): number {
-  const calculatedMps = calculatedLimitGust(structure, airDensityKgM3).gustMps;
-  return structure.ratedGustMps === undefined ? calculatedMps : Math.min(calculatedMps, structure.ratedGustMps);
+  return effectiveLimitMps(stabilityCoefficients(structure), airDensityKgM3);
 }
 
-/**
- * The gust (m/s) at which the governing utilization first reaches `fraction` (level triggers,
- * design §2.4), solved exactly per criterion. Without uplift it is limit·√fraction (60 % →
- * 0.7746·limit); with uplift it is higher than that shortcut says, as the resistance falls too.
- */
+/** The gust at which a fraction of the effective capacity is reached, from an expanded structure. */
 export function gustForUtilizationMps(structure: ExpandedStructure, fraction: number, airDensityKgM3: number): number {
-  assertAbove('gustForUtilizationMps', 'fraction', fraction, 0, 10);
-  assertAirDensity('gustForUtilizationMps', airDensityKgM3);
-  const { qPa } = lowestPressure(stabilityCoefficients(structure), fraction);
-  return speedForDynamicPressureMps(qPa, airDensityKgM3);
+  return gustAtFractionMps(stabilityCoefficients(structure), fraction, airDensityKgM3);
 }
 
+/** A stated answer for required ballast: the mass, or why no mass at that point can do it. */
+export type RequiredBallast =
+  | { possible: true; massKg: number }
+  | { possible: false; massKg: null; reason: string };
+
 /**
- * Extra mass (kg) at `xM` across the base that brings the governing utilization at the design
- * gust to exactly 1; 0 when it is already ≤ 1. Every criterion improves with mass, so each is
- * solved for the mass it needs and the largest governs:
- *   overturning Δm = (γ_ot C q + B q d/2 − M_w) / (g·lever),  sliding Δm = (γ_sl A q/μ + B q − W) / g,
- *   uplift Δm = (γ_up B q − W) / g.
- * Infinity when no mass at `xM` can help: a side that needs more restoring moment while `xM` sits
- * on its tipping edge (lever 0) — put the ballast elsewhere.
+ * Extra mass at plan point (xM, yM) of the body that brings the effective governing utilization at
+ * `designGustMps` to 1 (design §2.3). Every check is linear in the added mass Δm:
+ *   overturning about e: Δm = (γ_ot (M_h,e + M_u,e) − M_w,e) / (g · dist(point, e)),
+ *   sliding: Δm = (γ_sl (|F⃗| + μ F_up) / μ − W) / g,   uplift: Δm = (γ_up F_up − W) / g.
+ * Not possible when the rating governs (the design gust is above the rated gust), when an element
+ * fails at the design gust (ballast on the body does not hold down a part on its own feet), or
+ * when the point sits on an edge that needs more restoring moment.
  */
-export function requiredBallastKg(structure: ExpandedStructure, designGustMps: number, airDensityKgM3: number, xM: number): number {
-  const caller = 'requiredBallastKg';
+export function requiredBallast(
+  coefficients: StabilityCoefficients,
+  designGustMps: number,
+  airDensityKgM3: number,
+  point: { xM: number; yM?: number | undefined },
+): RequiredBallast {
+  const caller = 'requiredBallast';
   assertInRange(caller, 'designGustMps', designGustMps, 0, 120, 'm/s');
   assertAirDensity(caller, airDensityKgM3);
-  assertInRange(caller, 'xM', xM, 0, structure.baseDepthM, 'm (within the base)');
-  const coefficients = stabilityCoefficients(structure);
-  const { upliftAreaM2: b, weightN, baseDepthM, frictionCoefficient: mu, safetyFactors } = coefficients;
-  const qPa = dynamicPressurePa(designGustMps, airDensityKgM3);
-  const upliftN = b * qPa;
-
-  let neededWeightN = Math.max(
-    (safetyFactors.sliding * coefficients.front.forceAreaM2 * qPa) / mu + upliftN - weightN,
-    (safetyFactors.sliding * coefficients.back.forceAreaM2 * qPa) / mu + upliftN - weightN,
-    safetyFactors.uplift * upliftN - weightN,
-    0,
-  );
-  for (const side of sides) {
-    const leverM = side === 'front' ? baseDepthM - xM : xM;
-    const sums = coefficients[side];
-    const momentDeficitNm = safetyFactors.overturning * sums.momentVolumeM3 * qPa + (upliftN * baseDepthM) / 2 - sums.weightMomentNm;
-    if (momentDeficitNm <= 0) continue;
-    if (leverM <= 0) return Infinity;
-    neededWeightN = Math.max(neededWeightN, momentDeficitNm / leverM);
+  const body = coefficients.body;
+  assertInRange(caller, 'xM', point.xM, 0, body.baseDepthM, 'm (within the base)');
+  const widthM = body.baseWidthM ?? 0;
+  const yM = point.yM ?? widthM / 2;
+  assertInRange(caller, 'yM', yM, 0, widthM, 'm (within the base)');
+  if (coefficients.ratedGustMps !== null && designGustMps > coefficients.ratedGustMps) {
+    return { possible: false, massKg: null, reason: `the design gust is above the rated gust ${coefficients.ratedGustMps} m/s: no ballast raises a rating` };
   }
-  return neededWeightN / standardGravityMps2;
+  const qPa = dynamicPressurePa(designGustMps, airDensityKgM3);
+  for (const element of coefficients.elements) {
+    const worst = Math.max(...element.directions.map((direction) => utilizationAtPa(direction.utilizationPerPa.governing, qPa)));
+    if (worst > 1) {
+      return { possible: false, massKg: null, reason: `${element.element} fails on its own at this gust: it needs ballast of its own` };
+    }
+  }
+  const levers = distancesM(point.xM, yM, body.baseDepthM, widthM);
+  const usedEdges: readonly Edge[] = body.strip ? ['front', 'back'] : edges;
+  const { safetyFactors, frictionCoefficient: mu, weightN } = body;
+  let neededWeightN = 0;
+  for (const direction of body.directions) {
+    const upliftN = direction.upliftPerPaM2 * qPa;
+    neededWeightN = Math.max(
+      neededWeightN,
+      (safetyFactors.sliding * (direction.forcePerPaM2 * qPa + mu * upliftN)) / mu - weightN,
+      safetyFactors.uplift * upliftN - weightN,
+    );
+    for (const edge of usedEdges) {
+      const deficitNm = safetyFactors.overturning * direction.windMomentPerPaM3[edge] * qPa - direction.restoringMomentNm[edge];
+      if (deficitNm <= 0) continue;
+      if (levers[edge] <= 0) {
+        return { possible: false, massKg: null, reason: `ballast on the ${edgeWords[edge]} adds nothing against tipping about it: place it elsewhere` };
+      }
+      neededWeightN = Math.max(neededWeightN, deficitNm / levers[edge]);
+    }
+  }
+  return { possible: true, massKg: neededWeightN / standardGravityMps2 };
 }
+
+/** Edges in words, for reports and reasons. */
+export const edgeWords: Readonly<Record<Edge, string>> = {
+  front: 'front edge',
+  back: 'back edge',
+  endY0: 'end edge at y = 0',
+  endYW: 'end edge at y = baseWidthM',
+};

@@ -10,9 +10,17 @@
  */
 import { Hono, type Context } from 'hono';
 import { z } from 'zod';
-import { assessStructure, highestTravelSpeedMps, isaSeaLevelDensityKgM3, plausibleAirDensityKgM3, recordIssues, requiredBallastKg, validateStructureRecord } from '../engine/index.ts';
-import { checkLevelOrder, levelListSchema } from '../levels/index.ts';
-import { rawTriggerGustsMps } from '../watch/structureModel.ts';
+import {
+  assessStructure,
+  highestTravelSpeedMps,
+  plausibleAirDensityKgM3,
+  recordIssues,
+  requiredBallast,
+  stabilityCoefficients,
+  validateStructureRecord,
+} from '../engine/index.ts';
+import { levelListSchema } from '../levels/index.ts';
+import { levelProblems, rawTriggerGustsMps } from '../watch/structureModel.ts';
 import type { FieldIssue } from './httpError.ts';
 
 /** Gust range accepted, m/s: the sensor plausibility bound of design §3. */
@@ -37,6 +45,10 @@ const assessBodySchema = z.strictObject({
   travel: z.strictObject({ windFromDeg: z.number().min(0).max(360).nullable().optional(), headingDeg: z.number().min(0).max(360).nullable().optional() }).optional(),
   /** Extension: where extra ballast would go, m from the front edge (default the middle of the base). */
   ballastXM: z.number().gte(0, 'must be ≥ 0 m').optional(),
+  /** Extension: where extra ballast would go, m from the y = 0 end (default the middle of the base). */
+  ballastYM: z.number().gte(0, 'must be ≥ 0 m').optional(),
+  /** Extension: the azimuth the structure's front faces, degrees; sides are then named by compass point. */
+  frontAzimuthDeg: z.number().gte(0, 'must be ≥ 0°').lte(360, 'must be ≤ 360°').optional(),
   airDensityKgM3: z
     .number()
     .gte(plausibleAirDensityKgM3.min, `must be ≥ ${plausibleAirDensityKgM3.min} kg/m³`)
@@ -79,21 +91,27 @@ assessRoute.post('/', async (c) => {
     issues.push(...structure.issues.map((issue) => ({ ...issue, path: issue.path === '' ? 'structure' : `structure.${issue.path}` })));
   }
   if (!parsedBody.success || !structure?.ok) return invalidInput(c, issues);
-  const { gustMps, airDensityKgM3, levels, designGustMps, ballastXM, travel } = parsedBody.data;
-  const report = assessStructure(structure.record, { gustMps, airDensityKgM3 });
-  const density = airDensityKgM3 ?? isaSeaLevelDensityKgM3;
+  const { gustMps, airDensityKgM3, levels, designGustMps, ballastXM, ballastYM, travel, frontAzimuthDeg } = parsedBody.data;
+  const report = assessStructure(structure.record, { gustMps, airDensityKgM3, frontAzimuthDeg });
+  const density = report.airDensityKgM3;
   const extras: Record<string, unknown> = {};
+  const limitMps = report.limitGustMps ?? Infinity;
   if (levels) {
-    const model = { expanded: report.expanded, ratedGustMps: report.expanded.ratedGustMps ?? null, levels };
-    const gusts = rawTriggerGustsMps(model, density);
+    const gusts = rawTriggerGustsMps(levels, limitMps);
     extras.levels = levels.map((level, i) => ({ level: i + 1, label: level.label, trigger: level.trigger, triggerGustMps: Number.isFinite(gusts[i]!) ? gusts[i] : null }));
-    extras.levelOrderProblems = checkLevelOrder(gusts).map((i) => ({ path: `levels.${i}.trigger`, message: `level ${i + 1} does not trigger above level ${i}` }));
+    extras.levelOrderProblems = levelProblems(levels, limitMps).map((problem) => ({ path: `levels.${problem.index}.trigger.${problem.field}`, message: problem.message }));
   }
   if (designGustMps !== undefined) {
-    const xM = ballastXM ?? report.expanded.baseDepthM / 2;
-    if (xM > report.expanded.baseDepthM) return invalidInput(c, [{ path: 'ballastXM', message: `must be within the base (≤ ${report.expanded.baseDepthM} m)` }]);
-    const kg = requiredBallastKg(report.expanded, designGustMps, density, xM);
-    extras.requiredBallast = { designGustMps, xM, massKg: Number.isFinite(kg) ? kg : null, possible: Number.isFinite(kg) };
+    const { baseDepthM } = report.expanded;
+    const baseWidthM = report.expanded.baseWidthM ?? 0;
+    const xM = ballastXM ?? baseDepthM / 2;
+    const yM = ballastYM ?? baseWidthM / 2;
+    const placement: FieldIssue[] = [];
+    if (xM > baseDepthM) placement.push({ path: 'ballastXM', message: `must be within the base (≤ ${baseDepthM} m)` });
+    if (yM > baseWidthM) placement.push({ path: 'ballastYM', message: report.expanded.baseWidthM === undefined ? 'needs a record with baseWidthM' : `must be within the base (≤ ${baseWidthM} m)` });
+    if (placement.length > 0) return invalidInput(c, placement);
+    const answer = requiredBallast(stabilityCoefficients(report.expanded), designGustMps, density, { xM, yM });
+    extras.requiredBallast = { designGustMps, xM, yM, ...answer };
   }
   if (travel && report.limitGustMps !== null) {
     extras.travel = {

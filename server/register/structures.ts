@@ -9,9 +9,9 @@ import { z } from 'zod';
 import { structuresTable, sensorsTable } from '../../db/schema.ts';
 import { isaAirDensityKgM3, validateStructureRecord, type StructureRecord } from '../engine/index.ts';
 import { HttpError, type FieldIssue } from '../http/httpError.ts';
-import { checkLevelOrder, levelListSchema, type LevelDefinition } from '../levels/index.ts';
+import { levelListSchema, type LevelDefinition } from '../levels/index.ts';
 import type { Db, Tx } from '../storage/database.ts';
-import { rawTriggerGustsMps, structureModel } from '../watch/structureModel.ts';
+import { densityDependent, levelProblems, structureModel } from '../watch/structureModel.ts';
 import { recordAudit } from './audit.ts';
 import { getSite } from './site.ts';
 
@@ -71,7 +71,8 @@ export function structureView(row: StructureRow): StructureView {
 
 /**
  * Checks a structure as a whole: the record (every field), that its sensors exist, and that its
- * levels' trigger gusts rise from level to level at the site's ISA density. Returns the parsed
+ * levels' trigger gusts rise from level to level and stay below the effective limit at the
+ * site's design density. Returns the parsed
  * record or throws 400 naming every problem.
  */
 export function checkStructure(tx: Tx, input: StructureInput): StructureRecord {
@@ -92,19 +93,27 @@ export function checkStructure(tx: Tx, input: StructureInput): StructureRecord {
       { id: 0, name: record.name, kind: record.kind, recordJson: record, orientationDeg: input.orientationDeg, mobile: input.mobile, sensorKeysJson: null, levelsJson: input.levels },
       site.defaultLevelsJson as LevelDefinition[],
     );
-    // Mixed utilization and gust triggers can only be ordered once the structure is known.
-    const gusts = rawTriggerGustsMps(model, isaAirDensityKgM3(site.altitudeM));
-    for (const i of checkLevelOrder(gusts)) {
-      issues.push({
-        path: `levels.${i}.trigger`,
-        message: `level ${i + 1} triggers at ${gusts[i]!.toFixed(1)} m/s for this structure, not above level ${i} (${(gusts[i - 1] ?? 0).toFixed(1)} m/s)`,
-      });
+    // Mixed utilization and gust triggers can only be ordered once the structure is known; a
+    // gust trigger at or above the effective limit would let the structure pass its limit first.
+    const limitMps = densityDependent(model, siteDesignDensityKgM3(site)).limitGustMps;
+    for (const problem of levelProblems(model.levels, limitMps)) {
+      issues.push({ path: input.levels === null ? 'levels' : `levels.${problem.index}.trigger.${problem.field}`, message: input.levels === null ? `the site's default ${problem.message}` : problem.message });
     }
   } catch (err) {
     issues.push({ path: 'record', message: err instanceof Error ? err.message : String(err) });
   }
   if (issues.length > 0) throw HttpError.invalid(issues);
   return record;
+}
+
+/**
+ * The density a structure's levels are checked at on save: the site's fixed density, else ISA at
+ * the site's altitude, and never less than the EN 1991-1-4 §4.5 recommended 1.25 kg/m³ (denser
+ * air lowers the limit, so the check errs toward refusing).
+ */
+function siteDesignDensityKgM3(site: { airDensityMode: string; fixedAirDensityKgM3: number | null; altitudeM: number }): number {
+  const density = site.airDensityMode === 'fixed' && site.fixedAirDensityKgM3 !== null ? site.fixedAirDensityKgM3 : isaAirDensityKgM3(site.altitudeM);
+  return Math.max(density, 1.25);
 }
 
 export function listStructures(db: Tx): StructureView[] {

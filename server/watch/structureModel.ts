@@ -1,15 +1,16 @@
 /**
- * A registered structure made ready for the per-reading path: its record expanded into faces
- * and masses once, its stability reduced to coefficients once, its level ladder turned into
- * trigger gusts for the current air density, and its height on the wind profile. Everything
- * here depends only on the register and the air density, never on the reading.
+ * A registered structure made ready for the per-reading path: its record expanded into faces,
+ * masses and elements once, its stability in every direction reduced to coefficients once (every
+ * utilization is k·q, see engine/stability.ts), its level ladder turned into trigger gusts for
+ * the current air density, and its height on the wind profile. Everything here depends only on
+ * the register and the air density, never on the reading.
  */
 import {
-  calculatedLimitGust,
-  effectiveLimitGustMps,
+  calculatedLimitGustMps,
+  effectiveLimitMps,
   expandStructure,
-  gustForUtilizationMps,
   stabilityCoefficients,
+  type AssessedDirections,
   type ExpandedStructure,
   type StabilityCoefficients,
   type StructureRecord,
@@ -30,12 +31,16 @@ export interface StructureModel {
   referenceHeightM: number;
   levels: readonly LevelDefinition[];
   ratedGustMps: number | null;
+  /** Sentences of the engine about this record (a strip record: ends not checked). */
+  warnings: readonly string[];
 }
 
 /** What depends on the air density: recomputed when the density changes. */
 export interface DensityDependent {
   airDensityKgM3: number;
+  /** Lowest calculated limit over every direction and element, m/s. */
   calculatedLimitGustMps: number;
+  /** The effective limit: the lower of the calculated limit and the rating, m/s. */
   limitGustMps: number;
   /** Equivalent gust of each level's trigger, m/s, strictly rising (see `triggerLadderMps`). */
   triggerGustsMps: number[];
@@ -53,9 +58,10 @@ export interface StructureRow {
 }
 
 export function structureModel(row: StructureRow, siteLevels: readonly LevelDefinition[]): StructureModel {
-  const { structure, referenceHeightM } = expandStructure(row.recordJson as StructureRecord);
+  const { structure, referenceHeightM, warnings } = expandStructure(row.recordJson as StructureRecord);
   const levels = (row.levelsJson as LevelDefinition[] | null) ?? siteLevels;
   const keys = row.sensorKeysJson as string[] | null;
+  const coefficients = stabilityCoefficients(structure);
   return {
     id: row.id,
     name: row.name,
@@ -64,46 +70,85 @@ export function structureModel(row: StructureRow, siteLevels: readonly LevelDefi
     mobile: row.mobile,
     sensorKeys: keys && keys.length > 0 ? new Set(keys) : null,
     expanded: structure,
-    coefficients: stabilityCoefficients(structure),
+    coefficients,
     referenceHeightM,
     levels,
     ratedGustMps: structure.ratedGustMps ?? null,
+    warnings: [
+      ...(coefficients.body.strip ? ['Strip record (no base width): wind onto the ends was not checked.'] : []),
+      ...(warnings ?? []),
+    ],
   };
 }
 
 /**
- * The trigger gust of each level at this density. A capacity fraction f becomes the gust at
- * which the governing utilization reaches f (solved exactly, uplift included) — and, when the
- * manufacturer's rated gust is lower than the calculated limit, no more than rated·√f: the
- * capacity is then the rating, and a level must not come later than the rating allows
- * (conservative; our reading of design.md 2.3's effective limit). A gust trigger is taken as is.
- *
- * Mixed trigger kinds can cross when the density changes; the ladder is then made strictly
- * rising by lowering the lower level (it escalates earlier, never later).
+ * Each level's equivalent trigger gust (m/s) as the levels say, before any ordering: a fraction f
+ * of the effective capacity is reached at v_lim,eff · √f (design §2.3: every utilization is
+ * proportional to q, and with a rating the capacity is the lower of the two); a gust trigger is
+ * taken as is. `limitGustMps` is the effective limit over the directions assessed.
  */
-export function triggerLadderMps(model: StructureModel, airDensityKgM3: number): number[] {
-  const ladder = rawTriggerGustsMps(model, airDensityKgM3).map((g) => (Number.isFinite(g) ? g : 120));
+export function rawTriggerGustsMps(levels: readonly LevelDefinition[], limitGustMps: number): number[] {
+  return levels.map((level) => (level.trigger.kind === 'gust' ? level.trigger.gustMps : limitGustMps * Math.sqrt(level.trigger.fraction)));
+}
+
+/**
+ * The ladder the level state machine runs on. A gust trigger at or above the effective limit is
+ * refused on save; if the limit later falls below it (colder, denser air), it is lowered to the
+ * limit, so no level comes after the structure has passed its limit. The ladder is then made
+ * strictly rising by lowering the lower level (it escalates earlier, never later).
+ */
+export function triggerLadderMps(levels: readonly LevelDefinition[], limitGustMps: number): number[] {
+  const limit = Number.isFinite(limitGustMps) ? Math.min(limitGustMps, 120) : 120;
+  const ladder = rawTriggerGustsMps(levels, limit).map((g) => (Number.isFinite(g) ? Math.min(g, limit) : limit));
   for (let i = ladder.length - 2; i >= 0; i--) {
     if (ladder[i]! >= ladder[i + 1]!) ladder[i] = ladder[i + 1]! * 0.999;
   }
   return ladder.map((g) => Math.max(g, 0.01));
 }
 
-/** Each level's equivalent trigger gust as the levels say, before any ordering (m/s). */
-export function rawTriggerGustsMps(model: Pick<StructureModel, 'levels' | 'expanded' | 'ratedGustMps'>, airDensityKgM3: number): number[] {
-  return model.levels.map((level) => {
-    if (level.trigger.kind === 'gust') return level.trigger.gustMps;
-    const fraction = level.trigger.fraction;
-    const exact = gustForUtilizationMps(model.expanded, fraction, airDensityKgM3);
-    return model.ratedGustMps === null ? exact : Math.min(exact, model.ratedGustMps * Math.sqrt(fraction));
-  });
-}
-
-export function densityDependent(model: StructureModel, airDensityKgM3: number): DensityDependent {
+/** Limits and ladder at this density, over every direction or within a sector of them. */
+export function densityDependent(model: StructureModel, airDensityKgM3: number, sector: AssessedDirections = null): DensityDependent {
+  const limitGustMps = effectiveLimitMps(model.coefficients, airDensityKgM3, sector);
   return {
     airDensityKgM3,
-    calculatedLimitGustMps: calculatedLimitGust(model.expanded, airDensityKgM3).gustMps,
-    limitGustMps: effectiveLimitGustMps(model.expanded, airDensityKgM3),
-    triggerGustsMps: triggerLadderMps(model, airDensityKgM3),
+    calculatedLimitGustMps: calculatedLimitGustMps(model.coefficients, airDensityKgM3, sector),
+    limitGustMps,
+    triggerGustsMps: triggerLadderMps(model.levels, limitGustMps),
   };
+}
+
+/**
+ * Problems of a level list for a structure, to refuse on save (design §2.6 v2): levels out of
+ * order once every trigger is a gust, a gust trigger at or above the effective limit, a fraction
+ * above 1 (either would let the structure pass its limit before the level rises).
+ */
+export function levelProblems(levels: readonly LevelDefinition[], limitGustMps: number): Array<{ index: number; field: 'fraction' | 'gustMps'; message: string }> {
+  const problems: Array<{ index: number; field: 'fraction' | 'gustMps'; message: string }> = [];
+  const gusts = rawTriggerGustsMps(levels, limitGustMps);
+  let highest = 0;
+  levels.forEach((level, index) => {
+    const gust = gusts[index]!;
+    const field = level.trigger.kind === 'gust' ? 'gustMps' : 'fraction';
+    if (level.trigger.kind === 'gust' && Number.isFinite(limitGustMps) && level.trigger.gustMps >= limitGustMps) {
+      problems.push({
+        index,
+        field,
+        message: `level ${index + 1} (${level.label}): a trigger gust of ${level.trigger.gustMps} m/s is at or above this structure's limit of ${limitGustMps.toFixed(1)} m/s, so the structure would pass its limit before the level rises; use a lower gust or a fraction of capacity`,
+      });
+    } else if (level.trigger.kind === 'utilization' && level.trigger.fraction > 1) {
+      problems.push({
+        index,
+        field,
+        message: `level ${index + 1} (${level.label}): ${Math.round(level.trigger.fraction * 100)} % of capacity is beyond the structure's limit; use at most 100 %`,
+      });
+    } else if (!(gust > highest)) {
+      problems.push({
+        index,
+        field,
+        message: `level ${index + 1} (${level.label}) triggers at ${gust.toFixed(1)} m/s for this structure, not above level ${index} (${highest.toFixed(1)} m/s): levels must rise in order`,
+      });
+    }
+    if (gust > highest) highest = gust;
+  });
+  return problems;
 }

@@ -15,17 +15,27 @@
  * once per reading; each structure then costs two multiplications and a comparison, and none
  * at all when neither maximum moved. Structures with their own sensor list, or a site with
  * directional assessment, take the direct loop over their sensors.
+ *
+ * Loads are never computed here: every figure comes from the engine's per-structure coefficients
+ * (engine/stability.ts), the same ones the calculator reports. Without directional assessment
+ * every direction around the structure counts; with it, the directions within the site's sector
+ * of the governing sensor's 10-minute mean direction (design §2.2 v2). The speed is never reduced
+ * by the cosine of an angle.
  */
 import {
   airDensity,
   beaufortForce,
   dynamicPressurePa,
+  effectiveUtilization,
+  governingCase,
+  governingWords,
   gustHeightFactor,
   highestTravelSpeedMps,
-  horizontalShare,
+  defaultSafetyFactors,
   isaAirDensityKgM3,
-  sideStability,
-  windOnStructure,
+  isaSeaLevelDensityKgM3,
+  utilizationAtPa,
+  type AssessedDirections,
   type TerrainCategory,
 } from '../engine/index.ts';
 import {
@@ -67,7 +77,12 @@ export interface SiteSettings {
   deadBandFraction: number;
   holdTimeMs: number;
   defaultLevels: readonly LevelDefinition[];
+  /** Half-width of the sector of directions assessed around the mean direction, degrees (default 45). */
+  directionSectorHalfWidthDeg?: number;
 }
+
+/** Default half-width of the directional sector (design §2.2 v2: ±45°). */
+export const defaultDirectionSectorHalfWidthDeg = 45;
 
 interface SensorLive {
   sensor: RegisteredSensor;
@@ -75,6 +90,8 @@ interface SensorLive {
   /** The 3-s gust at the newest live reading, m/s; null before the first. */
   gustMps: number | null;
   dirDeg: number | null;
+  /** 10-minute vector-mean direction, refreshed once a second with the health check. */
+  meanDirDeg: number | null;
   lastLiveAtMs: number | null;
   /** √(q_p(z)/q_p(10 m)) at the sensor's height. */
   profileRatio: number;
@@ -94,6 +111,9 @@ interface StructureLive {
   governingSensorKey: string | null;
   /** The wind direction of the governing sensor (for directional assessment and display). */
   windFromDeg: number | null;
+  /** Limits and ladder within the current directional sector; null = every direction (`density`). */
+  sectorDensity: DensityDependent | null;
+  sectorKey: string | null;
   evaluatedAtMs: number | null;
   minuteMs: number;
   minuteMaxGustMps: number;
@@ -108,7 +128,25 @@ interface StructureLive {
 /** The part of a structure's state that changes with the wind: the once-a-second `structures` event. */
 export type StructureUpdate = Pick<
   StructureState,
-  'id' | 'level' | 'levelLabel' | 'levelSinceMs' | 'noData' | 'gustMps' | 'governingSensorKey' | 'windFromDeg' | 'utilization' | 'governing' | 'side' | 'margin' | 'unbounded' | 'evaluatedAtMs'
+  | 'id'
+  | 'level'
+  | 'levelLabel'
+  | 'levelSinceMs'
+  | 'noData'
+  | 'gustMps'
+  | 'governingSensorKey'
+  | 'windFromDeg'
+  | 'utilization'
+  | 'calculatedUtilization'
+  | 'governing'
+  | 'governingDirectionDeg'
+  | 'governingElement'
+  | 'governingText'
+  | 'margin'
+  | 'unbounded'
+  | 'limitGustMps'
+  | 'triggerGustsMps'
+  | 'evaluatedAtMs'
 >;
 
 export interface OpenAlert {
@@ -142,19 +180,33 @@ export interface StructureState {
   gustMps: number | null;
   governingSensorKey: string | null;
   windFromDeg: number | null;
+  /** Effective utilization: max(governing U, (gust / rated gust)²) (design §2.3); null when unknown or unbounded. */
   utilization: number | null;
+  /** The calculated governing utilization (without the rating); null when unknown or unbounded. */
+  calculatedUtilization: number | null;
+  /** The criterion of the governing case. */
   governing: string | null;
-  side: string | null;
-  /** 1 − governing utilization; null when unknown. */
+  /** θ of the governing case relative to the front, degrees; null when unknown. */
+  governingDirectionDeg: number | null;
+  /** The part that governs: null for the whole body, else the element's name. */
+  governingElement: string | null;
+  /** What governs, in words ("wind from the W onto the west end: sliding"). */
+  governingText: string | null;
+  /** 1 − effective utilization; null when unknown. */
   margin: number | null;
   unbounded: boolean;
+  /** The effective limit over the directions now assessed (the sector, with directional assessment), m/s. */
   limitGustMps: number;
+  /** The effective limit over every direction, m/s. */
+  allDirectionsLimitGustMps: number;
   calculatedLimitGustMps: number;
   ratedGustMps: number | null;
   airDensityKgM3: number;
   referenceHeightM: number;
   triggerGustsMps: number[];
   levels: Array<{ level: number; label: string; actionText: string; triggerGustMps: number; trigger: LevelDefinition['trigger'] }>;
+  /** What the engine could not check for this record (e.g. a strip record's ends). */
+  warnings: string[];
   evaluatedAtMs: number | null;
   error: string | null;
   mobile: boolean;
@@ -225,7 +277,7 @@ export class Watch implements ReadingConsumer {
   private allSensorStructures: StructureLive[] = [];
   private structuresBySensorKey = new Map<string, StructureLive[]>();
   private readonly alerts = new Map<number, OpenAlert>();
-  private airDensityKgM3 = 1.225;
+  private airDensityKgM3 = isaSeaLevelDensityKgM3;
   private airDensityBasis: 'isa' | 'measured' | 'fixed' = 'isa';
   /** Site-wide maxima of the decomposition above; recomputed per live reading. */
   private maxGustMps = -1;
@@ -266,6 +318,7 @@ export class Watch implements ReadingConsumer {
         wind: keepWind ? old.wind : createSensorWindState({ sensorKey: sensor.key, silenceTimeoutMs: sensor.silenceTimeoutMs }),
         gustMps: keepWind ? old.gustMps : null,
         dirDeg: keepWind ? old.dirDeg : null,
+        meanDirDeg: keepWind ? old.meanDirDeg : null,
         lastLiveAtMs: keepWind ? old.lastLiveAtMs : null,
         profileRatio: this.profileRatio(sensor.heightM),
         lastAnnouncedAtMs: old?.lastAnnouncedAtMs ?? 0,
@@ -294,6 +347,8 @@ export class Watch implements ReadingConsumer {
           gustMps: old?.gustMps ?? null,
           governingSensorKey: old?.governingSensorKey ?? null,
           windFromDeg: old?.windFromDeg ?? null,
+          sectorDensity: null,
+          sectorKey: null,
           evaluatedAtMs: old?.evaluatedAtMs ?? null,
           minuteMs: old?.minuteMs ?? 0,
           minuteMaxGustMps: old?.minuteMaxGustMps ?? 0,
@@ -480,7 +535,7 @@ export class Watch implements ReadingConsumer {
       const fromProfile = s.profileRatio * this.maxGustPerRatio;
       const useProfile = this.site.heightReductionEnabled || fromProfile > fromMax;
       const key = useProfile ? this.maxRatioSensorKey! : this.maxSensorKey!;
-      return { gustMps: useProfile ? fromProfile : fromMax, sensorKey: key, dirDeg: this.sensorsByKey.get(key)?.dirDeg ?? null };
+      return { gustMps: useProfile ? fromProfile : fromMax, sensorKey: key, dirDeg: this.sensorsByKey.get(key)?.meanDirDeg ?? null };
     }
     let best: { gustMps: number; sensorKey: string; dirDeg: number | null } | null = null;
     let bestLoad = -1;
@@ -489,41 +544,64 @@ export class Watch implements ReadingConsumer {
       if (!this.sensorUsable(sensor, nowMs)) continue;
       const gust = sensor.gustMps! * this.heightFactor(sensor, s);
       // With direction, the sensor whose wind loads the structure most governs, not the fastest.
-      const load = this.site.directionalEnabled ? this.governingUtilization(s, gust, sensor.dirDeg) : gust;
+      const load = this.site.directionalEnabled ? this.effective(s, gust, sensor.meanDirDeg) : gust;
       if (load > bestLoad) {
         bestLoad = load;
-        best = { gustMps: gust, sensorKey: sensor.sensor.key, dirDeg: sensor.dirDeg };
+        best = { gustMps: gust, sensorKey: sensor.sensor.key, dirDeg: sensor.meanDirDeg };
       }
     }
     return best;
   }
 
-  private governingUtilization(s: StructureLive, gustMps: number, windFromDeg: number | null): number {
-    return this.assess(s, gustMps, windFromDeg).utilization;
+  /** The directions assessed for this structure now: the sector around the mean direction, or all. */
+  private sector(s: StructureLive, windFromDeg: number | null): AssessedDirections {
+    if (!this.site.directionalEnabled || windFromDeg === null) return null;
+    const halfWidthDeg = this.site.directionSectorHalfWidthDeg ?? defaultDirectionSectorHalfWidthDeg;
+    if (halfWidthDeg >= 180) return null;
+    return { centreDeg: windFromDeg - s.model.orientationDeg, halfWidthDeg };
   }
 
-  /** Utilization of the worse wind case at this gust (and direction, when the site uses it). */
-  private assess(s: StructureLive, gustMps: number, windFromDeg: number | null): { utilization: number; governing: string; side: string } {
-    const qPa = dynamicPressurePa(Math.min(gustMps, 120), this.airDensityKgM3);
-    const cases = windOnStructure({ gustMps: Math.min(gustMps, 120), windFromDeg, orientationDeg: s.model.orientationDeg, directional: this.site.directionalEnabled });
-    let worst = { utilization: -1, governing: 'overturning', side: 'front' };
-    for (const c of cases) {
-      const r = sideStability(s.model.coefficients, c.side, qPa, horizontalShare(c));
-      if (r.utilization.governing > worst.utilization) worst = { utilization: r.utilization.governing, governing: r.governing, side: c.side };
-    }
-    return worst;
+  /** Effective utilization at this gust over the directions assessed (Infinity when unbounded). */
+  private effective(s: StructureLive, gustMps: number, windFromDeg: number | null): number {
+    return effectiveUtilization(s.model.coefficients, Math.min(gustMps, 120), this.airDensityKgM3, this.sector(s, windFromDeg));
+  }
+
+  /** The governing case at this gust: effective and calculated utilization, criterion, direction, part, words. */
+  private assess(s: StructureLive, gustMps: number, windFromDeg: number | null) {
+    const sector = this.sector(s, windFromDeg);
+    const gust = Math.min(gustMps, 120);
+    const worst = governingCase(s.model.coefficients, sector);
+    const calculated = utilizationAtPa(worst.direction.utilizationPerPa.governing, dynamicPressurePa(gust, this.airDensityKgM3));
+    return {
+      utilization: effectiveUtilization(s.model.coefficients, gust, this.airDensityKgM3, sector),
+      calculatedUtilization: calculated,
+      governing: worst.direction.governing,
+      directionDeg: worst.direction.directionDeg,
+      element: worst.part.element,
+      text: governingWords({
+        element: worst.part.element,
+        directionDeg: worst.direction.directionDeg,
+        criterion: worst.direction.governing,
+        tippingEdge: worst.direction.tippingEdge,
+        frontAzimuthDeg: s.model.orientationDeg,
+        strip: s.model.coefficients.body.strip,
+      }),
+    };
   }
 
   /**
-   * The gust compared with the level ladder. The ladder is in gust straight onto the worse side;
-   * with directional assessment a wind at an angle Δ loads the faces with v·|cos Δ| only, so the
-   * comparable gust is v·|cos Δ| (conservative: the ladder belongs to the worse side). Roof
-   * uplift does not drop when the wind turns, so a structure with uplift keeps the full gust.
+   * The limits and ladder the level machine runs on now: over every direction, or with
+   * directional assessment over the sector around the mean direction (cached per whole degree).
    */
-  private ladderGust(s: StructureLive, gustMps: number, windFromDeg: number | null): number {
-    if (!this.site.directionalEnabled || windFromDeg === null || s.model.coefficients.upliftAreaM2 > 0) return gustMps;
-    const [windCase] = windOnStructure({ gustMps, windFromDeg, orientationDeg: s.model.orientationDeg, directional: true });
-    return windCase!.normalGustMps;
+  private currentDensity(s: StructureLive, windFromDeg: number | null): DensityDependent {
+    const sector = this.sector(s, windFromDeg);
+    if (sector === null) return s.density;
+    const key = `${Math.round(sector.centreDeg)}|${sector.halfWidthDeg}|${this.airDensityKgM3}`;
+    if (s.sectorKey !== key || s.sectorDensity === null) {
+      s.sectorKey = key;
+      s.sectorDensity = densityDependent(s.model, this.airDensityKgM3, { centreDeg: Math.round(sector.centreDeg), halfWidthDeg: sector.halfWidthDeg });
+    }
+    return s.sectorDensity;
   }
 
   private evaluate(s: StructureLive, nowMs: number, batch: WriteBatch, announcements: Array<() => void>): void {
@@ -538,11 +616,11 @@ export class Watch implements ReadingConsumer {
       s.governingSensorKey = null;
     } else {
       const gustMps = Math.min(governing.gustMps, 120);
-      const comparable = this.ladderGust(s, gustMps, governing.dirDeg);
+      const ladder = this.currentDensity(s, governing.dirDeg).triggerGustsMps;
       // Calm, with data, below the first trigger: the state machine would change nothing.
-      const calm = s.level.level === 0 && !s.level.noData && comparable < s.density.triggerGustsMps[0]!;
+      const calm = s.level.level === 0 && !s.level.noData && gustMps < ladder[0]!;
       if (calm) events = noLevelEvents;
-      else ({ state: s.level, events } = stepLevel(s.level, { nowMs, gustMps: comparable, triggerGustsMps: s.density.triggerGustsMps }, this.params));
+      else ({ state: s.level, events } = stepLevel(s.level, { nowMs, gustMps, triggerGustsMps: ladder }, this.params));
       s.gustMps = gustMps;
       s.governingSensorKey = governing.sensorKey;
       s.windFromDeg = governing.dirDeg;
@@ -681,6 +759,7 @@ export class Watch implements ReadingConsumer {
 
   private checkSensorHealth(live: SensorLive, nowMs: number, batch: WriteBatch, announcements: Array<() => void>): void {
     const snap = windSnapshot(live.wind, nowMs);
+    live.meanDirDeg = snap.meanDirDeg;
     if (live.silentAlertId !== null) {
       const alert = this.alerts.get(live.silentAlertId);
       if (alert) this.clear(alert, nowMs, batch, announcements);
@@ -799,7 +878,10 @@ export class Watch implements ReadingConsumer {
 
   private refreshDensity(): void {
     for (const s of this.structures.values()) {
-      if (s.error === null) s.density = densityDependent(s.model, this.airDensityKgM3);
+      if (s.error === null) {
+        s.density = densityDependent(s.model, this.airDensityKgM3);
+        s.sectorDensity = null;
+      }
     }
   }
 
@@ -827,15 +909,29 @@ export class Watch implements ReadingConsumer {
   structureState(s: StructureLive): StructureState {
     const m = s.model;
     let utilization: number | null = null;
+    let calculatedUtilization: number | null = null;
     let governing: string | null = null;
-    let side: string | null = null;
+    let governingDirectionDeg: number | null = null;
+    let governingElement: string | null = null;
+    let governingText: string | null = null;
     if (s.gustMps !== null && !s.level.noData && s.error === null) {
       const a = this.assess(s, s.gustMps, s.windFromDeg);
       utilization = a.utilization;
+      calculatedUtilization = Number.isFinite(a.calculatedUtilization) ? a.calculatedUtilization : null;
       governing = a.governing;
-      side = a.side;
+      governingDirectionDeg = a.directionDeg;
+      governingElement = a.element;
+      governingText = a.text;
+    } else if (s.error === null && s.model.levels.length > 0) {
+      // No wind to judge by: what governs over every direction, so the card can still say it.
+      const a = this.assess(s, 0, null);
+      governing = a.governing;
+      governingDirectionDeg = a.directionDeg;
+      governingElement = a.element;
+      governingText = a.text;
     }
     const unbounded = utilization !== null && !Number.isFinite(utilization);
+    const current = s.error === null ? this.currentDensity(s, s.windFromDeg) : s.density;
     return {
       id: m.id,
       name: m.name,
@@ -848,17 +944,22 @@ export class Watch implements ReadingConsumer {
       governingSensorKey: s.level.noData ? null : s.governingSensorKey,
       windFromDeg: s.windFromDeg,
       utilization: unbounded ? null : utilization,
+      calculatedUtilization,
       governing,
-      side,
+      governingDirectionDeg,
+      governingElement,
+      governingText,
       margin: utilization === null || unbounded ? null : 1 - utilization,
       unbounded,
-      limitGustMps: s.density.limitGustMps,
+      limitGustMps: current.limitGustMps,
+      allDirectionsLimitGustMps: s.density.limitGustMps,
       calculatedLimitGustMps: s.density.calculatedLimitGustMps,
       ratedGustMps: m.ratedGustMps,
       airDensityKgM3: s.density.airDensityKgM3,
       referenceHeightM: m.referenceHeightM,
-      triggerGustsMps: s.density.triggerGustsMps,
-      levels: m.levels.map((l, i) => ({ level: i + 1, label: l.label, actionText: l.actionText, triggerGustMps: s.density.triggerGustsMps[i]!, trigger: l.trigger })),
+      triggerGustsMps: current.triggerGustsMps,
+      levels: m.levels.map((l, i) => ({ level: i + 1, label: l.label, actionText: l.actionText, triggerGustMps: current.triggerGustsMps[i]!, trigger: l.trigger })),
+      warnings: [...m.warnings],
       evaluatedAtMs: s.evaluatedAtMs,
       error: s.error,
       mobile: m.mobile,
@@ -871,8 +972,28 @@ export class Watch implements ReadingConsumer {
   }
 
   structureUpdate(s: StructureLive): StructureUpdate {
-    const { id, level, levelLabel, levelSinceMs, noData, gustMps, governingSensorKey, windFromDeg, utilization, governing, side, margin, unbounded, evaluatedAtMs } = this.structureState(s);
-    return { id, level, levelLabel, levelSinceMs, noData, gustMps, governingSensorKey, windFromDeg, utilization, governing, side, margin, unbounded, evaluatedAtMs };
+    const state = this.structureState(s);
+    return {
+      id: state.id,
+      level: state.level,
+      levelLabel: state.levelLabel,
+      levelSinceMs: state.levelSinceMs,
+      noData: state.noData,
+      gustMps: state.gustMps,
+      governingSensorKey: state.governingSensorKey,
+      windFromDeg: state.windFromDeg,
+      utilization: state.utilization,
+      calculatedUtilization: state.calculatedUtilization,
+      governing: state.governing,
+      governingDirectionDeg: state.governingDirectionDeg,
+      governingElement: state.governingElement,
+      governingText: state.governingText,
+      margin: state.margin,
+      unbounded: state.unbounded,
+      limitGustMps: state.limitGustMps,
+      triggerGustsMps: state.triggerGustsMps,
+      evaluatedAtMs: state.evaluatedAtMs,
+    };
   }
 
   sensorState(s: SensorLive, nowMs: number): SensorState {
@@ -972,18 +1093,22 @@ function brokenStructure(row: StructureRow, err: unknown, nowMs: number, old: St
       orientationDeg: row.orientationDeg,
       mobile: row.mobile,
       sensorKeys: null,
-      expanded: { baseDepthM: 1, frictionCoefficient: 0.3, faces: [], masses: [], safetyFactors: { overturning: 1.5, sliding: 2, uplift: 1.5 } },
-      coefficients: { front: { forceAreaM2: 0, momentVolumeM3: 0, weightMomentNm: 0 }, back: { forceAreaM2: 0, momentVolumeM3: 0, weightMomentNm: 0 }, upliftAreaM2: 0, weightN: 0, baseDepthM: 1, frictionCoefficient: 0.3, safetyFactors: { overturning: 1.5, sliding: 2, uplift: 1.5 } },
+      expanded: { baseDepthM: 1, frictionCoefficient: 0.3, faces: [], masses: [], safetyFactors: { ...defaultSafetyFactors } },
+      // Never assessed: a broken structure shows its error and counts as no data.
+      coefficients: { body: { element: null, strip: true, weightN: 0, frictionCoefficient: 0.3, safetyFactors: { ...defaultSafetyFactors }, baseDepthM: 1, baseWidthM: null, directions: [] }, elements: [], ratedGustMps: null },
       referenceHeightM: 1,
       levels: [],
       ratedGustMps: null,
+      warnings: [],
     },
-    density: { airDensityKgM3: 1.225, calculatedLimitGustMps: 0, limitGustMps: 0, triggerGustsMps: [] },
+    density: { airDensityKgM3: isaSeaLevelDensityKgM3, calculatedLimitGustMps: 0, limitGustMps: 0, triggerGustsMps: [] },
     profileRatio: 1,
     level: old?.level ?? { ...initialLevelState(nowMs) },
     gustMps: null,
     governingSensorKey: null,
     windFromDeg: null,
+    sectorDensity: null,
+    sectorKey: null,
     evaluatedAtMs: null,
     minuteMs: 0,
     minuteMaxGustMps: 0,

@@ -45,6 +45,8 @@ export interface Expansion {
   sources: SourceNote[];
   /** Assumptions of the template, in words. */
   notes: string[];
+  /** Sentences the answer must carry: what was not checked or was assumed against safety's side. */
+  warnings?: string[];
 }
 
 /** Friction, safety factors and rated gust of a record, with their sources. */

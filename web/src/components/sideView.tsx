@@ -66,7 +66,7 @@ export function SideView({ answer, record }: { answer: AssessAnswer; record: Rec
   const extents = faceExtents(record, ex.faces);
   const topM = Math.max(0.5, ...extents.map((e) => e[1]), ...ex.faces.map((f) => f.centroidHeightM));
   // Wind onto the front comes from the left and tips the structure about the back (right) edge.
-  const windFromLeft = answer.side !== 'back';
+  const windFromLeft = Math.cos((answer.governingDirectionDeg * Math.PI) / 180) >= 0;
   const spanM = Math.max(depth, topM * 0.9);
   // Drawing space in SVG units: a strip on top for the wind, the structure below, labels left.
   const W = 480;

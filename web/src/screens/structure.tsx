@@ -130,7 +130,7 @@ export function StructurePage({ id }: { id: number }) {
           <LevelBadge level={s.level} label={s.levelLabel} count={s.levels.length} noData={s.noData} big />
           <StructureFigures s={s} unit={unit} detailed />
           <p class="muted">
-            {s.governing ? `Governed by ${s.governing}${s.side ? `, wind onto the ${s.side}` : ''}. ` : ''}
+            {s.governingText ? `Governs: ${s.governingText}. ` : ''}
             Calculated limit {speed(s.calculatedLimitGustMps, unit)}
             {s.ratedGustMps !== null ? `, rated ${speed(s.ratedGustMps, unit)}` : ', no rated gust given'}; gust taken at {quantity(s.referenceHeightM, 'm')}; air {quantity(s.airDensityKgM3, 'kg/m³', 3)}.
             {s.evaluatedAtMs !== null ? ` Last assessed ${duration(serverNow() - s.evaluatedAtMs)} ago.` : ' Not assessed yet.'}

@@ -402,7 +402,7 @@ function Results({ answer, hasIssues, unit }: { answer: AssessAnswer | null; has
         <span class="small">
           {answer.limitGovernedBy === 'rated'
             ? `the rated gust governs (calculated ${speed(answer.calculatedLimitGustMps, unit)})`
-            : `calculated: ${answer.calculatedLimit.criterion}, wind onto the ${answer.calculatedLimit.side}`}
+            : `calculated: ${answer.governingText}`}
         </span>
       </div>
       <table class="kv">
@@ -443,7 +443,7 @@ function Results({ answer, hasIssues, unit }: { answer: AssessAnswer | null; has
           <tr class="strong-row">
             <th scope="row">Governing</th>
             <td>
-              {answer.governing}, wind onto the {answer.side}: {util(u.governing, answer.unbounded.governing)}
+              {answer.governingText}: {util(u.governing, answer.unbounded.governing)}
             </td>
           </tr>
           <tr>
