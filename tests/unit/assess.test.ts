@@ -85,12 +85,13 @@ describe('POST /api/assess', () => {
   });
 
   it('carries an unbounded utilization as null with its flag (JSON has no Infinity)', async () => {
-    // 1 m² of wall, a 40 m² canopy with lift 1.0 and only 100 kg: at 15 m/s uplift 5.5 kN lifts it.
+    // 1 m² of wall and its only 100 kg standing on the front edge: wind onto the back tips it about
+    // that edge with no restoring moment at all.
     const structure = {
       kind: 'custom', name: 'Light gazebo', baseDepthM: 3, frictionCoefficient: 0.3,
       faces: [{ areaM2: 1, centroidHeightM: 1, cfFront: 1, cfBack: 1 }],
       uplift: { planAreaM2: 40, liftCoefficient: 1 },
-      masses: [{ massKg: 100, xM: 1.5 }],
+      masses: [{ massKg: 100, xM: 0 }],
     };
     const { status, json } = await post({ structure, gustMps: 15 });
     expect(status).toBe(200);

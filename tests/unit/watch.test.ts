@@ -124,16 +124,27 @@ describe('the gust a structure takes', () => {
     }
   });
 
-  it('with directional assessment, a wind along the board’s face loads it far less than one onto it', () => {
+  it('with directional assessment a wind 85° off the board’s normal still loads it fully: the ±45° sector holds directions within 60° of it (issue 11 item 1; design §2.2 v2)', () => {
     const structures = [board(1, 'North-facing board', 4, ['mast-10m'], 0)];
     const onto = setup(site({ directionalEnabled: true }), structures);
     const along = setup(site({ directionalEnabled: true }), structures);
     const limit = onto.state(1).limitGustMps;
     onto.feed('mast-10m', limit * 0.95, 0); // from the north, onto the front
-    along.feed('mast-10m', limit * 0.95, 85); // from 85°: the normal component is v·cos 85°
+    along.feed('mast-10m', limit * 0.95, 85); // the first release took v·cos 85° here
     expect(onto.state(1).level).toBe(2);
+    expect(along.state(1).level).toBe(2);
+    expect(along.state(1).utilization!).toBeCloseTo(onto.state(1).utilization!, 9);
+  });
+
+  it('with a ±15° sector, wind square along the board takes its worst direction 75° off the normal: ψ = 2 cos 75° of the load (design §2.3)', () => {
+    const structures = [board(1, 'North-facing board', 4, ['mast-10m'], 0)];
+    const onto = setup(site({ directionalEnabled: true, directionSectorHalfWidthDeg: 15 }), structures);
+    const along = setup(site({ directionalEnabled: true, directionSectorHalfWidthDeg: 15 }), structures);
+    const limit = onto.state(1).allDirectionsLimitGustMps;
+    onto.feed('mast-10m', limit * 0.95, 0);
+    along.feed('mast-10m', limit * 0.95, 90);
+    expect(along.state(1).utilization!).toBeCloseTo(onto.state(1).utilization! * 2 * Math.cos((75 * Math.PI) / 180), 6);
     expect(along.state(1).level).toBe(0);
-    expect(along.state(1).utilization!).toBeCloseTo(onto.state(1).utilization! * Math.cos((85 * Math.PI) / 180) ** 2, 6);
   });
 
   it('never takes a late reading (from a gateway’s buffer) as live wind', () => {

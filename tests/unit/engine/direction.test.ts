@@ -1,38 +1,56 @@
 import { describe, expect, it } from 'vitest';
-import { angleBetweenDeg, highestTravelSpeedMps, horizontalShare, relativeWindMps, windOnStructure } from '../../../server/engine/index.ts';
+import {
+  angleBetweenDeg,
+  assessedDirectionsDeg,
+  faceIncidence,
+  faceNormal,
+  highestTravelSpeedMps,
+  inSector,
+  obliqueShare,
+  relativeWindMps,
+  travelDirection,
+  wrappedDeg,
+} from '../../../server/engine/index.ts';
 
-describe('wind on a structure by direction (design §2.2)', () => {
-  it('a wind from within 90° of the orientation blows onto the front, with the normal component v·|cos Δ|', () => {
-    const [windCase, ...rest] = windOnStructure({ gustMps: 20, windFromDeg: 30, orientationDeg: 0, directional: true });
-    expect(rest).toHaveLength(0);
-    expect(windCase).toMatchObject({ side: 'front', gustMps: 20 });
-    expect(windCase!.normalGustMps).toBeCloseTo(20 * Math.cos(Math.PI / 6), 12);
+describe('the structure frame and face incidence (design §2.3 v2)', () => {
+  it('ψ(δ) = min(1, 2 cos δ): full within 60° of the normal, 2 cos 75° = 0.5176 at 75°, nothing edge-on (Hoerner ch. 3, from memory)', () => {
+    expect(obliqueShare(0)).toBe(1);
+    expect(obliqueShare(60)).toBe(1);
+    expect(obliqueShare(75)).toBeCloseTo(0.517638, 6);
+    expect(obliqueShare(90)).toBe(0);
   });
 
-  it('measures the angle across north: wind from 350° onto a front facing 10° is 20° off', () => {
+  it('the 0.25 face share at 60° of the first release is gone: a face 60° off its normal keeps its full force', () => {
+    // The first release loaded faces with (v cos Δ)²: cos² 60° = 0.25.
+    expect(faceIncidence(60, 0)).toEqual({ side: 'front', deltaDeg: 60, share: 1 });
+  });
+
+  it('wind onto the back side of a face is 180° − |Δ| from that side’s normal, measured across north', () => {
+    expect(faceIncidence(150, 0)).toMatchObject({ side: 'back', deltaDeg: 30, share: 1 });
+    expect(faceIncidence(350, 10).deltaDeg).toBeCloseTo(20, 12);
+    expect(faceIncidence(90, 0)).toMatchObject({ side: 'edge', share: 0 });
     expect(angleBetweenDeg(350, 10)).toBe(20);
-    const [windCase] = windOnStructure({ gustMps: 10, windFromDeg: 350, orientationDeg: 10, directional: true });
-    expect(windCase!.side).toBe('front');
-    expect(windCase!.normalGustMps).toBeCloseTo(10 * Math.cos((20 * Math.PI) / 180), 12);
   });
 
-  it('a wind from behind blows onto the back at full normal speed', () => {
-    const [windCase] = windOnStructure({ gustMps: 15, windFromDeg: 180, orientationDeg: 0, directional: true });
-    expect(windCase).toMatchObject({ side: 'back', normalGustMps: 15 });
+  it('frame: θ = 0 travels toward +x, θ = 90 toward −y; a face looking 90° has its outward normal along +y', () => {
+    expect(travelDirection(0).x).toBeCloseTo(1, 12);
+    expect(travelDirection(90).y).toBeCloseTo(-1, 12);
+    expect(faceNormal(0).x).toBeCloseTo(-1, 12);
+    expect(faceNormal(90).y).toBeCloseTo(1, 12);
   });
 
-  it('without directional assessment, or without a direction, both sides are assessed at full speed', () => {
-    const expected = [
-      { side: 'front', gustMps: 12, normalGustMps: 12 },
-      { side: 'back', gustMps: 12, normalGustMps: 12 },
-    ];
-    expect(windOnStructure({ gustMps: 12, windFromDeg: 45, orientationDeg: 0, directional: false })).toEqual(expected);
-    expect(windOnStructure({ gustMps: 12, windFromDeg: null, orientationDeg: 0, directional: true })).toEqual(expected);
+  it('wraps to (−180°, 180°] and takes a sector with its bounds', () => {
+    expect(wrappedDeg(190)).toBe(-170);
+    expect(wrappedDeg(-180)).toBe(180);
+    expect(inSector(350, { centreDeg: 20, halfWidthDeg: 30 })).toBe(true);
+    expect(inSector(60, { centreDeg: 20, halfWidthDeg: 30 })).toBe(false);
   });
 
-  it('the faces carry (v_n / v)² of the full-gust pressure', () => {
-    const [windCase] = windOnStructure({ gustMps: 20, windFromDeg: 60, orientationDeg: 0, directional: true });
-    expect(horizontalShare(windCase!)).toBeCloseTo(0.25, 12);
+  it('assesses every 15° plus each face normal, both ways', () => {
+    const directions = assessedDirectionsDeg([7]);
+    expect(directions).toHaveLength(26);
+    expect(directions).toContain(7);
+    expect(directions).toContain(187);
   });
 });
 

@@ -17,33 +17,67 @@ export function integerBetween(random: Random, min: number, max: number): number
 
 export interface GenerateOptions {
   uplift: boolean;
-  /** Same coefficient on both sides and every mass mirrored about the middle of the base. */
-  symmetric?: boolean;
+  /** Give the structure a base width (a rectangle); false: a strip (first-round record). */
+  rectangle?: boolean;
+  /** Add one or two elements on bases of their own. */
+  elements?: boolean;
 }
 
-/** A plausible temporary structure: 1–4 loaded faces (cf > 0), 1–5 masses on the base. */
-export function generatedStructure(random: Random, { uplift, symmetric = false }: GenerateOptions): ExpandedStructure {
+const facings = [0, 90, 180, 270, 10, 45, 200] as const;
+
+function faces(random: Random, count: number, anyFacing: boolean) {
+  return Array.from({ length: count }, () => ({
+    areaM2: between(random, 0.5, 40),
+    centroidHeightM: between(random, 0.3, 8),
+    cfFront: between(random, 0.3, 2),
+    cfBack: between(random, 0, 2),
+    ...(anyFacing ? { facingDeg: facings[integerBetween(random, 0, facings.length - 1)]! } : {}),
+  }));
+}
+
+/** A plausible temporary structure: 1–4 loaded faces, 1–5 masses on the base, optional uplift and elements. */
+export function generatedStructure(random: Random, { uplift, rectangle = true, elements = false }: GenerateOptions): ExpandedStructure {
   const baseDepthM = between(random, 0.5, 6);
-  const faces = Array.from({ length: integerBetween(random, 1, 4) }, () => {
-    const cfFront = between(random, 0.3, 2);
-    return {
-      areaM2: between(random, 0.5, 40),
-      centroidHeightM: between(random, 0.3, 8),
-      cfFront,
-      cfBack: symmetric ? cfFront : between(random, 0.3, 2),
-    };
-  });
+  const baseWidthM = between(random, 0.5, 12);
   const masses = Array.from({ length: integerBetween(random, 1, 5) }, () => ({
     massKg: between(random, 10, 3000),
     xM: between(random, 0, baseDepthM),
+    ...(rectangle ? { yM: between(random, 0, baseWidthM) } : {}),
   }));
-  const mirrored = symmetric ? masses.map((mass) => ({ ...mass, xM: baseDepthM - mass.xM })) : [];
-  return {
+  const safetyFactors = { overturning: between(random, 1, 2.5), sliding: between(random, 1, 2.5), uplift: between(random, 1, 2.5) };
+  const frictionCoefficient = between(random, 0.2, 0.8);
+  const structure: ExpandedStructure = {
     baseDepthM,
-    frictionCoefficient: between(random, 0.2, 0.8),
-    faces,
-    ...(uplift ? { uplift: { planAreaM2: between(random, 1, 60), liftCoefficient: between(random, 0.1, 1.2) } } : {}),
-    masses: [...masses, ...mirrored],
-    safetyFactors: { overturning: between(random, 1, 2.5), sliding: between(random, 1, 2.5), uplift: between(random, 1, 2.5) },
+    ...(rectangle ? { baseWidthM } : {}),
+    frictionCoefficient,
+    faces: faces(random, integerBetween(random, 1, 4), rectangle),
+    ...(uplift
+      ? {
+          uplift: {
+            planAreaM2: between(random, 1, 60),
+            liftCoefficient: between(random, 0.1, 1.2),
+            // A first-round (strip) record had its uplift at the middle of the base.
+            ...(rectangle ? { xM: between(random, 0, baseDepthM), yM: between(random, 0, baseWidthM) } : {}),
+          },
+        }
+      : {}),
+    masses,
+    safetyFactors,
   };
+  if (elements && rectangle) {
+    structure.elements = Array.from({ length: integerBetween(random, 1, 2) }, (_, index) => {
+      const depthM = between(random, 0.3, 2);
+      const widthM = between(random, 0.3, 2);
+      return {
+        name: `element ${index + 1}`,
+        baseDepthM: depthM,
+        baseWidthM: widthM,
+        frictionCoefficient,
+        faces: faces(random, 1, true),
+        masses: [{ massKg: between(random, 10, 500), xM: depthM / 2, yM: widthM / 2 }],
+        safetyFactors,
+      };
+    });
+  }
+  return structure;
 }
