@@ -25,6 +25,8 @@ export const sitesTable = sqliteTable('sites', {
   /** A height factor below 1 is applied only when this is on (design.md 2.2). */
   heightReductionEnabled: integer('height_reduction_enabled', { mode: 'boolean' }).notNull().default(false),
   directionalEnabled: integer('directional_enabled', { mode: 'boolean' }).notNull().default(false),
+  /** With directional assessment: the directions within ± this many degrees of the mean direction count (design.md 2.2 v2). */
+  directionSectorHalfWidthDeg: real('direction_sector_half_width_deg').notNull().default(45),
   deadBandFraction: real('dead_band_fraction').notNull().default(0.1),
   holdTimeMs: integer('hold_time_ms').notNull().default(15 * 60_000),
   /** The site's default level list (JSON, see server/levels). */

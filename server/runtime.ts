@@ -72,6 +72,7 @@ export function siteSettings(db: Db): SiteSettings {
     fixedAirDensityKgM3: site.fixedAirDensityKgM3,
     heightReductionEnabled: site.heightReductionEnabled,
     directionalEnabled: site.directionalEnabled,
+    directionSectorHalfWidthDeg: site.directionSectorHalfWidthDeg,
     deadBandFraction: site.deadBandFraction,
     holdTimeMs: site.holdTimeMs,
     defaultLevels: site.defaultLevelsJson as LevelDefinition[],

@@ -35,6 +35,8 @@ export const siteUpdateSchema = z
     fixedAirDensityKgM3: z.number().min(0.9).max(1.5).nullable(),
     heightReductionEnabled: z.boolean(),
     directionalEnabled: z.boolean(),
+    /** With directional assessment, the directions within ± this of the 10-minute mean direction are assessed (design §2.2 v2). */
+    directionSectorHalfWidthDeg: z.number().min(15, 'must be ≥ 15°: a narrower sector misses a gust that turns').max(180, 'must be ≤ 180° (180 = every direction)'),
     deadBandFraction: z.number().min(0).max(0.5),
     holdTimeMs: z.number().int().min(0).max(6 * 3600_000),
     defaultLevels: levelListSchema,

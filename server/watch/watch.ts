@@ -78,7 +78,7 @@ export interface SiteSettings {
   holdTimeMs: number;
   defaultLevels: readonly LevelDefinition[];
   /** Half-width of the sector of directions assessed around the mean direction, degrees (default 45). */
-  directionSectorHalfWidthDeg?: number;
+  directionSectorHalfWidthDeg?: number | undefined;
 }
 
 /** Default half-width of the directional sector (design §2.2 v2: ±45°). */

@@ -72,6 +72,7 @@ export interface SiteView {
   fixedAirDensityKgM3: number | null;
   heightReductionEnabled: boolean;
   directionalEnabled: boolean;
+  directionSectorHalfWidthDeg: number;
   deadBandFraction: number;
   holdTimeMs: number;
   defaultLevels: LevelDefinition[];

@@ -27,6 +27,7 @@ interface SiteDraft {
   fixedAirDensityKgM3: string;
   heightReductionEnabled: boolean;
   directionalEnabled: boolean;
+  sectorDeg: string;
   deadBandPct: string;
   holdMin: string;
   levels: LevelRowDraft[];
@@ -50,6 +51,7 @@ function toDraft(s: SiteView, unit: Parameters<typeof levelsToDraft>[1]): SiteDr
     fixedAirDensityKgM3: s.fixedAirDensityKgM3 === null ? '' : String(s.fixedAirDensityKgM3),
     heightReductionEnabled: s.heightReductionEnabled,
     directionalEnabled: s.directionalEnabled,
+    sectorDeg: String(s.directionSectorHalfWidthDeg ?? 45),
     deadBandPct: String(Math.round(s.deadBandFraction * 1000) / 10),
     holdMin: String(Math.round((s.holdTimeMs / 60_000) * 10) / 10),
     levels: levelsToDraft(s.defaultLevels, unit),
@@ -99,6 +101,7 @@ export function SiteSettings() {
       fixedAirDensityKgM3: d.fixedAirDensityKgM3.trim() === '' ? null : n(d.fixedAirDensityKgM3, 'fixedAirDensityKgM3'),
       heightReductionEnabled: d.heightReductionEnabled,
       directionalEnabled: d.directionalEnabled,
+      directionSectorHalfWidthDeg: n(d.sectorDeg, 'directionSectorHalfWidthDeg'),
       deadBandFraction: typeof dead === 'number' ? dead / 100 : dead,
       holdTimeMs: typeof hold === 'number' ? Math.round(hold * 60_000) : hold,
       defaultLevels: draftLevels(d.levels, unit, local),
@@ -184,7 +187,10 @@ export function SiteSettings() {
             <input type="checkbox" checked={d.directionalEnabled} onChange={(ev) => set({ directionalEnabled: ev.currentTarget.checked })} />
             Use wind direction
           </label>
-          <p class="help">Off (the safe default): every structure is assessed for wind straight onto each side, and the worse side governs. On: each face sees the wind’s normal component and its windward side’s coefficient (needs each structure’s orientation).</p>
+          <p class="help">Off (the safe default): every structure is assessed for wind from every direction around it, and the worst direction governs. On: only the directions within the sector below of the governing sensor’s 10-minute mean direction count, the worst of them governing (needs each structure’s orientation). The wind speed is never reduced for the angle: a gust turns faster than a crew can react.</p>
+          <Field id="st-sector" label="Direction sector, ±" unit="°" error={e('directionSectorHalfWidthDeg')} help="Used only with “Use wind direction”: directions within this many degrees either side of the mean direction are assessed (15–180°; default 45°; 180 = every direction).">
+            <input id="st-sector" inputMode="decimal" value={d.sectorDeg} disabled={!d.directionalEnabled} onInput={(ev) => set({ sectorDeg: ev.currentTarget.value })} />
+          </Field>
         </section>
         <section>
           <h2>Lowering levels</h2>

@@ -1,0 +1,1 @@
+ALTER TABLE `sites` ADD `direction_sector_half_width_deg` real DEFAULT 45 NOT NULL;
