@@ -39,6 +39,7 @@ export {
   crossTerrainMeanWindMps,
   exposureFactor,
   gustHeightFactor,
+  isBelowMinimumHeight,
   logLawSpeedMps,
   meanWindMps,
   peakVelocityPressurePa,
@@ -49,6 +50,8 @@ export {
   terrainFactor,
   terrainParameters,
   turbulenceIntensity,
+  unclampedExposureFactor,
+  unclampedProfileFloorRoughnessLengths,
   type TerrainCategory,
   type TerrainParameters,
 } from './windProfile.ts';

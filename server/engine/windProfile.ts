@@ -107,6 +107,34 @@ export function exposureFactor(heightM: number, category: TerrainCategory, orogr
   return (1 + 7 * turbulenceIntensity(heightM, category, orographyFactor)) * speedRatio * speedRatio;
 }
 
+/** Whether a height is below z_min of the terrain (EN 1991-1-4 §4.3.2, Table 4.1): the sensor form warns of such a mast. */
+export function isBelowMinimumHeight(heightM: number, category: TerrainCategory): boolean {
+  assertHeight('isBelowMinimumHeight', 'heightM', heightM);
+  return heightM < parametersOf('isBelowMinimumHeight', category).minimumHeightM;
+}
+
+/**
+ * The unclamped profile is evaluated no lower than this many roughness lengths above the ground:
+ * at z0 the log law gives no wind at all and below it a negative one, so nothing can be
+ * transferred from there. An assumption of ours (no source): it keeps the factor finite and large
+ * (5.9 from 1.1 m to 12 m in category IV), so such a mast reads high, never low.
+ */
+export const unclampedProfileFloorRoughnessLengths = 1.1;
+
+/**
+ * Exposure factor of the profile formulas evaluated at the true height, without the z_min clamp
+ * of EN 1991-1-4 §4.3.2: c_e(z) = [1 + 7 k_I / ln(z/z0)] (k_r ln(z/z0))² = k_r² (L² + 7L) with
+ * L = ln(z/z0) (expressions 4.4, 4.7, 4.9; c_0 = 1). Only for the anemometer side of a height
+ * transfer (design §2.2 v2); loads keep the clamp. Heights below 1.1 z0 are taken at 1.1 z0.
+ */
+export function unclampedExposureFactor(heightM: number, category: TerrainCategory): number {
+  assertHeight('unclampedExposureFactor', 'heightM', heightM);
+  const { roughnessLengthM } = parametersOf('unclampedExposureFactor', category);
+  const logRatio = Math.log(Math.max(heightM, unclampedProfileFloorRoughnessLengths * roughnessLengthM) / roughnessLengthM);
+  const speedRatio = terrainFactor(category) * logRatio;
+  return (1 + (7 * turbulenceFactor) / logRatio) * speedRatio * speedRatio;
+}
+
 export interface GustHeightTransfer {
   /** Height of the anemometer z_a, m. */
   fromHeightM: number;
@@ -124,11 +152,21 @@ export interface GustHeightTransfer {
  * Factor on a measured gust to get the gust at the structure: √(q_p(z_s)/q_p(z_a)), the peak
  * velocity pressure profile of EN 1991-1-4 4.8 (the ratio of exposure factors, so neither v_b nor
  * ρ enters). A factor above 1 is always applied; below 1 only when `allowReduction`.
+ *
+ * Below z_min (design §2.2 v2): the clamp of §4.3.2 is conservative for a load but not for the
+ * anemometer in the denominator — a mast below z_min is credited with the wind at z_min, which it
+ * does not see (2.5 m → 12 m over category IV: 1.05 clamped, 1.80 unclamped). So the factor is the
+ * larger of the clamped ratio and the unclamped one (`unclampedExposureFactor` at both heights):
+ *   f = max( √(c_e(z_s)/c_e(z_a)), √(c_e,u(z_s)/c_e,u(z_a)) ).
+ * Above z_min both are the same; a structure below z_min is never credited with less wind than
+ * the clamped profile gives it.
  */
 export function gustHeightFactor({ fromHeightM, toHeightM, terrainCategory, allowReduction }: GustHeightTransfer): number {
   assertHeight('gustHeightFactor', 'fromHeightM', fromHeightM);
   assertHeight('gustHeightFactor', 'toHeightM', toHeightM);
-  const ratio = Math.sqrt(exposureFactor(toHeightM, terrainCategory) / exposureFactor(fromHeightM, terrainCategory));
+  const clamped = Math.sqrt(exposureFactor(toHeightM, terrainCategory) / exposureFactor(fromHeightM, terrainCategory));
+  const unclamped = Math.sqrt(unclampedExposureFactor(toHeightM, terrainCategory) / unclampedExposureFactor(fromHeightM, terrainCategory));
+  const ratio = Math.max(clamped, unclamped);
   return allowReduction ? ratio : Math.max(1, ratio);
 }
 

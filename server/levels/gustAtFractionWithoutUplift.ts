@@ -3,8 +3,8 @@
  *
  * Without uplift every load (force, overturning moment) goes with q = ½ρv² while the resistance
  * is fixed, so utilization goes with v² and U = fraction at v = v_limit · √fraction (design §2.3,
- * §2.4). With uplift the resistance falls with v² too and this shortcut is wrong: the engine
- * solves that case exactly.
+ * §2.4). Since v2 factors uplift with the wind and takes self-weight alone as resistance, this
+ * holds with uplift too.
  */
 import { maxTriggerFraction } from './levelDefinition.ts';
 

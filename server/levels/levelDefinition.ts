@@ -10,9 +10,9 @@
  * this schema checks their order.
  *
  * Limits are our own: up to 8 levels (a crew cannot follow more stages), labels ≤ 60 characters
- * (they must fit a phone screen), action text ≤ 2000 characters. Fractions up to 1.5 allow a
- * level above the designed capacity for structures whose safety factors leave margin; gusts up
- * to 120 m/s match the plausible sensor range (design §3).
+ * (they must fit a phone screen), action text ≤ 2000 characters. Fractions go up to 1 (100 % of
+ * the effective capacity): a level above it would rise only after the structure has passed its
+ * limit (design §2.6 v2); gusts up to 120 m/s match the plausible sensor range (design §3).
  */
 import { z } from 'zod';
 
@@ -20,14 +20,14 @@ export const maxLevelCount = 8;
 export const maxLevelLabelLength = 60;
 export const maxActionTextLength = 2000;
 /** Upper bound of a utilization trigger (fraction of load capacity, dimensionless). */
-export const maxTriggerFraction = 1.5;
+export const maxTriggerFraction = 1;
 /** Upper bound of a gust trigger in m/s: the plausible range of a reading (design §3). */
 export const maxTriggerGustMps = 120;
 
 export const utilizationTriggerSchema = z.strictObject({
   kind: z.literal('utilization'),
   /** Governing utilization at which the level starts: 0.6 means 60 % of load capacity. */
-  fraction: z.number().gt(0).lte(maxTriggerFraction),
+  fraction: z.number().gt(0).lte(maxTriggerFraction, 'must be at most 1 (100 % of capacity): a level above it would rise only after the structure has passed its limit'),
 });
 
 export const gustTriggerSchema = z.strictObject({

@@ -56,13 +56,31 @@ export function getSite(db: Tx): SiteRow {
   return row;
 }
 
-/** On a fresh database: one site with conservative defaults (ISA, no height reduction, no direction). */
+/**
+ * Air density of a new site, kg/m³ (design §2.1 v2): the value EN 1991-1-4 §4.5(1) Note 2
+ * recommends. ISA at sea level (1.225) under-reads cold air (about 1.34 kg/m³ at −10 °C). The
+ * competent person may choose ISA at the site's altitude or another fixed value; an existing
+ * site keeps what was chosen. The calculator (POST /api/assess) keeps ISA sea level (design §4).
+ */
+export const newSiteAirDensityKgM3 = 1.25;
+
+/**
+ * On a fresh database: one site with conservative defaults (fixed density 1.25 kg/m³, no height
+ * reduction, no direction). An existing site is returned as it is.
+ */
 export function ensureSite(db: Db, nowMs: number, name = 'Event site'): SiteRow {
   const existing = db.select().from(sitesTable).orderBy(sitesTable.id).limit(1).get();
   if (existing) return existing;
   return db
     .insert(sitesTable)
-    .values({ name, defaultLevelsJson: siteDefaultLevels, createdAtMs: nowMs, updatedAtMs: nowMs })
+    .values({
+      name,
+      airDensityMode: 'fixed',
+      fixedAirDensityKgM3: newSiteAirDensityKgM3,
+      defaultLevelsJson: siteDefaultLevels,
+      createdAtMs: nowMs,
+      updatedAtMs: nowMs,
+    })
     .returning()
     .get();
 }

@@ -29,11 +29,12 @@ import {
   effectiveUtilization,
   governingCase,
   governingWords,
-  gustHeightFactor,
+  exposureFactor,
   highestTravelSpeedMps,
   defaultSafetyFactors,
   isaAirDensityKgM3,
   isaSeaLevelDensityKgM3,
+  unclampedExposureFactor,
   utilizationAtPa,
   type AssessedDirections,
   type TerrainCategory,
@@ -81,6 +82,12 @@ export interface SiteSettings {
   directionSectorHalfWidthDeg?: number | undefined;
 }
 
+/** √c_e at a height, with and without the z_min clamp (EN 1991-1-4 §4.3.2; design §2.2 v2). */
+interface ProfileRoots {
+  clamped: number;
+  unclamped: number;
+}
+
 /** Default half-width of the directional sector (design §2.2 v2: ±45°). */
 export const defaultDirectionSectorHalfWidthDeg = 45;
 
@@ -93,8 +100,8 @@ interface SensorLive {
   /** 10-minute vector-mean direction, refreshed once a second with the health check. */
   meanDirDeg: number | null;
   lastLiveAtMs: number | null;
-  /** √(q_p(z)/q_p(10 m)) at the sensor's height. */
-  profileRatio: number;
+  /** √c_e at the sensor's height, clamped at z_min and not (see `profileRoots`). */
+  profile: ProfileRoots;
   lastAnnouncedAtMs: number;
   lastHealthCheckAtMs: number;
   silentAlertId: number | null;
@@ -105,7 +112,7 @@ interface SensorLive {
 interface StructureLive {
   model: StructureModel;
   density: DensityDependent;
-  profileRatio: number;
+  profile: ProfileRoots;
   level: LevelState;
   gustMps: number | null;
   governingSensorKey: string | null;
@@ -281,9 +288,11 @@ export class Watch implements ReadingConsumer {
   private airDensityBasis: 'isa' | 'measured' | 'fixed' = 'isa';
   /** Site-wide maxima of the decomposition above; recomputed per live reading. */
   private maxGustMps = -1;
-  private maxGustPerRatio = -1;
+  private maxGustPerClamped = -1;
+  private maxGustPerUnclamped = -1;
   private maxSensorKey: string | null = null;
-  private maxRatioSensorKey: string | null = null;
+  private maxClampedSensorKey: string | null = null;
+  private maxUnclampedSensorKey: string | null = null;
   private readonly startedAtMs: number;
   private readonly now: () => number;
   private readonly dirtyStructures = new Set<number>();
@@ -320,7 +329,7 @@ export class Watch implements ReadingConsumer {
         dirDeg: keepWind ? old.dirDeg : null,
         meanDirDeg: keepWind ? old.meanDirDeg : null,
         lastLiveAtMs: keepWind ? old.lastLiveAtMs : null,
-        profileRatio: this.profileRatio(sensor.heightM),
+        profile: this.profileRoots(sensor.heightM),
         lastAnnouncedAtMs: old?.lastAnnouncedAtMs ?? 0,
         lastHealthCheckAtMs: old?.lastHealthCheckAtMs ?? 0,
         silentAlertId: old?.silentAlertId ?? null,
@@ -342,7 +351,7 @@ export class Watch implements ReadingConsumer {
         live = {
           model,
           density: densityDependent(model, this.airDensityKgM3),
-          profileRatio: this.profileRatio(model.referenceHeightM),
+          profile: this.profileRoots(model.referenceHeightM),
           level: old?.level ?? restoredLevel(restored, nowMs),
           gustMps: old?.gustMps ?? null,
           governingSensorKey: old?.governingSensorKey ?? null,
@@ -401,15 +410,19 @@ export class Watch implements ReadingConsumer {
     this.options.hub.publish('register', { atMs: nowMs });
   }
 
-  private profileRatio(heightM: number): number {
-    // √(q_p(z)/q_p(10 m)), EN 1991-1-4 4.8; reduction allowed here because it is a ratio, the
-    // max(1, ·) of the site's choice is applied where ratios are combined.
-    return gustHeightFactor({ fromHeightM: 10, toHeightM: Math.max(0.1, heightM), terrainCategory: this.site.terrainCategory, allowReduction: true });
+  /**
+   * √c_e(z) of EN 1991-1-4 4.9 at a height, clamped at z_min (§4.3.2) and unclamped: the height
+   * factor of `gustHeightFactor` is max(√(c_e(z_s)/c_e(z_a)), √(c_e,u(z_s)/c_e,u(z_a))), so that
+   * a mast below z_min is never credited with the wind at z_min (design §2.2 v2).
+   */
+  private profileRoots(heightM: number): ProfileRoots {
+    const z = Math.max(0.1, Math.min(heightM, 200));
+    return { clamped: Math.sqrt(exposureFactor(z, this.site.terrainCategory)), unclamped: Math.sqrt(unclampedExposureFactor(z, this.site.terrainCategory)) };
   }
 
-  /** The height factor from a sensor to a structure, with the site's reduction rule. */
+  /** The height factor from a sensor to a structure (as `gustHeightFactor`), with the site's reduction rule. */
   private heightFactor(sensor: SensorLive, structure: StructureLive): number {
-    const ratio = structure.profileRatio / sensor.profileRatio;
+    const ratio = Math.max(structure.profile.clamped / sensor.profile.clamped, structure.profile.unclamped / sensor.profile.unclamped);
     return this.site.heightReductionEnabled ? ratio : Math.max(1, ratio);
   }
 
@@ -499,9 +512,11 @@ export class Watch implements ReadingConsumer {
   /** Recomputes the site-wide maxima over live sensors; true when either moved. */
   private recomputeMaxima(nowMs: number): boolean {
     let maxGust = -1;
-    let maxPerRatio = -1;
+    let maxPerClamped = -1;
+    let maxPerUnclamped = -1;
     let maxKey: string | null = null;
-    let maxRatioKey: string | null = null;
+    let maxClampedKey: string | null = null;
+    let maxUnclampedKey: string | null = null;
     for (const s of this.sensors.values()) {
       if (!this.sensorUsable(s, nowMs)) continue;
       const g = s.gustMps!;
@@ -509,17 +524,25 @@ export class Watch implements ReadingConsumer {
         maxGust = g;
         maxKey = s.sensor.key;
       }
-      const perRatio = g / s.profileRatio;
-      if (perRatio > maxPerRatio) {
-        maxPerRatio = perRatio;
-        maxRatioKey = s.sensor.key;
+      const perClamped = g / s.profile.clamped;
+      if (perClamped > maxPerClamped) {
+        maxPerClamped = perClamped;
+        maxClampedKey = s.sensor.key;
+      }
+      const perUnclamped = g / s.profile.unclamped;
+      if (perUnclamped > maxPerUnclamped) {
+        maxPerUnclamped = perUnclamped;
+        maxUnclampedKey = s.sensor.key;
       }
     }
-    const moved = maxGust !== this.maxGustMps || maxPerRatio !== this.maxGustPerRatio || maxKey !== this.maxSensorKey;
+    const moved =
+      maxGust !== this.maxGustMps || maxPerClamped !== this.maxGustPerClamped || maxPerUnclamped !== this.maxGustPerUnclamped || maxKey !== this.maxSensorKey;
     this.maxGustMps = maxGust;
-    this.maxGustPerRatio = maxPerRatio;
+    this.maxGustPerClamped = maxPerClamped;
+    this.maxGustPerUnclamped = maxPerUnclamped;
     this.maxSensorKey = maxKey;
-    this.maxRatioSensorKey = maxRatioKey;
+    this.maxClampedSensorKey = maxClampedKey;
+    this.maxUnclampedSensorKey = maxUnclampedKey;
     return moved;
   }
 
@@ -531,11 +554,20 @@ export class Watch implements ReadingConsumer {
   private governingGust(s: StructureLive, nowMs: number): { gustMps: number; sensorKey: string; dirDeg: number | null } | null {
     if (s.model.sensorKeys === null && !this.site.directionalEnabled) {
       if (this.maxGustMps < 0) return null;
-      const fromMax = this.maxGustMps;
-      const fromProfile = s.profileRatio * this.maxGustPerRatio;
-      const useProfile = this.site.heightReductionEnabled || fromProfile > fromMax;
-      const key = useProfile ? this.maxRatioSensorKey! : this.maxSensorKey!;
-      return { gustMps: useProfile ? fromProfile : fromMax, sensorKey: key, dirDeg: this.sensorsByKey.get(key)?.meanDirDeg ?? null };
+      // max over sensors of g·max(rc_t/rc_s, ru_t/ru_s) (and ≥ g without reduction), term by term.
+      const fromClamped = s.profile.clamped * this.maxGustPerClamped;
+      const fromUnclamped = s.profile.unclamped * this.maxGustPerUnclamped;
+      let gustMps = fromClamped;
+      let key = this.maxClampedSensorKey!;
+      if (fromUnclamped > gustMps) {
+        gustMps = fromUnclamped;
+        key = this.maxUnclampedSensorKey!;
+      }
+      if (!this.site.heightReductionEnabled && this.maxGustMps >= gustMps) {
+        gustMps = this.maxGustMps;
+        key = this.maxSensorKey!;
+      }
+      return { gustMps, sensorKey: key, dirDeg: this.sensorsByKey.get(key)?.meanDirDeg ?? null };
     }
     let best: { gustMps: number; sensorKey: string; dirDeg: number | null } | null = null;
     let bestLoad = -1;
@@ -1102,7 +1134,7 @@ function brokenStructure(row: StructureRow, err: unknown, nowMs: number, old: St
       warnings: [],
     },
     density: { airDensityKgM3: isaSeaLevelDensityKgM3, calculatedLimitGustMps: 0, limitGustMps: 0, triggerGustsMps: [] },
-    profileRatio: 1,
+    profile: { clamped: 1, unclamped: 1 },
     level: old?.level ?? { ...initialLevelState(nowMs) },
     gustMps: null,
     governingSensorKey: null,

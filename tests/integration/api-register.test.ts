@@ -172,11 +172,13 @@ describe('site settings (GET/PATCH /api/site)', () => {
       ['Prepare', 0.8],
       ['Stop and clear', 1],
     ]);
-    expect(res.body.airDensityKgM3).toBeCloseTo(1.225, 3);
+    // A new site's density is fixed at 1.25 kg/m³ (EN 1991-1-4 §4.5(1) Note 2; design §2.1 v2).
+    expect(res.body.site).toMatchObject({ airDensityMode: 'fixed', fixedAirDensityKgM3: 1.25 });
+    expect(res.body.airDensityKgM3).toBe(1.25);
   });
 
   it('takes a valid change from the competent person and answers the changed site', async () => {
-    const res = await cp.json('PATCH', '/api/site', { name: 'Brackenfold Common', timeZone: 'Europe/London', altitudeM: 240, terrainCategory: 'III', holdTimeMs: 600_000 });
+    const res = await cp.json('PATCH', '/api/site', { name: 'Brackenfold Common', timeZone: 'Europe/London', altitudeM: 240, terrainCategory: 'III', holdTimeMs: 600_000, airDensityMode: 'isa' });
     expect(res.status).toBe(200);
     expect(res.body.site).toMatchObject({ name: 'Brackenfold Common', timeZone: 'Europe/London', altitudeM: 240, terrainCategory: 'III', holdTimeMs: 600_000 });
     const again = await viewer.json('GET', '/api/site');
@@ -465,9 +467,9 @@ describe('structures of every kind (POST/GET/PATCH/DELETE /api/structures)', () 
 
   it('keeps everything a PATCH does not name: own levels, sensors, orientation and mobility stay as registered', async () => {
     const levels = [
-      { label: 'Watch', trigger: { kind: 'gust', gustMps: 8 }, actionText: 'Check the feet.' },
-      { label: 'Prepare', trigger: { kind: 'gust', gustMps: 11 }, actionText: 'Unclip every second bay.' },
-      { label: 'Stop and clear', trigger: { kind: 'gust', gustMps: 14 }, actionText: 'Drop the scrim.' },
+      { label: 'Watch', trigger: { kind: 'utilization', fraction: 0.5 }, actionText: 'Check the feet.' },
+      { label: 'Prepare', trigger: { kind: 'utilization', fraction: 0.7 }, actionText: 'Unclip every second bay.' },
+      { label: 'Stop and clear', trigger: { kind: 'utilization', fraction: 0.9 }, actionText: 'Drop the scrim.' },
     ];
     const created = await cp.json('POST', '/api/structures', { record: recordOf('banner', 'East fence scrim'), levels, sensorKeys: ['north-mast'], orientationDeg: 90, mobile: true, location: 'East fence' });
     expect(created.status).toBe(201);
@@ -555,7 +557,20 @@ describe('structures of every kind (POST/GET/PATCH/DELETE /api/structures)', () 
           { label: 'Prepare', trigger: { kind: 'utilization', fraction: 0.5 }, actionText: 'Close the walls.' },
         ],
       }),
-      ['levels.1.trigger'],
+      ['levels.0.trigger.gustMps', 'levels.1.trigger.fraction'],
+    ],
+    [
+      // Issue 11 item 5: a fence with a 5.4 m/s limit was given a 9 m/s level 3.
+      'a gust trigger at or above the structure’s effective limit (design §2.6 v2)',
+      () => ({
+        record: recordOf('banner', 'West fence scrim'),
+        levels: [
+          { label: 'Watch', trigger: { kind: 'utilization', fraction: 0.6 }, actionText: 'Look.' },
+          { label: 'Prepare', trigger: { kind: 'utilization', fraction: 0.8 }, actionText: 'Unclip.' },
+          { label: 'Stop and clear', trigger: { kind: 'gust', gustMps: 110 }, actionText: 'Drop it.' },
+        ],
+      }),
+      ['levels.2.trigger.gustMps'],
     ],
     [
       'several faults at once',

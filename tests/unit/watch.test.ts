@@ -147,6 +147,26 @@ describe('the gust a structure takes', () => {
     expect(along.state(1).level).toBe(0);
   });
 
+  it('a 3 m pole over category IV terrain (below z_min 10 m) moves its gust to a 12 m board with the unclamped profile, not the clamped 1.05 (issue 11 item 6; EN 1991-1-4 §4.3.2)', () => {
+    const { feed, state } = setup(site({ terrainCategory: 'IV' }), [board(1, 'Tall board', 12, ['pole-3m'])]);
+    feed('pole-3m', 10);
+    const expected = gustHeightFactor({ fromHeightM: 3, toHeightM: 12, terrainCategory: 'IV', allowReduction: false });
+    expect(expected).toBeGreaterThan(1.5);
+    expect(state(1).gustMps).toBeCloseTo(10 * expected, 9);
+  });
+
+  it('the site-wide shortcut gives the same gust as the sensor-by-sensor loop, with a mast below z_min among them', () => {
+    const all = setup(site({ terrainCategory: 'IV' }), [board(1, 'Tall board', 12)]);
+    const listed = setup(site({ terrainCategory: 'IV' }), [board(1, 'Tall board', 12, ['mast-10m', 'pole-3m', 'roof-15m'])]);
+    for (const run of [all, listed]) {
+      run.feed('mast-10m', 12);
+      run.feed('pole-3m', 9);
+      run.feed('roof-15m', 12.5);
+    }
+    expect(all.state(1).gustMps).toBeCloseTo(listed.state(1).gustMps!, 9);
+    expect(all.state(1).governingSensorKey).toBe(listed.state(1).governingSensorKey);
+  });
+
   it('never takes a late reading (from a gateway’s buffer) as live wind', () => {
     const { feed, state } = setup(site(), [board(1, 'Board', 4)]);
     feed('mast-10m', 40, null, 5 * 60_000);

@@ -14,7 +14,9 @@
  *     the same bound;
  *   · 0.8 ≤ φ ≤ 1 on the ground: above EN Table 7.9 interpolated to φ (1.2 at φ = 0.8).
  * The total force of a rigid board is the integral of c_p,net, so the zone mean is the right
- * measure for its stability; the end zones matter for the fixings of each panel, not assessed here.
+ * measure for the stability of the whole run. The end zones load the panels at a free end more
+ * than the average: `freeStandingWallStretchCpNet` gives the Table 7.9 mean over any stretch of
+ * the run (the banner kind's end-panel element, design §2.4 v2).
  */
 import { assertAbove, assertInRange } from '../rangeCheck.ts';
 import { defaultCoefficients, type SourcedValue } from './coefficients.ts';
@@ -75,6 +77,57 @@ export function freeStandingWallMeanCpNet(lengthToHeight: number): number {
     zoneStart = Math.max(zoneStart, zoneEnd);
   }
   return integral / halfLength;
+}
+
+/** The Table 7.9 zone at a distance from the nearer free end, in multiples of the wall height h. */
+export function wallZoneAt(distanceInHeights: number): WallZone {
+  assertInRange('wallZoneAt', 'distanceInHeights', distanceInHeights, 0, Infinity);
+  return wallZones.find((zone) => distanceInHeights < zoneEndsInHeights[zone]) ?? 'D';
+}
+
+/** A stretch of a free-standing wall, from `fromM` to `toM` measured along it from one free end. */
+export interface WallStretch {
+  /** Length of the whole wall l, m. */
+  lengthM: number;
+  /** Height of the wall h, m. */
+  heightM: number;
+  fromM: number;
+  toM: number;
+  /** Solidity φ, 0.8..1 (default 1). */
+  solidity?: number;
+}
+
+/**
+ * Mean EN 1991-1-4 Table 7.9 c_p,net (no return corners) over a stretch of a free-standing wall:
+ * (1/(to − from)) ∫ c_p,net(s) ds, the zone at each point counted from the NEARER free end
+ * (A 0–0.3h, B 0.3h–2h, C 2h–4h, D beyond), every zone's value taken at the wall's own l/h and
+ * solidity (linear in l/h and in φ between 0.8 and 1, references §1). Exact: c_p,net is piecewise
+ * constant, so the integral is a sum over the zone boundaries inside the stretch.
+ */
+export function freeStandingWallStretchCpNet({ lengthM, heightM, fromM, toM, solidity = 1 }: WallStretch): number {
+  const caller = 'freeStandingWallStretchCpNet';
+  assertAbove(caller, 'lengthM', lengthM, 0, 1000, 'm');
+  assertAbove(caller, 'heightM', heightM, 0, 1000, 'm');
+  assertInRange(caller, 'fromM', fromM, 0, lengthM, 'm (within the wall)');
+  assertInRange(caller, 'toM', toM, fromM, lengthM, 'm (from fromM to the wall\'s length)');
+  assertInRange(caller, 'solidity', solidity, 0.8, 1);
+  if (toM === fromM) throw new RangeError(`${caller}: toM must be > fromM (${fromM} m), got ${toM}`);
+  const lengthToHeight = lengthM / heightM;
+  const boundariesM = [fromM, toM, lengthM / 2];
+  for (const zone of wallZones) {
+    const endM = zoneEndsInHeights[zone] * heightM;
+    if (Number.isFinite(endM)) boundariesM.push(endM, lengthM - endM);
+  }
+  const points = [...new Set(boundariesM.filter((pointM) => pointM >= fromM && pointM <= toM))].sort((a, b) => a - b);
+  let integral = 0;
+  for (let index = 1; index < points.length; index++) {
+    const startM = points[index - 1]!;
+    const endM = points[index]!;
+    const middleM = (startM + endM) / 2;
+    const zone = wallZoneAt(Math.min(middleM, lengthM - middleM) / heightM);
+    integral += (endM - startM) * freeStandingWallCpNet(zone, lengthToHeight, solidity);
+  }
+  return integral / (toM - fromM);
 }
 
 /** k(φ) = 1 − (1 − φ)^1.5: ASCE 7-16 ch. 29 reduction of C_f for openings (ε = φ = solid/gross). */

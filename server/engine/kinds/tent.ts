@@ -1,34 +1,153 @@
 /**
- * Tent (marquee, frame tent): a rectangular plan with legs in two rows along the long sides, walls
- * closed or open, a pitched roof. Assessed for wind broadside onto the long side: for a tent at
- * least as long as wide that is the worse direction (a gable-end wind meets a smaller area and
- * tips the tent over the longer base), so the record must have widthM ≤ lengthM.
+ * Tent (marquee, frame tent), design §2.4 v2: a rectangular plan `lengthM` along the ridge by
+ * `widthM` across it, a pitched (duopitch) roof from the eaves to the ridge, legs in two rows
+ * along the eaves, and four sides, each closed or open.
+ *
+ * Frame (design §2.3): the front long wall stands on x = 0 and looks to the structure's front
+ * (facingDeg 0), the back long wall on x = widthM (180); the gable ends stand on y = 0 (270) and
+ * y = lengthM (90). The base is widthM deep (x) and lengthM wide (y): baseDepthM = widthM,
+ * baseWidthM = lengthM. Every direction is assessed (every 15° and each face normal), so nothing
+ * depends on which side is the longer: lengthM is the length along the ridge (usually the long
+ * side) and a record with widthM > lengthM is a short tent with a wide span, assessed the same way.
+ *
+ * Faces (F = c_f·q·A·ψ, normal to the face, stability.ts):
+ * - each long wall lengthM × eaveHeightM at eave/2; each gable end widthM × eave plus its
+ *   triangle ½·widthM·rise, at the centroid of the composite area; the roof's side elevation
+ *   lengthM × rise (a pitched roof seen broadside) at eave + rise/2, both ways (facing 0, c_f on
+ *   both sides).
+ * - A closed tent is a closed box: its drag in a direction is the whole body's, windward pressure
+ *   and leeward suction together. That drag is carried by the windward wall alone: a wall's front
+ *   (outside) takes the closed-elevation c_f (1.80, a conservative stand-in: coefficients.ts), and
+ *   its back (inside) takes nothing, since wind never reaches a closed tent's wall from inside.
+ *   Leeward walls are not loaded again, so the body drag is counted once.
+ * - An open side has no wall face (the wind passes through; the frame's members are neglected),
+ *   unless `coefficients.openWallCf` gives one (mesh or scrim sides).
+ * - With the side opposite a wall open, the wind enters there and pushes that wall from inside
+ *   (internal pressure plus the external suction on its outside): the wall's back side then also
+ *   takes the wall's c_f. So a tent with its windward side open keeps the full drag, carried by
+ *   the leeward wall — conservative: about 0.9·0.8 + 0.5 ≈ 1.2 by EN 1991-1-4 §7.2.9 and Table 7.1
+ *   zone E (from memory) against the 1.80 taken.
+ * - The gable triangle above the eave is part of the roof cover and stays when the end wall below
+ *   it is open (common practice for frame tents: the walls hang below the eave); it then takes the
+ *   roof's c_f on its own, by the same rules.
+ *
+ * Roof lift depends on the direction and the openings (`upliftCases`, one per windward side,
+ * centred on its normal 0/90/180/270 with a half-width of 60°: a side counts as windward within
+ * 60° of its normal, as for ψ; at 45° two cases apply and the worse governs). In each case:
+ * - external suction by the zones of EN 1991-1-4 §7.2.5 (Figure 7.8, Tables 7.4a/b, c_pe,10) for
+ *   a duopitch roof, each zone at the envelope of the pitch rows 5°–45° (from memory:
+ *   coefficients.ts `tentRoofSuction`), with e = min(b, 2h), h the ridge height;
+ * - internal pressure by §7.2.9 (from memory of the clause, references.md §10): a dominant opening
+ *   on the windward side (its area at least twice the other openings) gives c_pi = 0.75·c_pe, at
+ *   least three times 0.90·c_pe (linear between), below twice still 0.75·c_pe (conservative), with
+ *   c_pe = +0.8 at the windward wall (Table 7.1 zone D); no windward opening: c_pi = +0.2 (the more
+ *   onerous of +0.2 / −0.3 for lift, Note 2);
+ * - all four sides open is a canopy (§7.3): net lift 1.5 over the plan at its centre (coefficients.ts).
+ * The resultant is placed at the centroid of the zones' lift, so it sits toward the windward
+ * zones (F, G at the windward edge), not at the middle of the base.
+ *
+ * Element "windward leg (most loaded)": in each case, the leg whose tributary roof area (half a
+ * bay either side, from its eave to the ridge) carries the most net lift, against its own ballast
+ * and its share of the self-weight, on a 0.3 m square foot plate centred on the leg (common
+ * practice: a base plate or weight stack of about that size). A rigid-body average hides it
+ * (issue 11 item 7). The frame is not credited with sharing one leg's lift with its neighbours.
  */
 import { z } from 'zod';
 import { count, coefficient, dimensionM, massKg } from '../recordFields.ts';
-import { defaultCoefficients } from './coefficients.ts';
-import { chosenCoefficient, recordBaseShape, requireCoefficientSource, resistanceSettings, type Expansion } from './recordBase.ts';
+import type { DirectionalUplift, Element, Face, Mass } from '../structure.ts';
+import { defaultCoefficients, tentRoofSuction, type SourcedValue, type TentRoofZone } from './coefficients.ts';
+import { chosenCoefficient, givenCoefficient, recordBaseShape, requireCoefficientSource, resistanceSettings, type Expansion, type SourceNote } from './recordBase.ts';
+
+/** The four sides of a tent, named as the base edges they stand on (stability.ts `Edge`). */
+export const tentSides = ['front', 'endYW', 'back', 'endY0'] as const;
+export type TentSide = (typeof tentSides)[number];
+export type SideState = 'closed' | 'open';
+
+/** Which way each side looks, relative to the front (design §2.3). */
+const sideFacingDeg: Readonly<Record<TentSide, number>> = { front: 0, endYW: 90, back: 180, endY0: 270 };
+const oppositeSide: Readonly<Record<TentSide, TentSide>> = { front: 'back', back: 'front', endY0: 'endYW', endYW: 'endY0' };
+const sideWords: Readonly<Record<TentSide, string>> = {
+  front: 'front wall',
+  back: 'back wall',
+  endY0: 'gable end at y = 0',
+  endYW: 'gable end at y = lengthM',
+};
+const windWords: Readonly<Record<TentSide, string>> = {
+  front: 'wind onto the front',
+  back: 'wind onto the back',
+  endY0: 'wind onto the y = 0 gable end',
+  endYW: 'wind onto the y = lengthM gable end',
+};
+
+/** A side counts as windward within this angle of its normal (as ψ gives full force within 60°). */
+const windwardHalfWidthDeg = 60;
+/** Side of the square foot plate the leg element stands on, m (common practice). */
+const footPlateM = 0.3;
+/** Beyond this many legs, each row's legs are listed as one mass at the row's middle (same moments). */
+const legsListedSingly = 150;
+/** Below this roof pitch the roof is flat for EN 1991-1-4 (§7.2.3) and the duopitch zones do not strictly apply. */
+const lowestDuopitchDeg = 5;
+
+const sideState = () => z.enum(['closed', 'open']);
 
 export const tentRecordSchema = z
   .strictObject({
     kind: z.literal('tent'),
     ...recordBaseShape,
-    /** Long side, m: the wind is assessed onto this side. */
+    /**
+     * Length along the ridge, m: the front and back long walls and the two rows of legs run this
+     * way (the base width, from the y = 0 gable end to the y = lengthM gable end). Usually the long
+     * side; every wind direction is assessed, so a span wider than the length is accepted.
+     */
     lengthM: dimensionM(),
-    /** Short side, m: the base depth between the two rows of legs. */
+    /** Span across the ridge, m: the width of each gable end and the base depth between the two rows of legs. */
     widthM: dimensionM(),
+    /** Height of the eaves (the top of the walls) above the ground, m. */
     eaveHeightM: dimensionM(),
+    /** Height of the ridge above the ground, m (≥ eaveHeightM; the roof rises from the eaves to the ridge). */
     ridgeHeightM: dimensionM(),
-    /** Walls closed (the side elevation is loaded) or open/removed (the wind passes under the roof). */
-    wallsClosed: z.boolean(),
-    /** Number of legs, an even number in two rows along the long sides. */
+    /**
+     * All four sides closed (true) or all open (false). `sides` sets them one by one and wins
+     * where both are given; between them every side must be given.
+     */
+    wallsClosed: z.boolean().optional(),
+    /**
+     * Each side closed or open: a side with its wall removed, rolled up, or a door or panel open in
+     * it is open (an opening on the windward side raises the roof lift: EN 1991-1-4 §7.2.9).
+     */
+    sides: z
+      .strictObject({
+        /** The front long wall (x = 0, along the length, facing the structure's front): closed or open. */
+        front: sideState().optional(),
+        /** The back long wall (x = widthM, facing away from the front): closed or open. */
+        back: sideState().optional(),
+        /** The gable end at y = 0 (to the left seen from the front): closed or open. */
+        endY0: sideState().optional(),
+        /** The gable end at y = lengthM (to the right seen from the front): closed or open. */
+        endYW: sideState().optional(),
+      })
+      .optional(),
+    /** Number of legs, an even number in two rows along the long walls, evenly spaced from end to end. */
     legs: count(4),
     /** Ballast on each leg (weights, water barrels), kg. */
     ballastPerLegKg: massKg(),
     /** Frame, cover and floor that move with the tent, kg: acts at the middle of the base. */
     selfWeightKg: massKg(),
     coefficients: z
-      .strictObject({ wallCf: coefficient().optional(), roofCf: coefficient().optional(), liftCoefficient: coefficient().optional() })
+      .strictObject({
+        /** Force coefficient c_f of a closed wall or gable end (default 1.80, conservative). */
+        wallCf: coefficient().optional(),
+        /** Force coefficient c_f of an open side (mesh, scrim, the frame), on the wall's area (default 0: nothing). */
+        openWallCf: coefficient().optional(),
+        /** Force coefficient c_f of the roof's elevations: its side rise and the gable triangles (default 1.80). */
+        roofCf: coefficient().optional(),
+        /**
+         * Net roof lift coefficient, area-averaged over the plan, in every direction (default: per
+         * direction from the roof zones and the openings); its resultant and the legs' shares keep
+         * the default model's distribution.
+         */
+        liftCoefficient: coefficient().optional(),
+      })
       .optional(),
   })
   .superRefine((record, ctx) => {
@@ -36,15 +155,19 @@ export const tentRecordSchema = z
     if (record.ridgeHeightM < record.eaveHeightM) {
       ctx.addIssue({ code: 'custom', path: ['ridgeHeightM'], message: `must be ≥ eaveHeightM (${record.eaveHeightM} m)` });
     }
-    if (record.widthM > record.lengthM) {
-      ctx.addIssue({
-        code: 'custom',
-        path: ['widthM'],
-        message: `must be ≤ lengthM (${record.lengthM} m): lengthM is the long side, the one assessed broadside`,
-      });
+    if (record.wallsClosed === undefined) {
+      for (const side of tentSides) {
+        if (record.sides?.[side] === undefined) {
+          ctx.addIssue({
+            code: 'custom',
+            path: ['sides', side],
+            message: "must be 'closed' or 'open' (or give wallsClosed for every side not listed)",
+          });
+        }
+      }
     }
     if (record.legs % 2 !== 0) {
-      ctx.addIssue({ code: 'custom', path: ['legs'], message: 'must be even: the legs stand in two rows along the long sides' });
+      ctx.addIssue({ code: 'custom', path: ['legs'], message: 'must be even: the legs stand in two rows along the long walls' });
     }
     if (record.selfWeightKg + record.legs * record.ballastPerLegKg <= 0) {
       ctx.addIssue({ code: 'custom', path: ['ballastPerLegKg'], message: 'total mass must be > 0 kg: give the self-weight or the ballast' });
@@ -53,46 +176,407 @@ export const tentRecordSchema = z
 
 export type TentRecord = z.infer<typeof tentRecordSchema>;
 
+/** Each side's state: `sides` where given, else `wallsClosed` (the schema ensures one of them is). */
+export function resolvedTentSides(record: Pick<TentRecord, 'sides' | 'wallsClosed'>): Record<TentSide, SideState> {
+  const fallback: SideState | undefined = record.wallsClosed === undefined ? undefined : record.wallsClosed ? 'closed' : 'open';
+  const resolve = (side: TentSide): SideState => {
+    const state = record.sides?.[side] ?? fallback;
+    if (state === undefined) throw new RangeError(`expandTent: sides.${side} is not given and neither is wallsClosed`);
+    return state;
+  };
+  return { front: resolve('front'), endYW: resolve('endYW'), back: resolve('back'), endY0: resolve('endY0') };
+}
+
+/** A rectangle in plan, m: x from the front edge, y from the y = 0 end. */
+interface Rect {
+  x0: number;
+  x1: number;
+  y0: number;
+  y1: number;
+}
+
+/** A roof zone: a plan rectangle and its external suction (−c_pe, ≥ 0 lifts). */
+interface RoofZone extends Rect {
+  zone: TentRoofZone;
+  suction: number;
+}
+
+/** The roof in plan and the ridge height (EN Figure 7.8: h, the height to the ridge; the higher h gives the wider edge zones). */
+interface Plan {
+  lengthM: number;
+  widthM: number;
+  ridgeHeightM: number;
+}
+
+function areaOf(rect: Rect): number {
+  return Math.max(0, rect.x1 - rect.x0) * Math.max(0, rect.y1 - rect.y0);
+}
+
+function overlap(a: Rect, b: Rect): Rect {
+  return { x0: Math.max(a.x0, b.x0), x1: Math.min(a.x1, b.x1), y0: Math.max(a.y0, b.y0), y1: Math.min(a.y1, b.y1) };
+}
+
+/**
+ * The roof zones of EN 1991-1-4 Figure 7.8 for wind onto `windward`, in plan coordinates. In the
+ * wind's own coordinates, u runs downwind from the windward edge and v across; b is the crosswind
+ * size, d the along-wind depth and e = min(b, 2h):
+ * - across the ridge (onto a long wall): F in the corners e/4 × e/10 at the windward eave, G between
+ *   them, H the rest of the windward slope; J a strip e/10 leeward of the ridge, I the rest;
+ * - along the ridge (onto a gable end): F in the corners e/4 × e/10 at the windward gable, G
+ *   between them, H from e/10 to e/2, I beyond.
+ */
+function roofZones(windward: TentSide, plan: Plan): RoofZone[] {
+  const across = windward === 'front' || windward === 'back';
+  const b = across ? plan.lengthM : plan.widthM;
+  const d = across ? plan.widthM : plan.lengthM;
+  const e = Math.min(b, 2 * plan.ridgeHeightM);
+  const values = across ? tentRoofSuction.acrossRidge : tentRoofSuction.alongRidge;
+  const inWind: Array<{ zone: TentRoofZone; u0: number; u1: number; v0: number; v1: number }> = [];
+  if (across) {
+    const strip = Math.min(e / 10, d / 2);
+    const ridgeStrip = Math.min(e / 10, d / 2);
+    inWind.push(
+      { zone: 'F', u0: 0, u1: strip, v0: 0, v1: e / 4 },
+      { zone: 'G', u0: 0, u1: strip, v0: e / 4, v1: b - e / 4 },
+      { zone: 'F', u0: 0, u1: strip, v0: b - e / 4, v1: b },
+      { zone: 'H', u0: strip, u1: d / 2, v0: 0, v1: b },
+      { zone: 'J', u0: d / 2, u1: d / 2 + ridgeStrip, v0: 0, v1: b },
+      { zone: 'I', u0: d / 2 + ridgeStrip, u1: d, v0: 0, v1: b },
+    );
+  } else {
+    const strip = Math.min(e / 10, d);
+    const hEnd = Math.min(e / 2, d);
+    inWind.push(
+      { zone: 'F', u0: 0, u1: strip, v0: 0, v1: e / 4 },
+      { zone: 'G', u0: 0, u1: strip, v0: e / 4, v1: b - e / 4 },
+      { zone: 'F', u0: 0, u1: strip, v0: b - e / 4, v1: b },
+      { zone: 'H', u0: strip, u1: hEnd, v0: 0, v1: b },
+      { zone: 'I', u0: hEnd, u1: d, v0: 0, v1: b },
+    );
+  }
+  const { lengthM: L, widthM: w } = plan;
+  return inWind
+    .map(({ zone, u0, u1, v0, v1 }): RoofZone => {
+      const suction = (values as Record<string, SourcedValue>)[zone]!.value;
+      switch (windward) {
+        case 'front':
+          return { zone, suction, x0: u0, x1: u1, y0: v0, y1: v1 };
+        case 'back':
+          return { zone, suction, x0: w - u1, x1: w - u0, y0: v0, y1: v1 };
+        case 'endYW':
+          return { zone, suction, x0: v0, x1: v1, y0: L - u1, y1: L - u0 };
+        case 'endY0':
+          return { zone, suction, x0: v0, x1: v1, y0: u0, y1: u1 };
+      }
+    })
+    .filter((zone) => areaOf(zone) > 0);
+}
+
+/** Net lift of one windward case over a plan rectangle: Σ (suction + c_pi) · area, and its centroid. */
+interface LiftOver {
+  /** Net lift per unit dynamic pressure, m² (N/Pa). */
+  perPaM2: number;
+  xM: number;
+  yM: number;
+}
+
+interface RoofCase {
+  windward: TentSide;
+  /** Internal pressure coefficient, and in words how it was found. */
+  internal: { cpi: number; text: string };
+  /** Canopy (all sides open): a uniform net lift instead of zones plus internal pressure. */
+  canopyLift: number | null;
+  zones: RoofZone[];
+}
+
+function liftOver(roofCase: RoofCase, rect: Rect): LiftOver {
+  const area = areaOf(rect);
+  const centreX = (rect.x0 + rect.x1) / 2;
+  const centreY = (rect.y0 + rect.y1) / 2;
+  if (roofCase.canopyLift !== null) return { perPaM2: roofCase.canopyLift * area, xM: centreX, yM: centreY };
+  let perPaM2 = roofCase.internal.cpi * area;
+  let momentX = perPaM2 * centreX;
+  let momentY = perPaM2 * centreY;
+  for (const zone of roofCase.zones) {
+    const part = overlap(zone, rect);
+    const partArea = areaOf(part);
+    if (partArea <= 0) continue;
+    const lift = zone.suction * partArea;
+    perPaM2 += lift;
+    momentX += lift * ((part.x0 + part.x1) / 2);
+    momentY += lift * ((part.y0 + part.y1) / 2);
+  }
+  return perPaM2 > 0 ? { perPaM2, xM: momentX / perPaM2, yM: momentY / perPaM2 } : { perPaM2: 0, xM: centreX, yM: centreY };
+}
+
+/** Area of the opening an open side leaves below the eave, m². */
+function openingAreaM2(side: TentSide, plan: Plan, eaveHeightM: number): number {
+  return (side === 'front' || side === 'back' ? plan.lengthM : plan.widthM) * eaveHeightM;
+}
+
+/**
+ * c_pi for wind onto `windward` (EN 1991-1-4 §7.2.9, from memory of the clause): with the windward
+ * side open, ratio R of its opening to all other openings: R ≥ 3 → 0.90·c_pe, 2..3 linear from
+ * 0.75, below 2 still 0.75·c_pe (conservative: the clause's no-dominant-face rule would give less
+ * for flow-through); c_pe = +0.8 at the windward wall (Table 7.1 zone D). Windward side closed:
+ * +0.2 (Note 2: the more onerous of +0.2 and −0.3 for lift), whatever else is open.
+ */
+export function tentInternalPressure(
+  windward: TentSide,
+  states: Record<TentSide, SideState>,
+  plan: Plan,
+  eaveHeightM: number,
+): { cpi: number; ratio: number | null; text: string } {
+  if (states[windward] === 'closed') {
+    return { cpi: defaultCoefficients.tentInternalPressure.value, ratio: null, text: `${sideWords[windward]} closed: c_pi = +0.2` };
+  }
+  const windwardAreaM2 = openingAreaM2(windward, plan, eaveHeightM);
+  const otherAreaM2 = tentSides.filter((side) => side !== windward && states[side] === 'open').reduce((sum, side) => sum + openingAreaM2(side, plan, eaveHeightM), 0);
+  const ratio = otherAreaM2 > 0 ? windwardAreaM2 / otherAreaM2 : Infinity;
+  const twice = defaultCoefficients.tentDominantOpeningTwice.value;
+  const thrice = defaultCoefficients.tentDominantOpeningThrice.value;
+  const factor = ratio >= 3 ? thrice : ratio <= 2 ? twice : twice + (thrice - twice) * (ratio - 2);
+  const cpi = factor * defaultCoefficients.tentWindwardWallPressure.value;
+  const ratioText = Number.isFinite(ratio) ? `${round(ratio)}× the other openings` : 'the only opening';
+  return {
+    cpi,
+    ratio: Number.isFinite(ratio) ? ratio : null,
+    text: `${sideWords[windward]} open (${ratioText}): c_pi = ${round(factor)} · 0.8 = +${round(cpi)}`,
+  };
+}
+
+/** Keep c_lift within the engine's 0..4 by widening the area where a scaled coefficient would pass 4 (same force). */
+function upliftOf(areaM2: number, perPaM2: number): { planAreaM2: number; liftCoefficient: number } {
+  if (areaM2 <= 0) return { planAreaM2: 0, liftCoefficient: 0 };
+  const lift = perPaM2 / areaM2;
+  return lift <= 4 ? { planAreaM2: areaM2, liftCoefficient: lift } : { planAreaM2: perPaM2 / 4, liftCoefficient: 4 };
+}
+
+function round(value: number): number {
+  return Math.round(value * 1000) / 1000;
+}
+
 export function expandTent(record: TentRecord): Expansion {
   const { lengthM, widthM, eaveHeightM, ridgeHeightM, coefficients, coefficientSource } = record;
   const { settings, sources } = resistanceSettings(record);
-  const wall = chosenCoefficient(
-    'c_f side wall (front and back)',
-    record.wallsClosed ? defaultCoefficients.tentElevation : defaultCoefficients.tentOpenWall,
-    coefficients?.wallCf,
-    coefficientSource,
-  );
-  const roof = chosenCoefficient('c_f roof, side elevation (front and back)', defaultCoefficients.tentElevation, coefficients?.roofCf, coefficientSource);
-  const lift = chosenCoefficient('c_lift roof, on the plan area', defaultCoefficients.tentRoofLift, coefficients?.liftCoefficient, coefficientSource);
-  const roofRiseM = ridgeHeightM - eaveHeightM;
+  const states = resolvedTentSides(record);
+  const plan: Plan = { lengthM, widthM, ridgeHeightM };
+  const planAreaM2 = lengthM * widthM;
+  const riseM = ridgeHeightM - eaveHeightM;
+  const pitchDeg = (Math.atan2(riseM, widthM / 2) * 180) / Math.PI;
+  const allOpen = tentSides.every((side) => states[side] === 'open');
+  const anyOpen = tentSides.some((side) => states[side] === 'open');
+  const warnings: string[] = [];
+
+  // --- Coefficients and their sources.
+  const wall = chosenCoefficient('c_f closed wall or gable end (wind on its outside; on its inside when the opposite side is open)', defaultCoefficients.tentElevation, coefficients?.wallCf, coefficientSource);
+  const openWall = chosenCoefficient('c_f open side (on the wall area)', defaultCoefficients.tentOpenWall, coefficients?.openWallCf, coefficientSource);
+  const roof = chosenCoefficient('c_f roof elevations (side rise lengthM × rise, gable triangles)', defaultCoefficients.tentElevation, coefficients?.roofCf, coefficientSource);
+  const faceSources: SourceNote[] = [wall, roof];
+  if (anyOpen) faceSources.push(openWall);
+  if (anyOpen && coefficients?.wallCf !== undefined && coefficients.openWallCf === undefined) {
+    warnings.push('coefficients.wallCf applies to closed sides only; the open sides carry no wall load. Give coefficients.openWallCf if they carry wind (mesh, scrim).');
+  }
+
+  // --- Faces.
+  const faces: Face[] = [];
+  const sideFace = (side: TentSide, areaM2: number, centroidHeightM: number, cf: number, label: string) => {
+    if (areaM2 <= 0 || cf <= 0) return;
+    // Front side (outside) when this side is windward; back side (inside) only when the opposite side lets the wind in.
+    const inside = states[oppositeSide[side]] === 'open' ? cf : 0;
+    faces.push({ label, areaM2, centroidHeightM, cfFront: cf, cfBack: inside, facingDeg: sideFacingDeg[side] });
+  };
+  const triangleAreaM2 = (widthM * riseM) / 2;
+  const triangleCentroidM = eaveHeightM + riseM / 3;
+  for (const side of tentSides) {
+    const closed = states[side] === 'closed';
+    if (side === 'front' || side === 'back') {
+      const label = `${sideWords[side]} (${closed ? 'closed' : 'open'})`;
+      sideFace(side, lengthM * eaveHeightM, eaveHeightM / 2, closed ? wall.value : openWall.value, label);
+      continue;
+    }
+    const gableWallM2 = widthM * eaveHeightM;
+    if (closed) {
+      // The wall and its triangle as one face, at the centroid of the composite area.
+      const areaM2 = gableWallM2 + triangleAreaM2;
+      const centroidM = (gableWallM2 * (eaveHeightM / 2) + triangleAreaM2 * triangleCentroidM) / areaM2;
+      sideFace(side, areaM2, centroidM, wall.value, `${sideWords[side]} (closed, with its gable triangle)`);
+    } else {
+      sideFace(side, gableWallM2, eaveHeightM / 2, openWall.value, `${sideWords[side]} (open)`);
+      sideFace(side, triangleAreaM2, triangleCentroidM, roof.value, `gable triangle above the open ${sideWords[side]}`);
+    }
+  }
+  if (riseM > 0 && roof.value > 0) {
+    // A pitched roof seen broadside projects as lengthM × rise, from either long side.
+    faces.push({ label: 'roof, side elevation', areaM2: lengthM * riseM, centroidHeightM: eaveHeightM + riseM / 2, cfFront: roof.value, cfBack: roof.value, facingDeg: 0 });
+  }
+
+  // --- Roof lift, one case per windward side.
+  const cases: RoofCase[] = tentSides.map((windward) => {
+    const internal = tentInternalPressure(windward, states, plan, eaveHeightM);
+    return {
+      windward,
+      internal,
+      canopyLift: allOpen ? defaultCoefficients.tentCanopyLift.value : null,
+      zones: allOpen ? [] : roofZones(windward, plan),
+    };
+  });
+  const whole: Rect = { x0: 0, x1: widthM, y0: 0, y1: lengthM };
+  const givenLift = coefficients?.liftCoefficient;
+  const liftSources: SourceNote[] = [];
+  const upliftCases: DirectionalUplift[] = cases.map((roofCase) => {
+    const resultant = liftOver(roofCase, whole);
+    // A given coefficient replaces the area average, keeping the default model's distribution.
+    const scale = givenLift === undefined ? 1 : resultant.perPaM2 > 0 ? (givenLift * planAreaM2) / resultant.perPaM2 : 0;
+    const perPaM2 = resultant.perPaM2 * scale;
+    const basis = roofCase.canopyLift !== null ? 'all sides open: canopy' : roofCase.internal.text;
+    liftSources.push(
+      givenLift === undefined
+        ? {
+            item: `net roof lift, area average, ${windWords[roofCase.windward]} (${basis})`,
+            value: perPaM2 / planAreaM2,
+            source:
+              roofCase.canopyLift !== null
+                ? defaultCoefficients.tentCanopyLift.source
+                : 'roof zones of EN 1991-1-4 Figure 7.8 with the suctions of tentRoofSuction, plus c_pi of §7.2.9 (from memory); see the items above',
+          }
+        : givenCoefficient(`net roof lift, area average, ${windWords[roofCase.windward]}`, givenLift, coefficientSource),
+    );
+    return {
+      label: `roof lift, ${windWords[roofCase.windward]} (${basis})`,
+      ...upliftOf(planAreaM2, perPaM2),
+      xM: resultant.xM,
+      yM: resultant.yM,
+      centreDeg: sideFacingDeg[roofCase.windward],
+      halfWidthDeg: windwardHalfWidthDeg,
+    };
+  });
+
+  // --- Masses: the legs at their plan points, the frame and cover at the middle.
   const legsPerRow = record.legs / 2;
-  const ballastPerRowKg = legsPerRow * record.ballastPerLegKg;
+  const bayM = lengthM / (legsPerRow - 1);
+  const legYsM = Array.from({ length: legsPerRow }, (_, index) => (index === legsPerRow - 1 ? lengthM : index * bayM));
+  const masses: Mass[] = [{ label: 'frame and cover', massKg: record.selfWeightKg, xM: widthM / 2, yM: lengthM / 2 }];
+  const rows = [
+    { name: 'front row', xM: 0 },
+    { name: 'back row', xM: widthM },
+  ];
+  for (const row of rows) {
+    if (record.legs <= legsListedSingly) {
+      legYsM.forEach((yM, index) => masses.push({ label: `${row.name} leg ${index + 1} ballast`, massKg: record.ballastPerLegKg, xM: row.xM, yM }));
+    } else {
+      // Equal legs evenly spaced from end to end: their resultant is at the row's middle (same moment about every edge).
+      masses.push({ label: `${row.name} ballast (${legsPerRow} legs × ${record.ballastPerLegKg} kg)`, massKg: legsPerRow * record.ballastPerLegKg, xM: row.xM, yM: lengthM / 2 });
+    }
+  }
+
+  // --- Element: the most loaded windward leg.
+  const tributaryOf = (rowXM: number, yM: number): Rect => ({
+    x0: rowXM === 0 ? 0 : widthM / 2,
+    x1: rowXM === 0 ? widthM / 2 : widthM,
+    y0: Math.max(0, yM - bayM / 2),
+    y1: Math.min(lengthM, yM + bayM / 2),
+  });
+  // The self-weight share credited: the smallest tributary share of any leg (an end leg's, a quarter bay of the plan), conservative for all.
+  const selfShareKg = record.selfWeightKg * (bayM / 2 / lengthM) / 2;
+  const legMassKg = record.ballastPerLegKg + selfShareKg;
+  const half = footPlateM / 2;
+  const legNotes: string[] = [];
+  const legCases: DirectionalUplift[] = cases.map((roofCase, index) => {
+    const resultant = liftOver(roofCase, whole);
+    const scale = givenLift === undefined ? 1 : resultant.perPaM2 > 0 ? (givenLift * planAreaM2) / resultant.perPaM2 : 0;
+    let worst = { perPaM2: -1, rect: tributaryOf(0, 0), row: rows[0]!.name, yM: 0 };
+    for (const row of rows) {
+      for (const yM of legYsM) {
+        const rect = tributaryOf(row.xM, yM);
+        const lift = liftOver(roofCase, rect).perPaM2 * scale;
+        if (lift > worst.perPaM2 + 1e-12) worst = { perPaM2: lift, rect, row: row.name, yM };
+      }
+    }
+    const areaM2 = areaOf(worst.rect);
+    legNotes.push(
+      `${windWords[roofCase.windward]}: the ${worst.row} leg at y = ${round(worst.yM)} m, tributary ${round(worst.rect.x1 - worst.rect.x0)} × ${round(worst.rect.y1 - worst.rect.y0)} m, ` +
+        `net lift ${round(worst.perPaM2 / areaM2)} on it (the roof's average ${round(upliftCases[index]!.liftCoefficient * upliftCases[index]!.planAreaM2 / planAreaM2)})`,
+    );
+    return {
+      label: `leg lift, ${windWords[roofCase.windward]} (${worst.row} leg at y = ${round(worst.yM)} m)`,
+      ...upliftOf(areaM2, worst.perPaM2),
+      xM: half,
+      yM: half,
+      centreDeg: sideFacingDeg[roofCase.windward],
+      halfWidthDeg: windwardHalfWidthDeg,
+    };
+  });
+  const { ratedGustMps: _rated, ...elementSettings } = settings;
+  const legElement: Element = {
+    name: 'windward leg (most loaded)',
+    baseDepthM: footPlateM,
+    baseWidthM: footPlateM,
+    ...elementSettings,
+    // A leg carries no wind face of its own and its foot plate does not tip: its real check is
+    // uplift, γ_up·F_up/W. With no face, "overturning" about a plate edge and "sliding" both reduce
+    // to γ·F_up/W; they take factor 1 so that they never read above the uplift check.
+    safetyFactors: { overturning: 1, sliding: 1, uplift: settings.safetyFactors.uplift },
+    faces: [],
+    upliftCases: legCases,
+    masses: [{ label: `leg ballast ${record.ballastPerLegKg} kg and ${round(selfShareKg)} kg of self-weight`, massKg: legMassKg, xM: half, yM: half }],
+  };
+
+  // --- Sources of the roof model.
+  const roofSources: SourceNote[] = [];
+  if (!allOpen) {
+    for (const [direction, values] of [
+      ['across the ridge (θ = 0°)', tentRoofSuction.acrossRidge],
+      ['along the ridge (θ = 90°)', tentRoofSuction.alongRidge],
+    ] as const) {
+      for (const [zone, value] of Object.entries(values)) {
+        roofSources.push({ item: `roof suction −c_pe,10 zone ${zone}, wind ${direction}`, value: value.value, source: value.source });
+      }
+    }
+    roofSources.push(
+      { item: 'c_pe windward wall (at a windward opening)', ...defaultCoefficients.tentWindwardWallPressure },
+      { item: 'c_pi / c_pe, dominant opening ≥ 2× the others (and below 2×, conservative)', ...defaultCoefficients.tentDominantOpeningTwice },
+      { item: 'c_pi / c_pe, dominant opening ≥ 3× the others', ...defaultCoefficients.tentDominantOpeningThrice },
+      { item: 'c_pi with the windward side closed', ...defaultCoefficients.tentInternalPressure },
+    );
+  }
+  roofSources.push({ item: 'leg foot plate, m square', value: footPlateM, source: 'common practice: a base plate or weight stack about 0.3 m square under each leg' });
+
+  if (pitchDeg < lowestDuopitchDeg && !allOpen) {
+    warnings.push(
+      `Roof pitch ${round(pitchDeg)}° is below 5°: a flat roof for EN 1991-1-4 (§7.2.3, Table 7.2), whose edge zones (F −1.8, H −0.7, from memory) are about 0.1 more onerous than the duopitch values used. Check the roof lift.`,
+    );
+  }
+
+  const stateWords = tentSides.map((side) => `${sideWords[side]} ${states[side]}`).join(', ');
+  const notes = [
+    `Plan ${lengthM} m along the ridge (base width, y) × ${widthM} m across it (base depth, x); roof pitch ${round(pitchDeg)}°. Sides: ${stateWords}.`,
+    'Closed tent = closed box: the whole body drag (c_f on the elevation) is carried by the windward wall; a wall takes wind on its inside only when the side opposite is open. Open sides carry no wall load.',
+    'The gable triangles are roof cover and stay when an end wall is open.',
+    allOpen
+      ? `All sides open: a canopy (EN 1991-1-4 §7.3), net lift ${defaultCoefficients.tentCanopyLift.value} over the plan at its centre.`
+      : 'Roof lift per windward side (within 60° of its normal): EN 1991-1-4 Figure 7.8 zones with the suctions listed, plus c_pi from the openings (§7.2.9); the resultant sits toward the windward zones.',
+    `${legsPerRow} legs per row, ${round(bayM)} m apart from end to end, each with ${record.ballastPerLegKg} kg; the frame and cover (${record.selfWeightKg} kg) act at the middle of the base.`,
+    `Element "windward leg (most loaded)": the leg with the most net lift on its tributary roof area (half a bay either side, eave to ridge), against its ballast and ${round(selfShareKg)} kg of self-weight (an end leg's tributary share, the smallest), on a ${footPlateM} m foot plate. ` +
+      'Its overturning and sliding factors are 1: with no wind face they only repeat the uplift check. ' +
+      legNotes.join('; ') +
+      '.',
+    'Only weight resists: stakes and ground anchors are not credited.',
+  ];
 
   return {
     structure: {
       baseDepthM: widthM,
+      baseWidthM: lengthM,
       ...settings,
-      faces: [
-        { label: 'side wall', areaM2: lengthM * eaveHeightM, centroidHeightM: eaveHeightM / 2, cfFront: wall.value, cfBack: wall.value },
-        // A pitched roof seen broadside projects as a rectangle lengthM × rise.
-        { label: 'roof, side elevation', areaM2: lengthM * roofRiseM, centroidHeightM: eaveHeightM + roofRiseM / 2, cfFront: roof.value, cfBack: roof.value },
-      ],
-      uplift: { planAreaM2: lengthM * widthM, liftCoefficient: lift.value },
-      masses: [
-        { label: 'frame and cover', massKg: record.selfWeightKg, xM: widthM / 2 },
-        { label: `front row ballast (${legsPerRow} legs × ${record.ballastPerLegKg} kg)`, massKg: ballastPerRowKg, xM: 0 },
-        { label: `back row ballast (${legsPerRow} legs × ${record.ballastPerLegKg} kg)`, massKg: ballastPerRowKg, xM: widthM },
-      ],
+      faces,
+      upliftCases,
+      masses,
+      elements: [legElement],
     },
     referenceHeightM: record.referenceHeightM ?? ridgeHeightM,
-    sources: [wall, roof, lift, ...sources],
-    notes: [
-      `Wind assessed broadside onto the ${lengthM} m side; base depth = width ${widthM} m between the two rows of legs.`,
-      'Half the legs stand on each long edge; the frame and cover act at the middle of the base.',
-      record.wallsClosed
-        ? 'Walls closed: the whole side elevation (walls and roof rise) is loaded.'
-        : 'Walls open: the wind passes under the roof; only the roof rise is loaded horizontally.',
-      'Only weight resists: stakes and ground anchors are not credited.',
-    ],
+    sources: [...faceSources, ...roofSources, ...liftSources, ...sources],
+    notes,
+    ...(warnings.length > 0 ? { warnings } : {}),
   };
 }

@@ -46,7 +46,7 @@ describe('level list schema (limits are our own)', () => {
   const valid = [
     level('Watch', { kind: 'utilization', fraction: 0.6 }),
     level('Screens down', { kind: 'gust', gustMps: 15 }),
-    level('Clear', { kind: 'utilization', fraction: 1.5 }),
+    level('Clear', { kind: 'utilization', fraction: 1 }),
   ];
 
   it('accepts 1 to 8 levels mixing utilization and gust triggers', () => {
@@ -75,11 +75,12 @@ describe('level list schema (limits are our own)', () => {
     expect(levelListSchema.safeParse([level('A', { kind: 'gust', gustMps: 10 }, 'x'.repeat(2000))]).success).toBe(true);
   });
 
-  it('takes fractions in (0, 1.5] and gusts in (0, 120] m/s only', () => {
+  it('takes fractions in (0, 1] (design §2.6 v2: no level beyond the limit) and gusts in (0, 120] m/s only', () => {
     const one = (trigger: unknown) => levelListSchema.safeParse([{ label: 'A', trigger, actionText: '' }]).success;
     expect(one({ kind: 'utilization', fraction: 0 })).toBe(false);
-    expect(one({ kind: 'utilization', fraction: 1.5 })).toBe(true);
-    expect(one({ kind: 'utilization', fraction: 1.500001 })).toBe(false);
+    expect(one({ kind: 'utilization', fraction: 1 })).toBe(true);
+    expect(one({ kind: 'utilization', fraction: 1.000001 })).toBe(false);
+    expect(one({ kind: 'utilization', fraction: 1.5 })).toBe(false);
     expect(one({ kind: 'utilization', fraction: Number.NaN })).toBe(false);
     expect(one({ kind: 'gust', gustMps: 0 })).toBe(false);
     expect(one({ kind: 'gust', gustMps: 120 })).toBe(true);
@@ -137,7 +138,7 @@ describe('gustAtFractionWithoutUpliftMps', () => {
   it('gives the gust whose dynamic pressure ½ρv² is that fraction of the pressure at the limit (design §2.3)', () => {
     const airDensityKgM3 = 1.225; // ISO 2533 sea level
     const qPa = (gustMps: number) => 0.5 * airDensityKgM3 * gustMps ** 2;
-    for (const fraction of [0.6, 0.8, 1.2]) {
+    for (const fraction of [0.6, 0.8, 1]) {
       expect(qPa(gustAtFractionWithoutUpliftMps(27.5, fraction)) / qPa(27.5)).toBeCloseTo(fraction, 12);
     }
   });
@@ -145,7 +146,7 @@ describe('gustAtFractionWithoutUpliftMps', () => {
   it('throws a RangeError naming a bad limit or fraction', () => {
     expect(() => gustAtFractionWithoutUpliftMps(0, 0.6)).toThrow(/limitGustMps.*got 0/);
     expect(() => gustAtFractionWithoutUpliftMps(Number.NaN, 0.6)).toThrow(RangeError);
-    expect(() => gustAtFractionWithoutUpliftMps(20, 0)).toThrow(/fraction.*\(0, 1\.5\].*got 0/);
+    expect(() => gustAtFractionWithoutUpliftMps(20, 0)).toThrow(/fraction.*\(0, 1\].*got 0/);
     expect(() => gustAtFractionWithoutUpliftMps(20, 2)).toThrow(RangeError);
   });
 });

@@ -12,11 +12,12 @@ import { SpeedValue } from '../components/speedValue.tsx';
 import { live, refreshSnapshot, serverNow } from '../live.ts';
 import { prefs } from '../prefs.ts';
 import { may, session } from '../session.ts';
-import { useTimeZone } from '../site.ts';
+import { loadSite, site, useTimeZone } from '../site.ts';
 import { useStore } from '../store.ts';
 import type { GatewayView, SensorView } from '../types.ts';
 import { beaufortText, dateTime, duration, speedUnitLabels, speedUnits, type SpeedUnit } from '../units.ts';
 import { plainMessage, typedNumber } from '../register/structureDraft.ts';
+import { isBelowMinimumHeight, terrainCategories, terrainParameters, type TerrainCategory } from '../../../server/engine/windProfile.ts';
 
 export function Sensors() {
   const canEdit = may(useStore(session), 'competent-person');
@@ -153,6 +154,16 @@ function SensorForm({ sensor, onDone }: { sensor: SensorView | null; onDone: () 
   const [issues, setIssues] = useState<Map<string, string>>(new Map());
   const [error, setError] = useState<string | null>(null);
   const set = (k: keyof typeof f) => (e: Event) => setF({ ...f, [k]: (e.currentTarget as HTMLInputElement).value });
+  // The site's terrain category, for the z_min warning (design §2.2 v2): the settings are loaded
+  // once after sign-in; load them here if this screen came first.
+  const siteSettings = useStore(site);
+  useEffect(() => {
+    if (!siteSettings) void loadSite();
+  }, []);
+  const terrain = siteSettings && (terrainCategories as readonly string[]).includes(siteSettings.terrainCategory) ? (siteSettings.terrainCategory as TerrainCategory) : null;
+  const typedHeight = typedNumber(f.heightM);
+  const mastTooLow =
+    terrain !== null && typedHeight !== undefined && Number.isFinite(typedHeight) && typedHeight > 0 && typedHeight <= 200 && isBelowMinimumHeight(typedHeight, terrain);
 
   const save = async (e: Event) => {
     e.preventDefault();
@@ -223,6 +234,11 @@ function SensorForm({ sensor, onDone }: { sensor: SensorView | null; onDone: () 
           <input id="sn-silent" inputMode="decimal" value={f.silenceS} onInput={set('silenceS')} />
         </Field>
       </div>
+      {mastTooLow && terrain ? (
+        <p class="note-box" role="note">
+          The mast is below z_min for terrain category {terrain} ({terrainParameters[terrain].minimumHeightM} m): the gust at the structure is taken from the unclamped profile; mount the anemometer higher if you can.
+        </p>
+      ) : null}
       {error ? (
         <p class="error-box" role="alert">
           {error}
