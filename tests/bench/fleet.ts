@@ -18,7 +18,7 @@ import { createSensor } from '../../server/register/sensors.ts';
 import { ensureSite, getSite, updateSite } from '../../server/register/site.ts';
 import { createStructure, type StructureInput } from '../../server/register/structures.ts';
 import { openDatabase } from '../../server/storage/database.ts';
-import { rawTriggerGustsMps, structureModel } from '../../server/watch/structureModel.ts';
+import { densityDependent, structureModel } from '../../server/watch/structureModel.ts';
 
 export const benchSiteName = 'Brackenfold Common — festival week (benchmark site, invented)';
 export const topicPrefix = 'wind';
@@ -156,7 +156,7 @@ function firstTriggerMps(record: Record<string, unknown>, densityKgM3: number): 
   const v = validateStructureRecord(record);
   if (!v.ok) throw new Error(`invented structure is invalid: ${JSON.stringify(v.issues)}`);
   const model = structureModel({ id: 0, name: v.record.name, kind: v.record.kind, recordJson: v.record, orientationDeg: 0, mobile: false, sensorKeysJson: null, levelsJson: null }, siteDefaultLevels);
-  return rawTriggerGustsMps(model, densityKgM3)[0]!;
+  return densityDependent(model, densityKgM3).triggerGustsMps[0]!;
 }
 
 /**
