@@ -528,7 +528,7 @@ describe('structures of every kind (POST/GET/PATCH/DELETE /api/structures)', () 
     ['a safety factor below 1', () => ({ record: { ...recordOf('custom'), safetyFactors: { overturning: 0.5 } } }), ['record.safetyFactors.overturning']],
     ['a rated gust of 500 m/s', () => ({ record: { ...recordOf('custom'), ratedGustMps: 500 } }), ['record.ratedGustMps']],
     ['a tent whose ridge is below its eaves', () => ({ record: { ...recordOf('tent'), ridgeHeightM: 2 } }), ['record.ridgeHeightM']],
-    ['a tent wider than long', () => ({ record: { ...recordOf('tent'), widthM: 14 } }), ['record.widthM']],
+    ['a tent whose side is neither open nor closed', () => ({ record: { ...recordOf('tent'), sides: { front: 'rolled up' } } }), ['record.sides.front']],
     ['a tent with an odd number of legs', () => ({ record: { ...recordOf('tent'), legs: 7 } }), ['record.legs']],
     ['a shell whose base is shallower than its radius', () => ({ record: { ...recordOf('shell'), baseDepthM: 2 } }), ['record.baseDepthM']],
     ['a coefficient override without its source', () => ({ record: { ...recordOf('banner'), coefficients: { cf: 1.2 } } }), ['record.coefficientSource']],
