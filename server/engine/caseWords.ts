@@ -70,5 +70,13 @@ export function governingWords(input: {
 }): string {
   const wind = windWords(input.directionDeg, input.frontAzimuthDeg, input.strip);
   const what = criterionWords(input.criterion, input.tippingEdge, input.frontAzimuthDeg);
-  return input.element === null ? `${wind}: ${what}` : `${input.element}, ${wind}: ${what}`;
+  if (input.element === null) return `${wind}: ${what}`;
+  // Element names say "the y = 0 end"; with the front's azimuth known, name that end by compass.
+  const element =
+    input.frontAzimuthDeg === null
+      ? input.element
+      : input.element
+          .replace(/the y = 0 end/g, sideName('endY0', input.frontAzimuthDeg))
+          .replace(/the y = baseWidthM end/g, sideName('endYW', input.frontAzimuthDeg));
+  return `${element}, ${wind}: ${what}`;
 }
