@@ -121,9 +121,9 @@ export const tentRecordSchema = z
         front: sideState().optional(),
         /** The back long wall (x = widthM, facing away from the front): closed or open. */
         back: sideState().optional(),
-        /** The gable end at y = 0 (to the left seen from the front): closed or open. */
+        /** The gable end at y = 0, whose outward normal is the front's azimuth − 90° (the west end when the front faces north): closed or open. */
         endY0: sideState().optional(),
-        /** The gable end at y = lengthM (to the right seen from the front): closed or open. */
+        /** The gable end at y = lengthM, whose outward normal is the front's azimuth + 90° (the east end when the front faces north): closed or open. */
         endYW: sideState().optional(),
       })
       .optional(),

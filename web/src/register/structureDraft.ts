@@ -3,6 +3,12 @@
  * to the API's structure input. Speeds are typed in the person's unit and sent in m/s; a speed
  * that was loaded and not touched is sent back exactly as stored, so opening and saving a record
  * never shifts a rated gust by a rounding error.
+ *
+ * A new draft is empty: no dimension, face or mass has a value nobody typed, and an empty field
+ * the record needs is reported "is required" (`draftRecord`), never filled with a default. Empty
+ * optional fields are left out of the record, so the engine's documented default applies.
+ * Loading a stored record and saving it again gives the same record, with one exception: a tent
+ * saved with `wallsClosed` comes back with the four `sides` it stands for (the form sets each side).
  */
 import type { LevelDefinition, StructureKind, StructureView } from '../types.ts';
 import { mpsToSpeed, speedToMps, type SpeedUnit } from '../units.ts';
@@ -14,12 +20,33 @@ export interface FaceRow {
   centroidHeightM: string;
   cfFront: string;
   cfBack: string;
+  /** Which way the face's front side looks, relative to the structure's front, degrees; empty or absent: left out (0). */
+  facingDeg?: string;
 }
 export interface MassRow {
   label: string;
   massKg: string;
   xM: string;
+  /** From the y = 0 end, m; empty or absent: left out (the middle of the base width). */
+  yM?: string;
 }
+/** A custom record's uplift as typed. */
+export interface UpliftDraft {
+  planAreaM2: string;
+  liftCoefficient: string;
+  /** From the front edge, m; empty or absent: left out (the middle of the base). */
+  xM?: string;
+  /** From the y = 0 end, m; empty or absent: left out (the middle of the base). */
+  yM?: string;
+  /** Kept from a loaded record so that saving keeps it; the form does not show it. */
+  label?: string;
+}
+
+/** A face row with nothing typed in it. */
+export const emptyFaceRow = (): FaceRow => ({ label: '', areaM2: '', centroidHeightM: '', cfFront: '', cfBack: '', facingDeg: '' });
+/** A mass row with nothing typed in it. */
+export const emptyMassRow = (): MassRow => ({ label: '', massKg: '', xM: '', yM: '' });
+const emptyUplift = (): UpliftDraft => ({ planAreaM2: '', liftCoefficient: '', xM: '', yM: '' });
 export interface LevelRowDraft {
   label: string;
   kind: 'utilization' | 'gust';
@@ -35,7 +62,7 @@ export interface Draft {
   faces: FaceRow[];
   masses: MassRow[];
   upliftOn: boolean;
-  uplift: { planAreaM2: string; liftCoefficient: string };
+  uplift: UpliftDraft;
   orientationDeg: string;
   location: string;
   latDeg: string;
@@ -78,10 +105,10 @@ export function newDraft(kind: StructureKind, siteLevels: readonly LevelDefiniti
     kind,
     name: '',
     values,
-    faces: [{ label: 'board', areaM2: '6', centroidHeightM: '2', cfFront: '1.8', cfBack: '1.8' }],
-    masses: [{ label: 'ballast', massKg: '1000', xM: '0.75' }],
+    faces: [emptyFaceRow()],
+    masses: [emptyMassRow()],
     upliftOn: false,
-    uplift: { planAreaM2: '', liftCoefficient: '' },
+    uplift: emptyUplift(),
     orientationDeg: '0',
     location: '',
     latDeg: '',
@@ -101,6 +128,9 @@ export function switchKind(d: Draft, kind: StructureKind, siteLevels: readonly L
   for (const f of commonFields) if (d.values[f.path] !== undefined) kept[f.path] = d.values[f.path]!;
   return { ...d, kind, values: kept };
 }
+
+/** The tent's four side fields (kindFields.ts), filled from `wallsClosed` when a record gives that instead. */
+const tentSidePaths = ['sides.front', 'sides.back', 'sides.endY0', 'sides.endYW'] as const;
 
 function getPath(obj: unknown, path: string): unknown {
   return path.split('.').reduce<unknown>((o, k) => (o !== null && typeof o === 'object' ? (o as Record<string, unknown>)[k] : undefined), obj);
@@ -130,12 +160,28 @@ export function draftFromView(view: StructureView, siteLevels: readonly LevelDef
       d.loadedSpeeds[f.path] = [text, v];
     } else d.values[f.path] = String(v);
   }
+  if (view.record.kind === 'tent' && view.record.wallsClosed !== undefined) {
+    // A record with `wallsClosed` (all sides at once): each side it does not list takes that state.
+    const state = view.record.wallsClosed ? 'closed' : 'open';
+    for (const side of tentSidePaths) d.values[side] ??= state;
+  }
   if (view.record.kind === 'custom') {
     const r = view.record;
-    d.faces = r.faces.map((f) => ({ label: f.label ?? '', areaM2: String(f.areaM2), centroidHeightM: String(f.centroidHeightM), cfFront: String(f.cfFront), cfBack: String(f.cfBack) }));
-    d.masses = r.masses.map((m) => ({ label: m.label ?? '', massKg: String(m.massKg), xM: String(m.xM) }));
+    const text = (v: number | undefined): string => (v === undefined ? '' : String(v));
+    d.faces = r.faces.map((f) => ({
+      label: f.label ?? '',
+      areaM2: String(f.areaM2),
+      centroidHeightM: String(f.centroidHeightM),
+      cfFront: String(f.cfFront),
+      cfBack: String(f.cfBack),
+      facingDeg: text(f.facingDeg),
+    }));
+    d.masses = r.masses.map((m) => ({ label: m.label ?? '', massKg: String(m.massKg), xM: String(m.xM), yM: text(m.yM) }));
     d.upliftOn = r.uplift !== undefined;
-    d.uplift = r.uplift ? { planAreaM2: String(r.uplift.planAreaM2), liftCoefficient: String(r.uplift.liftCoefficient) } : d.uplift;
+    if (r.uplift) {
+      d.uplift = { planAreaM2: String(r.uplift.planAreaM2), liftCoefficient: String(r.uplift.liftCoefficient), xM: text(r.uplift.xM), yM: text(r.uplift.yM) };
+      if (r.uplift.label !== undefined) d.uplift.label = r.uplift.label;
+    }
   }
   d.orientationDeg = String(view.orientationDeg);
   d.location = view.location;
@@ -162,12 +208,37 @@ function numberOrText(text: string, path: string, issues: LocalIssues, int = fal
   return n;
 }
 
-/** The engine record the draft describes (invalid values are passed on for the server to name). */
+/** An empty field the record needs: reported here, so no default ever stands in for it. */
+const required = 'is required';
+
+/** A row's field: the number typed, "is required" when empty and needed, left out when empty and optional. */
+function rowNumber(text: string | undefined, path: string, issues: LocalIssues, optional = false): number | string | undefined {
+  if ((text ?? '').trim() === '') {
+    if (!optional) issues.set(path, required);
+    return undefined;
+  }
+  return numberOrText(text!, path, issues);
+}
+
+/** Sets `target[key]` unless the value is undefined (an empty optional field is left out, not sent as null). */
+function put(target: Record<string, unknown>, key: string, value: unknown): void {
+  if (value !== undefined) target[key] = value;
+}
+
+/**
+ * The engine record the draft describes (invalid values are passed on for the server to name).
+ * Empty optional fields are left out; an empty required field is left out and reported in
+ * `issues` as "is required".
+ */
 export function draftRecord(d: Draft, unit: SpeedUnit, issues: LocalIssues = new Map()): Record<string, unknown> {
   const record: Record<string, unknown> = { kind: d.kind, name: d.name.trim() };
+  if (record.name === '') issues.set('name', required);
   for (const f of fieldsOf(d.kind)) {
     const text = d.values[f.path] ?? '';
-    if (text.trim() === '') continue;
+    if (text.trim() === '') {
+      if (!f.optional) issues.set(f.path, required);
+      continue;
+    }
     let value: unknown;
     switch (f.kind) {
       case 'bool':
@@ -195,20 +266,26 @@ export function draftRecord(d: Draft, unit: SpeedUnit, issues: LocalIssues = new
     record.faces = d.faces.map((f, i) => {
       const face: Record<string, unknown> = {};
       if (f.label.trim()) face.label = f.label.trim();
-      for (const k of ['areaM2', 'centroidHeightM', 'cfFront', 'cfBack'] as const) face[k] = numberOrText(f[k], `faces.${i}.${k}`, issues);
+      for (const k of ['areaM2', 'centroidHeightM', 'cfFront', 'cfBack'] as const) put(face, k, rowNumber(f[k], `faces.${i}.${k}`, issues));
+      put(face, 'facingDeg', rowNumber(f.facingDeg, `faces.${i}.facingDeg`, issues, true));
       return face;
     });
     record.masses = d.masses.map((m, i) => {
       const mass: Record<string, unknown> = {};
       if (m.label.trim()) mass.label = m.label.trim();
-      for (const k of ['massKg', 'xM'] as const) mass[k] = numberOrText(m[k], `masses.${i}.${k}`, issues);
+      for (const k of ['massKg', 'xM'] as const) put(mass, k, rowNumber(m[k], `masses.${i}.${k}`, issues));
+      put(mass, 'yM', rowNumber(m.yM, `masses.${i}.yM`, issues, true));
       return mass;
     });
     if (d.upliftOn) {
-      record.uplift = {
-        planAreaM2: numberOrText(d.uplift.planAreaM2, 'uplift.planAreaM2', issues),
-        liftCoefficient: numberOrText(d.uplift.liftCoefficient, 'uplift.liftCoefficient', issues),
-      };
+      const uplift: Record<string, unknown> = {};
+      const label = d.uplift.label?.trim();
+      if (label) uplift.label = label;
+      put(uplift, 'planAreaM2', rowNumber(d.uplift.planAreaM2, 'uplift.planAreaM2', issues));
+      put(uplift, 'liftCoefficient', rowNumber(d.uplift.liftCoefficient, 'uplift.liftCoefficient', issues));
+      put(uplift, 'xM', rowNumber(d.uplift.xM, 'uplift.xM', issues, true));
+      put(uplift, 'yM', rowNumber(d.uplift.yM, 'uplift.yM', issues, true));
+      record.uplift = uplift;
     }
   }
   return record;
