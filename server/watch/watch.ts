@@ -9,9 +9,10 @@
  *
  * Why the per-reading cost stays flat with many structures: without directional assessment,
  * a structure's gust is max over its sensors of g_s · f(z_s → z_t), and the height factor
- * f = max(1, r(z_t)/r(z_s)) with r(z) = √q_p(z) (EN 1991-1-4 4.8) splits, so
- *   max_s g_s·f = max( max_s g_s , r(z_t) · max_s (g_s / r(z_s)) )
- * (without the max(1, ·) when the site allows reduction). The two site-wide maxima are found
+ * f = max(1, r(z_t)/r(z_s), u(z_t)/u(z_s)) with r(z) = √c_e(z) (EN 1991-1-4 4.9, clamped at
+ * z_min) and u(z) the same unclamped (a mast below z_min: design §2.2 v2) splits, so
+ *   max_s g_s·f = max( max_s g_s , r(z_t) · max_s (g_s / r(z_s)), u(z_t) · max_s (g_s / u(z_s)) )
+ * (without the first term when the site allows reduction). The three site-wide maxima are found
  * once per reading; each structure then costs two multiplications and a comparison, and none
  * at all when neither maximum moved. Structures with their own sensor list, or a site with
  * directional assessment, take the direct loop over their sensors.
