@@ -23,7 +23,7 @@
  */
 import { assertAirDensity } from './air.ts';
 import { dynamicPressurePa, speedForDynamicPressureMps } from './dynamicPressure.ts';
-import { assessedDirectionsDeg, faceIncidence, faceNormal, inSector, wrappedDeg, type DirectionSector } from './directions.ts';
+import { assessedDirectionsDeg, azimuthDeg, faceIncidence, faceNormal, inSector, wrappedDeg, type DirectionSector } from './directions.ts';
 import { standardGravityMps2 } from './gravity.ts';
 import { assertAbove, assertInRange } from './rangeCheck.ts';
 import type { ExpandedStructure, SafetyFactors, StabilityBody, Uplift } from './structure.ts';
@@ -83,6 +83,8 @@ export interface BodyCoefficients {
   baseDepthM: number;
   baseWidthM: number | null;
   directions: DirectionCoefficients[];
+  /** Directions found between grid points where k peaks (see `interiorMaximaDeg`); already in `directions` once aligned. */
+  refinedDeg: number[];
 }
 
 /** A whole structure: its body, its elements and the rating. Compute once, evaluate per gust. */
@@ -145,7 +147,17 @@ function checkedUplift(caller: string, path: string, uplift: Uplift, depthM: num
  * The direction coefficients of one body. Checks every number and throws a RangeError naming the
  * offending field: a NaN here would hide a failure.
  */
-export function bodyCoefficients(body: StabilityBody, element: string | null = null, extraDirectionsDeg: readonly number[] = []): BodyCoefficients {
+export interface BodyDirectionOptions {
+  /** Facings of other parts' faces, whose normals and ψ corners are assessed too. */
+  facingsDeg?: readonly number[];
+  /** Directions assessed exactly as given. */
+  exactDeg?: readonly number[];
+  /** Search between the directions for peaks of k (default true). */
+  refine?: boolean;
+}
+
+export function bodyCoefficients(body: StabilityBody, element: string | null = null, options: BodyDirectionOptions = {}): BodyCoefficients {
+  const { facingsDeg = [], exactDeg = [], refine = true } = options;
   const caller = element === null ? 'stabilityCoefficients' : `stabilityCoefficients (element "${element}")`;
   const depthM = body.baseDepthM;
   assertAbove(caller, 'baseDepthM', depthM, 0, 200, 'm');
@@ -188,8 +200,8 @@ export function bodyCoefficients(body: StabilityBody, element: string | null = n
   }));
 
   const { safetyFactors, frictionCoefficient: mu } = body;
-  const directionsDeg = assessedDirectionsDeg([...faces.map((face) => face.facingDeg), ...extraDirectionsDeg]);
-  const directions = directionsDeg.map((directionDeg): DirectionCoefficients => {
+  const directionsDeg = mergedDeg(assessedDirectionsDeg([...faces.map((face) => face.facingDeg), ...facingsDeg]), exactDeg);
+  const assessDirection = (directionDeg: number): DirectionCoefficients => {
     let forceX = 0;
     let forceY = 0;
     const faceMoment: Record<Edge, number> = { front: 0, back: 0, endY0: 0, endYW: 0 };
@@ -246,7 +258,11 @@ export function bodyCoefficients(body: StabilityBody, element: string | null = n
       if (best === null || candidate.utilizationPerPa.governing > best.utilizationPerPa.governing) best = candidate;
     }
     return best!;
-  });
+  };
+  const gridDirections = directionsDeg.map(assessDirection);
+  const refinedDeg = refine ? interiorMaximaDeg(gridDirections, assessDirection) : [];
+  const directions =
+    refinedDeg.length === 0 ? gridDirections : mergedDeg(directionsDeg, refinedDeg).map((deg) => gridDirections.find((d) => d.directionDeg === deg) ?? assessDirection(deg));
 
   return {
     element,
@@ -257,7 +273,50 @@ export function bodyCoefficients(body: StabilityBody, element: string | null = n
     baseDepthM: depthM,
     baseWidthM: strip ? null : widthM,
     directions,
+    refinedDeg,
   };
+}
+
+/**
+ * Directions between two assessed ones where the governing k peaks inside the interval. Between
+ * ψ's corners every face force is constant or a cosine of θ, so a sum of them can peak between
+ * grid points when two faces change in opposite senses. Where the midpoint of an interval is
+ * above both ends, a golden-section search finds the peak (to about 0.001°); it is then assessed
+ * too. Design §2.3 asks for at least every 15° and each face normal: this only adds directions.
+ */
+function interiorMaximaDeg(directions: readonly DirectionCoefficients[], assess: (deg: number) => DirectionCoefficients): number[] {
+  const k = (deg: number) => assess(deg).utilizationPerPa.governing;
+  const found: number[] = [];
+  for (let i = 0; i < directions.length; i++) {
+    const a = directions[i]!.directionDeg;
+    const b = i + 1 < directions.length ? directions[i + 1]!.directionDeg : directions[0]!.directionDeg + 360;
+    const ka = directions[i]!.utilizationPerPa.governing;
+    const kb = directions[(i + 1) % directions.length]!.utilizationPerPa.governing;
+    if (!Number.isFinite(ka) || !Number.isFinite(kb) || b - a < 0.01) continue;
+    const kMid = k((a + b) / 2);
+    if (!(kMid > Math.max(ka, kb) * (1 + 1e-12))) continue;
+    let lo = a;
+    let hi = b;
+    const ratio = (Math.sqrt(5) - 1) / 2;
+    for (let step = 0; step < 30; step++) {
+      const x1 = hi - ratio * (hi - lo);
+      const x2 = lo + ratio * (hi - lo);
+      if (k(x1) >= k(x2)) hi = x2;
+      else lo = x1;
+    }
+    found.push(((lo + hi) / 2) % 360);
+  }
+  return found;
+}
+
+/** Directions in [0, 360) from both lists, sorted, without repeats (to 1e-9°). */
+function mergedDeg(a: readonly number[], b: readonly number[]): number[] {
+  const found = new Map<number, number>();
+  for (const deg of [...a, ...b]) {
+    const value = Math.round(azimuthDeg(deg) * 1e9) / 1e9;
+    found.set(value === 360 ? 0 : value, value === 360 ? 0 : value);
+  }
+  return [...found.values()].sort((x, y) => x - y);
 }
 
 /** The edge the horizontal force pushes across (for a direction with nothing to tip). */
@@ -271,12 +330,18 @@ export function stabilityCoefficients(structure: ExpandedStructure): StabilityCo
   if (structure.ratedGustMps !== undefined) assertAbove('stabilityCoefficients', 'ratedGustMps', structure.ratedGustMps, 0, 120, 'm/s');
   // Every part is assessed in every direction any part has a face normal in, so that the
   // structure's directions line up across its parts.
-  const normals = [structure, ...(structure.elements ?? [])].flatMap((part) => part.faces.map((face) => face.facingDeg ?? 0));
-  return {
-    body: bodyCoefficients(structure, null, normals),
-    elements: (structure.elements ?? []).map((element) => bodyCoefficients(element, element.name, normals)),
-    ratedGustMps: structure.ratedGustMps ?? null,
-  };
+  const allParts = [structure, ...(structure.elements ?? [])];
+  const normals = allParts.flatMap((part) => part.faces.map((face) => face.facingDeg ?? 0));
+  // First pass: each part finds where its k peaks between the shared directions; second pass:
+  // every part is assessed at all of them, so the parts' directions stay aligned.
+  const names = [null, ...(structure.elements ?? []).map((element) => element.name)];
+  const first = allParts.map((part, index) => bodyCoefficients(part, names[index]!, { facingsDeg: normals }));
+  const refined = first.flatMap((part) => part.refinedDeg);
+  const parts =
+    refined.length === 0 || allParts.length === 1
+      ? first
+      : allParts.map((part, index) => ({ ...bodyCoefficients(part, names[index]!, { facingsDeg: normals, exactDeg: refined, refine: false }), refinedDeg: first[index]!.refinedDeg }));
+  return { body: parts[0]!, elements: parts.slice(1), ratedGustMps: structure.ratedGustMps ?? null };
 }
 
 /** k × q, with an unbounded k giving 0 at q = 0 (no wind, no load) and Infinity above. */

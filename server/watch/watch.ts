@@ -1128,7 +1128,7 @@ function brokenStructure(row: StructureRow, err: unknown, nowMs: number, old: St
       sensorKeys: null,
       expanded: { baseDepthM: 1, frictionCoefficient: 0.3, faces: [], masses: [], safetyFactors: { ...defaultSafetyFactors } },
       // Never assessed: a broken structure shows its error and counts as no data.
-      coefficients: { body: { element: null, strip: true, weightN: 0, frictionCoefficient: 0.3, safetyFactors: { ...defaultSafetyFactors }, baseDepthM: 1, baseWidthM: null, directions: [] }, elements: [], ratedGustMps: null },
+      coefficients: { body: { element: null, strip: true, weightN: 0, frictionCoefficient: 0.3, safetyFactors: { ...defaultSafetyFactors }, baseDepthM: 1, baseWidthM: null, directions: [], refinedDeg: [] }, elements: [], ratedGustMps: null },
       referenceHeightM: 1,
       levels: [],
       ratedGustMps: null,

@@ -236,7 +236,18 @@ function expandQuarterSphere(record: ShellRecord): Expansion {
     liftSources.push(givenCoefficient('c_lift on the plan area πR²/2 (every direction)', given, coefficientSource));
     uplift = { label: 'shell (given c_lift)', planAreaM2: halfDiscAreaM2, liftCoefficient: given, ...planPoint };
   } else if (open) {
-    const cup = liftNote('c_lift wind into the open side (within 90° of the front), on πR²/2', [shellCoefficients.cupLift]);
+    // Wind into the opening: the larger of two readings of the same state, the cup's drag taken as
+    // lift (our derivation) and crown suction plus the internal pressure of a windward dominant
+    // opening (as for a dome with its door windward): 1.2 + 0.72 = 1.92 > 1.42.
+    const asCup = shellCoefficients.cupLift.value;
+    const asOpening = shellCoefficients.crownSuctionLift.value + shellCoefficients.windwardOpeningInternalPressure.value;
+    const cup =
+      asOpening >= asCup
+        ? liftNote('c_lift wind into the open side (within 90° of the front), on πR²/2: crown suction plus a windward dominant opening, above the cup reading ' + asCup, [
+            shellCoefficients.crownSuctionLift,
+            shellCoefficients.windwardOpeningInternalPressure,
+          ])
+        : liftNote('c_lift wind into the open side (within 90° of the front), on πR²/2', [shellCoefficients.cupLift]);
     const crown = liftNote(
       'c_lift wind onto the convex back (within 90° of the back), on πR²/2; the wake inside is not credited',
       [shellCoefficients.crownSuctionLift],
@@ -282,7 +293,7 @@ function expandQuarterSphere(record: ShellRecord): Expansion {
       given !== undefined
         ? 'Uplift as given in the record, at the centroid of the plan half disc.'
         : open
-          ? `Uplift on the plan half disc πR²/2 at its centroid ${centroidM.toFixed(3)} m behind the opening: c_lift ${shellCoefficients.cupLift.value} with the wind into the open side, ` +
+          ? `Uplift on the plan half disc πR²/2 at its centroid ${centroidM.toFixed(3)} m behind the opening: c_lift ${Math.max(shellCoefficients.cupLift.value, shellCoefficients.crownSuctionLift.value + shellCoefficients.windwardOpeningInternalPressure.value).toFixed(2)} with the wind into the open side (the larger of the cup reading ${shellCoefficients.cupLift.value} and crown suction plus a windward opening), ` +
             `${shellCoefficients.crownSuctionLift.value} onto the back (both at 90° to the front: the larger governs).`
           : `Uplift on the plan half disc at its centroid: c_lift ${shellCoefficients.crownSuctionLift.value + shellCoefficients.enclosedInternalPressure.value} in every direction (crown suction and internal pressure).`,
       'Only weight resists: stakes and ground anchors are not credited.',

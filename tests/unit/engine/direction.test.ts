@@ -46,11 +46,10 @@ describe('the structure frame and face incidence (design §2.3 v2)', () => {
     expect(inSector(60, { centreDeg: 20, halfWidthDeg: 30 })).toBe(false);
   });
 
-  it('assesses every 15° plus each face normal, both ways', () => {
+  it('assesses every 15° plus, for each face, both normals, the ψ corners 60° off them and edge-on', () => {
     const directions = assessedDirectionsDeg([7]);
-    expect(directions).toHaveLength(26);
-    expect(directions).toContain(7);
-    expect(directions).toContain(187);
+    expect(directions).toHaveLength(24 + 8);
+    for (const deg of [7, 67, 97, 127, 187, 247, 277, 307]) expect(directions).toContain(deg);
   });
 });
 

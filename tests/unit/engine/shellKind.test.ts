@@ -92,15 +92,16 @@ describe('band shell (quarter sphere), hand-worked', () => {
   // Masses: 1200 kg at x 2, 1000 at 0, 600 at 4: W = 2800 g = 27458.62 N.
   //   M_w about the back edge = g (1200·2 + 1000·4) = 6400 g = 62762.56 N·m;
   //   about the front edge = g (1200·2 + 600·4) = 4800 g = 47071.92 N·m; about either end = 2800 g · 4 = 109834.48 N·m.
-  // θ = 0 (into the cup): F = 1.42 · 25.132741 · q = 35.688493 q = 4918.320 N; F_up (cup, 1.42) the same 4918.320 N.
-  //   Back edge: M = 1.697653 · 4918.320 + 4918.320 · (4 − 1.697653) = 4918.320 · 4 = 19673.282 N·m;
-  //   U_ot = 1.5 · 19673.282 / 62762.56 = 0.470184; U_sl = 2 (4918.320 + 0.3 · 4918.320) / (0.3 · 27458.62) = 1.552352;
-  //   U_up = 1.5 · 4918.320 / 27458.62 = 0.268676.
+  // θ = 0 (into the cup): F = 1.42 · 25.132741 · q = 35.688493 q = 4918.320 N; F_up with the wind into the opening takes the
+  //   larger of the cup reading 1.42 and crown suction 1.2 + windward-opening c_pi 0.72 = 1.92: 1.92 · 25.132741 · q = 6650.123 N.
+  //   Back edge: M = 1.697653 · 4918.320 + 6650.123 · (4 − 1.697653) = 23660.493 N·m;
+  //   U_ot = 1.5 · 23660.493 / 62762.56 = 0.565476; U_sl = 2 (4918.320 + 0.3 · 6650.123) / (0.3 · 27458.62) = 1.678491;
+  //   U_up = 1.5 · 6650.123 / 27458.62 = 0.363281.
   // θ = 45: both faces full (ψ = 1): F = √(4918.320² + 2459.160²) = 5498.849 N;
-  //   U_sl = 2 (5498.849 + 1475.496) / 8237.586 = 1.693298 — the worst, for every θ from 30° to 60°:
-  //   limit q = 137.8125 / 1.693298 = 81.3870 Pa → v = √(2 · 81.3870 / 1.225) = 11.5272 m/s.
+  //   U_sl = 2 (5498.849 + 0.3 · 6650.123) / 8237.586 = 1.819437 — the worst, for every θ from 30° to 60°:
+  //   limit q = 137.8125 / 1.819437 = 75.7447 Pa → v = √(2 · 75.7447 / 1.225) = 11.1205 m/s.
   // θ = 90 (onto the y = w end): F = 1.42 · 12.566371 · q = 2459.160 N toward −y; cup lift still applies (90° is on
-  //   both sectors: the larger, 1.42, governs); U_sl = 2 (2459.160 + 1475.496) / 8237.586 = 0.955294.
+  //   both sectors: the larger, 1.92, governs); U_sl = 2 (2459.160 + 0.3 · 6650.123) / 8237.586 = 1.081433.
   // θ = 180 (onto the convex back): F = 0.38 · 25.132741 · q = 1316.170 N; F_up = 1.2 · 25.132741 · q = 4156.327 N;
   //   front edge: M = 1.697653 · 1316.170 + 4156.327 · 1.697653 = 9290.40 N·m; U_ot = 1.5 · 9290.40 / 47071.92 = 0.296049.
   const shell = record({ kind: 'shell', name: 'Riverside band shell', radiusM: 4, selfWeightKg: 1200, frontBallastKg: 1000, backBallastKg: 600 });
@@ -119,10 +120,10 @@ describe('band shell (quarter sphere), hand-worked', () => {
     expect(expansion.referenceHeightM).toBe(4);
   });
 
-  it('lifts by default: cup 1.42 within 90° of the front, crown suction 1.2 from behind, at the plan centroid toward the front', () => {
+  it('lifts by default: 1.92 within 90° of the front (crown suction 1.2 + windward opening 0.72, above the cup reading 1.42), crown suction 1.2 from behind, at the plan centroid toward the front', () => {
     const cases = expansion.structure.upliftCases!;
     expect(cases.map((c) => [c.centreDeg, c.halfWidthDeg, c.liftCoefficient])).toEqual([
-      [0, 90, 1.42],
+      [0, 90, 1.92],
       [180, 90, 1.2],
     ]);
     for (const c of cases) {
@@ -136,19 +137,19 @@ describe('band shell (quarter sphere), hand-worked', () => {
   it('gives the hand-worked loads and utilizations onto the front, the end and the back', () => {
     const front = direction(report, 0);
     expect(front.horizontalForceN).toBeCloseTo(4918.32, 2);
-    expect(front.upliftN).toBeCloseTo(4918.32, 2);
+    expect(front.upliftN).toBeCloseTo(6650.123, 2);
     expect(front.tippingEdge).toBe('back');
-    expect(front.overturningMomentNm).toBeCloseTo(19673.282, 2);
-    expect(front.utilization.overturning).toBeCloseTo(0.470184, 6);
-    expect(front.utilization.sliding).toBeCloseTo(1.552352, 6);
-    expect(front.utilization.uplift).toBeCloseTo(0.268676, 6);
+    expect(front.overturningMomentNm).toBeCloseTo(23660.493, 2);
+    expect(front.utilization.overturning).toBeCloseTo(0.565476, 6);
+    expect(front.utilization.sliding).toBeCloseTo(1.678491, 6);
+    expect(front.utilization.uplift).toBeCloseTo(0.363281, 6);
     const oblique = direction(report, 45);
     expect(oblique.horizontalForceN).toBeCloseTo(5498.849, 2);
-    expect(oblique.utilization.sliding).toBeCloseTo(1.693298, 6);
+    expect(oblique.utilization.sliding).toBeCloseTo(1.819437, 6);
     const end = direction(report, 90);
     expect(end.horizontalForceN).toBeCloseTo(2459.16, 2);
-    expect(end.upliftN).toBeCloseTo(4918.32, 2);
-    expect(end.utilization.sliding).toBeCloseTo(0.955294, 6);
+    expect(end.upliftN).toBeCloseTo(6650.123, 2);
+    expect(end.utilization.sliding).toBeCloseTo(1.081433, 6);
     const back = direction(report, 180);
     expect(back.horizontalForceN).toBeCloseTo(1316.17, 2);
     expect(back.upliftN).toBeCloseTo(4156.327, 2);
@@ -157,11 +158,11 @@ describe('band shell (quarter sphere), hand-worked', () => {
     expect(back.utilization.overturning).toBeCloseTo(0.296049, 6);
   });
 
-  it('is governed by sliding in oblique wind into the cup, limit 11.5272 m/s', () => {
+  it('is governed by sliding in oblique wind into the cup, limit 11.1205 m/s', () => {
     expect(report.governing).toBe('sliding');
     expect([30, 45, 60]).toContain(report.governingDirectionDeg);
-    expect(report.utilization.sliding).toBeCloseTo(1.693298, 6);
-    expect(report.calculatedLimitGustMps).toBeCloseTo(11.5272, 4);
+    expect(report.utilization.sliding).toBeCloseTo(1.819437, 6);
+    expect(report.calculatedLimitGustMps).toBeCloseTo(11.1205, 4);
   });
 });
 
