@@ -205,7 +205,7 @@ export function expandBanner(record: BannerRecord): Expansion {
   const solidity = record.solidity ?? 1;
   const middleXM = footDepthM / 2;
   const centroidHeightM = clearanceM + heightM / 2;
-  const { settings, sources } = resistanceSettings(record);
+  const { settings, sources, warnings: resistanceWarnings } = resistanceSettings(record);
   const cf = chosenCoefficient(
     'c_f of the whole run on the gross area b·h (front and back)',
     boardForceCoefficient({ widthM: runLengthM, heightM, clearanceM, solidity }),
@@ -287,6 +287,7 @@ export function expandBanner(record: BannerRecord): Expansion {
     },
     referenceHeightM: record.referenceHeightM ?? clearanceM + heightM,
     sources: [cf, ...elementSources, ...sources],
+    warnings: resistanceWarnings,
     notes,
   };
 }

@@ -148,3 +148,14 @@ export const frictionBySurface = {
 } as const satisfies Record<string, SourcedValue>;
 
 export type Surface = keyof typeof frictionBySurface;
+
+/**
+ * Friction of steel feet or base plates (tent legs, screen outriggers) on a hard surface when the
+ * record gives none: lower than concrete ballast on concrete.
+ */
+export const steelFeetOnHardFriction: SourcedValue = {
+  value: 0.3,
+  source:
+    'EN 12812 range for steel on concrete 0.3–0.4, the lower end; HSE RR071 measured as low as 0.1 for steel on cast concrete: ' +
+    'give frictionCoefficient for the actual feet and surface',
+};

@@ -50,7 +50,7 @@ export const customRecordSchema = z
 export type CustomRecord = z.infer<typeof customRecordSchema>;
 
 export function expandCustom(record: CustomRecord): Expansion {
-  const { settings, sources } = resistanceSettings(record);
+  const { settings, sources, warnings: resistanceWarnings } = resistanceSettings(record);
   const highestCentroidM = Math.max(...record.faces.map((face) => face.centroidHeightM));
   const faceSources = record.faces.flatMap((face, index) => {
     const name = face.label ?? `face ${index + 1}`;
@@ -72,6 +72,14 @@ export function expandCustom(record: CustomRecord): Expansion {
     // The top of a rectangular face standing on the ground is twice its centroid height.
     referenceHeightM: record.referenceHeightM ?? 2 * highestCentroidM,
     sources: [...faceSources, ...liftSources, ...sources],
+    warnings: [
+      ...resistanceWarnings,
+      ...(record.referenceHeightM === undefined
+        ? [
+            `Reference height assumed ${(2 * highestCentroidM).toFixed(2)} m, twice the highest face centroid (the top of a rectangular face standing on the ground): for a gable, a raised or a tapered face the top is higher and the gust would be under-read — give referenceHeightM.`,
+          ]
+        : []),
+    ],
     notes: [
       record.referenceHeightM === undefined
         ? 'Reference height taken as twice the highest face centroid (the top of a face standing on the ground): give referenceHeightM when the structure is taller.'

@@ -7,7 +7,7 @@ import { z } from 'zod';
 import { defaultSafetyFactors, safetyFactorSources, criteria } from '../stability.ts';
 import type { ExpandedStructure, SafetyFactors } from '../structure.ts';
 import { dimensionM, frictionCoefficient, gustMps, safetyFactor, sourceText } from '../recordFields.ts';
-import { frictionBySurface, type SourcedValue } from './coefficients.ts';
+import { frictionBySurface, steelFeetOnHardFriction, type SourcedValue } from './coefficients.ts';
 
 export const recordBaseShape = {
   name: z.string().trim().min(1, 'must not be empty').max(200, 'must be at most 200 characters'),
@@ -50,17 +50,30 @@ export interface Expansion {
 }
 
 /** Friction, safety factors and rated gust of a record, with their sources. */
-export function resistanceSettings(record: RecordBase): {
+export function resistanceSettings(
+  record: RecordBase,
+  options: { steelFeet?: boolean } = {},
+): {
   settings: Pick<ExpandedStructure, 'frictionCoefficient' | 'safetyFactors' | 'ratedGustMps'>;
   sources: SourceNote[];
+  /** Sentences for the answer: a friction coefficient assumed rather than given. */
+  warnings: string[];
 } {
   const sources: SourceNote[] = [];
+  const warnings: string[] = [];
   const surface = record.surface ?? 'grass';
   const friction: SourcedValue =
-    record.frictionCoefficient === undefined
-      ? frictionBySurface[surface]
-      : { value: record.frictionCoefficient, source: 'given in the record' };
+    record.frictionCoefficient !== undefined
+      ? { value: record.frictionCoefficient, source: 'given in the record' }
+      : surface === 'hard' && options.steelFeet
+        ? steelFeetOnHardFriction
+        : frictionBySurface[surface];
   sources.push({ item: 'friction coefficient μ', ...friction });
+  if (record.frictionCoefficient === undefined && surface === 'hard') {
+    warnings.push(
+      `Friction μ ${friction.value} was assumed for ${options.steelFeet ? 'steel feet' : 'ballast'} on a hard surface; steel on smooth cast concrete can be as low as 0.1 (HSE RR071): give frictionCoefficient for the actual feet and surface.`,
+    );
+  }
 
   const given = record.safetyFactors ?? {};
   const safetyFactors: SafetyFactors = {
@@ -79,7 +92,7 @@ export function resistanceSettings(record: RecordBase): {
   if (record.ratedGustMps !== undefined) {
     sources.push({ item: 'rated gust, m/s', value: record.ratedGustMps, source: 'given in the record (designer or manufacturer)' });
   }
-  return { settings, sources };
+  return { settings, sources, warnings };
 }
 
 /** The default coefficient, or the record's override with its stated source. */

@@ -169,7 +169,7 @@ function rounded(value: number, places = 3): number {
 
 export function expandScreen(record: ScreenRecord): Expansion {
   const { widthM, heightM, bottomHeightM, outriggerDepthM, supportTowers } = record;
-  const { settings, sources: resistanceSources } = resistanceSettings(record);
+  const { settings, sources: resistanceSources, warnings: resistanceWarnings } = resistanceSettings(record, { steelFeet: true });
   const coefficients = screenCoefficients(record);
   const sources: SourceNote[] = [coefficients.screen, coefficients.tower, coefficients.truss];
   const towerWidthM = sizeM('tower width seen from the front, m', record.towerWidthM, memberSizes.towerWidthM, sources);
@@ -253,7 +253,7 @@ export function expandScreen(record: ScreenRecord): Expansion {
     `Loaded: the screen ${rounded(widthM)} × ${rounded(heightM)} m, ${supportTowers === 1 ? 'the tower' : `${supportTowers} towers`} ${rounded(towerWidthM)} m wide and ${rounded(towerDepthM)} m deep ` +
       `to ${rounded(towerHeightM)} m${trussDepthM > 0 ? `, a header truss ${rounded(trussLengthM)} × ${rounded(trussDepthM)} m` : ''}; every force × c_s·c_d = ${factor}. The screen is not credited with shielding the towers.`,
   ];
-  const warnings: string[] = [];
+  const warnings: string[] = [...resistanceWarnings];
   const elements: Element[] = [];
   if (towered) {
     const nearShare = 0.5 + eccentricityM / spacingM;

@@ -193,7 +193,7 @@ function expandQuarterSphere(record: ShellRecord): Expansion {
   const baseDepthM = record.baseDepthM ?? radiusM;
   const baseWidthM = record.baseWidthM ?? 2 * radiusM;
   const middleYM = baseWidthM / 2;
-  const { settings, sources } = resistanceSettings(record);
+  const { settings, sources, warnings: resistanceWarnings } = resistanceSettings(record);
   const front = chosenCoefficient(
     open ? 'c_f wind onto the front (into the open, concave side)' : 'c_f wind onto the front (flat face)',
     open ? defaultCoefficients.hollowHemisphereConcave : defaultCoefficients.solidHemisphereFlat,
@@ -282,6 +282,7 @@ function expandQuarterSphere(record: ShellRecord): Expansion {
     },
     referenceHeightM: record.referenceHeightM ?? baseHeightM + radiusM,
     sources: [front, back, side, ...liftSources, ...sources],
+    warnings: resistanceWarnings,
     notes: [
       'Shape: quarter sphere (a band shell), half a hemisphere standing on its cut; the cut is the front edge of the base.',
       open
@@ -308,7 +309,7 @@ function expandDome(record: ShellRecord): Expansion {
   const baseDepthM = record.baseDepthM ?? 2 * radiusM;
   const baseWidthM = record.baseWidthM ?? 2 * radiusM;
   const centre = { xM: baseDepthM / 2, yM: baseWidthM / 2 };
-  const { settings, sources } = resistanceSettings(record);
+  const { settings, sources, warnings: resistanceWarnings } = resistanceSettings(record);
   const front = chosenCoefficient('c_f wind onto the front', shellCoefficients.domeDrag, coefficients?.cfFront, coefficientSource);
   const back = chosenCoefficient('c_f wind onto the back', shellCoefficients.domeDrag, coefficients?.cfBack, coefficientSource);
   const side = chosenCoefficient('c_f wind onto either end', shellCoefficients.domeDrag, coefficients?.cfSide, coefficientSource);
@@ -371,6 +372,7 @@ function expandDome(record: ShellRecord): Expansion {
     },
     referenceHeightM: record.referenceHeightM ?? baseHeightM + radiusM,
     sources: [front, back, side, ...liftSources, ...sources],
+    warnings: resistanceWarnings,
     notes: [
       'Shape: hemisphere (a dome) standing on its circular base, centred on the base.',
       `Projected area from any side = half disc πR²/2 = ${halfDiscAreaM2.toFixed(2)} m² at 4R/(3π) = ${centroidM.toFixed(3)} m above the base; plan area πR² = ${planAreaM2.toFixed(2)} m².`,

@@ -46,7 +46,18 @@ function expectRelative(actual: number, expected: number, tolerance = 1e-12): vo
 const referenceScreen = {
   kind: 'screen', name: 'Main stage LED', widthM: 6, heightM: 4, bottomHeightM: 3, supportTowers: 2,
   towerMassKg: 400, screenMassKg: 600, outriggerDepthM: 5, ballastPerTowerKg: 1500, surface: 'hard',
+  // Given, so that the hand-worked figures below take concrete on concrete 0.4 (HSE RR071).
+  frictionCoefficient: 0.4,
 } as const;
+
+describe('friction of steel outrigger feet on a hard surface (review finding)', () => {
+  it('defaults to 0.3, the lower end of EN 12812 steel on concrete, and warns that smooth cast concrete can be 0.1 (HSE RR071)', () => {
+    const { frictionCoefficient: _given, ...withoutFriction } = referenceScreen;
+    const expansion = expandStructure(record(withoutFriction));
+    expect(expansion.structure.frictionCoefficient).toBe(0.3);
+    expect(expansion.warnings!.join(' ')).toMatch(/0\.1 \(HSE RR071\)/);
+  });
+});
 
 describe('the references.md §9 screen, towers and truss left out (EN 1991-1-4 §7.4.3)', () => {
   const screen = record({ ...referenceScreen, towerWidthM: 0, headerTrussDepthM: 0 });
