@@ -100,8 +100,11 @@ const clean = { overlapping: [], outside: [] };
 async function shot(page: Page, name: string, selector?: string): Promise<void> {
   fs.mkdirSync(shotDir, { recursive: true });
   const file = path.join(shotDir, `${name}.png`);
+  // The sticky header and tab bar would otherwise sit over the middle of a tall capture.
+  await page.evaluate(`document.querySelectorAll('.top, .tabs, .alert-strip, .form-side').forEach((e) => { e.style.position = 'static'; e.style.maxHeight = 'none'; })`);
   if (selector) await page.locator(selector).first().screenshot({ path: file });
   else await page.screenshot({ path: file, fullPage: true });
+  await page.evaluate(`document.querySelectorAll('.top, .tabs, .alert-strip, .form-side').forEach((e) => { e.style.position = ''; e.style.maxHeight = ''; })`);
 }
 
 describe.skipIf(skipBrowserTests)('plan view and governing words in a real browser', () => {
@@ -164,6 +167,7 @@ describe.skipIf(skipBrowserTests)('plan view and governing words in a real brows
     await expect(table.locator('tbody tr.gov-row').count()).resolves.toBe(1);
     await expect(page.getByRole('note').filter({ hasText: 'Decision support only' }).count()).resolves.toBeGreaterThan(0);
     await shot(page, 'form-results-phone', 'aside.form-side');
+    await shot(page, 'form-directions-phone', 'aside.form-side .results');
     await page.setViewportSize(wide);
     expect(await textProblems(page, 'svg[data-testid=plan-view]')).toEqual(clean);
     await shot(page, 'form-desktop');
@@ -202,12 +206,16 @@ describe.skipIf(skipBrowserTests)('plan view and governing words in a real brows
     expect(await textProblems(page, 'svg[data-testid=plan-view]')).toEqual(clean);
     expect(await textProblems(page, 'svg[data-testid=side-view]')).toEqual(clean);
     await shot(page, 'structure-phone');
+    await page.evaluate('window.scrollTo(0, 0)');
+    await page.screenshot({ path: path.join(shotDir, 'structure-top-phone.png') });
     await page.setViewportSize(wide);
     await shot(page, 'structure-desktop');
     await page.setViewportSize(phone);
     await page.goto(`${e2e.baseUrl}/#/structure/${stripId}`);
     await page.getByTestId('assess-warnings').first().waitFor();
     await expect(page.getByTestId('assess-warnings').first().textContent()).resolves.toContain('not checked');
+    await page.evaluate('window.scrollTo(0, 0)');
+    await page.screenshot({ path: path.join(shotDir, 'structure-strip-top-phone.png') });
   });
 
   it('with wind on site the card and the page name what governs at the current gust, in the dark theme too', async () => {
@@ -226,6 +234,8 @@ describe.skipIf(skipBrowserTests)('plan view and governing words in a real brows
       await page.locator('svg[data-testid=plan-view]').waitFor();
       expect(await textProblems(page, 'svg[data-testid=plan-view]')).toEqual(clean);
       await shot(page, 'structure-dark-phone');
+      await page.evaluate('window.scrollTo(0, 0)');
+      await page.screenshot({ path: path.join(shotDir, 'structure-top-dark-phone.png') });
       await shot(page, 'structure-figures-dark-phone', '.how-calculated .figures');
       await page.setViewportSize(wide);
       await shot(page, 'structure-dark-desktop');

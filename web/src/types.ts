@@ -5,6 +5,7 @@
  */
 import type { OpenAlert, SensorState, StructureState, Watch } from '../../server/watch/watch.ts';
 import type { AssessmentReport } from '../../server/engine/assess.ts';
+import type { RequiredBallast } from '../../server/engine/stability.ts';
 import type { StructureRecord, StructureKind } from '../../server/engine/record.ts';
 import type { DaySummary, StructureDay, SensorDay } from '../../server/storage/daySummary.ts';
 import type { WindSeries, StructureSeries } from '../../server/storage/logQueries.ts';
@@ -54,11 +55,11 @@ export interface FieldIssue {
   message: string;
 }
 
-/** POST /api/assess with the extensions `levels` and `designGustMps`. */
+/** POST /api/assess with the extensions `levels`, `designGustMps` (and `ballastXM`, `ballastYM`) and `frontAzimuthDeg`. */
 export type AssessAnswer = AssessmentReport & {
   levels?: Array<{ level: number; label: string; trigger: LevelTrigger; triggerGustMps: number | null }>;
   levelOrderProblems?: FieldIssue[];
-  requiredBallast?: { designGustMps: number; xM: number; massKg: number | null; possible: boolean };
+  requiredBallast?: { designGustMps: number; xM: number; yM: number } & RequiredBallast;
 };
 
 /** GET /api/site */

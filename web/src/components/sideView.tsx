@@ -1,91 +1,356 @@
 /**
- * A side view of a structure as the calculator sees it: the base (its depth along the wind), each
- * wind-loaded face as a rectangle at its heights with its force arrow at the centroid, each mass
- * as a block at its position with its kilograms, the edge it tips about, and the wind.
+ * A side view of the governing case as the calculator sees it: the base along the wind, each
+ * wind-loaded face at its height with its extent and its force arrow at the centroid (the force's
+ * component along the view, in the governing wind), each mass as a block at its position with its
+ * kilograms, the uplift, the edge the overturning check tips about, the height the gust is taken
+ * at, and the wind coming from the side it comes from.
  *
- * Faces carry only an area and a centroid height; their vertical extent comes from the kind's
- * dimensions when the record has them (a tent wall runs from the ground to the eaves), otherwise
- * a face is drawn standing on the ground (top = twice its centroid), as the engine assumes for
- * the reference height of a custom record.
+ * The view looks along the base edge that matters: across the depth (front on the left, back on
+ * the right) when the case tips about the front or back edge or the wind is more onto the front
+ * or back; along the width (y = 0 end on the left) when it tips about an end or the wind is more
+ * onto an end. A structure with elements can be drawn part by part (the governing one first).
+ *
+ * Faces carry an area and a centroid height only. Their extent comes from the heights the record
+ * gives (a tent wall from the ground to the eaves, a screen from its bottom edge up), taken so
+ * that the centroid is in the middle: from the highest such level below the centroid to as far
+ * above it. Towers, legs and masts stand on the ground. Without any level (a custom record), a
+ * face stands on the ground up to twice its centroid, as the custom record's reference height
+ * assumes. The horizontal width is the face's area over that height, seen at its facing.
  */
+import { useState } from 'preact/hooks';
+import { windWords } from '../../../server/engine/caseWords.ts';
+import type { Criterion, Edge } from '../../../server/engine/stability.ts';
 import type { AssessAnswer } from '../types.ts';
 import { kiloNewtons } from '../units.ts';
+import { placeLabels, spreadAlong, spreadInRows, textWidth, type Box } from './labelLayout.ts';
+import { faceForce, faceSide, facingOf, massGroupText, sideLabel, type Face, type Mass, type MassGroup } from './structureGeometry.ts';
 
 type Extent = [number, number];
+type Uplift = NonNullable<AssessAnswer['expanded']['uplift']>;
 
-function num(v: unknown, fallback = 0): number {
-  return typeof v === 'number' && Number.isFinite(v) ? v : fallback;
+const radiansPerDegree = Math.PI / 180;
+const viewWidth = 480;
+const viewHeight = 480;
+const font = 16;
+const rowHeight = 20;
+const maxArrowPx = 84;
+/** Labels that stand on the ground whatever levels the record gives. */
+const standsOnGround = /\b(towers?|legs?|masts?|poles?|posts?|uprights?)\b/i;
+
+function num(v: unknown): number | null {
+  return typeof v === 'number' && Number.isFinite(v) ? v : null;
 }
 
-/** Vertical extent of each expanded face, m. */
-export function faceExtents(record: Record<string, unknown>, faces: AssessAnswer['expanded']['faces']): Extent[] {
+/** Heights the record gives where a face may start (above the ground), m. */
+function recordLevelsM(record: Record<string, unknown>): number[] {
+  const levels: Array<number | null> = [];
   switch (record.kind) {
-    case 'tent': {
-      const eave = num(record.eaveHeightM);
-      const ridge = num(record.ridgeHeightM, eave);
-      return [
-        [0, eave],
-        [eave, ridge],
-      ];
-    }
-    case 'banner': {
-      const z = num(record.clearanceM);
-      return [[z, z + num(record.heightM)]];
-    }
+    case 'tent':
+      levels.push(num(record.eaveHeightM));
+      break;
+    case 'banner':
+      levels.push(num(record.clearanceM));
+      break;
     case 'screen': {
-      const z = num(record.bottomHeightM);
-      return [[z, z + num(record.heightM)]];
+      const bottom = num(record.bottomHeightM);
+      const height = num(record.heightM);
+      levels.push(bottom, bottom !== null && height !== null ? bottom + height : null);
+      break;
     }
-    case 'shell': {
-      const z = num(record.baseHeightM);
-      return [[z, z + num(record.radiusM)]];
-    }
-    default:
-      return faces.map((f) => [0, 2 * f.centroidHeightM]);
+    case 'shell':
+      levels.push(num(record.baseHeightM));
+      break;
   }
+  return levels.filter((v): v is number => v !== null && v > 0);
 }
 
-const round3 = (v: number): number => Math.round(v * 1000) / 1000;
-
-/** Masses grouped by position (within 2 % of the base depth), heaviest first in each stack. */
-function massStacks(masses: AssessAnswer['expanded']['masses'], depthM: number): Array<{ xM: number; massesKg: number[] }> {
-  const stacks: Array<{ xM: number; massesKg: number[] }> = [];
-  for (const m of masses) {
-    if (m.massKg <= 0) continue;
-    const near = stacks.find((s) => Math.abs(s.xM - m.xM) <= 0.02 * depthM);
-    if (near) near.massesKg.push(m.massKg);
-    else stacks.push({ xM: m.xM, massesKg: [m.massKg] });
-  }
-  for (const s of stacks) s.massesKg.sort((a, b) => b - a);
-  return stacks;
+/** Vertical extent of a face, m (see the module comment). */
+export function faceExtent(face: Face, levelsM: readonly number[]): Extent {
+  const c = face.centroidHeightM;
+  const below = standsOnGround.test(face.label ?? '') ? [0] : [0, ...levelsM.filter((level) => level < c - 1e-6)];
+  const bottom = Math.max(...below);
+  return [bottom, Math.max(2 * c - bottom, bottom + 0.05)];
 }
 
-export function SideView({ answer, record }: { answer: AssessAnswer; record: Record<string, unknown> }) {
+interface Part {
+  key: string;
+  title: string;
+  faces: Face[];
+  masses: Mass[];
+  depthM: number;
+  widthM: number | null;
+  uplift: Uplift | null;
+  directionDeg: number;
+  edge: Edge;
+  criterion: Criterion;
+  upliftN: number;
+  element: boolean;
+}
+
+function partsOf(answer: AssessAnswer): Part[] {
   const ex = answer.expanded;
-  const depth = ex.baseDepthM;
-  const extents = faceExtents(record, ex.faces);
-  const topM = Math.max(0.5, ...extents.map((e) => e[1]), ...ex.faces.map((f) => f.centroidHeightM));
-  // Wind onto the front comes from the left and tips the structure about the back (right) edge.
-  const windFromLeft = Math.cos((answer.governingDirectionDeg * Math.PI) / 180) >= 0;
-  const spanM = Math.max(depth, topM * 0.9);
-  // Drawing space in SVG units: a strip on top for the wind, the structure below, labels left.
-  const W = 480;
-  const H = 460;
-  const left = 130;
-  const ground = H - 96;
-  const skyTop = 70;
-  const scale = Math.min((W - left - 60) / spanM, (ground - skyTop) / topM);
-  const X = (m: number) => left + m * scale;
-  const Y = (m: number) => ground - m * scale;
-  const fullDepth = record.kind === 'tent' || record.kind === 'shell';
-  const panelW = Math.max(6, Math.min(depth * scale, 0.12 * depth * scale));
-  const maxForce = Math.max(1, ...ex.faces.map((f) => (windFromLeft ? f.cfFront : f.cfBack) * f.areaM2));
-  const maxMass = Math.max(1, ...ex.masses.map((m) => m.massKg));
-  const tipX = windFromLeft ? depth : 0;
+  // The body's own worst direction: the governing case when the body governs, else the body's entry
+  // that is worst among the directions the report lists for it.
+  let body = { directionDeg: answer.governingDirectionDeg, edge: answer.governingEdge, criterion: answer.governing, upliftN: answer.upliftN };
+  if (answer.governingElement !== null) {
+    const own = answer.directions.filter((d) => d.element === null);
+    const worst = own.reduce<(typeof own)[number] | null>((a, b) => (a === null || (b.utilization.governing ?? Infinity) > (a.utilization.governing ?? Infinity) ? b : a), null);
+    if (worst) body = { directionDeg: worst.directionDeg, edge: worst.tippingEdge, criterion: worst.governing, upliftN: worst.upliftN };
+  }
+  const parts: Part[] = [
+    {
+      key: '',
+      title: 'whole structure',
+      faces: ex.faces,
+      masses: ex.masses,
+      depthM: ex.baseDepthM,
+      widthM: ex.baseWidthM ?? null,
+      uplift: ex.uplift ?? null,
+      ...body,
+      element: false,
+    },
+  ];
+  for (const report of answer.elements) {
+    const element = ex.elements?.find((e) => e.name === report.name);
+    if (!element) continue;
+    parts.push({
+      key: report.name,
+      title: report.name,
+      faces: element.faces,
+      masses: element.masses,
+      depthM: element.baseDepthM,
+      widthM: element.baseWidthM ?? null,
+      uplift: element.uplift ?? null,
+      directionDeg: report.governingDirectionDeg,
+      edge: report.tippingEdge,
+      criterion: report.governing,
+      upliftN: report.upliftN,
+      element: true,
+    });
+  }
+  return parts;
+}
 
+/** The wind's words wrapped to lines no wider than `maxWidth` (words kept whole). */
+function windLines(text: string, maxWidth: number): string[] {
+  const lines: string[] = [];
+  let line = '';
+  for (const word of text.split(' ')) {
+    const next = line === '' ? word : `${line} ${word}`;
+    if (line !== '' && textWidth(next, font, true) > maxWidth) {
+      lines.push(line);
+      line = word;
+    } else line = next;
+  }
+  if (line !== '') lines.push(line);
+  return lines;
+}
+
+export function SideView({ answer, record, frontAzimuthDeg = null }: { answer: AssessAnswer; record: Record<string, unknown>; frontAzimuthDeg?: number | null }) {
+  const parts = partsOf(answer);
+  const governingKey = answer.governingElement ?? '';
+  const [chosen, setChosen] = useState<string | null>(null);
+  const part = parts.find((p) => p.key === (chosen ?? governingKey)) ?? parts[0]!;
   return (
     <figure class="side-view">
-      <svg viewBox={`0 0 ${W} ${H}`} role="img" aria-label={`Side view: base ${depth} m deep, ${ex.faces.length} loaded faces, ${ex.masses.length} masses, tipping edge at the ${windFromLeft ? 'back' : 'front'}`}>
+      {parts.length > 1 ? (
+        <div class="seg wrap sv-parts" role="group" aria-label="Part drawn">
+          {parts.map((p) => (
+            <button type="button" class={p.key === part.key ? 'on' : ''} aria-pressed={p.key === part.key} onClick={() => setChosen(p.key)}>
+              {p.title}
+              {p.key === governingKey ? ' (governs)' : ''}
+            </button>
+          ))}
+        </div>
+      ) : null}
+      <SideDrawing answer={answer} record={record} part={part} frontAzimuthDeg={frontAzimuthDeg} />
+    </figure>
+  );
+}
+
+function SideDrawing({ answer, record, part, frontAzimuthDeg }: { answer: AssessAnswer; record: Record<string, unknown>; part: Part; frontAzimuthDeg: number | null }) {
+  const theta = part.directionDeg;
+  const strip = part.widthM === null;
+  // Which way to look: the tipping edge decides for overturning, else the wind's larger component.
+  const alongEnds = !strip && (part.criterion === 'overturning' ? part.edge === 'endY0' || part.edge === 'endYW' : Math.abs(Math.sin(theta * radiansPerDegree)) > Math.abs(Math.cos(theta * radiansPerDegree)));
+  const axis: 'x' | 'y' = alongEnds ? 'y' : 'x';
+  const spanM = axis === 'x' ? part.depthM : part.widthM!;
+  const travelAlong = axis === 'x' ? Math.cos(theta * radiansPerDegree) : -Math.sin(theta * radiansPerDegree);
+  const fromLeft = travelAlong >= -1e-9;
+  const names = axis === 'x' ? [sideLabel('front', frontAzimuthDeg), sideLabel('back', frontAzimuthDeg)] : [sideLabel('endY0', frontAzimuthDeg), sideLabel('endYW', frontAzimuthDeg)];
+  const tipAtRight = axis === 'x' ? part.edge === 'back' : part.edge === 'endYW';
+  // The edge is marked only where the case is overturning: a sliding or uplift case tips about nothing.
+  const tipKnown = part.criterion === 'overturning' && (axis === 'x' ? part.edge === 'front' || part.edge === 'back' : part.edge === 'endY0' || part.edge === 'endYW');
+
+  // ---- faces: extent, position along the view, force in the governing wind ----
+  // An element is a part of the same record: its faces start at the same levels.
+  const levels = recordLevelsM(record);
+  const faces = part.faces.map((face, i) => {
+    const [bottom, top] = faceExtent(face, levels);
+    const phi = facingOf(face) * radiansPerDegree;
+    const planAlong = axis === 'x' ? Math.abs(Math.sin(phi)) : Math.abs(Math.cos(phi));
+    const widthM = Math.min(spanM, (face.areaM2 / (top - bottom)) * planAlong);
+    const side = faceSide(face, part.faces);
+    const at: 'start' | 'end' | 'middle' =
+      axis === 'x' ? (side === 'front' ? 'start' : side === 'back' ? 'end' : 'middle') : side === 'endY0' ? 'start' : side === 'endYW' ? 'end' : 'middle';
+    const force = faceForce(face, theta, answer.qPa);
+    const alongN = axis === 'x' ? force.xN : force.yN;
+    return { face, i, bottom, top, widthM, at, alongN, forceN: force.forceN };
+  });
+  const topM = Math.max(0.5, ...faces.map((f) => f.top), answer.expanded.referenceHeightM * (part.element ? 0 : 1));
+  const maxAlong = Math.max(1e-9, ...faces.map((f) => Math.abs(f.alongN)));
+  const loaded = faces.filter((f) => Math.abs(f.alongN) > 0.01 * maxAlong);
+
+  // ---- horizontal layout: labels and arrows on the windward side, the height scale leeward ----
+  const labelTexts = loaded.map((f) => `${f.i + 1} · ${kiloNewtons(Math.abs(f.alongN))}`);
+  const labelW = Math.min(150, Math.max(60, ...labelTexts.map((t) => textWidth(t, font, true))));
+  const windward = labelW + 14 + maxArrowPx;
+  const leeward = 70;
+  const availPx = viewWidth - windward - leeward;
+  const skyTop = 92;
+  const ground = viewHeight - 128;
+  const scale = Math.min(availPx / Math.max(spanM, 0.1), (ground - skyTop) / topM);
+  const drawnSpan = spanM * scale;
+  const x0 = (fromLeft ? windward : leeward) + (availPx - drawnSpan) / 2;
+  const U = (m: number) => x0 + m * scale;
+  const Y = (m: number) => ground - m * scale;
+
+  // Rectangles of the faces; thin ones at one position are set side by side.
+  const thinAt = new Map<string, number>();
+  const rects = faces.map((f) => {
+    const w = Math.max(7, f.widthM * scale);
+    let left = f.at === 'start' ? U(0) : f.at === 'end' ? U(spanM) - w : U(spanM / 2) - w / 2;
+    if (w < 14) {
+      const k = thinAt.get(f.at) ?? 0;
+      thinAt.set(f.at, k + 1);
+      const step = 10 * Math.ceil(k / 2) * (k % 2 === 1 ? 1 : -1);
+      left += f.at === 'start' ? 10 * k : f.at === 'end' ? -10 * k : step;
+    }
+    left = Math.min(Math.max(left, U(0) - 4), U(spanM) - w + 4);
+    return { ...f, left, w, yTop: Y(f.top), yBottom: Y(f.bottom), yc: Y(f.face.centroidHeightM) };
+  });
+
+  // Arrows at the true centroid heights; labels in one column, pushed apart, with leaders.
+  const arrows = rects
+    .filter((r) => Math.abs(r.alongN) > 0.01 * maxAlong)
+    .map((r) => {
+      const len = 22 + (maxArrowPx - 22) * (Math.abs(r.alongN) / maxAlong);
+      const hit = fromLeft ? r.left : r.left + r.w;
+      const tail = fromLeft ? hit - len : hit + len;
+      return { r, hit: fromLeft ? hit - 2 : hit + 2, tail, text: `${r.i + 1} · ${kiloNewtons(Math.abs(r.alongN))}` };
+    });
+  const column = fromLeft ? Math.min(...arrows.map((a) => a.tail), viewWidth) - 6 : Math.max(...arrows.map((a) => a.tail), 0) + 6;
+  const spread = spreadAlong(
+    arrows.map((a) => ({ centre: a.r.yc, size: rowHeight })),
+    skyTop - 20,
+    ground - 2,
+    1,
+  ).centres;
+
+  // ---- masses: stacked blocks, labels in rows under the ground ----
+  const groups: MassGroup[] = [];
+  for (const m of part.masses) {
+    if (m.massKg <= 0) continue;
+    const u = axis === 'x' ? m.xM : (m.yM ?? spanM / 2);
+    const near = groups.find((g) => Math.abs(g.xM - u) <= 0.02 * spanM);
+    if (near) {
+      near.massesKg.push(m.massKg);
+      near.totalKg += m.massKg;
+    } else groups.push({ xM: Math.min(u, spanM), yM: 0, massesKg: [m.massKg], totalKg: m.massKg });
+  }
+  for (const g of groups) g.massesKg.sort((a, b) => b - a);
+  groups.sort((a, b) => a.xM - b.xM);
+  const maxKg = Math.max(1, ...groups.map((g) => g.totalKg));
+  const blockW = 24;
+  const massTexts = groups.map((g) => massGroupText(g));
+  const massWidths = massTexts.map((t) => textWidth(t, font, true));
+  const blockCentres = groups.map((g) => Math.min(Math.max(U(g.xM), U(0) + blockW / 2), U(spanM) - blockW / 2));
+  const massLayout = spreadInRows(
+    blockCentres.map((c, i) => ({ centre: c, size: massWidths[i]! })),
+    4,
+    viewWidth - 4,
+    8,
+    3,
+  );
+  const massRows = massLayout.rowCount;
+  const massX = massLayout;
+  const massRowOf = massLayout.rows;
+  const massRowY = (row: number) => ground + 34 + row * rowHeight;
+  const edgeRowY = massRowY(massRows) + 8;
+
+  // Edge names and the base's length in one row.
+  const leftName = `${names[0]}${tipKnown && !tipAtRight ? ': tipping edge' : ''}`;
+  const rightName = `${names[1]}${tipKnown && tipAtRight ? ': tipping edge' : ''}`;
+  const spanText = `${spanM.toFixed(2)} m`;
+  const edgeTexts = [leftName, spanText, rightName];
+  const edgeWidths = edgeTexts.map((t) => textWidth(t, font, t !== spanText));
+  const edgeRow = spreadInRows(
+    [
+      { centre: U(0), size: edgeWidths[0]! },
+      { centre: U(spanM / 2), size: edgeWidths[1]! },
+      { centre: U(spanM), size: edgeWidths[2]! },
+    ],
+    4,
+    viewWidth - 4,
+    10,
+    3,
+  );
+  const edgeRowYs = edgeRow.rows.map((row) => edgeRowY + row * rowHeight);
+  // Taller than the standard frame only when labels needed more rows.
+  const svgHeight = Math.max(viewHeight, edgeRowY + (edgeRow.rowCount - 1) * rowHeight + 18);
+
+  // ---- the wind, the uplift, the height scale ----
+  const windText = windWords(theta, frontAzimuthDeg, strip);
+  const lines = windLines(windText, viewWidth - 96 - 8);
+  const windBox: Box = { x: 0, y: 0, width: viewWidth, height: 24 + lines.length * rowHeight + 6 };
+  const upliftAt = part.uplift ? (axis === 'x' ? (part.uplift.xM ?? spanM / 2) : (part.uplift.yM ?? spanM / 2)) : spanM / 2;
+  const showUplift = part.upliftN > 0;
+  const upliftText = `uplift ${kiloNewtons(part.upliftN)}`;
+  const upliftX = U(Math.min(upliftAt, spanM));
+  const upliftTop = Math.max(windBox.height + 8, Y(topM) - 46);
+  const scaleX = fromLeft ? viewWidth - 24 : 24;
+  const refM = part.element ? null : answer.expanded.referenceHeightM;
+  const scaleMarks = [
+    { m: topM, text: `${topM.toFixed(1)} m` },
+    ...(refM !== null && Math.abs(refM - topM) > 0.05 ? [{ m: refM, text: `gust at ${refM.toFixed(1)} m` }] : []),
+  ];
+  const markYs = spreadAlong(
+    scaleMarks.map((mark) => ({ centre: Y(mark.m), size: rowHeight })),
+    windBox.height,
+    ground - 4,
+    1,
+  ).centres;
+
+  const scaleBoxes: Box[] = scaleMarks.map((mark, i) => {
+    const w = textWidth(mark.text, font);
+    return { x: fromLeft ? scaleX - 9 - w : scaleX + 9, y: markYs[i]! - rowHeight / 2, width: w, height: rowHeight };
+  });
+  const upliftLabel = showUplift
+    ? placeLabels(
+        [{ x: upliftX, y: upliftTop + 10, width: textWidth(upliftText, font, true), height: rowHeight, offset: 8 }],
+        [windBox, ...scaleBoxes, ...arrows.map((a, i) => ({ x: fromLeft ? column - labelW : column, y: spread[i]! - rowHeight / 2, width: labelW, height: rowHeight }))],
+        { x: 2, y: windBox.height, width: viewWidth - 4, height: ground - windBox.height },
+      )[0]!
+    : null;
+  // ---- outline of the kind, for recognition (behind the faces) ----
+  let outline: string | null = null;
+  if (!part.element && record.kind === 'tent') {
+    const eave = num(record.eaveHeightM) ?? 0;
+    const ridge = num(record.ridgeHeightM) ?? eave;
+    outline = axis === 'x' ? `M${U(0)} ${Y(0)} V${Y(eave)} L${U(spanM / 2)} ${Y(ridge)} L${U(spanM)} ${Y(eave)} V${Y(0)} Z` : `M${U(0)} ${Y(0)} V${Y(ridge)} H${U(spanM)} V${Y(0)} Z`;
+  } else if (!part.element && record.kind === 'shell') {
+    const base = num(record.baseHeightM) ?? 0;
+    const r = Math.min(num(record.radiusM) ?? spanM, axis === 'x' ? spanM : spanM / 2);
+    outline =
+      axis === 'x'
+        ? `M${U(0)} ${Y(base)} V${Y(base + r)} A${r * scale} ${r * scale} 0 0 1 ${U(r)} ${Y(base)} Z`
+        : `M${U(spanM / 2 - r)} ${Y(base)} A${r * scale} ${r * scale} 0 0 1 ${U(spanM / 2 + r)} ${Y(base)} Z`;
+  }
+
+  const seenFrom = axis === 'x' ? 'across the depth, front on the left' : 'along the width, the y = 0 end on the left';
+  return (
+    <>
+      <svg viewBox={`0 0 ${viewWidth} ${svgHeight}`} role="img" data-testid="side-view" aria-label={`Side view of the ${part.title}, ${seenFrom}: ${faces.length} loaded faces, ${groups.length} mass positions, ${windText}`}>
         <defs>
           <pattern id="hatch-ground" width="8" height="8" patternUnits="userSpaceOnUse" patternTransform="rotate(45)">
             <line x1="0" y1="0" x2="0" y2="8" class="sv-hatch" />
@@ -94,98 +359,98 @@ export function SideView({ answer, record }: { answer: AssessAnswer; record: Rec
             <path d="M0 0 L10 5 L0 10 Z" class="sv-arrowhead" />
           </marker>
         </defs>
-        <rect x="0" y={ground} width={W} height="14" fill="url(#hatch-ground)" />
-        <line x1="0" y1={ground} x2={W} y2={ground} class="sv-ground" />
-        {/* Base depth; below it the edges, the tipping one named. */}
-        <line x1={X(0)} y1={ground + 52} x2={X(depth)} y2={ground + 52} class="sv-dim" marker-start="url(#arrow-head)" marker-end="url(#arrow-head)" />
-        <text x={X(depth / 2)} y={ground + 70} text-anchor="middle" class="sv-text small">
-          base {depth.toFixed(2)} m
-        </text>
-        <text x={X(0)} y={ground + 90} text-anchor={windFromLeft ? 'middle' : 'start'} class={`sv-text small${windFromLeft ? '' : ' strong'}`}>
-          {windFromLeft ? 'front' : 'front: tipping edge'}
-        </text>
-        <text x={X(depth)} y={ground + 90} text-anchor={windFromLeft ? 'end' : 'middle'} class={`sv-text small${windFromLeft ? ' strong' : ''}`}>
-          {windFromLeft ? 'back: tipping edge' : 'back'}
-        </text>
-        {/* Faces */}
-        {ex.faces.map((f, i) => {
-          const [bottom, top] = extents[i] ?? [0, 2 * f.centroidHeightM];
-          const x0 = fullDepth ? X(0) : X(depth / 2) - panelW / 2;
-          const w = fullDepth ? depth * scale : panelW;
-          const cfWind = windFromLeft ? f.cfFront : f.cfBack;
-          const forceN = cfWind * answer.qPa * f.areaM2;
-          const len = 20 + 70 * ((cfWind * f.areaM2) / maxForce);
-          const y = Y(f.centroidHeightM);
-          const xFace = windFromLeft ? x0 : x0 + w;
+        <rect x="0" y={ground} width={viewWidth} height="14" fill="url(#hatch-ground)" />
+        <line x1="0" y1={ground} x2={viewWidth} y2={ground} class="sv-ground" />
+        {outline ? <path d={outline} class="sv-outline" /> : null}
+        {/* Faces: their extent, thick; those the wind does not load here, faint */}
+        {rects.map((r) => (
+          <rect key={`f${r.i}`} x={r.left} y={r.yTop} width={r.w} height={Math.max(2, r.yBottom - r.yTop)} class={`sv-face sv-face-${r.i % 3}${Math.abs(r.alongN) > 0.01 * maxAlong ? '' : ' unloaded'}`} />
+        ))}
+        {rects.map((r) => (
+          <line key={`c${r.i}`} x1={r.left - 3} y1={r.yc} x2={r.left + r.w + 3} y2={r.yc} class="sv-centroid" />
+        ))}
+        {/* Force arrows at the centroids, their labels in a column */}
+        {arrows.map((a, i) => {
+          const y = spread[i]!;
+          const textX = column;
           return (
-            <g key={i}>
-              {record.kind === 'shell' ? (
-                // A quarter sphere seen from the side: its open face up the front edge, the curve to the back.
-                <path d={`M${X(0)} ${Y(bottom)} V${Y(top)} A${(top - bottom) * scale} ${(top - bottom) * scale} 0 0 1 ${X(top - bottom)} ${Y(bottom)} Z`} class={`sv-face sv-face-${i % 3}`} />
-              ) : (
-                <rect x={x0} y={Y(top)} width={w} height={Math.max(2, (top - bottom) * scale)} class={`sv-face sv-face-${i % 3}`} />
-              )}
-              <line x1={windFromLeft ? xFace - len : xFace + len} y1={y} x2={xFace - (windFromLeft ? 2 : -2)} y2={y} class="sv-force" marker-end="url(#arrow-head)" />
-              <text x={windFromLeft ? xFace - len : xFace + len} y={y - 7} text-anchor={windFromLeft ? 'start' : 'end'} class="sv-text small strong">
-                {kiloNewtons(forceN)}
-              </text>
-              <text x={x0 + w / 2} y={Y((bottom + top) / 2) + 6} text-anchor="middle" class="sv-text strong">
-                {i + 1}
+            <g key={`a${a.r.i}`}>
+              <line x1={a.tail} y1={a.r.yc} x2={a.hit} y2={a.r.yc} class="sv-force" marker-end="url(#arrow-head)" />
+              {Math.abs(y - a.r.yc) > 2 || Math.abs(textX - a.tail) > 8 ? <line x1={textX + (fromLeft ? 2 : -2)} y1={y} x2={a.tail} y2={a.r.yc} class="sv-leader" /> : null}
+              <text x={textX} y={y + 5} text-anchor={fromLeft ? 'end' : 'start'} class="sv-text small strong">
+                {a.text}
               </text>
             </g>
           );
         })}
-        {/* Masses: block height ∝ √mass so a 10 t block does not hide a 100 kg one; masses at one
-            position are stacked and labelled together. */}
-        {massStacks(ex.masses, depth).map((stack, i) => {
-          const w = 26;
-          const cx = Math.min(Math.max(X(stack.xM), X(0) + w / 2), X(depth) - w / 2);
-          let top = ground;
-          const blocks = stack.massesKg.map((kg, j) => {
-            const h = 8 + 22 * Math.sqrt(kg / maxMass);
-            top -= h;
-            return <rect key={j} x={cx - w / 2} y={top} width={w} height={h} class="sv-mass" />;
-          });
+        {/* Masses: block height ∝ √mass so a 10 t block does not hide a 100 kg one */}
+        {groups.map((g, i) => {
+          const cx = blockCentres[i]!;
+          // One block per position, its height ∝ √(total mass), so a stack of legs does not tower.
+          const h = 8 + 26 * Math.sqrt(g.totalKg / maxKg);
+          const blocks = <rect x={cx - blockW / 2} y={ground - h} width={blockW} height={h} class="sv-mass" />;
+          const ly = massRowY(massRowOf[i]!);
           return (
             <g key={`m${i}`}>
               {blocks}
-              <line x1={cx} y1={ground} x2={cx} y2={ground + 18 + (i % 2) * 16} class="sv-dim" />
-              <text x={cx} y={ground + 32 + (i % 2) * 16} text-anchor={cx < X(depth / 4) ? 'start' : cx > X((3 * depth) / 4) ? 'end' : 'middle'} class="sv-text small strong">
-                {stack.massesKg.map((kg) => `${Math.round(kg).toLocaleString('en-GB')}`).join(' + ')} kg
+              <line x1={cx} y1={ground} x2={massX.centres[i]!} y2={ly - 14} class="sv-dim" />
+              <text x={massX.centres[i]!} y={ly} text-anchor="middle" class="sv-text small strong">
+                {massTexts[i]}
               </text>
             </g>
           );
         })}
-        {/* Tipping edge */}
-        <path d={`M${X(tipX)} ${ground} l-9 14 h18 Z`} class="sv-tip" />
-        {/* Wind */}
-        <g transform={windFromLeft ? '' : `translate(${W} 0) scale(-1 1)`}>
-          <line x1="10" y1="26" x2="90" y2="26" class="sv-wind" marker-end="url(#arrow-head)" />
-          <line x1="10" y1="50" x2="90" y2="50" class="sv-wind" marker-end="url(#arrow-head)" />
+        {/* Base and its edges */}
+        <line x1={U(0)} y1={ground + 8} x2={U(spanM)} y2={ground + 8} class="sv-base" />
+        {tipKnown ? <path d={`M${U(tipAtRight ? spanM : 0)} ${ground} l-9 14 h18 Z`} class="sv-tip" /> : null}
+        {edgeTexts.map((t, i) => (
+          <text key={`e${i}`} x={edgeRow.centres[i]!} y={edgeRowYs[i]! + 10} text-anchor="middle" class={`sv-text small${i !== 1 ? ' strong' : ''}${(i === 0 && tipKnown && !tipAtRight) || (i === 2 && tipKnown && tipAtRight) ? ' sv-tip-text' : ''}`}>
+            {t}
+          </text>
+        ))}
+        {/* Uplift */}
+        {showUplift && upliftLabel ? (
+          <g>
+            <line x1={upliftX} y1={Y(topM) - 4} x2={upliftX} y2={upliftTop} class="sv-uplift" marker-end="url(#arrow-head)" />
+            <text x={upliftLabel.x + upliftLabel.width / 2} y={upliftLabel.y + rowHeight - 5} text-anchor="middle" class="sv-text small strong">
+              {upliftText}
+            </text>
+          </g>
+        ) : null}
+        {/* Wind, from the side it comes from */}
+        <g transform={fromLeft ? '' : `translate(${viewWidth} 0) scale(-1 1)`}>
+          <line x1="10" y1="20" x2="80" y2="20" class="sv-wind" marker-end="url(#arrow-head)" />
+          <line x1="10" y1="40" x2="80" y2="40" class="sv-wind" marker-end="url(#arrow-head)" />
         </g>
-        <text x={windFromLeft ? 104 : W - 104} y="44" text-anchor={windFromLeft ? 'start' : 'end'} class="sv-text strong">
-          wind onto the {windFromLeft ? 'front' : 'back'}
-        </text>
-        {/* Height scale */}
-        <line x1={W - 14} y1={ground} x2={W - 14} y2={Y(topM)} class="sv-dim" />
-        <line x1={W - 20} y1={Y(topM)} x2={W - 8} y2={Y(topM)} class="sv-dim" />
-        <text x={W - 14} y={Y(topM) - 6} text-anchor="end" class="sv-text small">
-          {topM.toFixed(1)} m
-        </text>
+        {lines.map((line, i) => (
+          <text key={`w${i}`} x={fromLeft ? 96 : viewWidth - 96} y={26 + i * rowHeight} text-anchor={fromLeft ? 'start' : 'end'} class="sv-text small strong">
+            {line}
+          </text>
+        ))}
+        {/* Height scale, with the height the gust is taken at */}
+        <line x1={scaleX} y1={ground} x2={scaleX} y2={Y(topM)} class="sv-dim" />
+        {scaleMarks.map((mark, i) => (
+          <g key={`h${i}`}>
+            <line x1={scaleX - 6} y1={Y(mark.m)} x2={scaleX + 6} y2={Y(mark.m)} class="sv-dim" />
+            <text x={fromLeft ? scaleX - 9 : scaleX + 9} y={markYs[i]! + 5} text-anchor={fromLeft ? 'end' : 'start'} class="sv-text small">
+              {mark.text}
+            </text>
+          </g>
+        ))}
       </svg>
       <ol class="sv-faces small">
-        {ex.faces.map((f, i) => {
-          const cfWind = windFromLeft ? f.cfFront : f.cfBack;
+        {faces.map((f) => {
+          const incidence = Math.abs(f.alongN) > 0.01 * maxAlong ? `${kiloNewtons(f.forceN)} normal to it, ${kiloNewtons(Math.abs(f.alongN))} along this view` : 'not loaded along this view';
           return (
-            <li>
-              {f.label ?? `face ${i + 1}`}: {f.areaM2.toFixed(1)} m², c_f {round3(cfWind)}, at {f.centroidHeightM.toFixed(2)} m → {kiloNewtons(cfWind * answer.qPa * f.areaM2)}
+            <li key={f.i}>
+              {f.face.label ?? `face ${f.i + 1}`}: {f.face.areaM2.toFixed(1)} m² at {f.face.centroidHeightM.toFixed(2)} m (drawn {f.bottom.toFixed(2)}–{f.top.toFixed(2)} m), c_f {f.face.cfFront.toFixed(2)} front / {f.face.cfBack.toFixed(2)} back → {incidence}
             </li>
           );
         })}
       </ol>
       <figcaption class="muted small">
-        Drawn for the governing side at the check gust (wind onto the {windFromLeft ? 'front' : 'back'}); forces at q = {answer.qPa.toFixed(0)} Pa. Not to scale across the wind.
+        The {part.title}, seen {seenFrom}, in the governing wind of this part ({windText}) at q = {answer.qPa.toFixed(0)} Pa. Faces are drawn at the heights the numbers use; their place along the base is only drawn, the result does not depend on it.
       </figcaption>
-    </figure>
+    </>
   );
 }

@@ -463,6 +463,12 @@ export function StructureCard({ s, sensors }: { s: StructureState; sensors: Sens
         </p>
       ) : null}
       <StructureFigures s={s} unit={unit} />
+      {s.governingText && !s.error ? (
+        <p class="sc-governs" data-testid="card-governs">
+          {s.noData ? 'Governs (any wind): ' : 'Governs: '}
+          {s.governingText}
+        </p>
+      ) : null}
       <p class="sc-foot">
         {s.noData ? (
           <strong class="bad-text">

@@ -6,10 +6,13 @@
 import { useEffect, useMemo, useState } from 'preact/hooks';
 import type uPlot from 'uplot';
 import { api, errorText } from '../api.ts';
+import { DirectionsTable, ElementsList, Warnings } from '../components/assessmentSummary.tsx';
 import { Caution } from '../components/caution.tsx';
 import { useNow } from '../components/clock.ts';
 import { LevelBadge } from '../components/levelBadge.tsx';
 import { LevelsTable } from '../components/levelsTable.tsx';
+import { PlanView } from '../components/planView.tsx';
+import { SideView } from '../components/sideView.tsx';
 import { StructureFigures } from '../components/structureFigures.tsx';
 import { TimeChart, type Band } from '../components/timeChart.tsx';
 import { live, serverNow } from '../live.ts';
@@ -18,8 +21,8 @@ import { href } from '../router.ts';
 import { may, session } from '../session.ts';
 import { useTimeZone } from '../site.ts';
 import { useStore } from '../store.ts';
-import type { AlertRow, StructureLog, StructureState } from '../types.ts';
-import { dateTime, duration, mpsToSpeed, quantity, speed, speedUnitLabels } from '../units.ts';
+import type { AlertRow, AssessAnswer, StructureLog, StructureState, StructureWithLive } from '../types.ts';
+import { dateTime, duration, mpsToSpeed, percent, quantity, speed, speedUnitLabels, type SpeedUnit } from '../units.ts';
 import { levelTone } from '../components/levelBadge.tsx';
 
 const windows = [
@@ -128,9 +131,24 @@ export function StructurePage({ id }: { id: number }) {
       {s ? (
         <section class={`structure-live tone-${levelTone(s.level, s.levels.length, s.noData)}`} aria-label="Now">
           <LevelBadge level={s.level} label={s.levelLabel} count={s.levels.length} noData={s.noData} big />
+          <p class="governs-lead" data-testid="live-governs">
+            Limit <strong class="nowrap">{speed(s.limitGustMps, unit)}</strong>
+            {Math.abs(s.allDirectionsLimitGustMps - s.limitGustMps) > 0.05 ? <span class="small"> (wind from its sector now; every direction: {speed(s.allDirectionsLimitGustMps, unit)})</span> : null}
+            {' · '}
+            {s.governingText ? (
+              <>
+                governs: <strong>{s.governingText}</strong>
+              </>
+            ) : (
+              'what governs is unknown until the structure is assessed'
+            )}
+          </p>
+          <Warnings warnings={s.warnings} />
           <StructureFigures s={s} unit={unit} detailed />
           <p class="muted">
-            {s.governingText ? `Governs: ${s.governingText}. ` : ''}
+            {s.calculatedUtilization !== null && s.utilization !== null && Math.abs(s.calculatedUtilization - s.utilization) > 0.005
+              ? `Utilization ${percent(s.utilization)} of capacity is set by the rated gust (calculated ${percent(s.calculatedUtilization)}). `
+              : ''}
             Calculated limit {speed(s.calculatedLimitGustMps, unit)}
             {s.ratedGustMps !== null ? `, rated ${speed(s.ratedGustMps, unit)}` : ', no rated gust given'}; gust taken at {quantity(s.referenceHeightM, 'm')}; air {quantity(s.airDensityKgM3, 'kg/m³', 3)}.
             {s.evaluatedAtMs !== null ? ` Last assessed ${duration(serverNow() - s.evaluatedAtMs)} ago.` : ' Not assessed yet.'}
@@ -178,6 +196,8 @@ export function StructurePage({ id }: { id: number }) {
         ) : null}
       </section>
 
+      {s ? <HowCalculated key={id} id={id} s={s} unit={unit} /> : null}
+
       {s ? (
         <section aria-labelledby="levels-h">
           <h2 id="levels-h">Levels and actions</h2>
@@ -211,5 +231,77 @@ export function StructurePage({ id }: { id: number }) {
         </ul>
       </section>
     </main>
+  );
+}
+
+/** The gust the figures below are drawn at: the current one, or the limit when calm or unknown, m/s. */
+function figureGustMps(s: StructureState): { gustMps: number; atLimit: boolean } {
+  const limit = [s.limitGustMps, s.allDirectionsLimitGustMps, s.calculatedLimitGustMps].find((v) => typeof v === 'number' && Number.isFinite(v) && v > 0);
+  if (!s.noData && s.gustMps !== null && s.gustMps >= 1) return { gustMps: Math.min(120, s.gustMps), atLimit: false };
+  return { gustMps: Math.min(120, limit ?? 20), atLimit: true };
+}
+
+/**
+ * The stored record through the calculator (POST /api/assess) at the current gust, or at the limit
+ * when calm: the side and plan views, the parts and every direction. Re-asked when the gust moves
+ * by half a metre per second, not on every reading.
+ */
+function HowCalculated({ id, s, unit }: { id: number; s: StructureState; unit: SpeedUnit }) {
+  const [view, setView] = useState<StructureWithLive | null>(null);
+  const [answer, setAnswer] = useState<AssessAnswer | null>(null);
+  const [problem, setProblem] = useState<string | null>(null);
+  const { gustMps, atLimit } = figureGustMps(s);
+  // At the limit exactly (so it reads 100 %), else the current gust to the half metre per second.
+  const gustKey = atLimit ? Math.round(gustMps * 1000) / 1000 : Math.round(gustMps * 2) / 2;
+
+  useEffect(() => {
+    api<{ structure: StructureWithLive }>(`/api/structures/${id}`)
+      .then((a) => setView(a.structure))
+      .catch((err) => setProblem(errorText(err)));
+    // The record changes only when someone saves it; the snapshot's updatedAt is not streamed, so once per visit.
+  }, [id]);
+
+  useEffect(() => {
+    if (!view) return;
+    const controller = new AbortController();
+    const timer = setTimeout(() => {
+      const body = { structure: view.record, gustMps: gustKey, airDensityKgM3: s.airDensityKgM3, frontAzimuthDeg: view.orientationDeg % 360 };
+      api<AssessAnswer>('/api/assess', { body, signal: controller.signal })
+        .then((a) => {
+          setAnswer(a);
+          setProblem(null);
+        })
+        .catch((err) => {
+          if (err instanceof DOMException && err.name === 'AbortError') return;
+          setProblem(`The stored record could not be calculated here: ${errorText(err)}`);
+        });
+    }, 400);
+    return () => {
+      clearTimeout(timer);
+      controller.abort();
+    };
+  }, [view, gustKey, s.airDensityKgM3]);
+
+  return (
+    <section aria-labelledby="calc-h" class="how-calculated">
+      <h2 id="calc-h">What the numbers assume</h2>
+      {problem ? <p class="error-box">{problem}</p> : null}
+      {!answer && !problem ? <p class="muted">Calculating…</p> : null}
+      {answer && view ? (
+        <>
+          <p>
+            Drawn {atLimit ? <>at the limit gust of {speed(answer.gustMps, unit)} (no wind to speak of now)</> : <>at the current gust here, {speed(answer.gustMps, unit)}</>}, over every direction: governs{' '}
+            <strong data-testid="calc-governs">{answer.governingText}</strong>, {answer.effectiveUtilization === null ? 'utilization unbounded' : `${percent(answer.effectiveUtilization)} of capacity`}, limit {speed(answer.limitGustMps, unit)}
+            {answer.limitGovernedBy === 'rated' ? ' (the rated gust)' : ''}.
+          </p>
+          <div class="figures">
+            <SideView answer={answer} record={view.record as unknown as Record<string, unknown>} frontAzimuthDeg={view.orientationDeg % 360} />
+            <PlanView answer={answer} frontAzimuthDeg={view.orientationDeg % 360} />
+          </div>
+          <ElementsList answer={answer} unit={unit} frontAzimuthDeg={view.orientationDeg % 360} />
+          <DirectionsTable answer={answer} unit={unit} frontAzimuthDeg={view.orientationDeg % 360} />
+        </>
+      ) : null}
+    </section>
   );
 }

@@ -13,6 +13,8 @@ import { api, ApiError, errorText } from '../api.ts';
 import { Caution } from '../components/caution.tsx';
 import { described, Field } from '../components/field.tsx';
 import { LevelsEditor } from '../components/levelsEditor.tsx';
+import { DirectionsTable, ElementsList, Warnings } from '../components/assessmentSummary.tsx';
+import { PlanView } from '../components/planView.tsx';
 import { SideView } from '../components/sideView.tsx';
 import { faceColumns, kindFields, kindIntro, kindNames, massColumns, commonFields, type FieldDef } from '../register/kindFields.ts';
 import { draftFromView, draftInput, draftLevels, draftRecord, newDraft, plainMessage, switchKind, typedNumber, type Draft } from '../register/structureDraft.ts';
@@ -77,6 +79,11 @@ export function StructureForm({ id }: { id: number | null }) {
     const n = typedNumber(checkGust);
     return n === undefined || Number.isNaN(n) ? null : speedToMps(n, unit);
   })();
+  // The way the front faces, when the form holds a usable one: sides are then named by compass.
+  const frontAzimuthDeg = (() => {
+    const n = draft ? typedNumber(draft.orientationDeg) : undefined;
+    return n === undefined || Number.isNaN(n) || n < 0 || n > 360 ? null : n % 360;
+  })();
 
   // Ask the calculator as the person types.
   useEffect(() => {
@@ -89,6 +96,7 @@ export function StructureForm({ id }: { id: number | null }) {
       const body: Record<string, unknown> = { structure, gustMps: Math.min(120, Math.max(0, checkGustMps)), levels: levelsForAssess };
       if (checkGustMps > 0) body.designGustMps = Math.min(120, checkGustMps);
       if (density !== null) body.airDensityKgM3 = density;
+      if (frontAzimuthDeg !== null) body.frontAzimuthDeg = frontAzimuthDeg;
       api<AssessAnswer>('/api/assess', { body, signal: controller.signal })
         .then((a) => {
           if (mine !== seq.current) return;
@@ -112,7 +120,7 @@ export function StructureForm({ id }: { id: number | null }) {
       clearTimeout(timer);
       controller.abort();
     };
-  }, [JSON.stringify(record), JSON.stringify(levelsForAssess), checkGustMps, density]);
+  }, [JSON.stringify(record), JSON.stringify(levelsForAssess), checkGustMps, density, frontAzimuthDeg]);
 
   if (loadError) {
     return (
@@ -377,36 +385,51 @@ export function StructureForm({ id }: { id: number | null }) {
           <Field id="sf-check" label="Check gust at the structure" unit={speedUnitLabels[unit]} error={checkGustMps === null ? 'must be a number' : checkGustMps > 120 ? 'at most 120 m/s' : undefined} help="Loads below are at this gust; it is also the design gust for the extra ballast. Air density: the site’s current value.">
             <input id="sf-check" inputMode="decimal" value={checkGust} onInput={(e) => setCheckGust(e.currentTarget.value)} />
           </Field>
-          <Results answer={answer} hasIssues={assessIssues.size > 0 || local.size > 0} unit={unit} />
-          {answer && record ? <SideView answer={answer} record={record} /> : null}
+          <Results answer={answer} hasIssues={assessIssues.size > 0 || local.size > 0} unit={unit} frontAzimuthDeg={frontAzimuthDeg} />
+          {answer && record ? (
+            <div class="figures">
+              <SideView answer={answer} record={record} frontAzimuthDeg={frontAzimuthDeg} />
+              <PlanView answer={answer} frontAzimuthDeg={frontAzimuthDeg} />
+            </div>
+          ) : null}
         </aside>
       </div>
     </main>
   );
 }
 
-function Results({ answer, hasIssues, unit }: { answer: AssessAnswer | null; hasIssues: boolean; unit: Parameters<typeof speed>[1] }) {
+function Results({ answer, hasIssues, unit, frontAzimuthDeg }: { answer: AssessAnswer | null; hasIssues: boolean; unit: Parameters<typeof speed>[1]; frontAzimuthDeg: number | null }) {
   if (!answer) {
     return <p class="unknown-box">{hasIssues ? 'Some fields need attention before the limit can be calculated (marked next to them once touched).' : 'Calculating…'}</p>;
   }
   const u = answer.utilization;
   const util = (v: number | null, unbounded: boolean) => (unbounded ? 'unbounded (resistance gone)' : percent(v));
   const rb = answer.requiredBallast;
+  const where = (x: number, y: number) => (answer.expanded.baseWidthM === undefined ? `x = ${x.toFixed(2)} m` : `x = ${x.toFixed(2)} m, y = ${y.toFixed(2)} m`);
   return (
     <div class="results" aria-live="polite">
+      <Warnings warnings={answer.warnings} />
       <div class="limit-box">
         <span class="fig-label">Limit gust</span>
         <span class="limit-value" data-testid="limit-gust">
           {answer.limitGustMps === null ? 'no limit found' : speed(answer.limitGustMps, unit)}
         </span>
-        <span class="small">
-          {answer.limitGovernedBy === 'rated'
-            ? `the rated gust governs (calculated ${speed(answer.calculatedLimitGustMps, unit)})`
-            : `calculated: ${answer.governingText}`}
+        <span class="governs-text" data-testid="governing-text">
+          {answer.limitGovernedBy === 'rated' ? (
+            <>
+              The rated gust governs. Calculated {speed(answer.calculatedLimitGustMps, unit)}, where <strong>{answer.governingText}</strong>.
+            </>
+          ) : (
+            <>
+              Governs: <strong>{answer.governingText}</strong>
+            </>
+          )}
         </span>
       </div>
+      <ElementsList answer={answer} unit={unit} frontAzimuthDeg={frontAzimuthDeg} />
+      <DirectionsTable answer={answer} unit={unit} frontAzimuthDeg={frontAzimuthDeg} />
       <table class="kv">
-        <caption>At the check gust of {speed(answer.gustMps, unit)}</caption>
+        <caption>Governing case at the check gust of {speed(answer.gustMps, unit)}</caption>
         <tbody>
           <tr>
             <th scope="row">Dynamic pressure q</th>
@@ -443,8 +466,12 @@ function Results({ answer, hasIssues, unit }: { answer: AssessAnswer | null; has
           <tr class="strong-row">
             <th scope="row">Governing</th>
             <td>
-              {answer.governingText}: {util(u.governing, answer.unbounded.governing)}
+              {answer.governing}: {util(u.governing, answer.unbounded.governing)}
             </td>
+          </tr>
+          <tr>
+            <th scope="row">Of capacity (with the rating)</th>
+            <td>{answer.effectiveUtilization === null ? 'unbounded' : percent(answer.effectiveUtilization)}</td>
           </tr>
           <tr>
             <th scope="row">Total mass</th>
@@ -457,14 +484,15 @@ function Results({ answer, hasIssues, unit }: { answer: AssessAnswer | null; has
         </tbody>
       </table>
       {rb ? (
-        <p class={rb.massKg !== null && rb.massKg > 0 ? 'note-box' : 'ok-box'}>
-          {rb.massKg === null
-            ? `No extra mass at x = ${rb.xM.toFixed(2)} m can hold it at ${speed(rb.designGustMps, unit)}: put ballast elsewhere.`
+        <p class={!rb.possible ? 'error-box' : rb.massKg > 0 ? 'note-box' : 'ok-box'} data-testid="required-ballast">
+          {!rb.possible
+            ? `No extra mass at ${where(rb.xM, rb.yM)} can hold it at ${speed(rb.designGustMps, unit)}: ${rb.reason}`
             : rb.massKg > 0
-              ? `Extra ballast for a design gust of ${speed(rb.designGustMps, unit)}: ${quantity(Math.ceil(rb.massKg), 'kg', 0)} at x = ${rb.xM.toFixed(2)} m (middle of the base).`
+              ? `Extra ballast for a design gust of ${speed(rb.designGustMps, unit)}: ${quantity(Math.ceil(rb.massKg), 'kg', 0)} at ${where(rb.xM, rb.yM)} (middle of the base).`
               : `No extra ballast needed for a design gust of ${speed(rb.designGustMps, unit)}.`}
         </p>
       ) : null}
+      <Caution />
       {answer.levels ? (
         <table class="kv">
           <caption>Levels for this structure</caption>

@@ -1,0 +1,122 @@
+/**
+ * The calculator's answer in words and a table: what governs, what could not be checked, each
+ * element with its own limit, and every direction assessed (relative to the front and, with the
+ * structure's orientation, by compass) with its utilization, criterion and limit — the governing
+ * one marked. Used by the register form and the structure page, so both say the same.
+ */
+import { compassPointName, criterionWords, windWords } from '../../../server/engine/caseWords.ts';
+import type { AssessAnswer } from '../types.ts';
+import { percent, speed, type SpeedUnit } from '../units.ts';
+import { sideLabel, type Side } from './structureGeometry.ts';
+
+type DirectionReport = AssessAnswer['directions'][number];
+
+const sides: readonly Side[] = ['front', 'endYW', 'back', 'endY0'];
+
+/** "0° front", "15°", "90° north end": θ relative to the front, naming the side it is square onto. */
+function relativeDirection(directionDeg: number, frontAzimuthDeg: number | null): string {
+  const rounded = Math.round(directionDeg * 10) / 10;
+  const quarter = Math.round(directionDeg / 90) % 4;
+  const square = Math.abs(directionDeg - quarter * 90) < 0.05 || Math.abs(directionDeg - 360) < 0.05;
+  const side = sides[quarter]!;
+  // The front and back keep their plain names here; the compass point follows on its own line.
+  const name = side === 'front' || side === 'back' ? side : sideLabel(side, frontAzimuthDeg);
+  return square ? `${rounded}° ${name}` : `${rounded}°`;
+}
+
+/** "sliding", "uplift", "tips about the back edge" — short, for a table cell. */
+function criterionShort(d: { governing: DirectionReport['governing']; tippingEdge: DirectionReport['tippingEdge'] }, frontAzimuthDeg: number | null): string {
+  if (d.governing !== 'overturning') return d.governing;
+  const side = d.tippingEdge;
+  return `tips about ${side === 'front' || side === 'back' ? `the ${side} edge` : `the ${sideLabel(side, frontAzimuthDeg)}`}`;
+}
+
+const utilizationText = (value: number | null): string => (value === null ? 'unbounded' : percent(value));
+
+/** The warnings of the answer, or of the live state: what the engine could not check. */
+export function Warnings({ warnings }: { warnings: readonly string[] }) {
+  if (warnings.length === 0) return null;
+  return (
+    <div class="warn-box" role="note" data-testid="assess-warnings">
+      <p class="warn-h">{warnings.length === 1 ? 'Not checked or assumed' : `Not checked or assumed (${warnings.length})`}</p>
+      <ul>
+        {warnings.map((w) => (
+          <li>{w}</li>
+        ))}
+      </ul>
+    </div>
+  );
+}
+
+/** Each element with its own limit and what governs it. */
+export function ElementsList({ answer, unit, frontAzimuthDeg }: { answer: AssessAnswer; unit: SpeedUnit; frontAzimuthDeg: number | null }) {
+  if (answer.elements.length === 0) return null;
+  return (
+    <section class="elements-list" aria-label="Parts that can fail on their own">
+      <h3>Parts that can fail on their own</h3>
+      <ul class="plain-list">
+        {answer.elements.map((e) => {
+          const governs = answer.governingElement === e.name;
+          const strip = answer.expanded.elements?.find((x) => x.name === e.name)?.baseWidthM === undefined;
+          return (
+            <li class={governs ? 'governs' : ''}>
+              <strong>{e.name}</strong>
+              {governs ? <span class="gov-tag"> governs</span> : null}: limit {speed(e.calculatedLimitGustMps, unit)}, {utilizationText(e.utilization.governing)} at the check gust —{' '}
+              {windWords(e.governingDirectionDeg, frontAzimuthDeg, strip)}: {criterionWords(e.governing, e.tippingEdge, frontAzimuthDeg)}
+            </li>
+          );
+        })}
+      </ul>
+    </section>
+  );
+}
+
+/** Every direction assessed, in a collapsible table, the governing one marked (not by colour alone). */
+export function DirectionsTable({ answer, unit, frontAzimuthDeg }: { answer: AssessAnswer; unit: SpeedUnit; frontAzimuthDeg: number | null }) {
+  const governs = (d: DirectionReport) => Math.abs(d.directionDeg - answer.governingDirectionDeg) < 1e-6 && d.element === answer.governingElement;
+  const anyElement = answer.directions.some((d) => d.element !== null);
+  const ratedCaps = answer.limitGovernedBy === 'rated';
+  return (
+    <details class="directions" data-testid="directions">
+      <summary>All {answer.directions.length} wind directions assessed</summary>
+      <div class="table-scroll">
+        <table class="data directions-table">
+          <caption>
+            Each direction's worst part at the check gust of {speed(answer.gustMps, unit)}; θ is measured clockwise from wind straight onto the front.
+            {ratedCaps && answer.limitGustMps !== null ? ` The rated gust of ${speed(answer.limitGustMps, unit)} caps every direction.` : ''}
+          </caption>
+          <thead>
+            <tr>
+              <th scope="col">Wind</th>
+              <th scope="col">Utilization</th>
+              <th scope="col">Governs</th>
+              <th scope="col">Limit</th>
+            </tr>
+          </thead>
+          <tbody>
+            {answer.directions.map((d) => {
+              const g = governs(d);
+              return (
+                <tr class={g ? 'gov-row' : undefined} aria-current={g ? 'true' : undefined}>
+                  <th scope="row">
+                    {g ? <span class="gov-mark" aria-hidden="true">▶ </span> : null}
+                    {relativeDirection(d.directionDeg, frontAzimuthDeg)}
+                    {frontAzimuthDeg !== null ? <span class="dir-compass"> from {compassPointName(frontAzimuthDeg + d.directionDeg)}</span> : null}
+                    {g ? <span class="visually-hidden"> (governs)</span> : null}
+                  </th>
+                  <td>{utilizationText(d.utilization.governing)}</td>
+                  <td>
+                    {anyElement && d.element !== null ? <span class="dir-part">{d.element}: </span> : null}
+                    {criterionShort(d, frontAzimuthDeg)}
+                    {d.upliftCase ? <span class="dir-part"> ({d.upliftCase})</span> : null}
+                  </td>
+                  <td>{speed(d.calculatedLimitGustMps, unit)}</td>
+                </tr>
+              );
+            })}
+          </tbody>
+        </table>
+      </div>
+    </details>
+  );
+}
