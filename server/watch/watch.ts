@@ -591,7 +591,8 @@ export class Watch implements ReadingConsumer {
     if (!this.site.directionalEnabled || windFromDeg === null) return null;
     const halfWidthDeg = this.site.directionSectorHalfWidthDeg ?? defaultDirectionSectorHalfWidthDeg;
     if (halfWidthDeg >= 180) return null;
-    return { centreDeg: windFromDeg - s.model.orientationDeg, halfWidthDeg };
+    // Whole degrees: the card, the governing sensor and the level ladder all use this same sector.
+    return { centreDeg: Math.round(windFromDeg - s.model.orientationDeg), halfWidthDeg };
   }
 
   /** Effective utilization at this gust over the directions assessed (Infinity when unbounded). */
@@ -629,10 +630,10 @@ export class Watch implements ReadingConsumer {
   private currentDensity(s: StructureLive, windFromDeg: number | null): DensityDependent {
     const sector = this.sector(s, windFromDeg);
     if (sector === null) return s.density;
-    const key = `${Math.round(sector.centreDeg)}|${sector.halfWidthDeg}|${this.airDensityKgM3}`;
+    const key = `${sector.centreDeg}|${sector.halfWidthDeg}|${this.airDensityKgM3}`;
     if (s.sectorKey !== key || s.sectorDensity === null) {
       s.sectorKey = key;
-      s.sectorDensity = densityDependent(s.model, this.airDensityKgM3, { centreDeg: Math.round(sector.centreDeg), halfWidthDeg: sector.halfWidthDeg });
+      s.sectorDensity = densityDependent(s.model, this.airDensityKgM3, sector);
     }
     return s.sectorDensity;
   }
@@ -992,7 +993,7 @@ export class Watch implements ReadingConsumer {
       referenceHeightM: m.referenceHeightM,
       triggerGustsMps: current.triggerGustsMps,
       levels: m.levels.map((l, i) => ({ level: i + 1, label: l.label, actionText: l.actionText, triggerGustMps: current.triggerGustsMps[i]!, trigger: l.trigger })),
-      warnings: [...m.warnings],
+      warnings: [...m.warnings, ...clampedTriggerWarnings(m.levels, current.limitGustMps)],
       evaluatedAtMs: s.evaluatedAtMs,
       error: s.error,
       mobile: m.mobile,
@@ -1094,6 +1095,21 @@ export class Watch implements ReadingConsumer {
   get currentAirDensityKgM3(): number {
     return this.airDensityKgM3;
   }
+}
+
+/**
+ * A gust trigger refused on save at or above the limit can still meet it later: denser (colder)
+ * air lowers the limit. The ladder then takes it at the limit; the card says so.
+ */
+function clampedTriggerWarnings(levels: readonly LevelDefinition[], limitGustMps: number): string[] {
+  if (!Number.isFinite(limitGustMps)) return [];
+  return levels.flatMap((level, index) =>
+    level.trigger.kind === 'gust' && level.trigger.gustMps >= limitGustMps
+      ? [
+          `Level ${index + 1} (${level.label}) is set at a gust of ${level.trigger.gustMps.toFixed(1)} m/s, at or above the limit of ${limitGustMps.toFixed(1)} m/s in today's air: it is taken at the limit. Lower its trigger.`,
+        ]
+      : [],
+  );
 }
 
 const noLevelEvents: readonly LevelEvent[] = Object.freeze([]);

@@ -167,6 +167,13 @@ describe('the gust a structure takes', () => {
     expect(all.state(1).governingSensorKey).toBe(listed.state(1).governingSensorKey);
   });
 
+  it('a gust trigger the limit has fallen to (denser air) is taken at the limit, and the card says so', () => {
+    const row = { ...board(1, 'Board', 4), levelsJson: [{ label: 'Stop and clear', trigger: { kind: 'gust', gustMps: 100 }, actionText: 'Clear.' }] };
+    const { state } = setup(site(), [row]);
+    expect(state(1).triggerGustsMps[0]).toBeCloseTo(state(1).limitGustMps, 9);
+    expect(state(1).warnings.join(' ')).toMatch(/taken at the limit/);
+  });
+
   it('never takes a late reading (from a gateway’s buffer) as live wind', () => {
     const { feed, state } = setup(site(), [board(1, 'Board', 4)]);
     feed('mast-10m', 40, null, 5 * 60_000);

@@ -21,6 +21,16 @@ export const memberCoefficients = {
       'references.md does not list it), with ψ_r = ψ_λ = 1 (no credit for rounded corners or the end effect), on the ' +
       'envelope area: conservative for a lattice tower (EN §7.11 on the solid members gives less)',
   },
+  /**
+   * A rectangular (not square) section: c_f,0 of EN Fig. 7.23 rises above the square value for
+   * sections shallower in the wind direction than they are wide.
+   */
+  rectangularSection: {
+    value: 2.4,
+    source:
+      'EN 1991-1-4 §7.6, Fig. 7.23: rectangular section with sharp corners, c_f,0 up to about 2.4 near d/b = 0.5 (from memory), ' +
+      'taken for every face of a tower that is not square (conservative)',
+  },
 } as const satisfies Record<string, SourcedValue>;
 
 export const memberSizes = {

@@ -138,7 +138,7 @@ export const screenRecordSchema = z
 
 export type ScreenRecord = z.infer<typeof screenRecordSchema>;
 
-type CoefficientInput = Pick<ScreenRecord, 'widthM' | 'heightM' | 'bottomHeightM' | 'solidity' | 'coefficients' | 'coefficientSource'>;
+type CoefficientInput = Pick<ScreenRecord, 'widthM' | 'heightM' | 'bottomHeightM' | 'solidity' | 'coefficients' | 'coefficientSource' | 'towerWidthM' | 'towerDepthM'>;
 
 /** The screen's, towers' and truss's coefficients, defaults or given, with their sources. */
 function screenCoefficients(record: CoefficientInput): Record<'screen' | 'tower' | 'truss', SourceNote> {
@@ -150,7 +150,14 @@ function screenCoefficients(record: CoefficientInput): Record<'screen' | 'tower'
       coefficients?.cf,
       coefficientSource,
     ),
-    tower: chosenCoefficient('c_f of each tower on its envelope area (front and side)', memberCoefficients.squareSection, coefficients?.towerCf, coefficientSource),
+    tower: chosenCoefficient(
+      'c_f of each tower on its envelope area (front and side)',
+      record.towerDepthM !== undefined && record.towerDepthM !== (record.towerWidthM ?? memberSizes.towerWidthM.value)
+        ? memberCoefficients.rectangularSection
+        : memberCoefficients.squareSection,
+      coefficients?.towerCf,
+      coefficientSource,
+    ),
     truss: chosenCoefficient('c_f of the header truss on its envelope area (front and back)', memberCoefficients.squareSection, coefficients?.trussCf, coefficientSource),
   };
 }

@@ -31,14 +31,19 @@
  *   it is open (common practice for frame tents: the walls hang below the eave); it then takes the
  *   roof's c_f on its own, by the same rules.
  *
- * Roof lift depends on the direction and the openings (`upliftCases`, one per windward side,
- * centred on its normal 0/90/180/270 with a half-width of 60°: a side counts as windward within
- * 60° of its normal, as for ψ; at 45° two cases apply and the worse governs). In each case:
+ * Roof lift depends on the direction and the openings (`upliftCases`). One case per windward
+ * side, centred on its normal 0/90/180/270 with a half-width of 60°: a side counts as windward
+ * within 60° of its normal, as for ψ. In corner wind, within 60° of two adjacent sides' normals
+ * (45° ± 15° between them), both are windward: where both are open, their openings together are
+ * the dominant windward face (a second windward opening raises c_pi, never lowers it), in two
+ * more cases centred on the corner, one with each side's Figure 7.8 zones (EN gives the zones for
+ * wind square onto a side only; the worse of the two governs). Several cases applying are
+ * alternatives and the worst governs (stability.ts). In each case:
  * - external suction by the zones of EN 1991-1-4 §7.2.5 (Figure 7.8, Tables 7.4a/b, c_pe,10) for
  *   a duopitch roof, each zone at the envelope of the pitch rows 5°–45° (from memory:
  *   coefficients.ts `tentRoofSuction`), with e = min(b, 2h), h the ridge height;
  * - internal pressure by §7.2.9 (from memory of the clause, references.md §10): a dominant opening
- *   on the windward side (its area at least twice the other openings) gives c_pi = 0.75·c_pe, at
+ *   on the windward face (its area at least twice the other openings) gives c_pi = 0.75·c_pe, at
  *   least three times 0.90·c_pe (linear between), below twice still 0.75·c_pe (conservative), with
  *   c_pe = +0.8 at the windward wall (Table 7.1 zone D); no windward opening: c_pi = +0.2 (the more
  *   onerous of +0.2 / −0.3 for lift, Note 2);
@@ -46,11 +51,34 @@
  * The resultant is placed at the centroid of the zones' lift, so it sits toward the windward
  * zones (F, G at the windward edge), not at the middle of the base.
  *
- * Element "windward leg (most loaded)": in each case, the leg whose tributary roof area (half a
- * bay either side, from its eave to the ridge) carries the most net lift, against its own ballast
- * and its share of the self-weight, on a 0.3 m square foot plate centred on the leg (common
- * practice: a base plate or weight stack of about that size). A rigid-body average hides it
- * (issue 11 item 7). The frame is not credited with sharing one leg's lift with its neighbours.
+ * Elements, the portal frames (issue 11 item 7; an engineering review found that a leg checked on
+ * its tributary lift alone misses the frame's overturning couple, which is what lifts a windward
+ * leg): a frame is the pair of legs across the span at one y with its rafters, standing on a strip
+ * as deep as the span (its two legs at x = 0 and x = widthM). Common practice for frame tents,
+ * assumed here: the roof and wall cover carry their load to the frames by tributary width (half a
+ * bay either side of a frame). A frame element carries:
+ * - its bay's share of the long walls and the roof's side elevation (one bay for an interior
+ *   frame, half a bay for an end frame), by the body's rules, and at an end frame the whole of its
+ *   gable end (with its triangle): the cover hangs from the frame and stakes are not credited, and
+ *   bracing, eave rails and purlins are not credited with spreading the gable's push along the
+ *   ridge to the other frames, so an end frame's own feet take it (conservative: a braced end bay
+ *   would share it with the next frame's feet);
+ * - the net roof lift on its tributary strip in every roof case, with the zone distribution along
+ *   the ridge (the end bay under a windward gable takes the F, G and H zones), at the strip's
+ *   centroid of lift;
+ * - its two legs' ballast and its share of the self-weight, half at each leg.
+ * Its overturning about the leeward leg line is the windward leg's uplift: with the leeward leg as
+ * the pivot, the leg's tension is (M_h + M_lift)/widthM and the check γ·(M_h + M_lift)/(W_leg·widthM)
+ * is γ·T/W_leg. Its out-of-plane tipping (about a line along the span) is not checked on the
+ * frame (a strip: its ends are not checked): out of plane a frame stands by the eave rails,
+ * purlins and bracing that tie it to the others, so that is the whole body's tipping about its
+ * gable-end edges. "portal frame (interior)" is, in each roof case, the most loaded interior frame
+ * (all interior frames have the same faces and masses; where no single frame has the most lift
+ * and the largest moments about both leg lines, two entries envelope them); "end frame at the
+ * y = 0 end" is the end frame there, and the one at y = lengthM is the same by symmetry unless the
+ * two gable ends differ, when it is assessed too. Self-weight credited: an interior frame W_s/N
+ * (N frames), an end frame W_s·(bay/2)/lengthM; whatever the split of the self-weight between
+ * frames (the same for every frame) and cover (by plan area), neither exceeds the frame's own share.
  */
 import { z } from 'zod';
 import { count, coefficient, dimensionM, massKg } from '../recordFields.ts';
@@ -78,15 +106,34 @@ const windWords: Readonly<Record<TentSide, string>> = {
   endY0: 'wind onto the y = 0 gable end',
   endYW: 'wind onto the y = lengthM gable end',
 };
+const ontoWords: Readonly<Record<TentSide, string>> = {
+  front: 'the front',
+  back: 'the back',
+  endY0: 'the y = 0 gable end',
+  endYW: 'the y = lengthM gable end',
+};
 
 /** A side counts as windward within this angle of its normal (as ψ gives full force within 60°). */
 const windwardHalfWidthDeg = 60;
-/** Side of the square foot plate the leg element stands on, m (common practice). */
-const footPlateM = 0.3;
+/** Two adjacent sides (normals 90° apart) are both windward within this angle of their bisector: 60° − 45° = 15°. */
+const cornerHalfWidthDeg = windwardHalfWidthDeg - 45;
+/** The corners: two adjacent sides, in the order of their normals, and the bisector of the normals. */
+const tentCorners: ReadonlyArray<{ sides: readonly [TentSide, TentSide]; centreDeg: number }> = [
+  { sides: ['front', 'endYW'], centreDeg: 45 },
+  { sides: ['endYW', 'back'], centreDeg: 135 },
+  { sides: ['back', 'endY0'], centreDeg: 225 },
+  { sides: ['endY0', 'front'], centreDeg: 315 },
+];
 /** Beyond this many legs, each row's legs are listed as one mass at the row's middle (same moments). */
 const legsListedSingly = 150;
 /** Below this roof pitch the roof is flat for EN 1991-1-4 (§7.2.3) and the duopitch zones do not strictly apply. */
 const lowestDuopitchDeg = 5;
+/** Element names (the y = baseWidthM end is the tent's y = lengthM end; caseWords names both ends by compass). */
+export const tentElementNames = {
+  interior: 'portal frame (interior)',
+  endY0: 'end frame at the y = 0 end',
+  endYW: 'end frame at the y = baseWidthM end',
+} as const;
 
 const sideState = () => z.enum(['closed', 'open']);
 
@@ -272,6 +319,7 @@ function roofZones(windward: TentSide, plan: Plan): RoofZone[] {
     .filter((zone) => areaOf(zone) > 0);
 }
 
+
 /** Net lift of one windward case over a plan rectangle: Σ (suction + c_pi) · area, and its centroid. */
 interface LiftOver {
   /** Net lift per unit dynamic pressure, m² (N/Pa). */
@@ -281,7 +329,15 @@ interface LiftOver {
 }
 
 interface RoofCase {
-  windward: TentSide;
+  /** The sides counted as the windward face: one side, or two adjacent ones in corner wind. */
+  windward: readonly TentSide[];
+  /** The side whose Figure 7.8 zones are laid out (the wind taken square onto it). */
+  zonesFrom: TentSide;
+  /** The directions the case applies to: within halfWidthDeg of centreDeg. */
+  centreDeg: number;
+  halfWidthDeg: number;
+  /** The wind in words ("wind onto the front"), for labels and notes. */
+  words: string;
   /** Internal pressure coefficient, and in words how it was found. */
   internal: { cpi: number; text: string };
   /** Canopy (all sides open): a uniform net lift instead of zones plus internal pressure. */
@@ -315,33 +371,42 @@ function openingAreaM2(side: TentSide, plan: Plan, eaveHeightM: number): number 
 }
 
 /**
- * c_pi for wind onto `windward` (EN 1991-1-4 §7.2.9, from memory of the clause): with the windward
- * side open, ratio R of its opening to all other openings: R ≥ 3 → 0.90·c_pe, 2..3 linear from
- * 0.75, below 2 still 0.75·c_pe (conservative: the clause's no-dominant-face rule would give less
- * for flow-through); c_pe = +0.8 at the windward wall (Table 7.1 zone D). Windward side closed:
- * +0.2 (Note 2: the more onerous of +0.2 and −0.3 for lift), whatever else is open.
+ * c_pi for wind onto `windward` (EN 1991-1-4 §7.2.9, from memory of the clause): one side, or
+ * two adjacent sides that are both windward in corner wind (their open areas then count together
+ * as the dominant windward face). With a windward side open, ratio R of the windward openings to
+ * all other openings: R ≥ 3 → 0.90·c_pe, 2..3 linear from 0.75, below 2 still 0.75·c_pe
+ * (conservative: the clause's no-dominant-face rule would give less for flow-through); c_pe = +0.8
+ * at the windward wall (Table 7.1 zone D), kept at a wall 45° off the wind too (conservative).
+ * Windward side(s) closed: +0.2 (Note 2: the more onerous of +0.2 and −0.3 for lift), whatever
+ * else is open.
  */
 export function tentInternalPressure(
-  windward: TentSide,
+  windward: TentSide | readonly TentSide[],
   states: Record<TentSide, SideState>,
   plan: Plan,
   eaveHeightM: number,
 ): { cpi: number; ratio: number | null; text: string } {
-  if (states[windward] === 'closed') {
-    return { cpi: defaultCoefficients.tentInternalPressure.value, ratio: null, text: `${sideWords[windward]} closed: c_pi = +0.2` };
+  const windwardSides: readonly TentSide[] = typeof windward === 'string' ? [windward] : windward;
+  const open = windwardSides.filter((side) => states[side] === 'open');
+  if (open.length === 0) {
+    const closedCpi = defaultCoefficients.tentInternalPressure.value;
+    return { cpi: closedCpi, ratio: null, text: `${windwardSides.map((side) => sideWords[side]).join(' and ')} closed: c_pi = +${closedCpi}` };
   }
-  const windwardAreaM2 = openingAreaM2(windward, plan, eaveHeightM);
-  const otherAreaM2 = tentSides.filter((side) => side !== windward && states[side] === 'open').reduce((sum, side) => sum + openingAreaM2(side, plan, eaveHeightM), 0);
+  const windwardAreaM2 = open.reduce((sum, side) => sum + openingAreaM2(side, plan, eaveHeightM), 0);
+  const otherAreaM2 = tentSides
+    .filter((side) => !windwardSides.includes(side) && states[side] === 'open')
+    .reduce((sum, side) => sum + openingAreaM2(side, plan, eaveHeightM), 0);
   const ratio = otherAreaM2 > 0 ? windwardAreaM2 / otherAreaM2 : Infinity;
   const twice = defaultCoefficients.tentDominantOpeningTwice.value;
   const thrice = defaultCoefficients.tentDominantOpeningThrice.value;
   const factor = ratio >= 3 ? thrice : ratio <= 2 ? twice : twice + (thrice - twice) * (ratio - 2);
   const cpi = factor * defaultCoefficients.tentWindwardWallPressure.value;
-  const ratioText = Number.isFinite(ratio) ? `${round(ratio)}× the other openings` : 'the only opening';
+  const which = open.length > 1 ? `${open.map((side) => sideWords[side]).join(' and ')} open, both windward` : `${sideWords[open[0]!]} open`;
+  const ratioText = Number.isFinite(ratio) ? `${round(ratio)}× the other openings` : open.length > 1 ? 'the only openings' : 'the only opening';
   return {
     cpi,
     ratio: Number.isFinite(ratio) ? ratio : null,
-    text: `${sideWords[windward]} open (${ratioText}): c_pi = ${round(factor)} · 0.8 = +${round(cpi)}`,
+    text: `${which} (${ratioText}): c_pi = ${round(factor)} · 0.8 = +${round(cpi)}`,
   };
 }
 
@@ -355,6 +420,9 @@ function upliftOf(areaM2: number, perPaM2: number): { planAreaM2: number; liftCo
 function round(value: number): number {
   return Math.round(value * 1000) / 1000;
 }
+
+/** Which part of the tent a face belongs to: the long walls and roof rise run along the ridge; a gable's faces stand at its end. */
+type FacePart = 'alongRidge' | 'endY0' | 'endYW';
 
 export function expandTent(record: TentRecord): Expansion {
   const { lengthM, widthM, eaveHeightM, ridgeHeightM, coefficients, coefficientSource } = record;
@@ -378,13 +446,14 @@ export function expandTent(record: TentRecord): Expansion {
     warnings.push('coefficients.wallCf applies to closed sides only; the open sides carry no wall load. Give coefficients.openWallCf if they carry wind (mesh, scrim).');
   }
 
-  // --- Faces.
-  const faces: Face[] = [];
+  // --- Faces, each tagged with the part of the tent it belongs to (for the frames' shares).
+  const tagged: Array<{ face: Face; part: FacePart }> = [];
   const sideFace = (side: TentSide, areaM2: number, centroidHeightM: number, cf: number, label: string) => {
     if (areaM2 <= 0 || cf <= 0) return;
     // Front side (outside) when this side is windward; back side (inside) only when the opposite side lets the wind in.
     const inside = states[oppositeSide[side]] === 'open' ? cf : 0;
-    faces.push({ label, areaM2, centroidHeightM, cfFront: cf, cfBack: inside, facingDeg: sideFacingDeg[side] });
+    const part: FacePart = side === 'front' || side === 'back' ? 'alongRidge' : side;
+    tagged.push({ face: { label, areaM2, centroidHeightM, cfFront: cf, cfBack: inside, facingDeg: sideFacingDeg[side] }, part });
   };
   const triangleAreaM2 = (widthM * riseM) / 2;
   const triangleCentroidM = eaveHeightM + riseM / 3;
@@ -408,47 +477,68 @@ export function expandTent(record: TentRecord): Expansion {
   }
   if (riseM > 0 && roof.value > 0) {
     // A pitched roof seen broadside projects as lengthM × rise, from either long side.
-    faces.push({ label: 'roof, side elevation', areaM2: lengthM * riseM, centroidHeightM: eaveHeightM + riseM / 2, cfFront: roof.value, cfBack: roof.value, facingDeg: 0 });
+    tagged.push({
+      face: { label: 'roof, side elevation', areaM2: lengthM * riseM, centroidHeightM: eaveHeightM + riseM / 2, cfFront: roof.value, cfBack: roof.value, facingDeg: 0 },
+      part: 'alongRidge',
+    });
   }
+  const faces = tagged.map((entry) => entry.face);
 
-  // --- Roof lift, one case per windward side.
-  const cases: RoofCase[] = tentSides.map((windward) => {
-    const internal = tentInternalPressure(windward, states, plan, eaveHeightM);
-    return {
-      windward,
-      internal,
-      canopyLift: allOpen ? defaultCoefficients.tentCanopyLift.value : null,
-      zones: allOpen ? [] : roofZones(windward, plan),
-    };
+  // --- Roof lift: one case per windward side, and in corner wind with both sides open, two more per corner.
+  const caseOf = (windward: readonly TentSide[], zonesFrom: TentSide, centreDeg: number, halfWidthDeg: number, words: string): RoofCase => ({
+    windward,
+    zonesFrom,
+    centreDeg,
+    halfWidthDeg,
+    words,
+    internal: tentInternalPressure(windward, states, plan, eaveHeightM),
+    canopyLift: allOpen ? defaultCoefficients.tentCanopyLift.value : null,
+    zones: allOpen ? [] : roofZones(zonesFrom, plan),
   });
+  const cases: RoofCase[] = tentSides.map((side) => caseOf([side], side, sideFacingDeg[side], windwardHalfWidthDeg, windWords[side]));
+  // All sides open is a canopy, whose lift does not depend on the openings: no corner cases.
+  const openCorners = allOpen ? [] : tentCorners.filter((corner) => corner.sides.every((side) => states[side] === 'open'));
+  for (const corner of openCorners) {
+    const [first, second] = corner.sides;
+    for (const zonesFrom of corner.sides) {
+      cases.push(
+        caseOf(corner.sides, zonesFrom, corner.centreDeg, cornerHalfWidthDeg, `corner wind onto ${ontoWords[first]} and ${ontoWords[second]}, zones as onto ${ontoWords[zonesFrom]}`),
+      );
+    }
+  }
   const whole: Rect = { x0: 0, x1: widthM, y0: 0, y1: lengthM };
   const givenLift = coefficients?.liftCoefficient;
-  const liftSources: SourceNote[] = [];
-  const upliftCases: DirectionalUplift[] = cases.map((roofCase) => {
+  // A given coefficient replaces each case's area average, keeping the default model's distribution.
+  const scales = cases.map((roofCase) => {
+    if (givenLift === undefined) return 1;
     const resultant = liftOver(roofCase, whole);
-    // A given coefficient replaces the area average, keeping the default model's distribution.
-    const scale = givenLift === undefined ? 1 : resultant.perPaM2 > 0 ? (givenLift * planAreaM2) / resultant.perPaM2 : 0;
-    const perPaM2 = resultant.perPaM2 * scale;
-    const basis = roofCase.canopyLift !== null ? 'all sides open: canopy' : roofCase.internal.text;
+    return resultant.perPaM2 > 0 ? (givenLift * planAreaM2) / resultant.perPaM2 : 0;
+  });
+  const basisOf = (roofCase: RoofCase) => (roofCase.canopyLift !== null ? 'all sides open: canopy' : roofCase.internal.text);
+  const liftSources: SourceNote[] = [];
+  const upliftCases: DirectionalUplift[] = cases.map((roofCase, index) => {
+    const resultant = liftOver(roofCase, whole);
+    const perPaM2 = resultant.perPaM2 * scales[index]!;
+    const basis = basisOf(roofCase);
     liftSources.push(
       givenLift === undefined
         ? {
-            item: `net roof lift, area average, ${windWords[roofCase.windward]} (${basis})`,
+            item: `net roof lift, area average, ${roofCase.words} (${basis})`,
             value: perPaM2 / planAreaM2,
             source:
               roofCase.canopyLift !== null
                 ? defaultCoefficients.tentCanopyLift.source
                 : 'roof zones of EN 1991-1-4 Figure 7.8 with the suctions of tentRoofSuction, plus c_pi of §7.2.9 (from memory); see the items above',
           }
-        : givenCoefficient(`net roof lift, area average, ${windWords[roofCase.windward]}`, givenLift, coefficientSource),
+        : givenCoefficient(`net roof lift, area average, ${roofCase.words}`, givenLift, coefficientSource),
     );
     return {
-      label: `roof lift, ${windWords[roofCase.windward]} (${basis})`,
+      label: `roof lift, ${roofCase.words} (${basis})`,
       ...upliftOf(planAreaM2, perPaM2),
       xM: resultant.xM,
       yM: resultant.yM,
-      centreDeg: sideFacingDeg[roofCase.windward],
-      halfWidthDeg: windwardHalfWidthDeg,
+      centreDeg: roofCase.centreDeg,
+      halfWidthDeg: roofCase.halfWidthDeg,
     };
   });
 
@@ -470,59 +560,72 @@ export function expandTent(record: TentRecord): Expansion {
     }
   }
 
-  // --- Element: the most loaded windward leg.
-  const tributaryOf = (rowXM: number, yM: number): Rect => ({
-    x0: rowXM === 0 ? 0 : widthM / 2,
-    x1: rowXM === 0 ? widthM / 2 : widthM,
-    y0: Math.max(0, yM - bayM / 2),
-    y1: Math.min(lengthM, yM + bayM / 2),
-  });
-  // The self-weight share credited: the smallest tributary share of any leg (an end leg's, a quarter bay of the plan), conservative for all.
-  const selfShareKg = record.selfWeightKg * (bayM / 2 / lengthM) / 2;
-  const legMassKg = record.ballastPerLegKg + selfShareKg;
-  const half = footPlateM / 2;
-  const legNotes: string[] = [];
-  const legCases: DirectionalUplift[] = cases.map((roofCase, index) => {
-    const resultant = liftOver(roofCase, whole);
-    const scale = givenLift === undefined ? 1 : resultant.perPaM2 > 0 ? (givenLift * planAreaM2) / resultant.perPaM2 : 0;
-    let worst = { perPaM2: -1, rect: tributaryOf(0, 0), row: rows[0]!.name, yM: 0 };
-    for (const row of rows) {
-      for (const yM of legYsM) {
-        const rect = tributaryOf(row.xM, yM);
-        const lift = liftOver(roofCase, rect).perPaM2 * scale;
-        if (lift > worst.perPaM2 + 1e-12) worst = { perPaM2: lift, rect, row: row.name, yM };
+  // --- Elements: the portal frames, each on a strip as deep as the span (module comment).
+  const { ratedGustMps: _rated, ...elementSettings } = settings;
+  const stripOf = (yM: number): Rect => ({ x0: 0, x1: widthM, y0: Math.max(0, yM - bayM / 2), y1: Math.min(lengthM, yM + bayM / 2) });
+  const clampX = (xM: number) => Math.min(widthM, Math.max(0, xM));
+  const near = (value: number, best: number) => value >= best - 1e-9 * Math.max(1, Math.abs(best));
+  const frameNotes: string[] = [];
+  const frameElement = (name: string, framesYM: readonly number[], gable: 'endY0' | 'endYW' | null, selfShareKg: number, shareWords: string): Element => {
+    const stripLengthM = framesYM.length > 0 ? stripOf(framesYM[0]!).y1 - stripOf(framesYM[0]!).y0 : 0;
+    const share = stripLengthM / lengthM;
+    const frameFaces: Face[] = tagged
+      .filter((entry) => entry.part === 'alongRidge' || entry.part === gable)
+      .map(({ face, part }) => (part === 'alongRidge' ? { ...face, label: `${face.label}, ${round(stripLengthM)} m of it`, areaM2: face.areaM2 * share } : face));
+    const stripAreaM2 = widthM * stripLengthM;
+    const frameCases: DirectionalUplift[] = cases.flatMap((roofCase, index) => {
+      const lifts = framesYM.map((yM) => {
+        const lift = liftOver(roofCase, stripOf(yM));
+        return { yM, perPaM2: lift.perPaM2 * scales[index]!, xM: lift.xM };
+      });
+      // Moments of each frame's lift about its leeward leg line: the back legs (x = widthM) and the front legs (x = 0).
+      const mostLift = Math.max(...lifts.map((lift) => lift.perPaM2));
+      const mostAboutBack = Math.max(...lifts.map((lift) => lift.perPaM2 * (widthM - lift.xM)));
+      const mostAboutFront = Math.max(...lifts.map((lift) => lift.perPaM2 * lift.xM));
+      const sector = { centreDeg: roofCase.centreDeg, halfWidthDeg: roofCase.halfWidthDeg };
+      const worst = lifts.find(
+        (lift) => near(lift.perPaM2, mostLift) && near(lift.perPaM2 * (widthM - lift.xM), mostAboutBack) && near(lift.perPaM2 * lift.xM, mostAboutFront),
+      );
+      if (worst !== undefined) {
+        return [{ label: `frame lift, ${roofCase.words} (frame at y = ${round(worst.yM)} m)`, ...upliftOf(stripAreaM2, worst.perPaM2), xM: clampX(worst.xM), ...sector }];
       }
-    }
-    const areaM2 = areaOf(worst.rect);
-    legNotes.push(
-      `${windWords[roofCase.windward]}: the ${worst.row} leg at y = ${round(worst.yM)} m, tributary ${round(worst.rect.x1 - worst.rect.x0)} × ${round(worst.rect.y1 - worst.rect.y0)} m, ` +
-        `net lift ${round(worst.perPaM2 / areaM2)} on it (the roof's average ${round(upliftCases[index]!.liftCoefficient * upliftCases[index]!.planAreaM2 / planAreaM2)})`,
+      // No one frame has the most of all three: two entries with the most lift, each with the largest moment about one leg line, envelope them all.
+      return [
+        { label: `frame lift, ${roofCase.words} (envelope of the frames: the largest moment about the back legs)`, ...upliftOf(stripAreaM2, mostLift), xM: clampX(widthM - mostAboutBack / mostLift), ...sector },
+        { label: `frame lift, ${roofCase.words} (envelope of the frames: the largest moment about the front legs)`, ...upliftOf(stripAreaM2, mostLift), xM: clampX(mostAboutFront / mostLift), ...sector },
+      ];
+    });
+    const halfShareKg = selfShareKg / 2;
+    const legWords = `${record.ballastPerLegKg} kg of ballast and ${round(halfShareKg)} kg of self-weight`;
+    frameNotes.push(
+      `Element "${name}": ${round(stripLengthM)} m of the long walls and the roof's side elevation${gable === null ? '' : ` and the whole ${sideWords[gable]}`}, ` +
+        `the roof lift on its ${round(widthM)} × ${round(stripLengthM)} m strip, and two legs, each with ${legWords} (${shareWords}).`,
     );
     return {
-      label: `leg lift, ${windWords[roofCase.windward]} (${worst.row} leg at y = ${round(worst.yM)} m)`,
-      ...upliftOf(areaM2, worst.perPaM2),
-      xM: half,
-      yM: half,
-      centreDeg: sideFacingDeg[roofCase.windward],
-      halfWidthDeg: windwardHalfWidthDeg,
+      name,
+      baseDepthM: widthM,
+      ...elementSettings,
+      faces: frameFaces,
+      upliftCases: frameCases,
+      masses: [
+        { label: `front leg: ${legWords}`, massKg: record.ballastPerLegKg + halfShareKg, xM: 0 },
+        { label: `back leg: ${legWords}`, massKg: record.ballastPerLegKg + halfShareKg, xM: widthM },
+      ],
     };
-  });
-  const { ratedGustMps: _rated, ...elementSettings } = settings;
-  const legElement: Element = {
-    name: 'windward leg (most loaded)',
-    baseDepthM: footPlateM,
-    baseWidthM: footPlateM,
-    ...elementSettings,
-    // A leg carries no wind face of its own and its foot plate does not tip: its real check is
-    // uplift, γ_up·F_up/W. With no face, "overturning" about a plate edge and "sliding" both reduce
-    // to γ·F_up/W; they take factor 1 so that they never read above the uplift check.
-    safetyFactors: { overturning: 1, sliding: 1, uplift: settings.safetyFactors.uplift },
-    faces: [],
-    upliftCases: legCases,
-    masses: [{ label: `leg ballast ${record.ballastPerLegKg} kg and ${round(selfShareKg)} kg of self-weight`, massKg: legMassKg, xM: half, yM: half }],
   };
+  const interiorShareKg = record.selfWeightKg / legsPerRow;
+  const endShareKg = (record.selfWeightKg * (bayM / 2)) / lengthM;
+  const elements: Element[] = [];
+  const interiorYsM = legYsM.slice(1, -1);
+  if (interiorYsM.length > 0) {
+    elements.push(frameElement(tentElementNames.interior, interiorYsM, null, interiorShareKg, `the self-weight over ${legsPerRow} frames`));
+  }
+  elements.push(frameElement(tentElementNames.endY0, [0], 'endY0', endShareKg, 'half a bay of the self-weight'));
+  if (states.endY0 !== states.endYW) {
+    elements.push(frameElement(tentElementNames.endYW, [lengthM], 'endYW', endShareKg, 'half a bay of the self-weight'));
+  }
 
-  // --- Sources of the roof model.
+  // --- Sources of the roof model and the frames.
   const roofSources: SourceNote[] = [];
   if (!allOpen) {
     for (const [direction, values] of [
@@ -540,7 +643,38 @@ export function expandTent(record: TentRecord): Expansion {
       { item: 'c_pi with the windward side closed', ...defaultCoefficients.tentInternalPressure },
     );
   }
-  roofSources.push({ item: 'leg foot plate, m square', value: footPlateM, source: 'common practice: a base plate or weight stack about 0.3 m square under each leg' });
+  if (openCorners.length > 0) {
+    roofSources.push({
+      item: 'corner wind: two adjacent open sides together as the dominant windward face, within ± this many degrees of the corner',
+      value: cornerHalfWidthDeg,
+      source:
+        'EN 1991-1-4 §7.2.9 dominant face (from memory of the clause), applied to two faces that are both windward (both within 60° of the wind, as for ψ): ' +
+        'an interpretation on the safe side (a second windward opening raises c_pi), with c_pe +0.8 kept at both openings and each side’s Figure 7.8 zones tried',
+    });
+  }
+  roofSources.push(
+    {
+      item: 'frame tributary width along the ridge (interior frame), m',
+      value: bayM,
+      source: 'common practice for frame tents: the roof and wall cover span between the frames and carry their load to them by tributary width, half a bay either side',
+    },
+    {
+      item: 'share of its gable end’s wind taken by the end frame',
+      value: 1,
+      source:
+        'assumed (conservative): the gable cover hangs from the end frame and stakes are not credited; bracing, eave rails and purlins are not credited with spreading the push along the ridge to the other frames',
+    },
+    {
+      item: 'self-weight credited to an interior frame, kg',
+      value: interiorShareKg,
+      source: 'assumed (conservative): the self-weight over the frames, W_s/N; no more than a frame’s own share whatever the split between frames and cover',
+    },
+    {
+      item: 'self-weight credited to an end frame, kg',
+      value: endShareKg,
+      source: 'assumed (conservative): half a bay of the self-weight by plan length, W_s·(bay/2)/lengthM; no more than the end frame’s own share whatever the split',
+    },
+  );
 
   if (pitchDeg < lowestDuopitchDeg && !allOpen) {
     warnings.push(
@@ -555,12 +689,15 @@ export function expandTent(record: TentRecord): Expansion {
     'The gable triangles are roof cover and stay when an end wall is open.',
     allOpen
       ? `All sides open: a canopy (EN 1991-1-4 §7.3), net lift ${defaultCoefficients.tentCanopyLift.value} over the plan at its centre.`
-      : 'Roof lift per windward side (within 60° of its normal): EN 1991-1-4 Figure 7.8 zones with the suctions listed, plus c_pi from the openings (§7.2.9); the resultant sits toward the windward zones.',
+      : 'Roof lift per windward side (within 60° of its normal): EN 1991-1-4 Figure 7.8 zones with the suctions listed, plus c_pi from the openings (§7.2.9); the resultant sits toward the windward zones.' +
+          (openCorners.length > 0 ? ' In corner wind (within 15° of a corner) two adjacent open sides are both windward: their openings count together as the dominant face.' : ''),
     `${legsPerRow} legs per row, ${round(bayM)} m apart from end to end, each with ${record.ballastPerLegKg} kg; the frame and cover (${record.selfWeightKg} kg) act at the middle of the base.`,
-    `Element "windward leg (most loaded)": the leg with the most net lift on its tributary roof area (half a bay either side, eave to ridge), against its ballast and ${round(selfShareKg)} kg of self-weight (an end leg's tributary share, the smallest), on a ${footPlateM} m foot plate. ` +
-      'Its overturning and sliding factors are 1: with no wind face they only repeat the uplift check. ' +
-      legNotes.join('; ') +
-      '.',
+    'Elements: the portal frames, each a pair of legs across the span on a strip as deep as the span, with its tributary share of the cover (half a bay either side) and of the roof lift. ' +
+      'A frame’s overturning about its leeward legs is its windward leg’s uplift: the leg’s tension (M_h + M_lift)/widthM against its ballast and self-weight share. ' +
+      'An end frame takes the whole of its gable end’s wind on its own feet (bracing not credited along the ridge: conservative); out of plane a frame stands by the eave rails, purlins and bracing, so its tipping along the ridge is the body’s.' +
+      (interiorYsM.length === 0 ? ' With two legs per row there are only the end frames.' : '') +
+      (states.endY0 === states.endYW ? ' The end frame at y = lengthM is the mirror of the one at y = 0.' : ''),
+    ...frameNotes,
     'Only weight resists: stakes and ground anchors are not credited.',
   ];
 
@@ -572,7 +709,7 @@ export function expandTent(record: TentRecord): Expansion {
       faces,
       upliftCases,
       masses,
-      elements: [legElement],
+      elements,
     },
     referenceHeightM: record.referenceHeightM ?? ridgeHeightM,
     sources: [...faceSources, ...roofSources, ...liftSources, ...sources],

@@ -50,6 +50,16 @@ const referenceScreen = {
   frictionCoefficient: 0.4,
 } as const;
 
+describe('a tower that is not square (review finding)', () => {
+  it('takes c_f 2.4 (EN 1991-1-4 Fig. 7.23 near d/b = 0.5, from memory) instead of the square section’s 2.1', () => {
+    const square = expandStructure(record({ ...referenceScreen, towerWidthM: 0.4 }));
+    const oblong = expandStructure(record({ ...referenceScreen, towerWidthM: 0.4, towerDepthM: 0.8 }));
+    const towerCf = (e: ReturnType<typeof expandStructure>) => e.structure.faces.find((f) => /tower/.test(f.label ?? ''))!.cfFront;
+    expect(towerCf(square)).toBe(2.1);
+    expect(towerCf(oblong)).toBe(2.4);
+  });
+});
+
 describe('friction of steel outrigger feet on a hard surface (review finding)', () => {
   it('defaults to 0.3, the lower end of EN 12812 steel on concrete, and warns that smooth cast concrete can be 0.1 (HSE RR071)', () => {
     const { frictionCoefficient: _given, ...withoutFriction } = referenceScreen;
