@@ -200,6 +200,8 @@ export function bodyCoefficients(body: StabilityBody, element: string | null = n
   }));
 
   const { safetyFactors, frictionCoefficient: mu } = body;
+  // An element may be checked for some criteria only (structure.ts, elementSchema `checks`).
+  const checks = new Set<Criterion>('checks' in body && Array.isArray(body.checks) ? (body.checks as Criterion[]) : criteria);
   const directionsDeg = mergedDeg(assessedDirectionsDeg([...faces.map((face) => face.facingDeg), ...facingsDeg]), exactDeg);
   const assessDirection = (directionDeg: number): DirectionCoefficients => {
     let forceX = 0;
@@ -237,9 +239,9 @@ export function bodyCoefficients(body: StabilityBody, element: string | null = n
       }
       if (overturning === 0) tippingEdge = travelEdge(forceX, forceY);
       const utilization = {
-        overturning,
-        sliding: perPa(safetyFactors.sliding * (forcePerPaM2 + mu * upliftPerPaM2), mu * weightN),
-        uplift: perPa(safetyFactors.uplift * upliftPerPaM2, weightN),
+        overturning: checks.has('overturning') ? overturning : 0,
+        sliding: checks.has('sliding') ? perPa(safetyFactors.sliding * (forcePerPaM2 + mu * upliftPerPaM2), mu * weightN) : 0,
+        uplift: checks.has('uplift') ? perPa(safetyFactors.uplift * upliftPerPaM2, weightN) : 0,
       };
       const governing = governingOf(utilization);
       const candidate: DirectionCoefficients = {

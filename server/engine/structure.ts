@@ -84,10 +84,19 @@ const bodyShape = {
 
 /**
  * A part that can fail on its own before the body does (design §2.4): a fence's end panel on its
- * own feet, one screen tower with its outrigger ballast, the most loaded tent leg. It is assessed
+ * own feet, one screen tower with its outrigger ballast, a tent's portal frame. It is assessed
  * like a structure on its own base and masses, in the body's frame.
  */
-export const elementSchema = z.strictObject({ name: label(), ...bodyShape });
+export const elementSchema = z.strictObject({
+  name: label(),
+  ...bodyShape,
+  /**
+   * The checks that apply to this part on its own (default all three). A tent's portal frame is
+   * checked for tipping and uplift (its windward legs lifting), not for sliding: the eave rails
+   * and purlins tie it to the other frames, so the tent slides as a whole (the body's check).
+   */
+  checks: z.array(z.enum(['overturning', 'sliding', 'uplift'])).min(1).optional(),
+});
 
 export const expandedStructureSchema = z.strictObject({
   ...bodyShape,

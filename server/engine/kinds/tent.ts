@@ -67,6 +67,9 @@
  *   the ridge (the end bay under a windward gable takes the F, G and H zones), at the strip's
  *   centroid of lift;
  * - its two legs' ballast and its share of the self-weight, half at each leg.
+ * A frame is checked for tipping in its own plane and uplift, not for sliding: the eave rails and
+ * purlins tie it to the other frames, so the tent slides as a whole (the body's check, on the
+ * vector sum of every face, the gable push included).
  * Its overturning about the leeward leg line is the windward leg's uplift: with the leeward leg as
  * the pivot, the leg's tension is (M_h + M_lift)/widthM and the check γ·(M_h + M_lift)/(W_leg·widthM)
  * is γ·T/W_leg. Its out-of-plane tipping (about a line along the span) is not checked on the
@@ -190,7 +193,7 @@ export const tentRecordSchema = z
         roofCf: coefficient().optional(),
         /**
          * Net roof lift coefficient, area-averaged over the plan, in every direction (default: per
-         * direction from the roof zones and the openings); its resultant and the legs' shares keep
+         * direction from the roof zones and the openings); its resultant and the frames' shares keep
          * the default model's distribution.
          */
         liftCoefficient: coefficient().optional(),
@@ -421,6 +424,44 @@ function round(value: number): number {
   return Math.round(value * 1000) / 1000;
 }
 
+/** One frame's net lift per unit q (m²) at xM across the span, for the frame standing at yM. */
+export interface FrameLift {
+  yM: number;
+  perPaM2: number;
+  xM: number;
+}
+
+/**
+ * The lift entries that stand for the worst of several frames with the same faces and masses (the
+ * interior frames). A frame's checks grow with its lift (uplift, sliding) and with its lift's
+ * moment about each leg line (overturning about the back legs: F·(widthM − x); about the front
+ * legs: F·x), so the frame with the most of all three is the worst in every direction: one entry.
+ * Where no single frame has the most of all three, two entries, each with the most lift and one
+ * leg line's largest moment, are at least as onerous as every frame in every check (the engine
+ * takes the worse of the alternatives). With the zones of Figure 7.8 the frames' strips differ only
+ * along the ridge and a single frame always has the most; the envelope stands for other layouts.
+ */
+export function worstFrameLifts(lifts: readonly FrameLift[], widthM: number): Array<{ yM: number | null; perPaM2: number; xM: number; aboutLegs: 'front' | 'back' | null }> {
+  if (lifts.length === 0) throw new RangeError('worstFrameLifts: lifts must list at least one frame');
+  for (const [index, lift] of lifts.entries()) {
+    if (!(lift.perPaM2 >= 0)) throw new RangeError(`worstFrameLifts: lifts.${index}.perPaM2 must be ≥ 0 m², got ${lift.perPaM2}`);
+    if (!(lift.xM >= -1e-9 && lift.xM <= widthM + 1e-9)) throw new RangeError(`worstFrameLifts: lifts.${index}.xM must be within 0..${widthM} m, got ${lift.xM}`);
+  }
+  const clampX = (xM: number) => Math.min(widthM, Math.max(0, xM));
+  const near = (value: number, best: number) => value >= best - 1e-9 * Math.max(1, Math.abs(best));
+  const mostLift = Math.max(...lifts.map((lift) => lift.perPaM2));
+  const mostAboutBack = Math.max(...lifts.map((lift) => lift.perPaM2 * (widthM - lift.xM)));
+  const mostAboutFront = Math.max(...lifts.map((lift) => lift.perPaM2 * lift.xM));
+  const worst = lifts.find(
+    (lift) => near(lift.perPaM2, mostLift) && near(lift.perPaM2 * (widthM - lift.xM), mostAboutBack) && near(lift.perPaM2 * lift.xM, mostAboutFront),
+  );
+  if (worst !== undefined) return [{ yM: worst.yM, perPaM2: worst.perPaM2, xM: clampX(worst.xM), aboutLegs: null }];
+  return [
+    { yM: null, perPaM2: mostLift, xM: clampX(widthM - mostAboutBack / mostLift), aboutLegs: 'back' },
+    { yM: null, perPaM2: mostLift, xM: clampX(mostAboutFront / mostLift), aboutLegs: 'front' },
+  ];
+}
+
 /** Which part of the tent a face belongs to: the long walls and roof rise run along the ridge; a gable's faces stand at its end. */
 type FacePart = 'alongRidge' | 'endY0' | 'endYW';
 
@@ -563,8 +604,6 @@ export function expandTent(record: TentRecord): Expansion {
   // --- Elements: the portal frames, each on a strip as deep as the span (module comment).
   const { ratedGustMps: _rated, ...elementSettings } = settings;
   const stripOf = (yM: number): Rect => ({ x0: 0, x1: widthM, y0: Math.max(0, yM - bayM / 2), y1: Math.min(lengthM, yM + bayM / 2) });
-  const clampX = (xM: number) => Math.min(widthM, Math.max(0, xM));
-  const near = (value: number, best: number) => value >= best - 1e-9 * Math.max(1, Math.abs(best));
   const frameNotes: string[] = [];
   const frameElement = (name: string, framesYM: readonly number[], gable: 'endY0' | 'endYW' | null, selfShareKg: number, shareWords: string): Element => {
     const stripLengthM = framesYM.length > 0 ? stripOf(framesYM[0]!).y1 - stripOf(framesYM[0]!).y0 : 0;
@@ -578,22 +617,13 @@ export function expandTent(record: TentRecord): Expansion {
         const lift = liftOver(roofCase, stripOf(yM));
         return { yM, perPaM2: lift.perPaM2 * scales[index]!, xM: lift.xM };
       });
-      // Moments of each frame's lift about its leeward leg line: the back legs (x = widthM) and the front legs (x = 0).
-      const mostLift = Math.max(...lifts.map((lift) => lift.perPaM2));
-      const mostAboutBack = Math.max(...lifts.map((lift) => lift.perPaM2 * (widthM - lift.xM)));
-      const mostAboutFront = Math.max(...lifts.map((lift) => lift.perPaM2 * lift.xM));
-      const sector = { centreDeg: roofCase.centreDeg, halfWidthDeg: roofCase.halfWidthDeg };
-      const worst = lifts.find(
-        (lift) => near(lift.perPaM2, mostLift) && near(lift.perPaM2 * (widthM - lift.xM), mostAboutBack) && near(lift.perPaM2 * lift.xM, mostAboutFront),
-      );
-      if (worst !== undefined) {
-        return [{ label: `frame lift, ${roofCase.words} (frame at y = ${round(worst.yM)} m)`, ...upliftOf(stripAreaM2, worst.perPaM2), xM: clampX(worst.xM), ...sector }];
-      }
-      // No one frame has the most of all three: two entries with the most lift, each with the largest moment about one leg line, envelope them all.
-      return [
-        { label: `frame lift, ${roofCase.words} (envelope of the frames: the largest moment about the back legs)`, ...upliftOf(stripAreaM2, mostLift), xM: clampX(widthM - mostAboutBack / mostLift), ...sector },
-        { label: `frame lift, ${roofCase.words} (envelope of the frames: the largest moment about the front legs)`, ...upliftOf(stripAreaM2, mostLift), xM: clampX(mostAboutFront / mostLift), ...sector },
-      ];
+      return worstFrameLifts(lifts, widthM).map((worst) => ({
+        label: `frame lift, ${roofCase.words} (${basisOf(roofCase)}; ${worst.yM === null ? `envelope of the frames: the largest moment about the ${worst.aboutLegs} legs` : `frame at y = ${round(worst.yM)} m`})`,
+        ...upliftOf(stripAreaM2, worst.perPaM2),
+        xM: worst.xM,
+        centreDeg: roofCase.centreDeg,
+        halfWidthDeg: roofCase.halfWidthDeg,
+      }));
     });
     const halfShareKg = selfShareKg / 2;
     const legWords = `${record.ballastPerLegKg} kg of ballast and ${round(halfShareKg)} kg of self-weight`;
@@ -605,6 +635,9 @@ export function expandTent(record: TentRecord): Expansion {
       name,
       baseDepthM: widthM,
       ...elementSettings,
+      // Tipping in its own plane and its windward legs lifting; not sliding: the eave rails and
+      // purlins tie it to the other frames, so the tent slides as a whole (the body's check).
+      checks: ['overturning', 'uplift'],
       faces: frameFaces,
       upliftCases: frameCases,
       masses: [
@@ -654,7 +687,7 @@ export function expandTent(record: TentRecord): Expansion {
   }
   roofSources.push(
     {
-      item: 'frame tributary width along the ridge (interior frame), m',
+      item: 'bay between frames, m (a frame’s tributary width: half a bay either side)',
       value: bayM,
       source: 'common practice for frame tents: the roof and wall cover span between the frames and carry their load to them by tributary width, half a bay either side',
     },
@@ -664,11 +697,15 @@ export function expandTent(record: TentRecord): Expansion {
       source:
         'assumed (conservative): the gable cover hangs from the end frame and stakes are not credited; bracing, eave rails and purlins are not credited with spreading the push along the ridge to the other frames',
     },
-    {
-      item: 'self-weight credited to an interior frame, kg',
-      value: interiorShareKg,
-      source: 'assumed (conservative): the self-weight over the frames, W_s/N; no more than a frame’s own share whatever the split between frames and cover',
-    },
+    ...(interiorYsM.length > 0
+      ? [
+          {
+            item: 'self-weight credited to an interior frame, kg',
+            value: interiorShareKg,
+            source: 'assumed (conservative): the self-weight over the frames, W_s/N; no more than a frame’s own share whatever the split between frames and cover',
+          },
+        ]
+      : []),
     {
       item: 'self-weight credited to an end frame, kg',
       value: endShareKg,

@@ -1,8 +1,9 @@
 /**
  * The tent kind of design §2.4 v2, hand-worked (numbers of our own invention, worked in the
  * comments, not by the engine): gable ends, each side closed or open, roof lift by the EN
- * 1991-1-4 Figure 7.8 zones plus the §7.2.9 internal pressure, its resultant toward the windward
- * zones, and the most loaded windward leg as an element.
+ * 1991-1-4 Figure 7.8 zones plus the §7.2.9 internal pressure (two adjacent open sides counted
+ * together in corner wind), its resultant toward the windward zones, and the portal frames as
+ * elements (each frame's overturning about its leeward legs is its windward leg's uplift).
  *
  * Common figures: g = 9.80665 m/s²; a gust of 15 m/s in ISA sea-level air (ρ = 1.225 kg/m³, the
  * calculator's default, design §4) gives q = ½ · 1.225 · 15² = 137.8125 Pa.
@@ -13,9 +14,12 @@
  * G 1.4, H 0.9, I 0.6. Internal pressure (§7.2.9, from memory of the clause): +0.2 with the
  * windward side closed; 0.75 / 0.90 × c_pe = +0.8 (Table 7.1 zone D, from memory) at a windward
  * opening at least twice / three times the other openings.
+ * The engineering review's cases (issue 11 review) use ρ = 1.25 kg/m³ (the site default, design
+ * §2.1): at 15 m/s q = ½ · 1.25 · 15² = 140.625 Pa.
  */
 import { describe, expect, it } from 'vitest';
 import {
+  assessCoefficients,
   assessStructure,
   defaultCoefficients,
   directionUtilizations,
@@ -27,9 +31,12 @@ import {
   type StructureRecord,
 } from '../../../server/engine/index.ts';
 import { tentRoofSuction } from '../../../server/engine/kinds/coefficients.ts';
+import { worstFrameLifts } from '../../../server/engine/kinds/tent.ts';
 
 const g = 9.80665;
 const q15 = 137.8125;
+/** The review's dynamic pressure: ½ · 1.25 · 15² Pa. */
+const qReview = 140.625;
 
 /** Parses a record as the route would, so the examples are valid records. */
 function record(input: unknown): StructureRecord {
@@ -44,10 +51,24 @@ function expectRelativelyClose(actual: number | null | undefined, expected: numb
   expect(Math.abs(actual! - expected)).toBeLessThanOrEqual(tolerance * Math.abs(expected));
 }
 
-function bodyDirection(report: AssessmentReport, directionDeg: number): DirectionReport {
+/** The body's own report (the frames left out), so that its figures can be checked whichever part governs. */
+function bodyOnly(input: StructureRecord, gustMps = 15, airDensityKgM3 = 1.225) {
+  const { structure } = expandStructure(input);
+  return assessCoefficients(stabilityCoefficients({ ...structure, elements: [] }), gustMps, airDensityKgM3);
+}
+
+function bodyDirection(report: Pick<AssessmentReport, 'directions'>, directionDeg: number): DirectionReport {
   const found = report.directions.find((direction) => direction.directionDeg === directionDeg);
   if (!found) throw new Error(`no direction ${directionDeg}`);
   expect(found.element).toBeNull();
+  return found;
+}
+
+function elementDirection(report: AssessmentReport, name: string, directionDeg: number): DirectionReport {
+  const element = report.elements.find((entry) => entry.name === name);
+  if (!element) throw new Error(`no element ${name}`);
+  const found = element.directions.find((direction) => direction.directionDeg === directionDeg);
+  if (!found) throw new Error(`no direction ${directionDeg} for ${name}`);
   return found;
 }
 
@@ -124,7 +145,7 @@ describe('tent faces: a closed box whose windward face carries the body drag (de
 });
 
 describe('tent, hand-worked directions (design §2.3 v2: ψ = 1 within 60° of a face normal)', () => {
-  const report = assessStructure(record(closedTent), { gustMps: 15 });
+  const report = bodyOnly(record(closedTent));
 
   it('issue 11 item 1 regression: wind along the ridge loads the gable end of the closed 10 × 5 m tent and its sliding check matches the hand calculation (the first model loaded nothing at 90°)', () => {
     // θ = 90: only the y = 10 gable end's outside is loaded (long walls and roof rise edge-on, the
@@ -174,7 +195,8 @@ describe('tent, hand-worked directions (design §2.3 v2: ψ = 1 within 60° of a
     expect(oblique.upliftCase).toMatch(/onto the front/);
     expectRelativelyClose(oblique.utilization.sliding, 4.615878, 1e-6);
     expect((2 * (Math.hypot(59.4, 25.2) + 0.3 * alongLiftPerPa) * q15) / (0.3 * closedWeightN)).toBeLessThan(oblique.utilization.sliding!);
-    // The structure's governing case is one of the oblique directions (the 30°–60° band is alike).
+    // The body's governing case is one of the oblique directions (the 30°–60° band is alike); the
+    // structure's is an end frame's (tent portal frames, below).
     expect(report.governing).toBe('sliding');
     expectRelativelyClose(report.utilization.governing, 4.615878, 1e-6);
   });
@@ -207,9 +229,9 @@ describe('tent roof lift: zones, openings and the resultant toward the windward 
     const front = caseOnto(expandStructure(openFront).structure, 0);
     expectRelativelyClose(front.planAreaM2 * front.liftCoefficient, 73.689);
     expectRelativelyClose(front.xM, 174.13737 / 73.689);
-    const direction = bodyDirection(assessStructure(openFront, { gustMps: 15 }), 0);
+    const direction = bodyDirection(bodyOnly(openFront), 0);
     expectRelativelyClose(direction.utilization.uplift, 0.970827, 1e-6);
-    expect(direction.utilization.uplift!).toBeGreaterThan(bodyDirection(assessStructure(record(closedTent), { gustMps: 15 }), 0).utilization.uplift!);
+    expect(direction.utilization.uplift!).toBeGreaterThan(bodyDirection(bodyOnly(record(closedTent)), 0).utilization.uplift!);
     // The leeward cases keep +0.2: the open front is not on their windward side.
     expectRelativelyClose(caseOnto(expandStructure(openFront).structure, 180).liftCoefficient, 0.95378);
   });
@@ -230,7 +252,7 @@ describe('tent roof lift: zones, openings and the resultant toward the windward 
     // Broadside, about the back edge: (98.01 + 129.30763) q against (98.01 + 47.689 · 2.5 = 119.2225) q centred:
     // U_ot 1.197932 against 1.144785. Along the ridge, about the y = 0 edge: (35.655 + 247.4375) q against
     // (35.655 + 45.25 · 5 = 226.25) q centred: U_ot 0.745929 against 0.690102.
-    const report = assessStructure(record(closedTent), { gustMps: 15 });
+    const report = bodyOnly(record(closedTent));
     const broadside = bodyDirection(report, 0);
     const centredBroadside = (1.5 * (98.01 + 47.689 * 2.5) * q15) / (4000 * g);
     expectRelativelyClose(centredBroadside, 1.144785, 1e-6);
@@ -257,57 +279,244 @@ describe('tent roof lift: zones, openings and the resultant toward the windward 
   });
 });
 
-describe('tent element: the most loaded windward leg in uplift (design §2.4 v2)', () => {
-  it('gives an interior windward leg its tributary lift, bay × half the span (hand-worked, closed tent)', () => {
-    // Wind onto the front; the leg at y = 10/3 m takes x 0..2.5, y 1.667..5 (8.3333 m²): G over
-    // y 1.667..5 (F ends at 1.65) × 0.66 = 2.2 m² × 1.2 = 2.64; H 3.3333 × 1.84 = 6.1333 m² × 0.6 = 3.68;
-    // internal 0.2 · 8.3333 = 1.6667 → 7.98667 m² per Pa. Ballast 150 kg + the end leg's share of the
-    // self-weight, 400 · (10/3) / (4 · 10) = 33.333 kg.
-    const { structure } = expandStructure(record(closedTent));
-    const leg = structure.elements![0]!;
-    expect(leg.name).toBe('windward leg (most loaded)');
-    expect(leg).toMatchObject({ baseDepthM: 0.3, baseWidthM: 0.3, faces: [] });
-    expectRelativelyClose(leg.masses[0]!.massKg, 150 + 400 / 12);
-    const front = leg.upliftCases!.find((entry) => entry.centreDeg === 0)!;
-    expectRelativelyClose(front.planAreaM2, 2.5 * (10 / 3));
-    expectRelativelyClose(front.planAreaM2 * front.liftCoefficient, 7.986667, 1e-6);
+describe('tent portal frames: the frame couple lifts the windward leg (issue 11 engineering review, defect 1)', () => {
+  const closed = record(closedTent);
+  const openFront = record({ ...closedTent, sides: { front: 'open' } });
+  const interiorName = 'portal frame (interior)';
+  const endName = 'end frame at the y = 0 end';
+
+  it('interior portal frame of the closed 10 × 5 m tent, wind onto the front: its overturning about the back legs, the windward leg uplift with the frame couple, is 1.593 where the old leg element gave 0.937 (hand-worked)', () => {
+    // Frame at y = 10/3 m: tributary strip y 5/3..5 (one bay, 10/3 m) over the whole span x 0..5.
+    // Faces, one bay (common practice: the cover carries its load to the frames by tributary width):
+    //   front wall 1.8 · (10/3 · 2.3 = 7.6667 m²) at 1.15 m, roof rise 1.8 · (10/3 · 1 = 3.3333 m²) at 2.8 m:
+    //   |F| = 1.8 · 11 = 19.8 q; about the back legs M_h = 1.8 · (7.6667 · 1.15 + 3.3333 · 2.8) = 1.8 · 18.15 = 32.67 q
+    //   (a third of the body's 98.01 q).
+    // Lift on the strip, wind onto the front (zones as worked above; F ends at y = 1.65, short of the strip):
+    //   G 3.3333 · 0.66 = 2.2 m² × 1.2 = 2.64 at x = 0.33; H 3.3333 · 1.84 = 6.1333 m² × 0.6 = 3.68 at 1.58;
+    //   J 2.2 m² × 1.0 = 2.2 at 2.83; I 6.1333 m² × 0.6 = 3.68 at 4.08; internal 0.2 · 16.6667 = 3.3333 at 2.5
+    //   → 15.5333 q. About the back legs (x = 5): 2.64 · 4.67 + 3.68 · 3.42 + 2.2 · 2.17 + 3.68 · 0.92 + 3.3333 · 2.5
+    //   = 12.3288 + 12.5856 + 4.774 + 3.3856 + 8.3333 = 41.40733 q: resultant at x = 5 − 41.40733 / 15.5333 = 2.334292 m.
+    // Masses: each leg 150 kg + half the frame's self-weight 400 kg / 4 frames = 100 kg → 200 kg at x = 0 and at x = 5.
+    // At the review's q = 140.625 Pa, about the back legs: M = (32.67 + 41.40733) q = 74.07733 q = 10 417.12 N·m against
+    //   M_w = 200 · 5 · g = 9 806.65 N·m: U_ot = 1.5 · 10 417.12 / 9 806.65 = 1.593377. The windward leg's tension is
+    //   the same check: T = 10 417.12 / 5 = 2 083.42 N against 200 g = 1 961.33 N, 1.5 · 2 083.42 / 1 961.33 = 1.593377.
+    // The review's figures are this couple with other self-weight shares at the leg: 33.33 kg (the old element's)
+    //   1.5 · 2 083.42 / (183.333 g) = 1.738229 ("1.74"); the bay's share 133.33 kg, 66.67 kg at the leg, 1.470809 ("1.47").
+    // The old leg element: its tributary 2.5 × 3.3333 m lift 7.986667 q alone, 1.5 · 7.986667 q / (183.333 g) = 0.937038.
+    // U_up = 1.5 · 15.5333 q / (400 g) = 0.835291. A frame is not checked for sliding on its own: the eave rails and purlins
+    //   tie it to the other frames, so the tent slides as a whole (the body's check).
+    const { structure } = expandStructure(closed);
+    const frame = structure.elements!.find((element) => element.name === interiorName)!;
+    expect(frame).toBeDefined();
+    expect(frame.baseDepthM).toBe(5);
+    expect(frame.baseWidthM).toBeUndefined();
+    expect(frame.masses.map((mass) => [mass.massKg, mass.xM])).toEqual([[200, 0], [200, 5]]);
+    const frameFaces = new Map(frame.faces.map((face) => [face.label!.split(',')[0], face]));
+    expectRelativelyClose(frameFaces.get('front wall (closed)')!.areaM2, 23 / 3, 1e-12);
+    expectRelativelyClose(frameFaces.get('roof')!.areaM2, 10 / 3, 1e-12);
+    expect(frame.faces.some((face) => face.facingDeg === 90 || face.facingDeg === 270)).toBe(false);
+    const front = frame.upliftCases!.find((entry) => entry.centreDeg === 0)!;
+    expectRelativelyClose(front.planAreaM2 * front.liftCoefficient, 15.533333, 1e-6);
+    expectRelativelyClose(front.xM, 2.334292, 1e-6);
+
+    const report = assessStructure(closed, { gustMps: 15, airDensityKgM3: 1.25 });
+    expectRelativelyClose(report.qPa, qReview, 1e-12);
+    const onto = elementDirection(report, interiorName, 0);
+    expect(onto.tippingEdge).toBe('back');
+    expectRelativelyClose(onto.overturningMomentNm, 74.077333 * qReview, 1e-6);
+    expectRelativelyClose(onto.restoringMomentNm, 1000 * g, 1e-12);
+    expectRelativelyClose(onto.utilization.overturning, 1.593377, 1e-6);
+    const legTensionN = onto.overturningMomentNm / 5;
+    expectRelativelyClose((1.5 * legTensionN) / (200 * g), onto.utilization.overturning!, 1e-12);
+    expectRelativelyClose(onto.utilization.uplift, 0.835291, 1e-6);
+    expect(onto.utilization.sliding).toBe(0);
+    // Above the old leg element's 0.937038 and the body's own overturning, (98.01 + 129.30763) q · 1.5 / (4000 g) = 1.222380.
+    expect(onto.utilization.overturning!).toBeGreaterThan(0.937038);
+    const body = bodyDirection(bodyOnly(closed, 15, 1.25), 0);
+    expectRelativelyClose(body.utilization.overturning, 1.222380, 1e-6);
+    expect(onto.utilization.overturning!).toBeGreaterThan(body.utilization.overturning!);
+    expect(report.elements.map((element) => element.name)).not.toContain('windward leg (most loaded)');
   });
 
-  it('governs when the leg ballast is small: an open canopy on timber feet on concrete (μ 0.7, HSE RR071), 6 legs of 10 kg', () => {
-    // 10 × 5 m, all sides open, 6 legs (3 per row, 5 m apart), 10 kg each, 400 kg self-weight, μ 0.7.
-    // Interior leg (y = 5): 5 × 2.5 = 12.5 m² × 1.5 = 18.75 q = 2583.984 N against (10 + 400 · 5 / 40 = 50) kg = 60 g:
-    // U_up = 1.5 · 2583.984 / 588.399 = 6.587327.
-    // Body: W = 460 g = 4511.059 N; worst sliding at 45°, roof rise 1.8 · 10 = 18 q along x, both gable triangles
-    // 2 · 1.8 · 2.5 = 9 q along y (the far one from inside: its opposite end is open): |F| = √(18² + 9²) q,
-    // U_sl = 2 · (20.124612 + 0.7 · 75) q / (0.7 · 4511.059) = 6.339075. The leg governs.
+  it('with the windward side open the interior frame reaches 2.059 where the old leg element gave 1.445 (c_pi +0.72, §7.2.9 from memory; hand-worked)', () => {
+    // Front open, the only opening: c_pi = 0.90 · 0.8 = 0.72. Strip lift: external 2.64 + 3.68 + 2.2 + 3.68 = 12.2,
+    //   internal 0.72 · 16.6667 = 12 → 24.2 q; about the back legs 33.074 + 12 · 2.5 = 63.074 q.
+    // Faces: no front wall; the back wall takes the wind on its inside (c_f 1.8 on its back, the front being open),
+    //   pushing toward the back at the same 1.15 m: M_h = 32.67 q as before. M = 95.744 q = 13 463.99 N·m:
+    //   U_ot = 1.5 · 13 463.99 / 9 806.65 = 2.059419. U_up = 1.5 · 24.2 q / (400 g) = 1.301333.
+    // The review's: leg 1.5 · 13 463.99 / 5 / (183.333 g) = 2.246639 ("2.25"), frame with the bay's share 1.901002 ("1.90").
+    // The old leg element: (7.986667 + 0.52 · 8.3333 = 12.32) q · 1.5 / (183.333 g) = 1.445446; the body's
+    //   overturning 1.5 · (98.01 + 73.689 · (5 − 2.363139)) q / (4000 g) = 1.571912.
+    const report = assessStructure(openFront, { gustMps: 15, airDensityKgM3: 1.25 });
+    const onto = elementDirection(report, interiorName, 0);
+    expect(onto.upliftCase).toMatch(/front wall open \(the only opening\): c_pi = 0\.9 · 0\.8 = \+0\.72/);
+    expectRelativelyClose(onto.overturningMomentNm, 95.744 * qReview, 1e-9);
+    expectRelativelyClose(onto.utilization.overturning, 2.059419, 1e-6);
+    expectRelativelyClose(onto.utilization.uplift, 1.301333, 1e-6);
+    expect(onto.utilization.overturning!).toBeGreaterThan(1.445446);
+    expectRelativelyClose(bodyDirection(bodyOnly(openFront, 15, 1.25), 0).utilization.overturning, 1.571912, 1e-6);
+  });
+
+  it('the end frame at y = 0 takes the F, G and H zones under a windward gable: its legs lift at 0.626, and the gable push is the body’s sliding 2.317 (hand-worked)', () => {
+    // End frame at y = 0: strip y 0..5/3 (half a bay), half a bay of the long walls and roof rise, the whole gable end
+    //   at y = 0 (14 m² at 1.414881 m, c_f 1.8). θ = 270 (onto the y = 0 end): walls and roof rise edge-on,
+    //   |F| = 1.8 · 14 q = 25.2 q along +y.
+    // Lift, zones along the ridge from the y = 0 end (b = 5, e = 5: e/10 = 0.5, e/4 = 1.25, e/2 = 2.5):
+    //   F 2 · 1.25 · 0.5 = 1.25 m² × 1.6 = 2; G 2.5 · 0.5 = 1.25 m² × 1.4 = 1.75; H 5 · (5/3 − 0.5) = 5.8333 m² × 0.9 = 5.25;
+    //   I starts at y = 2.5, beyond the strip; internal 0.2 · 8.3333 = 1.6667 → 10.6667 q at x = 2.5 (symmetric across).
+    //   Average 10.6667 / 8.3333 = 1.28 against the whole roof's 45.25 / 50 = 0.905.
+    // Masses: each leg 150 kg + half the end frame's share 400 · (5/3) / 10 = 66.667 kg → 183.333 kg; W = 366.667 g = 3 595.77 N.
+    // The gable push slides the whole tent (eave rails and purlins tie the frames, so a frame is not checked for sliding
+    //   alone): the body along the ridge at this density: 2.270432 · 140.625 / 137.8125 = 2.316767.
+    // U_up = 1.5 · 10.6667 q / 3 595.77 = 0.625735; about either leg line 1.5 · 10.6667 q · 2.5 / (183.333 g · 5), the same.
+    const { structure } = expandStructure(closed);
+    const end = structure.elements!.find((element) => element.name === endName)!;
+    expect(end.masses.map((mass) => mass.xM)).toEqual([0, 5]);
+    end.masses.forEach((mass) => expectRelativelyClose(mass.massKg, 150 + 100 / 3, 1e-12));
+    const gable = end.faces.find((face) => face.facingDeg === 270)!;
+    expectRelativelyClose(gable.areaM2, 14, 1e-12);
+    expect(end.faces.some((face) => face.facingDeg === 90)).toBe(false);
+    expectRelativelyClose(end.faces.find((face) => face.label!.startsWith('front wall'))!.areaM2, 23 / 6, 1e-12);
+    const ontoEnd = end.upliftCases!.find((entry) => entry.centreDeg === 270)!;
+    expectRelativelyClose(ontoEnd.planAreaM2 * ontoEnd.liftCoefficient, 32 / 3, 1e-9);
+    expectRelativelyClose(ontoEnd.xM, 2.5, 1e-12);
+
+    const report = assessStructure(closed, { gustMps: 15, airDensityKgM3: 1.25 });
+    const along = elementDirection(report, endName, 270);
+    expectRelativelyClose(along.horizontalForceN, 25.2 * qReview, 1e-12);
+    expect(along.utilization.sliding).toBe(0);
+    expectRelativelyClose(along.utilization.uplift, 0.625735, 1e-6);
+    expectRelativelyClose(along.utilization.overturning, 0.625735, 1e-6);
+    expectRelativelyClose(bodyDirection(bodyOnly(closed, 15, 1.25), 270).utilization.sliding, 2.316767, 1e-6);
+    // An interior frame's strip under the same wind: H 5 · (2.5 − 5/3) = 4.1667 m² × 0.9 = 3.75, I 12.5 m² × 0.6 = 7.5,
+    // internal 3.3333 → 14.5833 q on twice the area (average 0.875): the end bay is the one the gable zones load.
+    const interiorOntoEnd = structure.elements!.find((element) => element.name === interiorName)!.upliftCases!.find((entry) => entry.centreDeg === 270)!;
+    expectRelativelyClose(interiorOntoEnd.planAreaM2 * interiorOntoEnd.liftCoefficient, 14.583333, 1e-6);
+  });
+
+  it('governs the closed tent: the body slides at 30° off square, 4.710, above every frame’s tipping and uplift (hand-worked; the worst of body and elements, design §2.4)', () => {
+    // θ = 210 on the end frame: back wall half a bay 1.8 · 23/6 = 6.9 q (30° off its normal, ψ = 1) toward −x; roof rise
+    //   1.8 · 10/6 = 3 q (from its back side, 30° off) toward −x; gable end 1.8 · 14 = 25.2 q (60° off, ψ = 1) toward +y:
+    //   |F| = √(9.9² + 25.2²) q = 27.074897 q. Roof cases applying: onto the back (on the end strip, mirrored from the front:
+    //   F 1.089 m² × 1.7 + G 0.011 × 1.2 + H 1.84 + J 1.1 + I 1.84 + internal 1.6667 = 8.3112 q) and onto the y = 0 end
+    //   (10.6667 q, above): the larger lift governs sliding. U_sl = 2 · (27.074897 + 0.3 · 10.6667) q / 1 078.73 = 7.893359.
+    //   The same at θ = 330 (front wall instead of the back). The body's worst: sliding 4.615878 · 140.625 / 137.8125 = 4.710080.
+    const report = assessStructure(closed, { gustMps: 15, airDensityKgM3: 1.25 });
+    // The frames are checked for tipping and uplift only; the interior frame's worst is its overturning 1.593 (above).
+    expect(report.governingElement).toBeNull();
+    expect(report.governing).toBe('sliding');
+    expectRelativelyClose(report.utilization.governing, 4.710080, 1e-6);
+    expectRelativelyClose(bodyOnly(closed, 15, 1.25).utilization.governing, 4.710080, 1e-6);
+    expect(report.governingText).toMatch(/30° off square: sliding$/);
+  });
+
+  it('lists an interior frame only with three or more legs per row, and the end frame at the y = lengthM end only when the two gable ends differ (mirror symmetry)', () => {
+    const names = (input: unknown) => expandStructure(record(input)).structure.elements!.map((element) => element.name);
+    expect(names(closedTent)).toEqual([interiorName, endName]);
+    // 4 legs: one bay of 10 m, the end frames' strips 5 m each: front wall 5 · 2.3 = 11.5 m².
+    const fourLegs = expandStructure(record({ ...closedTent, legs: 4 })).structure.elements!;
+    expect(fourLegs.map((element) => element.name)).toEqual([endName]);
+    expectRelativelyClose(fourLegs[0]!.faces.find((face) => face.label!.startsWith('front wall'))!.areaM2, 11.5, 1e-12);
+    // The y = 0 end open, the y = 10 end closed: the y = 0 frame has only its gable triangle (2.5 m²), the other the whole gable (14 m²).
+    const uneven = expandStructure(record({ ...closedTent, sides: { endY0: 'open' } })).structure.elements!;
+    expect(uneven.map((element) => element.name)).toEqual([interiorName, endName, 'end frame at the y = baseWidthM end']);
+    expect(uneven[1]!.faces.filter((face) => face.facingDeg === 270).map((face) => face.areaM2)).toEqual([2.5]);
+    expect(uneven[2]!.faces.filter((face) => face.facingDeg === 90).map((face) => face.areaM2)).toEqual([14]);
+    expect(uneven[2]!.faces.some((face) => face.facingDeg === 270)).toBe(false);
+  });
+
+  it('envelopes frames where no single one has the most lift and the largest moments about both leg lines (hand-made lifts)', () => {
+    // Span 5 m. Frame A: 10 m² per Pa at x = 1 (about the back legs 10 · 4 = 40, about the front 10 · 1 = 10);
+    // frame B: 12 at x = 3 (about the back 24, about the front 36). Neither has all three: two entries of 12,
+    // at x = 5 − 40 / 12 = 1.666667 (40 about the back) and at x = 36 / 12 = 3 (36 about the front).
+    const envelope = worstFrameLifts([{ yM: 2, perPaM2: 10, xM: 1 }, { yM: 4, perPaM2: 12, xM: 3 }], 5);
+    expect(envelope).toHaveLength(2);
+    expect(envelope.map((entry) => entry.perPaM2)).toEqual([12, 12]);
+    expectRelativelyClose(envelope[0]!.xM, 5 / 3, 1e-12);
+    expectRelativelyClose(envelope[1]!.xM, 3, 1e-12);
+    expect(envelope.every((entry) => entry.yM === null)).toBe(true);
+    // B with 12 at x = 1 has the most of all three (12, 48, 12): it alone stands for both.
+    expect(worstFrameLifts([{ yM: 2, perPaM2: 10, xM: 1 }, { yM: 4, perPaM2: 12, xM: 1 }], 5)).toEqual([{ yM: 4, perPaM2: 12, xM: 1, aboutLegs: null }]);
+    expect(() => worstFrameLifts([], 5)).toThrow(RangeError);
+    expect(() => worstFrameLifts([{ yM: 0, perPaM2: -1, xM: 1 }], 5)).toThrow(/perPaM2/);
+  });
+
+  it('an open canopy on light legs: the interior frame governs, its windward leg lifting (μ 0.7 timber on concrete, HSE RR071; canopy lift 1.5, EN 1991-1-4 §7.3)', () => {
+    // 10 × 5 m, all sides open, 6 legs (3 per row, 5 m apart), 10 kg each, 400 kg self-weight, μ 0.7, ρ 1.225 (q15).
+    // Interior frame at y = 5: strip y 2.5..7.5 (25 m²), lift 1.5 · 25 = 37.5 q at x = 2.5; faces: half the roof rise
+    //   1.8 · 5 = 9 q at 2.8 m (the long walls open, no gable); legs 10 + (400 / 3) / 2 = 76.667 kg each, W = 153.333 g.
+    // About the back legs at θ = 0: (9 · 2.8 + 37.5 · 2.5) q = 118.95 q: U_ot = 1.5 · 118.95 q / (76.667 · 5 · g) = 6.541044
+    //   (the windward leg's tension 118.95 q / 5 against its 76.667 kg).
+    // U_up = 1.5 · 37.5 q / (153.333 g) = 5.155299. Sliding is the body's check (the frames are tied together).
+    // The body (old test, hand-worked): worst sliding at 45°, 6.339075 < 6.541044: the frame's windward leg governs.
     const canopy = record({
       kind: 'tent', name: 'Open bar canopy', lengthM: 10, widthM: 5, eaveHeightM: 2.3, ridgeHeightM: 3.3,
       wallsClosed: false, legs: 6, ballastPerLegKg: 10, selfWeightKg: 400, frictionCoefficient: 0.7,
     });
     const report = assessStructure(canopy, { gustMps: 15 });
-    expect(report.governingElement).toBe('windward leg (most loaded)');
-    expect(report.governing).toBe('uplift');
-    expectRelativelyClose(report.utilization.uplift, 6.587327, 1e-6);
-    expectRelativelyClose(report.upliftN, 2583.984375);
-    expect(report.governingText).toMatch(/^windward leg \(most loaded\), .*: uplift$/);
-    // The report's per-direction list names the worst part (here the leg at every direction); the
-    // body's own figures come from its coefficients.
-    expect(report.directions.every((direction) => direction.element === 'windward leg (most loaded)')).toBe(true);
-    const body = stabilityCoefficients(expandStructure(canopy).structure).body;
-    const body45 = directionUtilizations(body.directions.find((direction) => direction.directionDeg === 45)!, q15);
-    const bodySliding45 = (2 * (Math.hypot(18, 9) + 0.7 * 75) * q15) / (0.7 * 460 * g);
-    expectRelativelyClose(bodySliding45, 6.339075, 1e-6);
-    expectRelativelyClose(body45.sliding, bodySliding45);
-    const bodyWorst = Math.max(...body.directions.map((direction) => directionUtilizations(direction, q15).governing));
-    expectRelativelyClose(bodyWorst, bodySliding45);
-    expect(report.utilization.governing!).toBeGreaterThan(bodyWorst);
+    expect(report.governingElement).toBe(interiorName);
+    expect(report.governing).toBe('overturning');
+    expectRelativelyClose(report.utilization.governing, 6.541044, 1e-6);
+    const onto = elementDirection(report, interiorName, 0);
+    expectRelativelyClose(onto.utilization.overturning, 6.541044, 1e-6);
+    expectRelativelyClose(onto.utilization.uplift, 5.155299, 1e-6);
+    expectRelativelyClose(bodyOnly(canopy).utilization.governing, 6.339075, 1e-6);
+    expect(report.governingText).toMatch(/^portal frame \(interior\), wind onto the front: overturning about the back edge$/);
 
-    // With 200 kg per leg the body governs: leg 1.5 · 2583.984 / (250 g) = 1.580958 < body sliding
-    // 2 · (20.124612 + 52.5) q / (0.7 · 1600 g) = 1.822484.
+    // With 200 kg per leg: each leg 200 + 66.667 = 266.667 kg, U_ot = 1.5 · 118.95 q / (266.667 · 5 · g) = 1.880550, still
+    // above the body's 1.822484 (old test): the frame governs.
     const ballasted = assessStructure(record({ ...canopy, ballastPerLegKg: 200 }), { gustMps: 15 });
-    expect(ballasted.governingElement).toBeNull();
-    expectRelativelyClose(ballasted.utilization.governing, 1.822484, 1e-6);
-    expectRelativelyClose(ballasted.elements[0]!.utilization.uplift, 1.580958, 1e-6);
+    expect(ballasted.governingElement).toBe(interiorName);
+    expectRelativelyClose(ballasted.utilization.governing, 1.88055, 1e-5);
+    expectRelativelyClose(bodyOnly(record({ ...canopy, ballastPerLegKg: 200 })).utilization.governing, 1.822484, 1e-6);
+  });
+});
+
+describe('tent corner wind: two adjacent open sides are both windward (issue 11 engineering review, defect 2; EN 1991-1-4 §7.2.9 from memory)', () => {
+  const both = record({ ...closedTent, sides: { front: 'open', endYW: 'open' } });
+  const frontOnly = record({ ...closedTent, sides: { front: 'open' } });
+
+  it('opening the y = lengthM end as well as the front does not lower the lift at 45°: c_pi 0.72, not 0.6 (hand-worked)', () => {
+    // Front 10 · 2.3 = 23 m² and the y = 10 end 5 · 2.3 = 11.5 m² open. Before: onto the front the end counted as another
+    //   opening, 23 / 11.5 = 2 → c_pi 0.75 · 0.8 = 0.6; onto the end 0.5 → 0.6 (kept at 0.75 below twice). In corner wind
+    //   (θ within 60° of both normals: 30°..60°) both are windward: 34.5 m² with no other opening → 0.90 · 0.8 = 0.72, as
+    //   with the front the only opening.
+    // Lift at 45°: front zones 37.689 + 0.72 · 50 = 73.689 q, end zones 35.25 + 36 = 71.25 q (before 67.689 / 65.25 q).
+    // Body, ρ 1.25: U_up = 1.5 · 73.689 · 140.625 / 15 690.64 = 0.990640 (before 0.909979).
+    // Faces at 45°: the back wall from inside 1.8 · 23 = 41.4 q and the roof rise 18 q toward +x; the end triangle 1.8 · 2.5 = 4.5 q
+    //   and the y = 0 gable from inside 1.8 · 14 = 25.2 q toward −y: |F| = √(59.4² + 29.7²) q = 66.411219 q;
+    //   U_sl = 2 · (66.411219 + 0.3 · 73.689) q / (0.3 · 15 690.64) = 5.288857 (before 5.181309).
+    const corner = expandStructure(both).structure.upliftCases!.filter((entry) => entry.centreDeg === 45);
+    expect(corner.map((entry) => entry.halfWidthDeg)).toEqual([15, 15]);
+    expectRelativelyClose(corner[0]!.planAreaM2 * corner[0]!.liftCoefficient, 73.689, 1e-9);
+    expectRelativelyClose(corner[1]!.planAreaM2 * corner[1]!.liftCoefficient, 71.25, 1e-9);
+    expect(corner[0]!.label).toMatch(/both windward \(the only openings\): c_pi = 0\.9 · 0\.8 = \+0\.72/);
+    const at45 = bodyDirection(bodyOnly(both, 15, 1.25), 45);
+    expectRelativelyClose(at45.upliftN, 73.689 * qReview, 1e-9);
+    expectRelativelyClose(at45.utilization.uplift, 0.990640, 1e-6);
+    expectRelativelyClose(at45.utilization.sliding, 5.288857, 1e-6);
+    expect(at45.utilization.uplift!).toBeGreaterThanOrEqual(bodyDirection(bodyOnly(frontOnly, 15, 1.25), 45).utilization.uplift! * (1 - 1e-12));
+    // The corner sector's bounds are included (30° and 60°); at 15° only the front is windward and the end is a side face: 0.6 stays.
+    expectRelativelyClose(bodyDirection(bodyOnly(both, 15, 1.25), 30).upliftN, 73.689 * qReview, 1e-9);
+    expectRelativelyClose(bodyDirection(bodyOnly(both, 15, 1.25), 60).upliftN, 73.689 * qReview, 1e-9);
+    expectRelativelyClose(bodyDirection(bodyOnly(both, 15, 1.25), 15).upliftN, 67.689 * qReview, 1e-9);
+    // The frames take the same cases: the interior frame at 45° lifts as with the front alone open (24.2 q, U_up 1.301333).
+    const report = assessStructure(both, { gustMps: 15, airDensityKgM3: 1.25 });
+    expectRelativelyClose(elementDirection(report, 'portal frame (interior)', 45).utilization.uplift, 1.301333, 1e-6);
+  });
+
+  it('counts the two windward sides against the rest: front and both ends open, 34.5 / 11.5 = 3× the leeward end in corner wind (0.72), where onto the front alone 23 / 23 = 1× (0.6) (§7.2.9, from memory)', () => {
+    const threeOpen = expandStructure(record({ ...closedTent, sides: { front: 'open', endY0: 'open', endYW: 'open' } })).structure;
+    expect(threeOpen.upliftCases!.map((entry) => entry.centreDeg)).toEqual([0, 90, 180, 270, 45, 45, 315, 315]);
+    for (const centreDeg of [45, 315]) {
+      const acrossZones = threeOpen.upliftCases!.find((entry) => entry.centreDeg === centreDeg && /zones as onto the front/.test(entry.label!))!;
+      expect(acrossZones.label).toMatch(/3× the other openings\): c_pi = 0\.9 · 0\.8 = \+0\.72/);
+      expectRelativelyClose(acrossZones.planAreaM2 * acrossZones.liftCoefficient, 73.689, 1e-9);
+    }
+    const ontoFront = threeOpen.upliftCases!.find((entry) => entry.centreDeg === 0)!;
+    expectRelativelyClose(ontoFront.planAreaM2 * ontoFront.liftCoefficient, 37.689 + 0.6 * 50, 1e-9);
+    // All four open is a canopy: no corner cases (the canopy lift does not depend on the openings).
+    expect(expandStructure(record({ ...closedTent, wallsClosed: false })).structure.upliftCases).toHaveLength(4);
   });
 });
 
@@ -317,9 +526,12 @@ describe('tent properties and records', () => {
     { ...closedTent, sides: { front: 'open' } },
     { ...closedTent, wallsClosed: false },
     { ...closedTent, lengthM: 4, widthM: 9, sides: { endYW: 'open', back: 'open' } },
+    { ...closedTent, sides: { front: 'open', endYW: 'open' } },
+    { ...closedTent, legs: 4 },
+    { ...closedTent, legs: 320, ballastPerLegKg: 20 },
   ];
 
-  it('every utilization of the tent, every direction and the leg, is K·v² exactly: U(2v) = 4·U(v), and the limit gust gives 1 (design §2.3 v2)', () => {
+  it('every utilization of the tent, every direction and every frame, is K·v² exactly: U(2v) = 4·U(v), and the limit gust gives 1 (design §2.3 v2)', () => {
     for (const variant of variants) {
       const tent = record(variant);
       const low = assessStructure(tent, { gustMps: 9 });

@@ -94,7 +94,7 @@ export const kindIntro: Readonly<Record<StructureKind, string>> = {
   tent:
     'A tent or marquee: a rectangular plan with a pitched roof, legs in two rows along the long walls, and four sides, each closed or open. ' +
     `${everyDirection} Loaded: the long walls, the gable ends with their triangles and the roof’s side rise; the roof lift depends on which side is windward ` +
-    'and open (EN 1991-1-4 roof zones and internal pressure) and sits toward the windward side. Element checked on its own: the most loaded windward leg against its own ballast. ' +
+    'and open (EN 1991-1-4 roof zones and internal pressure) and sits toward the windward side. Elements checked on their own: the portal frames (a pair of legs across the span with its share of the walls, roof and lift), whose tipping is the windward legs lifting against their ballast. ' +
     'Only weight resists: stakes and ground anchors are not credited.',
   banner:
     'A banner fence, hoarding or mesh scrim: a row of flat panels on feet, with a clearance under them; the banner and its ballast stand at the middle of the feet. ' +
@@ -154,8 +154,8 @@ export const kindFields: Readonly<Record<StructureKind, FieldDef[]>> = {
       kind: 'int',
       placeholder: 'e.g. 8',
       help:
-        'Number of legs, an even number in two rows along the long walls, evenly spaced from end to end. The most loaded windward leg is also checked on its own ' +
-        '(its share of the roof lift, half a bay either side, against its ballast and its share of the self-weight, on a 0.3 m foot plate).',
+        'Number of legs, an even number in two rows along the long walls, evenly spaced from end to end. Each pair across the span is a portal frame, also checked on its own ' +
+        '(its share of the walls and roof, half a bay either side, and of the roof lift, against its two legs’ ballast and a share of the self-weight).',
     },
     { path: 'ballastPerLegKg', label: 'Ballast per leg', unit: 'kg', kind: 'number', placeholder: 'e.g. 500', help: 'Ballast on each leg (weights, water barrels), kg. Pegs, stakes and ground anchors are not credited.' },
     { path: 'selfWeightKg', label: 'Self-weight', unit: 'kg', kind: 'number', placeholder: 'e.g. 800', help: 'Frame, cover and floor that move with the tent, kg: acts at the middle of the base.' },
