@@ -57,9 +57,10 @@ interface LiveAnswer {
  * A plain frame (6 m² at 3.5 m on a tonne of ballast) with the site's default labels and action
  * texts (full length, as a real site has them), triggered directly by gusts at the structure.
  */
-function structureBody(name: string, gusts: [number, number, number]) {
+/** A board on a 1.5 m base; `massKg` 1000 gives a limit of about 14 m/s, 10 000 about 45 m/s (limit ∝ √mass). */
+function structureBody(name: string, gusts: [number, number, number], massKg = 1000) {
   return {
-    record: { kind: 'custom', name, baseDepthM: 1.5, faces: [{ areaM2: 6, centroidHeightM: 3.5, cfFront: 1.8, cfBack: 1.8 }], masses: [{ massKg: 1000, xM: 0.75 }] },
+    record: { kind: 'custom', name, baseDepthM: 1.5, faces: [{ areaM2: 6, centroidHeightM: 3.5, cfFront: 1.8, cfBack: 1.8 }], masses: [{ massKg, xM: 0.75 }] },
     sensorKeys: ['mast-a'],
     levels: siteDefaultLevels.map((l, i) => ({ label: l.label, trigger: { kind: 'gust', gustMps: gusts[i] }, actionText: l.actionText })),
   };
@@ -109,7 +110,7 @@ describe.skipIf(skip)('alerts grouped by structure on the live board', () => {
     await cp.call('POST', '/api/sensors', { key: 'mast-a', name: 'Mast A', heightM: 10, mode: 'summaries', silenceTimeoutMs: 600_000 });
     const made = await cp.call<{ password: string }>('POST', '/api/gateways', { name: 'Field gateway', username: 'field-gw', sensorKeys: ['mast-a'] });
     bannerId = (await cp.call<{ structure: { id: number } }>('POST', '/api/structures', structureBody(banner, [8, 11, 14]))).structure.id;
-    for (const name of others) await cp.call('POST', '/api/structures', structureBody(name, [12, 30, 40]));
+    for (const name of others) await cp.call('POST', '/api/structures', structureBody(name, [12, 30, 40], 10_000));
     gateway = await mqtt.connectAsync(`mqtt://127.0.0.1:${e2e.server.mqttPort}`, { username: 'field-gw', password: made.password, clientId: 'e2e-groups-gateway', reconnectPeriod: 0 });
 
     // The spell: Watch, then Prepare (and Watch on the four others), then Stop for the banner.
