@@ -72,6 +72,8 @@ export {
 export {
   bodyCoefficients,
   calculatedLimitGustMps,
+  compactGoverningCase,
+  compactStability,
   criteria,
   defaultSafetyFactors,
   directionUtilizations,
@@ -92,11 +94,13 @@ export {
   utilizationAtPa,
   type AssessedDirections,
   type BodyCoefficients,
+  type CompactStability,
   type Criterion,
   type DirectionCoefficients,
   type Edge,
   type GoverningCase,
   type RequiredBallast,
+  type Stability,
   type StabilityCoefficients,
   type Utilizations,
 } from './stability.ts';

@@ -396,9 +396,92 @@ function nearestCase(coefficients: StabilityCoefficients, centreDeg: number): Go
   return governingCase(coefficients, { centreDeg: nearestDeg, halfWidthDeg: 0 });
 }
 
+/**
+ * What the live watch keeps of a structure's coefficients: per part and direction only the
+ * governing k, its criterion and its tipping edge, in typed arrays (a thousand structures with
+ * their elements hold tens of thousands of directions). Everything the watch shows follows from
+ * these: U = k·q, limits, effective figures, and what governs in words.
+ */
+export interface CompactStability {
+  /** Directions assessed, degrees relative to the front; the same for every part. */
+  directionsDeg: Float64Array;
+  /** Part names: null for the body, then the elements'. */
+  parts: ReadonlyArray<string | null>;
+  /** Governing k of part p in direction d at [p · directions + d], 1/Pa. */
+  k: Float64Array;
+  /** Index into `criteria` of that governing k. */
+  criterion: Uint8Array;
+  /** Index into `edges` of the edge that case tips about. */
+  edge: Uint8Array;
+  strip: boolean;
+  ratedGustMps: number | null;
+}
+
+export function compactStability(coefficients: StabilityCoefficients): CompactStability {
+  const all = parts(coefficients);
+  const count = coefficients.body.directions.length;
+  const k = new Float64Array(all.length * count);
+  const criterion = new Uint8Array(all.length * count);
+  const edge = new Uint8Array(all.length * count);
+  all.forEach((part, p) =>
+    part.directions.forEach((direction, d) => {
+      k[p * count + d] = direction.utilizationPerPa.governing;
+      criterion[p * count + d] = criteria.indexOf(direction.governing);
+      edge[p * count + d] = edges.indexOf(direction.tippingEdge);
+    }),
+  );
+  return {
+    directionsDeg: Float64Array.from(coefficients.body.directions, (direction) => direction.directionDeg),
+    parts: all.map((part) => part.element),
+    k,
+    criterion,
+    edge,
+    strip: coefficients.body.strip,
+    ratedGustMps: coefficients.ratedGustMps,
+  };
+}
+
+/** The governing case of a compact structure: part, direction, criterion, edge and k (the first on a tie). */
+export function compactGoverningCase(
+  stability: CompactStability,
+  sector: AssessedDirections = null,
+): { element: string | null; directionDeg: number; criterion: Criterion; tippingEdge: Edge; perPa: number } {
+  const count = stability.directionsDeg.length;
+  let best = -1;
+  let nearest = 0;
+  for (let d = 0; d < count; d++) {
+    if (sector !== null && !inSector(stability.directionsDeg[d]!, sector)) {
+      if (sector !== null && Math.abs(wrappedDeg(stability.directionsDeg[d]! - sector.centreDeg)) < Math.abs(wrappedDeg(stability.directionsDeg[nearest]! - sector.centreDeg))) nearest = d;
+      continue;
+    }
+    for (let p = 0; p < stability.parts.length; p++) {
+      const index = p * count + d;
+      if (best < 0 || stability.k[index]! > stability.k[best]!) best = index;
+    }
+  }
+  if (best < 0) {
+    // A sector narrower than the spacing of the directions: the nearest direction assessed.
+    for (let p = 0; p < stability.parts.length; p++) {
+      const index = p * count + nearest;
+      if (best < 0 || stability.k[index]! > stability.k[best]!) best = index;
+    }
+  }
+  return {
+    element: stability.parts[Math.floor(best / count)]!,
+    directionDeg: stability.directionsDeg[best % count]!,
+    criterion: criteria[stability.criterion[best]!]!,
+    tippingEdge: edges[stability.edge[best]!]!,
+    perPa: stability.k[best]!,
+  };
+}
+
+/** The structure's coefficients, full (the calculator's) or compact (the watch's). */
+export type Stability = StabilityCoefficients | CompactStability;
+
 /** The highest governing k (1/Pa) of the structure, within the sector when given. */
-export function governingPerPa(coefficients: StabilityCoefficients, sector: AssessedDirections = null): number {
-  return governingCase(coefficients, sector).direction.utilizationPerPa.governing;
+export function governingPerPa(stability: Stability, sector: AssessedDirections = null): number {
+  if ('k' in stability) return compactGoverningCase(stability, sector).perPa;
+  return governingCase(stability, sector).direction.utilizationPerPa.governing;
 }
 
 /** The gust (m/s) at which utilization k·q reaches `fraction`: √(2f/(ρk)); Infinity when k = 0, 0 when unbounded. */
@@ -409,19 +492,19 @@ export function gustAtPerPaMps(perPaValue: number, fraction: number, airDensityK
 }
 
 /** The calculated limit gust (m/s): the lowest over parts, directions and criteria (within the sector). */
-export function calculatedLimitGustMps(coefficients: StabilityCoefficients, airDensityKgM3: number, sector: AssessedDirections = null): number {
+export function calculatedLimitGustMps(coefficients: Stability, airDensityKgM3: number, sector: AssessedDirections = null): number {
   assertAirDensity('calculatedLimitGustMps', airDensityKgM3);
   return gustAtPerPaMps(governingPerPa(coefficients, sector), 1, airDensityKgM3);
 }
 
 /** The effective limit (design §2.3): the lower of the calculated limit and the rated gust, m/s. */
-export function effectiveLimitMps(coefficients: StabilityCoefficients, airDensityKgM3: number, sector: AssessedDirections = null): number {
+export function effectiveLimitMps(coefficients: Stability, airDensityKgM3: number, sector: AssessedDirections = null): number {
   const calculated = calculatedLimitGustMps(coefficients, airDensityKgM3, sector);
   return coefficients.ratedGustMps === null ? calculated : Math.min(calculated, coefficients.ratedGustMps);
 }
 
 /** Effective utilization at a gust: max(U, (v / v_rated)²) (design §2.3). */
-export function effectiveUtilization(coefficients: StabilityCoefficients, gustMps: number, airDensityKgM3: number, sector: AssessedDirections = null): number {
+export function effectiveUtilization(coefficients: Stability, gustMps: number, airDensityKgM3: number, sector: AssessedDirections = null): number {
   const calculated = utilizationAtPa(governingPerPa(coefficients, sector), dynamicPressurePa(gustMps, airDensityKgM3));
   if (coefficients.ratedGustMps === null) return calculated;
   const ratio = gustMps / coefficients.ratedGustMps;
@@ -429,7 +512,7 @@ export function effectiveUtilization(coefficients: StabilityCoefficients, gustMp
 }
 
 /** The gust (m/s) at which the effective utilization reaches `fraction` of capacity: v_lim,eff·√f. */
-export function gustAtFractionMps(coefficients: StabilityCoefficients, fraction: number, airDensityKgM3: number, sector: AssessedDirections = null): number {
+export function gustAtFractionMps(coefficients: Stability, fraction: number, airDensityKgM3: number, sector: AssessedDirections = null): number {
   assertAbove('gustAtFractionMps', 'fraction', fraction, 0, 10);
   return effectiveLimitMps(coefficients, airDensityKgM3, sector) * Math.sqrt(fraction);
 }

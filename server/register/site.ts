@@ -8,10 +8,11 @@ import { eq } from 'drizzle-orm';
 import { z } from 'zod';
 import { sitesTable } from '../../db/schema.ts';
 import { HttpError } from '../http/httpError.ts';
-import { levelListSchema } from '../levels/levelDefinition.ts';
+import { levelListSchema, type LevelDefinition } from '../levels/levelDefinition.ts';
 import { siteDefaultLevels } from '../levels/siteDefaultLevels.ts';
 import type { Db, Tx } from '../storage/database.ts';
 import { recordAudit } from './audit.ts';
+import { siteDefaultLevelIssues, siteDesignDensityKgM3 } from './levelCheck.ts';
 
 export const terrainCategories = ['0', 'I', 'II', 'III', 'IV'] as const;
 
@@ -92,6 +93,15 @@ export function updateSite(db: Db, patch: z.infer<typeof siteUpdateSchema>, acto
     const mode = rest.airDensityMode ?? before.airDensityMode;
     if (mode === 'fixed' && (rest.fixedAirDensityKgM3 ?? before.fixedAirDensityKgM3) === null) {
       throw HttpError.invalid([{ path: 'fixedAirDensityKgM3', message: 'a fixed density is needed when airDensityMode is "fixed"' }]);
+    }
+    if (defaultLevels || rest.airDensityMode !== undefined || rest.fixedAirDensityKgM3 !== undefined || rest.altitudeM !== undefined) {
+      const density = siteDesignDensityKgM3({
+        airDensityMode: mode,
+        fixedAirDensityKgM3: rest.fixedAirDensityKgM3 === undefined ? before.fixedAirDensityKgM3 : rest.fixedAirDensityKgM3,
+        altitudeM: rest.altitudeM ?? before.altitudeM,
+      });
+      const issues = siteDefaultLevelIssues(tx, defaultLevels ?? (before.defaultLevelsJson as LevelDefinition[]), density);
+      if (issues.length > 0) throw HttpError.invalid(issues);
     }
     const after = tx
       .update(sitesTable)

@@ -7,12 +7,13 @@
 import { and, eq, isNull } from 'drizzle-orm';
 import { z } from 'zod';
 import { structuresTable, sensorsTable } from '../../db/schema.ts';
-import { isaAirDensityKgM3, validateStructureRecord, type StructureRecord } from '../engine/index.ts';
+import { validateStructureRecord, type StructureRecord } from '../engine/index.ts';
 import { HttpError, type FieldIssue } from '../http/httpError.ts';
 import { levelListSchema, type LevelDefinition } from '../levels/index.ts';
 import type { Db, Tx } from '../storage/database.ts';
 import { densityDependent, levelProblems, structureModel } from '../watch/structureModel.ts';
 import { recordAudit } from './audit.ts';
+import { siteDesignDensityKgM3 } from './levelCheck.ts';
 import { getSite } from './site.ts';
 
 export const structureInputSchema = z.strictObject({
@@ -104,16 +105,6 @@ export function checkStructure(tx: Tx, input: StructureInput): StructureRecord {
   }
   if (issues.length > 0) throw HttpError.invalid(issues);
   return record;
-}
-
-/**
- * The density a structure's levels are checked at on save: the site's fixed density, else ISA at
- * the site's altitude, and never less than the EN 1991-1-4 §4.5 recommended 1.25 kg/m³ (denser
- * air lowers the limit, so the check errs toward refusing).
- */
-function siteDesignDensityKgM3(site: { airDensityMode: string; fixedAirDensityKgM3: number | null; altitudeM: number }): number {
-  const density = site.airDensityMode === 'fixed' && site.fixedAirDensityKgM3 !== null ? site.fixedAirDensityKgM3 : isaAirDensityKgM3(site.altitudeM);
-  return Math.max(density, 1.25);
 }
 
 export function listStructures(db: Tx): StructureView[] {

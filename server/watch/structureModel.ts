@@ -7,12 +7,12 @@
  */
 import {
   calculatedLimitGustMps,
+  compactStability,
   effectiveLimitMps,
   expandStructure,
   stabilityCoefficients,
   type AssessedDirections,
-  type ExpandedStructure,
-  type StabilityCoefficients,
+  type CompactStability,
   type StructureRecord,
 } from '../engine/index.ts';
 import type { LevelDefinition } from '../levels/index.ts';
@@ -25,8 +25,8 @@ export interface StructureModel {
   mobile: boolean;
   /** Keys of the governing sensors; null = every sensor on the site (the highest governs). */
   sensorKeys: ReadonlySet<string> | null;
-  expanded: ExpandedStructure;
-  coefficients: StabilityCoefficients;
+  /** Governing k of every part and direction (engine/stability.ts `CompactStability`). */
+  stability: CompactStability;
   /** Height the gust is transferred to, m (the structure's top unless set). */
   referenceHeightM: number;
   levels: readonly LevelDefinition[];
@@ -61,7 +61,7 @@ export function structureModel(row: StructureRow, siteLevels: readonly LevelDefi
   const { structure, referenceHeightM, warnings } = expandStructure(row.recordJson as StructureRecord);
   const levels = (row.levelsJson as LevelDefinition[] | null) ?? siteLevels;
   const keys = row.sensorKeysJson as string[] | null;
-  const coefficients = stabilityCoefficients(structure);
+  const stability = compactStability(stabilityCoefficients(structure));
   return {
     id: row.id,
     name: row.name,
@@ -69,13 +69,12 @@ export function structureModel(row: StructureRow, siteLevels: readonly LevelDefi
     orientationDeg: row.orientationDeg,
     mobile: row.mobile,
     sensorKeys: keys && keys.length > 0 ? new Set(keys) : null,
-    expanded: structure,
-    coefficients,
+    stability,
     referenceHeightM,
     levels,
     ratedGustMps: structure.ratedGustMps ?? null,
     warnings: [
-      ...(coefficients.body.strip ? ['Strip record (no base width): wind onto the ends was not checked.'] : []),
+      ...(stability.strip ? ['Strip record (no base width): wind onto the ends was not checked.'] : []),
       ...(warnings ?? []),
     ],
   };
@@ -108,10 +107,10 @@ export function triggerLadderMps(levels: readonly LevelDefinition[], limitGustMp
 
 /** Limits and ladder at this density, over every direction or within a sector of them. */
 export function densityDependent(model: StructureModel, airDensityKgM3: number, sector: AssessedDirections = null): DensityDependent {
-  const limitGustMps = effectiveLimitMps(model.coefficients, airDensityKgM3, sector);
+  const limitGustMps = effectiveLimitMps(model.stability, airDensityKgM3, sector);
   return {
     airDensityKgM3,
-    calculatedLimitGustMps: calculatedLimitGustMps(model.coefficients, airDensityKgM3, sector),
+    calculatedLimitGustMps: calculatedLimitGustMps(model.stability, airDensityKgM3, sector),
     limitGustMps,
     triggerGustsMps: triggerLadderMps(model.levels, limitGustMps),
   };

@@ -28,11 +28,10 @@ import {
   beaufortForce,
   dynamicPressurePa,
   effectiveUtilization,
-  governingCase,
+  compactGoverningCase,
   governingWords,
   exposureFactor,
   highestTravelSpeedMps,
-  defaultSafetyFactors,
   isaAirDensityKgM3,
   isaSeaLevelDensityKgM3,
   unclampedExposureFactor,
@@ -112,6 +111,8 @@ interface SensorLive {
 
 interface StructureLive {
   model: StructureModel;
+  /** What the model was built from (to keep it across a reload of an unchanged register). */
+  modelKey: string;
   density: DensityDependent;
   profile: ProfileRoots;
   level: LevelState;
@@ -122,6 +123,9 @@ interface StructureLive {
   /** Limits and ladder within the current directional sector; null = every direction (`density`). */
   sectorDensity: DensityDependent | null;
   sectorKey: string | null;
+  /** What governs in words, and the case it was built for. */
+  words: string | null;
+  wordsKey: string | null;
   evaluatedAtMs: number | null;
   minuteMs: number;
   minuteMaxGustMps: number;
@@ -136,26 +140,10 @@ interface StructureLive {
 /** The part of a structure's state that changes with the wind: the once-a-second `structures` event. */
 export type StructureUpdate = Pick<
   StructureState,
-  | 'id'
-  | 'level'
-  | 'levelLabel'
-  | 'levelSinceMs'
-  | 'noData'
-  | 'gustMps'
-  | 'governingSensorKey'
-  | 'windFromDeg'
-  | 'utilization'
-  | 'calculatedUtilization'
-  | 'governing'
-  | 'governingDirectionDeg'
-  | 'governingElement'
-  | 'governingText'
-  | 'margin'
-  | 'unbounded'
-  | 'limitGustMps'
-  | 'triggerGustsMps'
-  | 'evaluatedAtMs'
->;
+  'id' | 'level' | 'levelLabel' | 'levelSinceMs' | 'noData' | 'gustMps' | 'governingSensorKey' | 'windFromDeg' | 'utilization' | 'margin' | 'unbounded' | 'evaluatedAtMs'
+> &
+  /** With directional assessment only: what governs and the limits move with the wind direction. */
+  Partial<Pick<StructureState, 'governing' | 'governingDirectionDeg' | 'governingElement' | 'governingText' | 'limitGustMps' | 'triggerGustsMps'>>;
 
 export interface OpenAlert {
   id: number;
@@ -348,9 +336,13 @@ export class Watch implements ReadingConsumer {
       const restored = initial?.levels.get(row.id);
       let live: StructureLive;
       try {
-        const model = structureModel(row, site.defaultLevels);
+        // A register change reloads every structure: one unchanged keeps its model (its
+        // coefficients take a search over every direction to build).
+        const modelKey = JSON.stringify([row.name, row.kind, row.recordJson, row.orientationDeg, row.mobile, row.sensorKeysJson, row.levelsJson ?? site.defaultLevels]);
+        const model = old && old.error === null && old.modelKey === modelKey ? old.model : structureModel(row, site.defaultLevels);
         live = {
           model,
+          modelKey,
           density: densityDependent(model, this.airDensityKgM3),
           profile: this.profileRoots(model.referenceHeightM),
           level: old?.level ?? restoredLevel(restored, nowMs),
@@ -359,6 +351,8 @@ export class Watch implements ReadingConsumer {
           windFromDeg: old?.windFromDeg ?? null,
           sectorDensity: null,
           sectorKey: null,
+          words: null,
+          wordsKey: null,
           evaluatedAtMs: old?.evaluatedAtMs ?? null,
           minuteMs: old?.minuteMs ?? 0,
           minuteMaxGustMps: old?.minuteMaxGustMps ?? 0,
@@ -597,30 +591,34 @@ export class Watch implements ReadingConsumer {
 
   /** Effective utilization at this gust over the directions assessed (Infinity when unbounded). */
   private effective(s: StructureLive, gustMps: number, windFromDeg: number | null): number {
-    return effectiveUtilization(s.model.coefficients, Math.min(gustMps, 120), this.airDensityKgM3, this.sector(s, windFromDeg));
+    return effectiveUtilization(s.model.stability, Math.min(gustMps, 120), this.airDensityKgM3, this.sector(s, windFromDeg));
   }
 
   /** The governing case at this gust: effective and calculated utilization, criterion, direction, part, words. */
   private assess(s: StructureLive, gustMps: number, windFromDeg: number | null) {
     const sector = this.sector(s, windFromDeg);
     const gust = Math.min(gustMps, 120);
-    const worst = governingCase(s.model.coefficients, sector);
-    const calculated = utilizationAtPa(worst.direction.utilizationPerPa.governing, dynamicPressurePa(gust, this.airDensityKgM3));
+    const worst = compactGoverningCase(s.model.stability, sector);
+    const calculated = utilizationAtPa(worst.perPa, dynamicPressurePa(gust, this.airDensityKgM3));
+    const ratio = s.model.ratedGustMps === null ? 0 : gust / s.model.ratedGustMps;
     return {
-      utilization: effectiveUtilization(s.model.coefficients, gust, this.airDensityKgM3, sector),
+      utilization: Math.max(calculated, ratio * ratio),
       calculatedUtilization: calculated,
-      governing: worst.direction.governing,
-      directionDeg: worst.direction.directionDeg,
-      element: worst.part.element,
-      text: governingWords({
-        element: worst.part.element,
-        directionDeg: worst.direction.directionDeg,
-        criterion: worst.direction.governing,
-        tippingEdge: worst.direction.tippingEdge,
-        frontAzimuthDeg: s.model.orientationDeg,
-        strip: s.model.coefficients.body.strip,
-      }),
+      governing: worst.criterion,
+      directionDeg: worst.directionDeg,
+      element: worst.element,
+      text: this.governingText(s, worst),
     };
+  }
+
+  /** What governs in words, kept per structure until the case changes (the words are built from strings). */
+  private governingText(s: StructureLive, worst: ReturnType<typeof compactGoverningCase>): string {
+    const key = `${worst.element}|${worst.directionDeg}|${worst.criterion}|${worst.tippingEdge}`;
+    if (s.wordsKey !== key || s.words === null) {
+      s.wordsKey = key;
+      s.words = governingWords({ ...worst, frontAzimuthDeg: s.model.orientationDeg, strip: s.model.stability.strip });
+    }
+    return s.words;
   }
 
   /**
@@ -1017,16 +1015,21 @@ export class Watch implements ReadingConsumer {
       governingSensorKey: state.governingSensorKey,
       windFromDeg: state.windFromDeg,
       utilization: state.utilization,
-      calculatedUtilization: state.calculatedUtilization,
-      governing: state.governing,
-      governingDirectionDeg: state.governingDirectionDeg,
-      governingElement: state.governingElement,
-      governingText: state.governingText,
       margin: state.margin,
       unbounded: state.unbounded,
-      limitGustMps: state.limitGustMps,
-      triggerGustsMps: state.triggerGustsMps,
       evaluatedAtMs: state.evaluatedAtMs,
+      // Over every direction the governing case and the limits do not move with the wind (every
+      // U = k·q): they come with the structure's full state; with a sector they follow the wind.
+      ...(this.site.directionalEnabled
+        ? {
+            governing: state.governing,
+            governingDirectionDeg: state.governingDirectionDeg,
+            governingElement: state.governingElement,
+            governingText: state.governingText,
+            limitGustMps: state.limitGustMps,
+            triggerGustsMps: state.triggerGustsMps,
+          }
+        : {}),
     };
   }
 
@@ -1135,6 +1138,7 @@ function restoredLevel(restored: { level: number; sinceMs: number } | undefined,
 function brokenStructure(row: StructureRow, err: unknown, nowMs: number, old: StructureLive | undefined): StructureLive {
   const message = err instanceof Error ? err.message : String(err);
   return {
+    modelKey: '',
     model: {
       id: row.id,
       name: row.name,
@@ -1142,9 +1146,8 @@ function brokenStructure(row: StructureRow, err: unknown, nowMs: number, old: St
       orientationDeg: row.orientationDeg,
       mobile: row.mobile,
       sensorKeys: null,
-      expanded: { baseDepthM: 1, frictionCoefficient: 0.3, faces: [], masses: [], safetyFactors: { ...defaultSafetyFactors } },
       // Never assessed: a broken structure shows its error and counts as no data.
-      coefficients: { body: { element: null, strip: true, weightN: 0, frictionCoefficient: 0.3, safetyFactors: { ...defaultSafetyFactors }, baseDepthM: 1, baseWidthM: null, directions: [], refinedDeg: [] }, elements: [], ratedGustMps: null },
+      stability: { directionsDeg: new Float64Array(0), parts: [null], k: new Float64Array(0), criterion: new Uint8Array(0), edge: new Uint8Array(0), strip: true, ratedGustMps: null },
       referenceHeightM: 1,
       levels: [],
       ratedGustMps: null,
@@ -1158,6 +1161,8 @@ function brokenStructure(row: StructureRow, err: unknown, nowMs: number, old: St
     windFromDeg: null,
     sectorDensity: null,
     sectorKey: null,
+    words: null,
+    wordsKey: null,
     evaluatedAtMs: null,
     minuteMs: 0,
     minuteMaxGustMps: 0,

@@ -465,6 +465,23 @@ describe('structures of every kind (POST/GET/PATCH/DELETE /api/structures)', () 
     expect((await viewer.json('GET', `/api/structures/${id}`)).body.structure).toMatchObject({ record, location: 'North fence, bays 1–10', orientationDeg: 180 });
   });
 
+  it('refuses site default levels whose gust trigger is at or above the limit of a structure that follows them, naming it (design §2.6 v2)', async () => {
+    const followers = (await cp.json('GET', '/api/structures')).body.structures.filter((s: { levels: unknown }) => s.levels === null);
+    expect(followers.length).toBeGreaterThan(0);
+    const before = (await cp.json('GET', '/api/site')).body.site;
+    const res = await cp.json('PATCH', '/api/site', {
+      defaultLevels: [
+        { label: 'Watch', trigger: { kind: 'utilization', fraction: 0.6 }, actionText: 'Look.' },
+        { label: 'Prepare', trigger: { kind: 'utilization', fraction: 0.8 }, actionText: 'Ready.' },
+        { label: 'Stop and clear', trigger: { kind: 'gust', gustMps: 110 }, actionText: 'Clear.' },
+      ],
+    });
+    expect(res.status).toBe(400);
+    expect(paths(res.body)).toContain('defaultLevels.2.trigger.gustMps');
+    expect(JSON.stringify(res.body.issues)).toContain(followers[0].name);
+    expect((await cp.json('GET', '/api/site')).body.site).toEqual(before);
+  });
+
   it('keeps everything a PATCH does not name: own levels, sensors, orientation and mobility stay as registered', async () => {
     const levels = [
       { label: 'Watch', trigger: { kind: 'utilization', fraction: 0.5 }, actionText: 'Check the feet.' },

@@ -6,6 +6,9 @@
 import { describe, expect, it } from 'vitest';
 import {
   bodyCoefficients,
+  compactGoverningCase,
+  compactStability,
+  governingCase,
   calculatedLimitGustMps,
   criteria,
   directionUtilizations,
@@ -123,6 +126,22 @@ describe('stability properties over seeded structures (design §2.3 v2)', () => 
       const v2 = calculatedLimitGustMps(stabilityCoefficients(structure), rho);
       const v1 = firstReleaseLimitMps(structure);
       expect(v2).toBeLessThanOrEqual(v1 * (1 + exact));
+    }
+  });
+
+  it('the watch’s compact form gives the same governing k, direction and part as the full coefficients, over every sector', () => {
+    const random = seededRandom(20);
+    for (const structure of structures({ uplift: true, elements: true }, 20)) {
+      const full = stabilityCoefficients(structure);
+      const compact = compactStability(full);
+      for (const sector of [null, { centreDeg: between(random, 0, 360), halfWidthDeg: between(random, 15, 90) }]) {
+        const a = governingCase(full, sector);
+        const b = compactGoverningCase(compact, sector);
+        expect(b.perPa).toBe(a.direction.utilizationPerPa.governing);
+        expect(b.directionDeg).toBe(a.direction.directionDeg);
+        expect(b.element).toBe(a.part.element);
+        expect(b.criterion).toBe(a.direction.governing);
+      }
     }
   });
 

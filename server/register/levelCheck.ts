@@ -1,0 +1,46 @@
+/**
+ * The level lists a structure runs on, checked against that structure's effective limit before
+ * they are saved (design §2.6 v2): levels out of order once every trigger is a gust, a gust trigger
+ * at or above the limit, a fraction above 100 %. Used for a structure's own levels and for the
+ * site's default levels, which every structure without its own list follows.
+ */
+import { and, isNull } from 'drizzle-orm';
+import { structuresTable } from '../../db/schema.ts';
+import { isaAirDensityKgM3 } from '../engine/index.ts';
+import type { FieldIssue } from '../http/httpError.ts';
+import type { LevelDefinition } from '../levels/index.ts';
+import type { Tx } from '../storage/database.ts';
+import { densityDependent, levelProblems, structureModel, type StructureRow } from '../watch/structureModel.ts';
+
+/**
+ * The density a structure's levels are checked at on save: the site's fixed density, else ISA at
+ * the site's altitude, and never less than the EN 1991-1-4 §4.5 recommended 1.25 kg/m³ (denser
+ * air lowers the limit, so the check errs toward refusing).
+ */
+export function siteDesignDensityKgM3(site: { airDensityMode: string; fixedAirDensityKgM3: number | null; altitudeM: number }): number {
+  const density = site.airDensityMode === 'fixed' && site.fixedAirDensityKgM3 !== null ? site.fixedAirDensityKgM3 : isaAirDensityKgM3(site.altitudeM);
+  return Math.max(density, 1.25);
+}
+
+/** Problems of `levels` for one structure, as field issues under `pathPrefix` ("levels" or "defaultLevels"). */
+export function structureLevelIssues(row: StructureRow, levels: readonly LevelDefinition[], densityKgM3: number, pathPrefix: string, subject = ''): FieldIssue[] {
+  const model = structureModel({ ...row, levelsJson: levels }, levels);
+  const limitMps = densityDependent(model, densityKgM3).limitGustMps;
+  return levelProblems(levels, limitMps).map((problem) => ({
+    path: `${pathPrefix}.${problem.index}.trigger.${problem.field}`,
+    message: subject ? `${subject}: ${problem.message}` : problem.message,
+  }));
+}
+
+/** Problems of new site default levels for every active structure that follows them. */
+export function siteDefaultLevelIssues(tx: Tx, levels: readonly LevelDefinition[], densityKgM3: number): FieldIssue[] {
+  const rows = tx.select().from(structuresTable).where(and(isNull(structuresTable.retiredAtMs), isNull(structuresTable.levelsJson))).all();
+  return rows.flatMap((row) => {
+    try {
+      return structureLevelIssues(row, levels, densityKgM3, 'defaultLevels', `for "${row.name}" (which follows the site's levels)`);
+    } catch {
+      // A stored record that cannot be assessed shows its own error on the board.
+      return [];
+    }
+  });
+}
