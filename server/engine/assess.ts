@@ -11,7 +11,7 @@
  * - a limit gust is null when no gust reaches it (nothing that grows with the wind loads it).
  */
 import { assertAirDensity, isaSeaLevelDensityKgM3 } from './air.ts';
-import { governingWords, windWords } from './caseWords.ts';
+import { governingWords } from './caseWords.ts';
 import { dynamicPressurePa } from './dynamicPressure.ts';
 import { expandStructure, type SourceNote } from './kinds/index.ts';
 import { assertInRange } from './rangeCheck.ts';
@@ -255,4 +255,3 @@ export function assessStructure(record: StructureRecord, options: AssessmentOpti
   };
 }
 
-export { windWords };

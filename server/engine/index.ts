@@ -92,6 +92,7 @@ export {
   safetyFactorSources,
   stabilityCoefficients,
   utilizationAtPa,
+  withRating,
   type AssessedDirections,
   type BodyCoefficients,
   type CompactStability,

@@ -372,28 +372,51 @@ export function parts(coefficients: StabilityCoefficients): BodyCoefficients[] {
 }
 
 /**
- * The governing case: the part and direction with the highest k (within `sector` when given; the
- * body's first direction on a tie). Since every U = k·q this is the governing case at every gust.
+ * Where the highest k is: part p and direction d with the highest `kAt(p, d)`, over the directions
+ * within `sector` (all when null), the first direction and then the body on a tie. A sector holds
+ * at least one of the 15° directions when it is 7.5° wide or more; a narrower one falls back to the
+ * direction assessed nearest its centre. One search for the calculator's full coefficients and the
+ * watch's compact ones.
  */
-export function governingCase(coefficients: StabilityCoefficients, sector: AssessedDirections = null): GoverningCase {
-  let best: GoverningCase | null = null;
-  for (const part of parts(coefficients)) {
-    for (const direction of part.directions) {
-      if (sector !== null && !inSector(direction.directionDeg, sector)) continue;
-      if (best === null || direction.utilizationPerPa.governing > best.direction.utilizationPerPa.governing) best = { part, direction };
+function highestK(
+  directionsDeg: ArrayLike<number>,
+  partCount: number,
+  kAt: (part: number, direction: number) => number,
+  sector: AssessedDirections,
+): { part: number; direction: number } {
+  let best = { part: -1, direction: -1, k: -Infinity };
+  let nearest = 0;
+  for (let d = 0; d < directionsDeg.length; d++) {
+    if (sector !== null && !inSector(directionsDeg[d]!, sector)) {
+      if (Math.abs(wrappedDeg(directionsDeg[d]! - sector.centreDeg)) < Math.abs(wrappedDeg(directionsDeg[nearest]! - sector.centreDeg))) nearest = d;
+      continue;
+    }
+    for (let p = 0; p < partCount; p++) {
+      const k = kAt(p, d);
+      if (best.part < 0 || k > best.k) best = { part: p, direction: d, k };
     }
   }
-  // A sector always holds at least one of the 15° directions when it is 7.5° wide or more; a
-  // narrower one falls back to the nearest direction assessed.
-  if (best === null) return nearestCase(coefficients, sector!.centreDeg);
-  return best;
+  if (best.part >= 0) return best;
+  let part = 0;
+  for (let p = 1; p < partCount; p++) if (kAt(p, nearest) > kAt(part, nearest)) part = p;
+  return { part, direction: nearest };
 }
 
-function nearestCase(coefficients: StabilityCoefficients, centreDeg: number): GoverningCase {
-  const nearestDeg = coefficients.body.directions.reduce((nearest, direction) =>
-    Math.abs(wrappedDeg(direction.directionDeg - centreDeg)) < Math.abs(wrappedDeg(nearest.directionDeg - centreDeg)) ? direction : nearest,
-  ).directionDeg;
-  return governingCase(coefficients, { centreDeg: nearestDeg, halfWidthDeg: 0 });
+/**
+ * The governing case: the part and direction with the highest k (within `sector` when given).
+ * Since every U = k·q this is the governing case at every gust.
+ */
+export function governingCase(coefficients: StabilityCoefficients, sector: AssessedDirections = null): GoverningCase {
+  const all = parts(coefficients);
+  const directions = coefficients.body.directions;
+  const found = highestK(
+    directions.map((direction) => direction.directionDeg),
+    all.length,
+    (p, d) => all[p]!.directions[d]!.utilizationPerPa.governing,
+    sector,
+  );
+  const part = all[found.part]!;
+  return { part, direction: part.directions[found.direction]! };
 }
 
 /**
@@ -447,31 +470,14 @@ export function compactGoverningCase(
   sector: AssessedDirections = null,
 ): { element: string | null; directionDeg: number; criterion: Criterion; tippingEdge: Edge; perPa: number } {
   const count = stability.directionsDeg.length;
-  let best = -1;
-  let nearest = 0;
-  for (let d = 0; d < count; d++) {
-    if (sector !== null && !inSector(stability.directionsDeg[d]!, sector)) {
-      if (sector !== null && Math.abs(wrappedDeg(stability.directionsDeg[d]! - sector.centreDeg)) < Math.abs(wrappedDeg(stability.directionsDeg[nearest]! - sector.centreDeg))) nearest = d;
-      continue;
-    }
-    for (let p = 0; p < stability.parts.length; p++) {
-      const index = p * count + d;
-      if (best < 0 || stability.k[index]! > stability.k[best]!) best = index;
-    }
-  }
-  if (best < 0) {
-    // A sector narrower than the spacing of the directions: the nearest direction assessed.
-    for (let p = 0; p < stability.parts.length; p++) {
-      const index = p * count + nearest;
-      if (best < 0 || stability.k[index]! > stability.k[best]!) best = index;
-    }
-  }
+  const found = highestK(stability.directionsDeg, stability.parts.length, (p, d) => stability.k[p * count + d]!, sector);
+  const index = found.part * count + found.direction;
   return {
-    element: stability.parts[Math.floor(best / count)]!,
-    directionDeg: stability.directionsDeg[best % count]!,
-    criterion: criteria[stability.criterion[best]!]!,
-    tippingEdge: edges[stability.edge[best]!]!,
-    perPa: stability.k[best]!,
+    element: stability.parts[found.part]!,
+    directionDeg: stability.directionsDeg[found.direction]!,
+    criterion: criteria[stability.criterion[index]!]!,
+    tippingEdge: edges[stability.edge[index]!]!,
+    perPa: stability.k[index]!,
   };
 }
 
@@ -503,12 +509,16 @@ export function effectiveLimitMps(coefficients: Stability, airDensityKgM3: numbe
   return coefficients.ratedGustMps === null ? calculated : Math.min(calculated, coefficients.ratedGustMps);
 }
 
+/** The effective utilization from the calculated one: max(U, (v / v_rated)²) (design §2.3). */
+export function withRating(calculatedUtilization: number, gustMps: number, ratedGustMps: number | null): number {
+  if (ratedGustMps === null) return calculatedUtilization;
+  const ratio = gustMps / ratedGustMps;
+  return Math.max(calculatedUtilization, ratio * ratio);
+}
+
 /** Effective utilization at a gust: max(U, (v / v_rated)²) (design §2.3). */
 export function effectiveUtilization(coefficients: Stability, gustMps: number, airDensityKgM3: number, sector: AssessedDirections = null): number {
-  const calculated = utilizationAtPa(governingPerPa(coefficients, sector), dynamicPressurePa(gustMps, airDensityKgM3));
-  if (coefficients.ratedGustMps === null) return calculated;
-  const ratio = gustMps / coefficients.ratedGustMps;
-  return Math.max(calculated, ratio * ratio);
+  return withRating(utilizationAtPa(governingPerPa(coefficients, sector), dynamicPressurePa(gustMps, airDensityKgM3)), gustMps, coefficients.ratedGustMps);
 }
 
 /** The gust (m/s) at which the effective utilization reaches `fraction` of capacity: v_lim,eff·√f. */

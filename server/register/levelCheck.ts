@@ -10,7 +10,7 @@ import { isaAirDensityKgM3 } from '../engine/index.ts';
 import type { FieldIssue } from '../http/httpError.ts';
 import type { LevelDefinition } from '../levels/index.ts';
 import type { Tx } from '../storage/database.ts';
-import { densityDependent, levelProblems, structureModel, type StructureRow } from '../watch/structureModel.ts';
+import { densityDependent, levelProblems, structureModel, type StructureModel } from '../watch/structureModel.ts';
 
 /**
  * The density a structure's levels are checked at on save: the site's fixed density, else ISA at
@@ -22,14 +22,9 @@ export function siteDesignDensityKgM3(site: { airDensityMode: string; fixedAirDe
   return Math.max(density, 1.25);
 }
 
-/** Problems of `levels` for one structure, as field issues under `pathPrefix` ("levels" or "defaultLevels"). */
-export function structureLevelIssues(row: StructureRow, levels: readonly LevelDefinition[], densityKgM3: number, pathPrefix: string, subject = ''): FieldIssue[] {
-  const model = structureModel({ ...row, levelsJson: levels }, levels);
-  const limitMps = densityDependent(model, densityKgM3).limitGustMps;
-  return levelProblems(levels, limitMps).map((problem) => ({
-    path: `${pathPrefix}.${problem.index}.trigger.${problem.field}`,
-    message: subject ? `${subject}: ${problem.message}` : problem.message,
-  }));
+/** Problems of a structure's level list against its effective limit at the design density. */
+export function modelLevelProblems(model: StructureModel, densityKgM3: number): ReturnType<typeof levelProblems> {
+  return levelProblems(model.levels, densityDependent(model, densityKgM3).limitGustMps);
 }
 
 /** Problems of new site default levels for every active structure that follows them. */
@@ -37,7 +32,10 @@ export function siteDefaultLevelIssues(tx: Tx, levels: readonly LevelDefinition[
   const rows = tx.select().from(structuresTable).where(and(isNull(structuresTable.retiredAtMs), isNull(structuresTable.levelsJson))).all();
   return rows.flatMap((row) => {
     try {
-      return structureLevelIssues(row, levels, densityKgM3, 'defaultLevels', `for "${row.name}" (which follows the site's levels)`);
+      return modelLevelProblems(structureModel(row, levels), densityKgM3).map((problem) => ({
+        path: `defaultLevels.${problem.index}.trigger.${problem.field}`,
+        message: `for "${row.name}" (which follows the site's levels): ${problem.message}`,
+      }));
     } catch {
       // A stored record that cannot be assessed shows its own error on the board.
       return [];

@@ -11,9 +11,9 @@ import { validateStructureRecord, type StructureRecord } from '../engine/index.t
 import { HttpError, type FieldIssue } from '../http/httpError.ts';
 import { levelListSchema, type LevelDefinition } from '../levels/index.ts';
 import type { Db, Tx } from '../storage/database.ts';
-import { densityDependent, levelProblems, structureModel } from '../watch/structureModel.ts';
+import { structureModel } from '../watch/structureModel.ts';
 import { recordAudit } from './audit.ts';
-import { siteDesignDensityKgM3 } from './levelCheck.ts';
+import { modelLevelProblems, siteDesignDensityKgM3 } from './levelCheck.ts';
 import { getSite } from './site.ts';
 
 export const structureInputSchema = z.strictObject({
@@ -96,8 +96,7 @@ export function checkStructure(tx: Tx, input: StructureInput): StructureRecord {
     );
     // Mixed utilization and gust triggers can only be ordered once the structure is known; a
     // gust trigger at or above the effective limit would let the structure pass its limit first.
-    const limitMps = densityDependent(model, siteDesignDensityKgM3(site)).limitGustMps;
-    for (const problem of levelProblems(model.levels, limitMps)) {
+    for (const problem of modelLevelProblems(model, siteDesignDensityKgM3(site))) {
       issues.push({ path: input.levels === null ? 'levels' : `levels.${problem.index}.trigger.${problem.field}`, message: input.levels === null ? `the site's default ${problem.message}` : problem.message });
     }
   } catch (err) {

@@ -15,7 +15,7 @@ import {
   type CompactStability,
   type StructureRecord,
 } from '../engine/index.ts';
-import type { LevelDefinition } from '../levels/index.ts';
+import { checkLevelOrder, type LevelDefinition } from '../levels/index.ts';
 
 export interface StructureModel {
   id: number;
@@ -124,9 +124,8 @@ export function densityDependent(model: StructureModel, airDensityKgM3: number, 
 export function levelProblems(levels: readonly LevelDefinition[], limitGustMps: number): Array<{ index: number; field: 'fraction' | 'gustMps'; message: string }> {
   const problems: Array<{ index: number; field: 'fraction' | 'gustMps'; message: string }> = [];
   const gusts = rawTriggerGustsMps(levels, limitGustMps);
-  let highest = 0;
+  const outOfOrder = new Set(checkLevelOrder(gusts));
   levels.forEach((level, index) => {
-    const gust = gusts[index]!;
     const field = level.trigger.kind === 'gust' ? 'gustMps' : 'fraction';
     if (level.trigger.kind === 'gust' && Number.isFinite(limitGustMps) && level.trigger.gustMps >= limitGustMps) {
       problems.push({
@@ -140,14 +139,14 @@ export function levelProblems(levels: readonly LevelDefinition[], limitGustMps: 
         field,
         message: `level ${index + 1} (${level.label}): ${Math.round(level.trigger.fraction * 100)} % of capacity is beyond the structure's limit; use at most 100 %`,
       });
-    } else if (!(gust > highest)) {
+    } else if (outOfOrder.has(index)) {
+      const below = Math.max(0, ...gusts.slice(0, index).filter((gust) => Number.isFinite(gust)));
       problems.push({
         index,
         field,
-        message: `level ${index + 1} (${level.label}) triggers at ${gust.toFixed(1)} m/s for this structure, not above level ${index} (${highest.toFixed(1)} m/s): levels must rise in order`,
+        message: `level ${index + 1} (${level.label}) triggers at ${gusts[index]!.toFixed(1)} m/s for this structure, not above level ${index} (${below.toFixed(1)} m/s): levels must rise in order`,
       });
     }
-    if (gust > highest) highest = gust;
   });
   return problems;
 }

@@ -36,6 +36,7 @@ import {
   isaSeaLevelDensityKgM3,
   unclampedExposureFactor,
   utilizationAtPa,
+  withRating,
   type AssessedDirections,
   type TerrainCategory,
 } from '../engine/index.ts';
@@ -122,7 +123,9 @@ interface StructureLive {
   windFromDeg: number | null;
   /** Limits and ladder within the current directional sector; null = every direction (`density`). */
   sectorDensity: DensityDependent | null;
-  sectorKey: string | null;
+  /** The sector `sectorDensity` was computed for. */
+  sectorCentreDeg: number;
+  sectorHalfWidthDeg: number;
   /** What governs in words, and the case it was built for. */
   words: string | null;
   wordsKey: string | null;
@@ -350,7 +353,8 @@ export class Watch implements ReadingConsumer {
           governingSensorKey: old?.governingSensorKey ?? null,
           windFromDeg: old?.windFromDeg ?? null,
           sectorDensity: null,
-          sectorKey: null,
+          sectorCentreDeg: Number.NaN,
+          sectorHalfWidthDeg: Number.NaN,
           words: null,
           wordsKey: null,
           evaluatedAtMs: old?.evaluatedAtMs ?? null,
@@ -600,9 +604,8 @@ export class Watch implements ReadingConsumer {
     const gust = Math.min(gustMps, 120);
     const worst = compactGoverningCase(s.model.stability, sector);
     const calculated = utilizationAtPa(worst.perPa, dynamicPressurePa(gust, this.airDensityKgM3));
-    const ratio = s.model.ratedGustMps === null ? 0 : gust / s.model.ratedGustMps;
     return {
-      utilization: Math.max(calculated, ratio * ratio),
+      utilization: withRating(calculated, gust, s.model.stability.ratedGustMps),
       calculatedUtilization: calculated,
       governing: worst.criterion,
       directionDeg: worst.directionDeg,
@@ -628,12 +631,14 @@ export class Watch implements ReadingConsumer {
   private currentDensity(s: StructureLive, windFromDeg: number | null): DensityDependent {
     const sector = this.sector(s, windFromDeg);
     if (sector === null) return s.density;
-    const key = `${sector.centreDeg}|${sector.halfWidthDeg}|${this.airDensityKgM3}`;
-    if (s.sectorKey !== key || s.sectorDensity === null) {
-      s.sectorKey = key;
+    const cached = s.sectorDensity;
+    if (cached === null || s.sectorCentreDeg !== sector.centreDeg || s.sectorHalfWidthDeg !== sector.halfWidthDeg || cached.airDensityKgM3 !== this.airDensityKgM3) {
+      s.sectorCentreDeg = sector.centreDeg;
+      s.sectorHalfWidthDeg = sector.halfWidthDeg;
       s.sectorDensity = densityDependent(s.model, this.airDensityKgM3, sector);
+      return s.sectorDensity;
     }
-    return s.sectorDensity;
+    return cached;
   }
 
   private evaluate(s: StructureLive, nowMs: number, batch: WriteBatch, announcements: Array<() => void>): void {
@@ -1160,7 +1165,8 @@ function brokenStructure(row: StructureRow, err: unknown, nowMs: number, old: St
     governingSensorKey: null,
     windFromDeg: null,
     sectorDensity: null,
-    sectorKey: null,
+    sectorCentreDeg: Number.NaN,
+    sectorHalfWidthDeg: Number.NaN,
     words: null,
     wordsKey: null,
     evaluatedAtMs: null,

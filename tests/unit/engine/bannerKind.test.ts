@@ -13,37 +13,14 @@ import {
   freeStandingWallMeanCpNet,
   stabilityCoefficients,
   standardGravityMps2,
-  validateStructureRecord,
   type BodyCoefficients,
-  type StructureRecord,
 } from '../../../server/engine/index.ts';
+import { direction, expectRelative, issuePaths, record } from './kindTestSupport.ts';
 import { freeStandingWallStretchCpNet, wallZoneAt } from '../../../server/engine/kinds/boardCoefficient.ts';
 import { bannerLayout } from '../../../server/engine/kinds/banner.ts';
 import { demoStructures } from '../../../server/demo/demoSite.ts';
 
 const g = standardGravityMps2;
-
-/** Parses a record as the route would, so the examples are valid records. */
-function record(input: unknown): StructureRecord {
-  const result = validateStructureRecord(input);
-  if (!result.ok) throw new Error(JSON.stringify(result.issues));
-  return result.record;
-}
-
-function issuePaths(input: unknown): string[] {
-  const result = validateStructureRecord(input);
-  return result.ok ? [] : result.issues.map((issue) => issue.path);
-}
-
-function direction(part: BodyCoefficients, directionDeg: number) {
-  const found = part.directions.find((entry) => Math.abs(entry.directionDeg - directionDeg) < 1e-9);
-  if (!found) throw new Error(`direction ${directionDeg} not assessed`);
-  return found;
-}
-
-function expectRelative(actual: number, expected: number, tolerance = 1e-12): void {
-  expect(Math.abs(actual - expected)).toBeLessThanOrEqual(tolerance * Math.abs(expected));
-}
 
 describe('EN 1991-1-4 Table 7.9 over a stretch of a free-standing wall (references.md §1, §9)', () => {
   // Wall 15 m long and 2 m high: l/h = 7.5, halfway between the rows l/h 5 and l/h 10 (linear in l/h).

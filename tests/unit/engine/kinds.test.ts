@@ -8,18 +8,10 @@ import {
   defaultCoefficients,
   expandStructure,
   frictionBySurface,
-  validateStructureRecord,
-  type StructureRecord,
 } from '../../../server/engine/index.ts';
+import { record } from './kindTestSupport.ts';
 
 const g = 9.80665;
-
-/** Parses a record as the route would, so the examples are valid records. */
-function record(input: unknown): StructureRecord {
-  const result = validateStructureRecord(input);
-  if (!result.ok) throw new Error(JSON.stringify(result.issues));
-  return result.record;
-}
 
 describe('default coefficients carry their sources', () => {
   it('hollow hemisphere 1.42 concave / 0.38 convex (Munson fig. 9.20)', () => {

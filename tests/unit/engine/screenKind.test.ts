@@ -13,34 +13,11 @@ import {
   expandStructure,
   stabilityCoefficients,
   standardGravityMps2,
-  validateStructureRecord,
-  type BodyCoefficients,
-  type StructureRecord,
 } from '../../../server/engine/index.ts';
+import { direction, expectRelative, issuePaths, record } from './kindTestSupport.ts';
 import { demoStructures } from '../../../server/demo/demoSite.ts';
 
 const g = standardGravityMps2;
-
-function record(input: unknown): StructureRecord {
-  const result = validateStructureRecord(input);
-  if (!result.ok) throw new Error(JSON.stringify(result.issues));
-  return result.record;
-}
-
-function issuePaths(input: unknown): string[] {
-  const result = validateStructureRecord(input);
-  return result.ok ? [] : result.issues.map((issue) => issue.path);
-}
-
-function direction(part: BodyCoefficients, directionDeg: number) {
-  const found = part.directions.find((entry) => Math.abs(entry.directionDeg - directionDeg) < 1e-9);
-  if (!found) throw new Error(`direction ${directionDeg} not assessed`);
-  return found;
-}
-
-function expectRelative(actual: number, expected: number, tolerance = 1e-12): void {
-  expect(Math.abs(actual - expected)).toBeLessThanOrEqual(tolerance * Math.abs(expected));
-}
 
 /** The references.md §9 screen: 6 m × 4 m, bottom 3 m, on two towers at its edges with 5 m outriggers. */
 const referenceScreen = {

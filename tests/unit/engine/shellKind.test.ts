@@ -9,23 +9,11 @@ import {
   assessStructure,
   defaultCoefficients,
   expandStructure,
-  validateStructureRecord,
-  type StructureRecord,
 } from '../../../server/engine/index.ts';
+import { issuePaths, record } from './kindTestSupport.ts';
 import { shellCoefficients } from '../../../server/engine/kinds/shell.ts';
 
 const g = 9.80665;
-
-function record(input: unknown): StructureRecord {
-  const result = validateStructureRecord(input);
-  if (!result.ok) throw new Error(JSON.stringify(result.issues));
-  return result.record;
-}
-
-function issuePaths(input: unknown): string[] {
-  const result = validateStructureRecord(input);
-  return result.ok ? [] : result.issues.map((issue) => issue.path);
-}
 
 function direction(report: ReturnType<typeof assessStructure>, directionDeg: number) {
   const found = report.directions.find((entry) => Math.abs(entry.directionDeg - directionDeg) < 1e-9);

@@ -30,6 +30,7 @@ import {
   type DirectionReport,
   type StructureRecord,
 } from '../../../server/engine/index.ts';
+import { record } from './kindTestSupport.ts';
 import { tentRoofSuction } from '../../../server/engine/kinds/coefficients.ts';
 import { worstFrameLifts } from '../../../server/engine/kinds/tent.ts';
 
@@ -37,13 +38,6 @@ const g = 9.80665;
 const q15 = 137.8125;
 /** The review's dynamic pressure: ½ · 1.25 · 15² Pa. */
 const qReview = 140.625;
-
-/** Parses a record as the route would, so the examples are valid records. */
-function record(input: unknown): StructureRecord {
-  const result = validateStructureRecord(input);
-  if (!result.ok) throw new Error(JSON.stringify(result.issues));
-  return result.record;
-}
 
 function expectRelativelyClose(actual: number | null | undefined, expected: number, tolerance = 1e-6): void {
   expect(actual).not.toBeNull();
