@@ -143,7 +143,19 @@ interface StructureLive {
 /** The part of a structure's state that changes with the wind: the once-a-second `structures` event. */
 export type StructureUpdate = Pick<
   StructureState,
-  'id' | 'level' | 'levelLabel' | 'levelSinceMs' | 'noData' | 'gustMps' | 'governingSensorKey' | 'windFromDeg' | 'utilization' | 'margin' | 'unbounded' | 'evaluatedAtMs'
+  | 'id'
+  | 'level'
+  | 'levelLabel'
+  | 'levelSinceMs'
+  | 'noData'
+  | 'gustMps'
+  | 'governingSensorKey'
+  | 'windFromDeg'
+  | 'utilization'
+  | 'calculatedUtilization'
+  | 'margin'
+  | 'unbounded'
+  | 'evaluatedAtMs'
 > &
   /** With directional assessment only: what governs and the limits move with the wind direction. */
   Partial<Pick<StructureState, 'governing' | 'governingDirectionDeg' | 'governingElement' | 'governingText' | 'limitGustMps' | 'triggerGustsMps'>>;
@@ -1020,6 +1032,8 @@ export class Watch implements ReadingConsumer {
       governingSensorKey: state.governingSensorKey,
       windFromDeg: state.windFromDeg,
       utilization: state.utilization,
+      // With the effective figure, or a page would set a fresh one beside a stale calculated one.
+      calculatedUtilization: state.calculatedUtilization,
       margin: state.margin,
       unbounded: state.unbounded,
       evaluatedAtMs: state.evaluatedAtMs,

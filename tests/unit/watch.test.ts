@@ -174,6 +174,28 @@ describe('the gust a structure takes', () => {
     expect(state(1).warnings.join(' ')).toMatch(/taken at the limit/);
   });
 
+  it('the once-a-second update carries the calculated utilization beside the effective one (a page kept a stale calculated figure)', () => {
+    let now = t0;
+    const hub = new LiveHub(100);
+    const watch = new Watch({ hub, now: () => now });
+    const mast = sensor(1, 'mast-10m', 10);
+    watch.configure(site(), [mast], [{ ...board(1, 'Rated board', 4), recordJson: { ...board(1, 'Rated board', 4).recordJson as object, ratedGustMps: 12 } }]);
+    const updates: Array<Record<string, unknown>> = [];
+    hub.subscribe((event) => {
+      if (event.kind === 'structures') updates.push(...(JSON.parse(event.data) as { updates: Array<Record<string, unknown>> }).updates);
+    });
+    now += 1_000;
+    watch.take(mast, [summary(now, 10)], now);
+    watch.tick()?.afterCommit();
+    const update = updates.find((u) => u.id === 1)!;
+    const state = watch.structureStateById(1)!;
+    expect(update.calculatedUtilization).toBe(state.calculatedUtilization);
+    expect(update.utilization).toBe(state.utilization);
+    // The rating governs at 10 of 12 m/s: (10/12)² = 0.694 against a lower calculated figure.
+    expect(state.utilization).toBeCloseTo((10 / 12) ** 2, 9);
+    expect(state.calculatedUtilization!).toBeLessThan(state.utilization!);
+  });
+
   it('never takes a late reading (from a gateway’s buffer) as live wind', () => {
     const { feed, state } = setup(site(), [board(1, 'Board', 4)]);
     feed('mast-10m', 40, null, 5 * 60_000);

@@ -146,7 +146,7 @@ export function StructurePage({ id }: { id: number }) {
           <Warnings warnings={s.warnings} />
           <StructureFigures s={s} unit={unit} detailed />
           <p class="muted">
-            {s.calculatedUtilization !== null && s.utilization !== null && Math.abs(s.calculatedUtilization - s.utilization) > 0.005
+            {s.ratedGustMps !== null && s.calculatedUtilization !== null && s.utilization !== null && Math.abs(s.calculatedUtilization - s.utilization) > 0.005
               ? `Utilization ${percent(s.utilization)} of capacity is set by the rated gust (calculated ${percent(s.calculatedUtilization)}). `
               : ''}
             Calculated limit {speed(s.calculatedLimitGustMps, unit)}
