@@ -4,7 +4,7 @@
  * structure's orientation, by compass) with its utilization, criterion and limit — the governing
  * one marked. Used by the register form and the structure page, so both say the same.
  */
-import { compassPointName, criterionWords, windWords } from '../../../server/engine/caseWords.ts';
+import { compassPointName, criterionWords, sideName, windWords } from '../../../server/engine/caseWords.ts';
 import type { AssessAnswer } from '../types.ts';
 import { percent, speed, type SpeedUnit } from '../units.ts';
 import { sideLabel, type Side } from './structureGeometry.ts';
@@ -33,6 +33,16 @@ function criterionShort(d: { governing: DirectionReport['governing']; tippingEdg
 
 const utilizationText = (value: number | null): string => (value === null ? 'unbounded' : percent(value));
 
+/**
+ * A part's name as the crew reads it: the engine names ends "the y = 0 end"; with the front's
+ * azimuth known that end is named by compass ("end panel at the west end"), as the governing words
+ * (caseWords.ts governingWords) already do, so the list, the table and the drawings say the same.
+ */
+export function partName(name: string, frontAzimuthDeg: number | null): string {
+  if (frontAzimuthDeg === null) return name;
+  return name.replace(/the y = 0 end/g, sideName('endY0', frontAzimuthDeg)).replace(/the y = baseWidthM end/g, sideName('endYW', frontAzimuthDeg));
+}
+
 /** The warnings of the answer, or of the live state: what the engine could not check. */
 export function Warnings({ warnings }: { warnings: readonly string[] }) {
   if (warnings.length === 0) return null;
@@ -60,8 +70,8 @@ export function ElementsList({ answer, unit, frontAzimuthDeg }: { answer: Assess
           const strip = answer.expanded.elements?.find((x) => x.name === e.name)?.baseWidthM === undefined;
           return (
             <li class={governs ? 'governs' : ''}>
-              <strong>{e.name}</strong>
-              {governs ? <span class="gov-tag"> governs</span> : null}: limit {speed(e.calculatedLimitGustMps, unit)}, {utilizationText(e.utilization.governing)} at the check gust —{' '}
+              <strong>{partName(e.name, frontAzimuthDeg)}</strong>
+              {governs ? <span class="gov-tag"> governs</span> : null}: limit {speed(e.calculatedLimitGustMps, unit)}, {utilizationText(e.utilization.governing)} at {speed(answer.gustMps, unit)} —{' '}
               {windWords(e.governingDirectionDeg, frontAzimuthDeg, strip)}: {criterionWords(e.governing, e.tippingEdge, frontAzimuthDeg)}
             </li>
           );
@@ -82,15 +92,14 @@ export function DirectionsTable({ answer, unit, frontAzimuthDeg }: { answer: Ass
       <div class="table-scroll">
         <table class="data directions-table">
           <caption>
-            Each direction's worst part at the check gust of {speed(answer.gustMps, unit)}; θ is measured clockwise from wind straight onto the front.
+            Each direction's worst part at a gust of {speed(answer.gustMps, unit)}, and its limit; θ is measured clockwise from wind straight onto the front.
             {ratedCaps && answer.limitGustMps !== null ? ` The rated gust of ${speed(answer.limitGustMps, unit)} caps every direction.` : ''}
           </caption>
           <thead>
             <tr>
               <th scope="col">Wind</th>
-              <th scope="col">Utilization</th>
+              <th scope="col">Utilization, limit</th>
               <th scope="col">Governs</th>
-              <th scope="col">Limit</th>
             </tr>
           </thead>
           <tbody>
@@ -104,13 +113,15 @@ export function DirectionsTable({ answer, unit, frontAzimuthDeg }: { answer: Ass
                     {frontAzimuthDeg !== null ? <span class="dir-compass"> from {compassPointName(frontAzimuthDeg + d.directionDeg)}</span> : null}
                     {g ? <span class="visually-hidden"> (governs)</span> : null}
                   </th>
-                  <td>{utilizationText(d.utilization.governing)}</td>
-                  <td>
-                    {anyElement && d.element !== null ? <span class="dir-part">{d.element}: </span> : null}
-                    {criterionShort(d, frontAzimuthDeg)}
-                    {d.upliftCase ? <span class="dir-part"> ({d.upliftCase})</span> : null}
+                  <td class="dir-util">
+                    {utilizationText(d.utilization.governing)}
+                    <span class="dir-limit">limit {speed(d.calculatedLimitGustMps, unit)}</span>
                   </td>
-                  <td>{speed(d.calculatedLimitGustMps, unit)}</td>
+                  <td>
+                    {anyElement && d.element !== null ? <span class="dir-part">{partName(d.element, frontAzimuthDeg)}: </span> : null}
+                    {criterionShort(d, frontAzimuthDeg)}
+                    {d.upliftCase ? <span class="dir-case">{d.upliftCase}</span> : null}
+                  </td>
                 </tr>
               );
             })}

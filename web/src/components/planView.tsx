@@ -17,6 +17,7 @@ import { compassPointName } from '../../../server/engine/caseWords.ts';
 import type { AssessAnswer } from '../types.ts';
 import { nearestPoint, overlaps, placeLabels, textWidth, type Box, type PointLabel } from './labelLayout.ts';
 import { elementPlacement, faceSide, facingOf, massGroups, massGroupText, sideLabel, type Side } from './structureGeometry.ts';
+import { partName } from './assessmentSummary.tsx';
 
 const radiansPerDegree = Math.PI / 180;
 /** viewBox width; the height follows the base's shape. */
@@ -292,7 +293,10 @@ export function PlanView({ answer, frontAzimuthDeg }: { answer: AssessAnswer; fr
     ...singles.map((d) => ({ x: d.p.x, y: d.p.y, text: d.text, kind: 'mass', bold: true, offset: d.r + 3, width: textWidth(d.text, labelFont, true), height: labelHeight })),
     ...uplifts.map((u, i) => ({ x: u.p.x, y: u.p.y, text: upliftText(i), kind: 'uplift', bold: true, offset: 12, width: textWidth(upliftText(i), labelFont, true), height: labelHeight })),
     ...faceLines.map((f) => ({ x: f.mid.x, y: f.mid.y, text: String(f.i + 1), kind: 'face', bold: true, offset: 6, width: textWidth(String(f.i + 1), labelFont, true) + 6, height: labelHeight })),
-    ...elements.map((e) => ({ x: e.box.x + e.box.width / 2, y: e.box.y + e.box.height / 2, text: e.element.name, kind: 'element', offset: Math.min(e.box.width, e.box.height) / 2 + 4, width: textWidth(e.element.name, labelFont - 2), height: labelHeight - 2 })),
+    ...elements.map((e) => {
+      const text = partName(e.element.name, frontAzimuthDeg);
+      return { x: e.box.x + e.box.width / 2, y: e.box.y + e.box.height / 2, text, kind: 'element', offset: Math.min(e.box.width, e.box.height) / 2 + 4, width: textWidth(text, labelFont - 2), height: labelHeight - 2 };
+    }),
   ];
   const placed = placeLabels(pointLabels, obstacles, bounds, 2, softObstacles);
 

@@ -24,6 +24,7 @@ import type { AssessAnswer } from '../types.ts';
 import { kiloNewtons } from '../units.ts';
 import { placeLabels, spreadAlong, spreadInRows, textWidth, type Box } from './labelLayout.ts';
 import { faceForce, faceSide, facingOf, massGroupText, sideLabel, type Face, type Mass, type MassGroup } from './structureGeometry.ts';
+import { partName } from './assessmentSummary.tsx';
 
 type Extent = [number, number];
 type Uplift = NonNullable<AssessAnswer['expanded']['uplift']>;
@@ -147,7 +148,8 @@ function windLines(text: string, maxWidth: number): string[] {
 }
 
 export function SideView({ answer, record, frontAzimuthDeg = null }: { answer: AssessAnswer; record: Record<string, unknown>; frontAzimuthDeg?: number | null }) {
-  const parts = partsOf(answer);
+  // Elements' names with their ends by compass, as the list and the governing words say them.
+  const parts = partsOf(answer).map((p) => (p.element ? { ...p, title: partName(p.title, frontAzimuthDeg) } : p));
   const governingKey = answer.governingElement ?? '';
   const [chosen, setChosen] = useState<string | null>(null);
   const part = parts.find((p) => p.key === (chosen ?? governingKey)) ?? parts[0]!;

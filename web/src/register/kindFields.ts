@@ -650,7 +650,7 @@ export const faceColumns = [
 
 /** Columns of a custom record's mass rows (structureDraft.ts MassRow). */
 export const massColumns = [
-  { key: 'label', label: 'Mass', unit: '', placeholder: 'e.g. ballast', help: 'What it is: self-weight, ballast block, water barrel (optional).' },
+  { key: 'label', label: 'What', unit: '', placeholder: 'e.g. ballast', help: 'A name for it: self-weight, ballast block, water barrel (optional).' },
   { key: 'massKg', label: 'Mass', unit: 'kg', placeholder: 'e.g. 1000', help: 'Mass in kilograms.' },
   { key: 'xM', label: 'Position x', unit: 'm', placeholder: 'e.g. 0.75', help: 'Position across the base from the front edge, m: 0 to the base depth.' },
   {

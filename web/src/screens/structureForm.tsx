@@ -16,8 +16,8 @@ import { LevelsEditor } from '../components/levelsEditor.tsx';
 import { DirectionsTable, ElementsList, Warnings } from '../components/assessmentSummary.tsx';
 import { PlanView } from '../components/planView.tsx';
 import { SideView } from '../components/sideView.tsx';
-import { faceColumns, kindFields, kindIntro, kindNames, massColumns, commonFields, type FieldDef } from '../register/kindFields.ts';
-import { draftFromView, draftInput, draftLevels, draftRecord, newDraft, plainMessage, switchKind, typedNumber, type Draft } from '../register/structureDraft.ts';
+import { faceColumns, kindFields, kindIntro, kindNames, massColumns, commonFields, upliftColumns, type FieldDef } from '../register/kindFields.ts';
+import { draftFromView, draftInput, draftLevels, draftRecord, emptyFaceRow, emptyMassRow, newDraft, plainMessage, switchKind, typedNumber, type Draft } from '../register/structureDraft.ts';
 import { refreshSnapshot } from '../live.ts';
 import { prefs } from '../prefs.ts';
 import { href, navigate, useRoute } from '../router.ts';
@@ -51,7 +51,9 @@ export function StructureForm({ id }: { id: number | null }) {
   const [saving, setSaving] = useState(false);
   // A new structure is saved and the page moves to its own address: the confirmation travels in the query.
   const justSaved = useRoute().query.get('saved') === '1';
-  const [message, setMessage] = useState<{ ok: boolean; text: string } | null>(justSaved ? { ok: true, text: 'Saved. It is on the live board now.' } : null);
+  // `fields`: the fields a refused save names, each a button that takes the person to it. `top`: shown
+  // under the heading (a new structure's confirmation: the page has just opened at its top).
+  const [message, setMessage] = useState<Message | null>(justSaved ? { ok: true, text: 'Saved. It is on the live board now.', top: true } : null);
   const seq = useRef(0);
 
   // Load the structure (or start a new draft once the site's default levels are known).
@@ -175,7 +177,12 @@ export function StructureForm({ id }: { id: number | null }) {
         const m = new Map<string, string>();
         for (const i of err.issues) m.set(i.path, m.has(i.path) ? `${m.get(i.path)}; ${i.message}` : i.message);
         setSaveIssues(m);
-        setMessage({ ok: false, text: `Not saved: ${err.issues.length} ${err.issues.length === 1 ? 'field needs' : 'fields need'} attention (marked below).` });
+        const fields = issueFields([...m.entries()], draft.kind);
+        setMessage({
+          ok: false,
+          text: `Not saved: ${fields.length === 1 ? '1 field needs attention, marked' : `${fields.length} fields need attention, each marked`} in red where it is:`,
+          fields,
+        });
       } else setMessage({ ok: false, text: `Not saved: ${errorText(err)}` });
     } finally {
       setSaving(false);
@@ -248,6 +255,7 @@ export function StructureForm({ id }: { id: number | null }) {
         ) : null}
       </p>
       <h1>{id === null ? 'Register a structure' : `Edit: ${draft.name || 'structure'}`}</h1>
+      {message?.top ? <MessageBox message={message} /> : null}
       <Caution />
       {!canEdit ? <p class="note-box">You can try numbers here, but only a competent person can save changes to the register.</p> : null}
 
@@ -361,11 +369,7 @@ export function StructureForm({ id }: { id: number | null }) {
             </fieldset>
           </section>
 
-          {message ? (
-            <p class={message.ok ? 'ok-box' : 'error-box'} role={message.ok ? 'status' : 'alert'}>
-              {message.text}
-            </p>
-          ) : null}
+          {message && !message.top ? <MessageBox message={message} /> : null}
           {canEdit ? (
             <div class="row save-row">
               <button type="button" class="primary" disabled={saving} onClick={() => void save()}>
@@ -396,6 +400,112 @@ export function StructureForm({ id }: { id: number | null }) {
       </div>
     </main>
   );
+}
+
+interface Message {
+  ok: boolean;
+  text: string;
+  /** The fields a refused save names: label and the id of the control to go to (null when none matches). */
+  fields?: Array<{ label: string; controlId: string | null; problem: string }>;
+  /** Shown under the heading instead of beside the save button. */
+  top?: boolean;
+}
+
+function MessageBox({ message }: { message: Message }) {
+  const go = (controlId: string) => {
+    const el = document.getElementById(controlId);
+    if (!el) return;
+    el.scrollIntoView({ block: 'center' });
+    el.focus({ preventScroll: true });
+  };
+  return (
+    <div class={message.ok ? 'ok-box' : 'error-box'} role={message.ok ? 'status' : 'alert'}>
+      <p class="message-text">{message.text}</p>
+      {message.fields && message.fields.length > 0 ? (
+        <ul class="issue-links">
+          {message.fields.map((f) => (
+            <li>
+              {f.controlId ? (
+                <button type="button" class="link-like" onClick={() => go(f.controlId!)}>
+                  {f.label}
+                </button>
+              ) : (
+                <strong>{f.label}</strong>
+              )}
+              : {f.problem}
+            </li>
+          ))}
+        </ul>
+      ) : null}
+    </div>
+  );
+}
+
+const placementFields: Readonly<Record<string, [string, string]>> = {
+  name: ['Name', 'sf-name'],
+  orientationDeg: ['Front faces towards', 'sf-orient'],
+  location: ['Location on site', 'sf-loc'],
+  latDeg: ['Latitude', 'sf-lat'],
+  lonDeg: ['Longitude', 'sf-lon'],
+  'uplift.planAreaM2': ['Uplift plan area', 'sf-up-area'],
+  'uplift.liftCoefficient': ['Uplift lift coefficient c_lift', 'sf-up-c'],
+  'uplift.xM': ['Uplift position x', 'sf-up-x'],
+  'uplift.yM': ['Uplift position y', 'sf-up-y'],
+};
+
+/**
+ * The fields a save's issue paths point at, in words the form uses and with the control to go to:
+ * "record.lengthM" → Length along the ridge, "levels.2.trigger.gustMps" → Level 3: trigger,
+ * "record.faces.1.areaM2" → Face 2: area; each with its complaint. Several issues on one field are named once.
+ */
+function issueFields(issues: ReadonlyArray<[string, string]>, kind: StructureKind): Array<{ label: string; controlId: string | null; problem: string }> {
+  const out: Array<{ label: string; controlId: string | null; problem: string }> = [];
+  const fields = [...kindFields[kind], ...commonFields];
+  for (const [raw, message] of issues) {
+    const problem = plainMessage(message);
+    const add = (label: string, controlId: string | null) => {
+      const same = out.find((o) => o.label === label);
+      if (same) same.problem = `${same.problem}; ${problem}`;
+      else out.push({ label, controlId, problem });
+    };
+    const path = raw.replace(/^(record|structure)\./, '');
+    const field = fields.find((f) => f.path === path || path.startsWith(`${f.path}.`));
+    if (field) {
+      add(field.label, `sf-${field.path.replace(/\./g, '-')}`);
+      continue;
+    }
+    const placement = placementFields[path];
+    if (placement) {
+      add(placement[0], placement[1]);
+      continue;
+    }
+    const row = /^(faces|masses)\.(\d+)\.?(\w+)?/.exec(path);
+    if (row) {
+      const i = Number(row[2]);
+      const columns: ReadonlyArray<{ key: string; label: string }> = row[1] === 'faces' ? faceColumns : massColumns;
+      const column = columns.find((c) => c.key === row[3]);
+      const what = row[1] === 'faces' ? 'Face' : 'Mass';
+      add(column ? `${what} ${i + 1}: ${column.label.toLowerCase()}` : `${what} ${i + 1}`, column ? `${row[1] === 'faces' ? 'face' : 'mass'}-${i}-${column.key}` : null);
+      continue;
+    }
+    const level = /^levels\.(\d+)\.?(\w+)?/.exec(path);
+    if (level) {
+      const i = Number(level[1]);
+      const part = level[2] === 'label' ? 'label' : level[2] === 'actionText' ? 'action' : 'trigger';
+      add(`Level ${i + 1}: ${part}`, `sl-${i}-${part === 'trigger' ? 'value' : part}`);
+      continue;
+    }
+    if (/^levels/.test(path)) {
+      add('Levels and actions', null);
+      continue;
+    }
+    if (/^sensorKeys/.test(path)) {
+      add('Sensors that govern', null);
+      continue;
+    }
+    add(path === '' || path === 'record' ? 'the structure as a whole' : path, null);
+  }
+  return out;
 }
 
 function Results({ answer, hasIssues, unit, frontAzimuthDeg }: { answer: AssessAnswer | null; hasIssues: boolean; unit: Parameters<typeof speed>[1]; frontAzimuthDeg: number | null }) {
@@ -525,6 +635,9 @@ function Results({ answer, hasIssues, unit, frontAzimuthDeg }: { answer: AssessA
   );
 }
 
+/** Ids of the uplift's controls (issueFields names them too). */
+const upliftIds: Readonly<Record<(typeof upliftColumns)[number]['key'], string>> = { planAreaM2: 'sf-up-area', liftCoefficient: 'sf-up-c', xM: 'sf-up-x', yM: 'sf-up-y' };
+
 function CustomRows(props: { draft: Draft; update: (p: Partial<Draft>) => void; errorFor: (path: string) => string | undefined; touch: (path: string) => void }) {
   const { draft, update, errorFor, touch } = props;
   return (
@@ -547,7 +660,8 @@ function CustomRows(props: { draft: Draft; update: (p: Partial<Draft>) => void; 
                   <input
                     id={`face-${i}-${c.key}`}
                     inputMode={c.key === 'label' ? 'text' : 'decimal'}
-                    value={f[c.key]}
+                    placeholder={c.placeholder}
+                    value={f[c.key] ?? ''}
                     onInput={(e) => {
                       touch(path);
                       update({ faces: draft.faces.map((x, j) => (j === i ? { ...x, [c.key]: e.currentTarget.value } : x)) });
@@ -562,7 +676,7 @@ function CustomRows(props: { draft: Draft; update: (p: Partial<Draft>) => void; 
             </button>
           </div>
         ))}
-        <button type="button" onClick={() => update({ faces: [...draft.faces, { label: '', areaM2: '', centroidHeightM: '', cfFront: '', cfBack: '' }] })}>
+        <button type="button" onClick={() => update({ faces: [...draft.faces, emptyFaceRow()] })}>
           Add a face
         </button>
       </fieldset>
@@ -578,13 +692,14 @@ function CustomRows(props: { draft: Draft; update: (p: Partial<Draft>) => void; 
               return (
                 <div class={`field${err ? ' has-error' : ''}`}>
                   <label for={`mass-${i}-${c.key}`}>
-                    {c.key === 'label' ? 'What' : c.label}
+                    {c.label}
                     {c.unit ? ` (${c.unit})` : ''}
                   </label>
                   <input
                     id={`mass-${i}-${c.key}`}
                     inputMode={c.key === 'label' ? 'text' : 'decimal'}
-                    value={m[c.key]}
+                    placeholder={c.placeholder}
+                    value={m[c.key] ?? ''}
                     onInput={(e) => {
                       touch(path);
                       update({ masses: draft.masses.map((x, j) => (j === i ? { ...x, [c.key]: e.currentTarget.value } : x)) });
@@ -599,7 +714,7 @@ function CustomRows(props: { draft: Draft; update: (p: Partial<Draft>) => void; 
             </button>
           </div>
         ))}
-        <button type="button" onClick={() => update({ masses: [...draft.masses, { label: '', massKg: '', xM: '' }] })}>
+        <button type="button" onClick={() => update({ masses: [...draft.masses, emptyMassRow()] })}>
           Add a mass
         </button>
       </fieldset>
@@ -609,12 +724,24 @@ function CustomRows(props: { draft: Draft; update: (p: Partial<Draft>) => void; 
       </label>
       {draft.upliftOn ? (
         <div class="grid2">
-          <Field id="sf-up-area" label="Plan area" unit="m²" error={errorFor('uplift.planAreaM2')} help="Area seen from above that the wind lifts; the uplift acts at the middle of the base.">
-            <input id="sf-up-area" inputMode="decimal" value={draft.uplift.planAreaM2} onInput={(e) => update({ uplift: { ...draft.uplift, planAreaM2: e.currentTarget.value } })} />
-          </Field>
-          <Field id="sf-up-c" label="Lift coefficient c_lift" error={errorFor('uplift.liftCoefficient')} help="Net upward force coefficient, ≥ 0 (downforce is never credited). Needs its source below.">
-            <input id="sf-up-c" inputMode="decimal" value={draft.uplift.liftCoefficient} onInput={(e) => update({ uplift: { ...draft.uplift, liftCoefficient: e.currentTarget.value } })} />
-          </Field>
+          {upliftColumns.map((c) => {
+            const fid = upliftIds[c.key];
+            const path = `uplift.${c.key}`;
+            return (
+              <Field id={fid} label={c.label} unit={c.unit || undefined} error={errorFor(path)} help={c.help}>
+                <input
+                  id={fid}
+                  inputMode="decimal"
+                  placeholder={c.placeholder}
+                  value={draft.uplift[c.key] ?? ''}
+                  onInput={(e) => {
+                    touch(path);
+                    update({ uplift: { ...draft.uplift, [c.key]: e.currentTarget.value } });
+                  }}
+                />
+              </Field>
+            );
+          })}
         </div>
       ) : null}
     </>
