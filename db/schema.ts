@@ -194,7 +194,7 @@ export const alertsTable = sqliteTable(
   {
     id: integer().primaryKey({ autoIncrement: true }),
     siteId: integer('site_id').notNull(),
-    /** 'level' | 'no-data' | 'sensor-silent' | 'sensor-implausible'. */
+    /** 'level' | 'no-data' | 'sensor-silent' | 'sensor-implausible' | 'sensor-clock'. */
     kind: text().notNull(),
     structureId: integer('structure_id'),
     sensorId: integer('sensor_id'),

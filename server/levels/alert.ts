@@ -14,8 +14,9 @@ import type { LevelEvent } from './stepLevel.ts';
  * - 'no-data': a structure has no live governing sensor (shown as "no data", never "fine").
  * - 'sensor-silent': a sensor sent nothing for longer than its timeout (design default 30 s).
  * - 'sensor-implausible': a sensor sent values outside the plausible range.
+ * - 'sensor-clock': a sensor's time stamps are more than 10 s off the server's clock (clockOffset.ts).
  */
-export const alertKinds = ['level', 'no-data', 'sensor-silent', 'sensor-implausible'] as const;
+export const alertKinds = ['level', 'no-data', 'sensor-silent', 'sensor-implausible', 'sensor-clock'] as const;
 export type AlertKind = (typeof alertKinds)[number];
 
 export interface Acknowledgement {

@@ -42,7 +42,7 @@ export interface AlertRow {
   /** Given by the live watch, so an alert has its id (and can be shown and acknowledged) before it is stored. */
   id: number;
   siteId: number;
-  kind: 'level' | 'no-data' | 'sensor-silent' | 'sensor-implausible';
+  kind: 'level' | 'no-data' | 'sensor-silent' | 'sensor-implausible' | 'sensor-clock';
   structureId: number | null;
   sensorId: number | null;
   level: number | null;

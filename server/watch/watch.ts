@@ -56,7 +56,7 @@ import type { RegisteredSensor } from '../ingest/registry.ts';
 import type { LiveHub } from '../live/liveHub.ts';
 import type { AlertRow, WriteBatch } from '../storage/writeBatch.ts';
 import { emptyWriteBatch } from '../storage/writeBatch.ts';
-import { acceptReading, createSensorWindState, sensorSilent, stuckSensors, windSnapshot, type SensorWindState } from '../wind/index.ts';
+import { acceptReading, clockOffsetAlertMs, clockOffsetClearMs, clockOffsetMs, createSensorWindState, noteArrival, sensorSilent, stuckSensors, windSnapshot, type SensorWindState } from '../wind/index.ts';
 import { densityDependent, structureModel, type DensityDependent, type StructureModel, type StructureRow } from './structureModel.ts';
 
 /** A reading older than this at receipt is "late" (from a gateway's buffer): stored, not used live. */
@@ -107,6 +107,8 @@ interface SensorLive {
   lastHealthCheckAtMs: number;
   silentAlertId: number | null;
   implausibleAlertId: number | null;
+  /** The open alert for a clock offset beyond clockOffsetAlertMs; null when none. */
+  clockAlertId: number | null;
   stuck: boolean;
 }
 
@@ -243,6 +245,10 @@ export interface SensorState {
   beaufort: number | null;
   lastReadingTsMs: number | null;
   lastReceivedAtMs: number | null;
+  /** When the newest reading of any kind arrived (late ones too); null before the first. */
+  lastArrivalAtMs: number | null;
+  /** The sensor's clock offset from the server's, ms (positive: behind), over the last 30–60 s of arrivals; null when nothing arrived. */
+  clockOffsetMs: number | null;
   silent: boolean;
   implausible: string[];
   temperatureC: number | null;
@@ -337,6 +343,7 @@ export class Watch implements ReadingConsumer {
         lastAnnouncedAtMs: old?.lastAnnouncedAtMs ?? 0,
         lastHealthCheckAtMs: old?.lastHealthCheckAtMs ?? 0,
         silentAlertId: old?.silentAlertId ?? null,
+        clockAlertId: old?.clockAlertId ?? null,
         implausibleAlertId: old?.implausibleAlertId ?? null,
         stuck: old?.stuck ?? false,
       });
@@ -413,6 +420,7 @@ export class Watch implements ReadingConsumer {
           const sensor = alert.sensorKey ? this.sensorsByKey.get(alert.sensorKey) : undefined;
           if (sensor && alert.kind === 'sensor-silent') sensor.silentAlertId = alert.id;
           if (sensor && alert.kind === 'sensor-implausible') sensor.implausibleAlertId = alert.id;
+          if (sensor && alert.kind === 'sensor-clock') sensor.clockAlertId = alert.id;
         }
       }
     }
@@ -476,6 +484,9 @@ export class Watch implements ReadingConsumer {
     for (const reading of readings) {
       let rollupGustMps = reading.gustMps ?? reading.speedMps;
       const isLate = reading.tsMs < receivedAtMs - liveReadingMaxAgeMs;
+      // Every arrival counts for the clock offset, late ones included (a clock far behind makes
+      // every reading late: the offset says why).
+      if (live) noteArrival(live.wind, reading.tsMs, receivedAtMs);
       if (live && !isLate) {
         const result = acceptReading(live.wind, reading, receivedAtMs);
         if (typeof result === 'number') {
@@ -673,7 +684,10 @@ export class Watch implements ReadingConsumer {
       s.gustMps = gustMps;
       s.governingSensorKey = governing.sensorKey;
       s.windFromDeg = governing.dirDeg;
-      this.noteMinute(s, nowMs, gustMps);
+      // The gust goes on the timeline by its own time stamp (the governing sensor's newest
+      // reading), not by when it arrived: a lagging gateway's gusts land where they happened.
+      const gustAtMs = this.sensorsByKey.get(governing.sensorKey)?.wind.newestTsMs ?? nowMs;
+      this.noteMinute(s, Number.isFinite(gustAtMs) ? Math.min(gustAtMs, nowMs) : nowMs, gustMps, batch);
     }
     s.evaluatedAtMs = nowMs;
     // Announce (in the once-a-second batch) only what a screen would show differently: a gust
@@ -689,9 +703,17 @@ export class Watch implements ReadingConsumer {
     }
   }
 
-  private noteMinute(s: StructureLive, nowMs: number, gustMps: number): void {
-    const minute = nowMs - (nowMs % 60_000);
+  private noteMinute(s: StructureLive, atMs: number, gustMps: number, batch: WriteBatch): void {
+    const minute = atMs - (atMs % 60_000);
+    if (minute < s.minuteMs) {
+      // An earlier minute than the one being gathered (another governing sensor whose clock is
+      // behind): written as it is; the store keeps the highest per minute.
+      batch.structureMinutes.push({ structureId: s.model.id, minuteMs: minute, gustMps, utilization: this.assess(s, gustMps, s.windFromDeg).utilization, level: s.level.level });
+      return;
+    }
     if (minute !== s.minuteMs) {
+      // The minute being gathered is complete: write what it gathered since the last tick.
+      if (s.minuteDirty) this.pushMinute(s, batch);
       s.minuteMs = minute;
       s.minuteMaxGustMps = gustMps;
       s.minuteMaxLevel = s.level.level;
@@ -706,6 +728,17 @@ export class Watch implements ReadingConsumer {
       s.minuteMaxLevel = s.level.level;
       s.minuteDirty = true;
     }
+  }
+
+  private pushMinute(s: StructureLive, batch: WriteBatch): void {
+    s.minuteDirty = false;
+    batch.structureMinutes.push({
+      structureId: s.model.id,
+      minuteMs: s.minuteMs,
+      gustMps: s.minuteMaxGustMps,
+      utilization: this.assess(s, s.minuteMaxGustMps, s.windFromDeg).utilization,
+      level: s.minuteMaxLevel,
+    });
   }
 
   /** `levelBefore`: the level before this step (no-data and data-back rows record the level they happened at). */
@@ -824,13 +857,27 @@ export class Watch implements ReadingConsumer {
     }
   }
 
-  private raiseSensorAlert(live: SensorLive, kind: 'sensor-silent' | 'sensor-implausible', atMs: number, batch: WriteBatch, announcements: Array<() => void>, why: string): void {
+  private raiseSensorAlert(live: SensorLive, kind: 'sensor-silent' | 'sensor-implausible' | 'sensor-clock', atMs: number, batch: WriteBatch, announcements: Array<() => void>, why: string): void {
+    const timeoutS = Math.round(live.sensor.silenceTimeoutMs / 1000);
+    const offset = clockOffsetMs(live.wind, atMs);
+    // Readings that arrive but cannot be used live (stamped too far behind or ahead) are not silence.
+    const arriving = atMs - live.wind.arrivalLastAtMs <= live.sensor.silenceTimeoutMs && offset !== null;
     const texts =
       kind === 'sensor-silent'
-        ? {
-            label: 'Sensor silent',
-            actionText: `No reading from ${live.sensor.name} for more than ${Math.round(live.sensor.silenceTimeoutMs / 1000)} s. Check its power, mounting and gateway. Structures that take their wind from it have one reading fewer; if it was their only one they show "no data".`,
-          }
+        ? arriving
+          ? {
+              label: 'Sensor readings unusable',
+              actionText: `Readings from ${live.sensor.name} arrive, but none usable for more than ${timeoutS} s: they are stamped ${clockOffsetWords(offset)} the server's clock (a reading more than ${Math.round(liveReadingMaxAgeMs / 1000)} s old, or more than ${Math.round(live.wind.clockAheadToleranceMs / 1000)} s ahead, is stored but not used live). Set the gateway's clock (NTP). Structures that take their wind from it have one reading fewer; if it was their only one they show "no data".`,
+            }
+          : {
+              label: 'Sensor silent',
+              actionText: `No reading from ${live.sensor.name} for more than ${timeoutS} s. Check its power, mounting and gateway. Structures that take their wind from it have one reading fewer; if it was their only one they show "no data".`,
+            }
+        : kind === 'sensor-clock'
+          ? {
+              label: 'Sensor clock off',
+              actionText: `${live.sensor.name}'s readings are stamped ${why} the server's clock (measured from their arrival). They are still used and placed on the timeline by their own time; a reading more than ${Math.round(liveReadingMaxAgeMs / 1000)} s behind or ${Math.round(live.wind.clockAheadToleranceMs / 1000)} s ahead cannot be used live. Set the gateway's clock (NTP).`,
+            }
         : {
             label: 'Sensor readings implausible',
             actionText: `${live.sensor.name} is sending values that cannot be right (${why}); they are not used. Check it for damage, icing, a loose mounting or a wrong unit setting.`,
@@ -843,6 +890,7 @@ export class Watch implements ReadingConsumer {
       live.sensor.key,
     );
     if (kind === 'sensor-silent') live.silentAlertId = id;
+    else if (kind === 'sensor-clock') live.clockAlertId = id;
     else live.implausibleAlertId = id;
   }
 
@@ -871,6 +919,16 @@ export class Watch implements ReadingConsumer {
       const silent = sensorSilent(s.wind, nowMs);
       const graceOver = nowMs - this.startedAtMs >= Math.max(startGraceMs, s.sensor.silenceTimeoutMs);
       if (silent && graceOver && s.silentAlertId === null) this.raiseSensorAlert(s, 'sensor-silent', nowMs, batch, announcements, 'silent');
+      // A clock offset is its own condition: one alert past the bound, cleared inside the dead
+      // band; while nothing arrives the offset is unknown and the alert stays as it is.
+      const offset = clockOffsetMs(s.wind, nowMs);
+      if (offset !== null && Math.abs(offset) > clockOffsetAlertMs && s.clockAlertId === null) {
+        this.raiseSensorAlert(s, 'sensor-clock', nowMs, batch, announcements, clockOffsetWords(offset));
+      } else if (offset !== null && Math.abs(offset) < clockOffsetClearMs && s.clockAlertId !== null) {
+        const alert = this.alerts.get(s.clockAlertId);
+        if (alert) this.clear(alert, nowMs, batch, announcements);
+        s.clockAlertId = null;
+      }
     }
     this.recomputeMaxima(nowMs);
 
@@ -879,16 +937,7 @@ export class Watch implements ReadingConsumer {
       // Re-evaluate: a sensor may have gone silent (→ no data), or a hold may have run out.
       this.evaluate(s, nowMs, batch, announcements);
       if (s.level.noData && s.noDataAlertId === null && nowMs - this.startedAtMs >= startGraceMs) this.raiseNoData(s, nowMs, batch, announcements);
-      if (s.minuteDirty) {
-        s.minuteDirty = false;
-        batch.structureMinutes.push({
-          structureId: s.model.id,
-          minuteMs: s.minuteMs,
-          gustMps: s.minuteMaxGustMps,
-          utilization: this.assess(s, s.minuteMaxGustMps, s.windFromDeg).utilization,
-          level: s.minuteMaxLevel,
-        });
-      }
+      if (s.minuteDirty) this.pushMinute(s, batch);
     }
 
     const system = this.options.systemStatus?.();
@@ -1068,6 +1117,8 @@ export class Watch implements ReadingConsumer {
       beaufort: snap.mean10minMps === null ? null : beaufortForce(snap.mean10minMps),
       lastReadingTsMs: snap.lastReadingTsMs,
       lastReceivedAtMs: snap.lastReceivedAtMs,
+      lastArrivalAtMs: Number.isFinite(s.wind.arrivalLastAtMs) ? s.wind.arrivalLastAtMs : null,
+      clockOffsetMs: clockOffsetMs(s.wind, nowMs),
       silent: snap.silent,
       implausible,
       temperatureC: snap.temperatureC,
@@ -1132,6 +1183,13 @@ function clampedTriggerWarnings(levels: readonly LevelDefinition[], limitGustMps
         ]
       : [],
   );
+}
+
+/** "40 s behind" / "12 s ahead of" (a clock offset in words, for alert texts). */
+function clockOffsetWords(offsetMs: number | null): string {
+  if (offsetMs === null) return 'at an unknown offset from';
+  const s = Math.round(Math.abs(offsetMs) / 1000);
+  return offsetMs >= 0 ? `${s} s behind` : `${s} s ahead of`;
 }
 
 const noLevelEvents: readonly LevelEvent[] = Object.freeze([]);

@@ -20,6 +20,7 @@ export {
 export { acceptReading, type IgnoredReason } from './acceptReading.ts';
 export { windSnapshot, peakGustMps, type WindSnapshot } from './windSnapshot.ts';
 export { sensorSilent } from './sensorSilent.ts';
+export { noteArrival, clockOffsetMs, clockOffsetAlertMs, clockOffsetClearMs } from './clockOffset.ts';
 export {
   stuckSensors,
   defaultStuckAfterMs,

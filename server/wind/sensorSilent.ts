@@ -6,12 +6,11 @@
 import type { SensorWindState } from './sensorWindState.ts';
 
 /**
- * True when the sensor has had no reading within its silence timeout at nowMs. Both clocks are
- * checked, and either one going quiet makes the sensor silent (conservative):
- * - receipt: no accepted reading received for longer than the timeout (the sensor or its
- *   gateway stopped, whatever its clock says);
- * - sample time: the newest reading's own timestamp is older than the timeout (a gateway
- *   flushing old data, or a clock running behind: the data does not describe the wind now).
+ * True when no usable reading has been received within the sensor's silence timeout at nowMs.
+ * Silence is about arrival: readings that keep arriving keep the sensor live whatever their time
+ * stamps say. A gateway whose clock lags is its own condition (clockOffset.ts: measured per sensor,
+ * one alert with the figure); a reading more than 60 s old at receipt is late and kept out of the
+ * live state by the watch, so a gateway flushing an old buffer does not count as live either.
  * Before the first reading a sensor is silent.
  *
  * @example
@@ -20,5 +19,5 @@ import type { SensorWindState } from './sensorWindState.ts';
 export function sensorSilent(state: SensorWindState, nowMs: number): boolean {
   if (!Number.isFinite(nowMs)) throw new RangeError(`sensorSilent: nowMs must be finite epoch ms, got ${nowMs}`);
   if (state.newestMode === null) return true;
-  return nowMs - state.newestReceivedAtMs > state.silenceTimeoutMs || nowMs - state.newestTsMs > state.silenceTimeoutMs;
+  return nowMs - state.newestReceivedAtMs > state.silenceTimeoutMs;
 }

@@ -164,6 +164,12 @@ export class SensorWindState {
   clockAheadAtMs = -Infinity;
   sampleRateTooHighAtMs = -Infinity;
 
+  // Arrivals and clock offset (clockOffset.ts): every reading that arrives, used live or not.
+  arrivalLastAtMs = -Infinity;
+  lagBlockStartMs = -Infinity;
+  lagMinCurrentMs = Number.POSITIVE_INFINITY;
+  lagMinPreviousMs = Number.POSITIVE_INFINITY;
+
   constructor(options: SensorWindOptions) {
     if (typeof options.sensorKey !== 'string' || options.sensorKey.length === 0) {
       throw new RangeError(`SensorWindState: sensorKey must be a non-empty string, got ${JSON.stringify(options.sensorKey)}`);

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { acceptReading, createSensorWindState, sensorSilent, windSnapshot } from '../../../server/wind/index.ts';
+import { acceptReading, clockOffsetMs, createSensorWindState, noteArrival, sensorSilent, windSnapshot } from '../../../server/wind/index.ts';
 import { rawSample, t0Ms } from './windReadings.ts';
 
 describe('silent sensors (design.md §2.4: silent for longer than its timeout, default 30 s)', () => {
@@ -27,10 +27,13 @@ describe('silent sensors (design.md §2.4: silent for longer than its timeout, d
     expect(snap.mean10minMps).toBe(11);
   });
 
-  it('readings that arrive but describe the wind more than 30 s ago (clock behind, old buffer) leave the sensor silent (conservative)', () => {
+  it('silence is about arrival: a reading stamped 31 s before it arrives keeps the sensor live (a lagging clock is its own condition, clockOffset.ts; issue 13 item 2)', () => {
     const state = createSensorWindState({ sensorKey: 'mast-a' });
     acceptReading(state, rawSample(t0Ms, 7), t0Ms + 31_000);
-    expect(sensorSilent(state, t0Ms + 31_000)).toBe(true);
+    expect(sensorSilent(state, t0Ms + 31_000)).toBe(false);
+    expect(sensorSilent(state, t0Ms + 61_001)).toBe(true);
+    noteArrival(state, t0Ms, t0Ms + 31_000);
+    expect(clockOffsetMs(state, t0Ms + 31_000)).toBe(31_000);
   });
 
   it('a sensor that has never reported is silent', () => {
