@@ -163,7 +163,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     });
     void external.start().catch(() => undefined);
   } else {
-    broker = new EmbeddedBroker({ host: config.mqttHost, port: config.mqttPort, topicPrefix: config.topicPrefix, registry, sink: pipeline, log, now });
+    broker = new EmbeddedBroker({ host: config.mqttHost, port: config.mqttPort, topicPrefix: config.topicPrefix, registry, sink: pipeline, log, now, refusals: rejections.refusals });
     try {
       await broker.start();
     } catch (err) {
@@ -240,8 +240,14 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
         failedCommits: queue.stats.failedCommits,
         backlogRows: queue.stats.backlogRows,
         droppedBacklogReadings: queue.stats.droppedBacklogReadings,
+        // The newest failure, whether it still holds or is past: `error` is what fails now (null
+        // when writes work), `lastError` the newest failure with its time and, once writes work
+        // again, when they recovered, and `status` says it in words.
+        error: dbOk ? null : queue.stats.lastError,
         lastError: queue.stats.lastError,
         lastErrorAtMs: queue.stats.lastErrorAtMs,
+        recoveredAtMs: queue.stats.recoveredAtMs,
+        status: storageStatusWords(dbOk, queue.stats),
       },
       ingest: { ...pipeline.counters, rejectedTotal: rejections.totalCount },
       liveStreamClients: hub.listenerCount,
@@ -284,8 +290,9 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     health: { health },
     log,
     access: { accounts, now, csrfExempt: new Set(['/api/session', '/api/setup', '/api/assess']) },
+    origin: { trustProxy: config.trustProxy, extraOrigins: config.publicUrl ? [new URL(config.publicUrl).origin] : [], exempt: new Set(['/api/assess']), otherBodyTypes: new Map([['/api/register/import', ['text/csv']]]) },
     routes: [
-      { path: '/api', app: accessRoutes({ accounts, limiter, addressLimiter, now, trustProxy: config.trustProxy }) },
+      { path: '/api', app: accessRoutes({ accounts, limiter, addressLimiter, now, trustProxy: config.trustProxy, publicUrl: config.publicUrl }) },
       { path: '/api', app: apiRoutes(ctx) },
       { path: '/link', app: siteLinkOpener({ accounts, limiter, addressLimiter, now, trustProxy: config.trustProxy }) },
     ],
@@ -333,4 +340,15 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     sqlite.close();
   };
   return running;
+}
+
+/** The database's state in words: "writing", "cannot write since … (…)", or "writing; last error at …, recovered at …". */
+export function storageStatusWords(ok: boolean, stats: { lastError: string | null; lastErrorAtMs: number | null; recoveredAtMs: number | null }): string {
+  const at = (ms: number | null) => (ms === null ? 'an unknown time' : new Date(ms).toISOString());
+  if (!ok) return `cannot write since ${at(stats.lastErrorAtMs)} (${stats.lastError ?? 'unknown error'}); rows are held in memory and retried`;
+  if (stats.lastErrorAtMs === null) return 'writing';
+  // A failure of the open-minute write alone does not fill the backlog: it is past once a later write worked.
+  return stats.recoveredAtMs === null
+    ? `writing; last error at ${at(stats.lastErrorAtMs)} (${stats.lastError ?? 'unknown error'})`
+    : `writing; last error at ${at(stats.lastErrorAtMs)} (${stats.lastError ?? 'unknown error'}), recovered at ${at(stats.recoveredAtMs)}`;
 }

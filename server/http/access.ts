@@ -36,6 +36,67 @@ export function resolvePrincipal(options: AccessOptions): MiddlewareHandler<AppE
   };
 }
 
+/**
+ * Browsers' cross-site requests stopped at the door (issue 13 item 11). For every state-changing
+ * request under /api (sign-in included):
+ * - a body must be sent as `application/json` exactly (parameters such as charset allowed), or as
+ *   one of the route's own types (`text/csv` for a register import): `text/plain;
+ *   charset=application/json` is a "simple" type a page on another site may send without a
+ *   preflight, so it is refused, whatever its parameters say;
+ * - a browser's `Sec-Fetch-Site` must be `same-origin` (or `none`: typed by the user), and its
+ *   `Origin`, when sent, must be this server's own (its Host, the proxy's X-Forwarded-Host when the
+ *   proxy is trusted, or the configured public address). Clients that send neither (curl, scripts,
+ *   gateways) are not browsers and cannot carry a victim's cookie across sites.
+ * The CSRF token (resolvePrincipal) stays the second lock.
+ */
+export interface OriginOptions {
+  trustProxy: boolean;
+  /** Origins accepted besides the request's own host (e.g. PUBLIC_URL's), as `scheme://host[:port]`. */
+  extraOrigins: readonly string[];
+  /** Paths (exact) that change nothing and are public (the calculators): no origin check. */
+  exempt: ReadonlySet<string>;
+  /** Media types a path accepts besides application/json (exact path → types). */
+  otherBodyTypes: ReadonlyMap<string, readonly string[]>;
+}
+
+export function checkRequestOrigin(options: OriginOptions): MiddlewareHandler<AppEnv> {
+  return async (c, next) => {
+    if (!stateChanging.has(c.req.method) || !c.req.path.startsWith('/api/')) return next();
+    const type = c.req.header('content-type');
+    if (type !== undefined && type.trim() !== '') {
+      const media = type.split(';')[0]!.trim().toLowerCase();
+      const allowed = options.otherBodyTypes.get(c.req.path) ?? [];
+      if (media !== 'application/json' && !allowed.includes(media)) {
+        throw new HttpError(415, `send the body as application/json${allowed.length > 0 ? ` or ${allowed.join(' or ')}` : ''} (got "${type.slice(0, 80)}")`);
+      }
+    }
+    if (options.exempt.has(c.req.path)) return next();
+    const fetchSite = c.req.header('sec-fetch-site');
+    if (fetchSite !== undefined && fetchSite !== 'same-origin' && fetchSite !== 'none') {
+      throw new HttpError(403, `refused: a ${fetchSite} request may not change anything here (Sec-Fetch-Site)`);
+    }
+    const origin = c.req.header('origin');
+    if (origin !== undefined && !originIsOurs(c, origin, options)) {
+      throw new HttpError(403, `refused: requests from ${origin.slice(0, 100)} may not change anything here (Origin)`);
+    }
+    await next();
+  };
+}
+
+function originIsOurs(c: Context, origin: string, options: OriginOptions): boolean {
+  if (origin === 'null') return false;
+  let parsed: URL;
+  try {
+    parsed = new URL(origin);
+  } catch {
+    return false;
+  }
+  if (options.extraOrigins.includes(parsed.origin)) return true;
+  const hosts = [c.req.header('host')];
+  if (options.trustProxy) hosts.push(c.req.header('x-forwarded-host')?.split(',').at(-1)?.trim());
+  return hosts.some((h) => h !== undefined && h.toLowerCase() === parsed.host.toLowerCase());
+}
+
 export function requireRole(role: Role): MiddlewareHandler<AppEnv> {
   return async (c, next) => {
     const principal = c.get('principal');

@@ -11,7 +11,7 @@ import { bodyLimit } from 'hono/body-limit';
 import { secureHeaders } from 'hono/secure-headers';
 import { HttpError } from './httpError.ts';
 import { assessRoute } from './assess.ts';
-import { resolvePrincipal, type AccessOptions, type AppEnv } from './access.ts';
+import { checkRequestOrigin, resolvePrincipal, type AccessOptions, type AppEnv, type OriginOptions } from './access.ts';
 import type { Logger } from '../log.ts';
 
 export interface HealthSource {
@@ -23,6 +23,8 @@ export interface AppServices {
   health: HealthSource;
   log: Logger;
   access: AccessOptions;
+  /** Cross-site requests refused (content type, Sec-Fetch-Site, Origin); see checkRequestOrigin. */
+  origin: OriginOptions;
   /** Route groups and where they are mounted (sensors, structures, log...). */
   routes?: ReadonlyArray<{ path: string; app: Hono<AppEnv> }>;
   /** Serves the built web app when given. */
@@ -60,6 +62,7 @@ export function createApp(services: AppServices): Hono<AppEnv> {
     }),
   );
 
+  app.use('*', checkRequestOrigin(services.origin));
   app.use('*', resolvePrincipal(services.access));
 
   app.get('/api/health', (c) => {

@@ -85,6 +85,8 @@ export interface WriteQueueStats {
   failedCommits: number;
   lastError: string | null;
   lastErrorAtMs: number | null;
+  /** When writes succeeded again after the last failure; null while failing or before any failure. */
+  recoveredAtMs: number | null;
   lastCommitAtMs: number | null;
 }
 
@@ -104,6 +106,7 @@ export class WriteQueue {
     failedCommits: 0,
     lastError: null,
     lastErrorAtMs: null,
+    recoveredAtMs: null,
     lastCommitAtMs: null,
   };
 
@@ -219,11 +222,13 @@ export class WriteQueue {
       this.stats.failedCommits++;
       this.stats.lastError = err instanceof Error ? err.message : String(err);
       this.stats.lastErrorAtMs = this.now();
+      this.stats.recoveredAtMs = null;
       this.keepForRetry(batches);
       for (const p of pending) p.resolve({ stored: false });
       return;
     }
     for (const [sensorId, agg] of opened) this.openMinutes.set(sensorId, agg);
+    if (this.backlog.length > 0 || (this.stats.lastErrorAtMs !== null && this.stats.recoveredAtMs === null)) this.stats.recoveredAtMs = this.now();
     this.backlog = [];
     this.stats.backlogRows = 0;
     if (this.retryTimer) clearInterval(this.retryTimer);
@@ -246,6 +251,7 @@ export class WriteQueue {
     } catch (err) {
       this.stats.lastError = err instanceof Error ? err.message : String(err);
       this.stats.lastErrorAtMs = this.now();
+      this.stats.recoveredAtMs = null;
       return;
     }
     for (const m of dirty) this.openMinutes.set(m.sensorId, emptyMinute(m.sensorId, m.minuteMs));

@@ -79,6 +79,8 @@ describe.each([
     expect(report.database.ok).toBe(false);
     expect(report.database.backlogRows).toBeGreaterThan(0);
     expect(report.database.lastError).toMatch(/full|readonly|read-only|attempt to write/i);
+    expect(report.database.error).toBe(report.database.lastError);
+    expect(report.database.status).toMatch(/^cannot write since /);
     const live = (await api.json('GET', '/api/live')).body;
     expect(live.system.storageOk).toBe(false);
 
@@ -99,6 +101,13 @@ describe.each([
     const change = sqlite().prepare('SELECT from_level AS f, to_level AS t FROM level_changes WHERE structure_id = ? AND to_level = 2 ORDER BY id DESC LIMIT 1').get(structureId);
     expect(change).toEqual({ f: 0, t: 2 });
     await waitFor(async () => (await api.request('GET', '/api/health')).status === 200, 10_000, 'health OK again');
+    // After recovery the old error is shown as past, with when it happened and when it ended (issue 13 item 12).
+    const after = ((await (await api.request('GET', '/api/health')).json()) as any).database;
+    expect(after.ok).toBe(true);
+    expect(after.error).toBeNull();
+    expect(after.lastError).toMatch(/full|readonly|read-only|attempt to write/i);
+    expect(after.recoveredAtMs).toBeGreaterThanOrEqual(after.lastErrorAtMs);
+    expect(after.status).toMatch(/^writing; last error at \S+ \(.+\), recovered at \S+$/);
     // The readings held in memory while the disk was full are stored too, once each.
     await waitFor(() => (sqlite().prepare("SELECT COUNT(*) AS n FROM readings WHERE ts_ms > ?").get(clock - 30_000) as { n: number }).n >= 402, 15_000, 'held readings stored');
 
