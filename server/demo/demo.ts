@@ -7,7 +7,7 @@
  */
 import { eq } from 'drizzle-orm';
 import mqtt, { type MqttClient } from 'mqtt';
-import { alertsTable, metaTable } from '../../db/schema.ts';
+import { alertsTable, metaTable, structuresTable } from '../../db/schema.ts';
 import type { Config } from '../config.ts';
 import { LiveHub } from '../live/liveHub.ts';
 import type { Logger } from '../log.ts';
@@ -23,7 +23,7 @@ import { WriteQueue } from '../storage/writeQueue.ts';
 import { zonedDayWindow } from '../http/routes/zonedDay.ts';
 import { Watch } from '../watch/watch.ts';
 import { mpsToSpeed, type SpeedUnit } from '../engine/units.ts';
-import { demoGatewayUsername, demoPeople, demoSensors, demoSiteName, demoStructures, demoTimeZone } from './demoSite.ts';
+import { demoAcknowledgeNotes, demoGatewayUsername, demoPeople, demoSensors, demoSiteName, demoStructures, demoTimeZone } from './demoSite.ts';
 import { seededRandom } from './random.ts';
 import { WindSimulator } from './windSimulator.ts';
 
@@ -70,12 +70,25 @@ function liveSpells(startMs: number, simStartMs: number) {
  * each sensor go through a watch of their own in simulated time, so the level changes, alerts
  * and per-minute history are exactly what the live system would have recorded.
  */
-function writePastDay(server: RunningServer, nowMs: number, seed: number, log: Logger): void {
-  const { db } = server;
+function pastDay(nowMs: number): { day: string; window: { fromMs: number; toMs: number } } {
   const today = new Intl.DateTimeFormat('en-CA', { timeZone: demoTimeZone }).format(new Date(nowMs));
   const [y, m, d] = today.split('-').map(Number) as [number, number, number];
-  const yesterday = new Date(Date.UTC(y, m - 1, d - 1)).toISOString().slice(0, 10);
-  const window = zonedDayWindow(yesterday, demoTimeZone)!;
+  const day = new Date(Date.UTC(y, m - 1, d - 1)).toISOString().slice(0, 10);
+  return { day, window: zonedDayWindow(day, demoTimeZone)! };
+}
+
+/**
+ * When the demo site was registered: the evening before the past day (the build day), so the
+ * register, its audit rows and the day report agree that every structure and sensor existed on
+ * the windy day (a day report lists only what was on the register that day).
+ */
+export function demoRegisteredAtMs(nowMs: number): number {
+  return pastDay(nowMs).window.fromMs - 5 * 3_600_000;
+}
+
+function writePastDay(server: RunningServer, nowMs: number, seed: number, log: Logger): void {
+  const { db } = server;
+  const { day: yesterday, window } = pastDay(nowMs);
   let simNow = window.fromMs;
   const watch = new Watch({ hub: new LiveHub(50), now: () => simNow });
   const sensors = server.registry.sensors();
@@ -115,18 +128,14 @@ function writePastDay(server: RunningServer, nowMs: number, seed: number, log: L
   }
   queue.settle();
 
-  // The crew acknowledged every alert within a few minutes, with what they did.
+  // The crew acknowledged every alert within a few minutes, with what they did to that structure.
   const random = seededRandom(seed + 1);
   const crew = ['Sam Okoro (site crew)', 'Priya Nandakumar (stage manager)', 'Dana Whitlock (competent person)'];
-  const notes: Record<string, string[]> = {
-    Watch: ['Walked the line, ballast and ties fine.', 'Checked feet and straps, all tight.', 'Briefed the gate team.'],
-    Prepare: ['Side walls on the west face closed, stewards briefed.', 'Scrim unclipped on every second bay.', 'Screen content switched off, crew on standby.'],
-    'Stop and clear': ['Area cleared and taped off at 1.5 × height downwind.', 'Scrim dropped and rolled, path closed.', 'Marquee emptied, caterers moved to the barn.'],
-  };
+  const kinds = new Map(db.select({ id: structuresTable.id, kind: structuresTable.kind }).from(structuresTable).all().map((s) => [s.id, s.kind]));
   const alerts = db.select().from(alertsTable).all().filter((a) => a.raisedAtMs >= window.fromMs && a.raisedAtMs < window.toMs);
   for (const a of alerts) {
     const by = crew[Math.floor(random() * crew.length)]!;
-    const options = notes[a.label] ?? ['Checked and logged.'];
+    const options = demoAcknowledgeNotes(a.kind, a.structureId === null ? null : (kinds.get(a.structureId) ?? null), a.level);
     const note = options[Math.floor(random() * options.length)]!;
     const atMs = a.raisedAtMs + Math.round(30_000 + random() * 210_000);
     db.update(alertsTable).set({ acknowledgedAtMs: atMs, acknowledgedBy: by, acknowledgeNote: note }).where(eq(alertsTable.id, a.id)).run();
@@ -177,7 +186,7 @@ export async function runDemo(config: Config, log: Logger): Promise<RunningServe
     beforeListen: async (s) => {
       const nowMs = Date.now();
       if (!meta(s.db, seededKey)) {
-        await seedRegister(s, nowMs);
+        await seedRegister(s, demoRegisteredAtMs(nowMs));
         writePastDay(s, nowMs, config.demoSeed, log);
         setMeta(s.db, seededKey, new Date(nowMs).toISOString(), nowMs);
         // The live watch starts from what the past day left in the log.

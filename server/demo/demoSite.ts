@@ -149,3 +149,51 @@ export const demoStructures: StructureInput[] = [
     levels: null,
   },
 ];
+
+/**
+ * What the demo crew wrote when they acknowledged an alert on the past day: each note is about
+ * the structure that raised it, by its kind (one demo structure per kind) and level (1 Watch,
+ * 2 Prepare, 3 Stop and clear), following the actions its levels ask for. Invented for the demo.
+ */
+const demoNotesByKind: Readonly<Record<string, Readonly<Record<number, readonly string[]>>>> = {
+  tent: {
+    1: ['Walked round the marquee: leg weights, pegs and guy lines tight.', 'Checked the ratchet straps and leg ballast on the west side of the marquee, all tight.'],
+    2: ['All marquee walls and doors closed and laced, no open side to the wind; stewards briefed on the exits.', 'West doors of the marquee laced shut, caterers told where to go if we clear.'],
+    3: ['Marquee emptied, caterers moved to the barn, zone taped off downwind of the marquee.', 'Food hall cleared and closed, stewards holding the public back from the west lawn.'],
+  },
+  banner: {
+    1: ['Walked the fence line: feet, ballast and cable ties fine.', 'Checked every foot block and clamp on the north fence, all in place.'],
+    2: ['Scrim unclipped on every second bay of the north fence, public kept back from the fence.', 'Cable ties cut on alternate bays, scrim ready to drop, gate crew told.'],
+    3: ['Scrim dropped to the ground and rolled, path along the north fence closed.', 'Fence scrim down and rolled, north path taped off.'],
+  },
+  screen: {
+    1: ['Checked the tower ballast and the outrigger pads of the LED screen, all in place.', 'Screen towers and ties checked, nothing moved.'],
+    2: ['LED screen lowered to its bottom stop, crew on standby at the towers.', 'Screen content off and the screen lowered, area in front of the stage cleared of kit.'],
+    3: ['Show stopped, LED screen down, nobody in front of or behind the towers.', 'Screen down and the zone round the towers taped off, stage manager told.'],
+  },
+  shell: {
+    1: ['Checked the back ballast and the ties of the bandstand shell, all tight.', 'Walked round the shell: ballast blocks in place, no movement.'],
+    2: ['Backdrop and banners taken off the bandstand shell, stewards briefed.', 'Loose kit cleared from under the shell, band told they may have to stop.'],
+    3: ['Band stopped, bandstand lawn cleared and taped off downwind of the shell.', 'Audience moved off the east end of the green, nobody under the shell.'],
+  },
+  custom: {
+    1: ['Checked the water ballast on all four legs of the arch: full, no leaks.', 'Arch legs and ballast checked at the east gate, all fine.'],
+    2: ['Header panel taken off the sponsor arch, gate stewards briefed.', 'Gate path under the arch narrowed, stewards ready to close it.'],
+    3: ['Gate path under the arch closed, everyone kept 5 m clear.', 'East gate moved to the side entrance, arch taped off.'],
+  },
+};
+
+const demoSensorNotes: Readonly<Record<string, readonly string[]>> = {
+  'no-data': ['Watched the wind with the handheld anemometer until readings came back.'],
+  'sensor-silent': ['Checked the mast cable and the gateway power; readings came back.'],
+  'sensor-implausible': ['Checked the anemometer cups and mounting; nothing loose.'],
+};
+
+/** The notes the demo crew choose from for an alert (its kind, the structure's kind, the level). */
+export function demoAcknowledgeNotes(alertKind: string, structureKind: string | null, level: number | null): readonly string[] {
+  if (alertKind === 'level' && structureKind !== null && level !== null) {
+    const notes = demoNotesByKind[structureKind]?.[Math.min(3, Math.max(1, level))];
+    if (notes) return notes;
+  }
+  return demoSensorNotes[alertKind] ?? ['Checked and logged.'];
+}

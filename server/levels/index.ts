@@ -61,7 +61,8 @@ export {
   type ForecastTableOptions,
   type ForecastTableProblem,
 } from './parseForecastTable.ts';
-export { forecastSpeedUnits, type ForecastSpeedUnit } from './forecastSpeedUnit.ts';
+export { forecastSpeedUnits, beaufortTopMps, speedCell, type ForecastSpeedUnit, type ForecastCellUnit } from './forecastSpeedUnit.ts';
+export { dateOrders, type DateOrder } from './forecastDateTime.ts';
 export {
   predictLevels,
   inlandGustFactor,

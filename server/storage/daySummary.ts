@@ -3,16 +3,107 @@
  * sensor: the questions a safety officer asks after a windy day. How hard did it blow, how close
  * did each structure come to its limit and when, how long was it at each level, which alerts
  * fired and who acknowledged them.
+ *
+ * Only what was on the register during the window is listed: a structure or sensor registered
+ * after the window's end is not there (it would read "unknown" for a day it did not exist), one
+ * retired before its start neither, and one registered or retired inside the window is counted
+ * from or up to that time. Structures are never brought back once retired, so the register's
+ * created and retired times say it all; a sensor's key can be retired and registered again, so
+ * its spells on the register come from the audit rows (create and retire) as well. Anything with
+ * logged data inside the window is listed regardless (a gateway may flush readings taken before
+ * the sensor was registered: they are true readings).
  */
-import { and, asc, desc, eq, gte, lt } from 'drizzle-orm';
-import { alertsTable, levelChangesTable, sensorsTable, structuresTable } from '../../db/schema.ts';
+import { and, asc, desc, eq, gte, inArray, lt } from 'drizzle-orm';
+import { alertsTable, auditTable, levelChangesTable, sensorsTable, structuresTable } from '../../db/schema.ts';
 import type { Db } from './database.ts';
 import { utilizationE4Unbounded } from './writeQueue.ts';
+
+type SensorRow = typeof sensorsTable.$inferSelect;
+type StructureRow = typeof structuresTable.$inferSelect;
+
+/** The part of a window something was on the register: [fromMs, toMs). */
+export interface OnRegister {
+  fromMs: number;
+  toMs: number;
+}
+
+function clip(spells: ReadonlyArray<readonly [number, number]>, fromMs: number, toMs: number): OnRegister | null {
+  let first = Infinity;
+  let last = -Infinity;
+  for (const [a, b] of spells) {
+    const start = Math.max(a, fromMs);
+    const end = Math.min(b, toMs);
+    if (end <= start) continue;
+    first = Math.min(first, start);
+    last = Math.max(last, end);
+  }
+  return first < last ? { fromMs: first, toMs: last } : null;
+}
+
+/** A structure's time on the register within the window, or null when it was not on it. */
+export function structureOnRegister(s: Pick<StructureRow, 'createdAtMs' | 'retiredAtMs'>, fromMs: number, toMs: number): OnRegister | null {
+  return clip([[s.createdAtMs, s.retiredAtMs ?? Infinity]], fromMs, toMs);
+}
+
+/**
+ * A sensor's spells on the register: from its first registration (the register's created time),
+ * closed by each retirement and opened again by each registration of the same key in the audit
+ * trail; open at the end unless the register says it is retired now. A register import changes
+ * sensors without an audit row per sensor: when the register shows the key in service after a
+ * retirement the audit trail does not reopen, the spell reopens at the first import after it.
+ */
+export function sensorSpells(sensor: Pick<SensorRow, 'createdAtMs' | 'retiredAtMs'>, audit: ReadonlyArray<{ atMs: number; entity: string; action: string }>): Array<[number, number]> {
+  const spells: Array<[number, number]> = [];
+  let openAt: number | null = sensor.createdAtMs;
+  let lastClose = -Infinity;
+  for (const e of [...audit].sort((a, b) => a.atMs - b.atMs)) {
+    if (e.atMs < sensor.createdAtMs) continue;
+    if (e.entity === 'sensor' && e.action === 'create') openAt ??= e.atMs;
+    else if (e.entity === 'sensor' && e.action === 'retire' && openAt !== null) {
+      spells.push([openAt, e.atMs]);
+      openAt = null;
+      lastClose = e.atMs;
+    }
+  }
+  if (openAt === null && sensor.retiredAtMs === null) {
+    const reopened = audit.filter((e) => e.entity === 'register' && e.atMs >= lastClose).reduce((min, e) => Math.min(min, e.atMs), Infinity);
+    openAt = Number.isFinite(reopened) ? reopened : lastClose;
+  }
+  if (openAt !== null) spells.push([openAt, sensor.retiredAtMs !== null && sensor.retiredAtMs >= openAt ? sensor.retiredAtMs : Infinity]);
+  return spells;
+}
+
+/**
+ * The sensors that were on the register during the window (or logged readings in it), each with
+ * its time on the register clipped to the window (the whole window for one known only by data).
+ */
+export function sensorsInWindow(db: Db, fromMs: number, toMs: number): Array<{ sensor: SensorRow; onRegister: OnRegister }> {
+  const rows = db.select().from(sensorsTable).orderBy(asc(sensorsTable.key)).all();
+  if (rows.length === 0) return [];
+  const audit = db
+    .select({ atMs: auditTable.atMs, entity: auditTable.entity, entityId: auditTable.entityId, action: auditTable.action })
+    .from(auditTable)
+    .where(inArray(auditTable.entity, ['sensor', 'register']))
+    .all();
+  const hasData = db.$client.prepare('SELECT 1 FROM wind_minutes WHERE sensor_id = ? AND minute_ms >= ? AND minute_ms < ? LIMIT 1');
+  const out: Array<{ sensor: SensorRow; onRegister: OnRegister }> = [];
+  for (const sensor of rows) {
+    const own = audit.filter((e) => e.entity === 'register' || e.entityId === sensor.key);
+    const onRegister = clip(sensorSpells(sensor, own), fromMs, toMs);
+    if (onRegister) out.push({ sensor, onRegister });
+    else if (hasData.get(sensor.id, fromMs - (fromMs % 60_000), toMs)) out.push({ sensor, onRegister: { fromMs, toMs } });
+  }
+  return out;
+}
 
 export interface StructureDay {
   id: number;
   name: string;
   kind: string;
+  /** The part of the window the structure was on the register (later start: registered that day; earlier end: retired). */
+  onRegister: OnRegister;
+  /** When it was retired, if it is (possibly after the window). */
+  retiredAtMs: number | null;
   /** Highest gust at the structure's reference height, m/s, and when (minute start); null without data. */
   maxGustMps: number | null;
   maxGustAtMs: number | null;
@@ -32,6 +123,9 @@ export interface StructureDay {
 export interface SensorDay {
   key: string;
   name: string;
+  heightM: number;
+  /** The part of the window the sensor was on the register. */
+  onRegister: OnRegister;
   maxGustMps: number | null;
   maxGustAtMs: number | null;
   meanMps: number | null;
@@ -63,8 +157,17 @@ export function daySummary(db: Db, fromMs: number, toMs: number, nowMs: number):
 
   const alerts = db.select().from(alertsTable).where(and(gte(alertsTable.raisedAtMs, fromMs), lt(alertsTable.raisedAtMs, toMs))).orderBy(asc(alertsTable.raisedAtMs)).all();
 
+  const loggedIn = sqlite.prepare(
+    'SELECT EXISTS (SELECT 1 FROM structure_minutes WHERE structure_id = @id AND minute_ms >= @from AND minute_ms < @to) OR EXISTS (SELECT 1 FROM level_changes WHERE structure_id = @id AND at_ms >= @from AND at_ms < @to) AS any',
+  );
+
   const out: StructureDay[] = [];
   for (const s of structures) {
+    const structureAlerts = alerts.filter((a) => a.structureId === s.id);
+    const registered = structureOnRegister(s, fromMs, toMs);
+    // Not on the register that day and nothing logged: it did not exist for this window.
+    if (!registered && structureAlerts.length === 0 && !(loggedIn.get({ id: s.id, from: fromMs - (fromMs % 60_000), to: toMs }) as { any: number }).any) continue;
+    const onRegister = registered ?? { fromMs, toMs };
     const changes = db
       .select()
       .from(levelChangesTable)
@@ -72,9 +175,6 @@ export function daySummary(db: Db, fromMs: number, toMs: number, nowMs: number):
       .orderBy(asc(levelChangesTable.atMs), asc(levelChangesTable.id))
       .all();
     const minutes = minuteCount.get(s.id, fromMs, toMs) as { n: number; l: number | null };
-    const structureAlerts = alerts.filter((a) => a.structureId === s.id);
-    // Structures retired before the window have nothing to say about it.
-    if (s.retiredAtMs !== null && s.retiredAtMs < fromMs) continue;
     const before = db
       .select()
       .from(levelChangesTable)
@@ -111,6 +211,8 @@ export function daySummary(db: Db, fromMs: number, toMs: number, nowMs: number):
       id: s.id,
       name: s.name,
       kind: s.kind,
+      onRegister,
+      retiredAtMs: s.retiredAtMs,
       maxGustMps: g ? g.g / 100 : null,
       maxGustAtMs: g ? g.t : null,
       maxUtilization: u && u.u < utilizationE4Unbounded ? u.u / 10_000 : null,
@@ -135,15 +237,17 @@ export function daySummary(db: Db, fromMs: number, toMs: number, nowMs: number):
     });
   }
 
-  const sensorRows = db.select().from(sensorsTable).orderBy(asc(sensorsTable.key)).all();
+  const sensorRows = sensorsInWindow(db, fromMs, toMs);
   const sensorMax = sqlite.prepare('SELECT minute_ms AS t, max_gust_cmps AS g FROM wind_minutes WHERE sensor_id = ? AND minute_ms >= ? AND minute_ms < ? ORDER BY max_gust_cmps DESC, minute_ms LIMIT 1');
   const sensorMean = sqlite.prepare('SELECT SUM(speed_sum_cmps) AS s, SUM(sample_count) AS n FROM wind_minutes WHERE sensor_id = ? AND minute_ms >= ? AND minute_ms < ?');
-  const sensors: SensorDay[] = sensorRows.map((s) => {
+  const sensors: SensorDay[] = sensorRows.map(({ sensor: s, onRegister }) => {
     const m = sensorMax.get(s.id, fromMs, toMs) as { t: number; g: number } | undefined;
     const mean = sensorMean.get(s.id, fromMs, toMs) as { s: number | null; n: number | null };
     return {
       key: s.key,
       name: s.name,
+      heightM: s.heightM,
+      onRegister,
       maxGustMps: m ? m.g / 100 : null,
       maxGustAtMs: m ? m.t : null,
       meanMps: mean.n ? (mean.s ?? 0) / mean.n / 100 : null,

@@ -8,6 +8,7 @@
  */
 import mqtt from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { parseRfc4180 } from '../helpers/rfc4180.ts';
 import { ApiClient, adminPassword, adminUsername, startTestServer, waitFor, type TestServer } from '../helpers/testServer.ts';
 
 let ts: TestServer;
@@ -42,6 +43,28 @@ async function ok(res: Promise<{ status: number; body: any }>, status = 200): Pr
 /** Today's date in the site's time zone, YYYY-MM-DD. */
 function siteDay(atMs: number): string {
   return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(new Date(atMs));
+}
+
+/** The calendar date before a YYYY-MM-DD date. */
+function dayBefore(day: string): string {
+  const d = new Date(`${day}T12:00:00Z`);
+  d.setUTCDate(d.getUTCDate() - 1);
+  return d.toISOString().slice(0, 10);
+}
+
+/** The wall clock of the site at an instant, "YYYY-MM-DD HH:MM:SS", formatted by Intl.DateTimeFormat alone. */
+function intlSiteTime(atMs: number): string {
+  const parts = new Intl.DateTimeFormat('en-US', { timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', second: '2-digit' }).formatToParts(new Date(atMs));
+  const get = (type: Intl.DateTimeFormatPartTypes): string => parts.find((p) => p.type === type)!.value;
+  return `${get('year')}-${get('month')}-${get('day')} ${get('hour')}:${get('minute')}:${get('second')}`;
+}
+
+/** A CSV's records as objects keyed by the header, every record checked to have the header's field count (RFC 4180 2.4). */
+function csvObjects(text: string): Array<Record<string, string>> {
+  const [header, ...rows] = parseRfc4180(text);
+  expect(header, 'no header row').toBeDefined();
+  for (const r of rows) expect(r.length, `record ${JSON.stringify(r)}`).toBe(header!.length);
+  return rows.map((r) => Object.fromEntries(header!.map((h, k) => [h, r[k]!])));
 }
 
 beforeAll(async () => {
@@ -232,40 +255,155 @@ describe('log endpoints', () => {
     expect(arch.alerts.map((a: { id: number }) => a.id)).toContain(archAlertId);
     expect(body.sensors).toEqual([expect.objectContaining({ key: 'north-mast', maxGustMps: 20, readings: 3 })]);
   });
+
+  it('the day before, nothing here was registered yet: its report lists no structure and no sensor, and its wind log no sensor', async () => {
+    const yesterday = dayBefore(siteDay(gustAtMs));
+    const body = await ok(viewer.json('GET', `/api/log/summary?day=${yesterday}`));
+    expect(body.structures).toEqual([]);
+    expect(body.sensors).toEqual([]);
+    expect((await ok(viewer.json('GET', `/api/log/wind?day=${yesterday}`))).sensors).toEqual([]);
+  });
+
+  it('a structure registered and retired today is listed up to its retirement (the audit trail’s time), and not after it; its history stays readable', async () => {
+    const booth = await ok(
+      cp.json('POST', '/api/structures', {
+        record: { kind: 'custom', name: 'Ticket booth banner', baseDepthM: 1.2, referenceHeightM: 10, faces: [{ areaM2: 4, centroidHeightM: 1.5, cfFront: 1.8, cfBack: 1.8 }], masses: [{ massKg: 600, xM: 0.6 }] },
+      }),
+      201,
+    );
+    const id = booth.structure.id as number;
+    expect((await cp.request('DELETE', `/api/structures/${id}`)).status).toBeLessThan(300);
+    const audit = (await ok(viewer.json('GET', '/api/log/audit'))).audit as Array<{ entity: string; entityId: string; action: string; atMs: number }>;
+    const created = audit.find((e) => e.entity === 'structure' && e.entityId === String(id) && e.action === 'create')!;
+    const retired = audit.find((e) => e.entity === 'structure' && e.entityId === String(id) && e.action === 'retire')!;
+    const today = await ok(viewer.json('GET', `/api/log/summary?day=${siteDay(retired.atMs)}`));
+    const entry = today.structures.find((s: { id: number }) => s.id === id);
+    expect(entry.onRegister).toEqual({ fromMs: created.atMs, toMs: retired.atMs });
+    expect(entry.retiredAtMs).toBe(retired.atMs);
+    const after = await ok(viewer.json('GET', `/api/log/summary?from=${retired.atMs + 1}&to=${retired.atMs + 60_000}`));
+    expect(after.structures.map((s: { id: number }) => s.id)).not.toContain(id);
+    expect(after.structures.map((s: { id: number }) => s.id)).toContain(archId);
+    const log = await ok(viewer.json('GET', `/api/log/structures/${id}`));
+    expect(log.structure).toEqual({ id, name: 'Ticket booth banner', kind: 'custom' });
+    expect((await viewer.json('GET', '/api/log/structures/987654')).status).toBe(404);
+  });
 });
 
 describe('CSV exports (GET /api/export/<table>.csv)', () => {
   const headers: Record<string, string> = {
-    readings: 'sensor,time_utc,ts_ms,speed_mps,gust_mps,dir_deg,temp_c,pressure_pa,rh_pct,late',
-    'wind-minutes': 'sensor,minute_utc,minute_ms,samples,mean_mps,max_gust_mps,mean_dir_deg',
-    'structure-minutes': 'structure,minute_utc,minute_ms,max_gust_mps,max_utilization,max_level',
-    'level-changes': 'structure,time_utc,at_ms,from_level,to_level,gust_mps,utilization,event',
-    alerts: 'id,kind,structure,sensor,level,label,raised_utc,gust_mps,utilization,acknowledged_utc,acknowledged_by,note,cleared_utc,action',
-    audit: 'time_utc,who,what,id,action,before,after',
+    readings: 'sensor,time_local,time_utc,speed_mps,gust_mps,dir_from_deg,temp_c,pressure_hpa,rh_pct,late',
+    'wind-minutes': 'sensor,minute_local,minute_utc,samples,mean_mps,max_gust_mps,mean_dir_from_deg',
+    'structure-minutes': 'structure,minute_local,minute_utc,max_gust_mps,max_utilization_pct,min_margin_pct,max_level',
+    'level-changes': 'structure,time_local,time_utc,event,from_level,to_level,gust_mps,utilization_pct,margin_pct',
+    alerts: 'id,kind,structure,sensor,level,label,raised_local,raised_utc,gust_mps,utilization_pct,acknowledged_local,acknowledged_utc,acknowledged_by,note,cleared_local,cleared_utc,action',
+    audit: 'time_local,time_utc,who,what,id,action,before,after',
+  };
+  /** Each local-time column and its UTC twin. */
+  const timePairs: Record<string, Array<[string, string]>> = {
+    readings: [['time_local', 'time_utc']],
+    'wind-minutes': [['minute_local', 'minute_utc']],
+    'structure-minutes': [['minute_local', 'minute_utc']],
+    'level-changes': [['time_local', 'time_utc']],
+    alerts: [
+      ['raised_local', 'raised_utc'],
+      ['acknowledged_local', 'acknowledged_utc'],
+      ['cleared_local', 'cleared_utc'],
+    ],
+    audit: [['time_local', 'time_utc']],
+  };
+  /** Columns holding figures, and the decimals each is rounded to (0.1 m/s, 0.1 %, whole degrees). */
+  const figureDecimals: Record<string, number> = {
+    speed_mps: 1,
+    gust_mps: 1,
+    mean_mps: 1,
+    max_gust_mps: 1,
+    max_utilization_pct: 1,
+    min_margin_pct: 1,
+    utilization_pct: 1,
+    margin_pct: 1,
+    dir_from_deg: 0,
+    mean_dir_from_deg: 0,
+    temp_c: 1,
+    pressure_hpa: 1,
+    rh_pct: 0,
   };
 
-  it.each(Object.keys(headers))('%s.csv is text/csv with its header row, as an attachment', async (table) => {
-    const res = await viewer.request('GET', `/api/export/${table}.csv?day=${siteDay(gustAtMs)}`);
+  beforeAll(async () => {
+    // A second mast whose gateway flushes one summary two minutes old (late: stored, not used
+    // live), with figures finer than the export shows.
+    await ok(cp.json('POST', '/api/sensors', { key: 'stage-mast', name: 'Stage mast', heightM: 6, mode: 'summaries' }), 201);
+    const gateway = await ok(cp.json('POST', '/api/gateways', { name: 'Stage gateway', username: 'brackenfold-stage-gw', sensorKeys: ['stage-mast'] }), 201);
+    const client = await mqtt.connectAsync(`mqtt://127.0.0.1:${ts.server.mqttPort}`, { username: 'brackenfold-stage-gw', password: gateway.password, reconnectPeriod: 0 });
+    await client.publishAsync('wind/stage-mast/reading', JSON.stringify({ ts: gustAtMs - 120_000, speed: 7.26, gust: 12.34, dir: 271.6, tempC: 14.23, pressureHpa: 1013.27, rh: 81.6 }), { qos: 1 });
+    await client.endAsync();
+    // The 1 Hz tick writes each structure's minute in progress: run one, so the minute of the gust is stored.
+    await ts.server.tickNow();
+  });
+
+  it.each(Object.keys(headers))('%s.csv is text/csv with its header row, as an attachment named after the site’s date', async (table) => {
+    const day = siteDay(gustAtMs);
+    const res = await viewer.request('GET', `/api/export/${table}.csv?day=${day}`);
     expect(res.status).toBe(200);
     expect(res.headers.get('content-type')).toMatch(/^text\/csv/);
-    expect(res.headers.get('content-disposition')).toMatch(new RegExp(`^attachment; filename="${table}-\\d{4}-\\d{2}-\\d{2}\\.csv"$`));
+    // day=… starts at local midnight (23:00 UTC the day before in summer): the name keeps the site's date.
+    expect(res.headers.get('content-disposition')).toBe(`attachment; filename="${table}-${day}.csv"`);
     const text = await res.text();
     expect(text.split('\r\n')[0]).toBe(headers[table]);
   });
 
-  it('readings.csv has one row per stored reading, in m/s', async () => {
-    const text = await (await viewer.request('GET', `/api/export/readings.csv?from=${gustAtMs - 300_000}&to=${gustAtMs + 1_000}`)).text();
-    const rows = text.trim().split('\r\n').slice(1).map((line) => line.split(','));
-    expect(rows.map((r) => [r[0], Number(r[2]), Number(r[3]), Number(r[4]), Number(r[5])])).toEqual([
-      ['north-mast', gustAtMs - 180_000, 3, 4.5, 240],
-      ['north-mast', gustAtMs - 120_000, 4, 6, 245],
-      ['north-mast', gustAtMs, 11, 20, 250],
-    ]);
+  it.each(Object.keys(headers))('%s.csv is RFC 4180, gives each time on the site’s clock (as Intl.DateTimeFormat reads the UTC beside it) and rounds every figure', async (table) => {
+    const text = await (await viewer.request('GET', `/api/export/${table}.csv?from=${gustAtMs - 86_400_000}&to=${Date.now() + 1_000}`)).text();
+    const rows = csvObjects(text);
+    expect(rows.length, `${table}.csv has no rows`).toBeGreaterThan(0);
+    for (const row of rows) {
+      for (const [localColumn, utcColumn] of timePairs[table]!) {
+        const utc = row[utcColumn]!;
+        if (utc === '') {
+          expect(row[localColumn]).toBe('');
+          continue;
+        }
+        expect(utc).toMatch(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}\.\d{3}Z$/);
+        expect(row[localColumn]).toBe(intlSiteTime(Date.parse(utc)));
+      }
+      for (const [column, decimals] of Object.entries(figureDecimals)) {
+        const value = row[column];
+        if (value === undefined || value === '' || value === 'unbounded' || value === 'none') continue;
+        expect(value, `${table}.${column}`).toMatch(decimals === 0 ? /^-?\d+$/ : new RegExp(`^-?\\d+\\.\\d{${decimals}}$`));
+      }
+      // Margin is what the utilization leaves of 100 %: the two rounded figures add up exactly.
+      const [u, m] = table === 'structure-minutes' ? [row.max_utilization_pct, row.min_margin_pct] : [row.utilization_pct, row.margin_pct];
+      if (u !== undefined && u !== '' && u !== 'unbounded' && m !== undefined) expect(Math.round((Number(u) + Number(m)) * 10)).toBe(1000);
+    }
   });
 
-  it('level-changes.csv says the arch was raised to level 3 at 20 m/s', async () => {
-    const text = await (await viewer.request('GET', '/api/export/level-changes.csv')).text();
-    expect(text).toMatch(/\r\nGate arch,[^,]+,\d+,0,3,20,[^,]*,raised\r\n/);
+  it('readings.csv has one row per stored reading, in m/s to 0.1, direction to 1°, pressure in hPa', async () => {
+    const rows = csvObjects(await (await viewer.request('GET', `/api/export/readings.csv?from=${gustAtMs - 300_000}&to=${gustAtMs + 1_000}`)).text());
+    expect(rows.map((r) => [r.sensor, Date.parse(r.time_utc!), r.speed_mps, r.gust_mps, r.dir_from_deg, r.late])).toEqual([
+      // The gateway's buffered summaries are minutes old on arrival: stored, marked late, not used live.
+      ['north-mast', gustAtMs - 180_000, '3.0', '4.5', '240', 'yes'],
+      ['north-mast', gustAtMs - 120_000, '4.0', '6.0', '245', 'yes'],
+      ['stage-mast', gustAtMs - 120_000, '7.3', '12.3', '272', 'yes'],
+      ['north-mast', gustAtMs, '11.0', '20.0', '250', ''],
+    ]);
+    // Hand-rounded: 14.23 °C → 14.2; 1013.27 hPa → 1013.3; 81.6 % → 82.
+    expect(rows.find((r) => r.sensor === 'stage-mast')).toMatchObject({ temp_c: '14.2', pressure_hpa: '1013.3', rh_pct: '82' });
+  });
+
+  it('level-changes.csv says the arch was raised to level 3 at 20.0 m/s, its utilization and margin as the public calculator gives them at that gust', async () => {
+    const rows = csvObjects(await (await viewer.request('GET', '/api/export/level-changes.csv')).text());
+    const raise = rows.find((r) => r.structure === 'Gate arch' && r.event === 'raised');
+    expect(raise).toMatchObject({ from_level: '0', to_level: '3', gust_mps: '20.0' });
+    // The same record at the same gust and air density through POST /api/assess (sensor and
+    // structure both at 10 m: no height transfer).
+    const live = await ok(viewer.json('GET', '/api/live'));
+    const state = live.structures.find((x: { id: number }) => x.id === archId);
+    const record = (await ok(viewer.json('GET', `/api/structures/${archId}`))).structure.record;
+    const answer = await ok(viewer.json('POST', '/api/assess', { structure: record, gustMps: 20, airDensityKgM3: state.airDensityKgM3 }));
+    const pctExpected = answer.effectiveUtilization * 100;
+    expect(Math.abs(Number(raise!.utilization_pct) - pctExpected)).toBeLessThanOrEqual(0.05 + 1e-9);
+    expect(Math.abs(Number(raise!.margin_pct) - (100 - pctExpected))).toBeLessThanOrEqual(0.05 + 1e-9);
+    // Past its limit: the margin is negative.
+    expect(Number(raise!.margin_pct)).toBeLessThan(0);
   });
 
   it('a window outside the data gives the header row alone', async () => {

@@ -112,3 +112,120 @@ describe('raw-reading retention', () => {
     expect(left(2)).toEqual({ n: 1, first: dayStart + 13 * 3_600_000 });
   });
 });
+
+describe('the day report lists only what was on the register that day', async () => {
+  const { daySummary, sensorSpells } = await import('../../server/storage/daySummary.ts');
+  const { ensureSite, updateSite } = await import('../../server/register/site.ts');
+  const { createSensor, retireSensor } = await import('../../server/register/sensors.ts');
+  const { createStructure, retireStructure } = await import('../../server/register/structures.ts');
+  const { zonedDayWindow } = await import('../../server/http/routes/zonedDay.ts');
+
+  // Invented scenario: Brackenfold Common, site clock Europe/London (BST in June, UTC+1).
+  // The day under review is 13 June 2026: 12 June 23:00 UTC to 13 June 23:00 UTC.
+  const tz = 'Europe/London';
+  const day = zonedDayWindow('2026-06-13', tz)!;
+  const at = (iso: string): number => Date.parse(iso);
+  const { db, sqlite } = openDatabase(':memory:');
+  const site = ensureSite(db, at('2026-06-01T08:00:00Z'));
+  updateSite(db, { timeZone: tz }, 'test', at('2026-06-01T08:00:00Z'));
+  const sensor = (key: string, iso: string) => createSensor(db, site.id, { key, name: key, heightM: 10, location: '', latDeg: null, lonDeg: null, unit: 'm/s', mode: 'samples', silenceTimeoutMs: 30_000 }, 'test', at(iso));
+  const arch = (name: string, iso: string) =>
+    createStructure(
+      db,
+      site.id,
+      {
+        record: { kind: 'custom', name, baseDepthM: 1.5, referenceHeightM: 10, faces: [{ areaM2: 6, centroidHeightM: 3.5, cfFront: 1.8, cfBack: 1.8 }], masses: [{ massKg: 1000, xM: 0.75 }] },
+        orientationDeg: 0,
+        location: '',
+        latDeg: null,
+        lonDeg: null,
+        mobile: false,
+        sensorKeys: null,
+        levels: null,
+      },
+      'test',
+      at(iso),
+    );
+
+  sensor('old-mast', '2026-06-01T09:00:00Z');
+  retireSensor(db, 'old-mast', 'test', at('2026-06-05T09:00:00Z'));
+  sensor('north-mast', '2026-06-10T09:00:00Z');
+  sensor('west-mast', '2026-06-10T09:00:00Z');
+  // Retired at 12:00 site time on the day, its key registered again two days later.
+  retireSensor(db, 'west-mast', 'test', at('2026-06-13T11:00:00Z'));
+  sensor('west-mast', '2026-06-15T07:30:00Z');
+  // Registered the morning after the day ("created today" when the report is read).
+  sensor('east-pole', '2026-06-14T08:00:00Z');
+  // Registered after the day too, but its gateway flushed a buffered reading taken on the day.
+  sensor('gate-pole', '2026-06-14T08:05:00Z');
+  const gatePoleId = (sqlite.prepare("SELECT id FROM sensors WHERE key = 'gate-pole'").get() as { id: number }).id;
+  const queue = new WriteQueue(sqlite);
+  const batch = emptyWriteBatch();
+  batch.readings.push({ sensorId: gatePoleId, tsMs: at('2026-06-13T15:00:00Z'), speedMps: 6, gustMps: 9, dirDeg: 250, tempC: null, pressurePa: null, rhPct: null, late: true, rollupGustMps: 9 });
+  void queue.enqueue(batch);
+  queue.settle();
+
+  const gateArch = arch('Gate arch', '2026-06-10T09:00:00Z');
+  const marquee = arch('Hospitality marquee', '2026-06-14T09:00:00Z');
+  // Up at 10:00 site time on the day, taken down at 16:00.
+  const booth = arch('Ticket booth banner', '2026-06-13T09:00:00Z');
+  retireStructure(db, booth.id, 'test', at('2026-06-13T15:00:00Z'));
+  const oldStage = arch('Old stage wing', '2026-06-02T09:00:00Z');
+  retireStructure(db, oldStage.id, 'test', at('2026-06-04T09:00:00Z'));
+
+  const summary = daySummary(db, day.fromMs, day.toMs, at('2026-06-16T12:00:00Z'));
+
+  it('leaves out structures registered after the day’s end and retired before its start', () => {
+    expect(summary.structures.map((s) => s.name).sort()).toEqual(['Gate arch', 'Ticket booth banner']);
+    expect(summary.structures.map((s) => s.id)).not.toContain(marquee.id);
+  });
+
+  it('counts a structure registered and retired during the day from then and up to then (10:00 to 16:00 site time: 6 h)', () => {
+    const b = summary.structures.find((s) => s.id === booth.id)!;
+    expect(b.onRegister).toEqual({ fromMs: at('2026-06-13T09:00:00Z'), toMs: at('2026-06-13T15:00:00Z') });
+    expect(b.retiredAtMs).toBe(at('2026-06-13T15:00:00Z'));
+    expect(b.msAtLevel.reduce((a, x) => a + x, 0)).toBe(6 * 3_600_000);
+    // Nothing was logged for it: all of its 6 hours are without data, none of the day before it existed.
+    expect(b.msNoData).toBe(6 * 3_600_000);
+    const g = summary.structures.find((s) => s.id === gateArch.id)!;
+    expect(g.onRegister).toEqual(day);
+    expect(g.msAtLevel.reduce((a, x) => a + x, 0)).toBe(day.toMs - day.fromMs);
+  });
+
+  it('lists the sensors on the register that day, one retired at noon up to then, and one known from its readings', () => {
+    expect(summary.sensors.map((s) => s.key)).toEqual(['gate-pole', 'north-mast', 'west-mast']);
+    expect(summary.sensors.find((s) => s.key === 'west-mast')!.onRegister).toEqual({ fromMs: day.fromMs, toMs: at('2026-06-13T11:00:00Z') });
+    expect(summary.sensors.find((s) => s.key === 'gate-pole')).toMatchObject({ readings: 1, maxGustMps: 9 });
+  });
+
+  it('takes a sensor key’s spells from the audit trail: retired on the 13th, registered again on the 15th', () => {
+    const day14 = zonedDayWindow('2026-06-14', tz)!;
+    const day15 = zonedDayWindow('2026-06-15', tz)!;
+    const later = at('2026-06-16T12:00:00Z');
+    expect(daySummary(db, day14.fromMs, day14.toMs, later).sensors.map((s) => s.key)).toEqual(['east-pole', 'gate-pole', 'north-mast']);
+    const on15 = daySummary(db, day15.fromMs, day15.toMs, later).sensors.find((s) => s.key === 'west-mast');
+    expect(on15?.onRegister).toEqual({ fromMs: at('2026-06-15T07:30:00Z'), toMs: day15.toMs });
+  });
+
+  it('reads the spells of a key retired by a register import (no audit row per sensor) up to the register’s retired time', () => {
+    const spells = sensorSpells({ createdAtMs: 1_000, retiredAtMs: 5_000 }, [{ atMs: 1_000, entity: 'sensor', action: 'create' }, { atMs: 5_000, entity: 'register', action: 'import (replace)' }]);
+    expect(spells).toEqual([[1_000, 5_000]]);
+    // Retired through the API, brought back by an import: in service again from the import.
+    const back = sensorSpells({ createdAtMs: 1_000, retiredAtMs: null }, [
+      { atMs: 1_000, entity: 'sensor', action: 'create' },
+      { atMs: 3_000, entity: 'sensor', action: 'retire' },
+      { atMs: 7_000, entity: 'register', action: 'import (merge)' },
+    ]);
+    expect(back).toEqual([
+      [1_000, 3_000],
+      [7_000, Infinity],
+    ]);
+  });
+
+  it('lists nothing for a day before anything was registered', () => {
+    const before = zonedDayWindow('2026-05-20', tz)!;
+    const empty = daySummary(db, before.fromMs, before.toMs, at('2026-06-16T12:00:00Z'));
+    expect(empty.structures).toEqual([]);
+    expect(empty.sensors).toEqual([]);
+  });
+});

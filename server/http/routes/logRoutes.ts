@@ -11,18 +11,20 @@ import { and, asc, eq, gte, lt } from 'drizzle-orm';
 import { z } from 'zod';
 import { alertsTable, auditTable, levelChangesTable, sensorsTable, structuresTable } from '../../../db/schema.ts';
 import { gustHeightFactor, type TerrainCategory } from '../../engine/index.ts';
-import { parseForecastTable, predictLevels, forecastSpeedUnits } from '../../levels/index.ts';
+import { dateOrders, parseForecastTable, predictLevels, forecastSpeedUnits } from '../../levels/index.ts';
+import { triggerLadderMps } from '../../watch/structureModel.ts';
 import { toCsv } from '../../register/csv.ts';
 import { getSite } from '../../register/site.ts';
 import { getSensor } from '../../register/sensors.ts';
 import { getStructureRow } from '../../register/structures.ts';
-import { daySummary } from '../../storage/daySummary.ts';
+import { daySummary, sensorsInWindow } from '../../storage/daySummary.ts';
 import { LogQueries } from '../../storage/logQueries.ts';
+import { utilizationE4Unbounded } from '../../storage/writeQueue.ts';
 import { requireRole, type AppEnv } from '../access.ts';
 import { HttpError } from '../httpError.ts';
 import { idParam, jsonBody } from '../validate.ts';
 import type { ApiContext } from './apiContext.ts';
-import { zonedDayWindow } from './zonedDay.ts';
+import { LocalTimes, zonedDayWindow } from './zonedDay.ts';
 
 const maxWindowMs = 62 * 86_400_000;
 
@@ -64,11 +66,20 @@ function pointsParam(raw: string | undefined): number {
 }
 
 const forecastSchema = z.strictObject({
-  text: z.string().min(1, 'paste the forecast table').max(200_000),
-  /** The unit of the speeds when the header does not say. */
-  unit: z.enum(forecastSpeedUnits).optional(),
+  text: z
+    .string({ error: 'the forecast table must be text' })
+    .min(1, 'paste the forecast table')
+    .max(200_000, 'the forecast table is longer than 200,000 characters — split it'),
+  /** The unit of the speeds written as bare numbers when the header does not say. */
+  unit: z.enum(forecastSpeedUnits, { error: 'the speed unit must be one of m/s, km/h, kn or mph' }).optional(),
+  /** The order of dates written with the year last (03/12/2026). */
+  dateOrder: z.enum(dateOrders, { error: 'the date order must be day-first or month-first' }).optional(),
   /** Height the forecast speeds refer to, m (forecasts give 10 m). */
-  heightM: z.number().gt(0).max(200).default(10),
+  heightM: z
+    .number({ error: 'the height of the forecast speeds must be a number of metres' })
+    .gt(0, 'the height of the forecast speeds must be above 0 m')
+    .max(200, 'the height of the forecast speeds must be at most 200 m')
+    .default(10),
 });
 
 export const csvTables = ['readings', 'wind-minutes', 'structure-minutes', 'level-changes', 'alerts', 'audit'] as const;
@@ -91,7 +102,10 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
     const { fromMs, toMs } = win(c);
     const points = pointsParam(c.req.query('points'));
     const key = c.req.query('sensor');
-    const sensors = key ? [getSensor(ctx.db, key)] : ctx.db.select().from(sensorsTable).all().filter((s) => s.retiredAtMs === null);
+    // The sensors on the register during the window (a retired sensor keeps its history; one
+    // registered later has none), or the one asked for, retired or not.
+    const present = sensorsInWindow(ctx.db, fromMs, toMs).map((p) => p.sensor);
+    const sensors = key ? [present.find((s) => s.key === key) ?? ctx.db.select().from(sensorsTable).where(eq(sensorsTable.key, key)).get() ?? getSensor(ctx.db, key)] : present;
     return c.json({
       fromMs,
       toMs,
@@ -101,7 +115,8 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
 
   api.get('/log/structures/:id', viewer, (c) => {
     const id = idParam(c);
-    const row = getStructureRow(ctx.db, id);
+    // A retired structure's history stays in the log: only an id never registered is unknown.
+    const row = ctx.db.select().from(structuresTable).where(eq(structuresTable.id, id)).get() ?? getStructureRow(ctx.db, id);
     const { fromMs, toMs } = win(c);
     const points = pointsParam(c.req.query('points'));
     const changes = ctx.db
@@ -153,30 +168,52 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
     const table = c.req.param('table').replace(/\.csv$/, '') as (typeof csvTables)[number];
     if (!csvTables.includes(table)) throw HttpError.notFound(`export "${table}"`);
     const { fromMs, toMs } = win(c);
-    const csv = exportCsv(ctx, table, fromMs, toMs);
+    const timeZone = getSite(ctx.db).timeZone;
+    const csv = exportCsv(ctx, table, fromMs, toMs, timeZone);
     c.header('Content-Type', 'text/csv; charset=utf-8');
-    c.header('Content-Disposition', `attachment; filename="${table}-${new Date(fromMs).toISOString().slice(0, 10)}.csv"`);
+    // Named after the window's first date on the site's clock (day=2026-06-13 starts at 23:00 UTC the day before in summer in London).
+    c.header('Content-Disposition', `attachment; filename="${table}-${new LocalTimes(timeZone).date(fromMs)}.csv"`);
     return c.body(csv);
   });
 
   api.post('/forecast', viewer, async (c) => {
     const input = await jsonBody(c, forecastSchema);
     const site = getSite(ctx.db);
-    const table = parseForecastTable(input.text, { ...(input.unit ? { unit: input.unit } : {}), timeZone: site.timeZone });
+    const table = parseForecastTable(input.text, {
+      ...(input.unit ? { unit: input.unit } : {}),
+      ...(input.dateOrder ? { dateOrder: input.dateOrder } : {}),
+      timeZone: site.timeZone,
+    });
     if (!table.ok) {
+      // Each message starts with its line and column in words; the path lets a form mark the table.
       throw HttpError.invalid(table.problems.map((p) => ({ path: p.line === null ? 'text' : `text.line ${p.line}${p.column ? `.${p.column}` : ''}`, message: p.message })));
     }
-    const states = ctx.watch.snapshot().structures.filter((s) => !s.error && s.triggerGustsMps.length > 0);
-    const structures = states.map((s) => ({
+    const all = ctx.watch.snapshot().structures;
+    const states = all.filter((s) => !s.error && s.triggerGustsMps.length > 0);
+    // The ladder over every direction: the live ladder may be a sector's (directional assessment,
+    // taken from the wind blowing now), which says nothing about the forecast hours.
+    const ladders = states.map((s) => (s.limitGustMps === s.allDirectionsLimitGustMps ? s.triggerGustsMps : triggerLadderMps(s.levels, s.allDirectionsLimitGustMps)));
+    const structures = states.map((s, i) => ({
       id: String(s.id),
-      triggerGustsMps: s.triggerGustsMps,
+      triggerGustsMps: ladders[i]!,
       heightFactor: gustHeightFactor({ fromHeightM: input.heightM, toHeightM: s.referenceHeightM, terrainCategory: site.terrainCategory as TerrainCategory, allowReduction: site.heightReductionEnabled }),
     }));
     const predictions = predictLevels(table.rows, structures);
     return c.json({
       heightM: input.heightM,
       ignoredColumns: table.ignoredColumns,
-      structures: states.map((s) => ({ id: s.id, name: s.name, levels: s.levels.map((l) => ({ level: l.level, label: l.label, triggerGustMps: l.triggerGustMps })) })),
+      notes: table.notes,
+      dateOrder: table.dateOrder,
+      structures: states.map((s, i) => ({
+        id: s.id,
+        name: s.name,
+        referenceHeightM: s.referenceHeightM,
+        levels: s.levels.map((l, j) => ({ level: l.level, label: l.label, triggerGustMps: ladders[i]![j]! })),
+      })),
+      // Structures the check could not cover are named, never left out silently.
+      notChecked: all
+        .filter((s) => !states.includes(s))
+        .map((s) => ({ id: s.id, name: s.name, reason: s.error ? `its record cannot be assessed: ${s.error}` : 'it has no levels' })),
       rows: predictions.map((p, i) => ({ ...p, meanMps: table.rows[i]!.meanMps, dirFromDeg: table.rows[i]!.dirFromDeg })),
     });
   });
@@ -184,9 +221,35 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
   return api;
 }
 
-function exportCsv(ctx: ApiContext, table: (typeof csvTables)[number], fromMs: number, toMs: number): string {
+/** A figure rounded to `decimals` places, as text ("" for none); never "-0.0". */
+export function rounded(value: number | null | undefined, decimals: number): string {
+  if (value === null || value === undefined || !Number.isFinite(value)) return '';
+  const f = 10 ** decimals;
+  const r = Math.round(value * f) / f;
+  return (r === 0 ? 0 : r).toFixed(decimals);
+}
+
+/** A utilization (fraction of capacity) in tenths of a per cent, or null. */
+const tenthsPct = (fraction: number | null | undefined): number | null => (fraction === null || fraction === undefined || !Number.isFinite(fraction) ? null : Math.round(fraction * 1000));
+/** A utilization as % of capacity, to 0.1 %. */
+const pct = (fraction: number | null | undefined): string => rounded(tenthsPct(fraction) === null ? null : tenthsPct(fraction)! / 10, 1);
+/** The margin left as % of capacity, to 0.1 %: 100 − the rounded utilization, so the two always add up; negative past the limit. */
+const marginPct = (fraction: number | null | undefined): string => rounded(tenthsPct(fraction) === null ? null : (1000 - tenthsPct(fraction)!) / 10, 1);
+
+/**
+ * The CSV exports. Every time is given twice: on the site's clock (`*_local`, "YYYY-MM-DD
+ * HH:MM:SS" in the site's time zone, which spreadsheets read as a date and time) and in UTC
+ * (`*_utc`, ISO 8601 with milliseconds, unambiguous also in the hour the clocks go back). Every
+ * figure carries its unit in the column name and is rounded to what the instruments resolve:
+ * speeds to 0.1 m/s, utilization and margin to 0.1 % of capacity, directions to 1°, temperature
+ * to 0.1 °C, pressure to 0.1 hPa, humidity to 1 %. README "CSV exports" lists the columns.
+ */
+export function exportCsv(ctx: Pick<ApiContext, 'db'>, table: (typeof csvTables)[number], fromMs: number, toMs: number, timeZone: string): string {
   const sqlite = ctx.db.$client;
+  const local = new LocalTimes(timeZone);
   const iso = (ms: number | null) => (ms === null ? '' : new Date(ms).toISOString());
+  const loc = (ms: number | null) => (ms === null ? '' : local.dateTime(ms));
+  const cmps = (v: number | null) => (v === null ? '' : rounded(v / 100, 1));
   switch (table) {
     case 'readings': {
       const rows = sqlite
@@ -197,8 +260,8 @@ function exportCsv(ctx: ApiContext, table: (typeof csvTables)[number], fromMs: n
         .raw()
         .all(fromMs, toMs) as Array<[string, number, number, number | null, number | null, number | null, number | null, number | null, number]>;
       return toCsv(
-        ['sensor', 'time_utc', 'ts_ms', 'speed_mps', 'gust_mps', 'dir_deg', 'temp_c', 'pressure_pa', 'rh_pct', 'late'],
-        rows.map((r) => [r[0], iso(r[1]), r[1], r[2] / 100, r[3] === null ? '' : r[3] / 100, r[4] ?? '', r[5] === null ? '' : r[5] / 10, r[6] ?? '', r[7] ?? '', r[8] & 1 ? 'yes' : '']),
+        ['sensor', 'time_local', 'time_utc', 'speed_mps', 'gust_mps', 'dir_from_deg', 'temp_c', 'pressure_hpa', 'rh_pct', 'late'],
+        rows.map((r) => [r[0], loc(r[1]), iso(r[1]), cmps(r[2]), cmps(r[3]), rounded(r[4], 0), r[5] === null ? '' : rounded(r[5] / 10, 1), r[6] === null ? '' : rounded(r[6] / 100, 1), rounded(r[7], 0), r[8] & 1 ? 'yes' : '']),
       );
     }
     case 'wind-minutes': {
@@ -210,10 +273,10 @@ function exportCsv(ctx: ApiContext, table: (typeof csvTables)[number], fromMs: n
         .raw()
         .all(fromMs, toMs) as Array<[string, number, number, number, number, number, number, number]>;
       return toCsv(
-        ['sensor', 'minute_utc', 'minute_ms', 'samples', 'mean_mps', 'max_gust_mps', 'mean_dir_deg'],
+        ['sensor', 'minute_local', 'minute_utc', 'samples', 'mean_mps', 'max_gust_mps', 'mean_dir_from_deg'],
         rows.map((r) => {
           const dir = r[7] > 0 ? ((Math.atan2(r[5], r[6]) * 180) / Math.PI + 360) % 360 : null;
-          return [r[0], iso(r[1]), r[1], r[2], (r[3] / r[2] / 100).toFixed(2), r[4] / 100, dir === null ? '' : Math.round(dir)];
+          return [r[0], loc(r[1]), iso(r[1]), r[2], r[2] > 0 ? rounded(r[3] / r[2] / 100, 1) : '', cmps(r[4]), dir === null ? '' : rounded(dir, 0) === '360' ? '0' : rounded(dir, 0)];
         }),
       );
     }
@@ -226,29 +289,32 @@ function exportCsv(ctx: ApiContext, table: (typeof csvTables)[number], fromMs: n
         .raw()
         .all(fromMs, toMs) as Array<[string, number, number, number, number]>;
       return toCsv(
-        ['structure', 'minute_utc', 'minute_ms', 'max_gust_mps', 'max_utilization', 'max_level'],
-        rows.map((r) => [r[0], iso(r[1]), r[1], r[2] / 100, r[3] >= 2_000_000_000 ? 'unbounded' : (r[3] / 10_000).toFixed(4), r[4]]),
+        ['structure', 'minute_local', 'minute_utc', 'max_gust_mps', 'max_utilization_pct', 'min_margin_pct', 'max_level'],
+        rows.map((r) => {
+          const unbounded = r[3] >= utilizationE4Unbounded;
+          return [r[0], loc(r[1]), iso(r[1]), cmps(r[2]), unbounded ? 'unbounded' : pct(r[3] / 10_000), unbounded ? 'none' : marginPct(r[3] / 10_000), r[4]];
+        }),
       );
     }
     case 'level-changes': {
       const rows = sqlite
         .prepare(
           `SELECT t.name, c.at_ms, c.from_level, c.to_level, c.gust_mps, c.utilization, c.no_data
-           FROM level_changes c JOIN structures t ON t.id = c.structure_id WHERE c.at_ms >= ? AND c.at_ms < ? ORDER BY c.at_ms`,
+           FROM level_changes c JOIN structures t ON t.id = c.structure_id WHERE c.at_ms >= ? AND c.at_ms < ? ORDER BY c.at_ms, c.id`,
         )
         .raw()
         .all(fromMs, toMs) as Array<[string, number, number, number, number | null, number | null, number]>;
       return toCsv(
-        ['structure', 'time_utc', 'at_ms', 'from_level', 'to_level', 'gust_mps', 'utilization', 'event'],
-        rows.map((r) => [r[0], iso(r[1]), r[1], r[2], r[3], r[4] ?? '', r[5] ?? '', r[6] ? 'no data' : r[3] > r[2] ? 'raised' : r[3] < r[2] ? 'lowered' : 'data back']),
+        ['structure', 'time_local', 'time_utc', 'event', 'from_level', 'to_level', 'gust_mps', 'utilization_pct', 'margin_pct'],
+        rows.map((r) => [r[0], loc(r[1]), iso(r[1]), r[6] ? 'no data' : r[3] > r[2] ? 'raised' : r[3] < r[2] ? 'lowered' : 'data back', r[2], r[3], rounded(r[4], 1), pct(r[5]), marginPct(r[5])]),
       );
     }
     case 'alerts': {
-      const rows = ctx.db.select().from(alertsTable).where(and(gte(alertsTable.raisedAtMs, fromMs), lt(alertsTable.raisedAtMs, toMs))).orderBy(asc(alertsTable.raisedAtMs)).all();
+      const rows = ctx.db.select().from(alertsTable).where(and(gte(alertsTable.raisedAtMs, fromMs), lt(alertsTable.raisedAtMs, toMs))).orderBy(asc(alertsTable.raisedAtMs), asc(alertsTable.id)).all();
       const names = new Map(ctx.db.select({ id: structuresTable.id, name: structuresTable.name }).from(structuresTable).all().map((s) => [s.id, s.name]));
       const sensorNames = new Map(ctx.db.select({ id: sensorsTable.id, key: sensorsTable.key }).from(sensorsTable).all().map((s) => [s.id, s.key]));
       return toCsv(
-        ['id', 'kind', 'structure', 'sensor', 'level', 'label', 'raised_utc', 'gust_mps', 'utilization', 'acknowledged_utc', 'acknowledged_by', 'note', 'cleared_utc', 'action'],
+        ['id', 'kind', 'structure', 'sensor', 'level', 'label', 'raised_local', 'raised_utc', 'gust_mps', 'utilization_pct', 'acknowledged_local', 'acknowledged_utc', 'acknowledged_by', 'note', 'cleared_local', 'cleared_utc', 'action'],
         rows.map((a) => [
           a.id,
           a.kind,
@@ -256,22 +322,25 @@ function exportCsv(ctx: ApiContext, table: (typeof csvTables)[number], fromMs: n
           a.sensorId === null ? '' : (sensorNames.get(a.sensorId) ?? a.sensorId),
           a.level ?? '',
           a.label,
+          loc(a.raisedAtMs),
           iso(a.raisedAtMs),
-          a.gustMps ?? '',
-          a.utilization ?? '',
+          rounded(a.gustMps, 1),
+          pct(a.utilization),
+          loc(a.acknowledgedAtMs),
           iso(a.acknowledgedAtMs),
           a.acknowledgedBy ?? '',
           a.acknowledgeNote ?? '',
+          loc(a.clearedAtMs),
           iso(a.clearedAtMs),
           a.actionText,
         ]),
       );
     }
     case 'audit': {
-      const rows = ctx.db.select().from(auditTable).where(and(gte(auditTable.atMs, fromMs), lt(auditTable.atMs, toMs))).orderBy(asc(auditTable.atMs)).all();
+      const rows = ctx.db.select().from(auditTable).where(and(gte(auditTable.atMs, fromMs), lt(auditTable.atMs, toMs))).orderBy(asc(auditTable.atMs), asc(auditTable.id)).all();
       return toCsv(
-        ['time_utc', 'who', 'what', 'id', 'action', 'before', 'after'],
-        rows.map((r) => [iso(r.atMs), r.actor, r.entity, r.entityId, r.action, r.beforeJson === null ? '' : JSON.stringify(r.beforeJson), r.afterJson === null ? '' : JSON.stringify(r.afterJson)]),
+        ['time_local', 'time_utc', 'who', 'what', 'id', 'action', 'before', 'after'],
+        rows.map((r) => [loc(r.atMs), iso(r.atMs), r.actor, r.entity, r.entityId, r.action, r.beforeJson === null ? '' : JSON.stringify(r.beforeJson), r.afterJson === null ? '' : JSON.stringify(r.afterJson)]),
       );
     }
   }

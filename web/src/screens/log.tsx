@@ -8,7 +8,7 @@ import type { JSX } from 'preact';
 import type uPlot from 'uplot';
 import { api, errorText } from '../api.ts';
 import { LevelShape, levelTone } from '../components/levelBadge.tsx';
-import { TimeChart } from '../components/timeChart.tsx';
+import { multiSeriesStyle, TimeChart, type Band } from '../components/timeChart.tsx';
 import { WindRose } from '../components/windRose.tsx';
 import { live } from '../live.ts';
 import { prefs } from '../prefs.ts';
@@ -161,7 +161,7 @@ export function LogScreen() {
       {dayNote && mode === 'day' ? <p class="muted no-print">{dayNote}</p> : null}
       {error ? <p class="error-box">{error}</p> : null}
       {loading && !data ? <p class="muted">Loading…</p> : null}
-      {data ? <LogBody data={data} unit={unit} tz={tz} /> : null}
+      {data ? <LogBody data={data} unit={unit} tz={tz} siteName={snap?.site.name ?? 'Site'} title={title} /> : null}
 
       <section class="no-print panel" aria-labelledby="csv-h">
         <h2 id="csv-h">Export (CSV)</h2>
@@ -185,7 +185,7 @@ function shiftDay(day: string, by: number): string {
   return d.toISOString().slice(0, 10);
 }
 
-function LogBody({ data, unit, tz }: { data: LogData; unit: Parameters<typeof speed>[1]; tz: string }) {
+function LogBody({ data, unit, tz, siteName, title }: { data: LogData; unit: Parameters<typeof speed>[1]; tz: string; siteName: string; title: string }) {
   const u = speedUnitLabels[unit];
   const { summary } = data;
   const structureNames = new Map(summary.structures.map((s) => [s.id, s.name]));
@@ -261,7 +261,7 @@ function LogBody({ data, unit, tz }: { data: LogData; unit: Parameters<typeof sp
         </p>
         <div class="table-scroll">
           <table class="data stack-sm">
-            <caption>Structures</caption>
+            <caption>Structures on the register in this period</caption>
             <thead>
               <tr>
                 <th scope="col">Structure</th>
@@ -274,10 +274,16 @@ function LogBody({ data, unit, tz }: { data: LogData; unit: Parameters<typeof sp
               </tr>
             </thead>
             <tbody>
+              {summary.structures.length === 0 ? (
+                <tr>
+                  <td colSpan={7}>No structure was on the register in this period.</td>
+                </tr>
+              ) : null}
               {summary.structures.map((s) => (
                 <tr>
                   <th scope="row">
-                    <a href={href(`/structure/${s.id}`)}>{s.name}</a>
+                    {s.retiredAtMs === null ? <a href={href(`/structure/${s.id}`)}>{s.name}</a> : s.name}
+                    <RegisterNote onRegister={s.onRegister} fromMs={summary.fromMs} toMs={summary.toMs} tz={tz} retiredAtMs={s.retiredAtMs} />
                   </th>
                   <td data-label="Highest gust here">{s.maxGustMps === null ? 'unknown' : `${speed(s.maxGustMps, unit)} at ${hourMinute(s.maxGustAtMs!, tz)}`}</td>
                   <td data-label="Highest utilization">{s.unboundedAtMs !== null ? `unbounded at ${hourMinute(s.unboundedAtMs, tz)}` : s.maxUtilization === null ? 'unknown' : `${percent(s.maxUtilization)} at ${hourMinute(s.maxUtilizationAtMs!, tz)}`}</td>
@@ -297,7 +303,7 @@ function LogBody({ data, unit, tz }: { data: LogData; unit: Parameters<typeof sp
         </div>
         <div class="table-scroll">
           <table class="data stack-sm">
-            <caption>Sensors</caption>
+            <caption>Sensors on the register in this period</caption>
             <thead>
               <tr>
                 <th scope="col">Sensor</th>
@@ -307,9 +313,17 @@ function LogBody({ data, unit, tz }: { data: LogData; unit: Parameters<typeof sp
               </tr>
             </thead>
             <tbody>
+              {summary.sensors.length === 0 ? (
+                <tr>
+                  <td colSpan={4}>No sensor was on the register in this period: the wind is unknown.</td>
+                </tr>
+              ) : null}
               {summary.sensors.map((s) => (
                 <tr>
-                  <th scope="row">{s.name}</th>
+                  <th scope="row">
+                    {s.name} <span class="muted small">({s.heightM} m)</span>
+                    <RegisterNote onRegister={s.onRegister} fromMs={summary.fromMs} toMs={summary.toMs} tz={tz} retiredAtMs={null} />
+                  </th>
                   <td data-label="Highest gust">{s.maxGustMps === null ? 'unknown' : `${speed(s.maxGustMps, unit)} at ${hourMinute(s.maxGustAtMs!, tz)}`}</td>
                   <td data-label="Mean">{speed(s.meanMps, unit)}</td>
                   <td data-label="Readings" class={s.readings === 0 ? 'bad-text' : ''}>{s.readings === 0 ? 'none (wind unknown)' : s.readings.toLocaleString('en-GB')}</td>
@@ -322,25 +336,29 @@ function LogBody({ data, unit, tz }: { data: LogData; unit: Parameters<typeof sp
 
       <section aria-labelledby="wind-log-h" class="report-section">
         <h2 id="wind-log-h">Wind</h2>
-        {data.wind.sensors.map((s) => (
-          <TimeChart
-            key={s.key}
-            title={`${s.name} (${s.heightM} m): gust and mean in ${u}, direction in degrees`}
-            timeZone={tz}
-            height={220}
-            xRange={[data.wind.fromMs / 1000, data.wind.toMs / 1000]}
-            data={[s.series.tMs.map((t) => t / 1000), s.series.gustMps.map((g) => (g === null ? null : mpsToSpeed(g, unit))), s.series.meanMps.map((m) => (m === null ? null : mpsToSpeed(m, unit))), s.series.dirDeg]}
-            series={[
-              { label: `gust (${u})`, scale: 'speed', colorVar: '--series-gust', format: (v) => (v === null ? '—' : `${v.toFixed(1)} ${u}`) },
-              { label: `mean (${u})`, scale: 'speed', colorVar: '--series-mean', format: (v) => (v === null ? '—' : `${v.toFixed(1)} ${u}`) },
-              { label: 'from (°)', scale: 'deg', colorVar: '--series-dir', points: true, format: (v) => (v === null ? '—' : `${Math.round(v)}°`) },
-            ]}
-            axes={[
-              { scale: 'speed', label: u, side: 'left' },
-              { scale: 'deg', label: 'from, °', side: 'right', range: [0, 360] },
-            ]}
-          />
-        ))}
+        {data.wind.sensors.length === 0 ? <p class="muted">No sensor was on the register in this period.</p> : null}
+        {data.wind.sensors.map((s) => {
+          const per = bucketWords(s.series.bucketMs);
+          return (
+            <TimeChart
+              key={s.key}
+              title={`${s.name} (anemometer at ${s.heightM} m): highest 3-second gust and mean wind ${per}, in ${u}; direction the wind blows from, in degrees`}
+              timeZone={tz}
+              height={220}
+              xRange={[data.wind.fromMs / 1000, data.wind.toMs / 1000]}
+              data={[s.series.tMs.map((t) => t / 1000), s.series.gustMps.map((g) => (g === null ? null : mpsToSpeed(g, unit))), s.series.meanMps.map((m) => (m === null ? null : mpsToSpeed(m, unit))), s.series.dirDeg]}
+              series={[
+                { label: `Highest gust ${per}, ${u}`, scale: 'speed', colorVar: '--series-gust', width: 2.5, format: (v) => (v === null ? 'unknown' : `${v.toFixed(1)} ${u}`) },
+                { label: `Mean wind ${per}, ${u}`, scale: 'speed', colorVar: '--series-mean', width: 2, dash: [10, 5], format: (v) => (v === null ? 'unknown' : `${v.toFixed(1)} ${u}`) },
+                { label: 'Direction the wind blows from, ° (dots, right axis)', scale: 'deg', colorVar: '--series-dir', points: true, format: (v) => (v === null ? 'unknown' : `${Math.round(v)}°`) },
+              ]}
+              axes={[
+                { scale: 'speed', label: u, side: 'left' },
+                { scale: 'deg', label: 'from, °', side: 'right', range: [0, 360] },
+              ]}
+            />
+          );
+        })}
         <WindRose samples={roseSamples} unit={unit} />
       </section>
 
@@ -352,9 +370,9 @@ function LogBody({ data, unit, tz }: { data: LogData; unit: Parameters<typeof sp
             timeZone={tz}
             data={utilData}
             xRange={[data.wind.fromMs / 1000, data.wind.toMs / 1000]}
-            series={data.structures.map((s, i) => ({ label: s.structure.name, scale: 'pct', colorVar: `--multi-${i % 6}`, dash: i >= 6 ? [6, 3] : undefined, format: (v: number | null) => (v === null ? '—' : `${v.toFixed(0)} %`) }))}
+            series={data.structures.map((s, i) => ({ label: `${s.structure.name}, % of capacity`, scale: 'pct', ...multiSeriesStyle(i), format: (v: number | null) => (v === null ? 'unknown' : `${v.toFixed(0)} %`) }))}
             axes={[{ scale: 'pct', label: '% of capacity', side: 'left', minMax: maxUtil }]}
-            bands={[{ scale: 'pct', from: 100, to: maxUtil * 1.1, colorVar: '--l3', label: 'limit (100 %)' }]}
+            bands={utilizationBands(data.structures, maxUtil)}
           />
         ) : (
           <p class="muted">No structures.</p>
@@ -371,6 +389,84 @@ function LogBody({ data, unit, tz }: { data: LogData; unit: Parameters<typeof sp
         </ul>
       </section>
       <p class="print-only caution">Decision support only: the structure's designer or manufacturer ratings, the site's competent person and local regulations govern. Printed {dateTime(Date.now(), tz)}.</p>
+      <SignOff report={`${siteName} — ${title}`} />
     </>
+  );
+}
+
+/** "per minute", "per 2 min", "per 30 s": the span one point of a chart stands for. */
+function bucketWords(bucketMs: number): string {
+  if (bucketMs < 60_000) return `per ${Math.round(bucketMs / 1000)} s`;
+  const min = Math.round(bucketMs / 60_000);
+  return min === 1 ? 'per minute' : `per ${min} min`;
+}
+
+/**
+ * The level lines of the utilization chart: the limit (100 % of capacity, true of every
+ * structure), and the levels set as fractions of capacity when every charted structure has the
+ * same ones (the site's defaults, usually). Levels set as a gust sit at different fractions for
+ * each structure: those are drawn on each structure's own page.
+ */
+export function utilizationBands(structures: StructureLog[], maxPct: number): Band[] {
+  const limit: Band = { scale: 'pct', from: 100, to: maxPct * 1.1, colorVar: '--l3', label: 'Limit 100 %', legend: 'Limit: 100 % of capacity' };
+  // A retired structure has no levels now: the lines are those of the structures still registered.
+  const current = structures.filter((s) => s.live !== null && s.live.levels.length > 0);
+  const ladders = current.map((s) => s.live!.levels.map((l) => (l.trigger.kind === 'utilization' ? `${l.level}|${l.label}|${Math.round(l.trigger.fraction * 1000)}` : null)));
+  const first = ladders[0];
+  const shared = first !== undefined && first.every((x) => x !== null) && ladders.every((l) => l.join() === first.join());
+  if (!shared) return [limit];
+  const levels = current[0]!.live!.levels;
+  const n = levels.length;
+  const bands: Band[] = [];
+  levels.forEach((l, i) => {
+    if (l.trigger.kind !== 'utilization') return;
+    const fromPct = l.trigger.fraction * 100;
+    if (fromPct >= 100) return;
+    const next = levels[i + 1];
+    const toPct = next && next.trigger.kind === 'utilization' ? Math.min(100, next.trigger.fraction * 100) : 100;
+    bands.push({ scale: 'pct', from: fromPct, to: toPct, colorVar: `--${levelTone(l.level, n)}`, label: `${l.level} · ${l.label} ${Math.round(fromPct)} %`, legend: `Level ${l.level} · ${l.label}: from ${Math.round(fromPct)} % of capacity (levels as set now)` });
+  });
+  return [...bands, limit];
+}
+
+/** When something joined or left the register inside the period: the figures count from or up to then. */
+function RegisterNote({ onRegister, fromMs, toMs, tz, retiredAtMs }: { onRegister: { fromMs: number; toMs: number }; fromMs: number; toMs: number; tz: string; retiredAtMs: number | null }) {
+  const notes: string[] = [];
+  if (onRegister.fromMs > fromMs) notes.push(`registered ${hourMinute(onRegister.fromMs, tz)}`);
+  if (onRegister.toMs < toMs) notes.push(`retired ${hourMinute(onRegister.toMs, tz)}, counted up to then`);
+  else if (retiredAtMs !== null) notes.push(`retired later (${dateTime(retiredAtMs, tz)})`);
+  return notes.length > 0 ? <span class="register-note">{notes.join(' · ')}</span> : null;
+}
+
+/** The box the competent person signs on the printed report. */
+function SignOff({ report }: { report: string }) {
+  return (
+    <section class="sign-off report-section" aria-labelledby="signoff-h">
+      <h2 id="signoff-h">Sign-off</h2>
+      <p class="sign-intro">
+        {report}: reviewed by the site's competent person for temporary structures. <span class="no-print">Print the report and sign it by hand; nothing here is saved.</span>
+      </p>
+      <div class="sign-grid">
+        <div class="sign-field sign-name">
+          <span class="sign-label">Competent person (name)</span>
+          <span class="sign-line" />
+        </div>
+        <div class="sign-field sign-date">
+          <span class="sign-label">Date</span>
+          <span class="sign-line" />
+        </div>
+        <div class="sign-field sign-signature">
+          <span class="sign-label">Signature</span>
+          <span class="sign-box" />
+        </div>
+        <div class="sign-field sign-remarks">
+          <span class="sign-label">Remarks (what to follow up, changes to the wind management plan)</span>
+          <span class="sign-line" />
+          <span class="sign-line" />
+          <span class="sign-line" />
+          <span class="sign-line" />
+        </div>
+      </div>
+    </section>
   );
 }

@@ -4,21 +4,25 @@
  * (every structure, its levels with wind speeds in the chosen unit and in km/h, and the actions),
  * printable on A4.
  */
-import { useEffect, useState } from 'preact/hooks';
+import type { Ref } from 'preact';
+import { useEffect, useRef, useState } from 'preact/hooks';
 import { api, ApiError, errorText } from '../api.ts';
 import { Caution } from '../components/caution.tsx';
 import { Field } from '../components/field.tsx';
-import { LevelShape, levelTone } from '../components/levelBadge.tsx';
+import { LevelShape, levelTone, type Tone } from '../components/levelBadge.tsx';
 import { LevelsTable } from '../components/levelsTable.tsx';
 import { live } from '../live.ts';
 import { prefs } from '../prefs.ts';
 import { useTimeZone } from '../site.ts';
 import { useStore } from '../store.ts';
 import type { ForecastAnswer, StructureWithLive } from '../types.ts';
-import { compassPoint, dateTime, dayOf, speed, speedUnitLabels, speedUnits, type SpeedUnit } from '../units.ts';
+import { compassPoint, dateTime, dayOf, hourMinute, longDate, speed, speedUnitLabels, speedUnits, unitSpace, type SpeedUnit } from '../units.ts';
 import { typedNumber } from '../register/structureDraft.ts';
 
-/** An example table for tomorrow noon to 15:00 (site time), so it always lies ahead. */
+/**
+ * An example table for tomorrow noon to 15:00 (site time), so it always lies ahead: a date column
+ * and a time column, units in the cells.
+ */
 function exampleTable(timeZone: string): string {
   const tomorrow = dayOf(Date.now() + 86_400_000, timeZone);
   const rows = [
@@ -27,7 +31,26 @@ function exampleTable(timeZone: string): string {
     ['14:00', 34, 58, 'W'],
     ['15:00', 30, 51, 'W'],
   ];
-  return ['time,mean (km/h),gust (km/h),direction', ...rows.map(([t, m, g, d]) => `${tomorrow} ${t},${m},${g},${d}`)].join('\n');
+  return ['date,time,mean,gust,direction', ...rows.map(([t, m, g, d]) => `${tomorrow},${t},${m} km/h,${g} km/h,${d}`)].join('\n');
+}
+
+type DateOrderChoice = '' | 'day-first' | 'month-first';
+type ForecastRowAnswer = ForecastAnswer['rows'][number];
+type ForecastStructureAnswer = ForecastAnswer['structures'][number];
+
+/** Plain names of the request's fields, for problems that are not in the table itself. */
+const fieldNames: Readonly<Record<string, string>> = {
+  unit: 'Speed unit',
+  dateOrder: 'Date order',
+  heightM: 'Height of the forecast speeds',
+  text: 'Forecast table',
+};
+
+/** A problem for a person: table problems carry their line and column in the message already. */
+function problemText(issue: { path: string; message: string }): string {
+  if (issue.path.startsWith('text.')) return issue.message;
+  const name = fieldNames[issue.path];
+  return name ? `${name}: ${issue.message}` : issue.message;
 }
 
 export function Plan() {
@@ -53,12 +76,23 @@ function ForecastCheck() {
   const unit = useStore(prefs).unit;
   const [text, setText] = useState('');
   const [tableUnit, setTableUnit] = useState<SpeedUnit | ''>('');
+  const [dateOrder, setDateOrder] = useState<DateOrderChoice>('');
   const [height, setHeight] = useState('10');
   const [answer, setAnswer] = useState<ForecastAnswer | null>(null);
   const [error, setError] = useState<string | null>(null);
   const [problems, setProblems] = useState<string[]>([]);
   const [busy, setBusy] = useState(false);
+  const problemsRef = useRef<HTMLDivElement>(null);
+  const resultRef = useRef<HTMLHeadingElement>(null);
   const example = exampleTable(tz);
+
+  // After a check, bring the answer or the problems into view: on a phone they sit below the form.
+  useEffect(() => {
+    if (problems.length > 0 || error) problemsRef.current?.scrollIntoView({ block: 'start' });
+  }, [problems, error]);
+  useEffect(() => {
+    if (answer) resultRef.current?.scrollIntoView({ block: 'start' });
+  }, [answer]);
 
   const check = async () => {
     setBusy(true);
@@ -68,11 +102,12 @@ function ForecastCheck() {
       const h = typedNumber(height);
       const body: Record<string, unknown> = { text };
       if (tableUnit) body.unit = tableUnit;
+      if (dateOrder) body.dateOrder = dateOrder;
       if (h !== undefined && !Number.isNaN(h)) body.heightM = h;
       setAnswer(await api<ForecastAnswer>('/api/forecast', { body }));
     } catch (err) {
       setAnswer(null);
-      if (err instanceof ApiError && err.issues.length > 0) setProblems(err.issues.map((i) => `${i.path}: ${i.message}`));
+      if (err instanceof ApiError && err.issues.length > 0) setProblems(err.issues.map(problemText));
       else setError(errorText(err));
     } finally {
       setBusy(false);
@@ -82,18 +117,44 @@ function ForecastCheck() {
   return (
     <section aria-labelledby="fc-h">
       <h2 id="fc-h">Forecast check</h2>
-      <p>Paste a forecast table (from a spreadsheet or a weather service) with a header row naming time, mean, gust and direction, or load a CSV file. Each row’s gust is moved to each structure’s height and compared with its levels; a row with only a mean gets a gust of 1.66 × the mean (in-land exposure).</p>
+      <p>Paste a forecast table (from a spreadsheet or a weather service) with a header row naming the time, mean, gust and direction, or load a CSV file. Each row’s gust is moved to each structure’s height and compared with its levels; a row with only a mean gets a gust of 1.66 × the mean (in-land exposure).</p>
       <Caution />
-      <Field id="fc-text" label="Forecast table" help="Tab, semicolon or comma separated. Times without an offset are in the site’s time zone. The unit comes from the header (“gust (km/h)”) or the box below." wide>
+      <Field
+        id="fc-text"
+        label="Forecast table"
+        help={
+          <>
+            Tab, semicolon or comma separated. Date and time in one column or in two (“date,time,mean,gust,dir”). Units in the header (“gust (km/h)”), in the cells (“8 mph”) or chosen below. Times without an offset are in the site’s time zone ({tz}).
+          </>
+        }
+        wide
+      >
         <textarea id="fc-text" rows={8} class="mono" placeholder={example} value={text} onInput={(e) => setText(e.currentTarget.value)} />
       </Field>
+      <details class="fc-formats">
+        <summary>What the table may hold</summary>
+        <ul>
+          <li>Speeds in m/s, km/h, mph or kn (kt, knots); one unit per column — a column that changes unit is refused, not converted.</li>
+          <li>Mean wind as a Beaufort force (“Bft 6”): read as the top of its band (force 6 as 13.8 m/s). Force 12 and Beaufort gusts are refused.</li>
+          <li>Dates as 2026-06-14, or 14/06/2026 and 06/14/2026 with the date order chosen below, named in the header (“date (dd/mm/yyyy)”) or shown by a date like 13/06/2026. A table where both orders fit is refused.</li>
+          <li>Times as 14:00, 14:00:00, 2 pm, or 1400 in a time column of its own; an offset may follow (14:00Z, 14:00+01:00).</li>
+          <li>Directions in degrees from north or as compass points (WSW); empty, “-” or “NA” means missing, never calm.</li>
+        </ul>
+      </details>
       <div class="grid2">
-        <Field id="fc-unit" label="Speed unit when the header names none">
+        <Field id="fc-unit" label="Speed unit of bare numbers when the header names none">
           <select id="fc-unit" value={tableUnit} onChange={(e) => setTableUnit(e.currentTarget.value as SpeedUnit | '')}>
-            <option value="">from the header</option>
+            <option value="">from the header or the cells</option>
             {speedUnits.map((u) => (
               <option value={u}>{speedUnitLabels[u]}</option>
             ))}
+          </select>
+        </Field>
+        <Field id="fc-order" label="Dates like 03/12/2026">
+          <select id="fc-order" value={dateOrder} onChange={(e) => setDateOrder(e.currentTarget.value as DateOrderChoice)}>
+            <option value="">detect — refuse if both orders fit</option>
+            <option value="day-first">day first: 03/12 is 3 December</option>
+            <option value="month-first">month first: 03/12 is March 12</option>
           </select>
         </Field>
         <Field id="fc-height" label="Height of the forecast speeds" unit="m" help="Forecasts give the wind at 10 m.">
@@ -121,64 +182,260 @@ function ForecastCheck() {
           {busy ? 'Checking…' : 'Check the forecast'}
         </button>
       </div>
-      {error ? <p class="error-box">{error}</p> : null}
-      {problems.length > 0 ? (
-        <div class="error-box" role="alert">
-          <p>The table could not be read:</p>
+      <div ref={problemsRef} class="fc-problems-anchor">
+        {error ? <p class="error-box">{error}</p> : null}
+        {problems.length > 0 ? (
+          <div class="error-box fc-problems" role="alert">
+            <p>The table could not be read; nothing was checked:</p>
+            <ul>
+              {problems.map((p) => (
+                <li>{p}</li>
+              ))}
+            </ul>
+          </div>
+        ) : null}
+      </div>
+      {answer ? <ForecastResult answer={answer} unit={unit} tz={tz} headingRef={resultRef} /> : null}
+    </section>
+  );
+}
+
+const toneRank: Readonly<Record<Tone, number>> = { l0: 0, l1: 1, l2: 2, l3: 3, nodata: 4 };
+
+/** One structure's predicted standing in one forecast row. */
+interface Standing {
+  structure: ForecastStructureAnswer;
+  level: number | null;
+  gustHereMps: number | null;
+  tone: Tone;
+  /** Gust here ÷ the top level's trigger: how close it comes, for ordering within a tone. */
+  closeness: number;
+}
+
+/** Every structure's standing in a row, worst first: unknown, then by tone, level and closeness to the top level. */
+function standings(answer: ForecastAnswer, row: ForecastRowAnswer): Standing[] {
+  return answer.structures
+    .map((structure, i): Standing => {
+      const p = row.levels[i];
+      const level = p?.level ?? null;
+      const gustHereMps = p?.gustAtStructureMps ?? null;
+      const top = structure.levels.at(-1)?.triggerGustMps ?? null;
+      return {
+        structure,
+        level,
+        gustHereMps,
+        tone: levelTone(level, structure.levels.length, level === null),
+        closeness: gustHereMps !== null && top ? gustHereMps / top : 0,
+      };
+    })
+    .sort((a, b) => compareStandings(b, a));
+}
+
+/** > 0 when `a` is worse than `b`: unknown first, then the tone, the level, and how close to the top level. */
+function compareStandings(a: Standing, b: Standing): number {
+  return toneRank[a.tone] - toneRank[b.tone] || (a.level ?? 0) - (b.level ?? 0) || a.closeness - b.closeness;
+}
+
+function levelWords(s: Standing): string {
+  if (s.level === null) return 'Unknown — no wind given';
+  if (s.level === 0) return 'Below all levels';
+  return `Level ${s.level} · ${s.structure.levels[s.level - 1]?.label ?? ''}`;
+}
+
+/** What comes next for the structure: the next level's gust, or that it is at its top level. */
+function nextWords(s: Standing, unit: SpeedUnit): string | null {
+  if (s.level === null) return null;
+  const levels = s.structure.levels;
+  const next = levels[s.level];
+  if (next) return `${next.label} from ${speed(next.triggerGustMps, unit)}`;
+  const top = levels.at(-1);
+  return top ? `at its top level (from ${speed(top.triggerGustMps, unit)})` : null;
+}
+
+function ForecastResult({ answer, unit, tz, headingRef }: { answer: ForecastAnswer; unit: SpeedUnit; tz: string; headingRef: Ref<HTMLHeadingElement> }) {
+  // A phone shows the hour view and keeps the full grid folded; a wide screen opens both.
+  const [wide] = useState(() => typeof matchMedia === 'function' && matchMedia('(min-width: 720px)').matches);
+  const perRow = answer.rows.map((row) => ({ row, ranked: standings(answer, row) }));
+  const known = perRow.filter((r) => r.ranked[0] && r.ranked[0].level !== null);
+  // The first row at the highest standing (a later row only replaces it when strictly worse).
+  const worst = known.reduce<(typeof perRow)[number] | null>((best, r) => (best === null || compareStandings(r.ranked[0]!, best.ranked[0]!) > 0 ? r : best), null);
+  const unknownRows = answer.rows.filter((r) => r.gustMps === null).length;
+  const days: Array<{ day: string; rows: typeof perRow }> = [];
+  for (const r of perRow) {
+    const day = dayOf(r.row.timeMs, tz);
+    if (days.at(-1)?.day !== day) days.push({ day, rows: [] });
+    days.at(-1)!.rows.push(r);
+  }
+
+  return (
+    <div class="fc-result">
+      <h3 id="fc-result-h" ref={headingRef} tabIndex={-1}>
+        Predicted levels, {answer.rows.length} row{answer.rows.length === 1 ? '' : 's'}
+      </h3>
+      {answer.notChecked.length > 0 ? (
+        <div class="unknown-box" role="note">
+          <p>Not checked — predicted level unknown:</p>
           <ul>
-            {problems.map((p) => (
-              <li>{p}</li>
+            {answer.notChecked.map((s) => (
+              <li>
+                {s.name}: {s.reason}
+              </li>
             ))}
           </ul>
         </div>
       ) : null}
-      {answer ? (
+      {answer.structures.length === 0 ? (
+        <p class="unknown-box">No structure with levels is registered, so no level can be predicted.</p>
+      ) : (
         <>
-          {answer.ignoredColumns.length > 0 ? <p class="muted">Columns not used: {answer.ignoredColumns.join(', ')}.</p> : null}
-          <div class="table-scroll">
-            <table class="data forecast-grid">
-              <caption>Predicted level per structure (gust at the structure’s height, {speedUnitLabels[unit]})</caption>
-              <thead>
-                <tr>
-                  <th scope="col">Time ({tz})</th>
-                  <th scope="col">Forecast gust</th>
-                  {answer.structures.map((s) => (
-                    <th scope="col">{s.name}</th>
+          {worst ? (
+            <p class={`fc-overall tone-${worst.ranked[0]!.tone}`}>
+              <LevelShape tone={worst.ranked[0]!.tone} size={24} />
+              <span>
+                Highest predicted: <strong>{levelWords(worst.ranked[0]!)}</strong> — {worst.ranked[0]!.structure.name}, {dateTime(worst.row.timeMs, tz)}
+              </span>
+            </p>
+          ) : null}
+          <section class="fc-hours" aria-labelledby="fc-hours-h">
+            <h3 id="fc-hours-h">Worst level each hour</h3>
+            <p class="muted small">
+              Each line is the highest level any structure reaches, which structure, and the gust. Tap a line for every structure. Times in {tz}; speeds in {speedUnitLabels[unit]}.
+            </p>
+            {days.map((d) => (
+              <div class="fc-day">
+                <h4>{longDate(d.rows[0]!.row.timeMs, tz)}</h4>
+                <ol class="fc-hour-list">
+                  {d.rows.map((r) => (
+                    <HourItem row={r.row} ranked={r.ranked} unit={unit} tz={tz} heightM={answer.heightM} />
                   ))}
-                </tr>
-              </thead>
-              <tbody>
-                {answer.rows.map((r) => (
-                  <tr>
-                    <th scope="row">{dateTime(r.timeMs, tz)}</th>
-                    <td>
-                      {speed(r.gustMps, unit)}
-                      {r.gustSource === 'mean' ? <span class="muted small"> (from the mean)</span> : null}
-                      {r.dirFromDeg !== null ? <span class="muted small"> from {compassPoint(r.dirFromDeg)}</span> : null}
-                    </td>
-                    {answer.structures.map((s, i) => {
-                      const p = r.levels[i];
-                      const level = p?.level ?? null;
-                      const count = s.levels.length;
-                      const tone = levelTone(level, count, level === null);
-                      return (
-                        <td class={`grid-cell tone-${tone}`}>
-                          <span class="lvl-cell">
-                            <LevelShape tone={tone} size={18} />
-                            <span>{level === null ? 'unknown' : level === 0 ? 'below all' : `${level} · ${s.levels[level - 1]?.label ?? ''}`}</span>
-                          </span>
-                          <span class="muted small">{p?.gustAtStructureMps != null ? `gust here ${speed(p.gustAtStructureMps, unit)}` : ''}</span>
-                        </td>
-                      );
-                    })}
-                  </tr>
+                </ol>
+              </div>
+            ))}
+          </section>
+          {unknownRows > 0 ? (
+            <p class="unknown-box small">
+              {unknownRows} row{unknownRows === 1 ? ' gives' : 's give'} no wind: the level there is unknown, not calm.
+            </p>
+          ) : null}
+          {answer.notes.length > 0 || answer.ignoredColumns.length > 0 ? (
+            <div class="fc-notes">
+              <p class="small">How the table was read:</p>
+              <ul class="small">
+                {answer.notes.map((n) => (
+                  <li>{n}</li>
                 ))}
-              </tbody>
-            </table>
-          </div>
+                {answer.ignoredColumns.length > 0 ? <li>Columns not used: {answer.ignoredColumns.join(', ')}.</li> : null}
+              </ul>
+            </div>
+          ) : null}
+          <details class="fc-grid-more" open={wide}>
+            <summary>Every structure, row by row (table)</summary>
+            <div class="table-scroll">
+              <table class="data forecast-grid">
+                <caption>Predicted level per structure (gust at the structure’s height, {speedUnitLabels[unit]})</caption>
+                <thead>
+                  <tr>
+                    <th scope="col">Time ({tz})</th>
+                    <th scope="col">Forecast gust</th>
+                    {answer.structures.map((s) => (
+                      <th scope="col">{s.name}</th>
+                    ))}
+                  </tr>
+                </thead>
+                <tbody>
+                  {answer.rows.map((r) => (
+                    <tr>
+                      <th scope="row">{dateTime(r.timeMs, tz)}</th>
+                      <td>
+                        {speed(r.gustMps, unit)}
+                        {r.gustSource === 'mean' ? <span class="muted small"> (from the mean)</span> : null}
+                        {r.dirFromDeg !== null ? <span class="muted small"> from {compassPoint(r.dirFromDeg)}</span> : null}
+                      </td>
+                      {answer.structures.map((s, i) => {
+                        const p = r.levels[i];
+                        const level = p?.level ?? null;
+                        const tone = levelTone(level, s.levels.length, level === null);
+                        return (
+                          <td class={`grid-cell tone-${tone}`}>
+                            <span class="lvl-cell">
+                              <LevelShape tone={tone} size={18} />
+                              <span>{level === null ? 'unknown' : level === 0 ? 'below all' : `${level} · ${s.levels[level - 1]?.label ?? ''}`}</span>
+                            </span>
+                            <span class="muted small">{p?.gustAtStructureMps != null ? `gust here ${speed(p.gustAtStructureMps, unit)}` : ''}</span>
+                          </td>
+                        );
+                      })}
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </div>
+          </details>
         </>
-      ) : null}
-    </section>
+      )}
+    </div>
+  );
+}
+
+/** One forecast row: the worst standing in the summary line, every structure when opened. */
+function HourItem({ row, ranked, unit, tz, heightM }: { row: ForecastRowAnswer; ranked: Standing[]; unit: SpeedUnit; tz: string; heightM: number }) {
+  const worst = ranked[0]!;
+  const alike = ranked.filter((s) => s !== worst && s.level === worst.level && s.level !== null && s.level > 0 && s.tone === worst.tone).length;
+  const forecast = [
+    row.meanMps !== null ? `mean ${speed(row.meanMps, unit)}` : null,
+    row.gustMps !== null ? `gust ${speed(row.gustMps, unit)}${row.gustSource === 'mean' ? ' (1.66 × the mean)' : ''}` : null,
+    row.dirFromDeg !== null ? `from ${compassPoint(row.dirFromDeg)}` : null,
+  ].filter((p) => p !== null);
+  return (
+    <li class={`fc-hour tone-${worst.tone}`}>
+      <details>
+        <summary>
+          <span class="fc-time">{hourMinute(row.timeMs, tz)}</span>
+          <span class="fc-level">
+            <LevelShape tone={worst.tone} size={22} />
+            <strong>{levelWords(worst)}</strong>
+          </span>
+          {worst.level === null ? (
+            <span class="fc-which">Every structure unknown: this row gives no gust and no mean.</span>
+          ) : (
+            <>
+              <span class="fc-which">
+                {worst.level === 0 ? 'Nearest its first level: ' : ''}
+                {worst.structure.name}
+                {alike > 0 ? ` and ${alike} more at this level` : ''}
+              </span>
+              <span class="fc-gust">
+                Gust {speed(row.gustMps, unit)} forecast{row.gustSource === 'mean' ? ' (from the mean)' : ''} · {speed(worst.gustHereMps, unit)} at its height
+              </span>
+            </>
+          )}
+        </summary>
+        <div class="fc-detail">
+          <p class="small">
+            Forecast at {heightM}
+            {unitSpace}m: {forecast.length > 0 ? forecast.join(', ') : 'no wind given'}.
+          </p>
+          <ul class="fc-structures">
+            {ranked.map((s) => {
+              const next = nextWords(s, unit);
+              return (
+                <li class={`fc-structure tone-${s.tone}`}>
+                  <LevelShape tone={s.tone} size={20} />
+                  <span class="fc-structure-text">
+                    <strong>{s.structure.name}</strong>
+                    <span>{levelWords(s)}</span>
+                    <span class="muted small">
+                      {s.gustHereMps !== null ? `gust ${speed(s.gustHereMps, unit)} at ${s.structure.referenceHeightM.toFixed(1)}${unitSpace}m` : 'gust unknown'}
+                      {next ? ` · ${next}` : ''}
+                    </span>
+                  </span>
+                </li>
+              );
+            })}
+          </ul>
+        </div>
+      </details>
+    </li>
   );
 }
 
