@@ -2,9 +2,12 @@
  * Getting attention on a phone: a beep (WebAudio) and a vibration on a new or re-signalled alert,
  * and keeping the screen on while the live board is open.
  *
- * Browsers only let a page make sound after a tap on it, so the sound is "armed" by the tap on
- * the "Alarm sound" switch; after a reload the switch stays on but needs one tap again, and the
- * board says so instead of staying silent without a word.
+ * Browsers let a page make sound or vibrate only after the person has tapped it (user
+ * activation): Chromium refuses navigator.vibrate before the first tap and logs an error for
+ * every refused call. So nothing is asked for on load. The first tap anywhere on the page (or the
+ * "Alarm sound" switch, or the board's "Tap to allow" button) arms both, once: from then on an
+ * alert may vibrate and, with the switch on, sound. Until that tap the board says that the phone
+ * will stay silent and still, instead of failing without a word.
  */
 import { prefs } from './prefs.ts';
 import { createStore } from './store.ts';
@@ -52,11 +55,39 @@ export function beep(): void {
   });
 }
 
-/** Sound and vibration for one alert, as far as the person and the phone allow. */
+/** True once the person has tapped the page (sticky user activation): vibration and sound may start. */
+export const tapped = createStore(false);
+
+function hasBeenTapped(): boolean {
+  const activation = (navigator as Navigator & { userActivation?: { hasBeenActive: boolean } }).userActivation;
+  return activation ? activation.hasBeenActive : tapped.get();
+}
+
+/**
+ * Arms sound and vibration on the first tap or key press anywhere on the page, once. The events
+ * are those that count as user activation (click after a tap or mouse press; keydown); the
+ * listener goes away after the first.
+ */
+function armOnFirstTap(): void {
+  const events = ['click', 'keydown', 'touchend'] as const;
+  const onTap = () => {
+    for (const e of events) document.removeEventListener(e, onTap, true);
+    // After the event has run its course: a store change inside the tap would re-render the
+    // screen under it (a radio button being checked would be set back before its change lands).
+    setTimeout(() => {
+      tapped.set(true);
+      if (prefs.get().alarmSound) void armSound();
+    }, 0);
+  };
+  for (const e of events) document.addEventListener(e, onTap, { capture: true, passive: true });
+}
+armOnFirstTap();
+
+/** Sound and vibration for one alert, as far as the person and the phone allow. Never before the first tap. */
 export function signalAlert(): void {
   const p = prefs.get();
   if (p.alarmSound) beep();
-  if (p.vibrate && 'vibrate' in navigator) {
+  if (p.vibrate && 'vibrate' in navigator && hasBeenTapped()) {
     try {
       navigator.vibrate([300, 150, 300, 150, 600]);
     } catch {

@@ -14,27 +14,57 @@
  * - `alert`: a new alert, or an unacknowledged one signalled again (`resignal: true`);
  * - `alert-update`: an alert acknowledged or cleared;
  * - `ping`: every 15 s, so proxies keep the connection and phones notice a dead one.
+ *
+ * Acknowledging: one alert (`POST /api/alerts/:id/acknowledge`), or every open alert of one
+ * structure or sensor at once (`POST /api/alerts/acknowledge`), the board's default action so a
+ * windy spell's Watch, Prepare and Stop for one structure take one tap. Both store the same
+ * acknowledgement row and audit entry per alert. The second is stored (committed, or held when
+ * the disk refuses) before the stream announces it; while it is being stored its alerts answer
+ * 409 to anybody else, so no alert is acknowledged twice.
  */
 import { Hono } from 'hono';
 import { streamSSE } from 'hono/streaming';
 import { eq } from 'drizzle-orm';
 import { z } from 'zod';
-import { alertsTable } from '../../../db/schema.ts';
+import { alertsTable, sensorsTable } from '../../../db/schema.ts';
 import { principalName } from '../../auth/accounts.ts';
 import { emptyWriteBatch } from '../../storage/writeBatch.ts';
 import { requireRole, type AppEnv } from '../access.ts';
 import { HttpError } from '../httpError.ts';
 import { idParam, jsonBody } from '../validate.ts';
+import type { OpenAlert } from '../../watch/watch.ts';
 import type { ApiContext } from './apiContext.ts';
 
+const noteSchema = z.string({ error: 'must be text' }).trim().max(2000, { error: 'is longer than 2000 characters' }).optional();
+
 const acknowledgeSchema = z.strictObject({
-  note: z.string().trim().max(2000).optional(),
+  note: noteSchema,
 });
+
+/** Every open alert of one structure or one sensor; `alertIds`: only those (what the screen showed). */
+const acknowledgeAllSchema = z
+  .strictObject({
+    structureId: z.number({ error: 'must be a structure id (a whole number)' }).int({ error: 'must be a whole number' }).positive({ error: 'must be a structure id (a whole number above 0)' }).optional(),
+    sensorKey: z.string({ error: 'must be a sensor key' }).regex(/^[a-z0-9-]{1,64}$/, { error: 'must be a sensor key: a to z, 0 to 9 and -, at most 64 characters' }).optional(),
+    alertIds: z
+      .array(z.number({ error: 'must be an alert id (a whole number)' }).int({ error: 'must be a whole number' }).positive({ error: 'must be an alert id (a whole number above 0)' }), { error: 'must be a list of alert ids' })
+      .min(1, { error: 'must name at least one alert (or leave it out for all of them)' })
+      .max(10_000, { error: 'names more than 10 000 alerts' })
+      .optional(),
+    note: noteSchema,
+  })
+  .superRefine((body, ctx) => {
+    if ((body.structureId === undefined) === (body.sensorKey === undefined)) {
+      ctx.addIssue({ code: 'custom', path: body.structureId === undefined ? ['structureId'] : ['sensorKey'], message: 'name either a structure (structureId) or a sensor (sensorKey), not both and not neither' });
+    }
+  });
 
 export const pingIntervalMs = 15_000;
 
 export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
   const api = new Hono<AppEnv>();
+  /** Alerts being stored by an "acknowledge all", by id: the name of who is acknowledging them. */
+  const beingAcknowledged = new Map<number, string>();
 
   api.get('/live', requireRole('viewer'), (c) => c.json(ctx.watch.snapshot()));
 
@@ -103,9 +133,77 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
     if (open.acknowledgedAtMs !== null) {
       throw new HttpError(409, `alert ${id} was acknowledged by ${open.acknowledgedBy} at ${new Date(open.acknowledgedAtMs).toISOString()}`);
     }
+    const taking = beingAcknowledged.get(id);
+    if (taking !== undefined) throw new HttpError(409, `alert ${id} is being acknowledged by ${taking} just now`);
     const alert = ctx.watch.acknowledged(id, by, note, atMs)!;
     const { stored } = await ctx.queue.enqueue({ ...emptyWriteBatch(), acknowledgements: [{ alertId: id, atMs, by, note, actor: principalName(principal) }] });
     return c.json({ alert, stored });
+  });
+
+  api.post('/alerts/acknowledge', requireRole('crew'), async (c) => {
+    const body = await jsonBody(c, acknowledgeAllSchema);
+    const principal = c.get('principal')!;
+    const by = principal.kind === 'person' ? principal.person.displayName : principalName(principal);
+    const note = body.note && body.note.length > 0 ? body.note : null;
+    const subject =
+      body.structureId !== undefined
+        ? { words: `structure ${body.structureId}`, owns: (a: OpenAlert) => a.structureId === body.structureId, known: ctx.watch.structureStateById(body.structureId) !== null }
+        : { words: `sensor "${body.sensorKey}"`, owns: (a: OpenAlert) => a.sensorKey === body.sensorKey, known: ctx.watch.sensorStateByKey(body.sensorKey!) !== null };
+    const open = ctx.watch.openAlerts().filter(subject.owns);
+    if (!subject.known && open.length === 0) throw HttpError.notFound(subject.words);
+
+    const waiting = open.filter((a) => a.acknowledgedAtMs === null && !beingAcknowledged.has(a.id));
+    let chosen = waiting;
+    /** Acknowledged before this call got to them (`acknowledgedAtMs` null: being stored for someone else now). */
+    const alreadyAcknowledged: Array<{ id: number; acknowledgedBy: string | null; acknowledgedAtMs: number | null }> = [];
+    if (body.alertIds === undefined) {
+      for (const a of open) if (a.acknowledgedAtMs === null && beingAcknowledged.has(a.id)) alreadyAcknowledged.push({ id: a.id, acknowledgedBy: beingAcknowledged.get(a.id)!, acknowledgedAtMs: null });
+    } else {
+      const wanted = new Set(body.alertIds);
+      chosen = waiting.filter((a) => wanted.has(a.id));
+      const issues: Array<{ path: string; message: string }> = [];
+      body.alertIds.forEach((id, i) => {
+        if (chosen.some((a) => a.id === id)) return;
+        if (beingAcknowledged.has(id)) {
+          alreadyAcknowledged.push({ id, acknowledgedBy: beingAcknowledged.get(id)!, acknowledgedAtMs: null });
+          return;
+        }
+        const inMemory = open.find((a) => a.id === id);
+        if (inMemory) {
+          alreadyAcknowledged.push({ id, acknowledgedBy: inMemory.acknowledgedBy, acknowledgedAtMs: inMemory.acknowledgedAtMs });
+          return;
+        }
+        // Not open any more: acknowledged (and ended) already, or not an alert of this subject at all.
+        const stored = ctx.db.select().from(alertsTable).where(eq(alertsTable.id, id)).get();
+        const ownsStored =
+          stored !== undefined &&
+          (body.structureId !== undefined
+            ? stored.structureId === body.structureId
+            : stored.sensorId !== null && ctx.db.select({ key: sensorsTable.key }).from(sensorsTable).where(eq(sensorsTable.id, stored.sensorId)).get()?.key === body.sensorKey);
+        if (stored && ownsStored && stored.acknowledgedAtMs !== null) alreadyAcknowledged.push({ id, acknowledgedBy: stored.acknowledgedBy, acknowledgedAtMs: stored.acknowledgedAtMs });
+        else issues.push({ path: `alertIds.${i}`, message: `alert ${id} is not an alert of ${subject.words}` });
+      });
+      if (issues.length > 0) throw HttpError.invalid(issues);
+    }
+    // Open and unacknowledged, but not on the caller's screen (raised since): left for them to see.
+    const notShown = body.alertIds === undefined ? [] : waiting.filter((a) => !chosen.some((x) => x.id === a.id));
+
+    const atMs = ctx.now();
+    for (const a of chosen) beingAcknowledged.set(a.id, by);
+    let stored = true;
+    try {
+      if (chosen.length > 0) {
+        ({ stored } = await ctx.queue.enqueue({
+          ...emptyWriteBatch(),
+          acknowledgements: chosen.map((a) => ({ alertId: a.id, atMs, by, note, actor: principalName(principal) })),
+        }));
+      }
+    } finally {
+      for (const a of chosen) beingAcknowledged.delete(a.id);
+    }
+    // Stored (or held while the disk refuses, as for one alert): now the stream may say so.
+    const acknowledged = chosen.map((a) => ctx.watch.acknowledged(a.id, by, note, atMs)).filter((a) => a !== null);
+    return c.json({ acknowledged, alreadyAcknowledged, notShown, stored });
   });
 
   return api;

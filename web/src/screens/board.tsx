@@ -1,11 +1,15 @@
 /**
- * The live board, phone first: open alerts with their actions on top, then the site's wind now,
- * then every structure worst first with its level, margin, limit gust and its own current gust.
+ * The live board, phone first: the site in one line on top ("2 at Stop and clear · 1 at Prepare ·
+ * 1 sensor silent"), then one alert card per structure (and per sensor in trouble), then the
+ * site's wind now, then every structure worst first with its level, margin, limit gust and its
+ * own current gust.
  *
- * Alerts come grouped by structure (or sensor): the most urgent unacknowledged one in full with
- * its action, the others of the group in one line with one button to acknowledge them all, and
- * acknowledged ones still in force one line each (alertGroups.ts). On a phone only the first three
- * groups show before an expander, so the wind and the structures are never screens away.
+ * An alert card leads with the structure's current level and that level's action, acknowledged or
+ * not; the structure's other alerts are folded into it (alertGroups.ts) and one tap on
+ * "Acknowledge all" acknowledges every one of them (POST /api/alerts/acknowledge). No-data and
+ * sensor alerts are never folded and never wait behind the "Show more" expander. Crew and above
+ * are asked to act; a viewer (or a steward's site link) sees the same state, calmly, without
+ * a call to act.
  *
  * Staleness rules (missing data is unknown, never calm):
  * - a structure the server marks `noData` shows "No data — wind unknown" on grey hatching;
@@ -14,12 +18,13 @@
  *   and every number keeps the age beside it.
  */
 import { useEffect, useMemo, useState } from 'preact/hooks';
-import { api, ApiError, errorText } from '../api.ts';
-import { groupAlerts, groupSize } from '../alertGroups.ts';
-import { armSound, screenKeptOn, soundArmed } from '../alarm.ts';
+import { api, errorText } from '../api.ts';
+import { groupAlerts, mayFold, type AlertGroup, type SensorAlertGroup, type StructureAlertGroup } from '../alertGroups.ts';
+import { armSound, screenKeptOn, soundArmed, tapped } from '../alarm.ts';
+import { boardSummary, sensorTrouble as sensorTroubleKind, summaryText } from '../boardSummary.ts';
 import { Caution } from '../components/caution.tsx';
 import { useNow } from '../components/clock.ts';
-import { LevelBadge, LevelShape, levelTone } from '../components/levelBadge.tsx';
+import { LevelBadge, LevelShape, levelTone, type Tone } from '../components/levelBadge.tsx';
 import { useMedia } from '../components/media.ts';
 import { Sparkline } from '../components/sparkline.tsx';
 import { StructureFigures } from '../components/structureFigures.tsx';
@@ -28,10 +33,10 @@ import { live, refreshSnapshot, serverNow, trailMinutes, windTrail } from '../li
 import { prefs, setPref } from '../prefs.ts';
 import { href } from '../router.ts';
 import { may, session } from '../session.ts';
-import { useTimeZone } from '../site.ts';
+import { site, useTimeZone } from '../site.ts';
 import { useStore } from '../store.ts';
 import type { OpenAlert, SensorState, StructureState } from '../types.ts';
-import { beaufortText, clockTime, compassPoint, duration, hourMinute, speed, speedNumber, speedUnitLabels } from '../units.ts';
+import { beaufortText, clockTime, compassPoint, duration, hourMinute, speed, speedNumber, speedUnitLabels, unitSpace } from '../units.ts';
 
 /**
  * A reading older than its sensor's own silence timeout is flagged on the board by the phone
@@ -53,6 +58,7 @@ export function Board() {
   return (
     <main id="main" class={`board${connected ? '' : ' is-stale'}`}>
       <h1 class="visually-hidden">Live board</h1>
+      {snap ? <SummaryLine structures={snap.structures} sensors={snap.sensors} /> : null}
       {!connected ? (
         <div class="stale-banner" role="alert">
           <strong>{state.connection === 'offline' ? 'No network.' : state.snapshot ? 'Connection lost — reconnecting…' : 'Connecting to the site…'}</strong>{' '}
@@ -63,7 +69,7 @@ export function Board() {
       <AlarmControls />
       {snap ? (
         <>
-          <Alerts alerts={snap.alerts} />
+          <Alerts alerts={snap.alerts} structures={snap.structures} />
           <SiteWind sensors={snap.sensors} />
           <section aria-labelledby="structures-h">
             <h2 id="structures-h" class="section-h">
@@ -87,9 +93,29 @@ export function Board() {
   );
 }
 
+/** The site in one line: structures per level, without data, sensors in trouble. States, never asks. */
+function SummaryLine({ structures, sensors }: { structures: StructureState[]; sensors: SensorState[] }) {
+  const parts = boardSummary(structures, sensors, serverNow());
+  return (
+    <p class="board-summary" data-testid="board-summary" aria-label={`On site now: ${summaryText(parts)}`}>
+      {parts.map((p, i) => {
+        const tone: Tone = p.noData ? 'nodata' : levelTone(p.level, p.levelCount);
+        return (
+          <span key={p.text} class={`sum-part tone-${tone}${p.sensor ? ' is-sensor' : ''}`}>
+            {i > 0 ? <span class="sum-sep" aria-hidden="true"> · </span> : null}
+            <LevelShape tone={tone} size={18} />
+            <span class="sum-text">{p.text}</span>
+          </span>
+        );
+      })}
+    </p>
+  );
+}
+
 function AlarmControls() {
   const p = useStore(prefs);
   const armed = useStore(soundArmed);
+  const hasTapped = useStore(tapped);
   const awake = useStore(screenKeptOn);
   const toggle = async () => {
     if (p.alarmSound) setPref('alarmSound', false);
@@ -98,14 +124,16 @@ function AlarmControls() {
       await armSound();
     }
   };
+  // Before the first tap the browser allows neither sound nor vibration: say so, and offer the tap.
+  const waiting = !hasTapped && (p.vibrate || p.alarmSound);
   return (
     <div class="alarm-row">
       <button type="button" class={`toggle${p.alarmSound ? ' on' : ''}`} aria-pressed={p.alarmSound} onClick={toggle}>
         {p.alarmSound ? 'Alarm sound on' : 'Alarm sound off'}
       </button>
-      {p.alarmSound && !armed ? (
-        <button type="button" class="warn-btn" onClick={() => void armSound()}>
-          Tap to allow sound
+      {waiting || (p.alarmSound && !armed) ? (
+        <button type="button" class="warn-btn" onClick={() => void (p.alarmSound ? armSound() : null)}>
+          {p.alarmSound ? (p.vibrate ? 'Allow sound and vibration' : 'Allow sound') : 'Allow vibration'}
         </button>
       ) : null}
       <span class="muted small">{awake === true ? 'Screen kept on' : awake === false ? 'Screen may sleep' : ''}</span>
@@ -114,256 +142,318 @@ function AlarmControls() {
 }
 
 /**
- * Groups shown before the "Show N more alerts" expander. On a phone three, so that the wind and
- * the structures stay within about two screens of the top after a windy spell; on a wide screen
- * (two columns of cards) four.
+ * Cards shown before the "Show N more" expander. On a phone three, so that the wind and the
+ * structures stay within about two screens of the top after a windy spell; on a wide screen (two
+ * columns of cards) four. Cards that may never wait behind it (no data, a sensor, a structure at
+ * its top level: alertGroups.ts mayFold) do not count towards these.
  */
 const phoneWidth = '(max-width: 699px)';
 const groupsShown = (narrow: boolean): number => (narrow ? 3 : 4);
 
-function Alerts({ alerts }: { alerts: OpenAlert[] }) {
-  const groups = useMemo(() => groupAlerts(alerts), [alerts]);
+function Alerts({ alerts, structures }: { alerts: OpenAlert[]; structures: StructureState[] }) {
+  const groups = useMemo(() => groupAlerts(alerts, structures), [alerts, structures]);
   const narrow = useMedia(phoneWidth);
+  const canAck = may(useStore(session), 'crew');
   const [showAll, setShowAll] = useState(false);
   if (groups.length === 0) return null;
-  const toAcknowledge = alerts.filter((a) => a.acknowledgedAtMs === null).length;
   const limit = groupsShown(narrow);
-  const hidden = groups.slice(limit);
-  const shown = showAll ? groups : groups.slice(0, limit);
-  const hiddenAlerts = hidden.reduce((n, g) => n + groupSize(g), 0);
-  const hiddenOpen = hidden.reduce((n, g) => n + (g.head ? 1 + g.rest.length : 0), 0);
+  const hidden = new Set<AlertGroup>();
+  let foldable = 0;
+  for (const g of groups) {
+    if (!mayFold(g)) continue;
+    foldable += 1;
+    if (foldable > limit) hidden.add(g);
+  }
+  const shown = showAll ? groups : groups.filter((g) => !hidden.has(g));
+  const hiddenOpen = [...hidden].filter((g) => g.toAcknowledge.length > 0).length;
+  const toAcknowledge = groups.reduce((n, g) => n + g.toAcknowledge.length, 0);
+  const structuresWaiting = groups.filter((g) => g.toAcknowledge.length > 0).length;
   return (
     <section aria-labelledby="alerts-h" class="alerts">
       <h2 id="alerts-h" class="section-h">
-        Alerts <span class="count">{toAcknowledge > 0 ? `${toAcknowledge} to acknowledge` : 'all acknowledged'}</span>
+        Alerts{' '}
+        {canAck ? (
+          <span class={`count${toAcknowledge > 0 ? ' is-open' : ''}`}>
+            {toAcknowledge > 0 ? `${toAcknowledge} to acknowledge${structuresWaiting > 1 ? `, on ${structuresWaiting} cards` : ''}` : 'all acknowledged'}
+          </span>
+        ) : (
+          <span class="muted small">in force</span>
+        )}
       </h2>
       <ul class="cards alert-groups">
         {shown.map((g) => (
           <li key={g.key} class="alert-group">
-            {g.head ? <AlertCard key={g.head.id} a={g.head} rest={g.rest} /> : null}
-            {g.acked.length > 0 ? (
-              <div class={`acked${g.head ? '' : ' acked-only'}`}>
-                <p class="acked-h" id={`acked-${g.key}`}>
-                  {g.head ? 'Acknowledged, still in force:' : <><strong>{g.subject}</strong> — acknowledged, still in force:</>}
-                </p>
-                <ul class="ack-lines" aria-labelledby={`acked-${g.key}`}>
-                  {g.acked.map((a) => (
-                    <AckLine key={a.id} a={a} />
-                  ))}
-                </ul>
-              </div>
-            ) : null}
+            {g.kind === 'structure' ? <StructureAlertCard g={g} /> : <SensorAlertCard g={g} />}
           </li>
         ))}
       </ul>
-      {hidden.length > 0 ? (
+      {hidden.size > 0 ? (
         <button type="button" class="more-alerts" aria-expanded={showAll} onClick={() => setShowAll(!showAll)}>
           {showAll
             ? 'Show fewer alerts'
-            : `Show ${hiddenAlerts} more ${hiddenAlerts === 1 ? 'alert' : 'alerts'}${hiddenOpen > 0 ? ` (${hiddenOpen} to acknowledge)` : ''}`}
+            : `Show ${hidden.size} more ${hidden.size === 1 ? 'structure' : 'structures'} with alerts${canAck && hiddenOpen > 0 ? ` (${hiddenOpen} to acknowledge)` : ''}`}
         </button>
       ) : null}
     </section>
   );
 }
 
-function alertTone(a: OpenAlert): string {
-  if (a.kind === 'level') return `tone-${levelTone(a.level, Math.max(a.level ?? 0, 3))}`;
-  return 'tone-nodata';
+interface AckAllAnswer {
+  acknowledged: OpenAlert[];
+  alreadyAcknowledged: Array<{ id: number; acknowledgedBy: string | null; acknowledgedAtMs: number | null }>;
+  notShown: OpenAlert[];
+  stored: boolean;
 }
 
-interface AckAnswer {
-  alert: { acknowledgedAtMs: number; acknowledgedBy: string; acknowledgeNote: string | null };
-}
-
-/** Acknowledges one alert on the server and shows the answer at once (the stream follows). */
-async function acknowledgeOne(id: number, note: string): Promise<void> {
-  const answer = await api<AckAnswer>(`/api/alerts/${id}/acknowledge`, { body: note ? { note } : {} });
+/**
+ * Acknowledges the alerts a card shows, all at once, on the server (the ids it showed: an alert
+ * raised since stays open for the person to see), and shows the answer at once (the stream
+ * follows). Returns what the person must be told, or null when all went as asked.
+ */
+async function acknowledgeAll(subject: { structureId: number } | { sensorKey: string }, ids: number[], note: string): Promise<string | null> {
+  const answer = await api<AckAllAnswer>('/api/alerts/acknowledge', { body: { ...subject, alertIds: ids, ...(note ? { note } : {}) } });
+  const done = new Map(answer.acknowledged.map((a) => [a.id, a]));
   live.update((st) =>
     st.snapshot
       ? {
           ...st,
           snapshot: {
             ...st.snapshot,
-            alerts: st.snapshot.alerts
-              .map((x) => (x.id === id ? { ...x, acknowledgedAtMs: answer.alert.acknowledgedAtMs, acknowledgedBy: answer.alert.acknowledgedBy, acknowledgeNote: answer.alert.acknowledgeNote } : x))
-              .filter((x) => x.acknowledgedAtMs === null || x.clearedAtMs === null),
+            alerts: st.snapshot.alerts.map((x) => done.get(x.id) ?? x).filter((x) => x.acknowledgedAtMs === null || x.clearedAtMs === null),
           },
         }
       : st,
   );
-}
-
-/**
- * Acknowledges each alert in turn with the same note. One already acknowledged by someone else
- * (409) counts as done; any other failure stops there and says how far it got.
- */
-async function acknowledgeEach(ids: number[], note: string): Promise<string | null> {
-  let done = 0;
-  let takenElsewhere = false;
-  for (const id of ids) {
-    try {
-      await acknowledgeOne(id, note);
-      done += 1;
-    } catch (err) {
-      if (err instanceof ApiError && err.status === 409) {
-        takenElsewhere = true;
-        done += 1;
-        continue;
-      }
-      if (done > 0 || takenElsewhere) void refreshSnapshot();
-      return `${done} of ${ids.length} acknowledged; the rest were not: ${errorText(err)}`;
-    }
+  const told: string[] = [];
+  if (answer.alreadyAcknowledged.length > 0) {
+    const names = [...new Set(answer.alreadyAcknowledged.map((a) => a.acknowledgedBy ?? 'someone'))];
+    told.push(`${answer.alreadyAcknowledged.length} had already been acknowledged by ${names.join(', ')}.`);
   }
-  if (takenElsewhere) void refreshSnapshot();
-  return null;
+  if (answer.notShown.length > 0) {
+    told.push(`${answer.notShown.length === 1 ? 'One alert was' : `${answer.notShown.length} alerts were`} raised since this card was drawn and ${answer.notShown.length === 1 ? 'is' : 'are'} not acknowledged: ${answer.notShown.map((a) => a.label).join(', ')}. Read the card again.`);
+  }
+  if (told.length > 0) void refreshSnapshot();
+  return told.length > 0 ? told.join(' ') : null;
 }
 
-/** The earlier alerts of a group in one line: "Watch 22:53, Prepare 22:55 — condition ended". */
-function restLine(head: OpenAlert, rest: OpenAlert[], tz: string): string {
-  const ended = rest.filter((a) => a.clearedAtMs !== null).length;
-  const mixed = ended > 0 && ended < rest.length;
-  const items = rest.map((a) => `${a.label} ${hourMinute(a.raisedAtMs, tz)}${mixed ? (a.clearedAtMs !== null ? ' (ended)' : ' (in force)') : ''}`);
-  const when = rest.every((a) => a.raisedAtMs <= head.raisedAtMs) ? 'earlier' : 'more';
-  const state = mixed ? '' : ended > 0 ? ` — condition ${rest.length === 1 ? 'has' : 'have all'} ended` : ' — still in force';
-  return `also ${rest.length} ${when}: ${items.join(', ')}${state}`;
+/** The acknowledgement of an alert in words: who, when and the note; or that it waits. */
+function AckStatus({ a, tz, canAck }: { a: OpenAlert; tz: string; canAck: boolean }) {
+  if (a.acknowledgedAtMs !== null) {
+    return (
+      <span class="ack-done">
+        ✓&nbsp;Acknowledged by {a.acknowledgedBy} at {clockTime(a.acknowledgedAtMs, tz)}
+        {a.acknowledgeNote ? `: “${a.acknowledgeNote}”` : ''}
+      </span>
+    );
+  }
+  return canAck ? <strong class="ack-waiting">Not yet acknowledged</strong> : <span class="ack-waiting-calm">not yet acknowledged by the crew</span>;
 }
 
 /**
- * One alert in full (the most urgent of its group): what it is, whether its condition still
- * holds, the action, and for crew and above the Acknowledge button — plus, when the group has
- * more unacknowledged alerts, a line naming them and a button to acknowledge them all.
+ * The one button a card offers crew and above: acknowledge everything it shows, in one tap, with
+ * an optional note opened first. Viewers get no button (the card says whether the crew have).
  */
-export function AlertCard({ a, rest = [] }: { a: OpenAlert; rest?: OpenAlert[] }) {
-  const s = useStore(session);
-  const unit = useStore(prefs).unit;
-  const tz = useTimeZone();
-  const [mode, setMode] = useState<'one' | 'all' | null>(null);
+function AckAll({ subject, alerts, noun, idBase }: { subject: { structureId: number } | { sensorKey: string }; alerts: OpenAlert[]; noun: string; idBase: string }) {
+  const [noteOpen, setNoteOpen] = useState(false);
   const [note, setNote] = useState('');
   const [busy, setBusy] = useState(false);
-  const [error, setError] = useState<string | null>(null);
-  const acked = a.acknowledgedAtMs !== null;
-  const ended = a.clearedAtMs !== null;
-  const canAck = may(s, 'crew') && !acked;
-  const all = rest.length + 1;
-
-  const confirm = async () => {
+  const [message, setMessage] = useState<string | null>(null);
+  if (alerts.length === 0 && !message) return null;
+  const send = async () => {
     setBusy(true);
-    setError(null);
+    setMessage(null);
     try {
-      if (mode === 'all') {
-        const problem = await acknowledgeEach([a.id, ...rest.map((x) => x.id)], note.trim());
-        if (problem) setError(problem);
-        else setMode(null);
-      } else {
-        await acknowledgeOne(a.id, note.trim());
-        setMode(null);
-      }
+      const told = await acknowledgeAll(subject, alerts.map((a) => a.id), note.trim());
+      setMessage(told);
+      setNoteOpen(false);
+      setNote('');
     } catch (err) {
-      setError(errorText(err));
-      if (err instanceof ApiError && err.status === 409) void refreshSnapshot();
+      setMessage(`Not acknowledged: ${errorText(err)}`);
+      void refreshSnapshot();
     } finally {
       setBusy(false);
     }
   };
-
   return (
-    <article class={`alert-card ${alertTone(a)}${acked ? ' acked' : ''}${ended ? ' ended' : ''}`} aria-label={`${a.label}: ${a.subject}`}>
-      <header>
-        <span class="alert-label">{a.kind === 'level' ? `Level ${a.level} · ${a.label}` : a.label}</span>
-        <span class="alert-subject">{a.subject}</span>
-      </header>
-      {ended ? <p class="alert-state is-ended">Condition ended at {hourMinute(a.clearedAtMs!, tz)}: not yet acknowledged</p> : null}
-      <p class="alert-action">{a.actionText}</p>
-      <p class="alert-meta">
-        Raised {hourMinute(a.raisedAtMs, tz)}
-        {a.gustMps !== null ? ` at ${speed(a.gustMps, unit)}` : ''}
-        {ended ? '' : <strong class="alert-holds"> · still in force</strong>}
-      </p>
-      {rest.length > 0 ? <p class="alert-rest">{restLine(a, rest, tz)}</p> : null}
-      {acked ? (
-        <p class="ack-done">
-          ✓ Acknowledged by {a.acknowledgedBy} at {clockTime(a.acknowledgedAtMs!, tz)}
-          {a.acknowledgeNote ? `: “${a.acknowledgeNote}”` : ''}
-        </p>
-      ) : canAck ? (
-        mode ? (
-          <div class="ack-form">
-            <label for={`note-${a.id}`}>Note (optional): what you did or saw</label>
-            <textarea id={`note-${a.id}`} rows={2} maxLength={2000} value={note} onInput={(e) => setNote(e.currentTarget.value)} />
-            <div class="row">
-              <button type="button" class="primary" disabled={busy} onClick={() => void confirm()}>
-                {busy ? 'Sending…' : mode === 'all' ? `Confirm all ${all}` : 'Confirm acknowledgement'}
-              </button>
-              <button type="button" disabled={busy} onClick={() => setMode(null)}>
-                Cancel
-              </button>
-            </div>
-          </div>
-        ) : (
-          <div class={`ack-buttons${rest.length > 0 ? ' two' : ''}`}>
-            <button type="button" class="primary ack-btn" onClick={() => setMode('one')}>
-              Acknowledge
+    <div class="ack-area">
+      {alerts.length > 0 && noteOpen ? (
+        <div class="ack-form">
+          <label for={`note-${idBase}`}>Note (optional): what you did or saw</label>
+          <textarea id={`note-${idBase}`} rows={2} maxLength={2000} value={note} onInput={(e) => setNote(e.currentTarget.value)} />
+        </div>
+      ) : null}
+      {alerts.length > 0 ? (
+        <div class="ack-buttons">
+          <button type="button" class="primary ack-btn" disabled={busy} onClick={() => void send()}>
+            {busy ? 'Sending…' : alerts.length === 1 ? 'Acknowledge' : `Acknowledge all ${alerts.length} for this ${noun}`}
+          </button>
+          {noteOpen ? (
+            <button type="button" class="link-btn" disabled={busy} onClick={() => setNoteOpen(false)}>
+              No note
             </button>
-            {rest.length > 0 ? (
-              <button type="button" class="ack-all-btn" onClick={() => setMode('all')}>
-                Acknowledge all {all} for {a.subject}
-              </button>
-            ) : null}
-          </div>
-        )
-      ) : (
-        <p class="muted">Not yet acknowledged. Crew and above can acknowledge.</p>
-      )}
-      {error ? (
+          ) : (
+            <button type="button" class="link-btn" disabled={busy} onClick={() => setNoteOpen(true)}>
+              Add a note
+            </button>
+          )}
+        </div>
+      ) : null}
+      {message ? (
         <p class="error-box" role="alert">
-          {error}
+          {message}
         </p>
       ) : null}
-    </article>
+    </div>
   );
 }
 
-/**
- * An acknowledged alert whose condition still holds: one line (its level as shape and label, who
- * acknowledged and when); a tap opens the note and the action.
- */
-function AckLine({ a }: { a: OpenAlert }) {
-  const tz = useTimeZone();
+/** One folded alert in one line, wrapped, never cut: label, raised, ended or in force, acknowledged or not. */
+function FoldedLine({ a, tz, canAck }: { a: OpenAlert; tz: string; canAck: boolean }) {
   const tone = a.kind === 'level' ? levelTone(a.level, Math.max(a.level ?? 0, 3)) : 'nodata';
   return (
-    <li class={`ack-line tone-${tone}`}>
-      <details>
-        <summary>
-          <LevelShape tone={tone} size={20} />
-          <span class="ack-line-text">
-            <strong>{a.label}</strong> · ✓ {a.acknowledgedBy} {hourMinute(a.acknowledgedAtMs!, tz)}
-          </span>
-        </summary>
-        <div class="ack-line-more">
-          <p>
-            {a.kind === 'level' ? `Level ${a.level} · ${a.label}` : a.label} for {a.subject}, raised {clockTime(a.raisedAtMs, tz)}, acknowledged by {a.acknowledgedBy} at{' '}
-            {clockTime(a.acknowledgedAtMs!, tz)}
-            {a.acknowledgeNote ? `: “${a.acknowledgeNote}”` : ' (no note)'}. Still in force.
-          </p>
-          <p class="alert-action">{a.actionText}</p>
-        </div>
-      </details>
+    <li class={`folded-line tone-${tone}`}>
+      <LevelShape tone={tone} size={18} />
+      <span>
+        <strong>{a.kind === 'level' ? `Level ${a.level} · ${a.label}` : a.label}</strong> raised {hourMinute(a.raisedAtMs, tz)}
+        {a.clearedAtMs !== null ? `, ended ${hourMinute(a.clearedAtMs, tz)}` : ', still in force'} · <AckStatus a={a} tz={tz} canAck={canAck} />
+      </span>
     </li>
   );
 }
 
+/** A no-data alert in full: never folded, the wind there is unknown. */
+function NoDataBlock({ a, tz, canAck, headed = false }: { a: OpenAlert; tz: string; canAck: boolean; headed?: boolean }) {
+  const ended = a.clearedAtMs !== null;
+  return (
+    <div class={`nodata-block${ended ? ' ended' : ''}`}>
+      {headed ? null : (
+        <p class="nodata-h">
+          <LevelShape tone="nodata" size={20} /> <strong>{a.label}</strong>
+          {ended ? ` — readings came back at ${hourMinute(a.clearedAtMs!, tz)}` : ` since ${hourMinute(a.raisedAtMs, tz)}: the wind at this structure is unknown`}
+        </p>
+      )}
+      {ended ? null : <p class="alert-action">{a.actionText}</p>}
+      <p class="alert-meta">
+        Raised {hourMinute(a.raisedAtMs, tz)} · <AckStatus a={a} tz={tz} canAck={canAck} />
+      </p>
+    </div>
+  );
+}
+
+/**
+ * A structure's alerts as one card. It leads with the structure's level now and that level's
+ * action, acknowledged or not; below it the no-data alerts in full, the other alerts folded one
+ * line each; then for crew one button for all of them.
+ */
+export function StructureAlertCard({ g }: { g: StructureAlertGroup }) {
+  const canAck = may(useStore(session), 'crew');
+  const unit = useStore(prefs).unit;
+  const tz = useTimeZone();
+  const c = g.current;
+  const tone = levelTone(c.level, c.levelCount, c.noData);
+  const levelName = c.level > 0 ? `Level ${c.level} · ${c.label ?? ''}` : null;
+  const heading = c.noData ? 'No data — wind unknown' : (levelName ?? 'Below all levels now');
+  const current = g.currentAlert;
+  return (
+    <article class={`alert-card tone-${tone}${g.toAcknowledge.length === 0 ? ' acked' : ''}`} aria-label={`${g.subject}: ${heading}`}>
+      <header>
+        <span class="alert-label">
+          <LevelShape tone={tone} size={26} /> {heading}
+        </span>
+        <span class="alert-subject">{g.subject}</span>
+      </header>
+      {c.noData ? g.noDataAlerts.filter((a) => a.clearedAtMs === null).map((a) => <NoDataBlock key={a.id} a={a} tz={tz} canAck={canAck} headed />) : null}
+      {c.level > 0 ? (
+        <div class="current-level">
+          {c.noData ? <p class="alert-kept">Level kept until readings return: {levelName}</p> : null}
+          <p class="alert-action">{c.actionText ?? current?.actionText ?? ''}</p>
+          <p class="alert-meta">
+            {current ? (
+              <>
+                Reached {hourMinute(current.raisedAtMs, tz)}
+                {current.gustMps !== null ? ` at ${speed(current.gustMps, unit)}` : ''} · <strong class="alert-holds">in force</strong> · <AckStatus a={current} tz={tz} canAck={canAck} />
+              </>
+            ) : c.sinceMs !== null ? (
+              <>At this level since {hourMinute(c.sinceMs, tz)}</>
+            ) : null}
+          </p>
+        </div>
+      ) : c.noData ? null : (
+        <p class="alert-state is-ended">Below every level now: the alerts below have ended.</p>
+      )}
+      {g.noDataAlerts.filter((a) => a.clearedAtMs !== null || !c.noData).map((a) => (
+        <NoDataBlock key={a.id} a={a} tz={tz} canAck={canAck} />
+      ))}
+      {g.folded.length > 0 ? (
+        <div class="folded">
+          <p class="folded-h">{c.level > 0 ? 'Also for this structure:' : 'Alerts of this structure:'}</p>
+          <ul class="folded-lines">
+            {g.folded.map((a) => (
+              <FoldedLine key={a.id} a={a} tz={tz} canAck={canAck} />
+            ))}
+          </ul>
+        </div>
+      ) : null}
+      {canAck ? <AckAll subject={{ structureId: g.structureId }} alerts={g.toAcknowledge} noun="structure" idBase={g.key} /> : null}
+    </article>
+  );
+}
+
+/** A sensor's alerts as one card: each in full (a sensor in trouble is never folded away). */
+export function SensorAlertCard({ g }: { g: SensorAlertGroup }) {
+  const canAck = may(useStore(session), 'crew');
+  const tz = useTimeZone();
+  const inForce = g.alerts.filter((a) => a.clearedAtMs === null);
+  const heading = (inForce[0] ?? g.alerts[0]!).label;
+  return (
+    <article class={`alert-card tone-nodata sensor-alert${g.toAcknowledge.length === 0 ? ' acked' : ''}`} aria-label={`${g.subject}: ${heading}`}>
+      <header>
+        <span class="alert-label">
+          <LevelShape tone="nodata" size={26} /> {heading}
+        </span>
+        <span class="alert-subject">{g.subject}</span>
+      </header>
+      {g.alerts.map((a) => (
+        <div key={a.id} class="sensor-alert-item">
+          {a !== g.alerts.find((x) => x.label === heading) ? <p class="nodata-h"><strong>{a.label}</strong></p> : null}
+          {a.clearedAtMs !== null ? <p class="alert-state is-ended">Condition ended at {hourMinute(a.clearedAtMs, tz)}</p> : null}
+          <p class="alert-action">{a.actionText}</p>
+          <p class="alert-meta">
+            Raised {hourMinute(a.raisedAtMs, tz)}
+            {a.clearedAtMs === null ? (
+              <>
+                {' '}
+                · <strong class="alert-holds">in force</strong>
+              </>
+            ) : null}{' '}
+            · <AckStatus a={a} tz={tz} canAck={canAck} />
+          </p>
+        </div>
+      ))}
+      {canAck ? <AckAll subject={{ sensorKey: g.sensorKey }} alerts={g.toAcknowledge} noun="sensor" idBase={g.key} /> : null}
+    </article>
+  );
+}
+
 function sensorTrouble(s: SensorState, nowMs: number): string | null {
-  if (s.lastReceivedAtMs === null) return 'no reading yet';
-  if (s.silent) return `silent for ${duration(nowMs - s.lastReceivedAtMs)}`;
-  if (s.implausible.length > 0) return `implausible: ${s.implausible.join(', ')}`;
-  if (nowMs - s.lastReceivedAtMs > staleAfterMs(s)) return `no reading for ${duration(nowMs - s.lastReceivedAtMs)}`;
-  return null;
+  const kind = sensorTroubleKind(s, nowMs);
+  if (kind === null) return null;
+  if (kind === 'no reading yet') return kind;
+  if (kind === 'implausible') return `implausible: ${s.implausible.join(', ')}`;
+  return s.silent ? `silent for ${duration(nowMs - s.lastReceivedAtMs!)}` : `no reading for ${duration(nowMs - s.lastReceivedAtMs!)}`;
+}
+
+/** How the levels use the wind, in words, with the site's own hold time and dead band when known. */
+function levelRule(): string {
+  const st = site.get();
+  const drop = st ? `only after ${duration(st.holdTimeMs)} at least ${Math.round(st.deadBandFraction * 100)}${unitSpace}% below it` : 'only after the hold time below it';
+  return `Levels and margins use the 3-s gust at each structure's own height: a level rises at once when a gust reaches its trigger, and drops ${drop}.`;
 }
 
 function SiteWind({ sensors }: { sensors: SensorState[] }) {
   const unit = useStore(prefs).unit;
   const trails = useStore(windTrail);
+  useStore(site);
   const nowMs = serverNow();
   // The site's wind is the strongest sensor that is reporting well: the one the structures feel.
   const healthy = sensors.filter((s) => sensorTrouble(s, nowMs) === null && s.currentGustMps !== null);
@@ -379,7 +469,7 @@ function SiteWind({ sensors }: { sensors: SensorState[] }) {
           <li class={trouble ? 'sensor-bad' : ''} key={s.key}>
             <span class="s-name">{s.name}</span>
             <span class={`s-vals${trouble ? ' struck' : ''}`}>
-              gust {speed(s.currentGustMps, unit)} · mean {speed(s.mean10minMps, unit)}
+              gust now {speed(s.currentGustMps, unit)} · peak 10 min {speed(s.peakGust10minMps, unit)} · mean {speed(s.mean10minMps, unit)}
             </span>
             <span class="s-age">{trouble ? <strong class="bad-text">⚠ {trouble}</strong> : `last reading ${duration(nowMs - (s.lastReceivedAtMs ?? nowMs))} ago`}</span>
           </li>
@@ -396,13 +486,18 @@ function SiteWind({ sensors }: { sensors: SensorState[] }) {
       {lead ? (
         <div class="wind-now">
           <div class="wind-figures">
-            <div class="big-figure">
-              <span class="fig-label">Gust</span>
+            <div class="big-figure" data-testid="gust-now">
+              <span class="fig-label">Gust now (3 s)</span>
               <span class="fig-value">{speedNumber(lead.currentGustMps, unit)}</span>
               <span class="fig-unit">{speedUnitLabels[unit]}</span>
             </div>
-            <div class="mid-figure">
-              <span class="fig-label">Mean (10 min)</span>
+            <div class="mid-figure peak-figure" data-testid="peak-gust">
+              <span class="fig-label">Peak gust, 10 min</span>
+              <span class="fig-value">{speedNumber(lead.peakGust10minMps, unit)}</span>
+              <span class="fig-unit">{speedUnitLabels[unit]}</span>
+            </div>
+            <div class="mid-figure" data-testid="mean-wind">
+              <span class="fig-label">Mean wind, 10 min</span>
               <span class="fig-value">{speedNumber(lead.mean10minMps, unit)}</span>
               <span class="fig-unit">{speedUnitLabels[unit]}</span>
             </div>
@@ -415,21 +510,24 @@ function SiteWind({ sensors }: { sensors: SensorState[] }) {
             </div>
           </div>
           <p class="wind-sub">
-            <strong>{beaufortText(lead.mean10minMps) ?? 'Beaufort unknown'}</strong> · highest gust in 10 min {speed(lead.peakGust10minMps, unit)} · at {lead.name} ({lead.heightM}&nbsp;m) ·{' '}
+            <strong>{beaufortText(lead.mean10minMps) ?? 'Beaufort unknown'}</strong> · at {lead.name} ({lead.heightM}&nbsp;m) ·{' '}
             <span class="age">last reading {duration(nowMs - (lead.lastReceivedAtMs ?? nowMs))} ago</span>
           </p>
-          <Sparkline points={points} fromMs={nowMs - trailMinutes * 60_000} toMs={nowMs} label={`gust at ${lead.name}, last ${trailMinutes} minutes`} />
-          <p class="muted small spark-caption">Gust at {lead.name}, last {trailMinutes} min</p>
+          <p class="wind-rule muted small">{levelRule()}</p>
+          <p class="spark-caption small">
+            <strong>Gust (3 s) at {lead.name}</strong>, {speedUnitLabels[unit]}, last {trailMinutes} min
+          </p>
+          <Sparkline points={points} fromMs={nowMs - trailMinutes * 60_000} toMs={nowMs} unit={unit} label={`Gust (3 s) at ${lead.name}, last ${trailMinutes} minutes`} />
         </div>
       ) : (
         <p class="unknown-box">Wind unknown: no sensor is reporting good readings. Watch the wind by hand and follow the wind management plan.</p>
       )}
       {sensors.length === 0 ? (
         <p class="unknown-box">No sensors registered: the wind on site is unknown.</p>
-      ) : narrow && sensors.length > 1 && troubles.every((t) => t === null) ? (
+      ) : narrow && troubles.every((t) => t === null) ? (
         // On a phone, sensors that all report well fold into one line; any trouble unfolds them.
         <details class="sensor-fold">
-          <summary>All {sensors.length} sensors reporting well</summary>
+          <summary>{sensors.length === 1 ? `${sensors[0]!.name} reporting well` : `All ${sensors.length} sensors reporting well`}</summary>
           {strip}
         </details>
       ) : (
