@@ -37,6 +37,12 @@ export interface Config {
   adminPassword: string | null;
   /** Behind a TLS reverse proxy: trust X-Forwarded-Proto / X-Forwarded-For (TRUST_PROXY=1). */
   trustProxy: boolean;
+  /**
+   * The address phones reach the app at (PUBLIC_URL), as an origin without a trailing slash
+   * ("https://wind.example.org"); site links are made with it. Null: links take the address the
+   * request came in on, and the Site links screen warns that other networks may not reach it.
+   */
+  publicUrl: string | null;
   /** Run the invented demo site with simulated anemometers. */
   demo: boolean;
   /** Seed of the demo wind (DEMO_SEED, default 20260614). */
@@ -71,6 +77,26 @@ function checkBrokerUrl(raw: string, protocol: 4 | 5, username: string | null, p
   }
 }
 
+/**
+ * PUBLIC_URL: an absolute http:// or https:// URL of the app's root, without credentials, query or
+ * fragment, and without a path (the app is served at "/"). Returned as its origin.
+ */
+export function checkPublicUrl(raw: string): string {
+  let url: URL;
+  try {
+    url = new URL(raw);
+  } catch {
+    // Not echoed: a mistyped value may carry a password.
+    throw new ConfigError('PUBLIC_URL must be an absolute URL such as https://wind.example.org (scheme, host, optional port)');
+  }
+  if (url.protocol !== 'http:' && url.protocol !== 'https:') throw new ConfigError(`PUBLIC_URL must start with http:// or https://, got "${url.protocol}//"`);
+  if (!url.hostname) throw new ConfigError('PUBLIC_URL has no host name');
+  if (url.username || url.password) throw new ConfigError('PUBLIC_URL must not contain a user name or password');
+  if (url.search || url.hash || raw.includes('?') || raw.includes('#')) throw new ConfigError('PUBLIC_URL must not have a query (?…) or fragment (#…)');
+  if (url.pathname !== '/') throw new ConfigError(`PUBLIC_URL must be the address of the app's root, without a path (the app is served at /), got the path "${url.pathname}"`);
+  return url.origin;
+}
+
 function intVar(env: NodeJS.ProcessEnv, name: string, fallback: number, min: number, max: number): number {
   const raw = env[name];
   if (raw === undefined || raw === '') return fallback;
@@ -100,6 +126,8 @@ export function configFromEnv(env: NodeJS.ProcessEnv = process.env, argv: readon
   if (protocol !== 4 && protocol !== 5) throw new ConfigError('MQTT_PROTOCOL_VERSION must be 4 or 5');
   const mqttUrl = textVar(env, 'MQTT_URL');
   if (mqttUrl !== null) checkBrokerUrl(mqttUrl, protocol, textVar(env, 'MQTT_USERNAME'), textVar(env, 'MQTT_PASSWORD'));
+  const publicUrlText = textVar(env, 'PUBLIC_URL');
+  const publicUrl = publicUrlText === null ? null : checkPublicUrl(publicUrlText.trim());
   return {
     httpPort: intVar(env, 'PORT', 8080, 0, 65535),
     httpHost: textVar(env, 'HOST') ?? '0.0.0.0',
@@ -120,6 +148,7 @@ export function configFromEnv(env: NodeJS.ProcessEnv = process.env, argv: readon
     adminUsername,
     adminPassword,
     trustProxy: env.TRUST_PROXY === '1' || env.TRUST_PROXY === 'true',
+    publicUrl,
     demo: argv.includes('--demo') || env.DEMO === '1',
     demoSeed: intVar(env, 'DEMO_SEED', 20260614, 0, 2 ** 31 - 1),
   };

@@ -2,7 +2,8 @@
  * The embedded MQTT broker (aedes, MQTT 3.1.1), on by default so that a fresh machine needs
  * nothing installed. Only registered gateways may connect, each with its own username and
  * password, and each may publish only to the reading topics of its own sensors; every refusal is
- * logged and counted. Subscriptions are refused: gateways publish, nobody listens here.
+ * logged and counted, and recorded with who, when, which topic and why for the Sensors screen
+ * (`BrokerRefusals`, memory only). Subscriptions are refused: gateways publish, nobody listens here.
  *
  * Readings are taken in aedes's `authorizePublish` hook, which runs before the broker sends the
  * gateway its PUBACK: the hook calls back only after the reading is committed, so a QoS 1
@@ -10,11 +11,12 @@
  * socket read to the hooks concurrently, which lets the write queue commit them together.
  */
 import { createHash } from 'node:crypto';
-import { createServer, type Server } from 'node:net';
+import { createServer, type Server, type Socket } from 'node:net';
 import { Aedes, type Client } from 'aedes';
 import type { Logger } from '../log.ts';
 import { verifyPassword } from '../auth/password.ts';
 import type { Registry, RegisteredGateway } from './registry.ts';
+import type { BrokerRefusals, RefusalInput, RefusalReason } from './rejections.ts';
 import type { ReadingSink } from './sink.ts';
 import { sensorKeyOfTopic } from './topic.ts';
 
@@ -30,7 +32,12 @@ export interface EmbeddedBrokerOptions {
   sink: ReadingSink;
   log: Logger;
   now?: () => number;
+  /** Where refusals are recorded for the Sensors screen (who, when, topic, reason). */
+  refusals?: BrokerRefusals;
 }
+
+/** Socket errors that are a client going away, not the broker refusing it. */
+const goneCodes = new Set(['ECONNRESET', 'EPIPE', 'ECONNABORTED', 'ETIMEDOUT']);
 
 export interface BrokerStatus {
   kind: 'embedded';
@@ -51,6 +58,8 @@ export class EmbeddedBroker {
   /** Passwords already checked, as SHA-256 digests, per username and stored hash (memory only). */
   private readonly verified = new Map<string, { passwordHash: string; digest: string }>();
   private readonly status: BrokerStatus;
+  /** Each connection's address, taken when it arrives (a destroyed socket no longer has one). */
+  private readonly addressOf = new WeakMap<object, string>();
 
   constructor(private readonly options: EmbeddedBrokerOptions) {
     this.status = {
@@ -67,15 +76,20 @@ export class EmbeddedBroker {
   async start(): Promise<void> {
     const { registry, sink, log, topicPrefix } = this.options;
     const now = this.options.now ?? Date.now;
+    const addressOfClient = (client: Client | null | undefined): string | null => (client ? (this.addressOf.get(client.conn) ?? (client.conn as Partial<Socket>).remoteAddress ?? null) : null);
+    const record = (entry: RefusalInput): void => this.options.refusals?.record(entry);
     const aedes = await Aedes.createBroker({
       authenticate: (client, username, password, done) => {
-        const refuse = (why: string, code: number): void => {
+        const refuse = (why: string, code: number, reason: RefusalReason, detail: string): void => {
           this.status.refusedConnections++;
           log.warn({ clientId: client.id, username, why }, 'MQTT connection refused');
+          record({ kind: 'connect', reason, detail, clientId: client.id ?? null, username: username ?? null, address: addressOfClient(client), topic: null });
           done(Object.assign(new Error(why), { returnCode: code }) as never, false);
         };
         const gateway = username === undefined ? undefined : registry.gatewayByUsername(username);
-        if (!gateway || password === undefined) return refuse('unknown gateway or no password', returnCodeBadCredentials);
+        if (username === undefined) return refuse('unknown gateway or no password', returnCodeBadCredentials, 'no-username', 'connected without a username; every gateway signs in with its own');
+        if (!gateway) return refuse('unknown gateway or no password', returnCodeBadCredentials, 'unknown-username', `no gateway has the username "${username}" (or it was revoked)`);
+        if (password === undefined) return refuse('unknown gateway or no password', returnCodeBadCredentials, 'no-password', `gateway "${username}" connected without a password`);
         // A gateway reconnecting with the password it used before is not hashed again: scrypt
         // costs 32 MiB and ~50 ms, and after a site's network blip every gateway reconnects at once.
         const digest = createHash('sha256').update(password).digest('hex');
@@ -88,12 +102,13 @@ export class EmbeddedBroker {
           (ok) => {
             // Re-read: the gateway may have been revoked while the hash was being checked.
             const current = registry.gatewayByUsername(gateway.username);
-            if (!ok || !current) return refuse('bad credentials', returnCodeBadCredentials);
+            if (!ok) return refuse('bad credentials', returnCodeBadCredentials, 'wrong-password', `wrong password for gateway "${gateway.username}"`);
+            if (!current) return refuse('bad credentials', returnCodeBadCredentials, 'unknown-username', `gateway "${gateway.username}" was revoked while it signed in`);
             this.verified.set(current.username, { passwordHash: current.passwordHash, digest });
             this.gatewayOfClient.set(client, current);
             done(null, true);
           },
-          (err: unknown) => refuse(`credential check failed: ${String(err)}`, returnCodeNotAuthorized),
+          (err: unknown) => refuse(`credential check failed: ${String(err)}`, returnCodeNotAuthorized, 'check-failed', `the password check failed on the server: ${String(err)}`),
         );
       },
       authorizePublish: (client, packet, callback) => {
@@ -106,6 +121,15 @@ export class EmbeddedBroker {
           this.status.refusedPublishes++;
           const detail = `gateway "${stored?.username ?? '?'}" may not publish to "${packet.topic}"`;
           sink.refuse(key ?? '*', 'not-permitted', detail);
+          const reason: RefusalReason = !gateway ? 'gateway-revoked' : key === null ? 'not-reading-topic' : registry.sensorByKey(key) ? 'other-sensor' : 'unknown-sensor';
+          const words: Record<string, string> = {
+            'gateway-revoked': `gateway "${stored?.username ?? '?'}" was revoked after it connected`,
+            'not-reading-topic': `"${packet.topic.slice(0, 120)}" is not a reading topic (${topicPrefix}/<sensor key>/reading)`,
+            'other-sensor': `sensor "${key}" is not one of gateway "${gateway?.username}"'s sensors`,
+            'unknown-sensor': `no sensor is registered with the key "${key}"`,
+          };
+          const payload = typeof packet.payload === 'string' ? Buffer.from(packet.payload) : packet.payload;
+          record({ kind: 'publish', reason, detail: words[reason]!, clientId: client.id ?? null, username: stored?.username ?? null, address: addressOfClient(client), topic: packet.topic, payload });
           return callback(new Error(detail));
         }
         const payload = typeof packet.payload === 'string' ? Buffer.from(packet.payload) : packet.payload;
@@ -120,14 +144,33 @@ export class EmbeddedBroker {
       },
       authorizeSubscribe: (client, subscription, callback) => {
         log.warn({ clientId: client.id, topic: subscription.topic }, 'MQTT subscription refused');
+        record({
+          kind: 'subscribe',
+          reason: 'subscribe',
+          detail: 'subscriptions are refused here: gateways publish, nobody subscribes',
+          clientId: client.id ?? null,
+          username: this.gatewayOfClient.get(client)?.username ?? null,
+          address: addressOfClient(client),
+          topic: subscription.topic,
+        });
         callback(null, null);
       },
+    });
+    // Refused before any login: an MQTT version aedes does not speak (it answers MQTT 3.1 and
+    // 3.1.1), a malformed packet, no CONNECT in time. Login refusals are recorded above.
+    aedes.on('connectionError', (client, err) => {
+      const code = (err as NodeJS.ErrnoException).code;
+      if (code && goneCodes.has(code)) return;
+      record({ kind: 'connect', reason: 'protocol', detail: `refused before signing in: ${err.message}`, clientId: null, username: null, address: addressOfClient(client), topic: null });
     });
     aedes.on('client', () => this.status.connectedGateways++);
     aedes.on('clientDisconnect', () => this.status.connectedGateways--);
     this.aedes = aedes;
 
-    const server = createServer(aedes.handle);
+    const server = createServer((socket) => {
+      if (socket.remoteAddress) this.addressOf.set(socket, socket.remoteAddress);
+      aedes.handle(socket);
+    });
     await new Promise<void>((resolve, reject) => {
       server.once('error', (err: NodeJS.ErrnoException) => {
         if (err.code === 'EADDRINUSE') {

@@ -3,6 +3,12 @@
  * API), logged at most once per interval per sensor and reason, never stored as readings.
  * Counts are flushed to the database in the background so a flood of garbage costs one write a
  * second, not one per message.
+ *
+ * Refusals at the embedded broker (a login refused at CONNECT, a publish to a topic the gateway
+ * may not use, a subscription) are kept in memory only, in `BrokerRefusals`: who (client id,
+ * username, address), when, which topic, the reason, and of a refused publish no more than a
+ * short excerpt of its payload. Grouped by who and why, so a gateway retrying every few seconds
+ * fills one line, not the book; at most `maxRefusalGroups` groups, the stalest dropped first.
  */
 import type Database from 'better-sqlite3';
 import type { Logger } from '../log.ts';
@@ -28,12 +34,15 @@ export class RejectionLog {
   private readonly upsert: Database.Statement;
   private timer: NodeJS.Timeout | null = null;
   private total = 0;
+  /** Refusals at the embedded broker since this server started (memory only, bounded). */
+  readonly refusals: BrokerRefusals;
 
   constructor(
     private readonly sqlite: Database.Database,
     private readonly log: Logger,
     private readonly now: () => number = Date.now,
   ) {
+    this.refusals = new BrokerRefusals(now);
     for (const row of sqlite
       .prepare('SELECT sensor_key AS sensorKey, reason, count, first_at_ms AS firstAtMs, last_at_ms AS lastAtMs, last_detail AS lastDetail FROM rejections')
       .all() as RejectionCount[]) {
@@ -99,5 +108,135 @@ export class RejectionLog {
 
   get totalCount(): number {
     return this.total;
+  }
+}
+
+/** What the broker refused: a connection (login), a publish, or a subscription. */
+export type RefusalKind = 'connect' | 'publish' | 'subscribe';
+
+/**
+ * Why, as a code (the screens put it in words):
+ * connect: `no-username`, `unknown-username` (no gateway has it, or it was revoked), `no-password`,
+ * `wrong-password`, `check-failed` (the password check itself failed), `protocol` (the CONNECT
+ * was refused before any login: an MQTT version the broker does not speak, a bad packet);
+ * publish: `unknown-sensor` (no registered sensor has the topic's key), `other-sensor` (a
+ * registered sensor of another gateway), `not-reading-topic`, `gateway-revoked` (revoked after it
+ * connected); subscribe: `subscribe` (gateways publish; nobody subscribes here).
+ */
+export type RefusalReason =
+  | 'no-username'
+  | 'unknown-username'
+  | 'no-password'
+  | 'wrong-password'
+  | 'check-failed'
+  | 'protocol'
+  | 'unknown-sensor'
+  | 'other-sensor'
+  | 'not-reading-topic'
+  | 'gateway-revoked'
+  | 'subscribe';
+
+export interface RefusalInput {
+  kind: RefusalKind;
+  reason: RefusalReason;
+  /** One plain sentence. */
+  detail: string;
+  clientId: string | null;
+  username: string | null;
+  /** The client's IP address, when the socket still had one. */
+  address: string | null;
+  topic: string | null;
+  /** A refused publish's payload: only `excerptBytes` of it are kept. */
+  payload?: Uint8Array | null;
+}
+
+export interface BrokerRefusal {
+  kind: RefusalKind;
+  reason: RefusalReason;
+  detail: string;
+  /** The client id of the latest refusal in this group (mqtt.js makes a new one per connection). */
+  clientId: string | null;
+  username: string | null;
+  address: string | null;
+  topic: string | null;
+  /** The first bytes of the latest refused payload, control characters shown as "·"; null for no payload. */
+  excerpt: string | null;
+  count: number;
+  firstAtMs: number;
+  lastAtMs: number;
+}
+
+/** Groups kept at most (who and why); the group refused least recently is dropped first. */
+export const maxRefusalGroups = 100;
+/** Of a refused publish, this many bytes of the payload are kept, no more. */
+export const excerptBytes = 48;
+const maxFieldLength = 200;
+
+const clip = (text: string | null | undefined, max = maxFieldLength): string | null => (text == null ? null : text.length > max ? text.slice(0, max) + '…' : text);
+
+/** The first `excerptBytes` of a payload as text: invalid UTF-8 as U+FFFD, control characters as "·". */
+export function payloadExcerpt(payload: Uint8Array): string {
+  const head = payload.subarray(0, excerptBytes);
+  const text = new TextDecoder('utf-8', { fatal: false }).decode(head).replace(/[\u0000-\u001f\u007f]/g, '·');
+  return payload.length > excerptBytes ? `${text}…` : text;
+}
+
+export class BrokerRefusals {
+  private readonly groups = new Map<string, BrokerRefusal>();
+  private total = 0;
+  private dropped = 0;
+  readonly sinceMs: number;
+
+  constructor(
+    private readonly now: () => number = Date.now,
+    private readonly maxGroups = maxRefusalGroups,
+  ) {
+    this.sinceMs = now();
+  }
+
+  record(input: RefusalInput): void {
+    const atMs = this.now();
+    const username = clip(input.username, 64);
+    const topic = clip(input.topic);
+    const address = clip(input.address, 64);
+    const key = [input.kind, input.reason, username ?? '', address ?? '', topic ?? ''].join('\u0000');
+    let group = this.groups.get(key);
+    if (group) {
+      // Most recent last in the map's order: delete and set again.
+      this.groups.delete(key);
+    } else {
+      if (this.groups.size >= this.maxGroups) {
+        const stalest = this.groups.keys().next().value as string;
+        this.groups.delete(stalest);
+        this.dropped++;
+      }
+      group = { kind: input.kind, reason: input.reason, detail: '', clientId: null, username, address, topic, excerpt: null, count: 0, firstAtMs: atMs, lastAtMs: atMs };
+    }
+    group.count++;
+    group.lastAtMs = atMs;
+    group.detail = clip(input.detail, 300) ?? '';
+    group.clientId = clip(input.clientId, 64);
+    group.excerpt = input.payload ? payloadExcerpt(input.payload) : null;
+    this.groups.set(key, group);
+    this.total++;
+  }
+
+  /** Newest first. */
+  list(): BrokerRefusal[] {
+    return [...this.groups.values()].reverse().map((g) => ({ ...g }));
+  }
+
+  /** Every refusal recorded since start, dropped groups included. */
+  get totalCount(): number {
+    return this.total;
+  }
+
+  /** Groups dropped to stay within the bound. */
+  get droppedGroups(): number {
+    return this.dropped;
+  }
+
+  get maxGroupCount(): number {
+    return this.maxGroups;
   }
 }

@@ -18,6 +18,42 @@ export interface AccessRouteDeps {
   addressLimiter: SignInLimiter;
   now: () => number;
   trustProxy: boolean;
+  /** PUBLIC_URL as an origin: site links are made with it; null takes the request's own address. */
+  publicUrl?: string | null;
+}
+
+/** The address site links are made with, where it came from, and what to warn about. */
+export interface LinkAddress {
+  origin: string;
+  source: 'PUBLIC_URL' | 'request';
+  /** Set when the address came from the request: phones elsewhere may not reach it. */
+  warning: string | null;
+}
+
+const loopbackHost = /^(localhost|127(\.\d{1,3}){3}|\[::1\])$/i;
+
+/**
+ * PUBLIC_URL when configured; otherwise the address this request came in on (behind a trusted
+ * proxy, its X-Forwarded-Proto and X-Forwarded-Host), with a warning.
+ */
+export function linkAddress(c: { req: { url: string; header(name: string): string | undefined } }, publicUrl: string | null | undefined, trustProxy: boolean): LinkAddress {
+  if (publicUrl) return { origin: publicUrl, source: 'PUBLIC_URL', warning: null };
+  let url = new URL(c.req.url);
+  if (trustProxy) {
+    const proto = (c.req.header('x-forwarded-proto') ?? '').split(',')[0]!.trim();
+    const host = (c.req.header('x-forwarded-host') ?? '').split(',')[0]!.trim();
+    try {
+      // Built afresh: the URL host setter would keep our own port when the forwarded host has none.
+      url = new URL(`${proto === 'http' || proto === 'https' ? `${proto}:` : url.protocol}//${host && /^[A-Za-z0-9.:[\]-]+$/.test(host) ? host : url.host}`);
+    } catch {
+      // A forwarded host that is not a host: keep the request's own address.
+    }
+  }
+  const origin = url.origin;
+  const warning = loopbackHost.test(url.hostname)
+    ? `PUBLIC_URL is not set, so links use ${origin}: this computer's own address. No phone can open it. Open this screen at the address phones use, or set PUBLIC_URL (README, Configuration).`
+    : `PUBLIC_URL is not set, so links use ${origin}, the address this browser reached the server at. Phones on another network (mobile data, another Wi-Fi) may not reach it. Set PUBLIC_URL to an address every steward's phone can reach (README, Configuration).`;
+  return { origin, source: 'request', warning };
 }
 
 const signInSchema = z.strictObject({ username: z.string().min(1).max(64), password: z.string().min(1).max(200) });
@@ -112,12 +148,12 @@ export function accessRoutes(deps: AccessRouteDeps): Hono<AppEnv> {
     return c.json({ person: await accounts.updatePerson(idParam(c), patch, principalName(c.get('principal')), now()) });
   });
 
-  api.get('/site-links', requireRole('competent-person'), (c) => c.json({ siteLinks: accounts.listSiteLinks() }));
+  api.get('/site-links', requireRole('competent-person'), (c) => c.json({ siteLinks: accounts.listSiteLinks(), linkAddress: linkAddress(c, deps.publicUrl, deps.trustProxy) }));
   api.post('/site-links', requireRole('competent-person'), async (c) => {
     const input = await jsonBody(c, siteLinkSchema);
     const link = accounts.createSiteLink(input.label, input.validHours * 3600_000, principalName(c.get('principal')), now());
-    const origin = new URL(c.req.url).origin;
-    return c.json({ id: link.id, label: input.label, expiresAtMs: link.expiresAtMs, url: `${origin}/link/${link.token}` }, 201);
+    const address = linkAddress(c, deps.publicUrl, deps.trustProxy);
+    return c.json({ id: link.id, label: input.label, expiresAtMs: link.expiresAtMs, url: `${address.origin}/link/${link.token}`, linkAddress: address }, 201);
   });
   api.delete('/site-links/:id', requireRole('competent-person'), (c) => {
     accounts.revokeSiteLink(idParam(c), principalName(c.get('principal')), now());

@@ -1,6 +1,8 @@
 /**
  * Editing a level ladder: up to 8 rows of label, trigger (percent of load capacity, or a gust
  * in the chosen unit) and the action text the crew will read when the level is reached.
+ * `readOnly`: the same ladder as a table, no inputs and no buttons, for a role that cannot
+ * change it.
  */
 import type { LevelRowDraft } from '../register/structureDraft.ts';
 import { speedUnitLabels, type SpeedUnit } from '../units.ts';
@@ -16,8 +18,11 @@ export function LevelsEditor(props: {
   errors: Map<string, string>;
   /** Each level's wind speed for this structure, from the calculator (m/s), when known. */
   gustsText?: Array<string | null>;
+  /** Shown as a table: nothing to type into, nothing to press. */
+  readOnly?: boolean;
 }) {
   const { levels, unit } = props;
+  if (props.readOnly) return <LevelsReadOnly levels={levels} unit={unit} gustsText={props.gustsText} />;
   const set = (i: number, patch: Partial<LevelRowDraft>) => props.onChange(levels.map((l, j) => (j === i ? { ...l, ...patch } : l)));
   const err = (i: number, k: string) => props.errors.get(`levels.${i}.${k}`) ?? (k === 'trigger' ? (props.errors.get(`levels.${i}.trigger.fraction`) ?? props.errors.get(`levels.${i}.trigger.gustMps`)) : undefined);
   return (
@@ -72,5 +77,40 @@ export function LevelsEditor(props: {
         Add a level
       </button>
     </div>
+  );
+}
+
+/** The draft ladder as text (a trigger that is not a number is shown as typed). */
+function LevelsReadOnly({ levels, unit, gustsText }: { levels: LevelRowDraft[]; unit: SpeedUnit; gustsText?: Array<string | null> }) {
+  return (
+    <table class="levels-table levels-readonly">
+      <thead>
+        <tr>
+          <th scope="col">Level</th>
+          <th scope="col">Reached at</th>
+          <th scope="col">Action</th>
+        </tr>
+      </thead>
+      <tbody>
+        {levels.map((l, i) => (
+          <tr key={i} class={`tone-${levelTone(i + 1, levels.length)}`}>
+            <th scope="row">
+              <span class="lvl-cell">
+                <LevelShape tone={levelTone(i + 1, levels.length)} size={22} />
+                <span>
+                  {i + 1} · {l.label || <span class="muted">no label</span>}
+                </span>
+              </span>
+            </th>
+            <td>
+              <span class="reached">Reached at </span>
+              {l.kind === 'utilization' ? `${l.value}\u00a0% of load capacity` : `a gust of ${l.value} ${speedUnitLabels[unit]}`}
+              {gustsText?.[i] ? <span class="muted small"> — {gustsText[i]} here</span> : null}
+            </td>
+            <td class="action-cell">{l.actionText || <span class="muted">no action written</span>}</td>
+          </tr>
+        ))}
+      </tbody>
+    </table>
   );
 }

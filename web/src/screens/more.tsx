@@ -1,6 +1,7 @@
 /**
  * Preferences for this device (speed unit, theme, alarm), who is signed in, sign-out, and the
- * ways to people, site links and site settings for the roles that have them.
+ * ways to people, site links and site settings for the roles that have them; the first-start
+ * checklist's progress on top until it is done or hidden (competent person, administrator).
  */
 import { api, errorText } from '../api.ts';
 import { armSound, beep, soundArmed } from '../alarm.ts';
@@ -10,6 +11,7 @@ import { may, roleNames, session, signOut } from '../session.ts';
 import { useStore } from '../store.ts';
 import { speedUnitLabels, speedUnits } from '../units.ts';
 import { useState } from 'preact/hooks';
+import { SetupChecklistSummary } from './setupChecklist.tsx';
 
 export function More() {
   const p = useStore(prefs);
@@ -31,6 +33,7 @@ export function More() {
   return (
     <main id="main">
       <h1>More</h1>
+      <SetupChecklistSummary />
       <section class="panel" aria-labelledby="who-h">
         <h2 id="who-h">Signed in</h2>
         <p>
@@ -109,11 +112,16 @@ export function More() {
       </section>
 
       <section class="panel" aria-labelledby="adm-h">
-        <h2 id="adm-h">Site administration</h2>
+        <h2 id="adm-h">{may(s, 'competent-person') ? 'Site administration' : 'The site'}</h2>
         <ul class="plain-list link-list">
           <li>
-            <a href={href('/site')}>Site settings and default levels</a>
+            <a href={href('/site')}>{may(s, 'competent-person') ? 'Site settings and default levels' : 'Site settings and default levels (read only)'}</a>
           </li>
+          {may(s, 'competent-person') ? (
+            <li>
+              <a href={href('/setup')}>Getting the site ready: the first-start checklist</a>
+            </li>
+          ) : null}
           {may(s, 'competent-person') ? (
             <li>
               <a href={href('/links')}>Site links for stewards</a>

@@ -5,6 +5,7 @@
 import { useEffect, useState } from 'preact/hooks';
 import { api, errorText } from '../api.ts';
 import { LevelBadge } from '../components/levelBadge.tsx';
+import { ReadOnlyNote } from '../components/readOnlyNote.tsx';
 import { kindNames } from '../register/kindFields.ts';
 import { prefs } from '../prefs.ts';
 import { refreshSnapshot } from '../live.ts';
@@ -32,6 +33,7 @@ export function RegisterList() {
   return (
     <main id="main">
       <h1>Structures</h1>
+      {!canEdit ? <ReadOnlyNote what="every structure, its limit and its levels" ask="the site’s competent person" /> : null}
       <div class="row">
         {canEdit ? (
           <a class="button primary" href={href('/register/new')}>
@@ -39,7 +41,7 @@ export function RegisterList() {
           </a>
         ) : null}
         <a class="button" href={href('/site')}>
-          Site settings
+          {canEdit ? 'Site settings' : 'Site settings (read only)'}
         </a>
       </div>
       {error ? <p class="error-box">{error}</p> : null}

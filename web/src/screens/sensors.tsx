@@ -2,20 +2,23 @@
  * The anemometers: each one's health (last reading age, silent, implausible, rejected payloads by
  * reason), its gust and mean; registering and editing them; and the gateways that publish for
  * them (competent person only): make one (its password is shown once, with the topic and an
- * example command), give it a new password, revoke it.
+ * example command), give it a new password, revoke it. What the broker refused (logins,
+ * publishes to topics of no sensor or of another gateway's sensor, subscriptions) is listed with
+ * who, when, which topic and why (competent person); other roles read the screen, no buttons.
  */
 import { useEffect, useState } from 'preact/hooks';
 import { api, ApiError, errorText, issuesByPath } from '../api.ts';
 import { useNow } from '../components/clock.ts';
 import { Field } from '../components/field.tsx';
+import { ReadOnlyNote } from '../components/readOnlyNote.tsx';
 import { SpeedValue } from '../components/speedValue.tsx';
 import { live, refreshSnapshot, serverNow } from '../live.ts';
 import { prefs } from '../prefs.ts';
 import { may, session } from '../session.ts';
 import { loadSite, site, useTimeZone } from '../site.ts';
 import { useStore } from '../store.ts';
-import type { GatewayView, SensorView } from '../types.ts';
-import { beaufortText, dateTime, duration, speedUnitLabels, speedUnits, type SpeedUnit } from '../units.ts';
+import type { BrokerRefusal, GatewayView, RefusalReason, RefusalsAnswer, RejectionCount, SensorView } from '../types.ts';
+import { beaufortText, clockTime, dateTime, duration, longDate, speedUnitLabels, speedUnits, type SpeedUnit } from '../units.ts';
 import { plainMessage, typedNumber } from '../register/structureDraft.ts';
 import { isBelowMinimumHeight, terrainCategories, terrainParameters, type TerrainCategory } from '../../../server/engine/windProfile.ts';
 
@@ -37,6 +40,7 @@ export function Sensors() {
   return (
     <main id="main">
       <h1>Sensors</h1>
+      {!canEdit ? <ReadOnlyNote what="each sensor's health and what it sent" ask="the site’s competent person" /> : null}
       {error ? <p class="error-box">{error}</p> : null}
       {list === null && !error ? <p class="muted">Loading…</p> : null}
       {list && list.length === 0 ? <p class="unknown-box">No sensors registered: the wind on site is unknown until one reports.</p> : null}
@@ -62,6 +66,7 @@ export function Sensors() {
           </button>
         )
       ) : null}
+      {canEdit ? <Refusals sensors={list ?? []} /> : <RefusalCount />}
       {canEdit ? <Gateways sensors={list ?? []} /> : null}
     </main>
   );
@@ -138,6 +143,186 @@ function SensorCard({ s, canEdit, onEdit }: { s: SensorView; canEdit: boolean; o
         </button>
       ) : null}
     </article>
+  );
+}
+
+/** How often the refusals are asked for again while the screen is open. */
+const refusalPollMs = 5_000;
+
+const refusalWords: Record<RefusalReason, string> = {
+  'no-username': 'no username',
+  'unknown-username': 'unknown username',
+  'no-password': 'no password',
+  'wrong-password': 'wrong password',
+  'check-failed': 'the password check failed',
+  protocol: 'refused before signing in',
+  'unknown-sensor': 'no sensor has this key',
+  'other-sensor': 'another gateway’s sensor',
+  'not-reading-topic': 'not a reading topic',
+  'gateway-revoked': 'gateway revoked',
+  subscribe: 'subscribing is not allowed',
+};
+
+function refusalTitle(r: BrokerRefusal): string {
+  if (r.kind === 'connect') return r.reason === 'protocol' ? 'Connection refused' : 'Login refused';
+  return r.kind === 'publish' ? 'Message refused' : 'Subscription refused';
+}
+
+/**
+ * What the embedded broker refused since the server started (kept in memory, grouped by who and
+ * why), newest first; and messages the external broker passed on for no registered sensor.
+ */
+function Refusals({ sensors }: { sensors: SensorView[] }) {
+  const tz = useTimeZone();
+  const [answer, setAnswer] = useState<RefusalsAnswer | null>(null);
+  const [stray, setStray] = useState<RejectionCount[]>([]);
+  const [error, setError] = useState<string | null>(null);
+  const registered = new Set(sensors.map((s) => s.key));
+
+  useEffect(() => {
+    let stop = false;
+    const load = async () => {
+      try {
+        const [a, r] = await Promise.all([api<RefusalsAnswer>('/api/refusals'), api<{ rejections: RejectionCount[] }>('/api/rejections')]);
+        if (stop) return;
+        setAnswer(a);
+        setStray(r.rejections.filter((x) => x.reason === 'unknown-sensor' || x.reason === 'bad-topic'));
+        setError(null);
+      } catch (err) {
+        if (!stop) setError(errorText(err));
+      }
+    };
+    void load();
+    const timer = setInterval(() => void load(), refusalPollMs);
+    return () => {
+      stop = true;
+      clearInterval(timer);
+    };
+  }, []);
+
+  const strayNow = stray.filter((x) => !registered.has(x.sensorKey)).sort((a, b) => b.lastAtMs - a.lastAtMs);
+  return (
+    <section class="panel refusals" aria-labelledby="rf-h">
+      <h2 id="rf-h">Refused at the broker</h2>
+      {error ? <p class="error-box">{error}</p> : null}
+      {answer === null && !error ? <p class="muted">Loading…</p> : null}
+      {answer?.broker === 'external' ? (
+        <p class="help">Readings come through an external broker (MQTT_URL): it checks the gateways’ logins and topics itself, so its own log shows what it refused. Below: messages it passed on for no registered sensor.</p>
+      ) : answer ? (
+        <p class="help">
+          Logins, messages and subscriptions the embedded broker refused since the server started ({dateTime(answer.sinceMs, tz)}): {answer.total} in all. Nothing refused is stored as a reading; of a refused message only its first bytes are kept here, in memory.
+          {answer.droppedGroups > 0 ? ` Only the newest ${answer.maxGroups} kinds are kept: ${answer.droppedGroups} older ones were dropped.` : ''}
+        </p>
+      ) : null}
+      {answer && answer.broker === 'embedded' && answer.refusals.length === 0 ? <p class="ok-box">Nothing refused since the server started.</p> : null}
+      {answer && answer.refusals.length > 0 ? (
+        <ul class="refusal-list">
+          {answer.refusals.map((r) => (
+            <li key={`${r.kind}${r.reason}${r.username}${r.address}${r.topic}`}>
+              <article class="refusal">
+                <h3 class="refusal-h">
+                  ⚠ {refusalTitle(r)}: {refusalWords[r.reason]}
+                </h3>
+                <p class="refusal-detail">{r.detail}.</p>
+                <dl class="refusal-facts">
+                  {r.topic !== null ? (
+                    <div>
+                      <dt>Topic</dt>
+                      <dd>
+                        <code>{r.topic}</code>
+                      </dd>
+                    </div>
+                  ) : null}
+                  <div>
+                    <dt>Who</dt>
+                    <dd>
+                      {r.username !== null ? (
+                        <>
+                          username <code>{r.username}</code>
+                        </>
+                      ) : (
+                        'no username'
+                      )}
+                      {r.clientId ? (
+                        <>
+                          {' '}
+                          · client id <code>{r.clientId}</code>
+                        </>
+                      ) : null}
+                      {r.address ? (
+                        <>
+                          {' '}
+                          · from <code>{r.address}</code>
+                        </>
+                      ) : null}
+                    </dd>
+                  </div>
+                  <div>
+                    <dt>When</dt>
+                    <dd>
+                      {clockTime(r.lastAtMs, tz)} on {longDate(r.lastAtMs, tz)}
+                      {r.count > 1 ? ` · ${r.count} times since ${clockTime(r.firstAtMs, tz)}${longDate(r.firstAtMs, tz) === longDate(r.lastAtMs, tz) ? '' : ` on ${longDate(r.firstAtMs, tz)}`}` : ''}
+                    </dd>
+                  </div>
+                  {r.excerpt !== null ? (
+                    <div>
+                      <dt>Message began</dt>
+                      <dd>
+                        <code class="excerpt">{r.excerpt || '(empty)'}</code>
+                      </dd>
+                    </div>
+                  ) : null}
+                </dl>
+              </article>
+            </li>
+          ))}
+        </ul>
+      ) : null}
+      {strayNow.length > 0 ? (
+        <table class="kv stray-topics">
+          <caption>Messages for no registered sensor (never stored)</caption>
+          <thead>
+            <tr>
+              <th scope="col">Topic key</th>
+              <th scope="col">Count</th>
+              <th scope="col">Last</th>
+            </tr>
+          </thead>
+          <tbody>
+            {strayNow.map((x) => (
+              <tr key={`${x.sensorKey}${x.reason}`}>
+                <td>
+                  <code>{x.sensorKey === '*' ? 'not a reading topic' : x.sensorKey}</code>
+                  <br />
+                  <span class="muted small">{x.lastDetail}</span>
+                </td>
+                <td>{x.count}</td>
+                <td>{dateTime(x.lastAtMs, tz)}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      ) : null}
+    </section>
+  );
+}
+
+/** For roles that cannot see who was refused: how many, from the public health report. */
+function RefusalCount() {
+  const [counts, setCounts] = useState<{ connections: number; publishes: number } | null>(null);
+  useEffect(() => {
+    fetch('/api/health')
+      .then((r) => r.json() as Promise<{ broker?: { kind?: string; refusedConnections?: number; refusedPublishes?: number } }>)
+      .then((h) => {
+        if (h.broker?.kind === 'embedded') setCounts({ connections: h.broker.refusedConnections ?? 0, publishes: h.broker.refusedPublishes ?? 0 });
+      })
+      .catch(() => undefined);
+  }, []);
+  if (!counts || counts.connections + counts.publishes === 0) return null;
+  return (
+    <p class="muted">
+      Since it started the broker refused {counts.connections} login{counts.connections === 1 ? '' : 's'} and {counts.publishes} message{counts.publishes === 1 ? '' : 's'}; the competent person sees who and why on this screen.
+    </p>
   );
 }
 

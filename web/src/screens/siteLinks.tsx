@@ -1,14 +1,16 @@
 /**
  * Site links (competent person): a URL that opens the live board read-only without an account,
  * until it expires or is withdrawn — for stewards, by message, or scanned off this screen at a
- * briefing (the QR code is shown with the link, once, like the link itself).
+ * briefing (the QR code is shown with the link, once, like the link itself). Links are made with
+ * the configured public address (PUBLIC_URL); without one, with the address this browser used,
+ * and the screen warns that phones on another network may not reach it.
  */
 import { useEffect, useState } from 'preact/hooks';
 import { api, errorText } from '../api.ts';
 import { Field } from '../components/field.tsx';
 import { ScanCode } from '../components/scanCode.tsx';
 import { useTimeZone } from '../site.ts';
-import type { SiteLink } from '../types.ts';
+import type { LinkAddress, SiteLink } from '../types.ts';
 import { dateTime } from '../units.ts';
 import { typedNumber } from '../register/structureDraft.ts';
 
@@ -17,14 +19,18 @@ export function SiteLinks() {
   const [links, setLinks] = useState<SiteLink[] | null>(null);
   const [label, setLabel] = useState('');
   const [hours, setHours] = useState('72');
-  const [made, setMade] = useState<{ url: string; label: string; expiresAtMs: number } | null>(null);
+  const [made, setMade] = useState<{ url: string; label: string; expiresAtMs: number; linkAddress?: LinkAddress } | null>(null);
+  const [address, setAddress] = useState<LinkAddress | null>(null);
   const [error, setError] = useState<string | null>(null);
   const [reload, setReload] = useState(0);
   const [copied, setCopied] = useState(false);
 
   useEffect(() => {
-    api<{ siteLinks: SiteLink[] }>('/api/site-links')
-      .then((a) => setLinks(a.siteLinks))
+    api<{ siteLinks: SiteLink[]; linkAddress: LinkAddress }>('/api/site-links')
+      .then((a) => {
+        setLinks(a.siteLinks);
+        setAddress(a.linkAddress);
+      })
       .catch((err) => setError(errorText(err)));
   }, [reload]);
 
@@ -33,7 +39,9 @@ export function SiteLinks() {
     setError(null);
     try {
       const h = typedNumber(hours);
-      setMade(await api<{ url: string; label: string; expiresAtMs: number }>('/api/site-links', { body: { label: label.trim(), validHours: h ?? hours } }));
+      const answer = await api<{ url: string; label: string; expiresAtMs: number; linkAddress: LinkAddress }>('/api/site-links', { body: { label: label.trim(), validHours: h ?? hours } });
+      setMade(answer);
+      setAddress(answer.linkAddress);
       setCopied(false);
       setLabel('');
       setReload(reload + 1);
@@ -56,6 +64,7 @@ export function SiteLinks() {
     <main id="main">
       <h1>Site links</h1>
       <p class="help">A site link opens the live board and the log read-only, without an account, until it expires or you withdraw it. Send it to stewards by message or let them scan its code; anyone holding it can watch.</p>
+      {address ? <LinkAddressLine address={address} /> : null}
       {error ? <p class="error-box">{error}</p> : null}
       {made ? (
         <div class="secret-box" role="status">
@@ -64,6 +73,11 @@ export function SiteLinks() {
           <p class="secret">
             <code data-testid="site-link-url">{made.url}</code>
           </p>
+          {made.linkAddress?.warning ? (
+            <p class="link-warning" role="note" data-testid="made-link-warning">
+              ⚠ This link uses the address this browser reached the server at: phones on another network may not open it.
+            </p>
+          ) : null}
           <div class="row">
             <button type="button" onClick={() => navigator.clipboard?.writeText(made.url).then(() => setCopied(true))}>
               {copied ? 'Copied' : 'Copy link'}
@@ -114,5 +128,24 @@ export function SiteLinks() {
         })}
       </ul>
     </main>
+  );
+}
+
+/** Which address the links carry: PUBLIC_URL, or this request's own with the warning. */
+function LinkAddressLine({ address }: { address: LinkAddress }) {
+  if (address.source === 'PUBLIC_URL') {
+    return (
+      <p class="ok-box" data-testid="link-address">
+        Links use the site’s public address <code>{address.origin}</code> (PUBLIC_URL).
+      </p>
+    );
+  }
+  return (
+    <div class="link-warning-box" role="note" data-testid="link-address">
+      <p>
+        <strong>⚠ Phones on another network may not reach these links.</strong>
+      </p>
+      <p>{address.warning}</p>
+    </div>
   );
 }

@@ -1,22 +1,24 @@
 /**
  * The site's settings (competent person): where it is, how air density is found, whether gusts
  * may be reduced with height and whether direction is used, the levels' dead band and hold time,
- * and the default levels every structure takes unless it has its own.
+ * and the default levels every structure takes unless it has its own. Any other role reads them
+ * as text: no inputs and no buttons, with who to ask for a change.
  */
-import { useEffect, useState } from 'preact/hooks';
+import { useEffect, useRef, useState } from 'preact/hooks';
 import { api, ApiError, errorText } from '../api.ts';
 import { Caution } from '../components/caution.tsx';
 import { Field } from '../components/field.tsx';
 import { LevelsEditor } from '../components/levelsEditor.tsx';
+import { ReadOnlyNote } from '../components/readOnlyNote.tsx';
 import { draftLevels, levelsToDraft, plainMessage, typedNumber, type LevelRowDraft } from '../register/structureDraft.ts';
 import { prefs } from '../prefs.ts';
-import { href } from '../router.ts';
+import { href, useRoute } from '../router.ts';
 import { may, session } from '../session.ts';
 import { loadSite, site, siteDensity } from '../site.ts';
 import { refreshSnapshot } from '../live.ts';
 import { useStore } from '../store.ts';
 import type { SiteView } from '../types.ts';
-import { quantity } from '../units.ts';
+import { dateTime, quantity, type SpeedUnit } from '../units.ts';
 
 interface SiteDraft {
   name: string;
@@ -58,11 +60,68 @@ function toDraft(s: SiteView, unit: Parameters<typeof levelsToDraft>[1]): SiteDr
   };
 }
 
+const densityModeText: Record<SiteView['airDensityMode'], string> = {
+  isa: 'ISA at the site’s altitude (ISO 2533)',
+  measured: 'measured on site (a sensor’s temperature, pressure and humidity)',
+  fixed: 'a fixed value',
+};
+
+/** The settings as text, for a role that cannot change them. */
+function SiteSettingsReadOnly({ s, density, unit }: { s: SiteView; density: number | null; unit: SpeedUnit }) {
+  const rows: Array<[string, string, string?]> = [
+    ['Site name', s.name],
+    ['Time zone', s.timeZone, 'Days in the log and times on every screen are in this zone.'],
+    ['Altitude', quantity(s.altitudeM, 'm', 0), 'Above sea level.'],
+    ['Terrain category (EN 1991-1-4 Table 4.1)', terrainHelp[s.terrainCategory] ?? s.terrainCategory],
+    ['Air density', `${densityModeText[s.airDensityMode]}${s.airDensityMode === 'fixed' && s.fixedAirDensityKgM3 !== null ? `: ${quantity(s.fixedAirDensityKgM3, 'kg/m³', 3)}` : ''}`, `Now ${density === null ? 'unknown' : quantity(density, 'kg/m³', 3)}.`],
+    [
+      'Gusts reduced for structures below the sensor',
+      s.heightReductionEnabled ? 'yes' : 'no (the safe default)',
+      s.heightReductionEnabled ? 'A structure lower than the sensor takes a lower gust from the EN 1991-1-4 profile.' : 'A structure below the sensor takes the sensor’s gust; one above it a higher gust.',
+    ],
+    [
+      'Wind direction',
+      s.directionalEnabled ? `used: directions within ±${s.directionSectorHalfWidthDeg}° of the governing sensor’s 10-minute mean direction` : 'not used (the safe default): every direction is assessed',
+      'The wind speed is never reduced for the angle.',
+    ],
+    ['Dead band', `${Math.round(s.deadBandFraction * 1000) / 10} %`, 'A level is lowered only once the gust is this far below its trigger…'],
+    ['Hold time', `${Math.round((s.holdTimeMs / 60_000) * 10) / 10} min`, '…and has stayed there this long. Raising is always at once.'],
+  ];
+  return (
+    <>
+      <ReadOnlyNote what="the site settings and default levels" ask="the site’s competent person" />
+      <section aria-labelledby="ro-site-h">
+        <h2 id="ro-site-h">The site, air and wind</h2>
+        <dl class="readonly-list">
+          {rows.map(([label, value, help]) => (
+            <div key={label}>
+              <dt>{label}</dt>
+              <dd>
+                {value}
+                {help ? <span class="help">{help}</span> : null}
+              </dd>
+            </div>
+          ))}
+        </dl>
+        <p class="muted small">Last changed {dateTime(s.updatedAtMs, s.timeZone)}.</p>
+      </section>
+      <section aria-labelledby="ro-levels-h">
+        <h2 id="ro-levels-h">Default levels and actions</h2>
+        <p class="help">Every structure without its own levels takes these. 60 % and 80 % of load capacity follow published event guidance; 100 % is the limit.</p>
+        <LevelsEditor idPrefix="dl" readOnly levels={levelsToDraft(s.defaultLevels, unit)} unit={unit} errors={new Map()} onChange={() => undefined} />
+      </section>
+    </>
+  );
+}
+
 export function SiteSettings() {
   const current = useStore(site);
   const density = useStore(siteDensity);
   const unit = useStore(prefs).unit;
-  const canEdit = may(useStore(session), 'competent-person');
+  const who = useStore(session);
+  const canEdit = may(who, 'competent-person');
+  const { query } = useRoute();
+  const levelsRef = useRef<HTMLElement>(null);
   const [d, setD] = useState<SiteDraft | null>(null);
   const [issues, setIssues] = useState<Map<string, string>>(new Map());
   const [message, setMessage] = useState<{ ok: boolean; text: string } | null>(null);
@@ -73,7 +132,25 @@ export function SiteSettings() {
     if (!current) void loadSite();
   }, [current]);
 
-  if (!d) return <main id="main">Loading…</main>;
+  // "#/site?section=levels" (from the first-start checklist) opens at the default levels.
+  const toLevels = query.get('section') === 'levels';
+  useEffect(() => {
+    if (toLevels && d) levelsRef.current?.scrollIntoView({ block: 'start' });
+  }, [toLevels, d !== null]);
+
+  if (!d || !current) return <main id="main">Loading…</main>;
+  if (!canEdit) {
+    return (
+      <main id="main" class="form-page">
+        <p class="crumbs">
+          <a href={href('/register')}>← Structures</a>
+        </p>
+        <h1>Site settings</h1>
+        <Caution />
+        <SiteSettingsReadOnly s={current} density={density} unit={unit} />
+      </main>
+    );
+  }
   const set = (patch: Partial<SiteDraft>) => setD({ ...d, ...patch });
   const e = (k: string) => (issues.get(k) ? plainMessage(issues.get(k)!) : undefined);
 
@@ -136,8 +213,7 @@ export function SiteSettings() {
       </p>
       <h1>Site settings</h1>
       <Caution />
-      {!canEdit ? <p class="note-box">Only a competent person can change the site settings.</p> : null}
-      <fieldset disabled={!canEdit} class="bare">
+      <fieldset class="bare">
         <section>
           <h2>The site</h2>
           <div class="grid2">
@@ -203,7 +279,7 @@ export function SiteSettings() {
             </Field>
           </div>
         </section>
-        <section>
+        <section ref={levelsRef}>
           <h2>Default levels and actions</h2>
           <p class="help">Every structure without its own levels takes these. 60 % and 80 % of load capacity follow published event guidance; 100 % is the limit.</p>
           <LevelsEditor idPrefix="dl" levels={d.levels} unit={unit} errors={issues} onChange={(levels) => set({ levels })} />
@@ -214,13 +290,11 @@ export function SiteSettings() {
           {message.text}
         </p>
       ) : null}
-      {canEdit ? (
-        <div class="row save-row">
-          <button type="button" class="primary" disabled={busy} onClick={() => void save()}>
-            {busy ? 'Saving…' : 'Save site settings'}
-          </button>
-        </div>
-      ) : null}
+      <div class="row save-row">
+        <button type="button" class="primary" disabled={busy} onClick={() => void save()}>
+          {busy ? 'Saving…' : 'Save site settings'}
+        </button>
+      </div>
     </main>
   );
 }
