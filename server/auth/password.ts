@@ -23,10 +23,15 @@ const maxmemBytes = 64 * 1024 * 1024;
  */
 export type PasswordLane = 'web' | 'broker';
 
-const lanes: Record<PasswordLane, { tail: Promise<unknown>; waiting: number }> = {
-  web: { tail: Promise.resolve(), waiting: 0 },
-  broker: { tail: Promise.resolve(), waiting: 0 },
+const lanes: Record<PasswordLane, { tail: Promise<unknown>; waiting: number; started: number }> = {
+  web: { tail: Promise.resolve(), waiting: 0, started: 0 },
+  broker: { tail: Promise.resolve(), waiting: 0, started: 0 },
 };
+
+/** Derivations started in a lane since the process started (for health and tests). */
+export function passwordDerivations(lane: PasswordLane): number {
+  return lanes[lane].started;
+}
 
 /** Derivations queued or running in a lane (for health and tests). */
 export function passwordLaneDepth(lane: PasswordLane): number {
@@ -40,6 +45,7 @@ function derive(password: string, salt: Buffer, n: number, r: number, p: number,
       scrypt(password.normalize('NFC'), salt, keyLengthBytes, { N: n, r, p, maxmem: maxmemBytes }, (err, key) => (err ? reject(err) : resolve(key)));
     });
   queue.waiting++;
+  queue.started++;
   const result = queue.tail.then(run, run).finally(() => queue.waiting--);
   queue.tail = result.catch(() => undefined);
   return result;

@@ -15,6 +15,7 @@ import { createServer, type Server, type Socket } from 'node:net';
 import { Aedes, type Client } from 'aedes';
 import type { Logger } from '../log.ts';
 import { verifyPassword } from '../auth/password.ts';
+import { SignInLimiter, type SignInLimiterOptions } from '../auth/signInLimiter.ts';
 import type { Registry, RegisteredGateway } from './registry.ts';
 import type { BrokerRefusals, RefusalInput, RefusalReason } from './rejections.ts';
 import type { ReadingSink } from './sink.ts';
@@ -34,7 +35,21 @@ export interface EmbeddedBrokerOptions {
   now?: () => number;
   /** Where refusals are recorded for the Sensors screen (who, when, topic, reason). */
   refusals?: BrokerRefusals;
+  /** Failed CONNECTs per username and per address (defaults: 10 and 30 in 15 minutes). */
+  signInLimits?: { perUsername: SignInLimiterOptions; perAddress: SignInLimiterOptions };
 }
+
+/**
+ * MQTT sign-in limits, as for the web (server/auth/signInLimiter.ts): a username is locked after
+ * 10 failed CONNECTs in 15 minutes, an address after 30 (a site's gateways may share one uplink).
+ * While locked a CONNECT is refused before any password derivation, so a flood costs nothing but
+ * the refusal. A gateway reconnecting with the password already checked passes without the
+ * limiter (the cache below), so a flood aimed at a real gateway's username cannot keep it off.
+ */
+export const defaultBrokerSignInLimits = {
+  perUsername: { maxFailures: 10, windowMs: 15 * 60_000 },
+  perAddress: { maxFailures: 30, windowMs: 15 * 60_000 },
+} as const;
 
 /** Socket errors that are a client going away, not the broker refusing it. */
 const goneCodes = new Set(['ECONNRESET', 'EPIPE', 'ECONNABORTED', 'ETIMEDOUT']);
@@ -61,7 +76,13 @@ export class EmbeddedBroker {
   /** Each connection's address, taken when it arrives (a destroyed socket no longer has one). */
   private readonly addressOf = new WeakMap<object, string>();
 
+  private readonly usernameLimiter: SignInLimiter;
+  private readonly addressLimiter: SignInLimiter;
+
   constructor(private readonly options: EmbeddedBrokerOptions) {
+    const limits = options.signInLimits ?? defaultBrokerSignInLimits;
+    this.usernameLimiter = new SignInLimiter(limits.perUsername);
+    this.addressLimiter = new SignInLimiter(limits.perAddress);
     this.status = {
       kind: 'embedded',
       listening: false,
@@ -98,11 +119,23 @@ export class EmbeddedBroker {
           this.gatewayOfClient.set(client, gateway);
           return done(null, true);
         }
-        verifyPassword(password.toString('utf8'), gateway.passwordHash).then(
+        const at = now();
+        const address = addressOfClient(client) ?? 'unknown address';
+        const waitMs = Math.max(this.usernameLimiter.retryAfterMs([gateway.username], at), this.addressLimiter.retryAfterMs([address], at));
+        if (waitMs > 0) {
+          return refuse('too many failed sign-ins', returnCodeNotAuthorized, 'locked', `too many failed sign-ins for gateway "${gateway.username}" or from ${address}: refused without checking for ${Math.ceil(waitMs / 60_000)} min`);
+        }
+        // Counted as failed before the check (twenty guesses at once must not all pass the count).
+        const undoUser = this.usernameLimiter.begin([gateway.username], at);
+        const undoAddress = this.addressLimiter.begin([address], at);
+        verifyPassword(password.toString('utf8'), gateway.passwordHash, 'broker').then(
           (ok) => {
             // Re-read: the gateway may have been revoked while the hash was being checked.
             const current = registry.gatewayByUsername(gateway.username);
             if (!ok) return refuse('bad credentials', returnCodeBadCredentials, 'wrong-password', `wrong password for gateway "${gateway.username}"`);
+            undoUser();
+            undoAddress();
+            this.usernameLimiter.succeed(gateway.username);
             if (!current) return refuse('bad credentials', returnCodeBadCredentials, 'unknown-username', `gateway "${gateway.username}" was revoked while it signed in`);
             this.verified.set(current.username, { passwordHash: current.passwordHash, digest });
             this.gatewayOfClient.set(client, current);

@@ -128,6 +128,8 @@ export type RefusalReason =
   | 'unknown-username'
   | 'no-password'
   | 'wrong-password'
+  /** Too many failed sign-ins for this username or from this address: refused without checking. */
+  | 'locked'
   | 'check-failed'
   | 'protocol'
   | 'unknown-sensor'

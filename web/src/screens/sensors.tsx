@@ -78,7 +78,23 @@ function SensorCard({ s, canEdit, onEdit }: { s: SensorView; canEdit: boolean; o
   const l = s.live;
   const nowMs = serverNow();
   const age = l?.lastReceivedAtMs == null ? null : nowMs - l.lastReceivedAtMs;
-  const trouble = !l || l.lastReceivedAtMs === null ? 'no reading yet' : l.silent ? `silent (no reading for ${duration(age ?? 0)})` : l.implausible.length > 0 ? `implausible: ${l.implausible.join(', ')}` : null;
+  // The gateway's clock as measured from arrivals: its own condition, not silence (server/wind/clockOffset.ts).
+  const offsetMs = l?.clockOffsetMs ?? null;
+  const clockWords = offsetMs === null ? 'unknown (nothing arrived in the last minute)' : Math.abs(offsetMs) < 2_000 ? 'on time' : `${duration(Math.abs(offsetMs))} ${offsetMs > 0 ? 'behind' : 'ahead'}`;
+  const clockOff = offsetMs !== null && Math.abs(offsetMs) > 10_000;
+  const arriving = l?.lastArrivalAtMs != null && nowMs - l.lastArrivalAtMs <= s.silenceTimeoutMs;
+  const trouble =
+    !l || (l.lastReceivedAtMs === null && !arriving)
+      ? 'no reading yet'
+      : l.silent
+        ? arriving
+          ? `readings arrive but cannot be used: clock ${clockWords}`
+          : `silent (no reading for ${duration(age ?? 0)})`
+        : l.implausible.length > 0
+          ? `implausible: ${l.implausible.join(', ')}`
+          : clockOff
+            ? `clock ${clockWords}: set the gateway's clock`
+            : null;
   return (
     <article class={`sensor-card${trouble ? ' sensor-bad' : ''}`}>
       <header>
@@ -102,6 +118,12 @@ function SensorCard({ s, canEdit, onEdit }: { s: SensorView; canEdit: boolean; o
         <div>
           <dt>Last reading</dt>
           <dd class="fig-age">{age === null ? 'never' : `${duration(age)} ago`}</dd>
+        </div>
+        <div>
+          <dt>Clock</dt>
+          <dd class={`fig-age${clockOff ? ' state-bad' : ''}`} title="How far the time stamps lag the server's clock, from the readings' arrival (10 s or more raises a sensor alert)">
+            {clockWords}
+          </dd>
         </div>
       </dl>
       <p class="muted small">
@@ -154,6 +176,7 @@ const refusalWords: Record<RefusalReason, string> = {
   'unknown-username': 'unknown username',
   'no-password': 'no password',
   'wrong-password': 'wrong password',
+  locked: 'too many failed sign-ins: locked for a while',
   'check-failed': 'the password check failed',
   protocol: 'refused before signing in',
   'unknown-sensor': 'no sensor has this key',
