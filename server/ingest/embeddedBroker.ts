@@ -62,6 +62,8 @@ export interface BrokerStatus {
   connectedGateways: number;
   refusedConnections: number;
   refusedPublishes: number;
+  /** Refused publishes acknowledged and dropped (the connection kept): a topic the gateway may not use. */
+  droppedPublishes: number;
 }
 
 export class PortInUseError extends Error {}
@@ -91,6 +93,7 @@ export class EmbeddedBroker {
       connectedGateways: 0,
       refusedConnections: 0,
       refusedPublishes: 0,
+      droppedPublishes: 0,
     };
   }
 
@@ -148,7 +151,10 @@ export class EmbeddedBroker {
         if (!client) return callback(null); // the broker's own $SYS messages
         const stored = this.gatewayOfClient.get(client);
         // Look the gateway up again: revoking credentials or changing its sensors takes effect at once.
-        const gateway = stored ? registry.gatewayByUsername(stored.username) : undefined;
+        const current = stored ? registry.gatewayByUsername(stored.username) : undefined;
+        // A new password ends the connections made with the old one (its field's help says the old
+        // one stops at once): treated as revoked for this connection.
+        const gateway = current && current.passwordHash === stored!.passwordHash ? current : undefined;
         const key = sensorKeyOfTopic(topicPrefix, packet.topic);
         if (!gateway || key === null || !gateway.sensorKeys.has(key)) {
           this.status.refusedPublishes++;
@@ -156,14 +162,22 @@ export class EmbeddedBroker {
           sink.refuse(key ?? '*', 'not-permitted', detail);
           const reason: RefusalReason = !gateway ? 'gateway-revoked' : key === null ? 'not-reading-topic' : registry.sensorByKey(key) ? 'other-sensor' : 'unknown-sensor';
           const words: Record<string, string> = {
-            'gateway-revoked': `gateway "${stored?.username ?? '?'}" was revoked after it connected`,
+            'gateway-revoked': current ? `gateway "${stored?.username ?? '?'}" has a new password since it connected: sign in again with it` : `gateway "${stored?.username ?? '?'}" was revoked after it connected`,
             'not-reading-topic': `"${packet.topic.slice(0, 120)}" is not a reading topic (${topicPrefix}/<sensor key>/reading)`,
             'other-sensor': `sensor "${key}" is not one of gateway "${gateway?.username}"'s sensors`,
             'unknown-sensor': `no sensor is registered with the key "${key}"`,
           };
           const payload = typeof packet.payload === 'string' ? Buffer.from(packet.payload) : packet.payload;
           record({ kind: 'publish', reason, detail: words[reason]!, clientId: client.id ?? null, username: stored?.username ?? null, address: addressOfClient(client), topic: packet.topic, payload });
-          return callback(new Error(detail));
+          // Revoked (or a new password): the connection ends. A topic the gateway may not use is
+          // acknowledged and dropped instead (issue 13 item 1): MQTT 3.1.1 has no negative PUBACK,
+          // and closing the connection made the gateway resend that same QoS 1 message first on
+          // every reconnect, starving every sensor behind it. Nothing can subscribe here
+          // (authorizeSubscribe), so a message let through goes nowhere; it is never retained.
+          if (!gateway) return callback(new Error(detail));
+          packet.retain = false;
+          this.status.droppedPublishes++;
+          return callback(null);
         }
         const payload = typeof packet.payload === 'string' ? Buffer.from(packet.payload) : packet.payload;
         sink.accept(packet.topic, payload, now()).then(
