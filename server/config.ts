@@ -38,6 +38,13 @@ export interface Config {
   /** Behind a TLS reverse proxy: trust X-Forwarded-Proto / X-Forwarded-For (TRUST_PROXY=1). */
   trustProxy: boolean;
   /**
+   * How many reverse proxies in front of the server append to X-Forwarded-For (TRUST_PROXY=1 or
+   * true: one; TRUST_PROXY=2: two, e.g. a CDN and nginx). The client's address is the entry the
+   * outermost trusted proxy appended: the n-th from the right; entries further left are whatever
+   * the client sent, and are never used.
+   */
+  proxyHops: number;
+  /**
    * The address phones reach the app at (PUBLIC_URL), as an origin without a trailing slash
    * ("https://wind.example.org"); site links are made with it. Null: links take the address the
    * request came in on, and the Site links screen warns that other networks may not reach it.
@@ -126,6 +133,11 @@ export function configFromEnv(env: NodeJS.ProcessEnv = process.env, argv: readon
   if (protocol !== 4 && protocol !== 5) throw new ConfigError('MQTT_PROTOCOL_VERSION must be 4 or 5');
   const mqttUrl = textVar(env, 'MQTT_URL');
   if (mqttUrl !== null) checkBrokerUrl(mqttUrl, protocol, textVar(env, 'MQTT_USERNAME'), textVar(env, 'MQTT_PASSWORD'));
+  const trustText = (env.TRUST_PROXY ?? '').trim().toLowerCase();
+  const proxyHops = trustText === '' || trustText === '0' || trustText === 'false' ? 0 : trustText === 'true' ? 1 : Number(trustText);
+  if (!Number.isInteger(proxyHops) || proxyHops < 0 || proxyHops > 5) {
+    throw new ConfigError(`TRUST_PROXY must be 1 (or true) for one reverse proxy, 2–5 for that many in a row, or unset; got "${env.TRUST_PROXY}"`);
+  }
   const publicUrlText = textVar(env, 'PUBLIC_URL');
   const publicUrl = publicUrlText === null ? null : checkPublicUrl(publicUrlText.trim());
   return {
@@ -147,7 +159,8 @@ export function configFromEnv(env: NodeJS.ProcessEnv = process.env, argv: readon
     logLevel: textVar(env, 'LOG_LEVEL') ?? 'info',
     adminUsername,
     adminPassword,
-    trustProxy: env.TRUST_PROXY === '1' || env.TRUST_PROXY === 'true',
+    trustProxy: proxyHops > 0,
+    proxyHops,
     publicUrl,
     demo: argv.includes('--demo') || env.DEMO === '1',
     demoSeed: intVar(env, 'DEMO_SEED', 20260614, 0, 2 ** 31 - 1),

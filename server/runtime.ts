@@ -292,9 +292,9 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     access: { accounts, now, csrfExempt: new Set(['/api/session', '/api/setup', '/api/assess']) },
     origin: { trustProxy: config.trustProxy, extraOrigins: config.publicUrl ? [new URL(config.publicUrl).origin] : [], exempt: new Set(['/api/assess']), otherBodyTypes: new Map([['/api/register/import', ['text/csv']]]) },
     routes: [
-      { path: '/api', app: accessRoutes({ accounts, limiter, addressLimiter, now, trustProxy: config.trustProxy, publicUrl: config.publicUrl }) },
+      { path: '/api', app: accessRoutes({ accounts, limiter, addressLimiter, now, trustProxy: config.trustProxy, proxyHops: config.proxyHops, publicUrl: config.publicUrl }) },
       { path: '/api', app: apiRoutes(ctx) },
-      { path: '/link', app: siteLinkOpener({ accounts, limiter, addressLimiter, now, trustProxy: config.trustProxy }) },
+      { path: '/link', app: siteLinkOpener({ accounts, limiter, addressLimiter, now, trustProxy: config.trustProxy, proxyHops: config.proxyHops }) },
     ],
     staticRoot,
   });

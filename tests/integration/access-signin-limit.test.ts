@@ -110,3 +110,39 @@ describe('after 15 minutes', () => {
     expect((await signIn(ts, adminUsername, adminPassword)).status).toBe(200);
   });
 });
+
+/**
+ * Behind a trusted proxy (issue 13 item 6): the proxy appends the address it saw to
+ * X-Forwarded-For (MDN, X-Forwarded-For: "the rightmost IP address is the IP address of the most
+ * recent proxy"; RFC 7239 §5.2 for the Forwarded equivalent), and everything to its left is what the
+ * client sent. The release keyed on the leftmost entry: 40 of 40 guesses with a rotated leftmost
+ * entry were checked, and a chosen address could be locked out.
+ */
+describe('behind one trusted proxy (TRUST_PROXY=1)', () => {
+  let ts: TestServer;
+  const proxied = (clientSent: string | null, proxySaw: string) => ({ 'x-forwarded-for': clientSent ? `${clientSent}, ${proxySaw}` : proxySaw });
+
+  beforeAll(async () => {
+    ts = await startTestServer({ TRUST_PROXY: '1' });
+  });
+
+  afterAll(async () => {
+    await ts?.stop();
+  });
+
+  it('rotating the leftmost entry does not escape the address lock: after thirty failures the address the proxy saw is locked', async () => {
+    const statuses: number[] = [];
+    for (let i = 0; i < 40; i++) {
+      const res = await signIn(ts, `guess-${i}`, 'wrong-password', proxied(`10.9.${i}.1`, '203.0.113.7'));
+      statuses.push(res.status);
+    }
+    expect(statuses.slice(0, 30).every((s) => s === 401)).toBe(true);
+    expect(statuses.slice(30).every((s) => s === 429)).toBe(true);
+  });
+
+  it('a client cannot lock out an address of its choosing by sending it: the victim still signs in', async () => {
+    for (let i = 0; i < 35; i++) await signIn(ts, `other-${i}`, 'wrong-password', proxied('198.51.100.9', '203.0.113.8'));
+    const victim = await signIn(ts, adminUsername, adminPassword, proxied(null, '198.51.100.9'));
+    expect(victim.status).toBe(200);
+  });
+});

@@ -74,3 +74,17 @@ describe('PUBLIC_URL', () => {
     expect(message).not.toContain('hunter2-secret');
   });
 });
+
+describe('TRUST_PROXY (issue 13 item 6: how many proxies are trusted)', () => {
+  it('unset, 0 or false trusts none; 1 or true one; 2–5 that many', () => {
+    expect(configFromEnv({}).proxyHops).toBe(0);
+    expect(configFromEnv({ TRUST_PROXY: 'false' }).trustProxy).toBe(false);
+    expect(configFromEnv({ TRUST_PROXY: 'true' }).proxyHops).toBe(1);
+    expect(configFromEnv({ TRUST_PROXY: '1' }).trustProxy).toBe(true);
+    expect(configFromEnv({ TRUST_PROXY: '3' }).proxyHops).toBe(3);
+  });
+
+  it('anything else stops the server with the reason', () => {
+    for (const v of ['yes', '6', '-1', '1.5']) expect(() => configFromEnv({ TRUST_PROXY: v }), v).toThrow(ConfigError);
+  });
+});

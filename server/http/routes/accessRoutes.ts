@@ -18,6 +18,8 @@ export interface AccessRouteDeps {
   addressLimiter: SignInLimiter;
   now: () => number;
   trustProxy: boolean;
+  /** Trusted proxies appending to X-Forwarded-For (config.proxyHops); default 1 when trustProxy. */
+  proxyHops?: number;
   /** PUBLIC_URL as an origin: site links are made with it; null takes the request's own address. */
   publicUrl?: string | null;
 }
@@ -69,10 +71,17 @@ const siteLinkSchema = z.strictObject({
   validHours: z.number().gt(0).max(31 * 24).default(72),
 });
 
-function clientAddress(c: { req: { header(name: string): string | undefined } }, trustProxy: boolean, fallback: string): string {
-  if (trustProxy) {
-    const forwarded = c.req.header('x-forwarded-for');
-    if (forwarded) return forwarded.split(',')[0]!.trim();
+/**
+ * The client's address for the sign-in limit. Behind `proxyHops` trusted proxies it is the
+ * X-Forwarded-For entry the outermost of them appended (the n-th from the right): the entries to
+ * its left are whatever the client sent and would let it pick its own address (issue 13 item 6).
+ * With fewer entries than trusted proxies the request did not come through them: the socket's
+ * address is used.
+ */
+export function clientAddress(c: { req: { header(name: string): string | undefined } }, proxyHops: number, fallback: string): string {
+  if (proxyHops > 0) {
+    const entries = (c.req.header('x-forwarded-for') ?? '').split(',').map((e) => e.trim()).filter((e) => e.length > 0);
+    if (entries.length >= proxyHops) return entries[entries.length - proxyHops]!;
   }
   return fallback;
 }
@@ -98,7 +107,7 @@ export function accessRoutes(deps: AccessRouteDeps): Hono<AppEnv> {
     const input = await jsonBody(c, signInSchema);
     const remote = (c.env as { incoming?: { socket?: { remoteAddress?: string } } } | undefined)?.incoming?.socket?.remoteAddress ?? 'local';
     const userKeys = [`user:${input.username.toLowerCase()}`];
-    const addressKeys = [`addr:${clientAddress(c, deps.trustProxy, remote)}`];
+    const addressKeys = [`addr:${clientAddress(c, deps.proxyHops ?? (deps.trustProxy ? 1 : 0), remote)}`];
     const waitMs = Math.max(limiter.retryAfterMs(userKeys, now()), deps.addressLimiter.retryAfterMs(addressKeys, now()));
     if (waitMs > 0) {
       c.header('Retry-After', String(Math.ceil(waitMs / 1000)));
