@@ -131,7 +131,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
 
   const accounts = new Accounts(db);
   const registry = new Registry(db);
-  const rejections = new RejectionLog(sqlite, log, now);
+  const rejections = new RejectionLog(sqlite, log, now, (key) => registry.sensorByKey(key) !== undefined);
   // Each sensor's newest minute rollup lived in memory until the last stop: recompute it.
   const newestMinutes = rebuildNewestMinutes(sqlite);
   const queue = new WriteQueue(sqlite, now, config.mqttUrl ? 0 : 2, newestMinutes);

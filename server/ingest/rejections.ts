@@ -24,6 +24,17 @@ export interface RejectionCount {
 
 /** How often the same sensor and reason may reach the log. */
 export const rejectionLogIntervalMs = 60_000;
+/**
+ * Most sensor keys counted one by one (issue 13 item 9: 1,000 distinct unknown keys made 1,000
+ * entries and log lines in 2.5 s). Past it, a key that is not a registered sensor's is counted in
+ * one "other keys" entry per reason (its detail names the latest key); registered sensors always
+ * keep their own entry.
+ */
+export const maxRejectionKeys = 200;
+/** The key of the bucket for keys past `maxRejectionKeys`. */
+export const otherKeysBucket = '(other keys)';
+/** Most rejection log lines per interval across all keys; the rest are summed in one line. */
+export const maxRejectionLogLinesPerInterval = 20;
 const flushIntervalMs = 1_000;
 const maxDetailLength = 300;
 
@@ -37,16 +48,27 @@ export class RejectionLog {
   /** Refusals at the embedded broker since this server started (memory only, bounded). */
   readonly refusals: BrokerRefusals;
 
+  private readonly sensorKeys = new Set<string>();
+  private logWindowStartMs = -Infinity;
+  private logLinesInWindow = 0;
+  private unloggedInWindow = 0;
+
+  /**
+   * @param isRegistered whether a key is a registered sensor's (those are never bucketed); by
+   *   default no key is, and every key past the cap goes to the bucket.
+   */
   constructor(
     private readonly sqlite: Database.Database,
     private readonly log: Logger,
     private readonly now: () => number = Date.now,
+    private readonly isRegistered: (sensorKey: string) => boolean = () => false,
   ) {
     this.refusals = new BrokerRefusals(now);
     for (const row of sqlite
       .prepare('SELECT sensor_key AS sensorKey, reason, count, first_at_ms AS firstAtMs, last_at_ms AS lastAtMs, last_detail AS lastDetail FROM rejections')
       .all() as RejectionCount[]) {
       this.counts.set(`${row.sensorKey}\u0000${row.reason}`, row);
+      this.sensorKeys.add(row.sensorKey);
       this.total += row.count;
     }
     this.upsert = sqlite.prepare(
@@ -55,10 +77,14 @@ export class RejectionLog {
     );
   }
 
-  record(sensorKey: string, reason: string, detail: string): void {
+  record(givenKey: string, reason: string, detail: string): void {
     const atMs = this.now();
+    const bucketed = !this.sensorKeys.has(givenKey) && this.sensorKeys.size >= maxRejectionKeys && !this.isRegistered(givenKey);
+    const sensorKey = bucketed ? otherKeysBucket : givenKey;
+    if (!bucketed) this.sensorKeys.add(sensorKey);
     const key = `${sensorKey}\u0000${reason}`;
-    const shortDetail = detail.length > maxDetailLength ? detail.slice(0, maxDetailLength) + '…' : detail;
+    const fullDetail = bucketed ? `key "${givenKey.slice(0, 64)}": ${detail}` : detail;
+    const shortDetail = fullDetail.length > maxDetailLength ? fullDetail.slice(0, maxDetailLength) + '…' : fullDetail;
     let entry = this.counts.get(key);
     if (!entry) {
       entry = { sensorKey, reason, count: 0, firstAtMs: atMs, lastAtMs: atMs, lastDetail: shortDetail };
@@ -71,8 +97,21 @@ export class RejectionLog {
     this.dirty.add(key);
     const last = this.lastLoggedAtMs.get(key);
     if (last === undefined || atMs - last >= rejectionLogIntervalMs) {
-      this.lastLoggedAtMs.set(key, atMs);
-      this.log.warn({ sensorKey, reason, detail: shortDetail, countSoFar: entry.count }, 'payload rejected');
+      // Across keys too: at most maxRejectionLogLinesPerInterval lines a minute, then one line
+      // with how many were left out.
+      if (atMs - this.logWindowStartMs >= rejectionLogIntervalMs) {
+        if (this.unloggedInWindow > 0) this.log.warn({ notLogged: this.unloggedInWindow }, 'more payloads rejected than logged in the last minute (counts are complete: GET /api/rejections)');
+        this.logWindowStartMs = atMs;
+        this.logLinesInWindow = 0;
+        this.unloggedInWindow = 0;
+      }
+      if (this.logLinesInWindow < maxRejectionLogLinesPerInterval) {
+        this.logLinesInWindow++;
+        this.lastLoggedAtMs.set(key, atMs);
+        this.log.warn({ sensorKey, reason, detail: shortDetail, countSoFar: entry.count }, 'payload rejected');
+      } else {
+        this.unloggedInWindow++;
+      }
     }
     if (!this.timer) {
       this.timer = setTimeout(() => this.flush(), flushIntervalMs);
