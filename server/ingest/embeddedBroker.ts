@@ -24,6 +24,8 @@ import { sensorKeyOfTopic } from './topic.ts';
 /** aedes's CONNACK return codes (its `AuthErrorCode` is a const enum, not importable at run time). */
 const returnCodeBadCredentials = 4;
 const returnCodeNotAuthorized = 5;
+/** CONNACK 2: identifier rejected (MQTT 3.1.1 §3.2.2.3). */
+const returnCodeIdentifierRejected = 2;
 
 export interface EmbeddedBrokerOptions {
   host: string;
@@ -117,8 +119,20 @@ export class EmbeddedBroker {
         // A gateway reconnecting with the password it used before is not hashed again: scrypt
         // costs 32 MiB and ~50 ms, and after a site's network blip every gateway reconnects at once.
         const digest = createHash('sha256').update(password).digest('hex');
+        // A client id belongs to the gateway using it: another gateway connecting with it would
+        // take over the session and knock the first one offline (issue 13 item 5).
+        const takenBy = (): string | null => {
+          // aedes keeps its live clients by id (aedes.js: `this.clients`), not in its typings.
+          const existing = (this.aedes as unknown as { clients?: Record<string, Client> } | null)?.clients?.[client.id];
+          const owner = existing && existing !== client ? this.gatewayOfClient.get(existing) : undefined;
+          return owner && owner.username !== gateway.username ? owner.username : null;
+        };
+        const refuseTaken = (owner: string): void =>
+          refuse('client id in use by another gateway', returnCodeIdentifierRejected, 'client-id-taken', `client id "${client.id.slice(0, 64)}" is in use by gateway "${owner}"; give each gateway its own client id`);
         const known = this.verified.get(gateway.username);
         if (known && known.passwordHash === gateway.passwordHash && known.digest === digest) {
+          const owner = takenBy();
+          if (owner !== null) return refuseTaken(owner);
           this.gatewayOfClient.set(client, gateway);
           return done(null, true);
         }
@@ -141,6 +155,8 @@ export class EmbeddedBroker {
             this.usernameLimiter.succeed(gateway.username);
             if (!current) return refuse('bad credentials', returnCodeBadCredentials, 'unknown-username', `gateway "${gateway.username}" was revoked while it signed in`);
             this.verified.set(current.username, { passwordHash: current.passwordHash, digest });
+            const owner = takenBy();
+            if (owner !== null) return refuseTaken(owner);
             this.gatewayOfClient.set(client, current);
             done(null, true);
           },

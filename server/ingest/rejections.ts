@@ -169,6 +169,8 @@ export type RefusalReason =
   | 'wrong-password'
   /** Too many failed sign-ins for this username or from this address: refused without checking. */
   | 'locked'
+  /** The client id is in use by another gateway's live connection. */
+  | 'client-id-taken'
   | 'check-failed'
   | 'protocol'
   | 'unknown-sensor'

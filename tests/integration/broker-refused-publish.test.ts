@@ -82,3 +82,29 @@ describe('rotating a gateway password', () => {
     await expect(connect(gatePassword)).rejects.toThrow(/Bad username or password|Not authorized/i);
   }, 30_000);
 });
+
+describe('client ids belong to their gateway (issue 13 item 5)', () => {
+  it('another gateway connecting with a client id in use is refused (CONNACK 2, identifier rejected), and the first stays connected', async () => {
+    const roof = await api.json('POST', '/api/gateways', { name: 'Roof gateway', username: 'roof-gw', sensorKeys: [] });
+    expect(roof.status).toBe(201);
+    const rotated = await api.json('PATCH', `/api/gateways/${gatewayId}`, { newPassword: true });
+    const gate = await connect(rotated.body.password);
+    let gateClosed = false;
+    gate.on('close', () => (gateClosed = true));
+    const intruder = new Promise<string>((resolve) => {
+      const c = mqtt.connect(`mqtt://127.0.0.1:${ts.server.mqttPort}`, { reconnectPeriod: 0, connectTimeout: 5_000, protocolVersion: 4, username: 'roof-gw', password: roof.body.password, clientId: 'gate-gw-1' });
+      c.once('connect', () => (c.end(true), resolve('connected')));
+      c.once('error', (err) => (c.end(true), resolve(String(err))));
+    });
+    expect(await intruder).toMatch(/Identifier rejected/i);
+    await new Promise((r) => setTimeout(r, 200));
+    expect(gateClosed).toBe(false);
+    expect(gate.connected).toBe(true);
+    // The same gateway reconnecting with its own client id takes over its session as MQTT says (3.1.4-2).
+    const again = await connect(rotated.body.password);
+    again.end(true);
+    gate.end(true);
+    const refusals = (await api.json('GET', '/api/refusals')).body.refusals as Array<{ reason: string; username: string }>;
+    expect(refusals.some((r) => r.reason === 'client-id-taken' && r.username === 'roof-gw')).toBe(true);
+  }, 30_000);
+});

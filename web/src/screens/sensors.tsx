@@ -177,6 +177,7 @@ const refusalWords: Record<RefusalReason, string> = {
   'no-password': 'no password',
   'wrong-password': 'wrong password',
   locked: 'too many failed sign-ins: locked for a while',
+  'client-id-taken': 'client id used by another gateway',
   'check-failed': 'the password check failed',
   protocol: 'refused before signing in',
   'unknown-sensor': 'no sensor has this key',
