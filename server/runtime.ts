@@ -284,7 +284,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     close: async () => undefined,
   };
 
-  const ctx: ApiContext = { db, registry, watch, queue, hub, rejections, accounts, now, reloadRegister, topicPrefix: config.topicPrefix, health };
+  const ctx: ApiContext = { db, registry, watch, queue, hub, rejections, accounts, now, reloadRegister, topicPrefix: config.topicPrefix, health, log };
   const staticRoot = options.staticRoot === undefined ? path.resolve('web/dist') : options.staticRoot;
   const app = createApp({
     health: { health },

@@ -6,6 +6,7 @@ import type { LiveHub } from '../../live/liveHub.ts';
 import type { Db } from '../../storage/database.ts';
 import type { WriteQueue } from '../../storage/writeQueue.ts';
 import type { Watch } from '../../watch/watch.ts';
+import type { Logger } from '../../log.ts';
 
 export interface ApiContext {
   db: Db;
@@ -21,4 +22,6 @@ export interface ApiContext {
   reloadRegister: () => void;
   topicPrefix: string;
   health: () => Record<string, unknown>;
+  /** For what the routes notice that an operator should see (a stream client dropped). */
+  log?: Logger;
 }

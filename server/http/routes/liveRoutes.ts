@@ -60,6 +60,15 @@ const acknowledgeAllSchema = z
   });
 
 export const pingIntervalMs = 15_000;
+/**
+ * A stream client that stops reading (a phone gone to sleep with its socket open, a stalled
+ * proxy) is dropped instead of kept forever (issue 13 item 7): when one write has not finished
+ * within `streamWriteTimeoutMs`, or more than `streamMaxQueuedChars` of events wait for it. It
+ * reconnects by itself and resumes from Last-Event-ID (or a fresh snapshot), so it loses nothing
+ * it can still show. Common practice: bound what one slow reader can make a server hold.
+ */
+export const streamWriteTimeoutMs = 30_000;
+export const streamMaxQueuedChars = 1024 * 1024;
 
 export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
   const api = new Hono<AppEnv>();
@@ -71,33 +80,62 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
   api.get('/stream', requireRole('viewer'), (c) => {
     const header = c.req.header('last-event-id') ?? c.req.query('lastEventId');
     const lastSeen = header !== undefined && /^[0-9]{1,15}$/.test(header) ? Number(header) : null;
+    const socket = (c.env as { incoming?: { socket?: { destroy(): void } } } | undefined)?.incoming?.socket;
     return streamSSE(c, async (stream) => {
       const queue: Array<{ id: number; kind: string; data: string }> = [];
+      let queuedChars = 0;
       let wake: (() => void) | null = null;
+      const drop = (): void => {
+        if (stream.aborted) return;
+        stream.abort();
+        // Free the kernel's buffers too: the socket goes, the phone reconnects.
+        socket?.destroy();
+      };
       const off = ctx.hub.subscribe((event) => {
         queue.push(event);
+        queuedChars += event.data.length;
+        if (queuedChars > streamMaxQueuedChars) {
+          ctx.log?.warn({ queuedChars }, 'live stream client not reading: dropped (it resumes by Last-Event-ID)');
+          queue.length = 0;
+          queuedChars = 0;
+          drop();
+        }
         wake?.();
       });
       stream.onAbort(() => {
         off();
         wake?.();
       });
+      const write = async (message: { id?: string; event: string; data: string; retry?: number }): Promise<void> => {
+        let timer: NodeJS.Timeout | undefined;
+        const timedOut = new Promise<'timeout'>((resolve) => (timer = setTimeout(() => resolve('timeout'), streamWriteTimeoutMs)));
+        const result = await Promise.race([stream.writeSSE(message).then(() => 'written' as const), timedOut]);
+        clearTimeout(timer);
+        if (result === 'timeout') drop();
+      };
       // Retry after 2 s when the connection drops (EventSource reconnects by itself).
-      await stream.writeSSE({ event: 'hello', data: JSON.stringify({ lastEventId: ctx.hub.lastId }), retry: 2000 });
+      await write({ event: 'hello', data: JSON.stringify({ lastEventId: ctx.hub.lastId }), retry: 2000 });
       const missed = lastSeen === null ? null : ctx.hub.since(lastSeen);
+      let sentUpTo: number;
       if (missed === null) {
-        await stream.writeSSE({ id: String(ctx.hub.lastId), event: 'snapshot', data: JSON.stringify(ctx.watch.snapshot()) });
-        // Events published before the snapshot are already in it.
-        queue.length = 0;
+        sentUpTo = ctx.hub.lastId;
+        await write({ id: String(sentUpTo), event: 'snapshot', data: JSON.stringify(ctx.watch.snapshot()) });
       } else {
-        for (const e of missed) await stream.writeSSE({ id: String(e.id), event: e.kind, data: e.data });
-        queue.length = 0;
+        sentUpTo = lastSeen!;
+        for (const e of missed) {
+          if (stream.aborted) break;
+          await write({ id: String(e.id), event: e.kind, data: e.data });
+          sentUpTo = e.id;
+        }
       }
       let lastPing = Date.now();
       while (!stream.aborted) {
         while (queue.length > 0 && !stream.aborted) {
           const e = queue.shift()!;
-          await stream.writeSSE({ id: String(e.id), event: e.kind, data: e.data });
+          queuedChars -= e.data.length;
+          // Already in the snapshot or the replay (events that came while those were written are kept).
+          if (e.id <= sentUpTo) continue;
+          await write({ id: String(e.id), event: e.kind, data: e.data });
         }
         if (stream.aborted) break;
         await new Promise<void>((resolve) => {
@@ -107,7 +145,7 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
         wake = null;
         if (Date.now() - lastPing >= pingIntervalMs) {
           lastPing = Date.now();
-          await stream.writeSSE({ event: 'ping', data: String(ctx.now()) });
+          await write({ event: 'ping', data: String(ctx.now()) });
         }
       }
       off();
