@@ -9,6 +9,8 @@
  * Unknown fields are rejected: a misspelt `ratedGustMps` must not silently drop the rating.
  */
 import { z } from 'zod';
+import { plainIssueMessage } from './issueWords.ts';
+import { expandStructure } from './kinds/index.ts';
 import { bannerRecordSchema } from './kinds/banner.ts';
 import { customRecordSchema } from './kinds/custom.ts';
 import { screenRecordSchema } from './kinds/screen.ts';
@@ -48,25 +50,55 @@ function dottedPath(prefix: string, path: ReadonlyArray<PropertyKey>): string {
 
 /**
  * Zod issues as record issues under `prefix`. An unknown key is reported at its own path, so the
- * answer names the offending field rather than the object holding it.
+ * answer names the offending field rather than the object holding it; the library's own wording
+ * becomes a plain phrase (issueWords.ts).
  */
 export function recordIssues(issues: ReadonlyArray<z.core.$ZodIssue>, prefix = ''): RecordIssue[] {
   return issues.flatMap((issue) =>
     issue.code === 'unrecognized_keys'
       ? issue.keys.map((key) => ({ path: dottedPath(prefix, [...issue.path, key]), message: 'is not a known field (check the spelling)' }))
-      : [{ path: dottedPath(prefix, issue.path), message: issue.message }],
+      : [{ path: dottedPath(prefix, issue.path), message: plainIssueMessage(issue) }],
   );
 }
 
 /**
+ * A reference height below a face's centroid is refused: the gust is taken at the reference
+ * height, and the wind profile grows with height, so a lower one would under-read the wind on
+ * that face (EN 1991-1-4 §4.3: the mean wind grows with height over the profile). The record is
+ * expanded without its reference height to find the faces (and, for the message, the default
+ * that would apply instead: the structure's top). Faces of no area load nothing and are skipped.
+ */
+function referenceHeightIssue(record: StructureRecord): RecordIssue | null {
+  const givenM = record.referenceHeightM;
+  if (givenM === undefined) return null;
+  const { referenceHeightM: _given, ...rest } = record;
+  const expansion = expandStructure(rest as StructureRecord);
+  const faces = [...expansion.structure.faces, ...(expansion.structure.elements ?? []).flatMap((element) => element.faces)].filter((face) => face.areaM2 > 0);
+  if (faces.length === 0) return null;
+  const highest = faces.reduce((top, face) => (face.centroidHeightM > top.centroidHeightM ? face : top));
+  // Rounding of the message only: the comparison is exact.
+  if (givenM >= highest.centroidHeightM) return null;
+  const where = highest.label ? `the centroid of “${highest.label}”` : 'the highest face centroid';
+  const m = (value: number) => `${Math.round(value * 100) / 100} m`;
+  return {
+    path: 'referenceHeightM',
+    message:
+      `must be at least ${m(highest.centroidHeightM)}, the height of ${where}: the gust is taken at the reference height, and one below a face's centroid under-reads the wind on that face. ` +
+      `Give ${m(highest.centroidHeightM)} or more, or leave it out for the top of the structure (${m(expansion.referenceHeightM)}).`,
+  };
+}
+
+/**
  * Checks any input as a structure record. Returns the parsed record (strings trimmed) or every
- * problem found.
+ * problem found. A reference height below a face's centroid is refused (referenceHeightIssue).
  *
  * @example validateStructureRecord({ kind: 'banner', name: 'Gate', widthM: -3, ... })
  *   // → { ok: false, issues: [{ path: 'widthM', message: 'must be > 0 m' }, ...] }
  */
 export function validateStructureRecord(input: unknown): RecordValidation {
-  const parsed = structureRecordSchema.safeParse(input);
-  if (parsed.success) return { ok: true, record: parsed.data };
-  return { ok: false, issues: recordIssues(parsed.error.issues) };
+  // reportInput: the plain wording names the value given ("must be one of tent, …, not “yurt”").
+  const parsed = structureRecordSchema.safeParse(input, { reportInput: true });
+  if (!parsed.success) return { ok: false, issues: recordIssues(parsed.error.issues) };
+  const height = referenceHeightIssue(parsed.data);
+  return height ? { ok: false, issues: [height] } : { ok: true, record: parsed.data };
 }

@@ -136,11 +136,14 @@ describe.skipIf(skip)('web app in a real browser', () => {
     await page.goto(`${e2e.baseUrl}/#/register/new`);
     await page.getByRole('radio', { name: 'Banner, fence scrim or hoarding' }).click();
     await page.fill('#sf-name', structureName);
-    const dims: Record<string, string> = { widthM: '6', heightM: '2', clearanceM: '0.2', feet: '4', ballastPerFootKg: '60', footDepthM: '0.8', selfWeightKg: '80' };
+    // Panels are the natural way in: panel width and count, the run's length and feet follow.
+    const dims: Record<string, string> = { panelWidthM: '2', panels: '3', heightM: '2', clearanceM: '0.2', ballastPerFootKg: '60', footDepthM: '0.8', selfWeightKg: '80' };
     for (const [field, value] of Object.entries(dims)) await page.fill(`#sf-${field}`, value);
+    // A new form starts empty: the bearing the front faces is asked for, never assumed.
+    await page.fill('#sf-orient', '0');
 
     // The same record through the public calculator: the form must show that limit.
-    const record = { kind: 'banner', name: structureName, widthM: 6, heightM: 2, clearanceM: 0.2, feet: 4, ballastPerFootKg: 60, footDepthM: 0.8, selfWeightKg: 80, surface: 'grass' };
+    const record = { kind: 'banner', name: structureName, panelWidthM: 2, panels: 3, heightM: 2, clearanceM: 0.2, ballastPerFootKg: 60, footDepthM: 0.8, selfWeightKg: 80, surface: 'grass' };
     const site = await adminApi.call<{ airDensityKgM3: number }>('GET', '/api/site');
     const expected = await adminApi.call<AssessAnswer>('POST', '/api/assess', { structure: record, gustMps: 20, airDensityKgM3: site.airDensityKgM3 });
     expect(expected.limitGustMps).not.toBeNull();
@@ -150,11 +153,11 @@ describe.skipIf(skip)('web app in a real browser', () => {
     await expect.poll(() => page.getByTestId('limit-gust').textContent(), { timeout: 5_000 }).toBe(shown);
 
     // A field error from the server appears next to its field, and goes when it is fixed.
-    await page.fill('#sf-feet', '2.5');
-    await page.locator('#sf-feet').blur();
-    await page.locator('.field.has-error', { has: page.locator('#sf-feet') }).getByText('must be a whole number').waitFor();
-    await page.fill('#sf-feet', '4');
-    await expect.poll(() => page.locator('.field.has-error', { has: page.locator('#sf-feet') }).count()).toBe(0);
+    await page.fill('#sf-panels', '2.5');
+    await page.locator('#sf-panels').blur();
+    await page.locator('.field.has-error', { has: page.locator('#sf-panels') }).getByText(/whole number/).waitFor();
+    await page.fill('#sf-panels', '3');
+    await expect.poll(() => page.locator('.field.has-error', { has: page.locator('#sf-panels') }).count()).toBe(0);
 
     await page.locator('svg[aria-label^="Side view"]').waitFor();
     await screenshot(page, 'register-form-phone');
@@ -217,30 +220,31 @@ describe.skipIf(skip)('web app in a real browser', () => {
     const viewerAlert = viewerPage.locator('article.alert-card', { hasText: 'Stop and clear' });
     await viewerAlert.waitFor();
     await expect(viewerAlert.getByRole('button', { name: 'Acknowledge' }).count()).resolves.toBe(0);
-    await viewerAlert.getByText('Crew and above can acknowledge').waitFor();
+    await viewerAlert.getByText('not yet acknowledged by the crew').waitFor();
     await viewerContext.close();
 
     const crewContext = await browser.newContext({ viewport: phone });
     const crewPage = await crewContext.newPage();
     await signInThroughForm(crewPage, e2e.baseUrl, crew.username, crew.password);
     const alert = crewPage.locator('article.alert-card', { hasText: structureName }).filter({ hasText: 'Stop and clear' });
-    await alert.getByRole('button', { name: 'Acknowledge' }).click();
+    await alert.getByRole('button', { name: 'Add a note' }).click();
     await alert.getByLabel('Note (optional): what you did or saw').fill(ackNote);
-    await alert.getByRole('button', { name: 'Confirm acknowledgement' }).click();
-    // Acknowledged and still in force: one line under the structure's name, with who and the note.
-    const line = crewPage.locator('li.alert-group', { hasText: structureName }).locator('li.ack-line', { hasText: 'Stop and clear' });
-    await line.locator('.ack-line-text', { hasText: `✓ ${crew.displayName}` }).waitFor();
-    await expect(crewPage.locator('li.alert-group', { hasText: structureName }).locator('.acked-h').textContent()).resolves.toMatch(/acknowledged, still in force/i);
-    await expect(crewPage.locator('article.alert-card', { hasText: 'Stop and clear' }).count()).resolves.toBe(0);
-    await line.locator('summary').click();
-    await line.getByText(ackNote, { exact: false }).waitFor();
+    await alert.getByRole('button', { name: 'Acknowledge', exact: true }).click();
+    // Acknowledged and still in force: the card stays, still led by the level and its action,
+    // with who acknowledged and the note (design §2.6: acknowledged alerts never hide the level).
+    const done = alert.locator('.current-level .ack-done', { hasText: `Acknowledged by ${crew.displayName}` });
+    await done.waitFor();
+    await expect(done.textContent()).resolves.toContain(ackNote);
+    await expect(alert.locator('header .alert-label').innerText()).resolves.toBe('Level 3 · Stop and clear');
+    await expect(alert.textContent()).resolves.toContain('Clear everyone out of the structure');
+    await expect(alert.getByRole('button', { name: /^Acknowledge/ }).count()).resolves.toBe(0);
     await crewContext.close();
 
     // The acknowledgement is stored with the person's name and note, and reaches the other phone live.
     const live = await adminApi.call<{ alerts: OpenAlertView[] }>('GET', '/api/live');
     const stored = live.alerts.find((a) => a.subject === structureName && a.label === 'Stop and clear');
     expect(stored?.acknowledgedBy).toBe(crew.displayName);
-    await page.locator('li.alert-group', { hasText: structureName }).locator('li.ack-line', { hasText: 'Stop and clear' }).locator('.ack-line-text', { hasText: `✓ ${crew.displayName}` }).waitFor();
+    await page.locator('article.alert-card', { hasText: structureName }).locator('.current-level .ack-done', { hasText: `Acknowledged by ${crew.displayName}` }).waitFor();
   }, 30_000);
 
   it('finds the alert and its acknowledgement in the log, and exports them as CSV', async () => {

@@ -141,6 +141,7 @@ const routes: Route[] = [
   // liveRoutes.ts
   { method: 'GET', path: () => '/api/live', min: 'viewer', probe: { status: 200 } },
   { method: 'POST', path: () => `/api/alerts/${ids.alert}/acknowledge`, min: 'crew', valid: () => ({ note: 'not mine to acknowledge' }), probe: { path: () => '/api/alerts/999999/acknowledge', body: {}, status: 404 } },
+  { method: 'POST', path: () => '/api/alerts/acknowledge', min: 'crew', valid: () => ({ structureId: ids.structure, note: 'not mine to acknowledge' }), probe: { body: { structureId: 999999 }, status: 404 } },
   // registerRoutes.ts
   { method: 'GET', path: () => '/api/site', min: 'viewer', probe: { status: 200 } },
   { method: 'PATCH', path: () => '/api/site', min: 'competent-person', valid: () => ({ name: 'Taken over' }), probe: { body: { altitudeM: 'high' }, status: 400 } },
@@ -150,6 +151,8 @@ const routes: Route[] = [
   { method: 'PATCH', path: () => '/api/sensors/north-mast', min: 'competent-person', valid: () => ({ unit: 'mph' }), probe: { body: { heightM: -1 }, status: 400 } },
   { method: 'DELETE', path: () => '/api/sensors/north-mast', min: 'competent-person', probe: { path: () => '/api/sensors/no-such-mast', status: 404 } },
   { method: 'GET', path: () => '/api/rejections', min: 'viewer', probe: { status: 200 } },
+  { method: 'GET', path: () => '/api/refusals', min: 'competent-person', probe: { status: 200 } },
+  { method: 'GET', path: () => '/api/setup/checklist', min: 'competent-person', probe: { status: 200 } },
   { method: 'GET', path: () => '/api/gateways', min: 'competent-person', probe: { status: 200 } },
   { method: 'GET', path: () => `/api/gateways/${ids.gateway}`, min: 'competent-person', probe: { status: 200 } },
   { method: 'POST', path: () => '/api/gateways', min: 'competent-person', valid: () => ({ name: 'Intruder', username: 'intruder-gw', sensorKeys: ['north-mast'] }), probe: { body: {}, status: 400 } },

@@ -653,6 +653,98 @@ describe('structures of every kind (POST/GET/PATCH/DELETE /api/structures)', () 
   });
 });
 
+/** The validation library's own phrases, which must never reach a person (issue 12). */
+const libraryWords = /Invalid (input|option|discriminator|string|number|key|element)|expected \w+, received|Too (small|big)|Unrecognized/;
+
+describe('plain words in every 400, and a reference height below a face refused (POST /api/structures, POST /api/assess)', () => {
+  const sentences = async (method: string, path: string, body: unknown) => {
+    const res = await cp.json(method, path, body);
+    expect(res.status).toBe(400);
+    expect(res.body.error).toBe('invalid input');
+    // The contract's shape (README "HTTP API"): each issue exactly a path and a message.
+    for (const issue of res.body.issues) expect(Object.keys(issue).sort()).toEqual(['message', 'path']);
+    for (const issue of res.body.issues) expect(issue.message, issue.path).not.toMatch(libraryWords);
+    return res.body.issues as Array<{ path: string; message: string }>;
+  };
+
+  it('names an unknown or missing kind with the kinds there are, and the value given', async () => {
+    expect(await sentences('POST', '/api/structures', { record: { ...recordOf('tent'), kind: 'yurt' } })).toEqual([
+      { path: 'record.kind', message: 'must be one of tent, banner, screen, shell or custom, not “yurt”' },
+    ]);
+    const { kind: _kind, ...noKind } = recordOf('tent');
+    expect(await sentences('POST', '/api/structures', { record: noKind })).toEqual([{ path: 'record.kind', message: 'is required: one of tent, banner, screen, shell or custom' }]);
+    expect(await sentences('POST', '/api/assess', { structure: { name: 'Gate', kind: 7 }, gustMps: 20 })).toEqual([
+      { path: 'structure.kind', message: 'must be one of tent, banner, screen, shell or custom, not 7' },
+    ]);
+  });
+
+  it('says a missing number is required, text is not a number, and which of closed or open a side may be', async () => {
+    const { heightM: _h, ...bannerNoHeight } = recordOf('banner');
+    expect(await sentences('POST', '/api/structures', { record: bannerNoHeight })).toEqual([{ path: 'record.heightM', message: 'is required (a number)' }]);
+    expect(await sentences('POST', '/api/structures', { record: { ...recordOf('shell'), radiusM: '3.5' } })).toEqual([{ path: 'record.radiusM', message: 'must be a number, not text (“3.5”)' }]);
+    const { wallsClosed: _w, ...tent } = recordOf('tent');
+    expect(await sentences('POST', '/api/structures', { record: { ...tent, sides: { front: 'rolled up', back: 'closed', endY0: 'closed', endYW: 'closed' } } })).toEqual([
+      { path: 'record.sides.front', message: 'must be “closed” or “open”, not “rolled up”' },
+    ]);
+    // Around the record too (the register's own fields go through the same wording).
+    const around = await sentences('POST', '/api/structures', { record: recordOf('tent', 'Plain tent'), latDeg: 'north', mobile: 'yes' });
+    expect(around).toEqual(
+      expect.arrayContaining([
+        { path: 'latDeg', message: expect.stringMatching(/^must be a number/) },
+        { path: 'mobile', message: expect.stringMatching(/^must be true or false/) },
+      ]),
+    );
+    const assess = await sentences('POST', '/api/assess', { structure: { kind: 'banner', name: 'Gate' }, gustMps: 'twenty' });
+    expect(assess).toEqual(
+      expect.arrayContaining([
+        { path: 'gustMps', message: 'must be a number, not text' },
+        { path: 'structure.heightM', message: 'is required (a number)' },
+        { path: 'structure.ballastPerFootKg', message: 'is required (a number)' },
+      ]),
+    );
+  });
+
+  it('a fence with neither panels nor a length is asked for its panel width and panel count', async () => {
+    const { widthM: _w, feet: _f, ...fence } = recordOf('banner');
+    expect(await sentences('POST', '/api/assess', { structure: fence, gustMps: 20 })).toEqual([
+      { path: 'structure.panelWidthM', message: expect.stringMatching(/^is required with the number of panels \(the feet follow/) },
+    ]);
+  });
+
+  // Hand-worked centroids: the tent's roof side elevation at eave + rise / 2 = 2.4 + 1.6 / 2 = 3.2 m
+  // (above the gable triangle's 2.4 + 1.6 / 3 and the walls' 1.2 m); the fence's banner at
+  // clearance + h / 2 = 0.1 + 1 = 1.1 m; the custom arch's header board as given, 3.2 m.
+  it.each([
+    ['custom', 3.1, 3.2, 'header board'],
+    ['tent', 3.1, 3.2, 'roof, side elevation'],
+    ['banner', 1.0, 1.1, 'banner'],
+  ] as const)('%s: a reference height of %s m, below the highest face centroid (%s m), is refused naming the field and the face; stores nothing', async (kind, lowM, centroidM, face) => {
+    const count = await structureCount();
+    const record = { ...recordOf(kind, `Reference ${kind}`), referenceHeightM: lowM };
+    const saved = await sentences('POST', '/api/structures', { record });
+    expect(saved).toEqual([{ path: 'record.referenceHeightM', message: expect.stringContaining(`must be at least ${centroidM} m`) }]);
+    expect(saved[0]!.message).toContain(face);
+    expect(saved[0]!.message).toMatch(/under-reads the wind on that face/);
+    expect(await structureCount()).toBe(count);
+    const assessed = await sentences('POST', '/api/assess', { structure: record, gustMps: 20 });
+    expect(assessed).toEqual([{ path: 'structure.referenceHeightM', message: saved[0]!.message }]);
+    // At the centroid itself it is accepted (the rule is "not below").
+    const atCentroid = await cp.json('POST', '/api/structures', { record: { ...record, referenceHeightM: centroidM } });
+    expect(atCentroid.status).toBe(201);
+    expect((await cp.json('DELETE', `/api/structures/${atCentroid.body.structure.id}`)).status).toBe(200);
+  });
+
+  it('a PATCH lowering the reference height below a face is refused and the structure kept', async () => {
+    const made = await cp.json('POST', '/api/structures', { record: { ...recordOf('custom', 'Arch to patch'), referenceHeightM: 6.4 } });
+    expect(made.status).toBe(201);
+    const id = made.body.structure.id as number;
+    const issues = await sentences('PATCH', `/api/structures/${id}`, { record: { ...recordOf('custom', 'Arch to patch'), referenceHeightM: 2 } });
+    expect(issues.map((i) => i.path)).toEqual(['record.referenceHeightM']);
+    expect((await cp.json('GET', `/api/structures/${id}`)).body.structure.record.referenceHeightM).toBe(6.4);
+    expect((await cp.json('DELETE', `/api/structures/${id}`)).status).toBe(200);
+  });
+});
+
 describe('request bodies', () => {
   it('refuses a body over 2 MiB with 413 and stores nothing', async () => {
     const { cookie, csrf } = await rawSession('rowan.ashby', 'rowan.ashby-pass-1234');
@@ -787,7 +879,7 @@ describe('the audit trail (GET /api/log/audit)', () => {
     expect(res.status).toBe(200);
     expect(res.headers.get('content-type')).toMatch(/^text\/csv/);
     const text = await res.text();
-    expect(text.split('\r\n')[0]).toBe('time_utc,who,what,id,action,before,after');
+    expect(text.split('\r\n')[0]).toBe('time_local,time_utc,who,what,id,action,before,after');
     expect(text).toContain(cpName);
     expect(text).toContain('Crafts marquee');
   });

@@ -2,10 +2,11 @@
  * The frame around every screen: a slim header (site, connection, who is signed in), the screen,
  * and a bottom bar reachable with one thumb. Signed out: the sign-in or first-start screen.
  */
-import { useEffect } from 'preact/hooks';
+import { useEffect, useRef } from 'preact/hooks';
 import { keepScreenOn, signalAlert } from './alarm.ts';
+import { boardSummary, summaryText } from './boardSummary.ts';
 import { live, onAlert, startLive, stopLive, type Connection } from './live.ts';
-import { href, useRoute } from './router.ts';
+import { href, navigate, useRoute } from './router.ts';
 import { loadSite, site } from './site.ts';
 import { may, roleNames, session } from './session.ts';
 import { useStore } from './store.ts';
@@ -23,6 +24,7 @@ import { More } from './screens/more.tsx';
 import { People } from './screens/people.tsx';
 import { SiteLinks } from './screens/siteLinks.tsx';
 import { FirstStart, SignIn } from './screens/signIn.tsx';
+import { SetupChecklistScreen } from './screens/setupChecklist.tsx';
 
 const tabs: Array<{ path: string; label: string; match: string[] }> = [
   { path: '/', label: 'Board', match: ['', 'structure'] },
@@ -30,7 +32,7 @@ const tabs: Array<{ path: string; label: string; match: string[] }> = [
   { path: '/sensors', label: 'Sensors', match: ['sensors'] },
   { path: '/log', label: 'Log', match: ['log'] },
   { path: '/plan', label: 'Plan', match: ['plan'] },
-  { path: '/more', label: 'More', match: ['more', 'people', 'links'] },
+  { path: '/more', label: 'More', match: ['more', 'people', 'links', 'setup'] },
 ];
 
 const connectionText: Record<Connection, string> = {
@@ -79,10 +81,29 @@ function SystemTrouble() {
   );
 }
 
-/** On every screen but the board: open alerts are one tap away. */
+/**
+ * On every screen but the board: open alerts are one tap away. Crew and above are asked to act;
+ * a viewer (or a site link) is told the state in one calm line, since there is nothing for them
+ * to acknowledge.
+ */
 function AlertStrip() {
   const snap = useStore(live).snapshot;
+  const canAck = may(useStore(session), 'crew');
   const open = snap?.alerts.filter((a) => a.acknowledgedAtMs === null) ?? [];
+  if (snap && !canAck) {
+    const parts = boardSummary(snap.structures, snap.sensors, snap.atMs);
+    if (!parts.some((p) => p.level > 0 || p.noData)) return null;
+    return (
+      <div class="state-strip" role="status">
+        <a href={href('/')}>
+          <span class="strip-what">On site now: {summaryText(parts)}.</span>
+          <span class="strip-go">
+            <span class="strip-go-text">Open the board </span>›
+          </span>
+        </a>
+      </div>
+    );
+  }
   if (open.length === 0) return null;
   const first = open[0]!;
   // One line on a phone: what is open (cut with an ellipsis if need be) and where to go.
@@ -129,6 +150,8 @@ function Screen() {
       return may(s, 'admin') ? <People /> : <Refused need="administrator" />;
     case 'links':
       return may(s, 'competent-person') ? <SiteLinks /> : <Refused need="competent person" />;
+    case 'setup':
+      return may(s, 'competent-person') ? <SetupChecklistScreen /> : <Refused need="competent person" />;
     default:
       return (
         <main id="main">
@@ -155,6 +178,15 @@ export function App() {
   const { parts } = useRoute();
   const siteInfo = useStore(site);
   const signedIn = s.status === 'ready' && s.signedIn;
+  // The first administrator, just created on the first-start screen, lands on the checklist.
+  const fromFirstStart = useRef(false);
+  if (s.status === 'ready' && !s.signedIn && s.setupPending) fromFirstStart.current = true;
+  useEffect(() => {
+    if (signedIn && fromFirstStart.current) {
+      fromFirstStart.current = false;
+      navigate('/setup');
+    }
+  }, [signedIn]);
 
   useEffect(() => {
     if (!signedIn) return;

@@ -15,7 +15,9 @@ import type { SensorRecord } from '../../server/register/sensors.ts';
 import type { Person } from '../../server/auth/accounts.ts';
 import type { Role } from '../../server/auth/roles.ts';
 import type { LevelDefinition, LevelTrigger } from '../../server/levels/levelDefinition.ts';
-import type { RejectionCount } from '../../server/ingest/rejections.ts';
+import type { BrokerRefusal, RefusalKind, RefusalReason, RejectionCount } from '../../server/ingest/rejections.ts';
+import type { ChecklistStep, ChecklistStepId, SetupChecklist } from '../../server/register/setupChecklist.ts';
+import type { LinkAddress } from '../../server/http/routes/accessRoutes.ts';
 import type { ForecastPrediction } from '../../server/levels/predictLevels.ts';
 import type { alertsTable } from '../../db/schema.ts';
 
@@ -39,6 +41,13 @@ export type {
   LevelDefinition,
   LevelTrigger,
   RejectionCount,
+  BrokerRefusal,
+  RefusalKind,
+  RefusalReason,
+  ChecklistStep,
+  ChecklistStepId,
+  SetupChecklist,
+  LinkAddress,
   ForecastPrediction,
 };
 
@@ -124,7 +133,13 @@ export interface WindLog {
 export interface ForecastAnswer {
   heightM: number;
   ignoredColumns: string[];
-  structures: Array<{ id: number; name: string; levels: Array<{ level: number; label: string; triggerGustMps: number }> }>;
+  /** How the table was read: units per column, the date order and why, the time zone. */
+  notes: string[];
+  /** The order year-last dates were read in, or null when none needed one. */
+  dateOrder: 'day-first' | 'month-first' | null;
+  structures: Array<{ id: number; name: string; referenceHeightM: number; levels: Array<{ level: number; label: string; triggerGustMps: number }> }>;
+  /** Structures the check could not cover, and why. */
+  notChecked: Array<{ id: number; name: string; reason: string }>;
   rows: Array<ForecastPrediction & { meanMps: number | null; dirFromDeg: number | null }>;
 }
 
@@ -135,4 +150,14 @@ export interface SiteLink {
   createdAtMs: number;
   expiresAtMs: number;
   revokedAtMs: number | null;
+}
+
+/** GET /api/refusals */
+export interface RefusalsAnswer {
+  refusals: BrokerRefusal[];
+  total: number;
+  droppedGroups: number;
+  maxGroups: number;
+  sinceMs: number;
+  broker: 'embedded' | 'external';
 }

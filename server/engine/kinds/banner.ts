@@ -147,26 +147,32 @@ export function bannerLayout(record: LayoutInput): LayoutResult {
   }
   if (panels === undefined && record.feet !== undefined) panels = Math.max(1, record.feet - 1);
   if (panels === undefined) {
+    // Nothing about the length at all: the panel width is the natural way in (the form's first field).
+    const nothing = widthM === undefined && panelWidthM === undefined;
     return {
       ok: false,
-      issues: [{ path: widthM === undefined && panelWidthM === undefined ? 'widthM' : 'panels', message: 'give panels or feet (a foot at every joint: feet = panels + 1), or widthM with panelWidthM' }],
+      issues: [
+        nothing
+          ? { path: 'panelWidthM', message: 'is required with the number of panels (the feet follow: one at every joint and one at each end); or give the run’s length, widthM, with panels or feet' }
+          : { path: 'panels', message: 'is required: the number of panels (the feet follow: one at every joint and one at each end), or give the number of feet' },
+      ],
     };
   }
   const runLengthM = widthM ?? (panelWidthM === undefined ? undefined : panelWidthM * panels);
   if (runLengthM === undefined) {
-    return { ok: false, issues: [{ path: 'widthM', message: 'give widthM (the length of the run), or panelWidthM with panels' }] };
+    return { ok: false, issues: [{ path: 'panelWidthM', message: 'is required: the width of one panel, or give the run’s length, widthM' }] };
   }
   if (widthM !== undefined && panelWidthM !== undefined && Math.abs(panels * panelWidthM - widthM) > lengthToleranceM) {
     return {
       ok: false,
       issues: [{
         path: 'panelWidthM',
-        message: `${panels} panels × ${panelWidthM} m = ${(panels * panelWidthM).toFixed(3)} m must equal widthM (${widthM} m) to within 1 cm`,
+        message: `${panels} panels × ${panelWidthM} m make ${(panels * panelWidthM).toFixed(3)} m, but the run’s length, widthM, is ${widthM} m: they must agree to within 1 cm (or leave one of them out)`,
       }],
     };
   }
   if (runLengthM > longestRunM) {
-    return { ok: false, issues: [{ path: 'panelWidthM', message: `panels × panelWidthM = ${runLengthM} m must be ≤ ${longestRunM} m (split a longer run into several records)` }] };
+    return { ok: false, issues: [{ path: 'panelWidthM', message: `panels × panelWidthM make ${runLengthM} m: at most ${longestRunM} m in one record (split a longer run into several records)` }] };
   }
   const feet = record.feet ?? panels + 1;
   const feetPositionsM =

@@ -25,7 +25,7 @@ export const customRecordSchema = z
   .superRefine((record, ctx) => {
     const within = (path: Array<string | number>, value: number | undefined, limit: number | undefined, name: string) => {
       if (value !== undefined && limit !== undefined && limit > 0 && value > limit) {
-        ctx.addIssue({ code: 'custom', path, message: `must be within the base, 0..${name} (${limit} m), got ${value} m` });
+        ctx.addIssue({ code: 'custom', path, message: `must be within the base, from 0 to ${name} (${limit} m), not ${value} m` });
       }
     };
     record.masses.forEach((mass, index) => {

@@ -14,6 +14,7 @@ import { createSensor, getSensor, listSensors, retireSensor, sensorInputSchema, 
 import { getSite, siteUpdateSchema, updateSite } from '../../register/site.ts';
 import { createStructure, getStructureRow, listStructures, retireStructure, structureInputSchema, structureUpdateSchema, structureView, updateStructure } from '../../register/structures.ts';
 import { readingTopic } from '../../ingest/topic.ts';
+import { setupChecklist } from '../../register/setupChecklist.ts';
 import { requireRole, type AppEnv } from '../access.ts';
 import { check, idParam, jsonBody, jsonPatchBody } from '../validate.ts';
 import type { ApiContext } from './apiContext.ts';
@@ -97,6 +98,27 @@ export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
   });
   /** Rejected payloads by sensor and reason (sensor key "*" = a topic that named no sensor). */
   api.get('/rejections', viewer, (c) => c.json({ rejections: ctx.rejections.list(), total: ctx.rejections.totalCount }));
+  /**
+   * Refusals at the embedded broker since start (who, when, topic, reason), newest first; memory
+   * only, grouped by who and why, bounded. Competent person: usernames and addresses are half of
+   * a gateway's credentials.
+   */
+  api.get('/refusals', editor, (c) => {
+    const book = ctx.rejections.refusals;
+    const broker = (ctx.health().broker ?? {}) as { kind?: string };
+    return c.json({ refusals: book.list(), total: book.totalCount, droppedGroups: book.droppedGroups, maxGroups: book.maxGroupCount, sinceMs: book.sinceMs, broker: broker.kind === 'embedded' ? 'embedded' : 'external' });
+  });
+
+  // ---- the first-start checklist ----
+  api.get('/setup/checklist', editor, (c) => {
+    const broker = (ctx.health().broker ?? {}) as { kind?: string };
+    const checklist = setupChecklist(ctx.db, {
+      activePeople: ctx.accounts.listPeople().filter((p) => p.disabledAtMs === null).length,
+      brokerKind: broker.kind === 'embedded' ? 'embedded' : 'external',
+      refusedSinceStart: ctx.rejections.refusals.totalCount,
+    });
+    return c.json(checklist);
+  });
 
   // ---- gateways (credentials: competent person only, even to read) ----
   api.get('/gateways', editor, (c) => c.json({ gateways: listGateways(ctx.db) }));

@@ -85,7 +85,8 @@ describe('panels and feet (design §2.4: the feet follow from the panels)', () =
   const base = { kind: 'banner', name: 'Gate fence', heightM: 2, clearanceM: 0, ballastPerFootKg: 40, footDepthM: 0.8, selfWeightKg: 100 };
 
   it('rejects a record that says neither how long nor how many panels, and one whose panels do not add up to widthM', () => {
-    expect(issuePaths({ ...base })).toEqual(['widthM']);
+    // Nothing about the length: the panel width is named, the natural way in (the form's first field).
+    expect(issuePaths({ ...base })).toEqual(['panelWidthM']);
     expect(issuePaths({ ...base, panelWidthM: 3.5 })).toEqual(['panels']);
     expect(issuePaths({ ...base, widthM: 12, panelWidthM: 3.5 })).toEqual(['panelWidthM']);
     expect(issuePaths({ ...base, widthM: 12, panelWidthM: 3.5, panels: 4 })).toEqual(['panelWidthM']);

@@ -5,7 +5,8 @@
  * one marked. Used by the register form and the structure page, so both say the same.
  */
 import { compassPointName, criterionWords, sideName, windWords } from '../../../server/engine/caseWords.ts';
-import type { AssessAnswer } from '../types.ts';
+import { formWords } from '../register/fieldWords.ts';
+import type { AssessAnswer, StructureKind } from '../types.ts';
 import { percent, speed, type SpeedUnit } from '../units.ts';
 import { sideLabel, type Side } from './structureGeometry.ts';
 
@@ -34,24 +35,35 @@ function criterionShort(d: { governing: DirectionReport['governing']; tippingEdg
 const utilizationText = (value: number | null): string => (value === null ? 'unbounded' : percent(value));
 
 /**
+ * An engine sentence or name in the form's words: with the kind known, field names become the
+ * form's labels (register/fieldWords.ts formWords: "give referenceHeightM" → "give “Reference
+ * height”"); without it, the far end is still said plainly ("y = baseWidthM" → "y = base width").
+ */
+export function engineWords(text: string, kind?: StructureKind | null): string {
+  if (kind) return formWords(text, kind);
+  return text.replace(/y = lengthM\b/g, 'y = length').replace(/y = baseWidthM\b/g, 'y = base width');
+}
+
+/**
  * A part's name as the crew reads it: the engine names ends "the y = 0 end"; with the front's
  * azimuth known that end is named by compass ("end panel at the west end"), as the governing words
  * (caseWords.ts governingWords) already do, so the list, the table and the drawings say the same.
+ * Otherwise the far end is named in the form's words (engineWords).
  */
-export function partName(name: string, frontAzimuthDeg: number | null): string {
-  if (frontAzimuthDeg === null) return name;
-  return name.replace(/the y = 0 end/g, sideName('endY0', frontAzimuthDeg)).replace(/the y = baseWidthM end/g, sideName('endYW', frontAzimuthDeg));
+export function partName(name: string, frontAzimuthDeg: number | null, kind?: StructureKind | null): string {
+  if (frontAzimuthDeg === null) return engineWords(name, kind);
+  return engineWords(name.replace(/the y = 0 end/g, sideName('endY0', frontAzimuthDeg)).replace(/the y = baseWidthM end/g, sideName('endYW', frontAzimuthDeg)), kind);
 }
 
-/** The warnings of the answer, or of the live state: what the engine could not check. */
-export function Warnings({ warnings }: { warnings: readonly string[] }) {
+/** The warnings of the answer, or of the live state: what the engine could not check (in the form's words when the kind is known). */
+export function Warnings({ warnings, kind }: { warnings: readonly string[]; kind?: StructureKind | null }) {
   if (warnings.length === 0) return null;
   return (
     <div class="warn-box" role="note" data-testid="assess-warnings">
       <p class="warn-h">{warnings.length === 1 ? 'Not checked or assumed' : `Not checked or assumed (${warnings.length})`}</p>
       <ul>
         {warnings.map((w) => (
-          <li>{w}</li>
+          <li>{engineWords(w, kind)}</li>
         ))}
       </ul>
     </div>
@@ -59,7 +71,7 @@ export function Warnings({ warnings }: { warnings: readonly string[] }) {
 }
 
 /** Each element with its own limit and what governs it. */
-export function ElementsList({ answer, unit, frontAzimuthDeg }: { answer: AssessAnswer; unit: SpeedUnit; frontAzimuthDeg: number | null }) {
+export function ElementsList({ answer, unit, frontAzimuthDeg, kind }: { answer: AssessAnswer; unit: SpeedUnit; frontAzimuthDeg: number | null; kind?: StructureKind | null }) {
   if (answer.elements.length === 0) return null;
   return (
     <section class="elements-list" aria-label="Parts that can fail on their own">
@@ -70,7 +82,7 @@ export function ElementsList({ answer, unit, frontAzimuthDeg }: { answer: Assess
           const strip = answer.expanded.elements?.find((x) => x.name === e.name)?.baseWidthM === undefined;
           return (
             <li class={governs ? 'governs' : ''}>
-              <strong>{partName(e.name, frontAzimuthDeg)}</strong>
+              <strong>{partName(e.name, frontAzimuthDeg, kind)}</strong>
               {governs ? <span class="gov-tag"> governs</span> : null}: limit {speed(e.calculatedLimitGustMps, unit)}, {utilizationText(e.utilization.governing)} at {speed(answer.gustMps, unit)} —{' '}
               {windWords(e.governingDirectionDeg, frontAzimuthDeg, strip)}: {criterionWords(e.governing, e.tippingEdge, frontAzimuthDeg)}
             </li>
@@ -82,7 +94,7 @@ export function ElementsList({ answer, unit, frontAzimuthDeg }: { answer: Assess
 }
 
 /** Every direction assessed, in a collapsible table, the governing one marked (not by colour alone). */
-export function DirectionsTable({ answer, unit, frontAzimuthDeg }: { answer: AssessAnswer; unit: SpeedUnit; frontAzimuthDeg: number | null }) {
+export function DirectionsTable({ answer, unit, frontAzimuthDeg, kind }: { answer: AssessAnswer; unit: SpeedUnit; frontAzimuthDeg: number | null; kind?: StructureKind | null }) {
   const governs = (d: DirectionReport) => Math.abs(d.directionDeg - answer.governingDirectionDeg) < 1e-6 && d.element === answer.governingElement;
   const anyElement = answer.directions.some((d) => d.element !== null);
   const ratedCaps = answer.limitGovernedBy === 'rated';
@@ -118,9 +130,9 @@ export function DirectionsTable({ answer, unit, frontAzimuthDeg }: { answer: Ass
                     <span class="dir-limit">limit {speed(d.calculatedLimitGustMps, unit)}</span>
                   </td>
                   <td>
-                    {anyElement && d.element !== null ? <span class="dir-part">{partName(d.element, frontAzimuthDeg)}: </span> : null}
+                    {anyElement && d.element !== null ? <span class="dir-part">{partName(d.element, frontAzimuthDeg, kind)}: </span> : null}
                     {criterionShort(d, frontAzimuthDeg)}
-                    {d.upliftCase ? <span class="dir-case">{d.upliftCase}</span> : null}
+                    {d.upliftCase ? <span class="dir-case">{engineWords(d.upliftCase, kind)}</span> : null}
                   </td>
                 </tr>
               );

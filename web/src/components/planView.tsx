@@ -14,10 +14,10 @@
  * figure says that the ends were not checked.
  */
 import { compassPointName } from '../../../server/engine/caseWords.ts';
-import type { AssessAnswer } from '../types.ts';
+import type { AssessAnswer, StructureKind } from '../types.ts';
 import { nearestPoint, overlaps, placeLabels, textWidth, type Box, type PointLabel } from './labelLayout.ts';
 import { elementPlacement, faceSide, facingOf, massGroups, massGroupText, sideLabel, type Side } from './structureGeometry.ts';
-import { partName } from './assessmentSummary.tsx';
+import { engineWords, partName } from './assessmentSummary.tsx';
 
 const radiansPerDegree = Math.PI / 180;
 /** viewBox width; the height follows the base's shape. */
@@ -68,7 +68,7 @@ function segmentBoxes(a: Pt, b: Pt, thickness: number): Box[] {
   return boxes;
 }
 
-export function PlanView({ answer, frontAzimuthDeg }: { answer: AssessAnswer; frontAzimuthDeg: number | null }) {
+export function PlanView({ answer, frontAzimuthDeg, kind = null }: { answer: AssessAnswer; frontAzimuthDeg: number | null; kind?: StructureKind | null }) {
   const ex = answer.expanded;
   const depthM = ex.baseDepthM;
   const strip = ex.baseWidthM === undefined;
@@ -294,7 +294,7 @@ export function PlanView({ answer, frontAzimuthDeg }: { answer: AssessAnswer; fr
     ...uplifts.map((u, i) => ({ x: u.p.x, y: u.p.y, text: upliftText(i), kind: 'uplift', bold: true, offset: 12, width: textWidth(upliftText(i), labelFont, true), height: labelHeight })),
     ...faceLines.map((f) => ({ x: f.mid.x, y: f.mid.y, text: String(f.i + 1), kind: 'face', bold: true, offset: 6, width: textWidth(String(f.i + 1), labelFont, true) + 6, height: labelHeight })),
     ...elements.map((e) => {
-      const text = partName(e.element.name, frontAzimuthDeg);
+      const text = partName(e.element.name, frontAzimuthDeg, kind);
       return { x: e.box.x + e.box.width / 2, y: e.box.y + e.box.height / 2, text, kind: 'element', offset: Math.min(e.box.width, e.box.height) / 2 + 4, width: textWidth(text, labelFont - 2), height: labelHeight - 2 };
     }),
   ];
@@ -407,7 +407,7 @@ export function PlanView({ answer, frontAzimuthDeg }: { answer: AssessAnswer; fr
           const side = faceSide(f, ex.faces);
           return (
             <li key={i}>
-              <span class={`pv-swatch pv-face-${i % 3}`} aria-hidden="true" /> {f.label ?? `face ${i + 1}`}: {f.areaM2.toFixed(1)} m², looks {f.facingDeg === undefined ? 'toward the front (position not given: drawn across the base)' : side ? `out of the ${sideLabel(side, frontAzimuthDeg)}` : `${Math.round(f.facingDeg)}° from the front (drawn across the base)`}
+              <span class={`pv-swatch pv-face-${i % 3}`} aria-hidden="true" /> {f.label ? engineWords(f.label, kind) : `face ${i + 1}`}: {f.areaM2.toFixed(1)} m², looks {f.facingDeg === undefined ? 'toward the front (position not given: drawn across the base)' : side ? `out of the ${sideLabel(side, frontAzimuthDeg)}` : `${Math.round(f.facingDeg)}° from the front (drawn across the base)`}
             </li>
           );
         })}
@@ -416,7 +416,7 @@ export function PlanView({ answer, frontAzimuthDeg }: { answer: AssessAnswer; fr
         <ul class="pv-uplifts small">
           {uplifts.map((u, i) => (
             <li key={i}>
-              <strong>↑{i + 1}</strong> {u.label}
+              <strong>↑{i + 1}</strong> {engineWords(u.label, kind)}
               {u.governs ? ' (in the governing wind)' : ''}
             </li>
           ))}

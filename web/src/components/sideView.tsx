@@ -20,11 +20,11 @@
 import { useState } from 'preact/hooks';
 import { windWords } from '../../../server/engine/caseWords.ts';
 import type { Criterion, Edge } from '../../../server/engine/stability.ts';
-import type { AssessAnswer } from '../types.ts';
+import type { AssessAnswer, StructureKind } from '../types.ts';
 import { kiloNewtons } from '../units.ts';
 import { placeLabels, spreadAlong, spreadInRows, textWidth, type Box } from './labelLayout.ts';
 import { faceForce, faceSide, facingOf, massGroupText, sideLabel, type Face, type Mass, type MassGroup } from './structureGeometry.ts';
-import { partName } from './assessmentSummary.tsx';
+import { engineWords, partName } from './assessmentSummary.tsx';
 
 type Extent = [number, number];
 type Uplift = NonNullable<AssessAnswer['expanded']['uplift']>;
@@ -149,7 +149,8 @@ function windLines(text: string, maxWidth: number): string[] {
 
 export function SideView({ answer, record, frontAzimuthDeg = null }: { answer: AssessAnswer; record: Record<string, unknown>; frontAzimuthDeg?: number | null }) {
   // Elements' names with their ends by compass, as the list and the governing words say them.
-  const parts = partsOf(answer).map((p) => (p.element ? { ...p, title: partName(p.title, frontAzimuthDeg) } : p));
+  const kind = typeof record.kind === 'string' ? (record.kind as StructureKind) : null;
+  const parts = partsOf(answer).map((p) => (p.element ? { ...p, title: partName(p.title, frontAzimuthDeg, kind) } : p));
   const governingKey = answer.governingElement ?? '';
   const [chosen, setChosen] = useState<string | null>(null);
   const part = parts.find((p) => p.key === (chosen ?? governingKey)) ?? parts[0]!;
@@ -171,6 +172,7 @@ export function SideView({ answer, record, frontAzimuthDeg = null }: { answer: A
 }
 
 function SideDrawing({ answer, record, part, frontAzimuthDeg }: { answer: AssessAnswer; record: Record<string, unknown>; part: Part; frontAzimuthDeg: number | null }) {
+  const kind = typeof record.kind === 'string' ? (record.kind as StructureKind) : null;
   const theta = part.directionDeg;
   const strip = part.widthM === null;
   // Which way to look: the tipping edge decides for overturning, else the wind's larger component.
@@ -445,7 +447,7 @@ function SideDrawing({ answer, record, part, frontAzimuthDeg }: { answer: Assess
           const incidence = Math.abs(f.alongN) > 0.01 * maxAlong ? `${kiloNewtons(f.forceN)} normal to it, ${kiloNewtons(Math.abs(f.alongN))} along this view` : 'not loaded along this view';
           return (
             <li key={f.i}>
-              {f.face.label ?? `face ${f.i + 1}`}: {f.face.areaM2.toFixed(1)} m² at {f.face.centroidHeightM.toFixed(2)} m (drawn {f.bottom.toFixed(2)}–{f.top.toFixed(2)} m), c_f {f.face.cfFront.toFixed(2)} front / {f.face.cfBack.toFixed(2)} back → {incidence}
+              {f.face.label ? engineWords(f.face.label, kind) : `face ${f.i + 1}`}: {f.face.areaM2.toFixed(1)} m² at {f.face.centroidHeightM.toFixed(2)} m (drawn {f.bottom.toFixed(2)}–{f.top.toFixed(2)} m), c_f {f.face.cfFront.toFixed(2)} front / {f.face.cfBack.toFixed(2)} back → {incidence}
             </li>
           );
         })}

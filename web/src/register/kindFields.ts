@@ -36,7 +36,23 @@ export interface FieldDef {
   initial?: string;
   /** Shown in the box when empty: an example ("e.g. 12") or the default that then applies. */
   placeholder?: string;
+  /** Another way to give what the fields before it give (a fence's run length and feet): shown folded, under the others. */
+  alternative?: boolean;
 }
+
+/**
+ * Common fence and barrier panel sizes, for the fence form's buttons: they fill the panel width and
+ * the banner height (a banner or scrim over the whole panel, the larger area). Common practice, from
+ * memory, not from a standard: the form says so, and the person measures the actual panels.
+ */
+export const panelPresets: ReadonlyArray<{ id: string; name: string; panelWidthM: number; heightM: number }> = [
+  { id: 'mesh-fence', name: 'Mesh site fence panel', panelWidthM: 3.5, heightM: 2.0 },
+  { id: 'pedestrian-barrier', name: 'Pedestrian barrier', panelWidthM: 2.3, heightM: 1.1 },
+  { id: 'hoarding-sheet', name: 'Hoarding sheet on edge (8 × 4 ft)', panelWidthM: 1.22, heightM: 2.44 },
+];
+/** Where the preset sizes come from, shown under the buttons. */
+export const panelPresetsSource =
+  'Common practice, from memory (no standard sets these sizes): mesh site fence panels are usually 3.5 m × 2.0 m, pedestrian barriers about 2.3 m × 1.1 m, hoarding sheets 2.44 m × 1.22 m. Measure the actual panels.';
 
 /**
  * Engine values the help quotes that cannot be imported without zod (see the module comment);
@@ -200,24 +216,15 @@ export const kindFields: Readonly<Record<StructureKind, FieldDef[]>> = {
   ],
   banner: [
     {
-      path: 'widthM',
-      label: 'Length of the run',
-      unit: 'm',
-      kind: 'number',
-      optional: true,
-      placeholder: 'e.g. 10, or panels × panel width',
-      help:
-        'Length of the whole run, b, m: the base width, from the y = 0 end to the other. Give it, or the panel width with the number of panels (or of feet): ' +
-        'then b = panel width × panels.',
-    },
-    {
       path: 'panelWidthM',
       label: 'Panel width',
       unit: 'm',
       kind: 'number',
       optional: true,
-      placeholder: 'e.g. 3.5, or length ÷ panels',
-      help: 'Width of one panel along the run, m (a foot at every joint). Empty: the run’s length ÷ the number of panels. With the length given too, panels × panel width must equal it to within 1 cm.',
+      placeholder: 'e.g. 3.5',
+      help:
+        'Width of one panel along the run, m (a foot at every joint). Pick a common size above or measure one. ' +
+        'Empty: the run’s length ÷ the number of panels (below, under “Or give the run’s length”). With the length given too, panels × panel width must equal it to within 1 cm.',
     },
     {
       path: 'panels',
@@ -225,9 +232,9 @@ export const kindFields: Readonly<Record<StructureKind, FieldDef[]>> = {
       unit: 'count',
       kind: 'int',
       optional: true,
-      placeholder: 'e.g. 3, or feet − 1',
+      placeholder: 'e.g. 3',
       help:
-        'Number of panels in the run. Empty: length ÷ panel width when both are given, else feet − 1 (a foot at every joint and at both ends; one panel on one foot). ' +
+        'Number of panels in the run; the feet follow, one at every joint and one at each end (panels + 1). Empty: length ÷ panel width when both are given, else feet − 1. ' +
         'With two or more panels the end panel is also checked on its own feet, with the pressures of a free end (EN 1991-1-4 Table 7.9 zones A and B).',
     },
     { path: 'heightM', label: 'Banner height', unit: 'm', kind: 'number', placeholder: 'e.g. 2', help: 'Height of the banner itself, h, m (not counting the gap under it).' },
@@ -246,15 +253,6 @@ export const kindFields: Readonly<Record<StructureKind, FieldDef[]>> = {
       optional: true,
       placeholder: '1',
       help: 'Solid area ÷ gross area: 1 for solid material (the default when empty), about 0.3–0.7 for mesh: take it from the material sheet. A mesh that clogs with dirt or rain acts as solid.',
-    },
-    {
-      path: 'feet',
-      label: 'Feet',
-      unit: 'count',
-      kind: 'int',
-      optional: true,
-      placeholder: 'panels + 1',
-      help: 'Number of feet along the run, evenly spaced from one end to the other. Empty: panels + 1 (one at every joint and one at each end).',
     },
     { path: 'ballastPerFootKg', label: 'Ballast per foot', unit: 'kg', kind: 'number', placeholder: 'e.g. 100', help: 'Ballast on each foot, kg.' },
     {
@@ -286,6 +284,28 @@ export const kindFields: Readonly<Record<StructureKind, FieldDef[]>> = {
         'Coefficient of the end panel on its gross area (panel width × h), front and back. Empty: the EN 1991-1-4 Table 7.9 c_p,net (no return corners) averaged over the panel from the free end ' +
         '(zones A 0–0.3h, B 0.3h–2h, C 2h–4h, D beyond) at the run’s length/height and solidity, not below the run’s c_f; below solidity 0.8 the run’s c_f (a plane lattice, §7.11, has no end zones); ' +
         `with the run’s c_f given, that c_f × the Table 7.9 ratio of the panel’s mean to the run’s. ${overrideNote}`,
+    },
+    {
+      path: 'widthM',
+      label: 'Length of the run',
+      unit: 'm',
+      kind: 'number',
+      optional: true,
+      alternative: true,
+      placeholder: 'panels × panel width',
+      help:
+        'Length of the whole run, b, m: the base width, from the y = 0 end to the other. Empty: panel width × panels. ' +
+        'Give it instead of the panel width (or as well, when they agree) when the run is measured rather than counted.',
+    },
+    {
+      path: 'feet',
+      label: 'Feet',
+      unit: 'count',
+      kind: 'int',
+      optional: true,
+      alternative: true,
+      placeholder: 'panels + 1',
+      help: 'Number of feet along the run, evenly spaced from one end to the other. Empty: panels + 1 (one at every joint and one at each end). Give it when the feet are not one per joint.',
     },
   ],
   screen: [

@@ -109,7 +109,8 @@ export function newDraft(kind: StructureKind, siteLevels: readonly LevelDefiniti
     masses: [emptyMassRow()],
     upliftOn: false,
     uplift: emptyUplift(),
-    orientationDeg: '0',
+    // Which way the front faces changes which side the wind is on: nobody's guess stands in for it.
+    orientationDeg: '',
     location: '',
     latDeg: '',
     lonDeg: '',
@@ -329,9 +330,50 @@ export function draftInput(d: Draft, unit: SpeedUnit, issues: LocalIssues = new 
   };
 }
 
-/** A zod message made readable for a form ("Invalid input: expected number, received undefined" → "is required"). */
+/**
+ * A server message made readable for a form. The server words its own messages plainly
+ * (server/engine/issueWords.ts); this catches the validation library's defaults from anything
+ * that still passes them on ("Invalid input: expected number, received undefined" → "is required").
+ */
 export function plainMessage(message: string): string {
   if (/received undefined/.test(message)) return 'is required';
   if (/expected number, received (string|NaN)/.test(message)) return 'must be a number';
+  if (/expected int, received/.test(message)) return 'must be a whole number';
+  const option = /^Invalid option: expected one of (.+)$/.exec(message);
+  if (option) return `must be one of ${option[1]!.split('|').join(', ')}`;
+  const discriminator = /^Invalid discriminator value\. Expected (.+)$/.exec(message);
+  if (discriminator) return `must be one of ${discriminator[1]!.replace(/'/g, '').split(' | ').join(', ')}`;
   return message.replace(/^Invalid input: /, '');
+}
+
+/** How a fence run comes out of what was typed: the engine's rule (kinds/banner.ts bannerLayout), for the form to say as you type. */
+export interface BannerRun {
+  runLengthM: number;
+  panels: number;
+  panelWidthM: number;
+  feet: number;
+}
+
+/**
+ * The run a banner draft describes, by the engine's rule (kinds/banner.ts `bannerLayout`; checked
+ * against it by tests/unit/registerFields.test.ts): panels as given, else the length ÷ the panel
+ * width, else feet − 1; the length as given, else panels × panel width; feet as given, else
+ * panels + 1. Null while it cannot be told yet (or the numbers disagree: the calculator names that).
+ */
+export function bannerRun(values: Readonly<Record<string, string>>): BannerRun | null {
+  const read = (path: string) => {
+    const n = typedNumber(values[path] ?? '');
+    return n === undefined || Number.isNaN(n) || n <= 0 ? undefined : n;
+  };
+  const widthM = read('widthM');
+  const panelWidthM = read('panelWidthM');
+  const feetGiven = read('feet');
+  let panels = read('panels');
+  if (panels === undefined && widthM !== undefined && panelWidthM !== undefined) panels = Math.max(1, Math.round(widthM / panelWidthM));
+  if (panels === undefined && feetGiven !== undefined) panels = Math.max(1, feetGiven - 1);
+  if (panels === undefined || !Number.isInteger(panels)) return null;
+  const runLengthM = widthM ?? (panelWidthM === undefined ? undefined : panelWidthM * panels);
+  if (runLengthM === undefined) return null;
+  if (widthM !== undefined && panelWidthM !== undefined && Math.abs(panels * panelWidthM - widthM) > 0.01) return null;
+  return { runLengthM, panels, panelWidthM: panelWidthM ?? runLengthM / panels, feet: feetGiven ?? panels + 1 };
 }

@@ -4,9 +4,15 @@
  * levels and actions, and where it stands and which sensors govern it.
  *
  * Field errors come from the server's 400 `issues` (the calculator's paths start "structure.",
- * the register's "record."); a local check only catches text that is not a number. Before a save
- * is tried, only fields the person has touched show their complaints, so a new form does not
- * start as a wall of red.
+ * the register's "record."); a local check catches what is empty and needed and text that is not
+ * a number. Before a save is tried, only fields the person has touched show their complaints, so a
+ * new form does not start as a wall of red; the calculator names every field it is waiting for,
+ * by its label, each a link to the field (the first one first), and says it in the form's words
+ * (register/fieldWords.ts), never the API's field names.
+ *
+ * While typing, the answer stays in view: on a phone a strip at the bottom of the form carries the
+ * limit gust and what governs (or the field it waits for); on a desktop the calculator is a side
+ * panel that opens on the limit and the drawing, the numbers one tab away.
  */
 import { useEffect, useMemo, useRef, useState } from 'preact/hooks';
 import { api, ApiError, errorText } from '../api.ts';
@@ -16,8 +22,9 @@ import { LevelsEditor } from '../components/levelsEditor.tsx';
 import { DirectionsTable, ElementsList, Warnings } from '../components/assessmentSummary.tsx';
 import { PlanView } from '../components/planView.tsx';
 import { SideView } from '../components/sideView.tsx';
-import { faceColumns, kindFields, kindIntro, kindNames, massColumns, commonFields, upliftColumns, type FieldDef } from '../register/kindFields.ts';
-import { draftFromView, draftInput, draftLevels, draftRecord, emptyFaceRow, emptyMassRow, newDraft, plainMessage, switchKind, typedNumber, type Draft } from '../register/structureDraft.ts';
+import { faceColumns, kindFields, kindIntro, kindNames, massColumns, commonFields, panelPresets, panelPresetsSource, upliftColumns, type FieldDef } from '../register/kindFields.ts';
+import { fieldControlId, formWords, issueFields, type IssueField } from '../register/fieldWords.ts';
+import { bannerRun, draftFromView, draftInput, draftLevels, draftRecord, emptyFaceRow, emptyMassRow, newDraft, plainMessage, switchKind, typedNumber, type Draft } from '../register/structureDraft.ts';
 import { refreshSnapshot } from '../live.ts';
 import { prefs } from '../prefs.ts';
 import { href, navigate, useRoute } from '../router.ts';
@@ -74,9 +81,18 @@ export function StructureForm({ id }: { id: number | null }) {
       .catch(() => setSensors([]));
   }, []);
 
-  const local = useMemo(() => new Map<string, string>(), [draft, checkGust]);
-  const record = useMemo(() => (draft ? draftRecord(draft, unit, local) : null), [draft, unit, local]);
-  const levelsForAssess = useMemo(() => (draft ? (draft.ownLevels ? draftLevels(draft.levels, unit, local) : siteLevels) : []), [draft, unit, siteLevels, local]);
+  // The record as typed, and what is wrong with it before the server is asked (empty and needed, not a number).
+  const { record, local, levelsForAssess } = useMemo(() => {
+    const found = new Map<string, string>();
+    if (!draft) return { record: null, local: found, levelsForAssess: [] as unknown[] };
+    const built = draftRecord(draft, unit, found);
+    const levels = draft.ownLevels ? draftLevels(draft.levels, unit, found) : siteLevels;
+    const orientation = orientationProblem(draft.orientationDeg);
+    if (orientation) found.set('orientationDeg', orientation);
+    return { record: built, local: found, levelsForAssess: levels };
+  }, [draft, unit, siteInfo]);
+  const [pending, setPending] = useState(false);
+  const [sideTab, setSideTab] = useState<CalcTab>('side');
   const checkGustMps = (() => {
     const n = typedNumber(checkGust);
     return n === undefined || Number.isNaN(n) ? null : speedToMps(n, unit);
@@ -91,6 +107,7 @@ export function StructureForm({ id }: { id: number | null }) {
   useEffect(() => {
     if (!record || checkGustMps === null) return;
     const mine = ++seq.current;
+    setPending(true);
     const controller = new AbortController();
     const timer = setTimeout(() => {
       // The calculator needs a name; an unnamed draft is still worth calculating while typing.
@@ -102,11 +119,13 @@ export function StructureForm({ id }: { id: number | null }) {
       api<AssessAnswer>('/api/assess', { body, signal: controller.signal })
         .then((a) => {
           if (mine !== seq.current) return;
+          setPending(false);
           setAnswer(a);
           setAssessIssues(new Map(a.levelOrderProblems?.map((p) => [p.path, p.message]) ?? []));
         })
         .catch((err) => {
           if (mine !== seq.current || (err instanceof DOMException && err.name === 'AbortError')) return;
+          setPending(false);
           if (err instanceof ApiError && err.status === 400) {
             const m = new Map<string, string>();
             for (const i of err.issues) {
@@ -150,20 +169,31 @@ export function StructureForm({ id }: { id: number | null }) {
   /** The complaint to show next to a field: a save's answer first, then the calculator's. */
   const errorFor = (path: string): string | undefined => {
     const fromSave = saveIssues.get(`record.${path}`) ?? saveIssues.get(path);
-    if (fromSave) return plainMessage(fromSave);
+    if (fromSave) return formWords(plainMessage(fromSave), draft.kind);
     if (!triedSave && !touched.has(path)) return undefined;
-    return local.get(path) ?? assessIssues.get(path);
+    const found = local.get(path) ?? assessIssues.get(path);
+    return found === undefined ? undefined : formWords(found, draft.kind);
   };
   const levelErrors = new Map<string, string>();
-  for (const [k, v] of [...assessIssues, ...saveIssues, ...local]) if (k.startsWith('levels')) levelErrors.set(k, plainMessage(v));
+  for (const [k, v] of [...assessIssues, ...saveIssues, ...local]) if (k.startsWith('levels')) levelErrors.set(k, formWords(plainMessage(v), draft.kind));
+  // Every field the calculator or the save is waiting for, in the form's words and page order (a field's own complaint first).
+  const attention = inPageOrder(issueFields(new Map([...assessIssues, ...local]), draft.kind));
 
   const save = async () => {
     setTriedSave(true);
-    setSaving(true);
     setMessage(null);
     setSaveIssues(new Map());
     const issues = new Map<string, string>();
     const input = draftInput(draft, unit, issues);
+    for (const [k, v] of local) issues.set(k, v);
+    if (issues.size > 0) {
+      // Refused here, nothing sent: an empty orientation would be stored as north by the API's default.
+      // The calculator's own complaints (ranges, cross-field checks) are named with them.
+      const fields = inPageOrder(issueFields(new Map([...assessIssues, ...issues]), draft.kind));
+      setMessage({ ok: false, text: notSavedText(fields.length), fields });
+      return;
+    }
+    setSaving(true);
     try {
       const answerSaved = id === null ? await api<{ structure: StructureWithLive }>('/api/structures', { body: input }) : await api<{ structure: StructureWithLive }>(`/api/structures/${id}`, { method: 'PATCH', body: input });
       void refreshSnapshot();
@@ -177,12 +207,8 @@ export function StructureForm({ id }: { id: number | null }) {
         const m = new Map<string, string>();
         for (const i of err.issues) m.set(i.path, m.has(i.path) ? `${m.get(i.path)}; ${i.message}` : i.message);
         setSaveIssues(m);
-        const fields = issueFields([...m.entries()], draft.kind);
-        setMessage({
-          ok: false,
-          text: `Not saved: ${fields.length === 1 ? '1 field needs attention, marked' : `${fields.length} fields need attention, each marked`} in red where it is:`,
-          fields,
-        });
+        const fields = inPageOrder(issueFields(m, draft.kind));
+        setMessage({ ok: false, text: notSavedText(fields.length), fields });
       } else setMessage({ ok: false, text: `Not saved: ${errorText(err)}` });
     } finally {
       setSaving(false);
@@ -201,7 +227,7 @@ export function StructureForm({ id }: { id: number | null }) {
   };
 
   const fieldInput = (f: FieldDef) => {
-    const fid = `sf-${f.path.replace(/\./g, '-')}`;
+    const fid = fieldControlId(f.path);
     const value = draft.values[f.path] ?? '';
     const err = errorFor(f.path);
     const set = (v: string) => {
@@ -234,12 +260,19 @@ export function StructureForm({ id }: { id: number | null }) {
       );
     }
     return (
-      <Field id={fid} label={f.label} unit={unitLabel} help={f.help} error={err} key={f.path}>
+      <Field id={fid} label={f.label} unit={unitLabel} help={formWords(f.help, draft.kind)} error={err} key={f.path}>
         {control}
       </Field>
     );
   };
 
+  /** The check gust: at the top of the panel until there is an answer, then at the head of its numbers (the drawing comes first). */
+  const checkField = (show: boolean) =>
+    show ? (
+      <Field id="sf-check" label="Check gust at the structure" unit={speedUnitLabels[unit]} error={checkGustMps === null ? 'must be a number' : checkGustMps > 120 ? 'at most 120 m/s' : undefined} help="Loads and forces (in the drawing too) are at this gust; it is also the design gust for the extra ballast. Air density: the site’s current value.">
+            <input id="sf-check" inputMode="decimal" value={checkGust} onInput={(e) => setCheckGust(e.currentTarget.value)} />
+          </Field>
+    ) : null;
   const nameErr = errorFor('name');
   const levelGusts = answer?.levels?.map((l) => (l.triggerGustMps === null ? 'no gust reaches it' : speed(l.triggerGustMps, unit))) ?? [];
 
@@ -292,7 +325,19 @@ export function StructureForm({ id }: { id: number | null }) {
 
           <section aria-labelledby="dims-h">
             <h2 id="dims-h">Dimensions, masses and coefficients</h2>
-            <div class="grid2">{kindFields[draft.kind].map(fieldInput)}</div>
+            {draft.kind === 'banner' ? (
+              <FencePanels draft={draft} fieldInput={fieldInput} setValues={(values) => {
+                setTouched(new Set([...touched, ...Object.keys(values)]));
+                update({ values: { ...draft.values, ...values } });
+              }} />
+            ) : null}
+            <div class="grid2">{mainFields(draft.kind).map(fieldInput)}</div>
+            {alternativeFields(draft.kind).length > 0 ? (
+              <details class="alt-fields" open={alternativeFields(draft.kind).some((f) => (draft.values[f.path] ?? '').trim() !== '')}>
+                <summary>Or give the run’s length, or feet that are not one per joint</summary>
+                <div class="grid2">{alternativeFields(draft.kind).map(fieldInput)}</div>
+              </details>
+            ) : null}
             {draft.kind === 'custom' ? <CustomRows draft={draft} update={update} errorFor={errorFor} touch={touch} /> : null}
           </section>
 
@@ -334,8 +379,26 @@ export function StructureForm({ id }: { id: number | null }) {
           <section aria-labelledby="where-h">
             <h2 id="where-h">Where it stands and what measures its wind</h2>
             <div class="grid2">
-              <Field id="sf-orient" label="Front faces towards" unit="° from north" error={errorFor('orientationDeg')} help="Azimuth the front side faces, degrees clockwise from north (0 north, 90 east). Used when the site assesses wind direction.">
-                <input id="sf-orient" inputMode="decimal" value={draft.orientationDeg} onInput={(e) => update({ orientationDeg: e.currentTarget.value })} />
+              <Field
+                id="sf-orient"
+                label="Front faces towards"
+                unit="° from north"
+                error={errorFor('orientationDeg')}
+                help="Azimuth the front side faces, degrees clockwise from north (0 north, 90 east, 180 south, 270 west): take it on site with a compass. Sides and winds are then named by compass, and it is used when the site assesses wind direction. No default: a wrong guess puts the wind on the wrong side."
+              >
+                <input
+                  id="sf-orient"
+                  inputMode="decimal"
+                  placeholder="e.g. 180 (the front faces south)"
+                  value={draft.orientationDeg}
+                  aria-invalid={errorFor('orientationDeg') ? true : undefined}
+                  aria-describedby={described('sf-orient', true, !!errorFor('orientationDeg'))}
+                  onInput={(e) => {
+                    touch('orientationDeg');
+                    update({ orientationDeg: e.currentTarget.value });
+                  }}
+                  onBlur={() => touch('orientationDeg')}
+                />
               </Field>
               <Field id="sf-loc" label="Location on site" error={errorFor('location')} help="In words the crew know: “west lawn, by the bar”.">
                 <input id="sf-loc" maxLength={200} value={draft.location} onInput={(e) => update({ location: e.currentTarget.value })} />
@@ -382,20 +445,26 @@ export function StructureForm({ id }: { id: number | null }) {
               ) : null}
             </div>
           ) : null}
+          <CalcStrip answer={answer} attention={attention} pending={pending} unit={unit} kind={draft.kind} />
         </div>
 
         <aside class="form-side" aria-labelledby="calc-h">
           <h2 id="calc-h">Calculated</h2>
-          <Field id="sf-check" label="Check gust at the structure" unit={speedUnitLabels[unit]} error={checkGustMps === null ? 'must be a number' : checkGustMps > 120 ? 'at most 120 m/s' : undefined} help="Loads below are at this gust; it is also the design gust for the extra ballast. Air density: the site’s current value.">
-            <input id="sf-check" inputMode="decimal" value={checkGust} onInput={(e) => setCheckGust(e.currentTarget.value)} />
-          </Field>
-          <Results answer={answer} hasIssues={assessIssues.size > 0 || local.size > 0} unit={unit} frontAzimuthDeg={frontAzimuthDeg} />
-          {answer && record ? (
-            <div class="figures">
-              <SideView answer={answer} record={record} frontAzimuthDeg={frontAzimuthDeg} />
-              <PlanView answer={answer} frontAzimuthDeg={frontAzimuthDeg} />
-            </div>
-          ) : null}
+          {checkField(!answer)}
+          <Attention fields={attention} answered={answer !== null} />
+          <Results
+            answer={answer}
+            waiting={attention.length > 0}
+            pending={pending}
+            unit={unit}
+            frontAzimuthDeg={frontAzimuthDeg}
+            kind={draft.kind}
+            tab={sideTab}
+            setTab={setSideTab}
+            checkField={checkField(answer !== null)}
+            sideView={answer && record ? <SideView answer={answer} record={record} frontAzimuthDeg={frontAzimuthDeg} /> : null}
+            planView={answer ? <PlanView answer={answer} frontAzimuthDeg={frontAzimuthDeg} kind={draft.kind} /> : null}
+          />
         </aside>
       </div>
     </main>
@@ -405,139 +474,245 @@ export function StructureForm({ id }: { id: number | null }) {
 interface Message {
   ok: boolean;
   text: string;
-  /** The fields a refused save names: label and the id of the control to go to (null when none matches). */
-  fields?: Array<{ label: string; controlId: string | null; problem: string }>;
+  /** The fields a refused save names: label, the control to go to (null when none matches) and the complaint. */
+  fields?: IssueField[];
   /** Shown under the heading instead of beside the save button. */
   top?: boolean;
 }
 
+/** What the side panel shows on a desktop: one drawing or the numbers. */
+type CalcTab = 'side' | 'plan' | 'numbers';
+
+const notSavedText = (count: number): string =>
+  `Not saved: ${count === 1 ? '1 field needs attention, marked' : `${count} fields need attention, each marked`} in red where it is:`;
+
+/** An empty, unreadable or out-of-range orientation, in words; null when it is a usable azimuth. */
+function orientationProblem(text: string): string | null {
+  const n = typedNumber(text);
+  if (n === undefined) return 'is required: the compass bearing the front faces, 0 to 360° (0 north, 90 east, 180 south, 270 west)';
+  if (Number.isNaN(n)) return 'must be a number of degrees, 0 to 360';
+  if (n < 0 || n > 360) return 'must be from 0 to 360°';
+  return null;
+}
+
+/**
+ * Takes the person to a field: opens any folded section holding it, brings it to the middle of the
+ * screen (clear of the sticky strip and the tabs) and puts the cursor in it.
+ */
+export function goToControl(controlId: string): void {
+  const el = document.getElementById(controlId);
+  if (!el) return;
+  for (let d = el.closest('details'); d; d = d.parentElement?.closest('details') ?? null) d.open = true;
+  el.scrollIntoView({ block: 'center' });
+  el.focus({ preventScroll: true });
+}
+
+/** Fields in the order they stand on the page (those with no control last), so "the first" is the first one met. */
+function inPageOrder<T extends { controlId: string | null }>(items: T[]): T[] {
+  if (typeof document === 'undefined') return items;
+  const at = (t: T) => (t.controlId ? document.getElementById(t.controlId) : null);
+  return items
+    .map((item, index) => ({ item, index, el: at(item) }))
+    .sort((a, b) => {
+      if (a.el && b.el) return a.el.compareDocumentPosition(b.el) & Node.DOCUMENT_POSITION_FOLLOWING ? -1 : 1;
+      if (a.el || b.el) return a.el ? -1 : 1;
+      return a.index - b.index;
+    })
+    .map((x) => x.item);
+}
+
+function IssueList({ fields, testId }: { fields: IssueField[]; testId?: string }) {
+  return (
+    <ul class="issue-links" data-testid={testId}>
+      {fields.map((f) => (
+        <li>
+          {f.controlId ? (
+            <button type="button" class="link-like" onClick={() => goToControl(f.controlId!)}>
+              {f.label}
+            </button>
+          ) : (
+            <strong>{f.label}</strong>
+          )}
+          : {f.problem}
+        </li>
+      ))}
+    </ul>
+  );
+}
+
 function MessageBox({ message }: { message: Message }) {
-  const go = (controlId: string) => {
-    const el = document.getElementById(controlId);
-    if (!el) return;
-    el.scrollIntoView({ block: 'center' });
-    el.focus({ preventScroll: true });
-  };
   return (
     <div class={message.ok ? 'ok-box' : 'error-box'} role={message.ok ? 'status' : 'alert'}>
       <p class="message-text">{message.text}</p>
-      {message.fields && message.fields.length > 0 ? (
-        <ul class="issue-links">
-          {message.fields.map((f) => (
-            <li>
-              {f.controlId ? (
-                <button type="button" class="link-like" onClick={() => go(f.controlId!)}>
-                  {f.label}
-                </button>
-              ) : (
-                <strong>{f.label}</strong>
-              )}
-              : {f.problem}
-            </li>
-          ))}
-        </ul>
+      {message.fields && message.fields.length > 0 ? <IssueList fields={message.fields} /> : null}
+    </div>
+  );
+}
+
+/**
+ * What the calculator is waiting for, named field by field (each a link), the first one as a
+ * button. With an answer on show (levels out of order, an orientation still to give), it says what
+ * must be put right before saving.
+ */
+function Attention({ fields, answered }: { fields: IssueField[]; answered: boolean }) {
+  if (fields.length === 0) return null;
+  const first = fields.find((f) => f.controlId !== null);
+  const count = fields.length === 1 ? '1 field needs' : `${fields.length} fields need`;
+  return (
+    <div class="attention-box" role="status" data-testid="calc-attention">
+      <p class="attention-h">{answered ? `Before it can be saved, ${count} attention:` : `No limit yet: ${count} attention first:`}</p>
+      <IssueList fields={fields} testId="calc-attention-fields" />
+      {first ? (
+        <button type="button" class="go-first" data-testid="calc-go-first" onClick={() => goToControl(first.controlId!)}>
+          Go to {first.label}
+        </button>
       ) : null}
     </div>
   );
 }
 
-const placementFields: Readonly<Record<string, [string, string]>> = {
-  name: ['Name', 'sf-name'],
-  orientationDeg: ['Front faces towards', 'sf-orient'],
-  location: ['Location on site', 'sf-loc'],
-  latDeg: ['Latitude', 'sf-lat'],
-  lonDeg: ['Longitude', 'sf-lon'],
-  'uplift.planAreaM2': ['Uplift plan area', 'sf-up-area'],
-  'uplift.liftCoefficient': ['Uplift lift coefficient c_lift', 'sf-up-c'],
-  'uplift.xM': ['Uplift position x', 'sf-up-x'],
-  'uplift.yM': ['Uplift position y', 'sf-up-y'],
-};
-
 /**
- * The fields a save's issue paths point at, in words the form uses and with the control to go to:
- * "record.lengthM" → Length along the ridge, "levels.2.trigger.gustMps" → Level 3: trigger,
- * "record.faces.1.areaM2" → Face 2: area; each with its complaint. Several issues on one field are named once.
+ * The answer while typing on a phone: the limit gust and what governs, or the field the calculator
+ * waits for, in a strip that stays at the bottom of the form (above the tabs) until the form's end
+ * scrolls into view, where the full answer follows. Hidden on a desktop, where the side panel stays.
  */
-function issueFields(issues: ReadonlyArray<[string, string]>, kind: StructureKind): Array<{ label: string; controlId: string | null; problem: string }> {
-  const out: Array<{ label: string; controlId: string | null; problem: string }> = [];
-  const fields = [...kindFields[kind], ...commonFields];
-  for (const [raw, message] of issues) {
-    const problem = plainMessage(message);
-    const add = (label: string, controlId: string | null) => {
-      const same = out.find((o) => o.label === label);
-      if (same) same.problem = `${same.problem}; ${problem}`;
-      else out.push({ label, controlId, problem });
-    };
-    const path = raw.replace(/^(record|structure)\./, '');
-    const field = fields.find((f) => f.path === path || path.startsWith(`${f.path}.`));
-    if (field) {
-      add(field.label, `sf-${field.path.replace(/\./g, '-')}`);
-      continue;
-    }
-    const placement = placementFields[path];
-    if (placement) {
-      add(placement[0], placement[1]);
-      continue;
-    }
-    const row = /^(faces|masses)\.(\d+)\.?(\w+)?/.exec(path);
-    if (row) {
-      const i = Number(row[2]);
-      const columns: ReadonlyArray<{ key: string; label: string }> = row[1] === 'faces' ? faceColumns : massColumns;
-      const column = columns.find((c) => c.key === row[3]);
-      const what = row[1] === 'faces' ? 'Face' : 'Mass';
-      add(column ? `${what} ${i + 1}: ${column.label.toLowerCase()}` : `${what} ${i + 1}`, column ? `${row[1] === 'faces' ? 'face' : 'mass'}-${i}-${column.key}` : null);
-      continue;
-    }
-    const level = /^levels\.(\d+)\.?(\w+)?/.exec(path);
-    if (level) {
-      const i = Number(level[1]);
-      const part = level[2] === 'label' ? 'label' : level[2] === 'actionText' ? 'action' : 'trigger';
-      add(`Level ${i + 1}: ${part}`, `sl-${i}-${part === 'trigger' ? 'value' : part}`);
-      continue;
-    }
-    if (/^levels/.test(path)) {
-      add('Levels and actions', null);
-      continue;
-    }
-    if (/^sensorKeys/.test(path)) {
-      add('Sensors that govern', null);
-      continue;
-    }
-    add(path === '' || path === 'record' ? 'the structure as a whole' : path, null);
-  }
-  return out;
+function CalcStrip(props: { answer: AssessAnswer | null; attention: IssueField[]; pending: boolean; unit: Parameters<typeof speed>[1]; kind: StructureKind }) {
+  const { answer, attention, pending, unit } = props;
+  const first = attention.find((f) => f.controlId !== null);
+  const toAnswer = () => document.getElementById('calc-h')?.scrollIntoView({ block: 'start' });
+  return (
+    <div class={`calc-strip${pending ? ' stale' : ''}`} data-testid="calc-strip" aria-label="Calculated limit">
+      {answer ? (
+        <button type="button" class="cs-answer" onClick={toAnswer}>
+          <span class="cs-limit">
+            <span class="cs-label">Limit gust{pending ? ' (updating)' : ''}</span>
+            <strong data-testid="strip-limit">{answer.limitGustMps === null ? 'no limit found' : speed(answer.limitGustMps, unit)}</strong>
+          </span>
+          <span class="cs-governs" data-testid="strip-governs">
+            {answer.limitGovernedBy === 'rated' ? 'The rated gust governs' : `Governs: ${formWords(answer.governingText, props.kind)}`}
+          </span>
+          {attention.length > 0 ? <span class="cs-todo">{attention.length === 1 ? '1 field to put right before saving' : `${attention.length} fields to put right before saving`}</span> : null}
+        </button>
+      ) : first ? (
+        <button type="button" class="cs-answer cs-waiting" onClick={() => goToControl(first.controlId!)}>
+          <span class="cs-label">No limit yet: {attention.length === 1 ? '1 field needs' : `${attention.length} fields need`} attention</span>
+          <strong class="cs-go" data-testid="strip-go">Go to {first.label} ›</strong>
+        </button>
+      ) : (
+        <p class="cs-answer">{pending ? 'Calculating…' : attention.length > 0 ? 'No limit yet: see the fields named below' : 'Calculating…'}</p>
+      )}
+    </div>
+  );
 }
 
-function Results({ answer, hasIssues, unit, frontAzimuthDeg }: { answer: AssessAnswer | null; hasIssues: boolean; unit: Parameters<typeof speed>[1]; frontAzimuthDeg: number | null }) {
+/** Kind fields shown in the main grid: not the fence's panel fields (FencePanels) nor the folded alternatives. */
+const mainFields = (kind: StructureKind): FieldDef[] =>
+  kindFields[kind].filter((f) => !f.alternative && !(kind === 'banner' && (f.path === 'panelWidthM' || f.path === 'panels')));
+const alternativeFields = (kind: StructureKind): FieldDef[] => kindFields[kind].filter((f) => f.alternative);
+
+/**
+ * A fence starts from its panels: a common size (or the measured width), how many; the run's
+ * length and the feet follow and are said as you type.
+ */
+function FencePanels(props: { draft: Draft; fieldInput: (f: FieldDef) => preact.JSX.Element; setValues: (values: Record<string, string>) => void }) {
+  const { draft } = props;
+  const byPath = (path: string) => kindFields.banner.find((f) => f.path === path)!;
+  const run = bannerRun(draft.values);
+  const isOn = (p: (typeof panelPresets)[number]) => typedNumber(draft.values.panelWidthM ?? '') === p.panelWidthM && typedNumber(draft.values.heightM ?? '') === p.heightM;
+  return (
+    <fieldset class="fence-panels">
+      <legend>Panels</legend>
+      <p class="help">Start from the panels: a common size or your own, and how many. The run’s length and the feet follow (a foot at every joint and one at each end).</p>
+      <div class="seg wrap" role="group" aria-label="Common panel sizes">
+        {panelPresets.map((p) => (
+          <button type="button" class={isOn(p) ? 'on' : ''} aria-pressed={isOn(p)} data-preset={p.id} onClick={() => props.setValues({ panelWidthM: String(p.panelWidthM), heightM: String(p.heightM) })}>
+            {p.name}: {p.panelWidthM} m wide × {p.heightM} m high
+          </button>
+        ))}
+      </div>
+      <p class="help">{panelPresetsSource} A size fills the panel width and the banner height (a banner over the whole panel); change either to match yours.</p>
+      <div class="grid2">
+        {props.fieldInput(byPath('panelWidthM'))}
+        {props.fieldInput(byPath('panels'))}
+      </div>
+      <p class="fence-run" data-testid="fence-run" aria-live="polite">
+        {run
+          ? `The run: ${run.panels} ${run.panels === 1 ? 'panel' : 'panels'} × ${round2(run.panelWidthM)} m = ${round2(run.runLengthM)} m long, on ${run.feet} ${run.feet === 1 ? 'foot' : 'feet'}${(draft.values.feet ?? '').trim() !== '' ? ' (as given)' : ' (one at every joint and one at each end)'}.`
+          : 'Give the panel width and the number of panels: the run’s length and the feet follow.'}
+      </p>
+    </fieldset>
+  );
+}
+
+const round2 = (v: number): string => String(Math.round(v * 100) / 100);
+
+function Results(props: {
+  answer: AssessAnswer | null;
+  waiting: boolean;
+  pending: boolean;
+  unit: Parameters<typeof speed>[1];
+  frontAzimuthDeg: number | null;
+  kind: StructureKind;
+  tab: CalcTab;
+  setTab: (tab: CalcTab) => void;
+  sideView: preact.ComponentChildren;
+  planView: preact.ComponentChildren;
+  /** The check gust field, at the head of the numbers. */
+  checkField: preact.ComponentChildren;
+}) {
+  const { answer, unit, frontAzimuthDeg, kind, tab } = props;
   if (!answer) {
-    return <p class="unknown-box">{hasIssues ? 'Some fields need attention before the limit can be calculated (marked next to them once touched).' : 'Calculating…'}</p>;
+    // What it waits for is named just above (Attention); nothing is shown as a limit.
+    return props.waiting ? null : <p class="unknown-box">Calculating…</p>;
   }
   const u = answer.utilization;
   const util = (v: number | null, unbounded: boolean) => (unbounded ? 'unbounded (resistance gone)' : percent(v));
   const rb = answer.requiredBallast;
   const where = (x: number, y: number) => (answer.expanded.baseWidthM === undefined ? `x = ${x.toFixed(2)} m` : `x = ${x.toFixed(2)} m, y = ${y.toFixed(2)} m`);
+  const tabButton = (which: CalcTab, words: string) => (
+    <button type="button" role="tab" id={`calc-tab-${which}`} aria-selected={tab === which} aria-controls={`calc-pane-${which}`} class={tab === which ? 'on' : ''} onClick={() => props.setTab(which)}>
+      {words}
+    </button>
+  );
   return (
-    <div class="results" aria-live="polite">
-      <Warnings warnings={answer.warnings} />
+    <div class={`results${props.pending ? ' stale' : ''}`} aria-live="polite">
+      <Warnings warnings={answer.warnings} kind={kind} />
       <div class="limit-box">
-        <span class="fig-label">Limit gust</span>
+        <span class="fig-label">Limit gust{props.pending ? ' (updating…)' : ''}</span>
         <span class="limit-value" data-testid="limit-gust">
           {answer.limitGustMps === null ? 'no limit found' : speed(answer.limitGustMps, unit)}
         </span>
         <span class="governs-text" data-testid="governing-text">
           {answer.limitGovernedBy === 'rated' ? (
             <>
-              The rated gust governs. Calculated {speed(answer.calculatedLimitGustMps, unit)}, where <strong>{answer.governingText}</strong>.
+              The rated gust governs. Calculated {speed(answer.calculatedLimitGustMps, unit)}, where <strong>{formWords(answer.governingText, kind)}</strong>.
             </>
           ) : (
             <>
-              Governs: <strong>{answer.governingText}</strong>
+              Governs: <strong>{formWords(answer.governingText, kind)}</strong>
             </>
           )}
         </span>
       </div>
-      <ElementsList answer={answer} unit={unit} frontAzimuthDeg={frontAzimuthDeg} />
-      <DirectionsTable answer={answer} unit={unit} frontAzimuthDeg={frontAzimuthDeg} />
+      {/* On a desktop the panel shows one of these at a time, the side view first; on a phone all, one after the other. */}
+      <div class="calc-tabs seg" role="tablist" aria-label="Calculated: the drawings or the numbers">
+        {tabButton('side', 'Side view')}
+        {tabButton('plan', 'Plan')}
+        {tabButton('numbers', 'Numbers')}
+      </div>
+      <div class={`figures${tab === 'numbers' ? ' pane-off' : ''}`}>
+        <p class="help">Forces drawn at the check gust of {speed(answer.gustMps, unit)} (its field heads the numbers).</p>
+        <div class={`calc-pane${tab === 'side' ? '' : ' pane-off'}`} id="calc-pane-side" role="tabpanel" aria-labelledby="calc-tab-side" data-testid="calc-pane-side">
+          {props.sideView}
+        </div>
+        <div class={`calc-pane${tab === 'plan' ? '' : ' pane-off'}`} id="calc-pane-plan" role="tabpanel" aria-labelledby="calc-tab-plan" data-testid="calc-pane-plan">
+          {props.planView}
+        </div>
+      </div>
+      <div class={`calc-pane${tab === 'numbers' ? '' : ' pane-off'}`} id="calc-pane-numbers" role="tabpanel" aria-labelledby="calc-tab-numbers" data-testid="calc-pane-numbers">
+        {props.checkField}
+      <ElementsList answer={answer} unit={unit} frontAzimuthDeg={frontAzimuthDeg} kind={kind} />
+      <DirectionsTable answer={answer} unit={unit} frontAzimuthDeg={frontAzimuthDeg} kind={kind} />
       <table class="kv">
         <caption>Governing case at the check gust of {speed(answer.gustMps, unit)}</caption>
         <tbody>
@@ -596,7 +771,7 @@ function Results({ answer, hasIssues, unit, frontAzimuthDeg }: { answer: AssessA
       {rb ? (
         <p class={!rb.possible ? 'error-box' : rb.massKg > 0 ? 'note-box' : 'ok-box'} data-testid="required-ballast">
           {!rb.possible
-            ? `No extra mass at ${where(rb.xM, rb.yM)} can hold it at ${speed(rb.designGustMps, unit)}: ${rb.reason}`
+            ? `No extra mass at ${where(rb.xM, rb.yM)} can hold it at ${speed(rb.designGustMps, unit)}: ${formWords(rb.reason, kind)}`
             : rb.massKg > 0
               ? `Extra ballast for a design gust of ${speed(rb.designGustMps, unit)}: ${quantity(Math.ceil(rb.massKg), 'kg', 0)} at ${where(rb.xM, rb.yM)} (middle of the base).`
               : `No extra ballast needed for a design gust of ${speed(rb.designGustMps, unit)}.`}
@@ -623,14 +798,15 @@ function Results({ answer, hasIssues, unit, frontAzimuthDeg }: { answer: AssessA
         <ul class="sources">
           {answer.sources.map((s) => (
             <li>
-              <strong>{s.item}</strong> = {s.value}: {s.source}
+              <strong>{formWords(s.item, kind)}</strong> = {s.value}: {formWords(s.source, kind)}
             </li>
           ))}
           {answer.notes.map((n) => (
-            <li>{n}</li>
+            <li>{formWords(n, kind)}</li>
           ))}
         </ul>
       </details>
+      </div>
     </div>
   );
 }
