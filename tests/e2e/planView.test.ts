@@ -240,6 +240,8 @@ describe.skipIf(skipBrowserTests)('plan view and governing words in a real brows
       await page.setViewportSize(wide);
       await shot(page, 'structure-dark-desktop');
       await page.goto(`${e2e.baseUrl}/#/register/${wingId}`);
+      // The form's side panel shows one drawing at a time: open the plan.
+      await page.getByRole('tab', { name: 'Plan' }).click();
       await page.locator('svg[data-testid=plan-view]').waitFor();
       await shot(page, 'form-dark-desktop');
       await page.setViewportSize(phone);
