@@ -221,6 +221,17 @@ function rowNumber(text: string | undefined, path: string, issues: LocalIssues, 
   return numberOrText(text!, path, issues);
 }
 
+/**
+ * A fence's run, asked for before the server is: the engine's layout check (kinds/banner.ts) only
+ * runs once every number is there, so an empty form would not say that the panels are needed.
+ * The panel width and count are the way in; the run's length and the feet are the alternatives.
+ */
+function bannerRunIssues(values: Readonly<Record<string, string>>, issues: LocalIssues): void {
+  const given = (path: string) => (values[path] ?? '').trim() !== '';
+  if (!given('panelWidthM') && !given('widthM')) issues.set('panelWidthM', 'is required, with the number of panels (or give the run’s length instead)');
+  if (!given('panels') && !given('feet') && !(given('panelWidthM') && given('widthM'))) issues.set('panels', 'is required: the number of panels (the feet follow: one at every joint and one at each end)');
+}
+
 /** Sets `target[key]` unless the value is undefined (an empty optional field is left out, not sent as null). */
 function put(target: Record<string, unknown>, key: string, value: unknown): void {
   if (value !== undefined) target[key] = value;
@@ -263,6 +274,7 @@ export function draftRecord(d: Draft, unit: SpeedUnit, issues: LocalIssues = new
     }
     if (value !== undefined) setPath(record, f.path, value);
   }
+  if (d.kind === 'banner') bannerRunIssues(d.values, issues);
   if (d.kind === 'custom') {
     record.faces = d.faces.map((f, i) => {
       const face: Record<string, unknown> = {};
