@@ -9,6 +9,7 @@
  * - stability: every direction, every edge, elements; overturning, sliding, uplift; limit gust,
  *   effective capacity with the rating, required ballast.
  * - records and kinds: the schema of every structure record, validation, expansion to faces and masses.
+ * - configurations: a record's named sets of changes (a screen lowered), each a whole record assessed alike.
  * - assess: the calculator's report (POST /api/assess).
  * - units: speed units and Beaufort.
  */
@@ -150,6 +151,21 @@ export {
   type SourceNote,
   type SourcedValue,
 } from './kinds/index.ts';
+export {
+  applyConfiguration,
+  assessConfigurations,
+  configurationIssues,
+  defaultRegisteredConfigurationName,
+  findConfiguration,
+  maxConfigurations,
+  recordConfigurations,
+  registeredConfigurationName,
+  unchangeableFields,
+  type Configuration,
+  type ConfigurationAssessment,
+  type ConfigurationResult,
+  type ConfiguredRecord,
+} from './configuration.ts';
 export {
   assessCoefficients,
   assessStructure,

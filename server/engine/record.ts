@@ -9,6 +9,7 @@
  * Unknown fields are rejected: a misspelt `ratedGustMps` must not silently drop the rating.
  */
 import { z } from 'zod';
+import { configurationIssues } from './configuration.ts';
 import { plainIssueMessage } from './issueWords.ts';
 import { expandStructure } from './kinds/index.ts';
 import { bannerRecordSchema } from './kinds/banner.ts';
@@ -91,11 +92,26 @@ function referenceHeightIssue(record: StructureRecord): RecordIssue | null {
 /**
  * Checks any input as a structure record. Returns the parsed record (strings trimmed) or every
  * problem found. A reference height below a face's centroid is refused (referenceHeightIssue).
+ * A record's configurations are checked once the record itself is valid: each changed record
+ * must be a valid record of the kind (issues at `configurations.<i>.changes.<field>`).
  *
  * @example validateStructureRecord({ kind: 'banner', name: 'Gate', widthM: -3, ... })
  *   // → { ok: false, issues: [{ path: 'widthM', message: 'must be > 0 m' }, ...] }
  */
 export function validateStructureRecord(input: unknown): RecordValidation {
+  const own = validateRecordItself(input);
+  if (!own.ok) return own;
+  // Each configuration's changed record is checked like a record (configuration.ts).
+  const issues = configurationIssues(own.record);
+  return issues.length > 0 ? { ok: false, issues } : own;
+}
+
+/**
+ * The checks of `validateStructureRecord` on the record itself: its fields, its kind's cross-field
+ * checks and the reference height, but not what its configurations change (configuration.ts runs
+ * this on each changed record).
+ */
+export function validateRecordItself(input: unknown): RecordValidation {
   // reportInput: the plain wording names the value given ("must be one of tent, …, not “yurt”").
   const parsed = structureRecordSchema.safeParse(input, { reportInput: true });
   if (!parsed.success) return { ok: false, issues: recordIssues(parsed.error.issues) };

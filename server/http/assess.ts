@@ -7,10 +7,15 @@
  *
  * JSON has no Infinity: an unbounded utilization is null with `unbounded.<criterion>` true, and a
  * limit no gust reaches is null (see server/engine/assess.ts).
+ *
+ * A record with `configurations` (engine/configuration.ts) is also answered with `configurations`:
+ * each configuration's limit, utilization and governing case at the same gust and density, the one
+ * as registered first; the top-level figures stay those of the record as registered.
  */
 import { Hono, type Context } from 'hono';
 import { z } from 'zod';
 import {
+  assessConfigurations,
   assessStructure,
   highestTravelSpeedMps,
   plausibleAirDensityKgM3,
@@ -100,6 +105,15 @@ assessRoute.post('/', async (c) => {
     const gusts = rawTriggerGustsMps(levels, limitMps);
     extras.levels = levels.map((level, i) => ({ level: i + 1, label: level.label, trigger: level.trigger, triggerGustMps: Number.isFinite(gusts[i]!) ? gusts[i] : null }));
     extras.levelOrderProblems = levelProblems(levels, limitMps).map((problem) => ({ path: `levels.${problem.index}.trigger.${problem.field}`, message: problem.message }));
+  }
+  if ((structure.record.configurations ?? []).length > 0) {
+    // Extension (issue 14): every configuration at the same gust and density, the one as
+    // registered first; with `levels`, each configuration's own level gusts.
+    extras.configurations = assessConfigurations(structure.record, { gustMps, airDensityKgM3, frontAzimuthDeg }).map((configuration) => {
+      if (!levels) return configuration;
+      const gusts = rawTriggerGustsMps(levels, configuration.limitGustMps ?? Infinity);
+      return { ...configuration, levels: levels.map((level, i) => ({ level: i + 1, label: level.label, triggerGustMps: Number.isFinite(gusts[i]!) ? gusts[i] : null })) };
+    });
   }
   if (designGustMps !== undefined) {
     const { baseDepthM } = report.expanded;

@@ -23,7 +23,7 @@ import { CsvError, parseCsv, toCsv, unguard } from './csv.ts';
 import { listGateways } from './gateways.ts';
 import { listSensors, sensorInputSchema } from './sensors.ts';
 import { getSite, siteUpdateSchema } from './site.ts';
-import { checkStructure, listStructures, structureColumns, structureInputSchema } from './structures.ts';
+import { checkStructure, listStructures, structureColumns, structureInputSchema, structureView } from './structures.ts';
 
 export const registerFormat = 'holdfast-register';
 
@@ -304,11 +304,14 @@ export function importRegister(db: Db, file: RegisterFile, mode: 'merge' | 'repl
       }
       const values = { ...structureColumns(input, record), updatedAtMs: nowMs };
       const old = existingStructures.get(record.name);
+      // Each structure's record (its configurations included) goes into the audit trail, as a change through the API does.
       if (old) {
-        tx.update(structuresTable).set(values).where(eq(structuresTable.id, old.id)).run();
+        const after = structureView(tx.update(structuresTable).set(values).where(eq(structuresTable.id, old.id)).returning().get()!);
+        recordAudit(tx, { actor, entity: 'structure', entityId: old.id, action: `import (${mode})`, before: structureView(old), after }, nowMs);
         summary.structuresUpdated++;
       } else {
-        tx.insert(structuresTable).values({ ...values, siteId: site.id, createdAtMs: nowMs }).run();
+        const after = structureView(tx.insert(structuresTable).values({ ...values, siteId: site.id, createdAtMs: nowMs }).returning().get());
+        recordAudit(tx, { actor, entity: 'structure', entityId: after.id, action: `import (${mode})`, after }, nowMs);
         summary.structuresAdded++;
       }
     });

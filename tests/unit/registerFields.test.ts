@@ -24,7 +24,12 @@ const excluded: Readonly<Record<string, string>> = {
   faces: 'custom: its own row editor (faceColumns)',
   masses: 'custom: its own row editor (massColumns)',
   uplift: 'custom: its own editor (upliftColumns)',
+  configurationName: 'every kind: the configurations editor (issue 14), not a kind field',
+  configurations: 'every kind: the configurations editor (issue 14), not a kind field',
 };
+
+/** Fields the form's round trips below do not carry yet: the configurations editor is its own (issue 14). */
+const notInRoundTrips = ['configurationName', 'configurations'];
 
 /** Schema-optional fields the form requires anyway, each with the reason. */
 const requiredInForm: Readonly<Record<string, string>> = {
@@ -222,7 +227,7 @@ describe('a stored record opened in the form and saved again is the same record 
         };
         collect(input, '');
       }
-      const notGiven = kindLeaves(kind).map((leaf) => leaf.path).filter((path) => !given.has(path) && path !== 'wallsClosed');
+      const notGiven = kindLeaves(kind).map((leaf) => leaf.path).filter((path) => !given.has(path) && path !== 'wallsClosed' && !notInRoundTrips.some((name) => path === name || path.startsWith(`${name}.`)));
       expect({ kind, notGiven }).toEqual({ kind, notGiven: [] });
     }
   });

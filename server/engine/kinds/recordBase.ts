@@ -9,6 +9,15 @@ import type { ExpandedStructure, SafetyFactors } from '../structure.ts';
 import { dimensionM, frictionCoefficient, gustMps, safetyFactor, sourceText } from '../recordFields.ts';
 import { frictionBySurface, steelFeetOnHardFriction, type SourcedValue } from './coefficients.ts';
 
+/** Most configurations a record may list besides the one as registered (design §2.5). */
+export const maxConfigurations = 8;
+/** Name of the configuration as registered when the record gives no `configurationName`. */
+export const defaultRegisteredConfigurationName = 'as registered';
+
+function configurationNameSchema() {
+  return z.string().trim().min(1, 'must not be empty').max(100, 'must be at most 100 characters');
+}
+
 export const recordBaseShape = {
   name: z.string().trim().min(1, 'must not be empty').max(200, 'must be at most 200 characters'),
   /** Partial safety factors; each one missing takes its default (1.5 / 2.0 / 1.5). */
@@ -25,6 +34,29 @@ export const recordBaseShape = {
   referenceHeightM: dimensionM().optional(),
   /** Source of any coefficient the record overrides: required when it overrides one. */
   coefficientSource: sourceText().optional(),
+  /**
+   * Name of the record's own configuration, the one as registered ("raised", "sides on"), at most
+   * 100 characters. Default "as registered". Listed first wherever configurations are shown.
+   */
+  configurationName: configurationNameSchema().optional(),
+  /**
+   * Other configurations the crew can move the structure to (design §2.5), at most 8: each a
+   * `name` and the `changes` it makes, `{<field of this kind>: <value>}`. A change replaces the
+   * registered field's value (an object such as `sides` or `coefficients` is replaced whole);
+   * null removes an optional field, so its default applies. The changed record is checked like
+   * any record of the kind.
+   */
+  configurations: z
+    .array(
+      z.strictObject({
+        /** What the crew call the configuration ("lowered", "sides off", "scrim removed"), at most 100 characters. */
+        name: configurationNameSchema(),
+        /** The fields of the record's kind this configuration changes, each with its new value (null: removed). */
+        changes: z.record(z.string(), z.unknown()),
+      }),
+    )
+    .max(maxConfigurations, `must list at most ${maxConfigurations} configurations`)
+    .optional(),
 };
 
 const recordBaseSchema = z.object(recordBaseShape);
