@@ -4,13 +4,23 @@
  * it missed; one that was away too long gets a fresh snapshot instead. Dozens of phones cost
  * one JSON.stringify per event, not one per phone.
  */
-export type LiveEventKind = 'wind' | 'structure' | 'structures' | 'alert' | 'alert-update' | 'health' | 'register';
+export type LiveEventKind = 'winds' | 'structure' | 'structures' | 'alert' | 'alert-update' | 'health' | 'register';
 
 export interface LiveEvent {
   id: number;
   kind: LiveEventKind;
-  /** The JSON text sent as the event's data. */
+  /** The JSON text sent as the event's data (one line: JSON.stringify writes no line breaks). */
   data: string;
+  /** The whole Server-Sent Events message, encoded once for every client (see `sseBytes`). */
+  sse?: Uint8Array;
+}
+
+const encoder = new TextEncoder();
+
+/** The event as one encoded SSE message (`id`, `event`, `data`), made once and kept on the event. */
+export function sseBytes(event: LiveEvent): Uint8Array {
+  event.sse ??= encoder.encode(`id: ${event.id}\nevent: ${event.kind}\ndata: ${event.data}\n\n`);
+  return event.sse;
 }
 
 export type LiveListener = (event: LiveEvent) => void;
@@ -36,7 +46,13 @@ export class LiveHub {
   }
 
   publish(kind: LiveEventKind, payload: unknown): LiveEvent {
-    const event: LiveEvent = { id: this.nextId++, kind, data: JSON.stringify(payload) };
+    return this.publishText(kind, JSON.stringify(payload));
+  }
+
+  /** An event whose JSON text is already written (the once-a-second frames build their own). */
+  publishText(kind: LiveEventKind, data: string): LiveEvent {
+    if (data.includes('\n')) throw new RangeError(`live event data must be one line (kind ${kind})`);
+    const event: LiveEvent = { id: this.nextId++, kind, data };
     if (this.size === this.capacity) this.dropOldest();
     this.ring[(this.start + this.size) % this.capacity] = event;
     this.size++;

@@ -57,12 +57,28 @@ import type { LiveHub } from '../live/liveHub.ts';
 import type { AlertRow, WriteBatch } from '../storage/writeBatch.ts';
 import { emptyWriteBatch } from '../storage/writeBatch.ts';
 import { acceptReading, clockOffsetAlertMs, clockOffsetClearMs, clockOffsetMs, createSensorWindState, noteArrival, sensorSilent, stuckSensors, windSnapshot, type SensorWindState } from '../wind/index.ts';
+import type { FrameRow } from '../live/frames.ts';
+import { selectFrame } from '../live/frames.ts';
+import {
+  structureAgoColumns,
+  structureCells,
+  structureColumns,
+  structureDirectionalColumns,
+  structuresFrameBudgetChars,
+  structuresOverdueAfterMs,
+  structureUrgency,
+  windAgoColumns,
+  windCells,
+  windColumns,
+  windsFrameBudgetChars,
+  windsOverdueAfterMs,
+  windUrgency,
+  withAgo,
+} from './liveFrames.ts';
 import { densityDependent, structureModel, type DensityDependent, type StructureModel, type StructureRow } from './structureModel.ts';
 
 /** A reading older than this at receipt is "late" (from a gateway's buffer): stored, not used live. */
 export const liveReadingMaxAgeMs = 60_000;
-/** Wind per sensor is announced on the live stream at most this often. */
-const windAnnounceIntervalMs = 1_000;
 /** After start, a structure or sensor must have had this long to report before "no data" alerts. */
 const startGraceMs = 30_000;
 
@@ -103,7 +119,6 @@ interface SensorLive {
   lastLiveAtMs: number | null;
   /** √c_e at the sensor's height, clamped at z_min and not (see `profileRoots`). */
   profile: ProfileRoots;
-  lastAnnouncedAtMs: number;
   lastHealthCheckAtMs: number;
   silentAlertId: number | null;
   implausibleAlertId: number | null;
@@ -305,7 +320,12 @@ export class Watch implements ReadingConsumer {
   private maxUnclampedSensorKey: string | null = null;
   private readonly startedAtMs: number;
   private readonly now: () => number;
-  private readonly dirtyStructures = new Set<number>();
+  /** Structures whose shown state moved and is not yet in a `structures` frame: id → since when. */
+  private readonly dirtyStructures = new Map<number, number>();
+  /** Sensors whose frame row changed and is not yet sent: key → since when. */
+  private readonly windsWaiting = new Map<string, number>();
+  /** Each sensor's row as last sent in a `winds` frame (absolute times). */
+  private readonly windsSent = new Map<string, string>();
   private lastSystemKey = '';
   /** Alert ids are given here (the alerts table never gets rows from anywhere else). */
   private nextAlertId = 1;
@@ -340,7 +360,6 @@ export class Watch implements ReadingConsumer {
         meanDirDeg: keepWind ? old.meanDirDeg : null,
         lastLiveAtMs: keepWind ? old.lastLiveAtMs : null,
         profile: this.profileRoots(sensor.heightM),
-        lastAnnouncedAtMs: old?.lastAnnouncedAtMs ?? 0,
         lastHealthCheckAtMs: old?.lastHealthCheckAtMs ?? 0,
         silentAlertId: old?.silentAlertId ?? null,
         clockAlertId: old?.clockAlertId ?? null,
@@ -524,10 +543,7 @@ export class Watch implements ReadingConsumer {
     // structures with their own sensor list only when one of theirs reported.
     if (moved || this.site.directionalEnabled) for (const s of this.allSensorStructures) this.evaluate(s, receivedAtMs, batch, announcements);
     for (const s of this.structuresBySensorKey.get(sensor.key) ?? noStructures) this.evaluate(s, receivedAtMs, batch, announcements);
-    if (receivedAtMs - live.lastAnnouncedAtMs >= windAnnounceIntervalMs) {
-      live.lastAnnouncedAtMs = receivedAtMs;
-      announcements.push(() => this.options.hub.publish('wind', this.sensorState(live, receivedAtMs)));
-    }
+    // The sensor's wind goes to the stream in the next once-a-second `winds` frame (tick).
     return { batch, afterCommit: announcements.length > 0 ? () => announcements.forEach((a) => a()) : null };
   }
 
@@ -695,7 +711,7 @@ export class Watch implements ReadingConsumer {
     const shown = s.shown;
     if (shown === null || shown.level !== s.level.level || shown.noData !== s.level.noData || shown.sensorKey !== s.governingSensorKey || Math.abs((shown.gustMps ?? -1) - (s.gustMps ?? -1)) >= 0.05) {
       s.shown = { level: s.level.level, noData: s.level.noData, sensorKey: s.governingSensorKey, gustMps: s.gustMps };
-      this.dirtyStructures.add(s.model.id);
+      if (!this.dirtyStructures.has(s.model.id)) this.dirtyStructures.set(s.model.id, nowMs);
     }
     for (const event of events) this.onLevelEvent(s, event, previousLevel, batch, announcements);
     if (previousLevel !== s.level.level || wasNoData !== s.level.noData) {
@@ -957,21 +973,63 @@ export class Watch implements ReadingConsumer {
       }
     }
 
-    if (this.dirtyStructures.size > 0) {
-      const changed = [...this.dirtyStructures].map((id) => this.structures.get(id)).filter((s): s is StructureLive => s !== undefined);
-      this.dirtyStructures.clear();
-      announcements.push(() => this.options.hub.publish('structures', { atMs: nowMs, updates: changed.map((s) => this.structureUpdate(s)) }));
-    }
-    for (const s of this.sensors.values()) {
-      if (nowMs - s.lastAnnouncedAtMs >= 5_000) {
-        s.lastAnnouncedAtMs = nowMs;
-        announcements.push(() => this.options.hub.publish('wind', this.sensorState(s, nowMs)));
-      }
-    }
+    this.frames(nowMs, announcements);
 
     const empty = batch.readings.length + batch.structureMinutes.length + batch.levelChanges.length + batch.alerts.length + batch.clearedAlerts.length === 0;
     if (empty && announcements.length === 0) return null;
     return { batch, afterCommit: () => announcements.forEach((a) => a()) };
+  }
+
+  /**
+   * The once-a-second `winds` and `structures` frames (server/watch/liveFrames.ts): the rows of
+   * the sensors and structures whose shown figures changed, within each frame's budget, the most
+   * urgent first; a row that does not fit waits for the next frame (and comes first once overdue).
+   */
+  private frames(nowMs: number, announcements: Array<() => void>): void {
+    const windRows = new Map<string, FrameRow>();
+    const windIdentity = new Map<string, string>();
+    for (const s of this.sensors.values()) {
+      const state = this.sensorState(s, nowMs);
+      const cells = windCells(state);
+      const identity = JSON.stringify(cells);
+      const key = state.key;
+      // Once waiting, a row goes out even if it changed back: a snapshot may have shown the change.
+      if (identity === this.windsSent.get(key) && !this.windsWaiting.has(key)) continue;
+      const since = this.windsWaiting.get(key) ?? nowMs;
+      this.windsWaiting.set(key, since);
+      windIdentity.set(key, identity);
+      windRows.set(key, { cells: withAgo(cells, windColumns, windAgoColumns, nowMs), urgency: windUrgency(state), waitingSinceMs: since });
+    }
+    const winds = selectFrame(nowMs, windColumns, windAgoColumns, windRows, windsFrameBudgetChars, windsOverdueAfterMs);
+    for (const key of winds.sent) {
+      this.windsSent.set(key, windIdentity.get(key)!);
+      this.windsWaiting.delete(key);
+    }
+    if (winds.data !== null) {
+      const data = winds.data;
+      announcements.push(() => this.options.hub.publishText('winds', data));
+    }
+
+    if (this.dirtyStructures.size === 0) return;
+    const directional = this.site.directionalEnabled;
+    const columns = directional ? [...structureColumns, ...structureDirectionalColumns] : [...structureColumns];
+    const structureRows = new Map<number, FrameRow>();
+    for (const [id, since] of this.dirtyStructures) {
+      const s = this.structures.get(id);
+      if (s === undefined) {
+        this.dirtyStructures.delete(id);
+        continue;
+      }
+      const update = this.structureUpdate(s);
+      structureRows.set(id, { cells: withAgo(structureCells(update, directional), columns, structureAgoColumns, nowMs), urgency: structureUrgency(update), waitingSinceMs: since });
+    }
+    const budget = structuresFrameBudgetChars + Math.max(0, windsFrameBudgetChars - winds.rowChars);
+    const structures = selectFrame(nowMs, columns, structureAgoColumns, structureRows, budget, structuresOverdueAfterMs);
+    for (const id of structures.sent) this.dirtyStructures.delete(id);
+    if (structures.data !== null) {
+      const data = structures.data;
+      announcements.push(() => this.options.hub.publishText('structures', data));
+    }
   }
 
   private refreshDensity(): void {

@@ -17,6 +17,7 @@
  * Every loop is bounded by a count and a deadline.
  */
 import mqtt, { type MqttClient } from 'mqtt';
+import { performance } from 'node:perf_hooks';
 import { WindSimulator } from '../../server/demo/windSimulator.ts';
 import { wallMs } from './common.ts';
 
@@ -43,7 +44,8 @@ export type PublisherCommand =
 export type PublisherReply =
   | { kind: 'connected'; atMs: number }
   | { kind: 'burst-done'; startedAtMs: number; finishedAtMs: number; published: number; acked: number; errors: number; timedOut: boolean }
-  | { kind: 'rate-done'; published: number; acked: number; errors: number; skipped: number }
+  /** `ackMs`: each acknowledged publish's time from publish to PUBACK, ms (publish order). */
+  | { kind: 'rate-done'; published: number; acked: number; errors: number; skipped: number; ackMs: number[] }
   | { kind: 'closed' }
   | { kind: 'error'; message: string };
 
@@ -162,6 +164,7 @@ async function rate(c: Extract<PublisherCommand, { cmd: 'rate' }>): Promise<void
   let acked = 0;
   let errors = 0;
   let skipped = 0;
+  const ackMs: number[] = [];
   const start = Date.now();
   const tickMs = 10;
   const endAt = start + c.durationMs;
@@ -198,15 +201,22 @@ async function rate(c: Extract<PublisherCommand, { cmd: 'rate' }>): Promise<void
         lastTs.set(s.key, ts);
         pendingPerConn.set(conn, pending + 1);
         published++;
+        const sentAt = performance.now();
         conn.client.publish(`${prefix}/${s.key}/reading`, `{"ts":${ts},"speed":${s.speedMps},"dir":${s.dirDeg}}`, { qos: 1 }, (err) => {
           pendingPerConn.set(conn, (pendingPerConn.get(conn) ?? 1) - 1);
           if (err) errors++;
-          else acked++;
+          else {
+            acked++;
+            ackMs.push(performance.now() - sentAt);
+          }
         });
       }
     }, tickMs);
   });
-  send({ kind: 'rate-done', published, acked, errors, skipped });
+  // Wait (at most 5 s) for the last PUBACKs, so the slowest are not left out of the figures.
+  const settleBy = Date.now() + 5_000;
+  while (acked + errors < published && Date.now() < settleBy) await new Promise((r) => setTimeout(r, 20));
+  send({ kind: 'rate-done', published, acked, errors, skipped, ackMs });
 }
 
 async function close(): Promise<void> {

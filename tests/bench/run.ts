@@ -10,10 +10,11 @@
  *   4 bytes per stored reading                                        festival.ts
  *   5 resident memory of the server under load                        latency.ts
  *   6 front-end JavaScript, gzipped                                   frontend.ts
+ *   7 live stream fan-out: bytes per client, ack p99 with 500 clients fanout.ts
  *
  * Environment (all optional; defaults keep the run to a few minutes on two cores, the first run
  * longer while it generates the festival database, which is then cached):
- *   BENCH_ONLY               comma list of ingest, latency, logs, frontend (default: all)
+ *   BENCH_ONLY               comma list of ingest, latency, fanout, logs, frontend (default: all)
  *   BENCH_SENSORS            anemometers on the benchmark site (100)
  *   BENCH_STRUCTURES         registered structures (1000)
  *   BENCH_GATEWAYS           gateway connections of the publisher (4)
@@ -24,6 +25,9 @@
  *   BENCH_LATENCY_CHANGES    level changes timed on the live stream (200)
  *   BENCH_BACKGROUND_PER_S   background readings per second during the latency run (200)
  *   BENCH_MEMORY_BURST       readings of the full-speed burst during the memory measurement (30000)
+ *   BENCH_FANOUT_CLIENTS     live-stream clients during the fan-out benchmark (500)
+ *   BENCH_FANOUT_PER_S       readings per second during the fan-out benchmark (100)
+ *   BENCH_FANOUT_PHASE_S     seconds per fan-out phase (20; five phases with warm-up and settling)
  *   BENCH_FESTIVAL_SENSORS, BENCH_FESTIVAL_DAYS, BENCH_FESTIVAL_HZ   the generated log (10, 6, 1)
  *   BENCH_QUERY_REPS, BENCH_FULLSCAN_REPS                            timed repetitions (10, 3)
  *   BENCH_PROFILE=1          server processes write CPU profiles to tests/artifacts/profiles/
@@ -46,6 +50,7 @@ import { writeTemplate, type Fleet } from './fleet.ts';
 import { measureFrontend, type FrontendResult } from './frontend.ts';
 import { runBreakdown, type BreakdownResult } from './breakdown.ts';
 import { runIngest, stopGracefully, type IngestResult } from './ingest.ts';
+import { runFanout, type FanoutResult } from './fanout.ts';
 import { runLatency, type LatencyResult } from './latency.ts';
 
 const env = process.env;
@@ -57,7 +62,7 @@ const num = (name: string, fallback: number): number => {
   return v;
 };
 
-const only = new Set((env.BENCH_ONLY ?? 'ingest,latency,logs,frontend').split(',').map((s) => s.trim()).filter(Boolean));
+const only = new Set((env.BENCH_ONLY ?? 'ingest,latency,fanout,logs,frontend').split(',').map((s) => s.trim()).filter(Boolean));
 const artifacts = path.resolve('tests/artifacts');
 const workDir = path.join(artifacts, 'bench-work');
 const profileDir = path.join(artifacts, 'profiles');
@@ -74,6 +79,9 @@ const settings = {
   latencyChanges: num('BENCH_LATENCY_CHANGES', 200),
   backgroundPerS: num('BENCH_BACKGROUND_PER_S', 200),
   memoryBurst: num('BENCH_MEMORY_BURST', 30_000),
+  fanoutClients: num('BENCH_FANOUT_CLIENTS', 500),
+  fanoutPerS: num('BENCH_FANOUT_PER_S', 100),
+  fanoutPhaseMs: num('BENCH_FANOUT_PHASE_S', 20) * 1000,
   festival: { sensors: num('BENCH_FESTIVAL_SENSORS', 10), days: num('BENCH_FESTIVAL_DAYS', 6), hz: num('BENCH_FESTIVAL_HZ', 1), seed: 20260612, startMs: Date.UTC(2026, 5, 8) },
   queryReps: num('BENCH_QUERY_REPS', 10),
   fullScanReps: num('BENCH_FULLSCAN_REPS', 3),
@@ -139,6 +147,7 @@ async function main(): Promise<void> {
     ingest?: IngestResult;
     breakdown?: BreakdownResult;
     latency?: LatencyResult;
+    fanout?: FanoutResult;
     loadAverage: Record<string, number[]>;
     memoryContext?: { nodeIdleKb: number; emptyServerKb: number };
     festival?: { readings: number; generatedSeconds: number | null; cached: boolean };
@@ -163,7 +172,7 @@ async function main(): Promise<void> {
 
   let fleet: Fleet | null = null;
   const templateDir = path.join(workDir, 'template');
-  if (only.has('ingest') || only.has('latency')) {
+  if (only.has('ingest') || only.has('latency') || only.has('fanout')) {
     log(`\nregister: ${settings.sensors} sensors, ${settings.gateways} gateways, ${settings.structures} structures …`);
     fleet = await writeTemplate({ dir: templateDir, sensors: settings.sensors, gateways: settings.gateways, structures: settings.structures, seed: settings.seed, minFirstTriggerMps: 14 });
     result.fleet = { structures: fleet.structures, minFirstTriggerMps: fleet.minFirstTriggerMps, kinds: fleet.kinds, sensors: fleet.sensors.length, gateways: fleet.gateways.length };
@@ -281,6 +290,42 @@ async function main(): Promise<void> {
       verdict: maxRss <= 200 * 1024 ? 'ok' : 'MISS',
     });
     rows.push({ what: '  for comparison: node idle / server, empty register', measured: `${mb(context.nodeIdleKb)} / ${mb(context.emptyServerKb)}`, target: '(info)', verdict: 'info' });
+  }
+
+  // 7. the live stream's fan-out
+  if (only.has('fanout') && fleet) {
+    log(`\n7. live stream fan-out: ${settings.fanoutClients} stream clients, ${settings.fanoutPerS} readings/s, ${settings.fanoutPhaseMs / 1000} s per phase`);
+    const fan = await runFanout({
+      templateDir,
+      workDir,
+      fleet,
+      clients: settings.fanoutClients,
+      ratePerS: settings.fanoutPerS,
+      phaseMs: settings.fanoutPhaseMs,
+      inflight: settings.inflight,
+      seed: settings.seed + 11,
+      baseMeanMps: settings.baseMeanMps,
+      serverEnv: serverEnv(),
+      log,
+    });
+    result.fanout = fan;
+    load('fanout');
+    const ack = (a: FanoutResult['baseline']): string => `p50 ${ms(a.p50Ms)} ms, p99 ${ms(a.p99Ms)} ms, max ${ms(a.maxMs)} ms (${a.acked} of ${a.published} acknowledged, ${a.skipped} skipped)`;
+    log(`  ack with no stream client (baseline, two phases pooled): ${ack(fan.baseline)}`);
+    log(`  ack with ${fan.clients} stream clients: ${ack(fan.withClients)}`);
+    log(`  per client: ${(fan.bytesPerSPerClient.mean / 1024).toFixed(1)} kB/s mean, ${(fan.bytesPerSPerClient.max / 1024).toFixed(1)} kB/s max; ${fan.clientsOpenAtEnd} of ${fan.clients} still open, ${fan.snapshots} snapshots re-sent`);
+    rows.push({
+      what: `7 stream bytes per client (${fleet.sensors.length} sensors, ${fleet.structures} structures)`,
+      measured: `${(fan.bytesPerSPerClient.mean / 1024).toFixed(1)} kB/s mean (max ${(fan.bytesPerSPerClient.max / 1024).toFixed(1)})`,
+      target: '≤ 10 kB/s',
+      verdict: fan.bytesPerSPerClient.max <= 10 * 1024 ? 'ok' : 'MISS',
+    });
+    rows.push({
+      what: `7 ingest ack p99 with ${fan.clients} stream clients (${settings.fanoutPerS}/s)`,
+      measured: `${ms(fan.withClients.p99Ms)} ms (no clients: ${ms(fan.baseline.p99Ms)} ms)`,
+      target: 'p99 ≤ 100 ms',
+      verdict: fan.withClients.p99Ms <= 100 && fan.clientsOpenAtEnd === fan.clients ? 'ok' : 'MISS',
+    });
   }
 
   // 3 and 4. log queries and storage

@@ -52,6 +52,11 @@ export class ApiClient {
 
   constructor(readonly baseUrl: string) {}
 
+  /** The session cookie (`name=value`) for clients that make their own requests. */
+  get cookieHeader(): string {
+    return this.cookie;
+  }
+
   async signIn(username: string, password: string): Promise<Response> {
     const res = await fetch(`${this.baseUrl}/api/session`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ username, password }) });
     const setCookie = res.headers.get('set-cookie');

@@ -9,6 +9,7 @@ import { gustHeightFactor } from '../../server/engine/index.ts';
 import type { Reading } from '../../server/ingest/payload.ts';
 import type { RegisteredSensor } from '../../server/ingest/registry.ts';
 import { siteDefaultLevels } from '../../server/levels/index.ts';
+import { frameRecords, type Frame } from '../../server/live/frames.ts';
 import { LiveHub } from '../../server/live/liveHub.ts';
 import type { StructureRow } from '../../server/watch/structureModel.ts';
 import { Watch, type SiteSettings } from '../../server/watch/watch.ts';
@@ -182,15 +183,16 @@ describe('the gust a structure takes', () => {
     watch.configure(site(), [mast], [{ ...board(1, 'Rated board', 4), recordJson: { ...board(1, 'Rated board', 4).recordJson as object, ratedGustMps: 12 } }]);
     const updates: Array<Record<string, unknown>> = [];
     hub.subscribe((event) => {
-      if (event.kind === 'structures') updates.push(...(JSON.parse(event.data) as { updates: Array<Record<string, unknown>> }).updates);
+      if (event.kind === 'structures') updates.push(...frameRecords(JSON.parse(event.data) as Frame));
     });
     now += 1_000;
     watch.take(mast, [summary(now, 10)], now);
     watch.tick()?.afterCommit();
     const update = updates.find((u) => u.id === 1)!;
     const state = watch.structureStateById(1)!;
-    expect(update.calculatedUtilization).toBe(state.calculatedUtilization);
-    expect(update.utilization).toBe(state.utilization);
+    // Frames round utilization to 0.0001 (server/watch/liveFrames.ts); screens show whole percent.
+    expect(update.calculatedUtilization as number).toBeCloseTo(state.calculatedUtilization!, 4);
+    expect(update.utilization as number).toBeCloseTo(state.utilization!, 4);
     // The rating governs at 10 of 12 m/s: (10/12)² = 0.694 against a lower calculated figure.
     expect(state.utilization).toBeCloseTo((10 / 12) ** 2, 9);
     expect(state.calculatedUtilization!).toBeLessThan(state.utilization!);

@@ -8,6 +8,7 @@
  * opened again. Until it is back every screen says "reconnecting" and how old its data is, and
  * nothing stale is allowed to look calm.
  */
+import { frameRecords, type Frame } from '../../server/live/frames.ts';
 import { api } from './api.ts';
 import { createStore } from './store.ts';
 import type { OpenAlert, SensorState, Snapshot, StructureState, WindLog } from './types.ts';
@@ -125,10 +126,29 @@ function handle(kind: string, data: string): void {
       for (const sensor of snap.sensors) addTrail(sensor);
       break;
     }
-    case 'wind': {
-      const sensor = payload as SensorState;
-      withSnapshot((s) => ({ ...s, sensors: s.sensors.some((x) => x.key === sensor.key) ? s.sensors.map((x) => (x.key === sensor.key ? sensor : x)) : [...s.sensors, sensor] }));
-      addTrail(sensor);
+    case 'winds': {
+      // Once a second: a row per sensor whose wind or state changed (server/live/frames.ts).
+      const rows = frameRecords(payload as Frame) as Array<Partial<SensorState> & { key: string }>;
+      let unknown = false;
+      const merged: SensorState[] = [];
+      withSnapshot((s) => {
+        const byKey = new Map(rows.map((r) => [r.key, r]));
+        const known = new Set(s.sensors.map((x) => x.key));
+        unknown = rows.some((r) => !known.has(r.key));
+        return {
+          ...s,
+          sensors: s.sensors.map((x) => {
+            const row = byKey.get(x.key);
+            if (!row) return x;
+            const next = { ...x, ...row };
+            merged.push(next);
+            return next;
+          }),
+        };
+      });
+      for (const sensor of merged) addTrail(sensor);
+      // A sensor registered since the snapshot: take the register as it is now.
+      if (unknown) void refreshSnapshot();
       break;
     }
     case 'structure': {
@@ -137,7 +157,7 @@ function handle(kind: string, data: string): void {
     }
     case 'structures': {
       // Once a second: only the wind-dependent fields of the structures whose shown state moved.
-      const { updates } = payload as { updates: Array<Partial<StructureState> & { id: number }> };
+      const updates = frameRecords(payload as Frame) as Array<Partial<StructureState> & { id: number }>;
       withSnapshot((s) => {
         const byId = new Map(updates.map((u) => [u.id, u]));
         return { ...s, structures: s.structures.map((x) => (byId.has(x.id) ? { ...x, ...byId.get(x.id)! } : x)).sort(byUrgency) };
@@ -169,7 +189,7 @@ function handle(kind: string, data: string): void {
   }
 }
 
-const kinds = ['hello', 'snapshot', 'wind', 'structure', 'structures', 'register', 'alert', 'alert-update', 'ping', 'health'];
+const kinds = ['hello', 'snapshot', 'winds', 'structure', 'structures', 'register', 'alert', 'alert-update', 'ping', 'health'];
 
 function connect(): void {
   if (!running) return;

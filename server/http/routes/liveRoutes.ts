@@ -5,10 +5,14 @@
  * Stream events (each `data` is JSON):
  * - `snapshot`: everything (site, air, sensors, structures worst first, open alerts) — sent first
  *   on a new connection, and on a resumed one whose missed events are no longer kept;
- * - `wind`: one sensor's wind (at most once a second per sensor);
- * - `structure`: one structure's whole state when its level or data state changes;
- * - `structures`: `{atMs, updates: [...]}` once a second with the wind-dependent part of every
- *   structure whose shown state moved (gust by ≥ 0.05 m/s, level, data state, governing sensor);
+ * - `winds`: once a second, a frame (server/live/frames.ts) with a row per sensor whose wind or
+ *   state changed: `{atMs, columns, ago, rows}`, the cells in the order of `columns`, a column
+ *   named in `ago` holding `atMs − value`;
+ * - `structure`: one structure's whole state when its level or data state changes (at once);
+ * - `structures`: once a second, a frame of the same form with the wind-dependent part of the
+ *   structures whose shown state moved (gust by ≥ 0.05 m/s, level, data state, governing sensor);
+ *   both frames keep to a budget of characters (about 10 kB/s in all, server/watch/liveFrames.ts),
+ *   the most urgent rows first, none waiting more than a few seconds longer than that;
  * - `register`: the register changed (a structure, sensor or site setting): fetch /api/live again;
  * - `health`: storage or broker state changed (`{storageOk, storageError, brokerOk, ...}`);
  * - `alert`: a new alert, or an unacknowledged one signalled again (`resignal: true`);
@@ -32,6 +36,7 @@ import { emptyWriteBatch } from '../../storage/writeBatch.ts';
 import { requireRole, type AppEnv } from '../access.ts';
 import { HttpError } from '../httpError.ts';
 import { idParam, jsonBody } from '../validate.ts';
+import { sseBytes, type LiveEvent } from '../../live/liveHub.ts';
 import type { OpenAlert } from '../../watch/watch.ts';
 import type { ApiContext } from './apiContext.ts';
 
@@ -70,6 +75,34 @@ export const pingIntervalMs = 15_000;
 export const streamWriteTimeoutMs = 30_000;
 export const streamMaxQueuedChars = 1024 * 1024;
 
+/**
+ * Waking the stream clients after an event, a slice at a time: with hundreds of phones watching,
+ * writing one event to all of them in one turn of the event loop held the gateways' PUBACKs for
+ * as long (issue 13 item 8: ack p99 2.8 s with 500 clients). Between slices the loop serves the
+ * broker and the database. Each client's own order of events is kept (its queue is its own).
+ */
+const wakeSliceSize = 25;
+const wakesDue = new Set<() => void>();
+let wakesScheduled = false;
+
+function wakeSoon(wake: () => void): void {
+  wakesDue.add(wake);
+  if (wakesScheduled) return;
+  wakesScheduled = true;
+  setImmediate(runWakes);
+}
+
+function runWakes(): void {
+  let n = 0;
+  for (const wake of wakesDue) {
+    wakesDue.delete(wake);
+    wake();
+    if (++n >= wakeSliceSize) break;
+  }
+  if (wakesDue.size > 0) setImmediate(runWakes);
+  else wakesScheduled = false;
+}
+
 export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
   const api = new Hono<AppEnv>();
   /** Alerts being stored by an "acknowledge all", by id: the name of who is acknowledging them. */
@@ -82,7 +115,7 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
     const lastSeen = header !== undefined && /^[0-9]{1,15}$/.test(header) ? Number(header) : null;
     const socket = (c.env as { incoming?: { socket?: { destroy(): void } } } | undefined)?.incoming?.socket;
     return streamSSE(c, async (stream) => {
-      const queue: Array<{ id: number; kind: string; data: string }> = [];
+      const queue: LiveEvent[] = [];
       let queuedChars = 0;
       let wake: (() => void) | null = null;
       const drop = (): void => {
@@ -100,19 +133,27 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
           queuedChars = 0;
           drop();
         }
-        wake?.();
+        if (wake) wakeSoon(wake);
       });
       stream.onAbort(() => {
         off();
+        clearInterval(watchdog);
         wake?.();
       });
-      const write = async (message: { id?: string; event: string; data: string; retry?: number }): Promise<void> => {
-        let timer: NodeJS.Timeout | undefined;
-        const timedOut = new Promise<'timeout'>((resolve) => (timer = setTimeout(() => resolve('timeout'), streamWriteTimeoutMs)));
-        const result = await Promise.race([stream.writeSSE(message).then(() => 'written' as const), timedOut]);
-        clearTimeout(timer);
-        if (result === 'timeout') drop();
+      // One watchdog per client instead of a timer per write: a write still waiting after
+      // streamWriteTimeoutMs drops the client.
+      let writingSinceMs: number | null = null;
+      const watchdog = setInterval(() => {
+        if (writingSinceMs !== null && Date.now() - writingSinceMs >= streamWriteTimeoutMs) drop();
+      }, Math.min(5_000, streamWriteTimeoutMs));
+      watchdog.unref();
+      const writeBytes = async (bytes: Uint8Array | string): Promise<void> => {
+        writingSinceMs = Date.now();
+        await stream.write(bytes);
+        writingSinceMs = null;
       };
+      const write = (message: { id?: string; event: string; data: string; retry?: number }): Promise<void> =>
+        writeBytes(`${message.id !== undefined ? `id: ${message.id}\n` : ''}event: ${message.event}\ndata: ${message.data}\n${message.retry !== undefined ? `retry: ${message.retry}\n` : ''}\n`);
       // Retry after 2 s when the connection drops (EventSource reconnects by itself).
       await write({ event: 'hello', data: JSON.stringify({ lastEventId: ctx.hub.lastId }), retry: 2000 });
       const missed = lastSeen === null ? null : ctx.hub.since(lastSeen);
@@ -124,7 +165,7 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
         sentUpTo = lastSeen!;
         for (const e of missed) {
           if (stream.aborted) break;
-          await write({ id: String(e.id), event: e.kind, data: e.data });
+          await writeBytes(sseBytes(e));
           sentUpTo = e.id;
         }
       }
@@ -135,13 +176,16 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
           queuedChars -= e.data.length;
           // Already in the snapshot or the replay (events that came while those were written are kept).
           if (e.id <= sentUpTo) continue;
-          await write({ id: String(e.id), event: e.kind, data: e.data });
+          // Encoded once for every client (liveHub.ts).
+          await writeBytes(sseBytes(e));
         }
         if (stream.aborted) break;
+        let pingTimer: NodeJS.Timeout | undefined;
         await new Promise<void>((resolve) => {
           wake = resolve;
-          setTimeout(resolve, Math.max(0, pingIntervalMs - (Date.now() - lastPing)));
+          pingTimer = setTimeout(resolve, Math.max(0, pingIntervalMs - (Date.now() - lastPing)));
         });
+        clearTimeout(pingTimer);
         wake = null;
         if (Date.now() - lastPing >= pingIntervalMs) {
           lastPing = Date.now();
@@ -149,6 +193,7 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
         }
       }
       off();
+      clearInterval(watchdog);
     });
   });
 
