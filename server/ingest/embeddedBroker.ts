@@ -224,7 +224,9 @@ export class EmbeddedBroker {
     aedes.on('connectionError', (client, err) => {
       const code = (err as NodeJS.ErrnoException).code;
       if (code && goneCodes.has(code)) return;
-      record({ kind: 'connect', reason: 'protocol', detail: `refused before signing in: ${err.message}`, clientId: null, username: null, address: addressOfClient(client), topic: null });
+      // Say what to do, not only what the library said: an MQTT 5 gateway is the usual case.
+      const advice = /protocol version/i.test(err.message) ? ' — this broker speaks MQTT 3.1.1 (and 3.1), not MQTT 5: set the gateway to MQTT 3.1.1, or run an external broker (MQTT_URL)' : '';
+      record({ kind: 'connect', reason: 'protocol', detail: `refused before signing in: ${err.message}${advice}`, clientId: null, username: null, address: addressOfClient(client), topic: null });
     });
     aedes.on('client', () => this.status.connectedGateways++);
     aedes.on('clientDisconnect', () => this.status.connectedGateways--);

@@ -93,6 +93,8 @@ describe('refusals at the embedded broker', () => {
     const protocol = (await refusals()).refusals.find((r) => r.reason === 'protocol');
     expect(protocol).toMatchObject({ kind: 'connect', address: '127.0.0.1' });
     expect(protocol!.detail).toMatch(/unacceptable protocol version/);
+    // The Sensors screen shows this detail: it says what to do (issue 13 item 10).
+    expect(protocol!.detail).toMatch(/MQTT 3\.1\.1.*not MQTT 5.*MQTT_URL/);
   });
 
   it('records a publish to a key no sensor has, with the topic and no more than a short excerpt of the payload; nothing is stored', async () => {
