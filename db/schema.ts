@@ -29,6 +29,8 @@ export const sitesTable = sqliteTable('sites', {
   directionSectorHalfWidthDeg: real('direction_sector_half_width_deg').notNull().default(45),
   deadBandFraction: real('dead_band_fraction').notNull().default(0.1),
   holdTimeMs: integer('hold_time_ms').notNull().default(15 * 60_000),
+  /** How long after its alert a level's action that moves the structure may wait before it is signalled again as overdue (design §2.5). */
+  actionDueMs: integer('action_due_ms').notNull().default(5 * 60_000),
   /** The site's default level list (JSON, see server/levels). */
   defaultLevelsJson: text('default_levels_json', { mode: 'json' }).notNull(),
   createdAtMs: integer('created_at_ms').notNull(),
@@ -209,8 +211,34 @@ export const alertsTable = sqliteTable(
     acknowledgeNote: text('acknowledge_note'),
     /** When the condition behind it ended (level lowered, sensor back); the record stays. */
     clearedAtMs: integer('cleared_at_ms'),
+    /** The configuration the level's action moves the structure to (design §2.5); null when none. */
+    moveToConfiguration: text('move_to_configuration'),
+    /** When and by whom the action was marked done ("Done: lowered"). */
+    actionDoneAtMs: integer('action_done_at_ms'),
+    actionDoneBy: text('action_done_by'),
+    /** When the action, not done in time, was signalled again as overdue. */
+    overdueAtMs: integer('overdue_at_ms'),
   },
   (t) => [index('alerts_raised_at').on(t.raisedAtMs)],
+);
+
+/** Every switch of a structure's live configuration (design §2.5): who, when, why. The newest row per structure is its configuration after a restart. */
+export const configurationChangesTable = sqliteTable(
+  'configuration_changes',
+  {
+    id: integer().primaryKey({ autoIncrement: true }),
+    structureId: integer('structure_id').notNull(),
+    atMs: integer('at_ms').notNull(),
+    fromName: text('from_name').notNull(),
+    toName: text('to_name').notNull(),
+    by: text().notNull(),
+    note: text(),
+    /** The alert whose action this was ("Done"); null for a switch by hand. */
+    alertId: integer('alert_id'),
+    /** 'action-done' | 'by-hand'. */
+    reason: text().notNull(),
+  },
+  (t) => [index('configuration_changes_structure_at').on(t.structureId, t.atMs), index('configuration_changes_at').on(t.atMs)],
 );
 
 export const auditTable = sqliteTable(

@@ -75,6 +75,7 @@ export function siteSettings(db: Db): SiteSettings {
     directionSectorHalfWidthDeg: site.directionSectorHalfWidthDeg,
     deadBandFraction: site.deadBandFraction,
     holdTimeMs: site.holdTimeMs,
+    actionDueMs: site.actionDueMs,
     defaultLevels: site.defaultLevelsJson as LevelDefinition[],
   };
 }
@@ -97,6 +98,7 @@ export function initialState(db: Db): InitialState {
   for (const r of rows) levels.set(r.id, { level: r.level, sinceMs: r.atMs });
   const sensorKeys = new Map(db.select({ id: sensorsTable.id, key: sensorsTable.key, name: sensorsTable.name }).from(sensorsTable).all().map((s) => [s.id, s]));
   const structureNames = new Map(db.select({ id: structuresTable.id, name: structuresTable.name }).from(structuresTable).all().map((s) => [s.id, s.name]));
+  const actionDueMs = getSite(db).actionDueMs;
   const alertRows = db.select().from(alertsTable).where(or(isNull(alertsTable.acknowledgedAtMs), isNull(alertsTable.clearedAtMs))).all();
   const alerts: OpenAlert[] = alertRows.map((r) => {
     const sensor = r.sensorId !== null ? sensorKeys.get(r.sensorId) : undefined;
@@ -117,10 +119,25 @@ export function initialState(db: Db): InitialState {
       acknowledgedBy: r.acknowledgedBy,
       acknowledgeNote: r.acknowledgeNote,
       subject: r.structureId !== null ? (structureNames.get(r.structureId) ?? `structure ${r.structureId}`) : (sensor?.name ?? 'sensor'),
+      moveToConfiguration: r.moveToConfiguration,
+      actionDoneAtMs: r.actionDoneAtMs,
+      actionDoneBy: r.actionDoneBy,
+      actionDueAtMs: r.moveToConfiguration === null ? null : r.raisedAtMs + actionDueMs,
+      overdueAtMs: r.overdueAtMs,
     };
   });
   const maxId = (db.$client.prepare('SELECT MAX(id) AS id FROM alerts').get() as { id: number | null }).id ?? 0;
-  return { levels, alerts, nextAlertId: maxId + 1 };
+  // Each structure's last configuration switch: after a restart it is assessed as it stands.
+  const configurations = new Map<number, { name: string; atMs: number; by: string }>();
+  const switched = db.$client
+    .prepare(
+      `SELECT structure_id AS id, to_name AS name, at_ms AS atMs, by FROM (
+         SELECT structure_id, to_name, at_ms, by, ROW_NUMBER() OVER (PARTITION BY structure_id ORDER BY at_ms DESC, id DESC) AS rn FROM configuration_changes
+       ) WHERE rn = 1`,
+    )
+    .all() as Array<{ id: number; name: string; atMs: number; by: string }>;
+  for (const r of switched) configurations.set(r.id, { name: r.name, atMs: r.atMs, by: r.by });
+  return { levels, alerts, nextAlertId: maxId + 1, configurations };
 }
 
 export async function startServer(config: Config, log: Logger, options: StartOptions = {}): Promise<RunningServer> {

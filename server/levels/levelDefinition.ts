@@ -42,6 +42,12 @@ export const levelDefinitionSchema = z.strictObject({
   label: z.string().trim().min(1, 'label must not be empty').max(maxLevelLabelLength),
   trigger: levelTriggerSchema,
   actionText: z.string().trim().max(maxActionTextLength),
+  /**
+   * The configuration the action moves the structure to (design §2.5: "lower the screen" →
+   * "lowered"); the crew mark it done on their phone and the live assessment switches to it.
+   * Checked against the record's configurations when the structure is saved.
+   */
+  moveToConfiguration: z.string().trim().min(1, 'must name a configuration of the structure').max(60).optional(),
 });
 
 export const levelListSchema = z

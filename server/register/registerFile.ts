@@ -39,6 +39,7 @@ const siteFileSchema = z.strictObject({
   directionSectorHalfWidthDeg: z.number().min(15).max(180).default(45),
   deadBandFraction: z.number(),
   holdTimeMs: z.number(),
+  actionDueMs: z.number().min(60_000).max(3_600_000).default(300_000),
   defaultLevels: z.unknown(),
 });
 
@@ -74,6 +75,7 @@ export function exportRegister(db: Db, nowMs: number): RegisterFile {
       directionSectorHalfWidthDeg: site.directionSectorHalfWidthDeg,
       deadBandFraction: site.deadBandFraction,
       holdTimeMs: site.holdTimeMs,
+      actionDueMs: site.actionDueMs,
       defaultLevels: site.defaultLevelsJson,
     },
     sensors: listSensors(db).map((s) => ({

@@ -40,6 +40,8 @@ export const siteUpdateSchema = z
     directionSectorHalfWidthDeg: z.number().min(15, 'must be ≥ 15°: a narrower sector misses a gust that turns').max(180, 'must be ≤ 180° (180 = every direction)'),
     deadBandFraction: z.number().min(0).max(0.5),
     holdTimeMs: z.number().int().min(0).max(6 * 3600_000),
+    /** A level's action that moves a structure and is not marked done this long after its alert is signalled again as overdue (design §2.5). */
+    actionDueMs: z.number().int().min(60_000, 'must be at least 1 minute (60000 ms)').max(3_600_000, 'must be at most 60 minutes (3600000 ms)'),
     defaultLevels: levelListSchema,
   })
   .partial()

@@ -7,7 +7,7 @@
 import { and, eq, isNull } from 'drizzle-orm';
 import { z } from 'zod';
 import { structuresTable, sensorsTable } from '../../db/schema.ts';
-import { validateStructureRecord, type StructureRecord } from '../engine/index.ts';
+import { recordConfigurations, validateStructureRecord, type StructureRecord } from '../engine/index.ts';
 import { HttpError, type FieldIssue } from '../http/httpError.ts';
 import { levelListSchema, type LevelDefinition } from '../levels/index.ts';
 import type { Db, Tx } from '../storage/database.ts';
@@ -99,6 +99,23 @@ export function checkStructure(tx: Tx, input: StructureInput): StructureRecord {
     for (const problem of modelLevelProblems(model, siteDesignDensityKgM3(site))) {
       issues.push({ path: input.levels === null ? 'levels' : `levels.${problem.index}.trigger.${problem.field}`, message: input.levels === null ? `the site's default ${problem.message}` : problem.message });
     }
+    // The levels run on whichever configuration the structure is in (design §2.5): each is checked.
+    const configured = recordConfigurations(record);
+    for (const c of configured.slice(1)) {
+      const other = structureModel({ id: 0, name: record.name, kind: record.kind, recordJson: c.record, orientationDeg: input.orientationDeg, mobile: input.mobile, sensorKeysJson: null, levelsJson: input.levels }, site.defaultLevelsJson as LevelDefinition[]);
+      for (const problem of modelLevelProblems(other, siteDesignDensityKgM3(site))) {
+        const path = input.levels === null ? 'levels' : `levels.${problem.index}.trigger.${problem.field}`;
+        if (issues.some((i) => i.path === path)) continue;
+        issues.push({ path, message: `in configuration "${c.name}": ${input.levels === null ? `the site's default ${problem.message}` : problem.message}` });
+      }
+    }
+    // A level's action may move the structure only to a configuration it has.
+    (input.levels ?? []).forEach((level, i) => {
+      if (level.moveToConfiguration === undefined) return;
+      if (!configured.some((c) => c.name.trim().toLowerCase() === level.moveToConfiguration!.trim().toLowerCase())) {
+        issues.push({ path: `levels.${i}.moveToConfiguration`, message: `"${level.moveToConfiguration}" is not a configuration of this structure (it has ${configured.map((c) => `"${c.name}"`).join(', ')}); add it under configurations first` });
+      }
+    });
   } catch (err) {
     issues.push({ path: 'record', message: err instanceof Error ? err.message : String(err) });
   }

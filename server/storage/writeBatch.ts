@@ -51,6 +51,23 @@ export interface AlertRow {
   raisedAtMs: number;
   gustMps: number | null;
   utilization: number | null;
+  /** A level alert whose action moves the structure to this configuration (design §2.5); null otherwise. */
+  moveToConfiguration: string | null;
+}
+
+/** A structure's live configuration switched (design §2.5). */
+export interface ConfigurationChangeRow {
+  structureId: number;
+  atMs: number;
+  fromName: string;
+  toName: string;
+  by: string;
+  note: string | null;
+  /** The alert whose action was marked done; null for a switch by hand. */
+  alertId: number | null;
+  reason: 'action-done' | 'by-hand';
+  /** Who, for the audit trail (the signed-in principal). */
+  actor: string;
 }
 
 export interface AcknowledgementRow {
@@ -71,12 +88,27 @@ export interface WriteBatch {
   /** Alerts cleared by this batch (the condition ended). */
   clearedAlerts: Array<{ id: number; atMs: number }>;
   acknowledgements: AcknowledgementRow[];
+  configurationChanges: ConfigurationChangeRow[];
+  /** Level alerts whose action was marked done. */
+  actionsDone: Array<{ alertId: number; atMs: number; by: string }>;
+  /** Level alerts whose action was signalled again as overdue. */
+  overdue: Array<{ alertId: number; atMs: number }>;
 }
 
 export function emptyWriteBatch(): WriteBatch {
-  return { readings: [], structureMinutes: [], levelChanges: [], alerts: [], clearedAlerts: [], acknowledgements: [] };
+  return { readings: [], structureMinutes: [], levelChanges: [], alerts: [], clearedAlerts: [], acknowledgements: [], configurationChanges: [], actionsDone: [], overdue: [] };
 }
 
 export function batchRowCount(batch: WriteBatch): number {
-  return batch.readings.length + batch.structureMinutes.length + batch.levelChanges.length + batch.alerts.length + batch.clearedAlerts.length + batch.acknowledgements.length;
+  return (
+    batch.readings.length +
+    batch.structureMinutes.length +
+    batch.levelChanges.length +
+    batch.alerts.length +
+    batch.clearedAlerts.length +
+    batch.acknowledgements.length +
+    batch.configurationChanges.length +
+    batch.actionsDone.length +
+    batch.overdue.length
+  );
 }

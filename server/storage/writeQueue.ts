@@ -23,7 +23,7 @@
  * Raw prepared statements, not the query builder: this is the per-message path.
  */
 import type Database from 'better-sqlite3';
-import type { AcknowledgementRow, AlertRow, LevelChangeRow, ReadingRow, StructureMinuteRow, WriteBatch } from './writeBatch.ts';
+import type { AcknowledgementRow, AlertRow, ConfigurationChangeRow, LevelChangeRow, ReadingRow, StructureMinuteRow, WriteBatch } from './writeBatch.ts';
 import { sensorsWithReadings } from './retention.ts';
 import { batchRowCount } from './writeBatch.ts';
 
@@ -115,6 +115,10 @@ export class WriteQueue {
   private readonly upsertStructureMinute: Database.Statement;
   private readonly insertLevelChange: Database.Statement;
   private readonly insertAlert: Database.Statement;
+  private readonly insertConfigurationChange: Database.Statement;
+  private readonly insertConfigurationAudit: Database.Statement;
+  private readonly markActionDone: Database.Statement;
+  private readonly markOverdue: Database.Statement;
   private readonly clearAlert: Database.Statement;
   private readonly acknowledgeAlert: Database.Statement;
   private readonly insertAudit: Database.Statement;
@@ -166,13 +170,19 @@ export class WriteQueue {
       `INSERT INTO level_changes (structure_id, at_ms, from_level, to_level, gust_mps, utilization, no_data) VALUES (?, ?, ?, ?, ?, ?, ?)`,
     );
     this.insertAlert = sqlite.prepare(
-      `INSERT OR IGNORE INTO alerts (id, site_id, kind, structure_id, sensor_id, level, label, action_text, raised_at_ms, gust_mps, utilization)
-       VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+      `INSERT OR IGNORE INTO alerts (id, site_id, kind, structure_id, sensor_id, level, label, action_text, raised_at_ms, gust_mps, utilization, move_to_configuration)
+       VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
     );
     this.clearAlert = sqlite.prepare(`UPDATE alerts SET cleared_at_ms = ? WHERE id = ? AND cleared_at_ms IS NULL`);
     this.acknowledgeAlert = sqlite.prepare(
       `UPDATE alerts SET acknowledged_at_ms = ?, acknowledged_by = ?, acknowledge_note = ? WHERE id = ? AND acknowledged_at_ms IS NULL`,
     );
+    this.insertConfigurationChange = sqlite.prepare(
+      `INSERT INTO configuration_changes (structure_id, at_ms, from_name, to_name, by, note, alert_id, reason) VALUES (?, ?, ?, ?, ?, ?, ?, ?)`,
+    );
+    this.insertConfigurationAudit = sqlite.prepare(`INSERT INTO audit (at_ms, actor, entity, entity_id, action, before_json, after_json) VALUES (?, ?, 'structure', ?, 'configuration', ?, ?)`);
+    this.markActionDone = sqlite.prepare(`UPDATE alerts SET action_done_at_ms = ?, action_done_by = ? WHERE id = ? AND action_done_at_ms IS NULL`);
+    this.markOverdue = sqlite.prepare(`UPDATE alerts SET overdue_at_ms = ? WHERE id = ? AND overdue_at_ms IS NULL`);
     this.insertAudit = sqlite.prepare(`INSERT INTO audit (at_ms, actor, entity, entity_id, action, before_json, after_json) VALUES (?, ?, 'alert', ?, 'acknowledge', NULL, ?)`);
     this.commit = sqlite.transaction((batches: WriteBatch[]) => {
       // Open minutes are changed on copies, adopted only once the transaction commits: a
@@ -185,6 +195,9 @@ export class WriteQueue {
         for (const row of batch.alerts) this.writeAlert(row);
         for (const cleared of batch.clearedAlerts) this.clearAlert.run(cleared.atMs, cleared.id);
         for (const ack of batch.acknowledgements) this.writeAcknowledgement(ack);
+        for (const change of batch.configurationChanges) this.writeConfigurationChange(change);
+        for (const done of batch.actionsDone) this.markActionDone.run(done.atMs, done.by, done.alertId);
+        for (const late of batch.overdue) this.markOverdue.run(late.atMs, late.alertId);
       }
       for (const m of minutes.older.values()) this.writeMinute(m);
       return minutes.open;
@@ -375,7 +388,13 @@ export class WriteQueue {
       row.raisedAtMs,
       row.gustMps,
       finiteOrNull(row.utilization),
+      row.moveToConfiguration,
     );
+  }
+
+  private writeConfigurationChange(row: ConfigurationChangeRow): void {
+    this.insertConfigurationChange.run(row.structureId, row.atMs, row.fromName, row.toName, row.by, row.note, row.alertId, row.reason);
+    this.insertConfigurationAudit.run(row.atMs, row.actor, String(row.structureId), JSON.stringify({ configuration: row.fromName }), JSON.stringify({ configuration: row.toName, by: row.by, note: row.note, alertId: row.alertId, reason: row.reason }));
   }
 }
 

@@ -34,10 +34,12 @@ import {
   highestTravelSpeedMps,
   isaAirDensityKgM3,
   isaSeaLevelDensityKgM3,
+  recordConfigurations,
   unclampedExposureFactor,
   utilizationAtPa,
   withRating,
   type AssessedDirections,
+  type StructureRecord,
   type TerrainCategory,
 } from '../engine/index.ts';
 import {
@@ -55,7 +57,7 @@ import type { ReadingConsumer } from '../ingest/pipeline.ts';
 import type { RegisteredSensor } from '../ingest/registry.ts';
 import type { LiveHub } from '../live/liveHub.ts';
 import type { AlertRow, WriteBatch } from '../storage/writeBatch.ts';
-import { emptyWriteBatch } from '../storage/writeBatch.ts';
+import { batchRowCount, emptyWriteBatch } from '../storage/writeBatch.ts';
 import { acceptReading, clockOffsetAlertMs, clockOffsetClearMs, clockOffsetMs, createSensorWindState, noteArrival, sensorSilent, stuckSensors, windSnapshot, type SensorWindState } from '../wind/index.ts';
 import type { FrameRow } from '../live/frames.ts';
 import { selectFrame } from '../live/frames.ts';
@@ -79,6 +81,14 @@ import { densityDependent, structureModel, type DensityDependent, type Structure
 
 /** A reading older than this at receipt is "late" (from a gateway's buffer): stored, not used live. */
 export const liveReadingMaxAgeMs = 60_000;
+/** A level's action that moves the structure is overdue this long after its alert unless the site sets otherwise (design §2.5; common practice: minutes, not seconds). */
+export const defaultActionDueMs = 5 * 60_000;
+
+/** The outcome of `Watch.switchConfiguration`: what to store and then announce, or why not. */
+export type ConfigurationSwitch =
+  | { ok: true; batch: WriteBatch; announce: () => void; structure: StructureState; alert: OpenAlert | null }
+  | { ok: false; status: 400 | 404 | 409; message: string; path?: string };
+
 /** After start, a structure or sensor must have had this long to report before "no data" alerts. */
 const startGraceMs = 30_000;
 
@@ -94,6 +104,8 @@ export interface SiteSettings {
   directionalEnabled: boolean;
   deadBandFraction: number;
   holdTimeMs: number;
+  /** A level action that moves the structure and is not marked done this long after its alert is signalled as overdue, ms (default 5 min). */
+  actionDueMs?: number | undefined;
   defaultLevels: readonly LevelDefinition[];
   /** Half-width of the sector of directions assessed around the mean direction, degrees (default 45). */
   directionSectorHalfWidthDeg?: number | undefined;
@@ -128,7 +140,18 @@ interface SensorLive {
 }
 
 interface StructureLive {
+  /** The model of the live configuration (one of `configurations`). */
   model: StructureModel;
+  /** One model per configuration (design §2.5), the one as registered first; names in `configurationNames`. */
+  configurations: StructureModel[];
+  configurationNames: string[];
+  /** Index of the live configuration in `configurations`. */
+  configurationIndex: number;
+  /** When and by whom the live configuration was switched to; null: as registered since the register was loaded. */
+  configurationSinceMs: number | null;
+  configurationBy: string | null;
+  /** A configuration the log names that the record no longer has (shown on the card, never silent). */
+  configurationWarning: string | null;
   /** What the model was built from (to keep it across a reload of an unchanged register). */
   modelKey: string;
   density: DensityDependent;
@@ -195,6 +218,14 @@ export interface OpenAlert {
   acknowledgeNote: string | null;
   /** Where it belongs, for a screen: the structure's or sensor's name. */
   subject: string;
+  /** A level alert whose action moves the structure to this configuration ("Done: lowered"); null otherwise. */
+  moveToConfiguration: string | null;
+  actionDoneAtMs: number | null;
+  actionDoneBy: string | null;
+  /** When the action becomes overdue (raised + the site's action time); null without an action that moves the structure. */
+  actionDueAtMs: number | null;
+  /** When it was signalled again as overdue; null when not (yet). */
+  overdueAtMs: number | null;
 }
 
 export interface StructureState {
@@ -245,6 +276,13 @@ export interface StructureState {
    * straight into the wind (the worst case; design.md 2.2), m/s; null when not mobile or unknown.
    */
   highestTravelSpeedMps: number | null;
+  /** The live configuration's name (design §2.5). */
+  configuration: string;
+  /** When and by whom it was switched to; null: as registered, never switched since the register was loaded. */
+  configurationSinceMs: number | null;
+  configurationBy: string | null;
+  /** Every configuration with its limits at the current air density, the one as registered first. */
+  configurations: Array<{ name: string; current: boolean; limitGustMps: number; calculatedLimitGustMps: number; triggerGustsMps: number[] }>;
 }
 
 export interface SensorState {
@@ -298,6 +336,8 @@ export interface InitialState {
   levels: Map<number, { level: number; sinceMs: number }>;
   /** Alerts still open (not acknowledged, or not cleared). */
   alerts: OpenAlert[];
+  /** Each structure's last configuration switch from the log (restored after a restart, never reset silently). */
+  configurations?: Map<number, { name: string; atMs: number; by: string }>;
 }
 
 export class Watch implements ReadingConsumer {
@@ -380,9 +420,25 @@ export class Watch implements ReadingConsumer {
         // A register change reloads every structure: one unchanged keeps its model (its
         // coefficients take a search over every direction to build).
         const modelKey = JSON.stringify([row.name, row.kind, row.recordJson, row.orientationDeg, row.mobile, row.sensorKeysJson, row.levelsJson ?? site.defaultLevels]);
-        const model = old && old.error === null && old.modelKey === modelKey ? old.model : structureModel(row, site.defaultLevels);
+        const kept = old && old.error === null && old.modelKey === modelKey;
+        const configured = kept ? { models: old.configurations, names: old.configurationNames } : configurationModels(row, site.defaultLevels);
+        // The live configuration: kept across a register reload by name, else the log's last switch.
+        const wanted: { name: string; atMs: number | null; by: string | null } | null =
+          old && old.error === null ? { name: old.configurationNames[old.configurationIndex]!, atMs: old.configurationSinceMs, by: old.configurationBy } : (initial?.configurations?.get(row.id) ?? null);
+        const found = wanted === null ? 0 : configured.names.findIndex((n) => sameConfigurationName(n, wanted.name));
+        const configurationIndex = Math.max(0, found);
+        const model = configured.models[configurationIndex]!;
         live = {
           model,
+          configurations: configured.models,
+          configurationNames: configured.names,
+          configurationIndex,
+          configurationSinceMs: found >= 0 ? (wanted?.atMs ?? null) : null,
+          configurationBy: found >= 0 ? (wanted?.by ?? null) : null,
+          configurationWarning:
+            wanted !== null && found < 0
+              ? `The log has this structure in configuration "${wanted.name}", which the register no longer has: it is assessed as "${configured.names[0]}". Check it on site and switch it to what it is.`
+              : null,
           modelKey,
           density: densityDependent(model, this.airDensityKgM3),
           profile: this.profileRoots(model.referenceHeightM),
@@ -770,7 +826,7 @@ export class Watch implements ReadingConsumer {
           this.raise(
             batch,
             announcements,
-            { siteId: this.site.id, kind: 'level', structureId: s.model.id, sensorId: null, level: event.toLevel, label: def.label, actionText: def.actionText, raisedAtMs: event.atMs, gustMps: event.gustMps, utilization },
+            { siteId: this.site.id, kind: 'level', structureId: s.model.id, sensorId: null, level: event.toLevel, label: def.label, actionText: def.actionText, raisedAtMs: event.atMs, gustMps: event.gustMps, utilization, moveToConfiguration: this.moveTarget(s, def.moveToConfiguration) },
             s.model.name,
             null,
           );
@@ -813,6 +869,7 @@ export class Watch implements ReadingConsumer {
       raisedAtMs: atMs,
       gustMps: null,
       utilization: null,
+      moveToConfiguration: null,
     };
     s.noDataAlertId = this.raise(batch, announcements, row, s.model.name, null);
   }
@@ -842,6 +899,11 @@ export class Watch implements ReadingConsumer {
       acknowledgedBy: null,
       acknowledgeNote: null,
       subject,
+      moveToConfiguration: row.moveToConfiguration,
+      actionDoneAtMs: null,
+      actionDoneBy: null,
+      actionDueAtMs: row.moveToConfiguration === null ? null : row.raisedAtMs + this.actionDueMs(),
+      overdueAtMs: null,
     };
     this.alerts.set(id, alert);
     announcements.push(() => this.options.hub.publish('alert', { ...alert, resignal: false }));
@@ -901,7 +963,7 @@ export class Watch implements ReadingConsumer {
     const id = this.raise(
       batch,
       announcements,
-      { siteId: this.site.id, kind, structureId: null, sensorId: live.sensor.id, level: null, ...texts, raisedAtMs: atMs, gustMps: null, utilization: null },
+      { siteId: this.site.id, kind, structureId: null, sensorId: live.sensor.id, level: null, ...texts, raisedAtMs: atMs, gustMps: null, utilization: null, moveToConfiguration: null },
       live.sensor.name,
       live.sensor.key,
     );
@@ -965,6 +1027,19 @@ export class Watch implements ReadingConsumer {
       }
     }
 
+    // A level's action that moves the structure, not done in time: signalled again as overdue.
+    for (const alert of this.alerts.values()) {
+      if (alert.actionDueAtMs === null || alert.actionDoneAtMs !== null || alert.overdueAtMs !== null || alert.clearedAtMs !== null || nowMs < alert.actionDueAtMs) continue;
+      const st = alert.structureId === null ? undefined : this.structures.get(alert.structureId);
+      // Already in that configuration (switched by hand): nothing left to do.
+      if (st && alert.moveToConfiguration !== null && sameConfigurationName(st.configurationNames[st.configurationIndex]!, alert.moveToConfiguration)) continue;
+      alert.overdueAtMs = nowMs;
+      alert.lastSignalledAtMs = nowMs;
+      batch.overdue.push({ alertId: alert.id, atMs: nowMs });
+      const shown = alert;
+      announcements.push(() => this.options.hub.publish('alert', { ...shown, resignal: true, overdue: true }));
+    }
+
     const interval = this.options.resignalIntervalMs ?? defaultResignalIntervalMs;
     for (const alert of this.alerts.values()) {
       if (alert.acknowledgedAtMs === null && nowMs - alert.lastSignalledAtMs >= interval) {
@@ -975,7 +1050,7 @@ export class Watch implements ReadingConsumer {
 
     this.frames(nowMs, announcements);
 
-    const empty = batch.readings.length + batch.structureMinutes.length + batch.levelChanges.length + batch.alerts.length + batch.clearedAlerts.length === 0;
+    const empty = batchRowCount(batch) === 0;
     if (empty && announcements.length === 0) return null;
     return { batch, afterCommit: () => announcements.forEach((a) => a()) };
   }
@@ -1055,6 +1130,83 @@ export class Watch implements ReadingConsumer {
     return alert;
   }
 
+  /** The configuration a level's action moves the structure to, as the structure names it; null when it has none of that name (a site default level). */
+  private moveTarget(s: StructureLive, name: string | undefined): string | null {
+    if (name === undefined) return null;
+    return s.configurationNames.find((n) => sameConfigurationName(n, name)) ?? null;
+  }
+
+  private actionDueMs(): number {
+    return this.site.actionDueMs ?? defaultActionDueMs;
+  }
+
+  /**
+   * Switches a structure's live configuration (design §2.5): by the crew marking a level's action
+   * done ("Done: lowered", `alertId` given: the alert's action must move it to `name`; the alert
+   * is acknowledged with it when it was not), or by hand by the competent person. The watch
+   * changes at once; the caller stores `batch` and only then runs `announce` (stream events).
+   * The level is re-evaluated with the new configuration's ladder under the usual dead band and
+   * hold time: a lowered screen does not clear Prepare at once.
+   */
+  switchConfiguration(input: { structureId: number; name: string; by: string; actor: string; note: string | null; alertId: number | null; atMs: number }): ConfigurationSwitch {
+    const s = this.structures.get(input.structureId);
+    if (!s) return { ok: false, status: 404, message: `structure ${input.structureId} is not on the register` };
+    if (s.error !== null) return { ok: false, status: 409, message: `structure ${input.structureId} cannot be assessed (${s.error})` };
+    const index = s.configurationNames.findIndex((n) => sameConfigurationName(n, input.name));
+    if (index < 0) return { ok: false, status: 400, path: 'configuration', message: `"${input.name}" is not a configuration of ${s.model.name}; it has ${s.configurationNames.map((n) => `"${n}"`).join(', ')}` };
+    let alert: OpenAlert | null = null;
+    if (input.alertId !== null) {
+      alert = this.alerts.get(input.alertId) ?? null;
+      if (alert === null || alert.structureId !== input.structureId) return { ok: false, status: 409, message: `alert ${input.alertId} is not an open alert of ${s.model.name}` };
+      if (alert.moveToConfiguration === null) return { ok: false, status: 400, path: 'alertId', message: `the action of alert ${alert.id} (${alert.label}) does not move the structure to another configuration` };
+      if (!sameConfigurationName(alert.moveToConfiguration, input.name)) return { ok: false, status: 400, path: 'configuration', message: `the action of alert ${alert.id} (${alert.label}) moves ${s.model.name} to "${alert.moveToConfiguration}", not "${input.name}"` };
+      if (alert.actionDoneAtMs !== null) return { ok: false, status: 409, message: `the action of alert ${alert.id} was marked done by ${alert.actionDoneBy ?? 'someone'} at ${new Date(alert.actionDoneAtMs).toISOString()}` };
+    } else if (index === s.configurationIndex) {
+      return { ok: false, status: 409, message: `${s.model.name} is already in configuration "${s.configurationNames[index]}"` };
+    }
+
+    const batch = emptyWriteBatch();
+    const announcements: Array<() => void> = [];
+    const fromName = s.configurationNames[s.configurationIndex]!;
+    const toName = s.configurationNames[index]!;
+    if (index !== s.configurationIndex) {
+      batch.configurationChanges.push({ structureId: s.model.id, atMs: input.atMs, fromName, toName, by: input.by, note: input.note, alertId: alert?.id ?? null, reason: alert ? 'action-done' : 'by-hand', actor: input.actor });
+      const model = s.configurations[index]!;
+      s.configurationIndex = index;
+      s.model = model;
+      s.density = densityDependent(model, this.airDensityKgM3);
+      s.profile = this.profileRoots(model.referenceHeightM);
+      s.sectorDensity = null;
+      s.sectorCentreDeg = Number.NaN;
+      s.sectorHalfWidthDeg = Number.NaN;
+      s.words = null;
+      s.wordsKey = null;
+      s.shown = null;
+    }
+    s.configurationSinceMs = input.atMs;
+    s.configurationBy = input.by;
+    s.configurationWarning = null;
+    if (alert) {
+      alert.actionDoneAtMs = input.atMs;
+      alert.actionDoneBy = input.by;
+      batch.actionsDone.push({ alertId: alert.id, atMs: input.atMs, by: input.by });
+      if (alert.acknowledgedAtMs === null) {
+        const note = input.note ?? `Done: ${toName}`;
+        alert.acknowledgedAtMs = input.atMs;
+        alert.acknowledgedBy = input.by;
+        alert.acknowledgeNote = note;
+        batch.acknowledgements.push({ alertId: alert.id, atMs: input.atMs, by: input.by, note, actor: input.actor });
+      }
+      if (alert.clearedAtMs !== null) this.alerts.delete(alert.id);
+      const shown = alert;
+      announcements.push(() => this.options.hub.publish('alert-update', shown));
+    }
+    // The new ladder, through the state machine (dead band and hold time as for any drop).
+    this.evaluate(s, input.atMs, batch, announcements);
+    announcements.push(() => this.options.hub.publish('structure', this.structureState(s)));
+    return { ok: true, batch, announce: () => announcements.forEach((a) => a()), structure: this.structureState(s), alert };
+  }
+
   // ---------- reading the state ----------
 
   /** An alert still open in memory (not yet acknowledged, or not yet cleared). */
@@ -1115,7 +1267,7 @@ export class Watch implements ReadingConsumer {
       referenceHeightM: m.referenceHeightM,
       triggerGustsMps: current.triggerGustsMps,
       levels: m.levels.map((l, i) => ({ level: i + 1, label: l.label, actionText: l.actionText, triggerGustMps: current.triggerGustsMps[i]!, trigger: l.trigger })),
-      warnings: [...m.warnings, ...clampedTriggerWarnings(m.levels, current.limitGustMps)],
+      warnings: [...(s.configurationWarning === null ? [] : [s.configurationWarning]), ...m.warnings, ...clampedTriggerWarnings(m.levels, current.limitGustMps)],
       evaluatedAtMs: s.evaluatedAtMs,
       error: s.error,
       mobile: m.mobile,
@@ -1124,6 +1276,14 @@ export class Watch implements ReadingConsumer {
         m.mobile && s.gustMps !== null && !s.level.noData && Number.isFinite(s.density.limitGustMps)
           ? highestTravelSpeedMps({ limitGustMps: s.density.limitGustMps, gustMps: Math.min(s.gustMps, 120), windFromDeg: null, headingDeg: null }).speedMps
           : null,
+      configuration: s.configurationNames[s.configurationIndex] ?? 'as registered',
+      configurationSinceMs: s.configurationSinceMs,
+      configurationBy: s.configurationBy,
+      configurations: s.configurations.map((model, i) => {
+        // Each at the air density now (over every direction: the limits a plan is made on).
+        const d = i === s.configurationIndex ? s.density : densityDependent(model, this.airDensityKgM3);
+        return { name: s.configurationNames[i]!, current: i === s.configurationIndex, limitGustMps: d.limitGustMps, calculatedLimitGustMps: d.calculatedLimitGustMps, triggerGustsMps: d.triggerGustsMps };
+      }),
     };
   }
 
@@ -1270,6 +1430,17 @@ function restoredLevel(restored: { level: number; sinceMs: number } | undefined,
   return { ...initial, level: restored.level, sinceMs: restored.sinceMs };
 }
 
+/** Configuration names are compared trimmed and ignoring case (engine/configuration.ts). */
+function sameConfigurationName(a: string, b: string): boolean {
+  return a.trim().normalize('NFC').toLowerCase() === b.trim().normalize('NFC').toLowerCase();
+}
+
+/** A model per configuration of the record (design §2.5), the one as registered first. */
+function configurationModels(row: StructureRow, siteLevels: readonly LevelDefinition[]): { models: StructureModel[]; names: string[] } {
+  const configured = recordConfigurations(row.recordJson as StructureRecord);
+  return { models: configured.map((c) => structureModel({ ...row, recordJson: c.record }, siteLevels)), names: configured.map((c) => c.name) };
+}
+
 function brokenStructure(row: StructureRow, err: unknown, nowMs: number, old: StructureLive | undefined): StructureLive {
   const message = err instanceof Error ? err.message : String(err);
   return {
@@ -1288,6 +1459,12 @@ function brokenStructure(row: StructureRow, err: unknown, nowMs: number, old: St
       ratedGustMps: null,
       warnings: [],
     },
+    configurations: [],
+    configurationNames: ['as registered'],
+    configurationIndex: 0,
+    configurationSinceMs: null,
+    configurationBy: null,
+    configurationWarning: null,
     density: { airDensityKgM3: isaSeaLevelDensityKgM3, calculatedLimitGustMps: 0, limitGustMps: 0, triggerGustsMps: [] },
     profile: { clamped: 1, unclamped: 1 },
     level: old?.level ?? { ...initialLevelState(nowMs) },

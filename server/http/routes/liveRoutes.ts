@@ -32,6 +32,7 @@ import { eq } from 'drizzle-orm';
 import { z } from 'zod';
 import { alertsTable, sensorsTable } from '../../../db/schema.ts';
 import { principalName } from '../../auth/accounts.ts';
+import { roleAllows } from '../../auth/roles.ts';
 import { emptyWriteBatch } from '../../storage/writeBatch.ts';
 import { requireRole, type AppEnv } from '../access.ts';
 import { HttpError } from '../httpError.ts';
@@ -63,6 +64,13 @@ const acknowledgeAllSchema = z
       ctx.addIssue({ code: 'custom', path: body.structureId === undefined ? ['structureId'] : ['sensorKey'], message: 'name either a structure (structureId) or a sensor (sensorKey), not both and not neither' });
     }
   });
+
+/** "Done: lowered" (with the alert) or a switch by hand: the configuration's name, a note. */
+const configurationSwitchSchema = z.strictObject({
+  configuration: z.string({ error: 'must be the name of one of the structure\'s configurations' }).trim().min(1, { error: 'must name a configuration' }).max(60, { error: 'is longer than 60 characters' }),
+  alertId: z.number({ error: 'must be an alert id (a whole number)' }).int({ error: 'must be a whole number' }).positive({ error: 'must be an alert id (a whole number above 0)' }).optional(),
+  note: noteSchema,
+});
 
 export const pingIntervalMs = 15_000;
 /**
@@ -195,6 +203,31 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
       off();
       clearInterval(watchdog);
     });
+  });
+
+  /**
+   * Switches a structure's live configuration (design §2.5). With `alertId`: the crew mark the
+   * alert's action done ("Done: lowered", crew role), which acknowledges the alert too. Without:
+   * a switch by hand (competent person), e.g. back to raised once the level has cleared. Stored
+   * (or held while the disk refuses) before the stream announces it.
+   */
+  api.post('/structures/:id/configuration', requireRole('crew'), async (c) => {
+    const id = idParam(c);
+    const body = await jsonBody(c, configurationSwitchSchema);
+    const principal = c.get('principal')!;
+    if (body.alertId === undefined && !roleAllows(principal.role, 'competent-person')) {
+      throw new HttpError(403, 'switching a configuration by hand needs the competent-person role; the crew mark a level\'s action done from its alert');
+    }
+    const by = principal.kind === 'person' ? principal.person.displayName : principalName(principal);
+    const note = body.note && body.note.length > 0 ? body.note : null;
+    const result = ctx.watch.switchConfiguration({ structureId: id, name: body.configuration, by, actor: principalName(principal), note, alertId: body.alertId ?? null, atMs: ctx.now() });
+    if (!result.ok) {
+      if (result.status === 400) throw HttpError.invalid([{ path: result.path ?? 'configuration', message: result.message }]);
+      throw new HttpError(result.status, result.message);
+    }
+    const { stored } = await ctx.queue.enqueue(result.batch);
+    result.announce();
+    return c.json({ structure: ctx.watch.structureStateById(id), alert: result.alert, stored });
   });
 
   api.post('/alerts/:id/acknowledge', requireRole('crew'), async (c) => {

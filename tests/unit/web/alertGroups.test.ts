@@ -55,6 +55,10 @@ function structure(id: number, name: string, over: Partial<StructureState> = {})
     mobile: false,
     sensorKeys: null,
     highestTravelSpeedMps: null,
+    configuration: 'as registered',
+    configurationSinceMs: null,
+    configurationBy: null,
+    configurations: [{ name: 'as registered', current: true, limitGustMps: 20, calculatedLimitGustMps: 20, triggerGustsMps: gusts }],
     ...over,
   };
 }
@@ -79,6 +83,11 @@ function levelAlert(structureId: number, subject: string, level: number, raisedA
     acknowledgedBy: null,
     acknowledgeNote: null,
     subject,
+    moveToConfiguration: null,
+    actionDoneAtMs: null,
+    actionDoneBy: null,
+    actionDueAtMs: null,
+    overdueAtMs: null,
     ...over,
   };
 }
@@ -101,6 +110,11 @@ function otherAlert(kind: 'no-data' | 'sensor-silent', raisedAtMs: number, over:
     acknowledgedBy: null,
     acknowledgeNote: null,
     subject: '',
+    moveToConfiguration: null,
+    actionDoneAtMs: null,
+    actionDoneBy: null,
+    actionDueAtMs: null,
+    overdueAtMs: null,
     ...over,
   };
 }
