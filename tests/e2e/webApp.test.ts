@@ -274,10 +274,11 @@ describe.skipIf(skip)('web app in a real browser', () => {
     await page.goto(`${e2e.baseUrl}/#/sensors`);
     const card = page.locator('article.sensor-card', { hasText: 'Mast A' });
     const row = card.locator('table tr', { hasText: 'unknown-field' });
+    // Each try reloads the page: on a loaded machine one reload can take seconds.
     await expect.poll(async () => {
       await page.reload();
       return row.count();
-    }).toBe(1);
+    }, { timeout: 20_000 }).toBe(1);
     await expect(row.locator('td').nth(1).textContent()).resolves.toBe('1');
     expect(e2e.server.queue.stats.committedReadings).toBe(storedBefore);
   });
