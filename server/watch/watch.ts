@@ -645,7 +645,8 @@ export class Watch implements ReadingConsumer {
   }
 
   /** The structure's governing gust now: value, sensor and its direction; null when no sensor is live. */
-  private governingGust(s: StructureLive, nowMs: number): { gustMps: number; sensorKey: string; dirDeg: number | null } | null {
+  /** The governing gust at the structure, its sensor, that sensor's mean direction and the gust's own time stamp. */
+  private governingGust(s: StructureLive, nowMs: number): { gustMps: number; sensorKey: string; dirDeg: number | null; atMs: number } | null {
     if (s.model.sensorKeys === null && !this.site.directionalEnabled) {
       if (this.maxGustMps < 0) return null;
       // max over sensors of g·max(rc_t/rc_s, ru_t/ru_s) (and ≥ g without reduction), term by term.
@@ -661,9 +662,10 @@ export class Watch implements ReadingConsumer {
         gustMps = this.maxGustMps;
         key = this.maxSensorKey!;
       }
-      return { gustMps, sensorKey: key, dirDeg: this.sensorsByKey.get(key)?.meanDirDeg ?? null };
+      const live = this.sensorsByKey.get(key);
+      return { gustMps, sensorKey: key, dirDeg: live?.meanDirDeg ?? null, atMs: live?.wind.newestTsMs ?? nowMs };
     }
-    let best: { gustMps: number; sensorKey: string; dirDeg: number | null } | null = null;
+    let best: { gustMps: number; sensorKey: string; dirDeg: number | null; atMs: number } | null = null;
     let bestLoad = -1;
     for (const sensor of this.sensors.values()) {
       if (s.model.sensorKeys !== null && !s.model.sensorKeys.has(sensor.sensor.key)) continue;
@@ -673,7 +675,7 @@ export class Watch implements ReadingConsumer {
       const load = this.site.directionalEnabled ? this.effective(s, gust, sensor.meanDirDeg) : gust;
       if (load > bestLoad) {
         bestLoad = load;
-        best = { gustMps: gust, sensorKey: sensor.sensor.key, dirDeg: sensor.meanDirDeg };
+        best = { gustMps: gust, sensorKey: sensor.sensor.key, dirDeg: sensor.meanDirDeg, atMs: sensor.wind.newestTsMs };
       }
     }
     return best;
@@ -758,7 +760,7 @@ export class Watch implements ReadingConsumer {
       s.windFromDeg = governing.dirDeg;
       // The gust goes on the timeline by its own time stamp (the governing sensor's newest
       // reading), not by when it arrived: a lagging gateway's gusts land where they happened.
-      const gustAtMs = this.sensorsByKey.get(governing.sensorKey)?.wind.newestTsMs ?? nowMs;
+      const gustAtMs = governing.atMs;
       this.noteMinute(s, Number.isFinite(gustAtMs) ? Math.min(gustAtMs, nowMs) : nowMs, gustMps, batch);
     }
     s.evaluatedAtMs = nowMs;
