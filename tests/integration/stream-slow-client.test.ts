@@ -75,4 +75,28 @@ describe('a stream client that stops reading', () => {
     await waitFor(() => readBytes > 1024 * 1024, 10_000, 'reader received the events');
     await controller.cancel();
   }, 30_000);
+  it('keeps a client that reads through a burst of more than 1 MiB published at once (a thousand structures getting their data back)', async () => {
+    const res = await fetch(`${ts.baseUrl}/api/stream`, { headers: { cookie } });
+    const reader = res.body!.getReader();
+    let readBytes = 0;
+    let ended = false;
+    void (async () => {
+      for (;;) {
+        const { done, value } = await reader.read().catch(() => ({ done: true, value: undefined }));
+        if (done) break;
+        readBytes += value!.length;
+      }
+      ended = true;
+    })();
+    await waitFor(() => ts.server.hub.listenerCount >= 1, 5_000, 'reader subscribed');
+    const before = ts.server.hub.listenerCount;
+    const startBytes = readBytes;
+    // 400 events of 4 kB in one turn of the event loop: 1.6 MB queued before any can be written.
+    const big = { note: 'y'.repeat(4_000) };
+    for (let i = 0; i < 400; i++) ts.server.hub.publish('health', big);
+    await waitFor(() => readBytes - startBytes > 1_600_000, 10_000, 'the reader to receive the whole burst');
+    expect(ended).toBe(false);
+    expect(ts.server.hub.listenerCount).toBe(before);
+    await reader.cancel();
+  }, 30_000);
 });

@@ -76,12 +76,14 @@ export const pingIntervalMs = 15_000;
 /**
  * A stream client that stops reading (a phone gone to sleep with its socket open, a stalled
  * proxy) is dropped instead of kept forever (issue 13 item 7): when one write has not finished
- * within `streamWriteTimeoutMs`, or more than `streamMaxQueuedChars` of events wait for it. It
+ * within `streamWriteTimeoutMs`, or more than `streamMaxQueuedChars` of events wait for it while a
+ * write has been stuck for `streamStallMs` (a burst to a client that reads is not dropped). It
  * reconnects by itself and resumes from Last-Event-ID (or a fresh snapshot), so it loses nothing
  * it can still show. Common practice: bound what one slow reader can make a server hold.
  */
 export const streamWriteTimeoutMs = 30_000;
 export const streamMaxQueuedChars = 1024 * 1024;
+export const streamStallMs = 2_000;
 
 /**
  * Waking the stream clients after an event, a slice at a time: with hundreds of phones watching,
@@ -132,15 +134,24 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
         // Free the kernel's buffers too: the socket goes, the phone reconnects.
         socket?.destroy();
       };
+      // Set while a write waits for the client (see writeBytes).
+      let writingSinceMs: number | null = null;
+      /**
+       * Not reading: more than streamMaxQueuedChars wait while one write has been stuck for
+       * streamStallMs. A burst (a thousand structures getting their data back at once) to a client
+       * that keeps reading is not a stall: its writes keep finishing.
+       */
+      const dropIfStalled = (): void => {
+        if (queuedChars <= streamMaxQueuedChars || writingSinceMs === null || Date.now() - writingSinceMs < streamStallMs) return;
+        ctx.log?.warn({ queuedChars }, 'live stream client not reading: dropped (it resumes by Last-Event-ID)');
+        queue.length = 0;
+        queuedChars = 0;
+        drop();
+      };
       const off = ctx.hub.subscribe((event) => {
         queue.push(event);
         queuedChars += event.data.length;
-        if (queuedChars > streamMaxQueuedChars) {
-          ctx.log?.warn({ queuedChars }, 'live stream client not reading: dropped (it resumes by Last-Event-ID)');
-          queue.length = 0;
-          queuedChars = 0;
-          drop();
-        }
+        dropIfStalled();
         if (wake) wakeSoon(wake);
       });
       stream.onAbort(() => {
@@ -150,10 +161,10 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
       });
       // One watchdog per client instead of a timer per write: a write still waiting after
       // streamWriteTimeoutMs drops the client.
-      let writingSinceMs: number | null = null;
       const watchdog = setInterval(() => {
         if (writingSinceMs !== null && Date.now() - writingSinceMs >= streamWriteTimeoutMs) drop();
-      }, Math.min(5_000, streamWriteTimeoutMs));
+        else dropIfStalled();
+      }, 1_000);
       watchdog.unref();
       const writeBytes = async (bytes: Uint8Array | string): Promise<void> => {
         writingSinceMs = Date.now();
