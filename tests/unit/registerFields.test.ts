@@ -11,8 +11,11 @@ import { expandStructure } from '../../server/engine/kinds/index.ts';
 import { faceSchema, massSchema, upliftSchema } from '../../server/engine/structure.ts';
 import { domeOpeningSectorHalfWidthDeg, shellCoefficients } from '../../server/engine/kinds/shell.ts';
 import { signboardEccentricityFraction } from '../../server/engine/kinds/screen.ts';
-import { commonFields, faceColumns, kindFields, massColumns, quotedKindValues, upliftColumns, type FieldDef } from '../../web/src/register/kindFields.ts';
-import { draftFromView, draftRecord, emptyFaceRow, emptyMassRow, fieldsOf, newDraft, type LocalIssues } from '../../web/src/register/structureDraft.ts';
+import { commonFields, configurationColumns, faceColumns, kindFields, massColumns, quotedKindValues, upliftColumns, type FieldDef } from '../../web/src/register/kindFields.ts';
+import { draftFromView, draftLevels, draftRecord, emptyFaceRow, emptyMassRow, fieldsOf, newConfiguration, newDraft, renamedInLevels, withChangedField, type LocalIssues } from '../../web/src/register/structureDraft.ts';
+import { recordConfigurations } from '../../server/engine/configuration.ts';
+import { maxConfigurations } from '../../server/engine/kinds/recordBase.ts';
+import { maxConfigurations as webMaxConfigurations } from '../../web/src/configurationState.ts';
 import type { SpeedUnit } from '../../web/src/units.ts';
 import { choicesOf, kindLeaves, schemaLeaves, structureKinds, type StructureKind } from './recordSchemaPaths.ts';
 
@@ -24,12 +27,8 @@ const excluded: Readonly<Record<string, string>> = {
   faces: 'custom: its own row editor (faceColumns)',
   masses: 'custom: its own row editor (massColumns)',
   uplift: 'custom: its own editor (upliftColumns)',
-  configurationName: 'every kind: the configurations editor (issue 14), not a kind field',
-  configurations: 'every kind: the configurations editor (issue 14), not a kind field',
+  configurations: 'every kind: its own editor (configurationColumns, components/configurationsEditor.tsx), checked below',
 };
-
-/** Fields the form's round trips below do not carry yet: the configurations editor is its own (issue 14). */
-const notInRoundTrips = ['configurationName', 'configurations'];
 
 /** Schema-optional fields the form requires anyway, each with the reason. */
 const requiredInForm: Readonly<Record<string, string>> = {
@@ -84,6 +83,14 @@ describe('every field of every kind’s schema has a form field (server/engine/k
     expect(massColumns.map((column) => column.key).sort()).toEqual(schemaLeaves(massSchema).map((leaf) => leaf.path).sort());
     // The uplift's label is kept from a loaded record (UpliftDraft.label) but not shown: one uplift needs no name.
     expect([...upliftColumns.map((column) => column.key), 'label'].sort()).toEqual(schemaLeaves(upliftSchema).map((leaf) => leaf.path).sort());
+  });
+
+  it('the configurations editor has a column for every field of a configuration, and the same limit on their number (kinds/recordBase.ts)', () => {
+    for (const kind of structureKinds) {
+      const leaves = kindLeaves(kind).filter((leaf) => leaf.arrayPath === 'configurations').map((leaf) => leaf.path.slice('configurations.'.length));
+      expect(configurationColumns.map((column) => column.key).sort()).toEqual(leaves.sort());
+    }
+    expect(webMaxConfigurations).toBe(maxConfigurations);
   });
 
   it('every help text says something, and every kind field has a label (the form shows both)', () => {
@@ -149,6 +156,11 @@ const examples: Readonly<Record<string, unknown>> = {
     sides: { front: 'open', back: 'closed', endY0: 'closed', endYW: 'open' }, legs: 12, ballastPerLegKg: 400, selfWeightKg: 1300,
     coefficients: { wallCf: 1.3, openWallCf: 0.4, roofCf: 1.2, liftCoefficient: 1.1 }, coefficientSource: source,
     safetyFactors: { overturning: 1.6, sliding: 2.2, uplift: 1.7 }, ratedGustMps: 17.4, frictionCoefficient: 0.45, surface: 'hard', referenceHeightM: 5,
+    configurationName: 'Sides as built',
+    configurations: [
+      { name: 'sides off', changes: { sides: { front: 'open', back: 'open', endY0: 'open', endYW: 'open' } } },
+      { name: 'more ballast', changes: { ballastPerLegKg: 650, coefficients: { wallCf: 1.3, openWallCf: 0.4, roofCf: 1.2, liftCoefficient: 1.3 } } },
+    ],
   },
   'tent, fewest fields': {
     kind: 'tent', name: 'Bar tent', lengthM: 6, widthM: 3, eaveHeightM: 2.1, ridgeHeightM: 3,
@@ -158,6 +170,9 @@ const examples: Readonly<Record<string, unknown>> = {
     kind: 'banner', name: 'Gate hoarding', widthM: 10.5, panelWidthM: 3.5, panels: 3, heightM: 2, clearanceM: 0.1, solidity: 0.7, feet: 4,
     ballastPerFootKg: 60, endFootBallastKg: 90, footDepthM: 0.8, selfWeightKg: 120, coefficients: { cf: 1.5, endPanelCf: 2.4 }, coefficientSource: source,
     safetyFactors: { overturning: 1.5, sliding: 2.5, uplift: 1.5 }, ratedGustMps: 12.5, frictionCoefficient: 0.35, surface: 'grass', referenceHeightM: 2.5,
+    configurationName: 'scrim on',
+    // null removes the coefficients given: the board rule applies to the bare mesh.
+    configurations: [{ name: 'scrim removed', changes: { solidity: 0.35, coefficients: null } }],
   },
   'banner, fewest fields': {
     kind: 'banner', name: 'Car-park fence', panels: 4, panelWidthM: 3.5, heightM: 1.8, clearanceM: 0, ballastPerFootKg: 50, footDepthM: 0.7, selfWeightKg: 100,
@@ -167,6 +182,12 @@ const examples: Readonly<Record<string, unknown>> = {
     outriggerDepthM: 4.5, ballastPerTowerKg: 1200, towerSpacingM: 5.2, towerWidthM: 0.3, towerDepthM: 0.5, towerHeightM: 8, headerTrussDepthM: 0.3,
     structuralFactor: 1.1, onCrane: false, coefficients: { cf: 1.8, towerCf: 2, trussCf: 1.6 }, coefficientSource: source, ratedGustMps: 15,
     safetyFactors: { overturning: 1.7, sliding: 2, uplift: 1.6 }, frictionCoefficient: 0.4, surface: 'hard', referenceHeightM: 9,
+    configurationName: 'Raised',
+    configurations: [
+      { name: 'lowered', changes: { bottomHeightM: 0.5, referenceHeightM: 5.5 } },
+      // A speed in a configuration comes back exactly as stored, whatever unit the form shows.
+      { name: 'lowered, rated', changes: { bottomHeightM: 0.5, ratedGustMps: 22.37, onCrane: false } },
+    ],
   },
   'screen, fewest fields': {
     kind: 'screen', name: 'Side screen', widthM: 4, heightM: 2.5, bottomHeightM: 2, supportTowers: 2, towerMassKg: 200, screenMassKg: 400, outriggerDepthM: 3, ballastPerTowerKg: 600,
@@ -175,6 +196,8 @@ const examples: Readonly<Record<string, unknown>> = {
     kind: 'shell', name: 'Band shell', radiusM: 5, shape: 'quarterSphere', form: 'closed', baseHeightM: 1, baseDepthM: 6, baseWidthM: 11, selfWeightKg: 2500,
     frontBallastKg: 800, backBallastKg: 600, coefficients: { cfFront: 1.2, cfBack: 0.5, cfSide: 1, liftCoefficient: 1.3 }, coefficientSource: source,
     safetyFactors: { overturning: 1.5, sliding: 2, uplift: 1.8 }, ratedGustMps: 18, frictionCoefficient: 0.6, surface: 'hard', referenceHeightM: 6.5,
+    configurationName: 'curtains closed',
+    configurations: [{ name: 'curtains open', changes: { form: 'open' } }],
   },
   'shell (dome), every field of a dome': {
     kind: 'shell', name: 'Dome tent', radiusM: 6, shape: 'hemisphere', form: 'open', baseDepthM: 12.5, baseWidthM: 12.5, selfWeightKg: 1800, ringBallastKg: 3000, referenceHeightM: 7,
@@ -192,6 +215,11 @@ const examples: Readonly<Record<string, unknown>> = {
       { massKg: 900, xM: 1.8 },
     ],
     safetyFactors: { overturning: 1.5, sliding: 2, uplift: 1.5 }, ratedGustMps: 20, coefficientSource: source,
+    configurationName: 'sign up',
+    configurations: [
+      // The faces are edited in the form; masses have no editor in a configuration and are kept as stored.
+      { name: 'sign off', changes: { faces: [{ label: 'frame', areaM2: 2, centroidHeightM: 3, cfFront: 1.2, cfBack: 1.1, facingDeg: 90 }], masses: [{ massKg: 900, xM: 0.2, yM: 0.5 }] } },
+    ],
   },
   'custom, first-round strip (README example)': {
     kind: 'custom', name: 'Sponsor arch', baseDepthM: 1.5, frictionCoefficient: 0.3,
@@ -222,12 +250,13 @@ describe('a stored record opened in the form and saved again is the same record 
       for (const input of Object.values(examples).filter((record) => (record as { kind: string }).kind === kind)) {
         const collect = (value: unknown, prefix: string) => {
           if (Array.isArray(value)) value.forEach((item) => collect(item, prefix));
+          else if (prefix === 'configurations.changes') given.add(prefix);
           else if (value !== null && typeof value === 'object') for (const [key, child] of Object.entries(value)) collect(child, prefix === '' ? key : `${prefix}.${key}`);
           else given.add(prefix);
         };
         collect(input, '');
       }
-      const notGiven = kindLeaves(kind).map((leaf) => leaf.path).filter((path) => !given.has(path) && path !== 'wallsClosed' && !notInRoundTrips.some((name) => path === name || path.startsWith(`${name}.`)));
+      const notGiven = kindLeaves(kind).map((leaf) => leaf.path).filter((path) => !given.has(path) && path !== 'wallsClosed');
       expect({ kind, notGiven }).toEqual({ kind, notGiven: [] });
     }
   });
@@ -247,6 +276,71 @@ describe('a stored record opened in the form and saved again is the same record 
     const saved = valid(draftRecord(draftFromView(view(mixed), [], 'm/s'), 'm/s'));
     expect(saved).toMatchObject({ sides: { front: 'open', back: 'closed', endY0: 'closed', endYW: 'closed' } });
     expect(expandStructure(saved)).toEqual(expandStructure(mixed));
+  });
+});
+
+describe('configurations in the form (design §2.5; engine/configuration.ts applies the changes)', () => {
+  it('a first-round tent whose configurations change wallsClosed or some sides saves configurations with the same expansion each (kinds/tent.ts resolvedTentSides)', () => {
+    const original = valid({
+      kind: 'tent', name: 'Hospitality marquee', lengthM: 12, widthM: 6, eaveHeightM: 2.4, ridgeHeightM: 4, wallsClosed: true, legs: 8, ballastPerLegKg: 500, selfWeightKg: 900,
+      configurations: [
+        { name: 'walls off', changes: { wallsClosed: false } },
+        { name: 'front open', changes: { sides: { front: 'open' } } },
+        { name: 'back open, rest off', changes: { wallsClosed: false, sides: { back: 'closed' } } },
+      ],
+    });
+    const saved = valid(draftRecord(draftFromView(view(original), [], 'm/s'), 'm/s'));
+    expect(JSON.stringify(saved)).not.toContain('wallsClosed');
+    const before = recordConfigurations(original);
+    const after = recordConfigurations(saved);
+    expect(after.map((c) => c.name)).toEqual(before.map((c) => c.name));
+    after.forEach((c, i) => expect({ name: c.name, expansion: expandStructure(c.record) }).toEqual({ name: c.name, expansion: expandStructure(before[i]!.record) }));
+  });
+
+  it('a new configuration asks for its name and a change; a group change starts from the record as registered', () => {
+    const draft = draftFromView(view(valid(examples['tent, fewest fields'])), [], 'm/s');
+    draft.configurations = [newConfiguration()];
+    const issues: LocalIssues = new Map();
+    draftRecord(draft, 'm/s', issues);
+    expect([...issues.keys()].sort()).toEqual(['configurations.0.changes', 'configurations.0.name']);
+
+    const sidesOff = withChangedField({ ...newConfiguration('sides off') }, draft, 'sides');
+    // The four sides as registered, to be changed one by one.
+    expect(sidesOff.values).toEqual({ 'sides.front': 'closed', 'sides.back': 'closed', 'sides.endY0': 'closed', 'sides.endYW': 'closed' });
+    sidesOff.values['sides.front'] = 'open';
+    draft.configurations = [sidesOff];
+    const again: LocalIssues = new Map();
+    const record = draftRecord(draft, 'm/s', again);
+    expect([...again]).toEqual([]);
+    expect(record.configurations).toEqual([{ name: 'sides off', changes: { sides: { front: 'open', back: 'closed', endY0: 'closed', endYW: 'closed' } } }]);
+    expect(validateStructureRecord(record).ok).toBe(true);
+  });
+
+  it('a configuration field left empty is named at the server’s path, and an optional one emptied is removed (null: its default applies)', () => {
+    const draft = draftFromView(view(valid(examples['screen, every field'])), [], 'm/s');
+    const lowered = withChangedField(withChangedField(newConfiguration('lowered'), draft, 'bottomHeightM'), draft, 'towerHeightM');
+    lowered.values.bottomHeightM = '';
+    lowered.values.towerHeightM = '';
+    draft.configurations = [lowered];
+    const issues: LocalIssues = new Map();
+    const record = draftRecord(draft, 'm/s', issues);
+    expect([...issues]).toEqual([['configurations.0.changes.bottomHeightM', 'is required']]);
+    expect(record.configurations).toEqual([{ name: 'lowered', changes: { bottomHeightM: null, towerHeightM: null } }]);
+  });
+});
+
+describe('a level’s action that moves the structure (levelDefinition.ts moveToConfiguration)', () => {
+  it('is sent only when chosen, follows a renamed configuration, and is kept (visibly) while the name is retyped', () => {
+    const rows = [
+      { label: 'Watch', kind: 'utilization' as const, value: '60', actionText: 'Check the ballast.' },
+      { label: 'Prepare', kind: 'utilization' as const, value: '80', actionText: 'Lower the screen.', moveToConfiguration: 'lowered' },
+    ];
+    expect(draftLevels(rows, 'm/s')).toEqual([
+      { label: 'Watch', trigger: { kind: 'utilization', fraction: 0.6 }, actionText: 'Check the ballast.' },
+      { label: 'Prepare', trigger: { kind: 'utilization', fraction: 0.8 }, actionText: 'Lower the screen.', moveToConfiguration: 'lowered' },
+    ]);
+    expect(renamedInLevels(rows, 'Lowered', 'lowered to the deck').map((l) => l.moveToConfiguration)).toEqual([undefined, 'lowered to the deck']);
+    expect(renamedInLevels(rows, 'lowered', '').map((l) => l.moveToConfiguration)).toEqual([undefined, 'lowered']);
   });
 });
 

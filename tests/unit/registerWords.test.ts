@@ -187,6 +187,17 @@ describe('issue paths named as the form names its fields (fieldWords.ts namedFie
     expect(namedField('record', 'banner')).toEqual({ label: 'The structure as a whole', controlId: null });
   });
 
+  it('a configuration’s fields and a level’s configuration by the form’s labels, numbered after the one as registered (issue 14)', () => {
+    expect(namedField('record.configurations.0.name', 'screen')).toEqual({ label: 'Configuration 2: name', controlId: 'cf-0-name' });
+    expect(namedField('structure.configurations.1.changes.bottomHeightM', 'screen')).toEqual({ label: 'Configuration 3: Bottom edge height', controlId: 'cf-1-bottomHeightM' });
+    expect(namedField('structure.configurations.0.changes.sides.front', 'tent')).toEqual({ label: 'Configuration 2: Front wall', controlId: 'cf-0-sides-front' });
+    // A change of a whole group names its first field.
+    expect(namedField('structure.configurations.0.changes.sides', 'tent')).toEqual({ label: 'Configuration 2: Front wall', controlId: 'cf-0-sides-front' });
+    expect(namedField('structure.configurations.0.changes.faces.1.areaM2', 'custom')).toEqual({ label: 'Configuration 2: face 2 area', controlId: 'cf-0-face-1-areaM2' });
+    expect(namedField('record.configurations.0.changes', 'banner')).toEqual({ label: 'Configuration 2: changes', controlId: 'cf-0-add' });
+    expect(namedField('levels.1.moveToConfiguration', 'screen')).toEqual({ label: 'Level 2: moves the structure to', controlId: 'sl-1-move' });
+  });
+
   it('several complaints about one field are one entry, in the form’s words', () => {
     expect(issueFields([['record.ridgeHeightM', 'must be ≥ eaveHeightM (2.4 m)'], ['ridgeHeightM', 'must be ≤ 200 m']], 'tent')).toEqual([
       { label: 'Ridge height', controlId: 'sf-ridgeHeightM', problem: 'must be ≥ “Eave height” (2.4 m); must be ≤ 200 m' },

@@ -69,6 +69,8 @@ export type AssessAnswer = AssessmentReport & {
   levels?: Array<{ level: number; label: string; trigger: LevelTrigger; triggerGustMps: number | null }>;
   levelOrderProblems?: FieldIssue[];
   requiredBallast?: { designGustMps: number; xM: number; yM: number } & RequiredBallast;
+  /** Issue 14: each configuration at the same gust, the one as registered first (a record with configurations). */
+  configurations?: AssessConfiguration[];
 };
 
 /** GET /api/site */
@@ -85,6 +87,8 @@ export interface SiteView {
   directionSectorHalfWidthDeg: number;
   deadBandFraction: number;
   holdTimeMs: number;
+  /** Issue 14: how long after its alert a plan action may wait before it is signalled as overdue, ms (default 5 min). */
+  actionDueMs?: number;
   defaultLevels: LevelDefinition[];
   createdAtMs: number;
   updatedAtMs: number;
@@ -120,6 +124,9 @@ export interface StructureLog {
   series: StructureSeries;
   levelChanges: LevelChangeRow[];
   alerts: AlertRow[];
+  /** Issue 14: the structure's configuration switches and overdue signals in the window. */
+  configurationChanges?: ConfigurationChangeEntry[];
+  overdueSignals?: OverdueSignalEntry[];
 }
 
 /** GET /api/log/wind */
@@ -137,10 +144,19 @@ export interface ForecastAnswer {
   notes: string[];
   /** The order year-last dates were read in, or null when none needed one. */
   dateOrder: 'day-first' | 'month-first' | null;
-  structures: Array<{ id: number; name: string; referenceHeightM: number; levels: Array<{ level: number; label: string; triggerGustMps: number }> }>;
+  structures: Array<{
+    id: number;
+    name: string;
+    referenceHeightM: number;
+    levels: Array<{ level: number; label: string; triggerGustMps: number; moveToConfiguration?: string | null }>;
+    /** Issue 14: the configuration it stands in now, and every configuration with its ladder. */
+    configuration?: string;
+    configurations?: ForecastStructureConfiguration[];
+  }>;
   /** Structures the check could not cover, and why. */
   notChecked: Array<{ id: number; name: string; reason: string }>;
-  rows: Array<ForecastPrediction & { meanMps: number | null; dirFromDeg: number | null }>;
+  /** Issue 14: `configurations`, one entry per structure (in the order of `structures`). */
+  rows: Array<ForecastPrediction & { meanMps: number | null; dirFromDeg: number | null; configurations?: ForecastRowConfigurations[] }>;
 }
 
 export interface SiteLink {
@@ -161,3 +177,96 @@ export interface RefusalsAnswer {
   sinceMs: number;
   broker: 'embedded' | 'external';
 }
+
+// ---------- Configurations and plan actions (issue 14; design §2.5) ----------
+// The server sends these as it gains the issue's server part. Until then every field may be
+// missing, so the screens read them through web/src/configurationState.ts, which checks each one
+// and treats a missing configuration as unknown, never as the one registered.
+
+/** One configuration of a structure in its live state (StructureState.configurations), as registered first. */
+export interface LiveConfiguration {
+  name: string;
+  /** The configuration the structure is in now. */
+  current: boolean;
+  /** Effective limit gust in this configuration (the lower of calculated and rated), m/s; null: no gust reaches it. */
+  limitGustMps: number | null;
+  calculatedLimitGustMps: number | null;
+  /** Each level's trigger gust in this configuration, m/s, in level order. */
+  triggerGustsMps: Array<number | null>;
+}
+
+/** The live state's configuration fields (StructureState additions). */
+export interface StructureConfigurationFields {
+  /** The live configuration's name. */
+  configuration?: string;
+  /** When it was switched to; null: as registered, never switched. */
+  configurationSinceMs?: number | null;
+  /** Who switched it (display name). */
+  configurationBy?: string | null;
+  configurations?: LiveConfiguration[];
+}
+
+/** A level alert's plan action (OpenAlert additions). */
+export interface AlertActionFields {
+  /** The configuration the level's action moves the structure to ("lowered"); null: none. */
+  moveToConfiguration?: string | null;
+  actionDoneAtMs?: number | null;
+  actionDoneBy?: string | null;
+  /** When the action is due (raised + the site's actionDueMs); null without an action. */
+  actionDueAtMs?: number | null;
+  /** When it was signalled again as overdue. */
+  overdueAtMs?: number | null;
+}
+
+/** A level's configuration action (LevelDefinition addition). */
+export interface LevelConfigurationField {
+  moveToConfiguration?: string;
+}
+
+/** POST /api/structures/:id/configuration */
+export interface ConfigurationSwitchAnswer {
+  structure: StructureState;
+  alert: OpenAlert | null;
+}
+
+/** One configuration in the calculator's answer (POST /api/assess `configurations`). */
+export interface AssessConfiguration {
+  name: string;
+  registered?: boolean;
+  calculatedLimitGustMps: number | null;
+  limitGustMps: number | null;
+  limitGovernedBy?: string;
+  governingText?: string;
+  effectiveUtilization?: number | null;
+  margin?: number | null;
+  levels?: Array<{ level: number; label: string; triggerGustMps: number | null }>;
+}
+
+// ---------- The log of the plan's actions (issue 14; design §2.5, §2.8) ----------
+
+/** GET /api/log/configurations: configuration switches and overdue signals in the window. */
+export interface ConfigurationLog {
+  fromMs: number;
+  toMs: number;
+  configurationChanges: ConfigurationChangeEntry[];
+  overdueSignals: OverdueSignalEntry[];
+}
+
+/** POST /api/forecast, per structure: every configuration with its ladder (the one it stands in now marked). */
+export interface ForecastStructureConfiguration {
+  name: string;
+  current: boolean;
+  referenceHeightM: number;
+  limitGustMps: number;
+  levels: Array<{ level: number; label: string; triggerGustMps: number }>;
+}
+
+/** POST /api/forecast, per row and structure: the level in each configuration and the one the plan moves it to (indices into the structure's configurations). */
+export interface ForecastRowConfigurations {
+  inConfigurations: Array<{ name: string; gustAtStructureMps: number | null; level: number | null }>;
+  current: number;
+  planned: number | null;
+}
+
+export type { ConfigurationChangeEntry, OverdueSignalEntry } from '../../server/storage/configurationLog.ts';
+import type { ConfigurationChangeEntry, OverdueSignalEntry } from '../../server/storage/configurationLog.ts';

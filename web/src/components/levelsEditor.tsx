@@ -2,7 +2,8 @@
  * Editing a level ladder: up to 8 rows of label, trigger (percent of load capacity, or a gust
  * in the chosen unit) and the action text the crew will read when the level is reached.
  * `readOnly`: the same ladder as a table, no inputs and no buttons, for a role that cannot
- * change it.
+ * change it. With `configurations` (a structure's, design §2.5), each level can also name the
+ * configuration its action moves the structure to: the board then offers the crew "Done: <name>".
  */
 import type { LevelRowDraft } from '../register/structureDraft.ts';
 import { speedUnitLabels, type SpeedUnit } from '../units.ts';
@@ -20,8 +21,11 @@ export function LevelsEditor(props: {
   gustsText?: Array<string | null>;
   /** Shown as a table: nothing to type into, nothing to press. */
   readOnly?: boolean;
+  /** Names of the structure's configurations (besides the one as registered) a level's action may move it to. */
+  configurations?: string[];
 }) {
   const { levels, unit } = props;
+  const configurations = props.configurations ?? [];
   if (props.readOnly) return <LevelsReadOnly levels={levels} unit={unit} gustsText={props.gustsText} />;
   const set = (i: number, patch: Partial<LevelRowDraft>) => props.onChange(levels.map((l, j) => (j === i ? { ...l, ...patch } : l)));
   const err = (i: number, k: string) => props.errors.get(`levels.${i}.${k}`) ?? (k === 'trigger' ? (props.errors.get(`levels.${i}.trigger.fraction`) ?? props.errors.get(`levels.${i}.trigger.gustMps`)) : undefined);
@@ -62,6 +66,9 @@ export function LevelsEditor(props: {
               <textarea id={`${id}-action`} rows={3} maxLength={2000} value={l.actionText} onInput={(e) => set(i, { actionText: e.currentTarget.value })} />
               {err(i, 'actionText') ? <p class="field-error">{err(i, 'actionText')}</p> : null}
             </div>
+            {configurations.length > 0 || (l.moveToConfiguration ?? '') !== '' ? (
+              <MoveToChoice id={`${id}-move`} level={i + 1} value={l.moveToConfiguration ?? ''} configurations={configurations} error={err(i, 'moveToConfiguration')} onChange={(v) => set(i, { moveToConfiguration: v })} />
+            ) : null}
             <div class="row">
               <button type="button" disabled={i === 0} onClick={() => props.onChange(levels.map((x, j) => (j === i - 1 ? levels[i]! : j === i ? levels[i - 1]! : x)))}>
                 Move up
@@ -73,9 +80,34 @@ export function LevelsEditor(props: {
           </fieldset>
         );
       })}
-      <button type="button" disabled={levels.length >= maxLevels} onClick={() => props.onChange([...levels, { label: '', kind: 'utilization', value: '', actionText: '' }])}>
+      <button type="button" disabled={levels.length >= maxLevels} onClick={() => props.onChange([...levels, { label: '', kind: 'utilization', value: '', actionText: '', moveToConfiguration: '' }])}>
         Add a level
       </button>
+    </div>
+  );
+}
+
+/**
+ * Which configuration the level's action moves the structure to. A stored name the structure no
+ * longer lists stays selectable (marked), so saving never drops it unseen; the server refuses it.
+ */
+function MoveToChoice(props: { id: string; level: number; value: string; configurations: string[]; error?: string; onChange: (value: string) => void }) {
+  const known = props.configurations.some((c) => c.toLowerCase() === props.value.trim().toLowerCase());
+  return (
+    <div class={`field wide${props.error ? ' has-error' : ''}`}>
+      <label for={props.id}>The action moves the structure to</label>
+      <select id={props.id} value={props.value} aria-describedby={`${props.id}-help`} onChange={(e) => props.onChange(e.currentTarget.value)}>
+        <option value="">no configuration (the action changes nothing the calculation knows)</option>
+        {props.configurations.map((c) => (
+          <option value={c}>{c}</option>
+        ))}
+        {props.value !== '' && !known ? <option value={props.value}>{props.value} (not a configuration of this structure)</option> : null}
+      </select>
+      {props.error ? <p class="field-error">{props.error}</p> : null}
+      <p class="help" id={`${props.id}-help`}>
+        When level {props.level} is reached the crew see “Done: {props.value || 'configuration'}” beside Acknowledge; pressing it switches the live assessment to that configuration at once. An action not marked
+        done in the site’s set time is signalled again as overdue.
+      </p>
     </div>
   );
 }
@@ -107,7 +139,10 @@ function LevelsReadOnly({ levels, unit, gustsText }: { levels: LevelRowDraft[]; 
               {l.kind === 'utilization' ? `${l.value}\u00a0% of load capacity` : `a gust of ${l.value} ${speedUnitLabels[unit]}`}
               {gustsText?.[i] ? <span class="muted small"> — {gustsText[i]} here</span> : null}
             </td>
-            <td class="action-cell">{l.actionText || <span class="muted">no action written</span>}</td>
+            <td class="action-cell">
+              {l.actionText || <span class="muted">no action written</span>}
+              {l.moveToConfiguration ? <span class="moves-to small"> Moves it to “{l.moveToConfiguration}”.</span> : null}
+            </td>
           </tr>
         ))}
       </tbody>

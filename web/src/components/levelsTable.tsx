@@ -13,6 +13,8 @@ export interface LevelRow {
   actionText: string;
   triggerGustMps: number | null;
   trigger: LevelTrigger;
+  /** The configuration the level's action moves the structure to (issue 14), when the server says. */
+  moveToConfiguration?: string | null;
 }
 
 export function triggerText(t: LevelTrigger, unit: SpeedUnit): string {
@@ -48,7 +50,10 @@ export function LevelsTable({ levels, unit, caption }: { levels: LevelRow[]; uni
               <br />
               <span class="muted small">{triggerText(l.trigger, unit)}</span>
             </td>
-            <td class="action-cell">{l.actionText || <span class="muted">no action written</span>}</td>
+            <td class="action-cell">
+              {l.actionText || <span class="muted">no action written</span>}
+              {typeof l.moveToConfiguration === 'string' && l.moveToConfiguration !== '' ? <span class="moves-to small"> Moves it to “{l.moveToConfiguration}”.</span> : null}
+            </td>
           </tr>
         ))}
       </tbody>

@@ -45,6 +45,9 @@ function fieldsOfKind(kind: StructureKind): FieldDef[] {
  */
 export function namedField(rawPath: string, kind: StructureKind): NamedField {
   const path = rawPath.replace(/^(record|structure)(\.|$)/, '');
+  const configuration = /^configurations\.(\d+)(?:\.(name|changes)(?:\.(.+))?)?$/.exec(path);
+  if (configuration) return configurationField(Number(configuration[1]), configuration[2], configuration[3], kind);
+  if (path === 'configurations') return { label: 'Configurations', controlId: null };
   const field = fieldsOfKind(kind).find((f) => f.path === path || path.startsWith(`${f.path}.`));
   if (field) return { label: field.label, controlId: fieldControlId(field.path) };
   const placement = placementFields[path];
@@ -65,6 +68,7 @@ export function namedField(rawPath: string, kind: StructureKind): NamedField {
   const level = /^levels\.(\d+)\.?(\w+)?/.exec(path);
   if (level) {
     const i = Number(level[1]);
+    if (level[2] === 'moveToConfiguration') return { label: `Level ${i + 1}: moves the structure to`, controlId: `sl-${i}-move` };
     const part = level[2] === 'label' ? 'label' : level[2] === 'actionText' ? 'action' : 'trigger';
     return { label: `Level ${i + 1}: ${part}`, controlId: `sl-${i}-${part === 'trigger' ? 'value' : part}` };
   }
@@ -72,6 +76,26 @@ export function namedField(rawPath: string, kind: StructureKind): NamedField {
   if (/^sensorKeys/.test(path)) return { label: 'Sensors that govern', controlId: null };
   if (path === 'kind') return { label: 'Kind', controlId: null };
   return { label: path === '' ? 'The structure as a whole' : path, controlId: null };
+}
+
+/**
+ * A configuration's field (configurationsEditor.tsx builds the ids the same way): "Configuration 2:
+ * name", "Configuration 2: Bottom edge height", "Configuration 2: face 1 area". Configurations are
+ * numbered after the one as registered (number 1), as the form shows them.
+ */
+function configurationField(index: number, part: string | undefined, rest: string | undefined, kind: StructureKind): NamedField {
+  const what = `Configuration ${index + 2}`;
+  const id = (p: string) => `cf-${index}-${p.replace(/\./g, '-')}`;
+  if (part === 'name') return { label: `${what}: name`, controlId: id('name') };
+  if (part !== 'changes' || rest === undefined) return { label: part === 'changes' ? `${what}: changes` : what, controlId: part === 'changes' ? id('add') : id('name') };
+  const face = /^faces\.(\d+)\.?(\w+)?/.exec(rest);
+  if (face) {
+    const column = faceColumns.find((c) => c.key === face[2]) ?? faceColumns[1];
+    return { label: `${what}: face ${Number(face[1]) + 1} ${column.label.toLowerCase()}`, controlId: id(`face.${face[1]}.${column.key}`) };
+  }
+  const field = fieldsOfKind(kind).find((f) => f.path === rest || rest.startsWith(`${f.path}.`)) ?? fieldsOfKind(kind).find((f) => f.path.startsWith(`${rest}.`));
+  if (field) return { label: `${what}: ${field.label}`, controlId: id(field.path) };
+  return { label: `${what}: ${rest}`, controlId: id('add') };
 }
 
 export interface IssueField extends NamedField {

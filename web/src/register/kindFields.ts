@@ -648,7 +648,56 @@ export const commonFields: FieldDef[] = [
       'Required when you give any coefficient above (or a screen’s structural factor): name the standard and clause, the handbook and figure, or the manufacturer’s sheet. ' +
       'For an “other” structure it is quoted as the source of its faces’ coefficients.',
   },
+  {
+    path: 'configurationName',
+    label: 'Name of this configuration (as registered)',
+    kind: 'text',
+    optional: true,
+    placeholder: 'as registered',
+    help:
+      'What the crew call the structure as the fields above describe it (“raised”, “sides on”, “scrim on”), at most 100 characters. ' +
+      'Listed first wherever configurations are shown. Empty: “as registered”.',
+  },
 ];
+
+/**
+ * The configurations editor's columns (design §2.5; the record's `configurations`, kinds/recordBase.ts):
+ * each configuration has a name and the changes it makes to the fields above.
+ */
+export const configurationColumns = [
+  { key: 'name', label: 'Configuration name', help: 'What the crew call it (“lowered”, “sides off”, “scrim removed”), at most 100 characters: the board’s Done button says it.' },
+  {
+    key: 'changes',
+    label: 'Changes',
+    help:
+      'The fields this configuration changes, each with its value in this configuration; every other field stays as registered. ' +
+      'The changed record is checked like any record of its kind and assessed by the same engine: its own limit gust and level gusts.',
+  },
+] as const;
+
+/** Fields a configuration cannot change (engine/configuration.ts unchangeableFields), besides `kind` and `name`. */
+export const unchangeableByConfiguration: readonly string[] = ['configurationName'];
+
+/**
+ * The fields each kind's crew typically change with a plan action (design §2.5): offered first in
+ * the configurations editor. A screen lowered, a tent's sides off or on, a fence's scrim removed
+ * (its solidity), a band shell opened or closed, a custom record's faces.
+ */
+export const suggestedChanges: Readonly<Record<StructureKind, readonly string[]>> = {
+  tent: ['sides'],
+  banner: ['solidity'],
+  screen: ['bottomHeightM', 'heightM'],
+  shell: ['form'],
+  custom: ['faces'],
+};
+
+/** Names of the fields that hold several form fields, as a configuration's change. */
+export const groupLabels: Readonly<Record<string, string>> = {
+  sides: 'Sides: each open or closed',
+  coefficients: 'Coefficients given instead of the defaults',
+  safetyFactors: 'Safety factors',
+  faces: 'Wind-loaded faces',
+};
 
 /** Columns of a custom record's face rows (structureDraft.ts FaceRow). */
 export const faceColumns = [

@@ -10,9 +10,9 @@
  * Loading a stored record and saving it again gives the same record, with one exception: a tent
  * saved with `wallsClosed` comes back with the four `sides` it stands for (the form sets each side).
  */
-import type { LevelDefinition, StructureKind, StructureView } from '../types.ts';
+import type { LevelConfigurationField, LevelDefinition, StructureKind, StructureView } from '../types.ts';
 import { mpsToSpeed, speedToMps, type SpeedUnit } from '../units.ts';
-import { commonFields, kindFields, type FieldDef } from './kindFields.ts';
+import { commonFields, groupLabels, kindFields, unchangeableByConfiguration, type FieldDef } from './kindFields.ts';
 
 export interface FaceRow {
   label: string;
@@ -53,6 +53,28 @@ export interface LevelRowDraft {
   /** Percent of capacity, or a gust in the person's unit. */
   value: string;
   actionText: string;
+  /** The configuration the level's action moves the structure to (a name of the record's configurations); empty or absent: none. */
+  moveToConfiguration?: string;
+}
+
+/**
+ * One of the record's configurations as typed (design §2.5): a name and the fields it changes.
+ * A change replaces the record's top-level field whole (engine/configuration.ts), so a field
+ * holding several form fields (a tent's `sides`, `coefficients`) is changed as a group: adding
+ * it copies every one of its form fields from the record as registered, to be changed as needed.
+ */
+export interface ConfigurationDraft {
+  name: string;
+  /** The record's top-level fields it changes, in the order added ("bottomHeightM", "sides", "faces"). */
+  fields: string[];
+  /** What is typed for those fields, by form path ("bottomHeightM", "sides.front"); empty: removed, the default applies. */
+  values: Record<string, string>;
+  /** A custom record's faces in this configuration (when `fields` holds "faces"). */
+  faces: FaceRow[];
+  /** Changes the form has no editor for (a custom record's masses or uplift), kept exactly as loaded. */
+  kept: Record<string, unknown>;
+  /** Speeds as loaded: path → [text shown, exact m/s] (as `Draft.loadedSpeeds`). */
+  loadedSpeeds: Record<string, [string, number]>;
 }
 
 export interface Draft {
@@ -74,6 +96,8 @@ export interface Draft {
   levels: LevelRowDraft[];
   /** Speeds as loaded: path → [text shown, exact m/s]. */
   loadedSpeeds: Record<string, [string, number]>;
+  /** The record's other configurations, in order (the one as registered is the record itself). */
+  configurations: ConfigurationDraft[];
 }
 
 export function fieldsOf(kind: StructureKind): FieldDef[] {
@@ -95,6 +119,7 @@ export function levelsToDraft(levels: readonly LevelDefinition[], unit: SpeedUni
     kind: l.trigger.kind,
     value: l.trigger.kind === 'utilization' ? String(Math.round(l.trigger.fraction * 1000) / 10) : roundSpeed(mpsToSpeed(l.trigger.gustMps, unit)),
     actionText: l.actionText,
+    moveToConfiguration: (l as LevelDefinition & LevelConfigurationField).moveToConfiguration ?? '',
   }));
 }
 
@@ -119,6 +144,7 @@ export function newDraft(kind: StructureKind, siteLevels: readonly LevelDefiniti
     ownLevels: false,
     levels: levelsToDraft(siteLevels, unit),
     loadedSpeeds: {},
+    configurations: [],
   };
 }
 
@@ -127,7 +153,14 @@ export function switchKind(d: Draft, kind: StructureKind, siteLevels: readonly L
   const fresh = newDraft(kind, siteLevels, unit);
   const kept: Record<string, string> = { ...fresh.values };
   for (const f of commonFields) if (d.values[f.path] !== undefined) kept[f.path] = d.values[f.path]!;
-  return { ...d, kind, values: kept };
+  // A configuration keeps the changes the new kind can make too (its common fields, a height).
+  const groups = configurableFields(kind);
+  const configurations = d.configurations.map((c) => {
+    const fields = c.fields.filter((field) => groups.some((g) => g.field === field));
+    const values = Object.fromEntries(Object.entries(c.values).filter(([path]) => fields.includes(topField(path))));
+    return { ...c, fields, values, kept: {} };
+  });
+  return { ...d, kind, values: kept, configurations };
 }
 
 /** The tent's four side fields (kindFields.ts), filled from `wallsClosed` when a record gives that instead. */
@@ -169,14 +202,7 @@ export function draftFromView(view: StructureView, siteLevels: readonly LevelDef
   if (view.record.kind === 'custom') {
     const r = view.record;
     const text = (v: number | undefined): string => (v === undefined ? '' : String(v));
-    d.faces = r.faces.map((f) => ({
-      label: f.label ?? '',
-      areaM2: String(f.areaM2),
-      centroidHeightM: String(f.centroidHeightM),
-      cfFront: String(f.cfFront),
-      cfBack: String(f.cfBack),
-      facingDeg: text(f.facingDeg),
-    }));
+    d.faces = faceRowsOf(r.faces);
     d.masses = r.masses.map((m) => ({ label: m.label ?? '', massKg: String(m.massKg), xM: String(m.xM), yM: text(m.yM) }));
     d.upliftOn = r.uplift !== undefined;
     if (r.uplift) {
@@ -192,7 +218,20 @@ export function draftFromView(view: StructureView, siteLevels: readonly LevelDef
   d.sensorKeys = view.sensorKeys ?? [];
   d.ownLevels = view.levels !== null;
   d.levels = levelsToDraft(view.levels ?? siteLevels, unit);
+  d.configurations = (view.record.configurations ?? []).map((c) => configurationFromRecord(view.record as unknown as Record<string, unknown>, c.name, c.changes, unit));
   return d;
+}
+
+/** A stored record's faces as form rows. */
+function faceRowsOf(faces: ReadonlyArray<{ label?: string; areaM2: number; centroidHeightM: number; cfFront: number; cfBack: number; facingDeg?: number }>): FaceRow[] {
+  return faces.map((f) => ({
+    label: f.label ?? '',
+    areaM2: String(f.areaM2),
+    centroidHeightM: String(f.centroidHeightM),
+    cfFront: String(f.cfFront),
+    cfBack: String(f.cfBack),
+    facingDeg: f.facingDeg === undefined ? '' : String(f.facingDeg),
+  }));
 }
 
 /** Problems found before asking the server (a field that is not a number), keyed like the server's. */
@@ -301,6 +340,7 @@ export function draftRecord(d: Draft, unit: SpeedUnit, issues: LocalIssues = new
       record.uplift = uplift;
     }
   }
+  if (d.configurations.length > 0) record.configurations = d.configurations.map((c, i) => ({ name: c.name.trim(), changes: configurationChanges(d, c, i, unit, issues) }));
   return record;
 }
 
@@ -312,7 +352,8 @@ export function draftLevels(levels: readonly LevelRowDraft[], unit: SpeedUnit, i
       l.kind === 'utilization'
         ? { kind: 'utilization', fraction: n === undefined || Number.isNaN(n) ? l.value : n / 100 }
         : { kind: 'gust', gustMps: n === undefined || Number.isNaN(n) ? l.value : speedToMps(n, unit) };
-    return { label: l.label.trim(), trigger, actionText: l.actionText.trim() };
+    const moveTo = (l.moveToConfiguration ?? '').trim();
+    return { label: l.label.trim(), trigger, actionText: l.actionText.trim(), ...(moveTo === '' ? {} : { moveToConfiguration: moveTo }) };
   });
 }
 
@@ -388,4 +429,143 @@ export function bannerRun(values: Readonly<Record<string, string>>): BannerRun |
   if (runLengthM === undefined) return null;
   if (widthM !== undefined && panelWidthM !== undefined && Math.abs(panels * panelWidthM - widthM) > 0.01) return null;
   return { runLengthM, panels, panelWidthM: panelWidthM ?? runLengthM / panels, feet: feetGiven ?? panels + 1 };
+}
+
+// ---------- Configurations (design §2.5) ----------
+
+/** A field a configuration can change: a top-level field of the record and the form fields it holds. */
+export interface ConfigurableField {
+  /** The record's top-level field ("bottomHeightM", "sides", "faces"). */
+  field: string;
+  label: string;
+  /** Its form fields (none for a custom record's faces: the face rows are its editor). */
+  defs: FieldDef[];
+}
+
+/** The top-level field a form path belongs to ("sides.front" → "sides"). */
+export const topField = (path: string): string => path.split('.')[0]!;
+
+/** Every field of a kind a configuration can change, in the form's order (kind fields, then the common ones). */
+export function configurableFields(kind: StructureKind): ConfigurableField[] {
+  const out: ConfigurableField[] = [];
+  for (const def of fieldsOf(kind)) {
+    const field = topField(def.path);
+    if (unchangeableByConfiguration.includes(field)) continue;
+    const group = out.find((g) => g.field === field);
+    if (group) group.defs.push(def);
+    else out.push({ field, label: def.path === field ? def.label : (groupLabels[field] ?? field), defs: [def] });
+  }
+  if (kind === 'custom') out.unshift({ field: 'faces', label: groupLabels.faces!, defs: [] });
+  return out;
+}
+
+/** A configuration with a name and nothing changed yet. */
+export function newConfiguration(name = ''): ConfigurationDraft {
+  return { name, fields: [], values: {}, faces: [], kept: {}, loadedSpeeds: {} };
+}
+
+/**
+ * The configuration with one more field changed, starting from the record as registered (every
+ * form field of the group copied, so a tent's four sides show as they are and one is changed).
+ */
+export function withChangedField(c: ConfigurationDraft, d: Draft, field: string): ConfigurationDraft {
+  if (c.fields.includes(field)) return c;
+  const group = configurableFields(d.kind).find((g) => g.field === field);
+  if (!group) return c;
+  const values = { ...c.values };
+  const loadedSpeeds = { ...c.loadedSpeeds };
+  for (const def of group.defs) {
+    if (d.values[def.path] !== undefined) values[def.path] = d.values[def.path]!;
+    if (d.loadedSpeeds[def.path]) loadedSpeeds[def.path] = d.loadedSpeeds[def.path]!;
+  }
+  const faces = field === 'faces' ? d.faces.map((f) => ({ ...f })) : c.faces;
+  return { ...c, fields: [...c.fields, field], values, loadedSpeeds, faces };
+}
+
+/** The configuration without the change to `field` (that field is then as registered). */
+export function withoutChangedField(c: ConfigurationDraft, field: string): ConfigurationDraft {
+  const values = Object.fromEntries(Object.entries(c.values).filter(([path]) => topField(path) !== field));
+  const { [field]: _dropped, ...kept } = c.kept;
+  return { ...c, fields: c.fields.filter((f) => f !== field), values, kept, faces: field === 'faces' ? [] : c.faces };
+}
+
+/**
+ * A stored configuration as typed. Each change the form has fields for becomes those fields'
+ * text (a speed keeps its exact m/s, as the record's own speeds do); anything else is kept as
+ * loaded, so opening and saving never changes a configuration. A tent configuration that changes
+ * `wallsClosed` (or gives only some sides) is written as its four sides, resolved the way the
+ * engine resolves them (kinds/tent.ts resolvedTentSides): the form always saves the registered
+ * record with all four sides, and a `wallsClosed` left in a change would no longer reach them.
+ */
+export function configurationFromRecord(record: Readonly<Record<string, unknown>>, name: string, changes: Readonly<Record<string, unknown>>, unit: SpeedUnit): ConfigurationDraft {
+  const kind = record.kind as StructureKind;
+  const c = newConfiguration(name);
+  const groups = configurableFields(kind);
+  const entries = Object.entries(changes);
+  for (const [field, value] of entries) {
+    if (kind === 'tent' && field === 'wallsClosed') continue;
+    if (field === 'faces' && kind === 'custom' && Array.isArray(value)) {
+      c.fields.push('faces');
+      c.faces = faceRowsOf(value as Parameters<typeof faceRowsOf>[0]);
+      continue;
+    }
+    const group = groups.find((g) => g.field === field && g.defs.length > 0);
+    if (!group) {
+      c.kept[field] = value;
+      continue;
+    }
+    c.fields.push(field);
+    if (value === null) continue;
+    const holder = { [field]: value };
+    for (const def of group.defs) {
+      const v = getPath(holder, def.path);
+      if (v === undefined || v === null) continue;
+      if (def.kind === 'speed' && typeof v === 'number') {
+        const text = roundSpeed(mpsToSpeed(v, unit));
+        c.values[def.path] = text;
+        c.loadedSpeeds[def.path] = [text, v];
+      } else c.values[def.path] = String(v);
+    }
+  }
+  if (kind === 'tent' && ('wallsClosed' in changes || 'sides' in changes)) {
+    const sides = ('sides' in changes ? changes.sides : record.sides) as Partial<Record<string, string>> | null | undefined;
+    const wallsClosed = ('wallsClosed' in changes ? changes.wallsClosed : record.wallsClosed) as boolean | null | undefined;
+    const fallback = wallsClosed === undefined || wallsClosed === null ? undefined : wallsClosed ? 'closed' : 'open';
+    if (!c.fields.includes('sides')) c.fields.push('sides');
+    for (const path of tentSidePaths) {
+      const state = sides?.[path.slice('sides.'.length)] ?? fallback;
+      if (state !== undefined) c.values[path] = state;
+    }
+  }
+  return c;
+}
+
+/**
+ * The `changes` a configuration draft stands for. The record as registered with the
+ * configuration's fields in place of its own is built by `draftRecord` (so numbers, speeds and
+ * rows are read exactly as the registered ones are), and the changed fields are taken from it:
+ * a field left empty is removed (null: its default applies). Problems go into `issues` at
+ * `configurations.<i>.name` and `configurations.<i>.changes.<path>`, the server's paths.
+ */
+function configurationChanges(d: Draft, c: ConfigurationDraft, index: number, unit: SpeedUnit, issues: LocalIssues): Record<string, unknown> {
+  if (c.name.trim() === '') issues.set(`configurations.${index}.name`, required);
+  const values = Object.fromEntries(Object.entries(d.values).filter(([path]) => !c.fields.includes(topField(path))));
+  for (const [path, text] of Object.entries(c.values)) if (c.fields.includes(topField(path))) values[path] = text;
+  const configured: Draft = { ...d, values, loadedSpeeds: { ...d.loadedSpeeds, ...c.loadedSpeeds }, faces: c.fields.includes('faces') ? c.faces : d.faces, configurations: [] };
+  const found: LocalIssues = new Map();
+  const record = draftRecord(configured, unit, found);
+  const changes: Record<string, unknown> = {};
+  for (const field of c.fields) changes[field] = record[field] ?? null;
+  for (const [field, value] of Object.entries(c.kept)) if (!(field in changes)) changes[field] = value;
+  for (const [path, message] of found) if (c.fields.includes(topField(path))) issues.set(`configurations.${index}.changes.${path}`, message);
+  if (c.fields.length === 0 && Object.keys(c.kept).length === 0) issues.set(`configurations.${index}.changes`, 'must change at least one field: add a change');
+  return changes;
+}
+
+/** Renames a configuration in the levels that move the structure to it (a level keeps pointing at the same one). */
+export function renamedInLevels(levels: readonly LevelRowDraft[], from: string, to: string): LevelRowDraft[] {
+  const key = from.trim().toLowerCase();
+  // Emptied while retyped: the levels keep the old name (shown as not a configuration) rather than silently losing it.
+  if (key === '' || to.trim() === '') return [...levels];
+  return levels.map((l) => ((l.moveToConfiguration ?? '').trim().toLowerCase() === key ? { ...l, moveToConfiguration: to } : l));
 }

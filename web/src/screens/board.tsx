@@ -23,6 +23,9 @@ import { groupAlerts, mayFold, type AlertGroup, type SensorAlertGroup, type Stru
 import { armSound, screenKeptOn, soundArmed, tapped } from '../alarm.ts';
 import { boardSummary, sensorTrouble as sensorTroubleKind, summaryText } from '../boardSummary.ts';
 import { Caution } from '../components/caution.tsx';
+import { ConfigurationLineView } from '../components/configurationLine.tsx';
+import { PlanActionDone, PlanActionStatus } from '../components/planAction.tsx';
+import { alertAction } from '../configurationState.ts';
 import { useNow } from '../components/clock.ts';
 import { LevelBadge, LevelShape, levelTone, type Tone } from '../components/levelBadge.tsx';
 import { useMedia } from '../components/media.ts';
@@ -354,6 +357,13 @@ export function StructureAlertCard({ g }: { g: StructureAlertGroup }) {
   const levelName = c.level > 0 ? `Level ${c.level} · ${c.label ?? ''}` : null;
   const heading = c.noData ? 'No data — wind unknown' : (levelName ?? 'Below all levels now');
   const current = g.currentAlert;
+  const state = useStore(live).snapshot?.structures.find((x) => x.id === g.structureId);
+  // The plan actions of the card's level alerts (design §2.5): the current level's first.
+  const nowMs = serverNow();
+  const actions = [current, ...g.folded].flatMap((a) => {
+    const action = a ? alertAction(a, nowMs) : null;
+    return a && action ? [{ a, action }] : [];
+  });
   return (
     <article class={`alert-card tone-${tone}${g.toAcknowledge.length === 0 ? ' acked' : ''}`} aria-label={`${g.subject}: ${heading}`}>
       <header>
@@ -362,6 +372,7 @@ export function StructureAlertCard({ g }: { g: StructureAlertGroup }) {
         </span>
         <span class="alert-subject">{g.subject}</span>
       </header>
+      {state ? <ConfigurationLineView s={state} unit={unit} timeZone={tz} /> : null}
       {c.noData ? g.noDataAlerts.filter((a) => a.clearedAtMs === null).map((a) => <NoDataBlock key={a.id} a={a} tz={tz} canAck={canAck} headed />) : null}
       {c.level > 0 ? (
         <div class="current-level">
@@ -381,6 +392,9 @@ export function StructureAlertCard({ g }: { g: StructureAlertGroup }) {
       ) : c.noData ? null : (
         <p class="alert-state is-ended">Below every level now: the alerts below have ended.</p>
       )}
+      {actions.map(({ a, action }) => (
+        <PlanActionStatus key={a.id} action={action} actionText={a.actionText} timeZone={tz} canAct={canAck} />
+      ))}
       {g.noDataAlerts.filter((a) => a.clearedAtMs !== null || !c.noData).map((a) => (
         <NoDataBlock key={a.id} a={a} tz={tz} canAck={canAck} />
       ))}
@@ -394,6 +408,11 @@ export function StructureAlertCard({ g }: { g: StructureAlertGroup }) {
           </ul>
         </div>
       ) : null}
+      {canAck
+        ? actions
+            .filter(({ action }) => action.state !== 'done' && !action.ended)
+            .map(({ a, action }) => <PlanActionDone key={a.id} structureId={g.structureId} action={action} />)
+        : null}
       {canAck ? <AckAll subject={{ structureId: g.structureId }} alerts={g.toAcknowledge} noun="structure" idBase={g.key} /> : null}
     </article>
   );
@@ -548,6 +567,7 @@ export function StructureCard({ s, sensors }: { s: StructureState; sensors: Sens
   const own = s.sensorKeys === null ? sensors : sensors.filter((x) => s.sensorKeys!.includes(x.key));
   const quiet = own.filter((x) => sensorTrouble(x, nowMs) !== null).map((x) => x.name);
   const tone = levelTone(s.level, s.levels.length, s.noData);
+  const tz = useTimeZone();
   return (
     <a class={`structure-card tone-${tone}${stale ? ' stale' : ''}`} href={href(`/structure/${s.id}`)}>
       <div class="sc-head">
@@ -561,6 +581,7 @@ export function StructureCard({ s, sensors }: { s: StructureState; sensors: Sens
         </p>
       ) : null}
       <StructureFigures s={s} unit={unit} />
+      <ConfigurationLineView s={s} unit={unit} timeZone={tz} />
       {s.governingText && !s.error ? (
         <p class="sc-governs" data-testid="card-governs">
           {s.noData ? 'Governs (any wind): ' : 'Governs: '}

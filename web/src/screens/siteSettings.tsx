@@ -32,6 +32,8 @@ interface SiteDraft {
   sectorDeg: string;
   deadBandPct: string;
   holdMin: string;
+  /** Minutes a plan action that moves a structure may wait before it is signalled as overdue (issue 14); empty: not sent. */
+  actionDueMin: string;
   levels: LevelRowDraft[];
 }
 
@@ -56,6 +58,7 @@ function toDraft(s: SiteView, unit: Parameters<typeof levelsToDraft>[1]): SiteDr
     sectorDeg: String(s.directionSectorHalfWidthDeg ?? 45),
     deadBandPct: String(Math.round(s.deadBandFraction * 1000) / 10),
     holdMin: String(Math.round((s.holdTimeMs / 60_000) * 10) / 10),
+    actionDueMin: s.actionDueMs === undefined ? '' : String(Math.round((s.actionDueMs / 60_000) * 10) / 10),
     levels: levelsToDraft(s.defaultLevels, unit),
   };
 }
@@ -86,6 +89,9 @@ function SiteSettingsReadOnly({ s, density, unit }: { s: SiteView; density: numb
     ],
     ['Dead band', `${Math.round(s.deadBandFraction * 1000) / 10} %`, 'A level is lowered only once the gust is this far below its trigger…'],
     ['Hold time', `${Math.round((s.holdTimeMs / 60_000) * 10) / 10} min`, '…and has stayed there this long. Raising is always at once.'],
+    ...(s.actionDueMs === undefined
+      ? []
+      : [['Time to mark an action done', `${Math.round((s.actionDueMs / 60_000) * 10) / 10} min`, 'A level’s action that moves a structure (“lower the screen”) not marked done this long after its alert is signalled again as overdue.'] as [string, string, string]]),
   ];
   return (
     <>
@@ -169,6 +175,7 @@ export function SiteSettings() {
     };
     const dead = n(d.deadBandPct, 'deadBandFraction');
     const hold = n(d.holdMin, 'holdTimeMs');
+    const due = d.actionDueMin.trim() === '' ? undefined : n(d.actionDueMin, 'actionDueMs');
     const body = {
       name: d.name.trim(),
       altitudeM: n(d.altitudeM, 'altitudeM'),
@@ -181,6 +188,7 @@ export function SiteSettings() {
       directionSectorHalfWidthDeg: n(d.sectorDeg, 'directionSectorHalfWidthDeg'),
       deadBandFraction: typeof dead === 'number' ? dead / 100 : dead,
       holdTimeMs: typeof hold === 'number' ? Math.round(hold * 60_000) : hold,
+      ...(due === undefined ? {} : { actionDueMs: typeof due === 'number' ? Math.round(due * 60_000) : due }),
       defaultLevels: draftLevels(d.levels, unit, local),
     };
     if (local.size > 0) {
@@ -276,6 +284,15 @@ export function SiteSettings() {
             </Field>
             <Field id="st-hold" label="Hold time" unit="min" error={e('holdTimeMs')} help="…and only after it has stayed there this long (0–360 min; default 15 min). Raising is always at once.">
               <input id="st-hold" inputMode="decimal" value={d.holdMin} onInput={(ev) => set({ holdMin: ev.currentTarget.value })} />
+            </Field>
+            <Field
+              id="st-due"
+              label="Time to mark an action done"
+              unit="min"
+              error={e('actionDueMs')}
+              help="A level’s action that moves a structure to another configuration (“lower the screen”) not marked done this long after its alert is signalled again as overdue, to everyone who can act (1–60 min; default 5 min)."
+            >
+              <input id="st-due" inputMode="decimal" value={d.actionDueMin} onInput={(ev) => set({ actionDueMin: ev.currentTarget.value })} />
             </Field>
           </div>
         </section>

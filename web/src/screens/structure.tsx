@@ -8,6 +8,8 @@ import type uPlot from 'uplot';
 import { api, errorText } from '../api.ts';
 import { DirectionsTable, ElementsList, Warnings } from '../components/assessmentSummary.tsx';
 import { Caution } from '../components/caution.tsx';
+import { ConfigurationLineView } from '../components/configurationLine.tsx';
+import { ConfigurationsSection } from '../components/configurationsTable.tsx';
 import { useNow } from '../components/clock.ts';
 import { LevelBadge } from '../components/levelBadge.tsx';
 import { LevelsTable } from '../components/levelsTable.tsx';
@@ -21,7 +23,7 @@ import { href } from '../router.ts';
 import { may, session } from '../session.ts';
 import { useTimeZone } from '../site.ts';
 import { useStore } from '../store.ts';
-import type { AlertRow, AssessAnswer, StructureLog, StructureState, StructureWithLive } from '../types.ts';
+import type { AlertActionFields, AlertRow, AssessAnswer, StructureLog, StructureState, StructureWithLive } from '../types.ts';
 import { dateTime, duration, mpsToSpeed, percent, quantity, speed, speedUnitLabels, type SpeedUnit } from '../units.ts';
 import { levelTone } from '../components/levelBadge.tsx';
 
@@ -145,6 +147,7 @@ export function StructurePage({ id }: { id: number }) {
           </p>
           <Warnings warnings={s.warnings} />
           <StructureFigures s={s} unit={unit} detailed />
+          <ConfigurationLineView s={s} unit={unit} timeZone={tz} />
           <p class="muted">
             {s.ratedGustMps !== null && s.calculatedUtilization !== null && s.utilization !== null && Math.abs(s.calculatedUtilization - s.utilization) > 0.005
               ? `Utilization ${percent(s.utilization)} of capacity is set by the rated gust (calculated ${percent(s.calculatedUtilization)}). `
@@ -165,6 +168,8 @@ export function StructurePage({ id }: { id: number }) {
         <p class="unknown-box">No live state for this structure: its wind is unknown.</p>
       )}
       <Caution />
+
+      {s ? <ConfigurationsSection s={s} unit={unit} timeZone={tz} canSwitch={may(who, 'competent-person')} /> : null}
 
       <section aria-labelledby="chart-h">
         <h2 id="chart-h">Gust and utilization</h2>
@@ -226,6 +231,7 @@ export function StructurePage({ id }: { id: number }) {
               <span class="t-ack">
                 {a.acknowledgedAtMs !== null ? `✓ ${a.acknowledgedBy}, ${dateTime(a.acknowledgedAtMs, tz)}${a.acknowledgeNote ? `: “${a.acknowledgeNote}”` : ''}` : <strong class="bad-text">not acknowledged</strong>}
               </span>
+              <ActionHistory a={a} tz={tz} />
             </li>
           ))}
         </ul>
@@ -303,5 +309,31 @@ function HowCalculated({ id, s, unit }: { id: number; s: StructureState; unit: S
         </>
       ) : null}
     </section>
+  );
+}
+
+/**
+ * A level alert's plan action in the history (issue 14): who marked it done and when, or that it
+ * was not done (and overdue when it was signalled so). Nothing when the row has no action.
+ */
+function ActionHistory({ a, tz }: { a: AlertRow; tz: string }) {
+  const f = a as AlertRow & AlertActionFields;
+  if (typeof f.moveToConfiguration !== 'string' || f.moveToConfiguration === '') return null;
+  if (typeof f.actionDoneAtMs === 'number') {
+    return (
+      <span class="t-action" data-testid="history-action-done">
+        ✓ Done: {f.moveToConfiguration}
+        {f.actionDoneBy ? ` by ${f.actionDoneBy}` : ''}, {dateTime(f.actionDoneAtMs, tz)}
+        {typeof f.overdueAtMs === 'number' ? ` (late: signalled overdue ${dateTime(f.overdueAtMs, tz)})` : ''}
+      </span>
+    );
+  }
+  return (
+    <span class="t-action">
+      <strong class="bad-text">
+        Not marked done: {f.moveToConfiguration}
+        {typeof f.overdueAtMs === 'number' ? ` (signalled overdue ${dateTime(f.overdueAtMs, tz)})` : ''}
+      </strong>
+    </span>
   );
 }

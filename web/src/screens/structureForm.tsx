@@ -18,6 +18,7 @@ import { useEffect, useMemo, useRef, useState } from 'preact/hooks';
 import { api, ApiError, errorText } from '../api.ts';
 import { Caution } from '../components/caution.tsx';
 import { described, Field } from '../components/field.tsx';
+import { ConfigurationsEditor } from '../components/configurationsEditor.tsx';
 import { LevelsEditor } from '../components/levelsEditor.tsx';
 import { DirectionsTable, ElementsList, Warnings } from '../components/assessmentSummary.tsx';
 import { PlanView } from '../components/planView.tsx';
@@ -86,7 +87,11 @@ export function StructureForm({ id }: { id: number | null }) {
     const found = new Map<string, string>();
     if (!draft) return { record: null, local: found, levelsForAssess: [] as unknown[] };
     const built = draftRecord(draft, unit, found);
-    const levels = draft.ownLevels ? draftLevels(draft.levels, unit, found) : siteLevels;
+    // The calculator takes the triggers only: which configuration a level moves to is the register's.
+    const levels = (draft.ownLevels ? draftLevels(draft.levels, unit, found) : siteLevels).map((l) => {
+      const { moveToConfiguration: _moveTo, ...trigger } = l as Record<string, unknown>;
+      return trigger;
+    });
     const orientation = orientationProblem(draft.orientationDeg);
     if (orientation) found.set('orientationDeg', orientation);
     return { record: built, local: found, levelsForAssess: levels };
@@ -131,6 +136,27 @@ export function StructureForm({ id }: { id: number | null }) {
             for (const i of err.issues) {
               const path = i.path.startsWith('structure.') ? i.path.slice('structure.'.length) : i.path;
               m.set(path, m.has(path) ? `${m.get(path)}; ${plainMessage(i.message)}` : plainMessage(i.message));
+            }
+            // Only a configuration is wrong: the record as registered is still calculated (its
+            // figures stay in view while a configuration is being typed), the complaints shown.
+            const onlyConfigurations = err.issues.length > 0 && err.issues.every((i) => /^structure\.configurations(\.|$)/.test(i.path));
+            if (onlyConfigurations && 'configurations' in structure) {
+              const { configurations: _configurations, ...bare } = structure;
+              setPending(true);
+              api<AssessAnswer>('/api/assess', { body: { ...body, structure: bare }, signal: controller.signal })
+                .then((a) => {
+                  if (mine !== seq.current) return;
+                  setPending(false);
+                  setAnswer(a);
+                  setAssessIssues(new Map([...m, ...(a.levelOrderProblems?.map((p) => [p.path, p.message] as const) ?? [])]));
+                })
+                .catch((again) => {
+                  if (mine !== seq.current || (again instanceof DOMException && again.name === 'AbortError')) return;
+                  setPending(false);
+                  setAssessIssues(m);
+                  setAnswer(null);
+                });
+              return;
             }
             setAssessIssues(m);
             setAnswer(null);
@@ -343,8 +369,20 @@ export function StructureForm({ id }: { id: number | null }) {
 
           <section aria-labelledby="res-h">
             <h2 id="res-h">Ground, safety factors, rated gust</h2>
-            <div class="grid2">{commonFields.map(fieldInput)}</div>
+            <div class="grid2">{commonFields.filter((f) => f.path !== 'configurationName').map(fieldInput)}</div>
           </section>
+
+          <ConfigurationsEditor
+            draft={draft}
+            unit={unit}
+            answer={answer}
+            pending={pending}
+            registeredNameField={fieldInput(commonFields.find((f) => f.path === 'configurationName')!)}
+            errorFor={errorFor}
+            touch={touch}
+            onChange={(patch) => update(patch)}
+            readOnly={false}
+          />
 
           <section aria-labelledby="lv-h">
             <h2 id="lv-h">Levels and actions</h2>
@@ -360,7 +398,15 @@ export function StructureForm({ id }: { id: number | null }) {
               Use the site’s default levels
             </label>
             {draft.ownLevels ? (
-              <LevelsEditor idPrefix="sl" levels={draft.levels} unit={unit} errors={levelErrors} gustsText={levelGusts} onChange={(levels) => update({ levels })} />
+              <LevelsEditor
+                idPrefix="sl"
+                levels={draft.levels}
+                unit={unit}
+                errors={levelErrors}
+                gustsText={levelGusts}
+                configurations={draft.configurations.map((c) => c.name.trim()).filter((name) => name !== '')}
+                onChange={(levels) => update({ levels })}
+              />
             ) : (
               <ul class="plain-list">
                 {(answer?.levels ?? siteLevels.map((l, i) => ({ level: i + 1, label: l.label, triggerGustMps: null, trigger: l.trigger }))).map((l) => (
@@ -591,6 +637,14 @@ function CalcStrip(props: { answer: AssessAnswer | null; attention: IssueField[]
           <span class="cs-governs" data-testid="strip-governs">
             {answer.limitGovernedBy === 'rated' ? 'The rated gust governs' : `Governs: ${formWords(answer.governingText, props.kind)}`}
           </span>
+          {answer.configurations && answer.configurations.length > 1 ? (
+            <span class="cs-configs" data-testid="strip-configurations">
+              {answer.configurations
+                .slice(1)
+                .map((c) => `${c.name} ${c.limitGustMps === null ? 'no limit found' : speed(c.limitGustMps, unit)}`)
+                .join(' · ')}
+            </span>
+          ) : null}
           {attention.length > 0 ? <span class="cs-todo">{attention.length === 1 ? '1 field to put right before saving' : `${attention.length} fields to put right before saving`}</span> : null}
         </button>
       ) : first ? (
@@ -694,6 +748,30 @@ function Results(props: {
           )}
         </span>
       </div>
+      {answer.configurations && answer.configurations.length > 1 ? (
+        <table class="kv cfg-table" data-testid="calc-configurations">
+          <caption>Limit gust in each configuration (same check gust and air)</caption>
+          <tbody>
+            {answer.configurations.map((c, i) => (
+              <tr key={c.name}>
+                <th scope="row">
+                  {c.name}
+                  {i === 0 ? <span class="muted small"> (as registered)</span> : null}
+                </th>
+                <td>
+                  <strong class="nowrap">{c.limitGustMps === null ? 'no limit found' : speed(c.limitGustMps, unit)}</strong>
+                  {c.levels && c.levels.length > 0 ? (
+                    <span class="muted small">
+                      {' '}
+                      · levels {c.levels.map((l) => (l.triggerGustMps === null ? '—' : speed(l.triggerGustMps, unit))).join(' / ')}
+                    </span>
+                  ) : null}
+                </td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      ) : null}
       {/* On a desktop the panel shows one of these at a time, the side view first; on a phone all, one after the other. */}
       <div class="calc-tabs seg" role="tablist" aria-label="Calculated: the drawings or the numbers">
         {tabButton('side', 'Side view')}
