@@ -311,3 +311,101 @@ export const siteLinksTable = sqliteTable(
   },
   (t) => [uniqueIndex('site_links_token_unique').on(t.tokenHash)],
 );
+
+/**
+ * Alert notifications (design §4b, server/notify): webhooks added in the app (each with its own
+ * secret and filter), each person's e-mail address and filter, the escalation chain per level,
+ * the outbox of deliveries with every attempt, the escalation steps taken, and the acknowledge
+ * links already used (single use).
+ */
+export const notifyWebhooksTable = sqliteTable('notify_webhooks', {
+  id: integer().primaryKey({ autoIncrement: true }),
+  name: text().notNull(),
+  url: text().notNull(),
+  /** The HMAC-SHA256 key: shown once when made; kept to sign with. */
+  secret: text().notNull(),
+  /** `{"kind":"all"}` | `{"kind":"levels","atLeast":n}` | `{"kind":"structures","structureIds":[…]}`. */
+  filterJson: text('filter_json', { mode: 'json' }).notNull(),
+  enabled: integer({ mode: 'boolean' }).notNull().default(true),
+  createdBy: text('created_by').notNull(),
+  createdAtMs: integer('created_at_ms').notNull(),
+  updatedAtMs: integer('updated_at_ms').notNull(),
+});
+
+export const notifyPersonSettingsTable = sqliteTable('notify_person_settings', {
+  personId: integer('person_id').primaryKey(),
+  email: text(),
+  filterJson: text('filter_json', { mode: 'json' }).notNull(),
+  updatedAtMs: integer('updated_at_ms').notNull(),
+});
+
+/** The escalation chain of one level: steps `[{afterMinutes, personId?, role?}]`, minutes from the alert. */
+export const notifyEscalationTable = sqliteTable('notify_escalation', {
+  level: integer().primaryKey(),
+  stepsJson: text('steps_json', { mode: 'json' }).notNull(),
+  updatedBy: text('updated_by').notNull(),
+  updatedAtMs: integer('updated_at_ms').notNull(),
+});
+
+/** One message to one recipient: the same delivery id on every attempt. */
+export const notifyOutboxTable = sqliteTable(
+  'notify_outbox',
+  {
+    id: integer().primaryKey({ autoIncrement: true }),
+    deliveryId: text('delivery_id').notNull(),
+    /** 'webhook' | 'email' (one module per channel in server/notify/channels). */
+    channel: text().notNull(),
+    /** Who: 'webhook:env', 'webhook:<id>', 'person:<id>'. */
+    target: text().notNull(),
+    /** 'alert.raised' | … | 'test'. */
+    event: text().notNull(),
+    alertId: integer('alert_id'),
+    /** What the channel sends (the webhook body text, or the e-mail's parts), fixed when queued. */
+    payloadJson: text('payload_json', { mode: 'json' }).notNull(),
+    createdAtMs: integer('created_at_ms').notNull(),
+    /** 'pending' | 'delivered' | 'failed' (gave up after the last retry). */
+    status: text().notNull(),
+    attempts: integer().notNull().default(0),
+    nextAttemptAtMs: integer('next_attempt_at_ms').notNull(),
+    lastError: text('last_error'),
+    deliveredAtMs: integer('delivered_at_ms'),
+  },
+  (t) => [uniqueIndex('notify_outbox_delivery_unique').on(t.deliveryId), index('notify_outbox_status').on(t.status, t.nextAttemptAtMs)],
+);
+
+export const notifyAttemptsTable = sqliteTable(
+  'notify_attempts',
+  {
+    id: integer().primaryKey({ autoIncrement: true }),
+    outboxId: integer('outbox_id').notNull(),
+    atMs: integer('at_ms').notNull(),
+    durationMs: integer('duration_ms').notNull(),
+    ok: integer({ mode: 'boolean' }).notNull(),
+    /** "HTTP 200", "HTTP 500", "timed out after 10 s", "250 Accepted", "connect ECONNREFUSED …". */
+    result: text().notNull(),
+  },
+  (t) => [index('notify_attempts_outbox').on(t.outboxId)],
+);
+
+/** Each escalation step taken: an alert not acknowledged in time, sent on to the next person or role. */
+export const notifyEscalationsTable = sqliteTable(
+  'notify_escalations',
+  {
+    id: integer().primaryKey({ autoIncrement: true }),
+    alertId: integer('alert_id').notNull(),
+    step: integer().notNull(),
+    atMs: integer('at_ms').notNull(),
+    /** 'person:<id>' | 'role:<role>'. */
+    target: text().notNull(),
+    /** Who it reached, in words ("Ana (rigger) by e-mail", "nobody: no e-mail address set"). */
+    reached: text().notNull(),
+  },
+  (t) => [uniqueIndex('notify_escalations_alert_step').on(t.alertId, t.step), index('notify_escalations_at').on(t.atMs)],
+);
+
+/** Acknowledge links already used (single use), by their nonce. */
+export const notifyUsedTokensTable = sqliteTable('notify_used_tokens', {
+  nonce: text().primaryKey(),
+  alertId: integer('alert_id').notNull(),
+  usedAtMs: integer('used_at_ms').notNull(),
+});

@@ -28,6 +28,8 @@ import type { LevelDefinition } from './levels/index.ts';
 import { Watch, type InitialState, type OpenAlert, type SiteSettings, type SystemStatus } from './watch/watch.ts';
 import { apiRoutes, type ApiContext } from './http/routes/apiRoutes.ts';
 import { accessRoutes, siteLinkOpener } from './http/routes/accessRoutes.ts';
+import { acknowledgeLinkRoutes, notifyRoutes } from './http/routes/notifyRoutes.ts';
+import { Notifier, type NotifierOptions } from './notify/index.ts';
 
 export interface RunningServer {
   config: Config;
@@ -41,6 +43,8 @@ export interface RunningServer {
   queue: WriteQueue;
   hub: LiveHub;
   accounts: Accounts;
+  /** Alert notifications: webhooks, e-mail, the outbox (server/notify). */
+  notifier: Notifier;
   /** Reloads the register into the watch (after changes made outside the API). */
   reloadRegister(): void;
   /** Reloads the register and rebuilds levels and open alerts from the log (after writing to it directly). */
@@ -58,6 +62,8 @@ export interface StartOptions {
   staticRoot?: string | null;
   /** Runs before the HTTP server starts, with the register in place (the demo seeds here). */
   beforeListen?: (server: RunningServer) => Promise<void> | void;
+  /** The notifier's retry schedule, clock and timeouts (tests). */
+  notify?: NotifierOptions;
 }
 
 export function siteSettings(db: Db): SiteSettings {
@@ -239,6 +245,11 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
   const retentionTimer = setInterval(runRetention, 3_600_000);
   retentionTimer.unref();
 
+  // Fed by the live hub's alert events, which are published after their commit (design §5).
+  let publicBase = config.publicUrl ?? '';
+  const notifier = new Notifier({ db, config, hub, watch, queue, now, log, publicBase: () => publicBase }, options.notify);
+  notifier.start();
+
   const limiter = new SignInLimiter();
   // 30 failures in 15 minutes from one address: a crew behind one router, not a password list.
   const addressLimiter = new SignInLimiter({ maxFailures: 30, windowMs: 15 * 60_000 });
@@ -268,6 +279,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
       },
       ingest: { ...pipeline.counters, rejectedTotal: rejections.totalCount },
       liveStreamClients: hub.listenerCount,
+      notify: notifier.health(),
       atMs: now(),
     };
   };
@@ -295,6 +307,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     queue,
     hub,
     accounts,
+    notifier,
     reloadRegister,
     rebuildFromLog: () => watch.configure(siteSettings(db), registry.sensors(), activeStructures(db), initialState(db)),
     tickNow,
@@ -306,11 +319,13 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
   const app = createApp({
     health: { health },
     log,
-    access: { accounts, now, csrfExempt: new Set(['/api/session', '/api/setup', '/api/assess']) },
+    access: { accounts, now, csrfExempt: new Set(['/api/session', '/api/setup', '/api/assess', '/notify/ack']) },
     origin: { trustProxy: config.trustProxy, extraOrigins: config.publicUrl ? [new URL(config.publicUrl).origin] : [], exempt: new Set(['/api/assess']), otherBodyTypes: new Map([['/api/register/import', ['text/csv']]]) },
     routes: [
       { path: '/api', app: accessRoutes({ accounts, limiter, addressLimiter, now, trustProxy: config.trustProxy, proxyHops: config.proxyHops, publicUrl: config.publicUrl }) },
       { path: '/api', app: apiRoutes(ctx) },
+      { path: '/api', app: notifyRoutes({ db, notifier, now }) },
+      { path: '/notify', app: acknowledgeLinkRoutes({ db, notifier, now }) },
       { path: '/link', app: siteLinkOpener({ accounts, limiter, addressLimiter, now, trustProxy: config.trustProxy, proxyHops: config.proxyHops }) },
     ],
     staticRoot,
@@ -337,6 +352,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
   });
   const address = server.address();
   running.httpPort = address && typeof address === 'object' ? address.port : config.httpPort;
+  if (!config.publicUrl) publicBase = `http://${config.httpHost === '0.0.0.0' || config.httpHost === '::' ? 'localhost' : config.httpHost.includes(':') ? `[${config.httpHost}]` : config.httpHost}:${running.httpPort}`;
   log.info({ url: `http://${config.httpHost === '0.0.0.0' ? 'localhost' : config.httpHost}:${running.httpPort}/`, mqttPort: running.mqttPort, mqttUrl: external ? external.health().url : null, dataDir: config.dataDir }, 'server started');
 
   running.close = async () => {
@@ -351,6 +367,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     });
     await broker?.stop();
     await external?.stop();
+    await notifier.stop();
     queue.settle();
     queue.stop();
     rejections.flush();

@@ -32,6 +32,8 @@ export class LiveHub {
   private size = 0;
   private bytes = 0;
   private readonly listeners = new Set<LiveListener>();
+  /** Listeners inside the server (the notifier), not counted as stream clients. */
+  private readonly observers = new Set<LiveListener>();
 
   /**
    * @param capacity most events kept for replay
@@ -59,6 +61,7 @@ export class LiveHub {
     this.bytes += event.data.length;
     while (this.bytes > this.maxBytes && this.size > 1) this.dropOldest();
     for (const listener of this.listeners) listener(event);
+    for (const observer of this.observers) observer(event);
     return event;
   }
 
@@ -72,6 +75,12 @@ export class LiveHub {
   subscribe(listener: LiveListener): () => void {
     this.listeners.add(listener);
     return () => this.listeners.delete(listener);
+  }
+
+  /** Like `subscribe`, for a part of the server (not counted in `listenerCount`); the listener must only queue the event and return. */
+  observe(listener: LiveListener): () => void {
+    this.observers.add(listener);
+    return () => this.observers.delete(listener);
   }
 
   get listenerCount(): number {

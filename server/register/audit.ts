@@ -7,7 +7,7 @@ import type { Db, Tx } from '../storage/database.ts';
 
 export interface AuditEntry {
   actor: string;
-  entity: 'site' | 'sensor' | 'gateway' | 'structure' | 'alert' | 'person' | 'site-link' | 'register';
+  entity: 'site' | 'sensor' | 'gateway' | 'structure' | 'alert' | 'person' | 'site-link' | 'register' | 'notify';
   entityId: string | number;
   action: string;
   before?: unknown;

@@ -262,8 +262,16 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
     }
     const taking = beingAcknowledged.get(id);
     if (taking !== undefined) throw new HttpError(409, `alert ${id} is being acknowledged by ${taking} just now`);
-    const alert = ctx.watch.acknowledged(id, by, note, atMs)!;
-    const { stored } = await ctx.queue.enqueue({ ...emptyWriteBatch(), acknowledgements: [{ alertId: id, atMs, by, note, actor: principalName(principal) }] });
+    // Stored (or held while the disk refuses) before the stream and the notifications say so; while
+    // it is being stored, anybody else acknowledging it gets 409.
+    beingAcknowledged.set(id, by);
+    let stored = true;
+    try {
+      ({ stored } = await ctx.queue.enqueue({ ...emptyWriteBatch(), acknowledgements: [{ alertId: id, atMs, by, note, actor: principalName(principal) }] }));
+    } finally {
+      beingAcknowledged.delete(id);
+    }
+    const alert = ctx.watch.acknowledged(id, by, note, atMs);
     return c.json({ alert, stored });
   });
 

@@ -1,0 +1,329 @@
+/**
+ * Alert notifications (design §4b, issue 16): fed by the live hub's `alert` and `alert-update`
+ * events, which are published after their commit. A hub listener only queues the event in memory;
+ * on the next turn each event becomes outbox rows (one per recipient and channel) and the
+ * dispatcher sends them, each with its own timeout: nothing here runs on the reading's path, and
+ * no channel waits for another. The escalation chain is checked every few seconds.
+ */
+import { and, eq, isNull } from 'drizzle-orm';
+import { notifyEscalationTable, notifyEscalationsTable, notifyPersonSettingsTable, notifyWebhooksTable, peopleTable } from '../../db/schema.ts';
+import type { Config } from '../config.ts';
+import type { LiveHub } from '../live/liveHub.ts';
+import type { Logger } from '../log.ts';
+import { recordAudit } from '../register/audit.ts';
+import { getSite } from '../register/site.ts';
+import type { Db } from '../storage/database.ts';
+import { emptyWriteBatch } from '../storage/writeBatch.ts';
+import type { WriteQueue } from '../storage/writeQueue.ts';
+import type { OpenAlert, Watch } from '../watch/watch.ts';
+import { ackLinkLifetimeMs, ackSecret, checkAckToken, makeAckToken, type AckClaim } from './ackTokens.ts';
+import type { Channel } from './channels/channel.ts';
+import { EmailChannel } from './channels/email.ts';
+import { WebhookChannel, type WebhookEndpoint } from './channels/webhook.ts';
+import { Dispatcher } from './dispatcher.ts';
+import { alertEmail, testEmail } from './emailMessage.ts';
+import { dueSteps, escalationChainSchema, type EscalationStep } from './escalation.ts';
+import { AlertEventTracker, type HubAlert, type NotifyEvent, type NotifyEventName } from './events.ts';
+import { filterPasses, storedFilter } from './filter.ts';
+import { Outbox, type NewDelivery } from './outbox.ts';
+import { webhookAlert, webhookBodyText } from './webhookBody.ts';
+
+/** The events that ask somebody to do something go by e-mail; the informational ones go to webhooks only. */
+const emailEvents: ReadonlySet<NotifyEventName> = new Set(['alert.raised', 'alert.resignalled', 'alert.overdue', 'alert.escalated']);
+
+export interface NotifierOptions {
+  /** The dispatcher's clock and timers (real time by default). */
+  dispatchNow?: () => number;
+  retryDelaysMs?: readonly number[];
+  maxAttempts?: number;
+  webhookTimeoutMs?: number;
+  emailTimeoutMs?: number;
+  /** How often the escalation chain is checked, ms (default 5000). */
+  escalationCheckMs?: number;
+  /** More channels by name (a push channel is added here). */
+  extraChannels?: readonly Channel[];
+}
+
+export interface NotifierDeps {
+  db: Db;
+  config: Config;
+  hub: LiveHub;
+  watch: Watch;
+  queue: WriteQueue;
+  /** The server's clock (alert times). */
+  now: () => number;
+  log: Logger;
+  /** The address the acknowledge links start with (PUBLIC_URL, or the server's own). */
+  publicBase: () => string;
+}
+
+export type LinkAcknowledgement =
+  | { status: 200; alert: OpenAlert; by: string }
+  | { status: 400 | 403 | 404 | 409 | 410; message: string };
+
+export class Notifier {
+  readonly outbox: Outbox;
+  private readonly dispatcher: Dispatcher;
+  private readonly tracker = new AlertEventTracker();
+  private readonly waiting: NotifyEvent[] = [];
+  private processing = false;
+  private unsubscribe: (() => void) | null = null;
+  private escalationTimer: NodeJS.Timeout | null = null;
+  private readonly secret: Buffer;
+  private readonly email: EmailChannel | null;
+  private lastError: { atMs: number; target: string; channel: string; result: string } | null;
+  /** Escalation steps taken, per alert. */
+  private readonly taken = new Map<number, Set<number>>();
+
+  constructor(
+    private readonly deps: NotifierDeps,
+    private readonly options: NotifierOptions = {},
+  ) {
+    this.outbox = new Outbox(deps.db);
+    this.secret = ackSecret(deps.db, deps.now());
+    const { config } = deps;
+    const dispatchNow = options.dispatchNow ?? Date.now;
+    const channels = new Map<string, Channel>();
+    channels.set('webhook', new WebhookChannel((target) => this.webhookEndpoint(target), dispatchNow, options.webhookTimeoutMs));
+    this.email = config.smtpUrl && config.smtpFrom ? new EmailChannel(config.smtpUrl, config.smtpFrom, options.emailTimeoutMs) : null;
+    if (this.email) channels.set('email', this.email);
+    for (const c of options.extraChannels ?? []) channels.set(c.name, c);
+    this.lastError = this.outbox.lastFailure();
+    this.dispatcher = new Dispatcher({
+      outbox: this.outbox,
+      channels,
+      now: dispatchNow,
+      ...(options.retryDelaysMs ? { retryDelaysMs: options.retryDelaysMs } : {}),
+      ...(options.maxAttempts ? { maxAttempts: options.maxAttempts } : {}),
+      log: deps.log,
+      onAttempt: (row, result) => {
+        if (!result.ok) this.lastError = { atMs: dispatchNow(), target: row.target, channel: row.channel, result: result.result };
+      },
+    });
+  }
+
+  start(): void {
+    this.tracker.seed(this.deps.watch.openAlerts());
+    for (const r of this.deps.db.select({ alertId: notifyEscalationsTable.alertId, step: notifyEscalationsTable.step }).from(notifyEscalationsTable).all()) {
+      let set = this.taken.get(r.alertId);
+      if (!set) this.taken.set(r.alertId, (set = new Set()));
+      set.add(r.step);
+    }
+    this.unsubscribe = this.deps.hub.observe((event) => {
+      if (event.kind !== 'alert' && event.kind !== 'alert-update') return;
+      // The listener runs inside the publisher's turn: parse and queue in memory only.
+      try {
+        this.waiting.push(...this.tracker.take(event.kind, JSON.parse(event.data) as HubAlert));
+      } catch (err) {
+        this.deps.log.error({ err: String(err) }, 'notifications: an alert event could not be read');
+        return;
+      }
+      this.scheduleProcessing();
+    });
+    this.escalationTimer = setInterval(() => this.checkEscalations(), this.options.escalationCheckMs ?? 5_000);
+    this.escalationTimer.unref();
+    // Whatever was pending at the last stop is sent now.
+    this.dispatcher.kick();
+  }
+
+  private scheduleProcessing(): void {
+    if (this.processing) return;
+    this.processing = true;
+    setImmediate(() => {
+      this.processing = false;
+      const events = this.waiting.splice(0);
+      try {
+        const items = events.flatMap((e) => this.deliveriesFor(e));
+        this.outbox.add(items, this.deps.now());
+      } catch (err) {
+        this.lastError = { atMs: this.deps.now(), target: '*', channel: '*', result: `could not queue notifications: ${String(err)}` };
+        this.deps.log.error({ err: String(err), events: events.length }, 'notifications: could not write to the outbox; these alert events are not sent');
+      }
+      this.dispatcher.kick();
+    });
+  }
+
+  // ---------- recipients ----------
+
+  private webhookEndpoint(target: string): WebhookEndpoint | null {
+    const { config } = this.deps;
+    if (target === 'webhook:env') return config.alertWebhookUrl && config.alertWebhookSecret ? { url: config.alertWebhookUrl, secret: config.alertWebhookSecret } : null;
+    const id = Number(target.slice('webhook:'.length));
+    const row = this.deps.db.select().from(notifyWebhooksTable).where(eq(notifyWebhooksTable.id, id)).get();
+    return row && row.enabled ? { url: row.url, secret: row.secret } : null;
+  }
+
+  private webhookTargets(alert: OpenAlert): string[] {
+    const out: string[] = [];
+    if (this.deps.config.alertWebhookUrl && this.deps.config.alertWebhookSecret) out.push('webhook:env');
+    for (const w of this.deps.db.select().from(notifyWebhooksTable).where(eq(notifyWebhooksTable.enabled, true)).all()) {
+      if (filterPasses(storedFilter(w.filterJson), alert)) out.push(`webhook:${w.id}`);
+    }
+    return out;
+  }
+
+  private webhookDelivery(target: string, event: NotifyEventName, atMs: number, alert: OpenAlert, siteName: string): NewDelivery {
+    return { channel: 'webhook', target, event, alertId: alert.id, payload: (id) => ({ body: webhookBodyText({ id, event, atMs, site: { name: siteName }, alert: webhookAlert(alert) }) }) };
+  }
+
+  /** People who may get e-mail: enabled, with an address. */
+  private emailPeople(): Array<{ id: number; displayName: string; role: string; email: string; filter: unknown }> {
+    return this.deps.db
+      .select({ id: peopleTable.id, displayName: peopleTable.displayName, role: peopleTable.role, email: notifyPersonSettingsTable.email, filter: notifyPersonSettingsTable.filterJson })
+      .from(notifyPersonSettingsTable)
+      .innerJoin(peopleTable, eq(peopleTable.id, notifyPersonSettingsTable.personId))
+      .where(isNull(peopleTable.disabledAtMs))
+      .all()
+      .filter((p): p is typeof p & { email: string } => p.email !== null && p.email !== '');
+  }
+
+  private emailDelivery(person: { id: number; email: string }, event: NotifyEventName, atMs: number, alert: OpenAlert, site: { name: string; timeZone: string }): NewDelivery {
+    const needsAck = alert.acknowledgedAtMs === null && event !== 'alert.cleared';
+    const ackUrl = needsAck ? `${this.deps.publicBase()}/notify/ack?t=${makeAckToken(this.secret, { alertId: alert.id, personId: person.id, expiresAtMs: this.deps.now() + ackLinkLifetimeMs })}` : null;
+    const payload = alertEmail({ to: person.email, event, atMs, siteName: site.name, alert, ackUrl, timeZone: site.timeZone });
+    return { channel: 'email', target: `person:${person.id}`, event, alertId: alert.id, payload: () => payload };
+  }
+
+  private deliveriesFor(e: NotifyEvent): NewDelivery[] {
+    const site = getSite(this.deps.db);
+    const items = this.webhookTargets(e.alert).map((t) => this.webhookDelivery(t, e.event, e.atMs, e.alert, site.name));
+    if (this.email && emailEvents.has(e.event)) {
+      for (const p of this.emailPeople()) if (filterPasses(storedFilter(p.filter), e.alert)) items.push(this.emailDelivery(p, e.event, e.atMs, e.alert, site));
+    }
+    return items;
+  }
+
+  // ---------- escalation ----------
+
+  /** Takes every escalation step that is due (the 5-s timer calls it; tests may too). */
+  checkEscalations(): void {
+    try {
+      this.escalateDue(this.deps.now());
+    } catch (err) {
+      this.deps.log.error({ err: String(err) }, 'notifications: escalation check failed');
+    }
+  }
+
+  private escalateDue(nowMs: number): void {
+    const chains = new Map<number, EscalationStep[]>();
+    for (const row of this.deps.db.select().from(notifyEscalationTable).all()) {
+      const parsed = escalationChainSchema.safeParse({ level: row.level, steps: row.stepsJson });
+      if (parsed.success && parsed.data.steps.length > 0) chains.set(row.level, parsed.data.steps);
+    }
+    if (chains.size === 0) return;
+    const items: NewDelivery[] = [];
+    for (const alert of this.tracker.open.values()) {
+      if (alert.kind !== 'level' || alert.level === null || alert.acknowledgedAtMs !== null || alert.clearedAtMs !== null) continue;
+      const steps = chains.get(alert.level);
+      if (!steps) continue;
+      const taken = this.taken.get(alert.id) ?? new Set<number>();
+      this.taken.set(alert.id, taken);
+      for (const i of dueSteps(alert.raisedAtMs, steps, taken, nowMs)) {
+        taken.add(i);
+        items.push(...this.escalationStep(alert, i, steps[i]!, nowMs));
+      }
+    }
+    if (items.length > 0) {
+      this.outbox.add(items, nowMs);
+      this.dispatcher.kick();
+    }
+  }
+
+  private escalationStep(alert: OpenAlert, index: number, step: EscalationStep, nowMs: number): NewDelivery[] {
+    const site = getSite(this.deps.db);
+    const target = step.personId !== undefined ? `person:${step.personId}` : `role:${step.role}`;
+    const people = this.emailPeople().filter((p) => (step.personId !== undefined ? p.id === step.personId : p.role === step.role));
+    const items: NewDelivery[] = [];
+    if (this.email) for (const p of people) items.push(this.emailDelivery(p, 'alert.escalated', nowMs, alert, site));
+    const webhooks = this.webhookTargets(alert);
+    for (const t of webhooks) items.push(this.webhookDelivery(t, 'alert.escalated', nowMs, alert, site.name));
+    const reachedPeople = this.email ? people.map((p) => `${p.displayName} by e-mail`) : [];
+    const reached = [...reachedPeople, ...(webhooks.length > 0 ? [`${webhooks.length} webhook${webhooks.length === 1 ? '' : 's'}`] : [])];
+    const words = reached.length > 0 ? reached.join(', ') : this.email ? 'nobody: no e-mail address is set for this step' : 'nobody: e-mail is not set up (SMTP_URL) and there is no webhook';
+    this.deps.db.transaction((tx) => {
+      const inserted = tx.insert(notifyEscalationsTable).values({ alertId: alert.id, step: index, atMs: nowMs, target, reached: words }).onConflictDoNothing().run();
+      if (inserted.changes > 0) recordAudit(tx, { actor: 'system', entity: 'alert', entityId: alert.id, action: 'escalated', after: { step: index + 1, target, reached: words, level: alert.level, subject: alert.subject } }, nowMs);
+    });
+    this.deps.log.warn({ alertId: alert.id, step: index + 1, target, reached: words }, 'alert not acknowledged in time: escalated');
+    return items;
+  }
+
+  // ---------- acknowledge links ----------
+
+  /** Checks an acknowledge link; with `use`, acknowledges the alert and uses the link up. */
+  async acknowledgeByLink(token: string, use: boolean): Promise<LinkAcknowledgement | { status: 'confirm'; claim: AckClaim; alert: OpenAlert }> {
+    const nowMs = this.deps.now();
+    const check = checkAckToken(this.secret, token, nowMs);
+    if (!check.ok) {
+      if (check.reason === 'expired') return { status: 410, message: 'this acknowledge link has expired (links are valid for 2 hours): acknowledge in the app' };
+      return { status: check.reason === 'malformed' ? 400 : 403, message: 'this is not a valid acknowledge link' };
+    }
+    const { claim } = check;
+    const used = this.deps.db.$client.prepare('SELECT used_at_ms AS atMs FROM notify_used_tokens WHERE nonce = ?').get(claim.nonce) as { atMs: number } | undefined;
+    if (used) return { status: 410, message: `this acknowledge link was used at ${new Date(used.atMs).toISOString()}; each link works once` };
+    const person = this.deps.db.select().from(peopleTable).where(and(eq(peopleTable.id, claim.personId), isNull(peopleTable.disabledAtMs))).get();
+    if (!person) return { status: 403, message: 'the person this link was sent to can no longer sign in' };
+    const open = this.deps.watch.openAlert(claim.alertId);
+    if (!open) return { status: 409, message: `alert ${claim.alertId} is no longer open (acknowledged and ended)` };
+    if (open.acknowledgedAtMs !== null) return { status: 409, message: `alert ${claim.alertId} was acknowledged by ${open.acknowledgedBy ?? 'someone'} at ${new Date(open.acknowledgedAtMs).toISOString()}` };
+    if (!use) return { status: 'confirm', claim, alert: open };
+    const consumed = this.deps.db.$client.prepare('INSERT OR IGNORE INTO notify_used_tokens (nonce, alert_id, used_at_ms) VALUES (?, ?, ?)').run(claim.nonce, claim.alertId, nowMs);
+    if (consumed.changes === 0) return { status: 410, message: 'this acknowledge link was used just now; each link works once' };
+    const note = 'acknowledged from the e-mail link';
+    const alert = this.deps.watch.acknowledged(claim.alertId, person.displayName, note, nowMs)!;
+    await this.deps.queue.enqueue({ ...emptyWriteBatch(), acknowledgements: [{ alertId: claim.alertId, atMs: nowMs, by: person.displayName, note, actor: `${person.displayName} (${person.username}) by e-mail link` }] });
+    return { status: 200, alert, by: person.displayName };
+  }
+
+  // ---------- tests and visibility ----------
+
+  /** A test message to one person's e-mail address. */
+  testPerson(personId: number): { deliveryId: string } | { error: string } {
+    if (!this.email) return { error: 'e-mail is not set up on this server (SMTP_URL and SMTP_FROM)' };
+    const p = this.emailPeople().find((x) => x.id === personId);
+    if (!p) return { error: 'set your e-mail address first' };
+    const site = getSite(this.deps.db);
+    const payload = testEmail(p.email, site.name, p.displayName);
+    const [row] = this.outbox.add([{ channel: 'email', target: `person:${p.id}`, event: 'test', alertId: null, payload: () => payload }], this.deps.now());
+    this.dispatcher.kick();
+    return { deliveryId: row!.deliveryId };
+  }
+
+  /**
+   * A test message to one webhook: the contract's body with `"event": "test"` and an alert of
+   * kind "test" (id 0), so a receiver can tell it from a real alert.
+   */
+  testWebhook(target: string): { deliveryId: string } | { error: string } {
+    if (this.webhookEndpoint(target) === null) return { error: 'no such webhook, or it is switched off' };
+    const site = getSite(this.deps.db);
+    const atMs = this.deps.now();
+    const [row] = this.outbox.add([{ channel: 'webhook', target, event: 'test', alertId: null, payload: (id) => ({ body: webhookBodyText({ id, event: 'test', atMs, site: { name: site.name }, alert: { id: 0, kind: 'test', label: 'Test message' } }) }) }], atMs);
+    this.dispatcher.kick();
+    return { deliveryId: row!.deliveryId };
+  }
+
+  get emailConfigured(): boolean {
+    return this.email !== null;
+  }
+
+  get envWebhookUrl(): string | null {
+    return this.deps.config.alertWebhookUrl;
+  }
+
+  health(): { pending: number; failed: number; lastError: { atMs: number; target: string; channel: string; result: string } | null; email: boolean; webhooks: number } {
+    let counts = { pending: 0, failed: 0 };
+    try {
+      counts = this.outbox.counts();
+    } catch {
+      // The database cannot be read: the counts are unknown, the last error says why.
+    }
+    const webhooks = (this.deps.config.alertWebhookUrl ? 1 : 0) + (this.deps.db.$client.prepare('SELECT COUNT(*) AS n FROM notify_webhooks WHERE enabled = 1').get() as { n: number }).n;
+    return { ...counts, lastError: this.lastError, email: this.email !== null, webhooks };
+  }
+
+  async stop(): Promise<void> {
+    this.unsubscribe?.();
+    if (this.escalationTimer) clearInterval(this.escalationTimer);
+    await this.dispatcher.stop();
+  }
+}
