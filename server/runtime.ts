@@ -319,8 +319,8 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
   const app = createApp({
     health: { health },
     log,
-    access: { accounts, now, csrfExempt: new Set(['/api/session', '/api/setup', '/api/assess', '/notify/ack']) },
-    origin: { trustProxy: config.trustProxy, extraOrigins: config.publicUrl ? [new URL(config.publicUrl).origin] : [], exempt: new Set(['/api/assess']), otherBodyTypes: new Map([['/api/register/import', ['text/csv']]]) },
+    access: { accounts, now, csrfExempt: new Set(['/api/session', '/api/setup', '/api/assess', '/api/chance', '/notify/ack']) },
+    origin: { trustProxy: config.trustProxy, extraOrigins: config.publicUrl ? [new URL(config.publicUrl).origin] : [], exempt: new Set(['/api/assess', '/api/chance']), otherBodyTypes: new Map([['/api/register/import', ['text/csv']]]) },
     routes: [
       { path: '/api', app: accessRoutes({ accounts, limiter, addressLimiter, now, trustProxy: config.trustProxy, proxyHops: config.proxyHops, publicUrl: config.publicUrl }) },
       { path: '/api', app: apiRoutes(ctx) },

@@ -11,6 +11,7 @@ import { bodyLimit } from 'hono/body-limit';
 import { secureHeaders } from 'hono/secure-headers';
 import { HttpError } from './httpError.ts';
 import { assessRoute } from './assess.ts';
+import { chanceRoute } from './chance.ts';
 import { checkRequestOrigin, resolvePrincipal, type AccessOptions, type AppEnv, type OriginOptions } from './access.ts';
 import type { Logger } from '../log.ts';
 
@@ -70,6 +71,7 @@ export function createApp(services: AppServices): Hono<AppEnv> {
     return c.json(report, report.ok ? 200 : 503);
   });
   app.route('/api/assess', assessRoute);
+  app.route('/api/chance', chanceRoute);
   for (const group of services.routes ?? []) app.route(group.path, group.app);
 
   app.all('/api/*', (c) => c.json({ error: 'not found' }, 404));
