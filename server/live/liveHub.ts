@@ -4,7 +4,7 @@
  * it missed; one that was away too long gets a fresh snapshot instead. Dozens of phones cost
  * one JSON.stringify per event, not one per phone.
  */
-export type LiveEventKind = 'winds' | 'structure' | 'structures' | 'alert' | 'alert-update' | 'health' | 'register';
+export type LiveEventKind = 'winds' | 'structure' | 'structures' | 'foresight' | 'alert' | 'alert-update' | 'health' | 'register';
 
 export interface LiveEvent {
   id: number;

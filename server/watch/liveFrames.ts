@@ -12,12 +12,22 @@ import { roundTo, type FrameRow } from '../live/frames.ts';
 import type { SensorState, StructureUpdate } from './watch.ts';
 
 /**
- * Characters of rows per frame, so that one client receives at most about 10 kB/s (design §6,
+ * Characters of rows per frame, so that one client receives at most about 10 kB/s with the
+ * `foresight` frame below (design §6,
  * issue 13 item 8: 100 sensors and 1,000 structures). Sensor rows first, with their own share;
  * what they leave goes to structures.
  */
 export const windsFrameBudgetChars = 5_000;
-export const structuresFrameBudgetChars = 4_000;
+export const structuresFrameBudgetChars = 3_600;
+/**
+ * The `foresight` frame: a structure's estimates when what a screen shows of them changed (whole
+ * percent, 0.5 m/s, whole minutes), in their own small budget: they move with the 10-minute
+ * statistics, not with each gust, and must not crowd out the measured figures.
+ */
+export const foresightFrameBudgetChars = 1_000;
+export const foresightOverdueAfterMs = 60_000;
+export const foresightColumns = ['id', 'foresight', 'computedAtMs'] as const;
+export const foresightAgoColumns = ['computedAtMs'] as const;
 /** A row that has waited this long goes before every row that has not (so nothing goes stale). */
 export const windsOverdueAfterMs = 3_000;
 export const structuresOverdueAfterMs = 10_000;

@@ -58,7 +58,9 @@ import type { RegisteredSensor } from '../ingest/registry.ts';
 import type { LiveHub } from '../live/liveHub.ts';
 import type { AlertRow, WriteBatch } from '../storage/writeBatch.ts';
 import { batchRowCount, emptyWriteBatch } from '../storage/writeBatch.ts';
-import { acceptReading, clockOffsetAlertMs, clockOffsetClearMs, clockOffsetMs, createSensorWindState, noteArrival, sensorSilent, stuckSensors, windSnapshot, type SensorWindState } from '../wind/index.ts';
+import { summaryStatistics, windowStatistics, type WindStatistics } from '../foresight/index.ts';
+import { foresightCell, foresightIdentity, structureForesight, type StructureForesight } from './structureForesight.ts';
+import { acceptReading, threeSecondMeans, clockOffsetAlertMs, clockOffsetClearMs, clockOffsetMs, createSensorWindState, noteArrival, sensorSilent, stuckSensors, windSnapshot, type SensorWindState } from '../wind/index.ts';
 import type { FrameRow } from '../live/frames.ts';
 import { selectFrame } from '../live/frames.ts';
 import {
@@ -76,6 +78,10 @@ import {
   windsOverdueAfterMs,
   windUrgency,
   withAgo,
+  foresightAgoColumns,
+  foresightColumns,
+  foresightFrameBudgetChars,
+  foresightOverdueAfterMs,
 } from './liveFrames.ts';
 import { densityDependent, structureModel, type DensityDependent, type StructureModel, type StructureRow } from './structureModel.ts';
 
@@ -88,6 +94,9 @@ export const defaultActionDueMs = 5 * 60_000;
 export type ConfigurationSwitch =
   | { ok: true; batch: WriteBatch; announce: () => void; structure: StructureState; alert: OpenAlert | null }
   | { ok: false; status: 400 | 404 | 409; message: string; path?: string };
+
+/** How often the foresight figures are refreshed (they move with the 10-minute statistics, not each gust). */
+const foresightIntervalMs = 5_000;
 
 /** After start, a structure or sensor must have had this long to report before "no data" alerts. */
 const startGraceMs = 30_000;
@@ -137,6 +146,11 @@ interface SensorLive {
   /** The open alert for a clock offset beyond clockOffsetAlertMs; null when none. */
   clockAlertId: number | null;
   stuck: boolean;
+  /** U, σ and ν of the last 10 minutes (foresight), refreshed every few seconds by the tick; null before the first. */
+  statistics: WindStatistics | null;
+  /** The 10-minute mean once a minute over the last hour, for the trend (foresight/meanTrend.ts). */
+  meanAtMs: number[];
+  meanMps: number[];
 }
 
 interface StructureLive {
@@ -178,6 +192,10 @@ interface StructureLive {
   error: string | null;
   /** What the last announcement showed (to announce only changes). */
   shown: { level: number; noData: boolean; sensorKey: string | null; gustMps: number | null } | null;
+  /** The foresight figures (structureForesight.ts), refreshed every few seconds by the tick. */
+  foresight: StructureForesight | null;
+  foresightIdentity: string;
+  foresightAtMs: number;
 }
 
 /** The part of a structure's state that changes with the wind: the once-a-second `structures` event. */
@@ -276,6 +294,8 @@ export interface StructureState {
    * straight into the wind (the worst case; design.md 2.2), m/s; null when not mobile or unknown.
    */
   highestTravelSpeedMps: number | null;
+  /** Estimates of what comes (design §2.7): the chance of the next level and the limit, the expected peak, the time to the next level; null before the first figures. */
+  foresight: StructureForesight | null;
   /** The live configuration's name (design §2.5). */
   configuration: string;
   /** When and by whom it was switched to; null: as registered, never switched since the register was loaded. */
@@ -367,6 +387,9 @@ export class Watch implements ReadingConsumer {
   /** Each sensor's row as last sent in a `winds` frame (absolute times). */
   private readonly windsSent = new Map<string, string>();
   private lastSystemKey = '';
+  private lastForesightAtMs = -Infinity;
+  /** Structures whose foresight changed and is not yet in a `foresight` frame: id → since when. */
+  private readonly foresightWaiting = new Map<number, number>();
   /** Alert ids are given here (the alerts table never gets rows from anywhere else). */
   private nextAlertId = 1;
   private params!: LevelStepParams;
@@ -405,6 +428,9 @@ export class Watch implements ReadingConsumer {
         clockAlertId: old?.clockAlertId ?? null,
         implausibleAlertId: old?.implausibleAlertId ?? null,
         stuck: old?.stuck ?? false,
+        statistics: keepWind ? old.statistics : null,
+        meanAtMs: keepWind ? old.meanAtMs : [],
+        meanMps: keepWind ? old.meanMps : [],
       });
     }
     this.sensors = nextSensors;
@@ -459,6 +485,9 @@ export class Watch implements ReadingConsumer {
           noDataAlertId: old?.noDataAlertId ?? null,
           error: null,
           shown: null,
+          foresight: old?.foresight ?? null,
+          foresightIdentity: old?.foresightIdentity ?? '',
+          foresightAtMs: old?.foresightAtMs ?? 0,
         };
         // A changed ladder can leave the kept level above the levels that now exist.
         if (live.level.level > model.levels.length) live.level = { ...live.level, level: model.levels.length };
@@ -1050,11 +1079,92 @@ export class Watch implements ReadingConsumer {
       }
     }
 
+    if (nowMs - this.lastForesightAtMs >= foresightIntervalMs) {
+      this.lastForesightAtMs = nowMs;
+      this.updateForesight(nowMs);
+    }
     this.frames(nowMs, announcements);
 
     const empty = batchRowCount(batch) === 0;
     if (empty && announcements.length === 0) return null;
     return { batch, afterCommit: () => announcements.forEach((a) => a()) };
+  }
+
+  /** The `foresight` frame (liveFrames.ts): the structures whose estimates changed, within its budget. */
+  private foresightFrame(nowMs: number, announcements: Array<() => void>): void {
+    if (this.foresightWaiting.size === 0) return;
+    const rows = new Map<number, FrameRow>();
+    for (const [id, since] of this.foresightWaiting) {
+      const s = this.structures.get(id);
+      if (s === undefined) {
+        this.foresightWaiting.delete(id);
+        continue;
+      }
+      const f = s.level.noData || s.error !== null ? null : s.foresight;
+      const urgency = f === null || 'unknown' in f ? 0 : s.level.level * 10 + Math.max(f.limitChance30, f.nextChance30 ?? 0);
+      rows.set(id, { cells: withAgo([id, foresightCell(f), s.foresightAtMs], foresightColumns, foresightAgoColumns, nowMs), urgency, waitingSinceMs: since });
+    }
+    const frame = selectFrame(nowMs, foresightColumns, foresightAgoColumns, rows, foresightFrameBudgetChars, foresightOverdueAfterMs);
+    for (const id of frame.sent) this.foresightWaiting.delete(id);
+    if (frame.data !== null) {
+      const data = frame.data;
+      announcements.push(() => this.options.hub.publishText('foresight', data));
+    }
+  }
+
+  /**
+   * Every few seconds: each sensor's 10-minute statistics (U, σ, ν) and, once a minute, its
+   * 10-minute mean for the trend; then each structure's foresight from its governing sensor
+   * (structureForesight.ts), marked for the stream when what a screen shows of it changed.
+   */
+  private updateForesight(nowMs: number): void {
+    for (const live of this.sensors.values()) {
+      const snap = windSnapshot(live.wind, nowMs);
+      if (live.wind.newestMode === 'summary') {
+        live.statistics =
+          snap.mean10minMps !== null && snap.peakGust10minMps !== null && snap.mean10minMps <= 120 && snap.peakGust10minMps <= 120
+            ? summaryStatistics({ meanMps: snap.mean10minMps, gustMps: snap.peakGust10minMps })
+            : null;
+      } else if (live.wind.newestMode === 'raw') {
+        live.statistics = windowStatistics(threeSecondMeans(live.wind, nowMs), nowMs);
+      } else live.statistics = null;
+      const lastAt = live.meanAtMs.at(-1) ?? -Infinity;
+      if (snap.mean10minMps !== null && snap.mean10minMps <= 120 && nowMs - lastAt >= 60_000) {
+        live.meanAtMs.push(nowMs);
+        live.meanMps.push(snap.mean10minMps);
+        while (live.meanAtMs.length > 0 && live.meanAtMs[0]! < nowMs - 3_600_000) {
+          live.meanAtMs.shift();
+          live.meanMps.shift();
+        }
+      }
+    }
+    for (const s of this.structures.values()) {
+      let next: StructureForesight | null = null;
+      const sensor = s.governingSensorKey === null || s.level.noData || s.error !== null ? undefined : this.sensorsByKey.get(s.governingSensorKey);
+      if (sensor && sensor.statistics !== null) {
+        const snap = windSnapshot(sensor.wind, nowMs);
+        const current = this.currentDensity(s, s.windFromDeg);
+        next = structureForesight({
+          sensorKey: sensor.sensor.key,
+          statistics: sensor.statistics,
+          heightFactor: this.heightFactor(sensor, s),
+          means: { atMs: sensor.meanAtMs, meanMps: sensor.meanMps },
+          gustFactor: snap.mean10minMps !== null && snap.mean10minMps > 0.5 && snap.peakGust10minMps !== null ? Math.min(10, Math.max(1, snap.peakGust10minMps / snap.mean10minMps)) : null,
+          level: s.level.level,
+          levels: s.model.levels,
+          triggerGustsMps: current.triggerGustsMps,
+          limitGustMps: current.limitGustMps,
+          nowMs,
+        });
+      }
+      s.foresight = next;
+      s.foresightAtMs = nowMs;
+      const identity = foresightIdentity(next);
+      if (identity !== s.foresightIdentity) {
+        s.foresightIdentity = identity;
+        if (!this.foresightWaiting.has(s.model.id)) this.foresightWaiting.set(s.model.id, nowMs);
+      }
+    }
   }
 
   /**
@@ -1087,6 +1197,7 @@ export class Watch implements ReadingConsumer {
       announcements.push(() => this.options.hub.publishText('winds', data));
     }
 
+    this.foresightFrame(nowMs, announcements);
     if (this.dirtyStructures.size === 0) return;
     const directional = this.site.directionalEnabled;
     const columns = directional ? [...structureColumns, ...structureDirectionalColumns] : [...structureColumns];
@@ -1278,6 +1389,8 @@ export class Watch implements ReadingConsumer {
         m.mobile && s.gustMps !== null && !s.level.noData && Number.isFinite(s.density.limitGustMps)
           ? highestTravelSpeedMps({ limitGustMps: s.density.limitGustMps, gustMps: Math.min(s.gustMps, 120), windFromDeg: null, headingDeg: null }).speedMps
           : null,
+      // Only while the gust is known: an estimate never stands in for missing data.
+      foresight: s.level.noData || s.error !== null ? null : s.foresight,
       configuration: s.configurationNames[s.configurationIndex] ?? 'as registered',
       configurationSinceMs: s.configurationSinceMs,
       configurationBy: s.configurationBy,
@@ -1486,5 +1599,8 @@ function brokenStructure(row: StructureRow, err: unknown, nowMs: number, old: St
     noDataAlertId: old?.noDataAlertId ?? null,
     error: `stored record cannot be assessed: ${message}`,
     shown: null,
+    foresight: null,
+    foresightIdentity: '',
+    foresightAtMs: 0,
   };
 }

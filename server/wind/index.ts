@@ -41,3 +41,4 @@ export {
   type ImplausibleReason,
 } from './implausibility.ts';
 export { unitVectorMeanDeg, unitVectorMeanDegFromSums, compassDeg } from './unitVectorMeanDeg.ts';
+export { threeSecondMeans, type ThreeSecondMeans } from './threeSecondMeans.ts';

@@ -135,13 +135,15 @@ describe('the live stream on a site of 100 sensors and 1,000 structures', () => 
       }
       watch.tick()?.afterCommit();
     }
-    const frames = events.filter((e) => e.kind === 'winds' || e.kind === 'structures');
+    const frames = events.filter((e) => e.kind === 'winds' || e.kind === 'structures' || e.kind === 'foresight');
     // After the first minute (start-up: every row new), over the calm minute that follows.
     const steady = frames.filter((e) => Number(JSON.parse(e.data).atMs) > t0 + 30_000 && Number(JSON.parse(e.data).atMs) <= t0 + 90_000);
     const charsPerS = steady.reduce((n, e) => n + e.data.length + `id: ${e.id}\nevent: ${e.kind}\ndata: \n\n`.length, 0) / 60;
     expect(charsPerS).toBeLessThanOrEqual(10 * 1024);
     // Frames are full: the site's wind moves every structure's gust every second.
     expect(charsPerS).toBeGreaterThan(5 * 1024);
+    // The estimates (chance of the next level, expected peak) come too, in their own small frames.
+    expect(steady.some((e) => e.kind === 'foresight')).toBe(true);
 
     for (const e of frames.filter((f) => f.kind === 'structures')) {
       const frame = JSON.parse(e.data) as Frame;

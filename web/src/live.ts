@@ -9,6 +9,7 @@
  * nothing stale is allowed to look calm.
  */
 import { frameRecords, type Frame } from '../../server/live/frames.ts';
+import { foresightFromCell } from '../../server/watch/structureForesight.ts';
 import { api } from './api.ts';
 import { createStore } from './store.ts';
 import type { OpenAlert, SensorState, Snapshot, StructureState, WindLog } from './types.ts';
@@ -164,6 +165,15 @@ function handle(kind: string, data: string): void {
       });
       break;
     }
+    case 'foresight': {
+      // Every few seconds at most: the estimates of the structures whose figures changed.
+      const rows = frameRecords(payload as Frame);
+      withSnapshot((s) => {
+        const byId = new Map(rows.map((r) => [r.id as number, foresightFromCell(r.foresight)]));
+        return { ...s, structures: s.structures.map((x) => (byId.has(x.id) ? { ...x, foresight: byId.get(x.id)! } : x)) };
+      });
+      break;
+    }
     case 'register': {
       // A structure, sensor or site setting changed somewhere: take the register as it is now.
       void refreshSnapshot();
@@ -189,7 +199,7 @@ function handle(kind: string, data: string): void {
   }
 }
 
-const kinds = ['hello', 'snapshot', 'winds', 'structure', 'structures', 'register', 'alert', 'alert-update', 'ping', 'health'];
+const kinds = ['hello', 'snapshot', 'winds', 'structure', 'structures', 'foresight', 'register', 'alert', 'alert-update', 'ping', 'health'];
 
 function connect(): void {
   if (!running) return;

@@ -11,7 +11,10 @@
  * - `structure`: one structure's whole state when its level or data state changes (at once);
  * - `structures`: once a second, a frame of the same form with the wind-dependent part of the
  *   structures whose shown state moved (gust by ≥ 0.05 m/s, level, data state, governing sensor);
- *   both frames keep to a budget of characters (about 10 kB/s in all, server/watch/liveFrames.ts),
+ * - `foresight`: at most once a second, a frame of the same form with the estimates (chance of the
+ *   next level and of the limit within 10 and 30 min, expected peak, time to the next level, and
+ *   their inputs: server/watch/structureForesight.ts) of the structures whose shown figures changed;
+ *   the frames keep to a budget of characters (about 10 kB/s in all, server/watch/liveFrames.ts),
  *   the most urgent rows first, none waiting more than a few seconds longer than that;
  * - `register`: the register changed (a structure, sensor or site setting): fetch /api/live again;
  * - `health`: storage or broker state changed (`{storageOk, storageError, brokerOk, ...}`);

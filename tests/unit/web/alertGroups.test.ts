@@ -55,6 +55,7 @@ function structure(id: number, name: string, over: Partial<StructureState> = {})
     mobile: false,
     sensorKeys: null,
     highestTravelSpeedMps: null,
+    foresight: null,
     configuration: 'as registered',
     configurationSinceMs: null,
     configurationBy: null,

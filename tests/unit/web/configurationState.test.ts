@@ -25,7 +25,7 @@ function screen(over: Partial<StructureState> = {}): StructureState {
     utilization: 0.2, calculatedUtilization: 0.2, governing: 'overturning', governingDirectionDeg: 0, governingElement: null, governingText: null, margin: 0.8, unbounded: false,
     limitGustMps: 14.2, allDirectionsLimitGustMps: 14.2, calculatedLimitGustMps: 14.2, ratedGustMps: null, airDensityKgM3: 1.225, referenceHeightM: 8, triggerGustsMps: [8.5, 11.4, 12.7],
     levels: [], warnings: [], evaluatedAtMs: t0, error: null, mobile: false, sensorKeys: null, highestTravelSpeedMps: null,
-    configuration: 'Raised', configurationSinceMs: null, configurationBy: null,
+    configuration: 'Raised', configurationSinceMs: null, configurationBy: null, foresight: null,
     configurations: [
       { name: 'Raised', current: true, limitGustMps: 14.2, calculatedLimitGustMps: 14.2, triggerGustsMps: [8.5, 11.4, 12.7] },
       { name: 'lowered', current: false, limitGustMps: 23.8, calculatedLimitGustMps: 23.8, triggerGustsMps: [14.3, 19.1, 21.3] },
