@@ -4,6 +4,12 @@
  * windy day into the log by running the real watch over simulated readings in simulated time;
  * then simulated anemometers publish over MQTT through the demo gateway like real ones, with a
  * scripted windy spell a few minutes after start and again every 40 minutes.
+ *
+ * The plan's actions (design §2.5): on the past day and live, a simulated crew member marks each
+ * action that moves a structure ("Prepare: lower the LED screen") done through the watch, as the
+ * route does, a minute or two after its alert (demoCrew.ts), and the competent person puts the
+ * structure back once the wind has dropped. On the past day the first fence action comes late,
+ * so the log shows it signalled again as overdue before it was done.
  */
 import { eq } from 'drizzle-orm';
 import mqtt, { type MqttClient } from 'mqtt';
@@ -26,8 +32,11 @@ import { mpsToSpeed, type SpeedUnit } from '../engine/units.ts';
 import { demoAcknowledgeNotes, demoGatewayUsername, demoPeople, demoSensors, demoSiteName, demoStructures, demoTimeZone } from './demoSite.ts';
 import { seededRandom } from './random.ts';
 import { WindSimulator } from './windSimulator.ts';
+import { DemoCrew } from './demoCrew.ts';
 
 const seededKey = 'demo-seeded';
+/** The demo site's people on the past day: two crew, then the competent person. */
+const pastDayCrew = ['Sam Okoro (site crew)', 'Priya Nandakumar (stage manager)', 'Dana Whitlock (competent person)'] as const;
 const gatewayPasswordKey = 'demo-gateway-password';
 const actor = 'demo set-up';
 
@@ -110,6 +119,21 @@ function writePastDay(server: RunningServer, nowMs: number, seed: number, log: L
     ],
   });
   const byKey = new Map(sensors.map((s) => [s.key, s]));
+  const kinds = new Map(db.select({ id: structuresTable.id, kind: structuresTable.kind }).from(structuresTable).all().map((s) => [s.id, s.kind]));
+  // The crew act on the plan in simulated time, through the watch, as the live route does.
+  const crewRandom = seededRandom(seed + 2);
+  const demoCrew = new DemoCrew({
+    watch,
+    store: (batch) => queue.enqueue(batch),
+    random: crewRandom,
+    kindOf: (id) => kinds.get(id) ?? null,
+    crew: pastDayCrew.slice(0, 2),
+    competentPerson: pastDayCrew[2]!,
+    doneAfterMs: [50_000, 200_000],
+    actionDueMs: siteSettings(db).actionDueMs ?? 5 * 60_000,
+    lateKind: 'banner',
+    calmForMs: 20 * 60_000,
+  });
   const stepMs = 5_000;
   let pending = 0;
   for (simNow = window.fromMs; simNow < window.toMs; simNow += stepMs) {
@@ -121,6 +145,7 @@ function writePastDay(server: RunningServer, nowMs: number, seed: number, log: L
     }
     const tick = watch.tick();
     if (tick) void queue.enqueue(tick.batch);
+    demoCrew.step(simNow);
     if (++pending > 2_000) {
       queue.flush();
       pending = 0;
@@ -128,12 +153,13 @@ function writePastDay(server: RunningServer, nowMs: number, seed: number, log: L
   }
   queue.settle();
 
-  // The crew acknowledged every alert within a few minutes, with what they did to that structure.
+  // The crew acknowledged every other alert within a few minutes, with what they did to that
+  // structure (those whose action they marked done were acknowledged with it).
   const random = seededRandom(seed + 1);
-  const crew = ['Sam Okoro (site crew)', 'Priya Nandakumar (stage manager)', 'Dana Whitlock (competent person)'];
-  const kinds = new Map(db.select({ id: structuresTable.id, kind: structuresTable.kind }).from(structuresTable).all().map((s) => [s.id, s.kind]));
+  const crew = pastDayCrew;
   const alerts = db.select().from(alertsTable).all().filter((a) => a.raisedAtMs >= window.fromMs && a.raisedAtMs < window.toMs);
   for (const a of alerts) {
+    if (a.acknowledgedAtMs !== null) continue;
     const by = crew[Math.floor(random() * crew.length)]!;
     const options = demoAcknowledgeNotes(a.kind, a.structureId === null ? null : (kinds.get(a.structureId) ?? null), a.level);
     const note = options[Math.floor(random() * options.length)]!;
@@ -141,7 +167,7 @@ function writePastDay(server: RunningServer, nowMs: number, seed: number, log: L
     db.update(alertsTable).set({ acknowledgedAtMs: atMs, acknowledgedBy: by, acknowledgeNote: note }).where(eq(alertsTable.id, a.id)).run();
     recordAudit(db, { actor: by, entity: 'alert', entityId: a.id, action: 'acknowledge', after: { by, note } }, atMs);
   }
-  log.info({ day: yesterday, readings: queue.stats.committedReadings, alerts: alerts.length }, 'demo: past windy day written to the log');
+  log.info({ day: yesterday, readings: queue.stats.committedReadings, alerts: alerts.length, actionsDone: demoCrew.counts.done, late: demoCrew.counts.late, switchedBack: demoCrew.counts.back }, 'demo: past windy day written to the log');
 }
 
 function startSimulator(server: RunningServer, config: Config, password: string, log: Logger): { stop: () => Promise<void> } {
@@ -181,6 +207,41 @@ function startSimulator(server: RunningServer, config: Config, password: string,
   };
 }
 
+/**
+ * The live demo's crew: each action that moves a structure is marked done by the site crew about
+ * two minutes after its alert (time for a visitor to press Done first), through the watch as the
+ * route does; the competent person switches the structure back once the wind has stayed down.
+ */
+function startLiveCrew(server: RunningServer, seed: number, log: Logger): { stop: () => void } {
+  const kinds = new Map<number, string>();
+  const crew = new DemoCrew({
+    watch: server.watch,
+    store: (batch) => server.queue.enqueue(batch),
+    random: seededRandom(seed + 3),
+    kindOf: (id) => {
+      if (!kinds.has(id)) {
+        const row = server.db.select({ kind: structuresTable.kind }).from(structuresTable).where(eq(structuresTable.id, id)).get();
+        if (row) kinds.set(id, row.kind);
+      }
+      return kinds.get(id) ?? null;
+    },
+    crew: [demoPeople.find((p) => p.role === 'crew')!.displayName],
+    competentPerson: demoPeople.find((p) => p.role === 'competent-person')!.displayName,
+    doneAfterMs: [100_000, 160_000],
+    actionDueMs: getSite(server.db).actionDueMs,
+    lateKind: null,
+    calmForMs: 10 * 60_000,
+  });
+  const timer = setInterval(() => {
+    try {
+      crew.step(Date.now());
+    } catch (err) {
+      log.warn({ err: err instanceof Error ? err.message : String(err) }, 'demo crew: could not act');
+    }
+  }, 1_000);
+  return { stop: () => clearInterval(timer) };
+}
+
 export async function runDemo(config: Config, log: Logger): Promise<RunningServer> {
   const server = await startServer(config, log, {
     beforeListen: async (s) => {
@@ -197,12 +258,14 @@ export async function runDemo(config: Config, log: Logger): Promise<RunningServe
   const password = meta(server.db, gatewayPasswordKey);
   if (!password) throw new Error('demo gateway password missing: delete the data folder and start the demo again');
   const simulator = startSimulator(server, config, password, log);
+  const crew = startLiveCrew(server, config.demoSeed, log);
   log.warn(
     { signIns: demoPeople.map((p) => `${p.username} / ${p.password} (${p.role})`) },
     `DEMO ONLY — sign in at http://localhost:${server.httpPort}/ with these demo accounts. Never use them on a real site.`,
   );
   const close = server.close;
   server.close = async () => {
+    crew.stop();
     await simulator.stop();
     await close();
   };

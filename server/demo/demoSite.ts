@@ -3,6 +3,13 @@
  * two-day summer fair, with a food marquee, a mesh fence along the north boundary, a stage-side
  * LED screen, a bandstand shell and a sponsor's arch, three anemometers on site, and one
  * gateway. Demo only: none of these numbers describe a real structure.
+ *
+ * The wind action plan moves three structures to another configuration at Prepare, and at Stop
+ * and clear when the wind jumped past Prepare (design §2.5):
+ * the marquee takes all four side walls off ("sides off"), the fence loses its scrim ("scrim
+ * removed": the bare mesh panels stay), the LED screen comes down to its bottom stop ("lowered").
+ * Each configuration is the same record with the kind's own fields changed, assessed by the same
+ * engine; README "The demo" gives their limits and what governs.
  */
 import type { StructureInput } from '../register/structures.ts';
 import type { SensorInput } from '../register/sensors.ts';
@@ -42,6 +49,10 @@ export const demoStructures: StructureInput[] = [
       ballastPerLegKg: 1000,
       selfWeightKg: 1600,
       surface: 'grass',
+      configurationName: 'sides on',
+      // All four sides open: a canopy. Less wall area for the drag, more roof lift (EN 1991-1-4
+      // §7.3 canopy net lift): the engine weighs both (README "The demo").
+      configurations: [{ name: 'sides off', changes: { wallsClosed: false } }],
     },
     orientationDeg: 250,
     location: 'West lawn',
@@ -49,7 +60,22 @@ export const demoStructures: StructureInput[] = [
     lonDeg: null,
     mobile: false,
     sensorKeys: null,
-    levels: null,
+    levels: [
+      { label: 'Watch', trigger: { kind: 'utilization', fraction: 0.6 }, actionText: 'Walk round the marquee: leg weights, pegs, ratchet straps and guy lines tight. Tell the caterers the wind is rising.' },
+      {
+        label: 'Prepare',
+        trigger: { kind: 'utilization', fraction: 0.8 },
+        actionText:
+          'Take all four side walls off the marquee, the downwind side first and the side facing the wind last: one open side facing the wind with the others closed lifts the roof most. Brief the stewards on the exits.',
+        moveToConfiguration: 'sides off',
+      },
+      {
+        label: 'Stop and clear',
+        trigger: { kind: 'utilization', fraction: 1 },
+        actionText: 'Empty the marquee: caterers to the barn, tape off the lawn downwind of the marquee at least as deep as it is tall. If the side walls are still on and the crew can reach them from outside, take them off, downwind side first.',
+        moveToConfiguration: 'sides off',
+      },
+    ],
   },
   {
     record: {
@@ -64,6 +90,9 @@ export const demoStructures: StructureInput[] = [
       footDepthM: 1.4,
       selfWeightKg: 380,
       surface: 'grass',
+      configurationName: 'scrim on',
+      // The bare mesh panels without the scrim: solidity 0.2 (demo value for welded mesh panels, invented).
+      configurations: [{ name: 'scrim removed', changes: { solidity: 0.2 } }],
     },
     orientationDeg: 0,
     location: 'North boundary',
@@ -73,8 +102,18 @@ export const demoStructures: StructureInput[] = [
     sensorKeys: ['north-mast'],
     levels: [
       { label: 'Watch', trigger: { kind: 'utilization', fraction: 0.6 }, actionText: 'Walk the fence line: check feet, ballast and cable ties. Keep the gate crew informed.' },
-      { label: 'Prepare', trigger: { kind: 'utilization', fraction: 0.8 }, actionText: 'Unclip the scrim from every second bay so it can be dropped fast; keep the public back from the fence.' },
-      { label: 'Stop and clear', trigger: { kind: 'utilization', fraction: 1 }, actionText: 'Drop the scrim to the ground and roll it. Close the path along the north fence.' },
+      {
+        label: 'Prepare',
+        trigger: { kind: 'utilization', fraction: 0.8 },
+        actionText: 'Take the scrim off the fence: cut the ties bay by bay, drop it to the ground and roll it; the bare mesh panels stay. Keep the public back from the fence while you work.',
+        moveToConfiguration: 'scrim removed',
+      },
+      {
+        label: 'Stop and clear',
+        trigger: { kind: 'utilization', fraction: 1 },
+        actionText: 'Take the scrim off if it is still on. Close the path along the north fence and keep everyone a fence height clear of it.',
+        moveToConfiguration: 'scrim removed',
+      },
     ],
   },
   {
@@ -91,6 +130,9 @@ export const demoStructures: StructureInput[] = [
       ballastPerTowerKg: 1500,
       ratedGustMps: 20,
       surface: 'hard',
+      configurationName: 'raised',
+      // Down to its bottom stop: the board's foot 0.5 m above the trackway.
+      configurations: [{ name: 'lowered', changes: { bottomHeightM: 0.5 } }],
     },
     orientationDeg: 180,
     location: 'Stage left, on the trackway',
@@ -98,7 +140,21 @@ export const demoStructures: StructureInput[] = [
     lonDeg: null,
     mobile: false,
     sensorKeys: ['stage-roof', 'north-mast'],
-    levels: null,
+    levels: [
+      { label: 'Watch', trigger: { kind: 'utilization', fraction: 0.6 }, actionText: 'Check the tower ballast, the outrigger pads and the ties of the LED screen. Tell the stage manager the wind is rising.' },
+      {
+        label: 'Prepare',
+        trigger: { kind: 'utilization', fraction: 0.8 },
+        actionText: 'Lower the LED screen to its bottom stop (content off first). Keep the crew at the towers and nobody behind the screen.',
+        moveToConfiguration: 'lowered',
+      },
+      {
+        label: 'Stop and clear',
+        trigger: { kind: 'utilization', fraction: 1 },
+        actionText: 'Stop the show. Lower the LED screen to its bottom stop if it is not down yet; then nobody in front of or behind the towers: tape off a zone at least as deep as the screen is tall.',
+        moveToConfiguration: 'lowered',
+      },
+    ],
   },
   {
     record: {
@@ -158,17 +214,17 @@ export const demoStructures: StructureInput[] = [
 const demoNotesByKind: Readonly<Record<string, Readonly<Record<number, readonly string[]>>>> = {
   tent: {
     1: ['Walked round the marquee: leg weights, pegs and guy lines tight.', 'Checked the ratchet straps and leg ballast on the west side of the marquee, all tight.'],
-    2: ['All marquee walls and doors closed and laced, no open side to the wind; stewards briefed on the exits.', 'West doors of the marquee laced shut, caterers told where to go if we clear.'],
-    3: ['Marquee emptied, caterers moved to the barn, zone taped off downwind of the marquee.', 'Food hall cleared and closed, stewards holding the public back from the west lawn.'],
+    2: ['All four marquee side walls off and bagged, the downwind side first; stewards briefed on the exits.', 'Marquee walls taken off, the side facing the wind last; caterers told where to go if we clear.'],
+    3: ['Marquee emptied, caterers moved to the barn, side walls off from outside, zone taped off downwind of the marquee.', 'Food hall cleared and closed, marquee walls off, stewards holding the public back from the west lawn.'],
   },
   banner: {
     1: ['Walked the fence line: feet, ballast and cable ties fine.', 'Checked every foot block and clamp on the north fence, all in place.'],
-    2: ['Scrim unclipped on every second bay of the north fence, public kept back from the fence.', 'Cable ties cut on alternate bays, scrim ready to drop, gate crew told.'],
-    3: ['Scrim dropped to the ground and rolled, path along the north fence closed.', 'Fence scrim down and rolled, north path taped off.'],
+    2: ['Scrim cut free and rolled off the north fence, bare mesh panels left standing, public kept back.', 'Fence scrim off bay by bay and rolled, gate crew told.'],
+    3: ['Path along the north fence closed, everyone kept a fence height clear.', 'North fence path taped off, feet of the bare fence checked.'],
   },
   screen: {
     1: ['Checked the tower ballast and the outrigger pads of the LED screen, all in place.', 'Screen towers and ties checked, nothing moved.'],
-    2: ['LED screen lowered to its bottom stop, crew on standby at the towers.', 'Screen content off and the screen lowered, area in front of the stage cleared of kit.'],
+    2: ['LED screen lowered to its bottom stop, crew on standby at the towers.', 'Screen content off and the screen lowered to its bottom stop, nobody behind it.'],
     3: ['Show stopped, LED screen down, nobody in front of or behind the towers.', 'Screen down and the zone round the towers taped off, stage manager told.'],
   },
   shell: {
@@ -196,4 +252,34 @@ export function demoAcknowledgeNotes(alertKind: string, structureKind: string | 
     if (notes) return notes;
   }
   return demoSensorNotes[alertKind] ?? ['Checked and logged.'];
+}
+
+/**
+ * What the demo's people write about a configuration action, by the structure's kind: the late
+ * action seen and acknowledged, then done after its time; and the competent person's note when
+ * putting the structure back as registered after the wind has dropped. Invented for the demo.
+ */
+const demoConfigurationNotesByKind: Readonly<Record<string, { seenLate: string; doneLate: string; back: string }>> = {
+  tent: {
+    seenLate: 'Seen. Crew still at the marquee guy lines on the west side, walls come off next.',
+    doneLate: 'All four marquee side walls off at last: the crew were held at the guy lines first.',
+    back: 'Wind well down for twenty minutes: marquee side walls back on and laced.',
+  },
+  banner: {
+    seenLate: 'Seen. Crew on their way to the north fence with the knives, scrim comes off next.',
+    doneLate: 'Scrim off the north fence and rolled, late: the crew were held at the gate.',
+    back: 'Wind well down for twenty minutes: scrim refitted on the north fence.',
+  },
+  screen: {
+    seenLate: 'Seen. Waiting for the stage manager to cut the content before lowering the screen.',
+    doneLate: 'LED screen lowered to its bottom stop, late: the content had to be cut first.',
+    back: 'Wind well down for twenty minutes: LED screen raised again, towers checked.',
+  },
+};
+
+const demoConfigurationNotesOther = { seenLate: 'Seen, on our way.', doneLate: 'Done, late.', back: 'Wind well down for twenty minutes: put back as registered.' };
+
+/** The notes of the demo's configuration actions for a structure of this kind. */
+export function demoConfigurationNotes(structureKind: string | null): { seenLate: string; doneLate: string; back: string } {
+  return (structureKind === null ? undefined : demoConfigurationNotesByKind[structureKind]) ?? demoConfigurationNotesOther;
 }

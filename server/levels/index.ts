@@ -65,7 +65,11 @@ export { forecastSpeedUnits, beaufortTopMps, speedCell, type ForecastSpeedUnit, 
 export { dateOrders, type DateOrder } from './forecastDateTime.ts';
 export {
   predictLevels,
+  predictPlannedLevels,
   inlandGustFactor,
+  type ForecastConfiguration,
+  type ForecastPlannedStructure,
+  type PlannedPrediction,
   type ForecastInputRow,
   type ForecastPrediction,
   type ForecastStructure,

@@ -13,6 +13,15 @@
  * 1555. It is the highest of their 10-minute ratios (off-land 1.52, off-sea 1.38, at sea 1.23),
  * above ESDU's 1.448 for open terrain, so it errs towards a higher level. A row with neither
  * gives an unknown level (null), never calm.
+ *
+ * Configurations (design §2.5, §2.8): a structure may stand in several configurations (a screen
+ * raised or lowered), each with its own ladder and reference height, so its own height factor.
+ * `predictPlannedLevels` gives the level in every configuration, and the configuration the plan
+ * moves it to: the one named by the action (`moveToConfiguration`) of the highest level reached
+ * in the configuration it stands in now — the crew act on the highest level's action that moves
+ * the structure, and a lower level's when the highest has none (the screen stays lowered at
+ * Stop and clear). Where that configuration's own level has an action moving it on again, the plan
+ * follows it, never back to a configuration already passed.
  */
 import { assertTriggerGustsMps, justifiedLevel } from './justifiedLevel.ts';
 
@@ -110,4 +119,99 @@ export function predictLevels(
     });
     return { timeMs: row.timeMs, gustMps, gustSource, levels };
   });
+}
+
+/** One configuration of a structure in the forecast check: its own ladder and height factor. */
+export interface ForecastConfiguration {
+  readonly name: string;
+  /** Trigger gusts of levels 1..n in this configuration, at the structure, m/s, ascending. */
+  readonly triggerGustsMps: readonly number[];
+  /** Gust at the structure in this configuration ÷ gust at the forecast's height (> 0). */
+  readonly heightFactor: number;
+}
+
+/** A structure with its configurations and the plan's actions that move it between them. */
+export interface ForecastPlannedStructure {
+  readonly id: string;
+  /** Every configuration, as registered first (the same levels, each with its own ladder). */
+  readonly configurations: readonly ForecastConfiguration[];
+  /** Index of the configuration it stands in now. */
+  readonly currentIndex: number;
+  /** Per level 1..n, the index of the configuration its action moves the structure to, or null. */
+  readonly moveToIndex: ReadonlyArray<number | null>;
+}
+
+export interface PlannedPrediction {
+  readonly structureId: string;
+  /** The level in each configuration, in the order given. */
+  readonly inConfigurations: ReadonlyArray<{ readonly name: string; readonly gustAtStructureMps: number | null; readonly level: number | null }>;
+  readonly currentIndex: number;
+  /** The configuration the plan moves it to in this row; null when its actions move it nowhere (or the level is unknown). */
+  readonly plannedIndex: number | null;
+}
+
+/**
+ * For every row, each structure's level in every configuration and the configuration its plan
+ * moves it to (see the module comment). Throws a RangeError as `predictLevels` does for a row or
+ * a configuration, and for a `currentIndex` or `moveToIndex` entry that names no configuration or
+ * a `moveToIndex` not one entry per level.
+ *
+ * @example
+ * // A screen: raised ladder [10.7, 12.4, 13.9], lowered [12.1, 13.9, 15.6]; level 2 lowers it.
+ * predictPlannedLevels([{ timeMs, meanMps: null, gustMps: 13 }], [{ id: 's', currentIndex: 0, moveToIndex: [null, 1, null],
+ *   configurations: [{ name: 'raised', triggerGustsMps: [10.7, 12.4, 13.9], heightFactor: 1 }, { name: 'lowered', triggerGustsMps: [12.1, 13.9, 15.6], heightFactor: 1 }] }])
+ * // → [[{ structureId: 's', currentIndex: 0, plannedIndex: 1, inConfigurations: [{ name: 'raised', level: 2, … }, { name: 'lowered', level: 1, … }] }]]
+ */
+export function predictPlannedLevels(rows: readonly ForecastInputRow[], structures: readonly ForecastPlannedStructure[]): PlannedPrediction[][] {
+  const flat: ForecastStructure[] = [];
+  structures.forEach((structure, index) => {
+    const n = structure.configurations.length;
+    if (n < 1) throw new RangeError(`predictPlannedLevels: structures[${index}] (${structure.id}).configurations must hold at least the configuration as registered`);
+    if (!(Number.isInteger(structure.currentIndex) && structure.currentIndex >= 0 && structure.currentIndex < n)) {
+      throw new RangeError(`predictPlannedLevels: structures[${index}] (${structure.id}).currentIndex must be an index of its ${n} configurations, got ${structure.currentIndex}`);
+    }
+    const levels = structure.configurations[0]!.triggerGustsMps.length;
+    structure.configurations.forEach((configuration, c) => {
+      if (configuration.triggerGustsMps.length !== levels) {
+        throw new RangeError(`predictPlannedLevels: structures[${index}] (${structure.id}).configurations[${c}] has ${configuration.triggerGustsMps.length} trigger gusts, not one per level (${levels})`);
+      }
+      flat.push({ id: `${index}:${c}`, triggerGustsMps: configuration.triggerGustsMps, heightFactor: configuration.heightFactor });
+    });
+    if (structure.moveToIndex.length !== levels) {
+      throw new RangeError(`predictPlannedLevels: structures[${index}] (${structure.id}).moveToIndex must have one entry per level (${levels}), got ${structure.moveToIndex.length}`);
+    }
+    structure.moveToIndex.forEach((target, level) => {
+      if (target !== null && !(Number.isInteger(target) && target >= 0 && target < n)) {
+        throw new RangeError(`predictPlannedLevels: structures[${index}] (${structure.id}).moveToIndex[${level}] must be null or an index of its ${n} configurations, got ${target}`);
+      }
+    });
+  });
+  const predictions = predictLevels(rows, flat);
+  return predictions.map((prediction) => {
+    let at = 0;
+    return structures.map((structure): PlannedPrediction => {
+      const inConfigurations = structure.configurations.map((configuration) => {
+        const p = prediction.levels[at++]!;
+        return { name: configuration.name, gustAtStructureMps: p.gustAtStructureMps, level: p.level };
+      });
+      return { structureId: structure.id, inConfigurations, currentIndex: structure.currentIndex, plannedIndex: plannedConfigurationIndex(inConfigurations, structure.currentIndex, structure.moveToIndex) };
+    });
+  });
+}
+
+/** The configuration the plan's actions take a structure to from `currentIndex`, or null when they take it nowhere. */
+function plannedConfigurationIndex(inConfigurations: ReadonlyArray<{ level: number | null }>, currentIndex: number, moveToIndex: ReadonlyArray<number | null>): number | null {
+  const passed = new Set<number>([currentIndex]);
+  let at = currentIndex;
+  for (;;) {
+    const level = inConfigurations[at]!.level;
+    // Unknown wind: the plan cannot be judged (and the level shows unknown, never calm).
+    if (level === null) return null;
+    let target: number | null = null;
+    for (let l = level; l >= 1 && target === null; l--) target = moveToIndex[l - 1] ?? null;
+    if (target === null || passed.has(target)) break;
+    passed.add(target);
+    at = target;
+  }
+  return at === currentIndex ? null : at;
 }

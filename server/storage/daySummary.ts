@@ -15,6 +15,8 @@
  */
 import { and, asc, desc, eq, gte, inArray, lt } from 'drizzle-orm';
 import { alertsTable, auditTable, levelChangesTable, sensorsTable, structuresTable } from '../../db/schema.ts';
+import { registeredConfigurationName, type StructureRecord } from '../engine/index.ts';
+import { ConfigurationHistory, configurationChangesInWindow, type ConfigurationChangeEntry } from './configurationLog.ts';
 import type { Db } from './database.ts';
 import { utilizationE4Unbounded } from './writeQueue.ts';
 
@@ -117,7 +119,34 @@ export interface StructureDay {
   /** Milliseconds within the window without live data. */
   msNoData: number;
   minutesWithData: number;
-  alerts: Array<{ id: number; kind: string; level: number | null; label: string; raisedAtMs: number; gustMps: number | null; acknowledgedAtMs: number | null; acknowledgedBy: string | null; acknowledgeNote: string | null; clearedAtMs: number | null }>;
+  alerts: Array<{
+    id: number;
+    kind: string;
+    level: number | null;
+    label: string;
+    raisedAtMs: number;
+    gustMps: number | null;
+    acknowledgedAtMs: number | null;
+    acknowledgedBy: string | null;
+    acknowledgeNote: string | null;
+    clearedAtMs: number | null;
+    /** The configuration the level's action moves the structure to (design §2.5); null: the action moves nothing. */
+    moveToConfiguration: string | null;
+    /** When and by whom the action was marked done; null: not marked done. */
+    actionDoneAtMs: number | null;
+    actionDoneBy: string | null;
+    /** When it was signalled again as not done in time; null: it was not. */
+    overdueAtMs: number | null;
+    /**
+     * The action was late: signalled as overdue, or marked done more than the site's action time
+     * after the alert; null when the alert has no such action.
+     */
+    actionLate: boolean | null;
+  }>;
+  /** The configuration it stood in at the start of the window (the log's last switch before it, else the one as registered). */
+  configurationAtStart: string;
+  /** Every switch of its configuration in the window: the crew's "Done" on an alert's action, or by hand. */
+  configurationChanges: Array<Omit<ConfigurationChangeEntry, 'structureId' | 'structureName'>>;
 }
 
 export interface SensorDay {
@@ -139,6 +168,13 @@ export interface DaySummary {
   sensors: SensorDay[];
   alertCount: number;
   unacknowledgedCount: number;
+  /** Level alerts whose action moves a structure to another configuration (design §2.5), and of those: marked done, late, not marked done. */
+  actionCount: number;
+  actionsDoneCount: number;
+  actionsLateCount: number;
+  actionsNotDoneCount: number;
+  /** The site's action time now, ms: an action marked done later than this after its alert counts as late. */
+  actionDueMs: number;
 }
 
 /**
@@ -160,6 +196,12 @@ export function daySummary(db: Db, fromMs: number, toMs: number, nowMs: number):
   const loggedIn = sqlite.prepare(
     'SELECT EXISTS (SELECT 1 FROM structure_minutes WHERE structure_id = @id AND minute_ms >= @from AND minute_ms < @to) OR EXISTS (SELECT 1 FROM level_changes WHERE structure_id = @id AND at_ms >= @from AND at_ms < @to) AS any',
   );
+
+  const actionDueMs = (sqlite.prepare('SELECT action_due_ms AS ms FROM sites ORDER BY id LIMIT 1').get() as { ms: number } | undefined)?.ms ?? 5 * 60_000;
+  const switches = configurationChangesInWindow(db, fromMs, toMs);
+  const history = new ConfigurationHistory(db, fromMs);
+  const lateAction = (a: { moveToConfiguration: string | null; raisedAtMs: number; actionDoneAtMs: number | null; overdueAtMs: number | null }): boolean | null =>
+    a.moveToConfiguration === null ? null : a.overdueAtMs !== null || (a.actionDoneAtMs !== null && a.actionDoneAtMs - a.raisedAtMs > actionDueMs);
 
   const out: StructureDay[] = [];
   for (const s of structures) {
@@ -233,7 +275,14 @@ export function daySummary(db: Db, fromMs: number, toMs: number, nowMs: number):
         acknowledgedBy: a.acknowledgedBy,
         acknowledgeNote: a.acknowledgeNote,
         clearedAtMs: a.clearedAtMs,
+        moveToConfiguration: a.moveToConfiguration,
+        actionDoneAtMs: a.actionDoneAtMs,
+        actionDoneBy: a.actionDoneBy,
+        overdueAtMs: a.overdueAtMs,
+        actionLate: lateAction(a),
       })),
+      configurationAtStart: history.at(s.id, fromMs - 1) ?? registeredName(s.recordJson),
+      configurationChanges: switches.filter((c) => c.structureId === s.id).map(({ structureId: _id, structureName: _name, ...c }) => c),
     });
   }
 
@@ -255,6 +304,7 @@ export function daySummary(db: Db, fromMs: number, toMs: number, nowMs: number):
     };
   });
 
+  const withAction = alerts.filter((a) => a.kind === 'level' && a.moveToConfiguration !== null);
   return {
     fromMs,
     toMs,
@@ -262,5 +312,15 @@ export function daySummary(db: Db, fromMs: number, toMs: number, nowMs: number):
     sensors,
     alertCount: alerts.length,
     unacknowledgedCount: alerts.filter((a) => a.acknowledgedAtMs === null).length,
+    actionCount: withAction.length,
+    actionsDoneCount: withAction.filter((a) => a.actionDoneAtMs !== null).length,
+    actionsLateCount: withAction.filter((a) => lateAction(a) === true).length,
+    actionsNotDoneCount: withAction.filter((a) => a.actionDoneAtMs === null).length,
+    actionDueMs,
   };
+}
+
+/** The name of a record's configuration as registered; "as registered" when the stored record is not one (it cannot be assessed either). */
+function registeredName(recordJson: unknown): string {
+  return recordJson !== null && typeof recordJson === 'object' ? registeredConfigurationName(recordJson as StructureRecord) : registeredConfigurationName({});
 }

@@ -294,8 +294,10 @@ describe('CSV exports (GET /api/export/<table>.csv)', () => {
     readings: 'sensor,time_local,time_utc,speed_mps,gust_mps,dir_from_deg,temp_c,pressure_hpa,rh_pct,late',
     'wind-minutes': 'sensor,minute_local,minute_utc,samples,mean_mps,max_gust_mps,mean_dir_from_deg',
     'structure-minutes': 'structure,minute_local,minute_utc,max_gust_mps,max_utilization_pct,min_margin_pct,max_level',
-    'level-changes': 'structure,time_local,time_utc,event,from_level,to_level,gust_mps,utilization_pct,margin_pct',
-    alerts: 'id,kind,structure,sensor,level,label,raised_local,raised_utc,gust_mps,utilization_pct,acknowledged_local,acknowledged_utc,acknowledged_by,note,cleared_local,cleared_utc,action',
+    // Issue 14 added columns at the end (README "CSV exports"): the configuration a level change was assessed in, and each alert's plan action.
+    'level-changes': 'structure,time_local,time_utc,event,from_level,to_level,gust_mps,utilization_pct,margin_pct,configuration',
+    alerts:
+      'id,kind,structure,sensor,level,label,raised_local,raised_utc,gust_mps,utilization_pct,acknowledged_local,acknowledged_utc,acknowledged_by,note,cleared_local,cleared_utc,action,move_to_configuration,action_done_local,action_done_utc,action_done_by,overdue_local,overdue_utc,action_late',
     audit: 'time_local,time_utc,who,what,id,action,before,after',
   };
   /** Each local-time column and its UTC twin. */
@@ -308,6 +310,8 @@ describe('CSV exports (GET /api/export/<table>.csv)', () => {
       ['raised_local', 'raised_utc'],
       ['acknowledged_local', 'acknowledged_utc'],
       ['cleared_local', 'cleared_utc'],
+      ['action_done_local', 'action_done_utc'],
+      ['overdue_local', 'overdue_utc'],
     ],
     audit: [['time_local', 'time_utc']],
   };

@@ -10,14 +10,16 @@ import { Hono, type MiddlewareHandler } from 'hono';
 import { and, asc, eq, gte, lt } from 'drizzle-orm';
 import { z } from 'zod';
 import { alertsTable, auditTable, levelChangesTable, sensorsTable, structuresTable } from '../../../db/schema.ts';
-import { gustHeightFactor, type TerrainCategory } from '../../engine/index.ts';
-import { dateOrders, parseForecastTable, predictLevels, forecastSpeedUnits } from '../../levels/index.ts';
-import { triggerLadderMps } from '../../watch/structureModel.ts';
+import { gustHeightFactor, recordConfigurations, registeredConfigurationName, type StructureRecord, type TerrainCategory } from '../../engine/index.ts';
+import { dateOrders, parseForecastTable, predictLevels, predictPlannedLevels, forecastSpeedUnits, type ForecastPlannedStructure, type LevelDefinition } from '../../levels/index.ts';
+import { densityDependent, structureModel, triggerLadderMps } from '../../watch/structureModel.ts';
+import type { StructureState } from '../../watch/watch.ts';
 import { toCsv } from '../../register/csv.ts';
 import { getSite } from '../../register/site.ts';
 import { getSensor } from '../../register/sensors.ts';
 import { getStructureRow } from '../../register/structures.ts';
 import { daySummary, sensorsInWindow } from '../../storage/daySummary.ts';
+import { ConfigurationHistory, configurationChangesInWindow, overdueSignalsInWindow } from '../../storage/configurationLog.ts';
 import { LogQueries } from '../../storage/logQueries.ts';
 import { utilizationE4Unbounded } from '../../storage/writeQueue.ts';
 import { requireRole, type AppEnv } from '../access.ts';
@@ -82,7 +84,14 @@ const forecastSchema = z.strictObject({
     .default(10),
 });
 
-export const csvTables = ['readings', 'wind-minutes', 'structure-minutes', 'level-changes', 'alerts', 'audit'] as const;
+export const csvTables = ['readings', 'wind-minutes', 'structure-minutes', 'level-changes', 'alerts', 'audit', 'configuration-changes'] as const;
+
+/** An optional `structure` query parameter: a structure id, or undefined. */
+function structureParam(raw: string | undefined): number | undefined {
+  if (raw === undefined) return undefined;
+  if (!/^[1-9][0-9]{0,14}$/.test(raw)) throw HttpError.invalid([{ path: 'structure', message: 'must be a structure id (a positive whole number)' }]);
+  return Number(raw);
+}
 
 export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
   const api = new Hono<AppEnv>();
@@ -131,17 +140,32 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
       .where(and(eq(alertsTable.structureId, id), gte(alertsTable.raisedAtMs, fromMs), lt(alertsTable.raisedAtMs, toMs)))
       .orderBy(asc(alertsTable.raisedAtMs))
       .all();
-    return c.json({ fromMs, toMs, structure: { id: row.id, name: row.name, kind: row.kind }, live: ctx.watch.structureStateById(id), series: queries.structureSeries(id, fromMs, toMs, points), levelChanges: changes, alerts });
+    return c.json({
+      fromMs,
+      toMs,
+      structure: { id: row.id, name: row.name, kind: row.kind },
+      live: ctx.watch.structureStateById(id),
+      series: queries.structureSeries(id, fromMs, toMs, points),
+      levelChanges: changes,
+      alerts,
+      configurationChanges: configurationChangesInWindow(ctx.db, fromMs, toMs, id),
+      overdueSignals: overdueSignalsInWindow(ctx.db, fromMs, toMs, id),
+    });
+  });
+
+  // The plan's actions (design §2.5): configuration switches ("Done" on an alert, or by hand) and
+  // actions signalled again as overdue, by the time they happened.
+  api.get('/log/configurations', viewer, (c) => {
+    const { fromMs, toMs } = win(c);
+    const structure = structureParam(c.req.query('structure'));
+    return c.json({ fromMs, toMs, configurationChanges: configurationChangesInWindow(ctx.db, fromMs, toMs, structure), overdueSignals: overdueSignalsInWindow(ctx.db, fromMs, toMs, structure) });
   });
 
   api.get('/log/levels', viewer, (c) => {
     const { fromMs, toMs } = win(c);
-    const structure = c.req.query('structure');
+    const structure = structureParam(c.req.query('structure'));
     const conditions = [gte(levelChangesTable.atMs, fromMs), lt(levelChangesTable.atMs, toMs)];
-    if (structure !== undefined) {
-      if (!/^[1-9][0-9]{0,14}$/.test(structure)) throw HttpError.invalid([{ path: 'structure', message: 'must be a structure id (a positive whole number)' }]);
-      conditions.push(eq(levelChangesTable.structureId, Number(structure)));
-    }
+    if (structure !== undefined) conditions.push(eq(levelChangesTable.structureId, structure));
     const names = new Map(ctx.db.select({ id: structuresTable.id, name: structuresTable.name }).from(structuresTable).all().map((s) => [s.id, s.name]));
     const rows = ctx.db.select().from(levelChangesTable).where(and(...conditions)).orderBy(asc(levelChangesTable.atMs)).limit(20_000).all();
     return c.json({ fromMs, toMs, levelChanges: rows.map((r) => ({ ...r, structureName: names.get(r.structureId) ?? null })) });
@@ -193,12 +217,19 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
     // The ladder over every direction: the live ladder may be a sector's (directional assessment,
     // taken from the wind blowing now), which says nothing about the forecast hours.
     const ladders = states.map((s) => (s.limitGustMps === s.allDirectionsLimitGustMps ? s.triggerGustsMps : triggerLadderMps(s.levels, s.allDirectionsLimitGustMps)));
+    const heightFactor = (toHeightM: number) => gustHeightFactor({ fromHeightM: input.heightM, toHeightM, terrainCategory: site.terrainCategory as TerrainCategory, allowReduction: site.heightReductionEnabled });
     const structures = states.map((s, i) => ({
       id: String(s.id),
       triggerGustsMps: ladders[i]!,
-      heightFactor: gustHeightFactor({ fromHeightM: input.heightM, toHeightM: s.referenceHeightM, terrainCategory: site.terrainCategory as TerrainCategory, allowReduction: site.heightReductionEnabled }),
+      heightFactor: heightFactor(s.referenceHeightM),
     }));
     const predictions = predictLevels(table.rows, structures);
+    // Every configuration (design §2.5, §2.8): the same engine per configuration as the watch
+    // (engine recordConfigurations → one structure model each), each at the air density now and
+    // over every direction, with its own reference height; the current one as the watch has it.
+    const siteLevels = site.defaultLevelsJson as LevelDefinition[];
+    const planned = states.map((s, i) => forecastConfigurations(ctx, s, ladders[i]!, heightFactor, siteLevels));
+    const plans = predictPlannedLevels(table.rows, planned.map((p) => p.structure));
     return c.json({
       heightM: input.heightM,
       ignoredColumns: table.ignoredColumns,
@@ -208,17 +239,82 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
         id: s.id,
         name: s.name,
         referenceHeightM: s.referenceHeightM,
-        levels: s.levels.map((l, j) => ({ level: l.level, label: l.label, triggerGustMps: ladders[i]![j]! })),
+        levels: s.levels.map((l, j) => ({ level: l.level, label: l.label, triggerGustMps: ladders[i]![j]!, moveToConfiguration: planned[i]!.moveTo[j] ?? null })),
+        configuration: planned[i]!.structure.configurations[planned[i]!.structure.currentIndex]!.name,
+        configurations: planned[i]!.views,
       })),
       // Structures the check could not cover are named, never left out silently.
       notChecked: all
         .filter((s) => !states.includes(s))
         .map((s) => ({ id: s.id, name: s.name, reason: s.error ? `its record cannot be assessed: ${s.error}` : 'it has no levels' })),
-      rows: predictions.map((p, i) => ({ ...p, meanMps: table.rows[i]!.meanMps, dirFromDeg: table.rows[i]!.dirFromDeg })),
+      rows: predictions.map((p, i) => ({
+        ...p,
+        meanMps: table.rows[i]!.meanMps,
+        dirFromDeg: table.rows[i]!.dirFromDeg,
+        // Per structure (in the order of `structures`): the level in every configuration, and the one the plan moves it to.
+        configurations: plans[i]!.map((plan) => ({ inConfigurations: plan.inConfigurations, current: plan.currentIndex, planned: plan.plannedIndex })),
+      })),
     });
   });
 
   return api;
+}
+
+/** A structure in the forecast check with every configuration: what `predictPlannedLevels` takes, and what the answer shows of each. */
+function forecastConfigurations(
+  ctx: ApiContext,
+  state: StructureState,
+  currentLadder: number[],
+  heightFactor: (toHeightM: number) => number,
+  siteLevels: readonly LevelDefinition[],
+): { structure: ForecastPlannedStructure; views: Array<{ name: string; current: boolean; referenceHeightM: number; limitGustMps: number; levels: Array<{ level: number; label: string; triggerGustMps: number }> }>; moveTo: Array<string | null> } {
+  const row = ctx.db.select().from(structuresTable).where(eq(structuresTable.id, state.id)).get();
+  const key = (name: string) => name.trim().normalize('NFC').toLowerCase();
+  const current = { name: state.configuration, triggerGustsMps: currentLadder, heightFactor: heightFactor(state.referenceHeightM), referenceHeightM: state.referenceHeightM, limitGustMps: state.allDirectionsLimitGustMps };
+  let list: Array<typeof current> = [current];
+  let levels: readonly LevelDefinition[] = [];
+  let currentIndex = 0;
+  if (row) {
+    try {
+      const configured = recordConfigurations(row.recordJson as StructureRecord);
+      const models = configured.map((c) => structureModel({ ...row, recordJson: c.record }, siteLevels));
+      levels = models[0]!.levels;
+      const index = configured.findIndex((c) => key(c.name) === key(state.configuration));
+      if (index >= 0 && models.every((m) => m.levels.length === currentLadder.length)) {
+        list = models.map((model, i) => {
+          if (i === index) return current;
+          const d = densityDependent(model, state.airDensityKgM3);
+          return { name: configured[i]!.name, triggerGustsMps: d.triggerGustsMps, heightFactor: heightFactor(model.referenceHeightM), referenceHeightM: model.referenceHeightM, limitGustMps: d.limitGustMps };
+        });
+        currentIndex = index;
+      }
+    } catch {
+      // A configuration the engine cannot build: the check keeps the one the watch assesses, named as such.
+      list = [current];
+    }
+  }
+  const moveTo = state.levels.map((_, j) => levels[j]?.moveToConfiguration ?? null);
+  const moveToIndex = moveTo.map((name) => {
+    if (name === null) return null;
+    const i = list.findIndex((c) => key(c.name) === key(name));
+    return i >= 0 ? i : null;
+  });
+  return {
+    structure: { id: String(state.id), configurations: list.map(({ name, triggerGustsMps, heightFactor: f }) => ({ name, triggerGustsMps, heightFactor: f })), currentIndex, moveToIndex },
+    views: list.map((c, i) => ({ name: c.name, current: i === currentIndex, referenceHeightM: c.referenceHeightM, limitGustMps: c.limitGustMps, levels: state.levels.map((l, j) => ({ level: l.level, label: l.label, triggerGustMps: c.triggerGustsMps[j]! })) })),
+    moveTo,
+  };
+}
+
+/** The name of a stored record's configuration as registered (engine/configuration.ts). */
+function registeredNameOf(json: string): string {
+  try {
+    const record = JSON.parse(json) as unknown;
+    if (record !== null && typeof record === 'object') return registeredConfigurationName(record as StructureRecord);
+  } catch {
+    // A record that is not JSON cannot be assessed either: it stood as registered.
+  }
+  return registeredConfigurationName({});
 }
 
 /** A figure rounded to `decimals` places, as text ("" for none); never "-0.0". */
@@ -299,22 +395,38 @@ export function exportCsv(ctx: Pick<ApiContext, 'db'>, table: (typeof csvTables)
     case 'level-changes': {
       const rows = sqlite
         .prepare(
-          `SELECT t.name, c.at_ms, c.from_level, c.to_level, c.gust_mps, c.utilization, c.no_data
+          `SELECT t.name, c.at_ms, c.from_level, c.to_level, c.gust_mps, c.utilization, c.no_data, c.structure_id, t.record_json
            FROM level_changes c JOIN structures t ON t.id = c.structure_id WHERE c.at_ms >= ? AND c.at_ms < ? ORDER BY c.at_ms, c.id`,
         )
         .raw()
-        .all(fromMs, toMs) as Array<[string, number, number, number, number | null, number | null, number]>;
+        .all(fromMs, toMs) as Array<[string, number, number, number, number | null, number | null, number, number, string]>;
+      // The configuration each change was assessed in (design §2.5): the log's last switch at or before it, else the one as registered.
+      const history = new ConfigurationHistory(ctx.db, toMs);
+      const registered = new Map<number, string>();
+      const registeredName = (id: number, json: string): string => {
+        let name = registered.get(id);
+        if (name === undefined) {
+          name = registeredNameOf(json);
+          registered.set(id, name);
+        }
+        return name;
+      };
       return toCsv(
-        ['structure', 'time_local', 'time_utc', 'event', 'from_level', 'to_level', 'gust_mps', 'utilization_pct', 'margin_pct'],
-        rows.map((r) => [r[0], loc(r[1]), iso(r[1]), r[6] ? 'no data' : r[3] > r[2] ? 'raised' : r[3] < r[2] ? 'lowered' : 'data back', r[2], r[3], rounded(r[4], 1), pct(r[5]), marginPct(r[5])]),
+        ['structure', 'time_local', 'time_utc', 'event', 'from_level', 'to_level', 'gust_mps', 'utilization_pct', 'margin_pct', 'configuration'],
+        rows.map((r) => [r[0], loc(r[1]), iso(r[1]), r[6] ? 'no data' : r[3] > r[2] ? 'raised' : r[3] < r[2] ? 'lowered' : 'data back', r[2], r[3], rounded(r[4], 1), pct(r[5]), marginPct(r[5]), history.at(r[7], r[1]) ?? registeredName(r[7], r[8])]),
       );
     }
     case 'alerts': {
       const rows = ctx.db.select().from(alertsTable).where(and(gte(alertsTable.raisedAtMs, fromMs), lt(alertsTable.raisedAtMs, toMs))).orderBy(asc(alertsTable.raisedAtMs), asc(alertsTable.id)).all();
       const names = new Map(ctx.db.select({ id: structuresTable.id, name: structuresTable.name }).from(structuresTable).all().map((s) => [s.id, s.name]));
       const sensorNames = new Map(ctx.db.select({ id: sensorsTable.id, key: sensorsTable.key }).from(sensorsTable).all().map((s) => [s.id, s.key]));
+      const actionDueMs = getSite(ctx.db).actionDueMs;
       return toCsv(
-        ['id', 'kind', 'structure', 'sensor', 'level', 'label', 'raised_local', 'raised_utc', 'gust_mps', 'utilization_pct', 'acknowledged_local', 'acknowledged_utc', 'acknowledged_by', 'note', 'cleared_local', 'cleared_utc', 'action'],
+        [
+          'id', 'kind', 'structure', 'sensor', 'level', 'label', 'raised_local', 'raised_utc', 'gust_mps', 'utilization_pct', 'acknowledged_local', 'acknowledged_utc', 'acknowledged_by', 'note', 'cleared_local', 'cleared_utc', 'action',
+          // Issue 14 (design §2.5): the action that moves the structure, when it was marked done and by whom, and whether it was signalled as overdue.
+          'move_to_configuration', 'action_done_local', 'action_done_utc', 'action_done_by', 'overdue_local', 'overdue_utc', 'action_late',
+        ],
         rows.map((a) => [
           a.id,
           a.kind,
@@ -333,6 +445,34 @@ export function exportCsv(ctx: Pick<ApiContext, 'db'>, table: (typeof csvTables)
           loc(a.clearedAtMs),
           iso(a.clearedAtMs),
           a.actionText,
+          a.moveToConfiguration ?? '',
+          loc(a.actionDoneAtMs),
+          iso(a.actionDoneAtMs),
+          a.actionDoneBy ?? '',
+          loc(a.overdueAtMs),
+          iso(a.overdueAtMs),
+          a.moveToConfiguration === null ? '' : a.overdueAtMs !== null || (a.actionDoneAtMs !== null && a.actionDoneAtMs - a.raisedAtMs > actionDueMs) ? 'yes' : 'no',
+        ]),
+      );
+    }
+    case 'configuration-changes': {
+      const rows = configurationChangesInWindow(ctx.db, fromMs, toMs);
+      return toCsv(
+        ['structure', 'time_local', 'time_utc', 'from', 'to', 'reason', 'by', 'alert_id', 'alert_level', 'alert_label', 'after_alert_min', 'signalled_overdue', 'note'],
+        rows.map((r) => [
+          r.structureName ?? r.structureId,
+          loc(r.atMs),
+          iso(r.atMs),
+          r.from,
+          r.to,
+          r.reason === 'action-done' ? 'action done' : 'by hand',
+          r.by,
+          r.alertId ?? '',
+          r.alertLevel ?? '',
+          r.alertLabel ?? '',
+          r.alertRaisedAtMs === null ? '' : rounded((r.atMs - r.alertRaisedAtMs) / 60_000, 1),
+          r.alertId === null ? '' : r.alertOverdueAtMs !== null && r.alertOverdueAtMs <= r.atMs ? 'yes' : 'no',
+          r.note ?? '',
         ]),
       );
     }

@@ -2,6 +2,12 @@
  * The log of a day (in the site's time zone) or of the last hours: wind per sensor, utilization
  * per structure, level changes and alerts with their acknowledgements on one timeline, a wind
  * rose, the day's summary, CSV exports, and a printable day report (A4).
+ *
+ * The plan's actions (design §2.5): configuration switches (the crew's "Done" on an alert's
+ * action, or by hand by the competent person, with who, when, from → to and the note) and actions
+ * signalled again as overdue are events of the timeline; each level alert says whether and when
+ * its action was done and by whom; the report lists the day's actions, how long after the alert
+ * each came, and the late ones.
  */
 import { useEffect, useMemo, useState } from 'preact/hooks';
 import type { JSX } from 'preact';
@@ -15,7 +21,7 @@ import { prefs } from '../prefs.ts';
 import { href } from '../router.ts';
 import { useTimeZone } from '../site.ts';
 import { useStore } from '../store.ts';
-import type { AlertRow, DaySummary, LevelChangeRow, StructureLog, WindLog } from '../types.ts';
+import type { AlertRow, ConfigurationChangeEntry, ConfigurationLog, DaySummary, LevelChangeRow, OverdueSignalEntry, StructureDay, StructureLog, WindLog } from '../types.ts';
 import { clockTime, dateTime, dayOf, duration, hourMinute, longDate, mpsToSpeed, percent, speed, speedUnitLabels } from '../units.ts';
 
 const exportTables = [
@@ -25,6 +31,7 @@ const exportTables = [
   ['level-changes', 'Level changes'],
   ['alerts', 'Alerts and acknowledgements'],
   ['audit', 'Changes to the register (audit)'],
+  ['configuration-changes', 'Configuration changes (plan actions)'],
 ] as const;
 
 const lastHours = [6, 12, 24, 48];
@@ -44,6 +51,8 @@ interface LogData {
   levels: LevelChangeRow[];
   alerts: AlertRow[];
   structures: StructureLog[];
+  configurationChanges: ConfigurationChangeEntry[];
+  overdueSignals: OverdueSignalEntry[];
 }
 
 export function LogScreen() {
@@ -87,14 +96,25 @@ export function LogScreen() {
     setLoading(true);
     setError(null);
     (async () => {
-      const [wind, summary, levels, alerts] = await Promise.all([
+      const [wind, summary, levels, alerts, configurations] = await Promise.all([
         api<WindLog>(`/api/log/wind?${query}&points=720`),
         api<DaySummary>(`/api/log/summary?${query}`),
         api<{ levelChanges: LevelChangeRow[] }>(`/api/log/levels?${query}`),
         api<{ alerts: AlertRow[] }>(`/api/log/alerts?${query}`),
+        api<ConfigurationLog>(`/api/log/configurations?${query}`),
       ]);
       const structures = await Promise.all(summary.structures.map((s) => api<StructureLog>(`/api/log/structures/${s.id}?${query}&points=720`).catch(() => null)));
-      if (!stop) setData({ wind, summary, levels: levels.levelChanges, alerts: alerts.alerts, structures: structures.filter((s): s is StructureLog => s !== null) });
+      if (!stop) {
+        setData({
+          wind,
+          summary,
+          levels: levels.levelChanges,
+          alerts: alerts.alerts,
+          structures: structures.filter((s): s is StructureLog => s !== null),
+          configurationChanges: configurations.configurationChanges,
+          overdueSignals: configurations.overdueSignals,
+        });
+      }
     })()
       .catch((err) => {
         if (!stop) setError(errorText(err));
@@ -234,11 +254,55 @@ function LogBody({ data, unit, tz, siteName, title }: { data: LogData; unit: Par
               )}
               {a.clearedAtMs !== null ? ` · ended ${clockTime(a.clearedAtMs, tz)}` : ''}
             </span>
+            {a.kind === 'level' && a.moveToConfiguration !== null ? <AlertAction alert={a} tz={tz} actionDueMs={summary.actionDueMs} /> : null}
           </>
         ),
       });
     }
-    return items.sort((a, b) => a.atMs - b.atMs);
+    for (const c of data.configurationChanges) {
+      const name = c.structureName ?? structureNames.get(c.structureId) ?? `structure ${c.structureId}`;
+      items.push({
+        atMs: c.atMs,
+        // After the level change and alert of the same instant (the switch re-assesses the structure).
+        key: `k${c.id}`,
+        node: (
+          <>
+            <span class="t-time">{clockTime(c.atMs, tz)}</span>
+            <span class="t-what t-config">
+              <strong>{name}</strong>: configuration <span class="cfg-from">{c.from}</span> → <strong class="cfg-to">{c.to}</strong>
+            </span>
+            <span class="t-ack">{configurationWhy(c, tz)}</span>
+          </>
+        ),
+      });
+    }
+    for (const o of data.overdueSignals) {
+      const name = o.structureName ?? (o.structureId !== null ? structureNames.get(o.structureId) : null) ?? 'structure';
+      items.push({
+        atMs: o.atMs,
+        key: `o${o.alertId}`,
+        node: (
+          <>
+            <span class="t-time">{clockTime(o.atMs, tz)}</span>
+            <span class="t-what t-overdue">
+              <strong class="bad-text">Action overdue</strong> — {name}: {overdueWords(o, tz)}
+            </span>
+            <span class="t-ack">
+              {o.actionDoneAtMs !== null ? (
+                <>
+                  done in the end by {o.actionDoneBy ?? 'someone'} at {clockTime(o.actionDoneAtMs, tz)} ({duration(o.actionDoneAtMs - o.raisedAtMs)} after the alert)
+                </>
+              ) : (
+                <strong class="bad-text">not marked done</strong>
+              )}
+            </span>
+          </>
+        ),
+      });
+    }
+    // Same instant: level change, then alert, then the switch it led to, then an overdue signal.
+    const order = (key: string) => ({ c: 0, a: 1, k: 2, o: 3 })[key[0] as 'c' | 'a' | 'k' | 'o'] ?? 4;
+    return items.sort((a, b) => a.atMs - b.atMs || order(a.key) - order(b.key));
   }, [data, unit, tz]);
 
   const roseSamples = data.wind.sensors.flatMap((s) => s.series.tMs.map((_, i) => ({ dirDeg: s.series.dirDeg[i] ?? null, meanMps: s.series.meanMps[i] ?? null })));
@@ -258,6 +322,7 @@ function LogBody({ data, unit, tz, siteName, title }: { data: LogData; unit: Par
         <h2 id="sum-h">Summary</h2>
         <p>
           {summary.alertCount} {summary.alertCount === 1 ? 'alert' : 'alerts'}, {summary.unacknowledgedCount === 0 ? 'all acknowledged' : <strong class="bad-text">{summary.unacknowledgedCount} not acknowledged</strong>}.
+          {summary.actionCount > 0 ? <ActionCounts summary={summary} /> : null}
         </p>
         <div class="table-scroll">
           <table class="data stack-sm">
@@ -334,6 +399,8 @@ function LogBody({ data, unit, tz, siteName, title }: { data: LogData; unit: Par
         </div>
       </section>
 
+      <PlanActions summary={summary} tz={tz} />
+
       <section aria-labelledby="wind-log-h" class="report-section">
         <h2 id="wind-log-h">Wind</h2>
         {data.wind.sensors.length === 0 ? <p class="muted">No sensor was on the register in this period.</p> : null}
@@ -380,8 +447,8 @@ function LogBody({ data, unit, tz, siteName, title }: { data: LogData; unit: Par
       </section>
 
       <section aria-labelledby="tl-h" class="report-section">
-        <h2 id="tl-h">Level changes and alerts</h2>
-        {timeline.length === 0 ? <p class="muted">No level changes or alerts in this period.</p> : null}
+        <h2 id="tl-h">Level changes, alerts and configuration changes</h2>
+        {timeline.length === 0 ? <p class="muted">No level changes, alerts or configuration changes in this period.</p> : null}
         <ul class="timeline">
           {timeline.map((i) => (
             <li key={i.key}>{i.node}</li>
@@ -391,6 +458,136 @@ function LogBody({ data, unit, tz, siteName, title }: { data: LogData; unit: Par
       <p class="print-only caution">Decision support only: the structure's designer or manufacturer ratings, the site's competent person and local regulations govern. Printed {dateTime(Date.now(), tz)}.</p>
       <SignOff report={`${siteName} — ${title}`} />
     </>
+  );
+}
+
+/** "Done on alert 8 (Stop and clear) by Sam Okoro, 2 min after the alert" or "by hand by Dana Whitlock", with the note. */
+function configurationWhy(c: ConfigurationChangeEntry, tz: string): string {
+  const note = c.note ? `: “${c.note}”` : '';
+  if (c.reason === 'action-done' && c.alertId !== null) {
+    const label = c.alertLabel ? ` (${c.alertLevel !== null ? `level ${c.alertLevel} · ` : ''}${c.alertLabel})` : '';
+    const after = c.alertRaisedAtMs !== null ? `, ${duration(c.atMs - c.alertRaisedAtMs)} after the alert` : '';
+    const late = c.alertOverdueAtMs !== null && c.alertOverdueAtMs <= c.atMs ? `, late: signalled overdue at ${hourMinute(c.alertOverdueAtMs, tz)}` : '';
+    return `“Done” on alert ${c.alertId}${label} by ${c.by}${after}${late}${note}`;
+  }
+  return `by hand by ${c.by}${note}`;
+}
+
+/** "Prepare (→ scrim removed) not done 5 min after the alert: signalled again at 14:02". */
+function overdueWords(o: OverdueSignalEntry, tz: string): string {
+  const action = `${o.label}${o.moveToConfiguration ? ` (→ ${o.moveToConfiguration})` : ''}`;
+  return `${action} not done ${duration(o.atMs - o.raisedAtMs)} after the alert: signalled again at ${hourMinute(o.atMs, tz)}`;
+}
+
+/** A level alert's plan action on the timeline: done by whom and when, late, or not marked done. */
+function AlertAction({ alert: a, tz, actionDueMs }: { alert: AlertRow; tz: string; actionDueMs: number }) {
+  const late = a.overdueAtMs !== null || (a.actionDoneAtMs !== null && a.actionDoneAtMs - a.raisedAtMs > actionDueMs);
+  return (
+    <span class="t-ack t-action">
+      Action → {a.moveToConfiguration}:{' '}
+      {a.actionDoneAtMs !== null ? (
+        <>
+          done by {a.actionDoneBy ?? 'someone'} at {clockTime(a.actionDoneAtMs, tz)} ({duration(a.actionDoneAtMs - a.raisedAtMs)} after){late ? <strong class="bad-text"> · late</strong> : null}
+        </>
+      ) : (
+        <strong class="bad-text">not marked done{a.overdueAtMs !== null ? ` (signalled overdue at ${hourMinute(a.overdueAtMs, tz)})` : ''}</strong>
+      )}
+    </span>
+  );
+}
+
+/** " 6 plan actions: 5 done (1 late), 1 not marked done." */
+function ActionCounts({ summary }: { summary: DaySummary }) {
+  const notDone = summary.actionsNotDoneCount;
+  return (
+    <>
+      {' '}
+      {summary.actionCount} plan {summary.actionCount === 1 ? 'action' : 'actions'} moving a structure: {summary.actionsDoneCount} done
+      {summary.actionsLateCount > 0 ? <strong class="bad-text"> ({summary.actionsLateCount} late)</strong> : ''}
+      {notDone > 0 ? <strong class="bad-text">, {notDone} not marked done</strong> : ''}.
+    </>
+  );
+}
+
+type DayAction = StructureDay['alerts'][number] & { structure: string };
+
+/**
+ * The day's plan actions, for the report: every level alert whose action moves a structure to
+ * another configuration, who marked it done and how long after the alert, late ones marked; then
+ * each structure's switches by hand.
+ */
+function PlanActions({ summary, tz }: { summary: DaySummary; tz: string }) {
+  const actions: DayAction[] = summary.structures.flatMap((s) => s.alerts.filter((a) => a.kind === 'level' && a.moveToConfiguration !== null).map((a) => ({ ...a, structure: s.name })));
+  actions.sort((a, b) => a.raisedAtMs - b.raisedAtMs);
+  const byHand = summary.structures.flatMap((s) => s.configurationChanges.filter((c) => c.reason === 'by-hand').map((c) => ({ ...c, structure: s.name })));
+  byHand.sort((a, b) => a.atMs - b.atMs);
+  const moved = summary.structures.filter((s) => s.configurationChanges.length > 0 || s.alerts.some((a) => a.moveToConfiguration !== null));
+  if (actions.length === 0 && byHand.length === 0) return null;
+  return (
+    <section aria-labelledby="actions-h" class="report-section plan-actions">
+      <h2 id="actions-h">Plan actions and configurations</h2>
+      <p class="small muted">
+        Actions that move a structure to another configuration (“Done” on the phone), signalled again as overdue when not done {duration(summary.actionDueMs)} after the alert (the site’s setting now).
+      </p>
+      {actions.length > 0 ? (
+        <div class="table-scroll">
+          <table class="data stack-sm">
+            <caption>Actions of the wind action plan</caption>
+            <thead>
+              <tr>
+                <th scope="col">Structure</th>
+                <th scope="col">Alert</th>
+                <th scope="col">Moves it to</th>
+                <th scope="col">Done by</th>
+                <th scope="col">After the alert</th>
+                <th scope="col">On time</th>
+              </tr>
+            </thead>
+            <tbody>
+              {actions.map((a) => (
+                <tr class={a.actionLate || a.actionDoneAtMs === null ? 'action-late' : ''}>
+                  <th scope="row">{a.structure}</th>
+                  <td data-label="Alert">
+                    {hourMinute(a.raisedAtMs, tz)} · level {a.level} · {a.label}
+                  </td>
+                  <td data-label="Moves it to">{a.moveToConfiguration}</td>
+                  <td data-label="Done by">{a.actionDoneAtMs !== null ? `${a.actionDoneBy ?? 'someone'} at ${hourMinute(a.actionDoneAtMs, tz)}` : <strong class="bad-text">not marked done</strong>}</td>
+                  <td data-label="After the alert">{a.actionDoneAtMs !== null ? duration(a.actionDoneAtMs - a.raisedAtMs) : '—'}</td>
+                  <td data-label="On time">
+                    {a.actionLate ? <strong class="bad-text">late{a.overdueAtMs !== null ? `: signalled overdue at ${hourMinute(a.overdueAtMs, tz)}` : ''}</strong> : a.actionDoneAtMs === null ? <strong class="bad-text">not done</strong> : 'yes'}
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      ) : null}
+      {byHand.length > 0 ? (
+        <>
+          <h3 class="small-heading">Switched by hand</h3>
+          <ul class="plain-list by-hand-list">
+            {byHand.map((c) => (
+              <li>
+                {hourMinute(c.atMs, tz)} · <strong>{c.structure}</strong>: {c.from} → {c.to}, by {c.by}
+                {c.note ? `: “${c.note}”` : ''}
+              </li>
+            ))}
+          </ul>
+        </>
+      ) : null}
+      {moved.length > 0 ? (
+        <p class="small">
+          At the start of the period:{' '}
+          {moved.map((s, i) => (
+            <>
+              {i > 0 ? ' · ' : ''}
+              {s.name} <strong>{s.configurationAtStart}</strong>
+            </>
+          ))}
+          .
+        </p>
+      ) : null}
+    </section>
   );
 }
 

@@ -3,6 +3,12 @@
  * predicted level hour by hour, as a grid; and the wind action plan for the site office wall
  * (every structure, its levels with wind speeds in the chosen unit and in km/h, and the actions),
  * printable on A4.
+ *
+ * Configurations (design §2.5, §2.8): a structure whose plan moves it to another configuration
+ * ("Prepare: lower the screen" → "lowered") shows, per forecast row, its level in the
+ * configuration it stands in now and in the one the plan moves it to ("Raised: Prepare · Lowered:
+ * Watch"); the printed plan gives each configuration's levels, and the checked forecast's hours
+ * per structure in both.
  */
 import type { Ref } from 'preact';
 import { useEffect, useRef, useState } from 'preact/hooks';
@@ -15,7 +21,7 @@ import { live } from '../live.ts';
 import { prefs } from '../prefs.ts';
 import { useTimeZone } from '../site.ts';
 import { useStore } from '../store.ts';
-import type { ForecastAnswer, StructureWithLive } from '../types.ts';
+import type { ForecastAnswer, ForecastRowConfigurations, LevelDefinition, SiteView, StructureWithLive } from '../types.ts';
 import { compassPoint, dateTime, dayOf, hourMinute, longDate, speed, speedUnitLabels, speedUnits, unitSpace, type SpeedUnit } from '../units.ts';
 import { typedNumber } from '../register/structureDraft.ts';
 
@@ -55,6 +61,8 @@ function problemText(issue: { path: string; message: string }): string {
 
 export function Plan() {
   const [tab, setTab] = useState<'forecast' | 'plan'>('forecast');
+  // The last forecast checked: the printed plan lists its hours per structure too.
+  const [answer, setAnswer] = useState<ForecastAnswer | null>(null);
   return (
     <main id="main" class="plan-page">
       <h1 class="no-print">Plan</h1>
@@ -66,19 +74,18 @@ export function Plan() {
           Wind action plan
         </button>
       </div>
-      {tab === 'forecast' ? <ForecastCheck /> : <ActionPlan />}
+      {tab === 'forecast' ? <ForecastCheck answer={answer} setAnswer={setAnswer} /> : <ActionPlan forecast={answer} />}
     </main>
   );
 }
 
-function ForecastCheck() {
+function ForecastCheck({ answer, setAnswer }: { answer: ForecastAnswer | null; setAnswer: (answer: ForecastAnswer | null) => void }) {
   const tz = useTimeZone();
   const unit = useStore(prefs).unit;
   const [text, setText] = useState('');
   const [tableUnit, setTableUnit] = useState<SpeedUnit | ''>('');
   const [dateOrder, setDateOrder] = useState<DateOrderChoice>('');
   const [height, setHeight] = useState('10');
-  const [answer, setAnswer] = useState<ForecastAnswer | null>(null);
   const [error, setError] = useState<string | null>(null);
   const [problems, setProblems] = useState<string[]>([]);
   const [busy, setBusy] = useState(false);
@@ -205,6 +212,8 @@ const toneRank: Readonly<Record<Tone, number>> = { l0: 0, l1: 1, l2: 2, l3: 3, n
 /** One structure's predicted standing in one forecast row. */
 interface Standing {
   structure: ForecastStructureAnswer;
+  /** The level in the configuration it stands in now and in the one the plan moves it to ("Raised: Prepare · Lowered: Watch"); null when the plan moves it nowhere. */
+  planned: string | null;
   level: number | null;
   gustHereMps: number | null;
   tone: Tone;
@@ -222,6 +231,7 @@ function standings(answer: ForecastAnswer, row: ForecastRowAnswer): Standing[] {
       const top = structure.levels.at(-1)?.triggerGustMps ?? null;
       return {
         structure,
+        planned: plannedWords(structure, row.configurations?.[i]),
         level,
         gustHereMps,
         tone: levelTone(level, structure.levels.length, level === null),
@@ -234,6 +244,29 @@ function standings(answer: ForecastAnswer, row: ForecastRowAnswer): Standing[] {
 /** > 0 when `a` is worse than `b`: unknown first, then the tone, the level, and how close to the top level. */
 function compareStandings(a: Standing, b: Standing): number {
   return toneRank[a.tone] - toneRank[b.tone] || (a.level ?? 0) - (b.level ?? 0) || a.closeness - b.closeness;
+}
+
+/** "Raised" from "raised": a configuration's name at the start of a phrase. */
+const capitalized = (name: string): string => name.charAt(0).toUpperCase() + name.slice(1);
+
+/** A level by its label ("Prepare"), "below all levels", or "unknown". */
+function levelLabel(structure: ForecastStructureAnswer, level: number | null): string {
+  if (level === null) return 'unknown';
+  if (level === 0) return 'below all levels';
+  return structure.levels[level - 1]?.label ?? `level ${level}`;
+}
+
+/**
+ * The level in the configuration the structure stands in now and in the one its plan moves it to
+ * in this row: "Raised: Prepare · Lowered: Watch". Null when the plan moves it nowhere (or the
+ * answer has no configurations: an older server).
+ */
+export function plannedWords(structure: ForecastStructureAnswer, row: ForecastRowConfigurations | undefined): string | null {
+  if (!row || row.planned === null) return null;
+  const now = row.inConfigurations[row.current];
+  const planned = row.inConfigurations[row.planned];
+  if (!now || !planned) return null;
+  return `${capitalized(now.name)}: ${levelLabel(structure, now.level)} · ${capitalized(planned.name)}: ${levelLabel(structure, planned.level)}`;
 }
 
 function levelWords(s: Standing): string {
@@ -362,6 +395,10 @@ function ForecastResult({ answer, unit, tz, headingRef }: { answer: ForecastAnsw
                               <span>{level === null ? 'unknown' : level === 0 ? 'below all' : `${level} · ${s.levels[level - 1]?.label ?? ''}`}</span>
                             </span>
                             <span class="muted small">{p?.gustAtStructureMps != null ? `gust here ${speed(p.gustAtStructureMps, unit)}` : ''}</span>
+                            {(() => {
+                              const words = plannedWords(s, r.configurations?.[i]);
+                              return words ? <span class="fc-planned small">{words}</span> : null;
+                            })()}
                           </td>
                         );
                       })}
@@ -424,6 +461,7 @@ function HourItem({ row, ranked, unit, tz, heightM }: { row: ForecastRowAnswer; 
                   <span class="fc-structure-text">
                     <strong>{s.structure.name}</strong>
                     <span>{levelWords(s)}</span>
+                    {s.planned ? <span class="fc-planned">{s.planned}</span> : null}
                     <span class="muted small">
                       {s.gustHereMps !== null ? `gust ${speed(s.gustHereMps, unit)} at ${s.structure.referenceHeightM.toFixed(1)}${unitSpace}m` : 'gust unknown'}
                       {next ? ` · ${next}` : ''}
@@ -439,16 +477,20 @@ function HourItem({ row, ranked, unit, tz, heightM }: { row: ForecastRowAnswer; 
   );
 }
 
-function ActionPlan() {
+function ActionPlan({ forecast }: { forecast: ForecastAnswer | null }) {
   const unit = useStore(prefs).unit;
   const tz = useTimeZone();
   const snap = useStore(live).snapshot;
   const [list, setList] = useState<StructureWithLive[] | null>(null);
+  const [siteLevels, setSiteLevels] = useState<LevelDefinition[]>([]);
   const [error, setError] = useState<string | null>(null);
   useEffect(() => {
     api<{ structures: StructureWithLive[] }>('/api/structures')
       .then((a) => setList(a.structures))
       .catch((err) => setError(errorText(err)));
+    api<{ site: SiteView }>('/api/site')
+      .then((answer) => setSiteLevels(answer.site.defaultLevels))
+      .catch(() => undefined);
   }, []);
   return (
     <section aria-labelledby="ap-h" class="action-plan">
@@ -469,17 +511,8 @@ function ActionPlan() {
             {s.name}
             {s.location ? <span class="muted small"> — {s.location}</span> : null}
           </h3>
-          {s.live ? (
-            <>
-              <p class="small">
-                Limit gust {speed(s.live.limitGustMps, unit)}
-                {unit !== 'km/h' ? ` (${speed(s.live.limitGustMps, 'km/h')})` : ''} at {s.live.referenceHeightM.toFixed(1)}&nbsp;m · {s.levels ? 'own levels' : 'site levels'}
-              </p>
-              <LevelsTable levels={s.live.levels} unit={unit} />
-            </>
-          ) : (
-            <p class="unknown-box">Not assessed: check this structure’s record.</p>
-          )}
+          {s.live ? <PlanConfigurations structure={s} siteLevels={siteLevels} unit={unit} /> : <p class="unknown-box">Not assessed: check this structure’s record.</p>}
+          {forecast ? <PlanForecastHours structure={s} forecast={forecast} unit={unit} tz={tz} /> : null}
         </article>
       ))}
       <p class="small plan-key">
@@ -487,5 +520,93 @@ function ActionPlan() {
         <LevelShape tone="nodata" size={16} /> no data: wind unknown, act on the plan.
       </p>
     </section>
+  );
+}
+
+/** The levels' actions that move the structure, by level (the structure's own levels, else the site's). */
+function moveTargets(s: StructureWithLive, siteLevels: readonly LevelDefinition[]): Array<string | null> {
+  const defined = (s.levels ?? siteLevels) as ReadonlyArray<LevelDefinition & { moveToConfiguration?: string }>;
+  return (s.live?.levels ?? []).map((_, i) => defined[i]?.moveToConfiguration ?? null);
+}
+
+/**
+ * A structure on the printed plan: its levels in the configuration it stands in now, and, when it
+ * has others, each of them with its own limit and level gusts (the same engine, design §2.5).
+ */
+function PlanConfigurations({ structure: s, siteLevels, unit }: { structure: StructureWithLive; siteLevels: readonly LevelDefinition[]; unit: SpeedUnit }) {
+  const state = s.live!;
+  const configurations = Array.isArray(state.configurations) ? state.configurations : [];
+  const moves = moveTargets(s, siteLevels);
+  const levelRows = (triggers: ReadonlyArray<number | null>) =>
+    state.levels.map((l, i) => ({ level: l.level, label: l.label, actionText: l.actionText, trigger: l.trigger, triggerGustMps: triggers[i] ?? null, moveToConfiguration: moves[i] ?? null }));
+  const limitWords = (limitGustMps: number) => `limit gust ${speed(limitGustMps, unit)}${unit !== 'km/h' ? ` (${speed(limitGustMps, 'km/h')})` : ''}`;
+  if (configurations.length <= 1) {
+    return (
+      <>
+        <p class="small">
+          {capitalized(limitWords(state.limitGustMps))} at {state.referenceHeightM.toFixed(1)}&nbsp;m · {s.levels ? 'own levels' : 'site levels'}
+        </p>
+        <LevelsTable levels={levelRows(state.triggerGustsMps)} unit={unit} />
+      </>
+    );
+  }
+  const current = configurations.find((c) => c.current) ?? null;
+  const ordered = current ? [current, ...configurations.filter((c) => c !== current)] : configurations;
+  const planMoves = state.levels.map((l, i) => (moves[i] ? `${l.label} → ${moves[i]}` : null)).filter((m) => m !== null);
+  return (
+    <>
+      <p class="small">
+        {configurations.length} configurations · {s.levels ? 'own levels' : 'site levels'}
+        {planMoves.length > 0 ? ` · the plan moves it: ${planMoves.join(', ')}` : ''}
+      </p>
+      {ordered.map((c) => (
+        <div class={`plan-configuration${c.current ? ' is-current' : ''}`}>
+          <h4>
+            {capitalized(c.name)}
+            {c.current ? ' (now)' : ''} — {limitWords(c.limitGustMps)}
+          </h4>
+          <LevelsTable levels={levelRows(c.current ? state.triggerGustsMps : c.triggerGustsMps)} unit={unit} />
+        </div>
+      ))}
+      {current === null ? <p class="unknown-box small">The configuration it stands in now is unknown: act on the lowest limit.</p> : null}
+    </>
+  );
+}
+
+/** The checked forecast's hours for one structure on the printed plan: the level now, and in the configuration the plan moves it to. */
+function PlanForecastHours({ structure: s, forecast, unit, tz }: { structure: StructureWithLive; forecast: ForecastAnswer; unit: SpeedUnit; tz: string }) {
+  const index = forecast.structures.findIndex((f) => f.id === s.id);
+  if (index < 0) return null;
+  const structure = forecast.structures[index]!;
+  const withPlan = forecast.rows.some((r) => r.configurations?.[index]?.planned != null);
+  return (
+    <div class="table-scroll plan-forecast">
+      <table class="data">
+        <caption>
+          Forecast checked, hour by hour (times in {tz}){withPlan ? ': the level now, and after the action the plan calls for' : ''}
+        </caption>
+        <thead>
+          <tr>
+            <th scope="col">Time</th>
+            <th scope="col">Gust here</th>
+            <th scope="col">Level</th>
+          </tr>
+        </thead>
+        <tbody>
+          {forecast.rows.map((r) => {
+            const p = r.levels[index];
+            const level = p?.level ?? null;
+            const planned = plannedWords(structure, r.configurations?.[index]);
+            return (
+              <tr class={`tone-${levelTone(level, structure.levels.length, level === null)}`}>
+                <th scope="row">{dateTime(r.timeMs, tz)}</th>
+                <td>{speed(p?.gustAtStructureMps ?? null, unit)}</td>
+                <td>{planned ?? (level === null ? 'unknown' : level === 0 ? 'below all levels' : `${level} · ${structure.levels[level - 1]?.label ?? ''}`)}</td>
+              </tr>
+            );
+          })}
+        </tbody>
+      </table>
+    </div>
   );
 }
