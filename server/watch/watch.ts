@@ -854,10 +854,11 @@ export class Watch implements ReadingConsumer {
         this.options.onNotice?.(`${s.model.name}: level ${event.fromLevel} → ${event.toLevel}`, { structureId: s.model.id, gustMps: event.gustMps });
         if (event.type === 'escalated') {
           const def = s.model.levels[event.toLevel - 1]!;
+          const { actionText, moveTo } = this.escalationAction(s, event.fromLevel, event.toLevel);
           this.raise(
             batch,
             announcements,
-            { siteId: this.site.id, kind: 'level', structureId: s.model.id, sensorId: null, level: event.toLevel, label: def.label, actionText: def.actionText, raisedAtMs: event.atMs, gustMps: event.gustMps, utilization, moveToConfiguration: this.moveTarget(s, def.moveToConfiguration) },
+            { siteId: this.site.id, kind: 'level', structureId: s.model.id, sensorId: null, level: event.toLevel, label: def.label, actionText, raisedAtMs: event.atMs, gustMps: event.gustMps, utilization, moveToConfiguration: moveTo },
             s.model.name,
             null,
           );
@@ -1247,6 +1248,24 @@ export class Watch implements ReadingConsumer {
   private moveTarget(s: StructureLive, name: string | undefined): string | null {
     if (name === undefined) return null;
     return s.configurationNames.find((n) => sameConfigurationName(n, name)) ?? null;
+  }
+
+  /**
+   * The action of an escalation from `fromLevel` to `toLevel`. A gust that passes several levels at
+   * once raises one alert, of the highest; the actions of the levels it passed are still to do (a
+   * screen that was to be lowered at Prepare must still be lowered at Stop), so they follow its own
+   * text, and when the highest level's action moves no structure, the configuration of the highest
+   * level passed that does is the one its "Done" asks for (found in review of the demo's windy spell).
+   */
+  private escalationAction(s: StructureLive, fromLevel: number, toLevel: number): { actionText: string; moveTo: string | null } {
+    const levels = s.model.levels;
+    const def = levels[toLevel - 1]!;
+    const passed = levels.slice(Math.max(0, fromLevel), toLevel - 1).filter((l) => l.actionText.trim().length > 0 || l.moveToConfiguration !== undefined);
+    let moveTo = this.moveTarget(s, def.moveToConfiguration);
+    for (let i = toLevel - 2; moveTo === null && i >= Math.max(0, fromLevel); i--) moveTo = this.moveTarget(s, levels[i]!.moveToConfiguration);
+    if (passed.length === 0) return { actionText: def.actionText, moveTo };
+    const also = passed.map((l) => `${l.label}: ${l.actionText.trim() || `move it to "${l.moveToConfiguration}"`}`).join(' ');
+    return { actionText: `${def.actionText.trim()}${def.actionText.trim() ? ' ' : ''}The gust passed ${passed.map((l) => l.label).join(' and ')} at once; do their actions too. ${also}`, moveTo };
   }
 
   private actionDueMs(): number {
