@@ -126,10 +126,13 @@ export const demoStructures: StructureInput[] = [
       supportTowers: 2,
       towerMassKg: 450,
       screenMassKg: 900,
-      outriggerDepthM: 4,
-      ballastPerTowerKg: 1500,
+      outriggerDepthM: 3,
+      ballastPerTowerKg: 1000,
       ratedGustMps: 20,
-      surface: 'hard',
+      // Rubber pads under the outrigger feet on the trackway: μ 0.6 (common practice value, from
+      // memory; on site, the pad maker's figure or a pull test). With bare steel feet on the hard
+      // trackway (μ 0.3) the towers slide first and lowering the screen would gain nothing.
+      frictionCoefficient: 0.6,
       configurationName: 'raised',
       // Down to its bottom stop: the board's foot 0.5 m above the trackway.
       configurations: [{ name: 'lowered', changes: { bottomHeightM: 0.5 } }],

@@ -20,6 +20,7 @@
  */
 import { assessStructure, type AssessmentOptions, type AssessmentReport } from './assess.ts';
 import { defaultRegisteredConfigurationName, maxConfigurations } from './kinds/recordBase.ts';
+import { screenTowerHeightM } from './kinds/screen.ts';
 import { structureRecordSchema, validateRecordItself, type RecordIssue, type StructureKind, type StructureRecord } from './record.ts';
 
 export { defaultRegisteredConfigurationName, maxConfigurations };
@@ -136,12 +137,26 @@ export function applyConfiguration(record: StructureRecord, changes: Readonly<Re
   return { ok: false, issues };
 }
 
-/** The record itself with the listed fields of `changes` applied (null removes the field). */
+/** Changes that move a screen on its towers (lowered, raised, a deeper truss), not the towers. */
+const screenOnTowerFields = ['bottomHeightM', 'heightM', 'headerTrussDepthM'];
+
+/**
+ * The record itself with the listed fields of `changes` applied (null removes the field).
+ *
+ * A screen lowered on its towers leaves the towers standing: when the record derives the towers'
+ * height from the screen's top (no `towerHeightM`) and the change moves the screen but does not set
+ * `towerHeightM`, the towers keep their registered height. Without this a lowered screen's towers
+ * would be modelled shorter, with less wind on them and a lower reference height: about 5 % on the
+ * limit of the demo's screen, on the unsafe side (engineering review, issue 14).
+ */
 function changedRecord(record: StructureRecord, changes: Readonly<Record<string, unknown>>, fields: readonly string[]): Record<string, unknown> {
   const merged: Record<string, unknown> = { ...withoutConfigurations(record) };
   for (const field of fields) {
     if (changes[field] === null) delete merged[field];
     else merged[field] = changes[field];
+  }
+  if (record.kind === 'screen' && record.towerHeightM === undefined && !fields.includes('towerHeightM') && fields.some((f) => screenOnTowerFields.includes(f))) {
+    merged.towerHeightM = screenTowerHeightM(record);
   }
   return merged;
 }

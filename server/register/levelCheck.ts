@@ -6,7 +6,7 @@
  */
 import { and, isNull } from 'drizzle-orm';
 import { structuresTable } from '../../db/schema.ts';
-import { isaAirDensityKgM3 } from '../engine/index.ts';
+import { isaAirDensityKgM3, recordConfigurations, type StructureRecord } from '../engine/index.ts';
 import type { FieldIssue } from '../http/httpError.ts';
 import type { LevelDefinition } from '../levels/index.ts';
 import type { Tx } from '../storage/database.ts';
@@ -32,10 +32,14 @@ export function siteDefaultLevelIssues(tx: Tx, levels: readonly LevelDefinition[
   const rows = tx.select().from(structuresTable).where(and(isNull(structuresTable.retiredAtMs), isNull(structuresTable.levelsJson))).all();
   return rows.flatMap((row) => {
     try {
-      return modelLevelProblems(structureModel(row, levels), densityKgM3).map((problem) => ({
-        path: `defaultLevels.${problem.index}.trigger.${problem.field}`,
-        message: `for "${row.name}" (which follows the site's levels): ${problem.message}`,
-      }));
+      // Every configuration of the structure: the levels run on whichever it stands in (design §2.5).
+      const configured = recordConfigurations(row.recordJson as StructureRecord);
+      return configured.flatMap((c, i) =>
+        modelLevelProblems(structureModel({ ...row, recordJson: c.record }, levels), densityKgM3).map((problem) => ({
+          path: `defaultLevels.${problem.index}.trigger.${problem.field}`,
+          message: `for "${row.name}"${i === 0 && configured.length === 1 ? '' : ` in configuration "${c.name}"`} (which follows the site's levels): ${problem.message}`,
+        })),
+      );
     } catch {
       // A stored record that cannot be assessed shows its own error on the board.
       return [];

@@ -452,7 +452,10 @@ export class Watch implements ReadingConsumer {
         const wanted: { name: string; atMs: number | null; by: string | null } | null =
           old && old.error === null ? { name: old.configurationNames[old.configurationIndex]!, atMs: old.configurationSinceMs, by: old.configurationBy } : (initial?.configurations?.get(row.id) ?? null);
         const found = wanted === null ? 0 : configured.names.findIndex((n) => sameConfigurationName(n, wanted.name));
-        const configurationIndex = Math.max(0, found);
+        // The log names a configuration the register no longer has: what the structure is in is
+        // unknown, so it is assessed in its weakest configuration (lowest limit) until someone
+        // switches it to what it is (engineering review: "as registered" may be the stronger one).
+        const configurationIndex = found >= 0 ? found : weakestConfiguration(configured.models, this.airDensityKgM3);
         const model = configured.models[configurationIndex]!;
         live = {
           model,
@@ -463,7 +466,7 @@ export class Watch implements ReadingConsumer {
           configurationBy: found >= 0 ? (wanted?.by ?? null) : null,
           configurationWarning:
             wanted !== null && found < 0
-              ? `The log has this structure in configuration "${wanted.name}", which the register no longer has: it is assessed as "${configured.names[0]}". Check it on site and switch it to what it is.`
+              ? `The log has this structure in configuration "${wanted.name}", which the register no longer has: it is assessed in its weakest configuration, "${configured.names[weakestConfiguration(configured.models, this.airDensityKgM3)]}", until someone checks it on site and switches it to what it is.`
               : null,
           modelKey,
           density: densityDependent(model, this.airDensityKgM3),
@@ -1567,6 +1570,20 @@ function restoredLevel(restored: { level: number; sinceMs: number } | undefined,
 /** Configuration names are compared trimmed and ignoring case (engine/configuration.ts). */
 function sameConfigurationName(a: string, b: string): boolean {
   return a.trim().normalize('NFC').toLowerCase() === b.trim().normalize('NFC').toLowerCase();
+}
+
+/** The index of the configuration with the lowest effective limit at this density (the first on a tie). */
+function weakestConfiguration(models: readonly StructureModel[], airDensityKgM3: number): number {
+  let weakest = 0;
+  let lowest = Infinity;
+  models.forEach((model, i) => {
+    const limit = densityDependent(model, airDensityKgM3).limitGustMps;
+    if (limit < lowest) {
+      lowest = limit;
+      weakest = i;
+    }
+  });
+  return weakest;
 }
 
 /** A model per configuration of the record (design §2.5), the one as registered first. */

@@ -292,11 +292,20 @@ describe('the engine’s configuration functions (server/engine/configuration.ts
     const list = recordConfigurations(record);
     expect(list.map((c) => [c.name, c.registered])).toEqual([['raised', true], ['lowered', false]]);
     expect(list[0]!.record).toEqual(valid(screen));
-    expect(list[1]!.record).toEqual(valid({ ...screen, bottomHeightM: 1.2 }));
+    // Lowered on its towers, which stay standing: their height as registered (3 + 4 + no truss = 7 m).
+    expect(list[1]!.record).toEqual(valid({ ...screen, bottomHeightM: 1.2, towerHeightM: 7 }));
     expect(findConfiguration(record, ' LOWERED')?.record).toEqual(list[1]!.record);
     expect(findConfiguration(record, 'Raised')?.registered).toBe(true);
     expect(findConfiguration(record, 'folded')).toBeNull();
     expect(recordConfigurations(valid(screen)).map((c) => c.name)).toEqual(['as registered']);
+  });
+
+  it('a screen lowered on its towers keeps the towers standing: their height is the registered one unless the change sets it (engineering review)', () => {
+    const withTowers = valid({ ...screen, towerWidthM: 0.4, headerTrussDepthM: 0.4, configurations: [lowered, { name: 'mast down', changes: { bottomHeightM: 1.2, towerHeightM: 5.6 } }] });
+    const [, down, mast] = recordConfigurations(withTowers);
+    // Registered: the towers reach the screen's top and its truss, 3 + 4 + 0.4 = 7.4 m.
+    expect((down!.record as { towerHeightM?: number }).towerHeightM).toBe(7.4);
+    expect((mast!.record as { towerHeightM?: number }).towerHeightM).toBe(5.6);
   });
 
   it('recordConfigurations throws a RangeError naming the configuration when the record was not validated', () => {

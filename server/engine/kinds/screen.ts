@@ -174,6 +174,15 @@ function rounded(value: number, places = 3): number {
   return Math.round(value * scale) / scale;
 }
 
+/**
+ * The towers' height as the record gives it, or as derived when it does not: up to the screen's
+ * top and its header truss. A configuration that lowers the screen on its towers keeps this height
+ * (engine/configuration.ts): the towers stay standing.
+ */
+export function screenTowerHeightM(record: Pick<ScreenRecord, 'towerHeightM' | 'bottomHeightM' | 'heightM' | 'headerTrussDepthM'>): number {
+  return record.towerHeightM ?? record.bottomHeightM + record.heightM + (record.headerTrussDepthM ?? memberSizes.headerTrussDepthM.value);
+}
+
 export function expandScreen(record: ScreenRecord): Expansion {
   const { widthM, heightM, bottomHeightM, outriggerDepthM, supportTowers } = record;
   const { settings, sources: resistanceSources, warnings: resistanceWarnings } = resistanceSettings(record, { steelFeet: true });
