@@ -1268,7 +1268,8 @@ export class Watch implements ReadingConsumer {
     for (let i = toLevel - 2; moveTo === null && i >= Math.max(0, fromLevel); i--) moveTo = this.moveTarget(s, levels[i]!.moveToConfiguration);
     if (passed.length === 0) return { actionText: def.actionText, moveTo };
     const also = passed.map((l) => `${l.label}: ${l.actionText.trim() || `move it to "${l.moveToConfiguration}"`}`).join(' ');
-    return { actionText: `${def.actionText.trim()}${def.actionText.trim() ? ' ' : ''}The gust passed ${passed.map((l) => l.label).join(' and ')} at once; do their actions too. ${also}`, moveTo };
+    // The level's own action stays the first line (what e-mail, push and webhooks lead with).
+    return { actionText: `${def.actionText.trim()}${def.actionText.trim() ? '\n' : ''}The gust passed ${passed.map((l) => l.label).join(' and ')} at once; do their actions too. ${also}`, moveTo };
   }
 
   private actionDueMs(): number {

@@ -230,7 +230,8 @@ describe('log endpoints', () => {
     const others = changes.filter((c) => c !== raise);
     expect(others.map((c) => [c.fromLevel, c.toLevel])).toEqual(others.map(() => [0, 0]));
     expect(others.every((c) => c.atMs <= raise!.atMs)).toBe(true);
-    expect(body.alerts).toEqual([expect.objectContaining({ id: archAlertId, level: 3, label: 'Stop and clear', actionText: archLevels[2]!.actionText })]);
+    // Its own action first, then those of the levels the gust passed at once (watch.ts escalationAction).
+    expect(body.alerts).toEqual([expect.objectContaining({ id: archAlertId, level: 3, label: 'Stop and clear', actionText: expect.stringMatching(new RegExp(`^${archLevels[2]!.actionText}\n`)) })]);
     expect(body.live).toMatchObject({ id: archId, level: 3 });
   });
 

@@ -156,7 +156,8 @@ describe('the alert webhook', () => {
     expect(typeof body.site.name).toBe('string');
     const allowed = ['id', 'kind', 'level', 'label', 'action', 'gustMps', 'structure', 'sensorKey', 'acknowledgedBy', 'note'];
     expect(Object.keys(body.alert).every((k) => allowed.includes(k))).toBe(true);
-    expect(body.alert).toMatchObject({ kind: 'level', level: 2, label: 'Lower the screen', action: 'Lower the LED wall to its bottom stop.', structure: { id: screenId, name: 'Harbour stage LED wall' } });
+    // The level's own action first; the gust passed Prepare at once, so its action follows (watch.ts escalationAction).
+    expect(body.alert).toMatchObject({ kind: 'level', level: 2, label: 'Lower the screen', action: expect.stringMatching(/^Lower the LED wall to its bottom stop\.\nThe gust passed Prepare at once/), structure: { id: screenId, name: 'Harbour stage LED wall' } });
     expect(Object.keys(body.alert.structure)).toEqual(['id', 'name']);
     expect(body.alert.gustMps).toBeCloseTo(13, 1);
     expect(body.alert.acknowledgedBy).toBeUndefined();
