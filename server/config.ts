@@ -56,6 +56,11 @@ export interface Config {
   /** E-mail alerts over SMTP (SMTP_URL: smtp:// with STARTTLS when offered, or smtps://; credentials in the URL) from SMTP_FROM. */
   smtpUrl: string | null;
   smtpFrom: string | null;
+  /**
+   * Who runs this server, for the push services (VAPID_SUBJECT: a mailto: address or an https://
+   * URL, RFC 8292 §2.1); null: the https PUBLIC_URL, else the SMTP_FROM address (see vapidSubject).
+   */
+  vapidSubject: string | null;
   /** Run the invented demo site with simulated anemometers. */
   demo: boolean;
   /** Seed of the demo wind (DEMO_SEED, default 20260614). */
@@ -122,6 +127,22 @@ export function checkWebhookUrl(raw: string, name: string): void {
   if (!url.hostname) throw new ConfigError(`${name} has no host name`);
 }
 
+/** VAPID_SUBJECT: mailto:someone@host or an https:// URL (RFC 8292 §2.1). */
+export function checkVapidSubject(raw: string): string {
+  let url: URL;
+  try {
+    url = new URL(raw);
+  } catch {
+    throw new ConfigError('VAPID_SUBJECT must be a mailto: address (mailto:site-office@site.example) or an https:// URL');
+  }
+  if (url.protocol === 'mailto:') {
+    if (!/^[^\s@]+@[^\s@]+$/.test(decodeURIComponent(url.pathname))) throw new ConfigError('VAPID_SUBJECT must be mailto: followed by an e-mail address (mailto:site-office@site.example)');
+    return raw;
+  }
+  if (url.protocol !== 'https:' || !url.hostname) throw new ConfigError(`VAPID_SUBJECT must start with mailto: or https://, got "${url.protocol}"`);
+  return raw;
+}
+
 /** SMTP_URL: smtp:// (STARTTLS when the server offers it) or smtps:// (TLS from the start). Never echoed: it holds the password. */
 function checkSmtpUrl(raw: string): void {
   let url: URL;
@@ -179,6 +200,8 @@ export function configFromEnv(env: NodeJS.ProcessEnv = process.env, argv: readon
   if (smtpUrl !== null && smtpFrom === null) throw new ConfigError('SMTP_URL is set: set SMTP_FROM too (the sender address, e.g. "Wind watch <wind@site.example>")');
   const publicUrlText = textVar(env, 'PUBLIC_URL');
   const publicUrl = publicUrlText === null ? null : checkPublicUrl(publicUrlText.trim());
+  const vapidSubjectText = textVar(env, 'VAPID_SUBJECT');
+  const vapidSubject = vapidSubjectText === null ? null : checkVapidSubject(vapidSubjectText.trim());
   return {
     httpPort: intVar(env, 'PORT', 8080, 0, 65535),
     httpHost: textVar(env, 'HOST') ?? '0.0.0.0',
@@ -205,6 +228,7 @@ export function configFromEnv(env: NodeJS.ProcessEnv = process.env, argv: readon
     alertWebhookSecret,
     smtpUrl,
     smtpFrom,
+    vapidSubject,
     demo: argv.includes('--demo') || env.DEMO === '1',
     demoSeed: intVar(env, 'DEMO_SEED', 20260614, 0, 2 ** 31 - 1),
   };

@@ -26,6 +26,7 @@ import { dueSteps, escalationChainSchema, type EscalationStep } from './escalati
 import { AlertEventTracker, type HubAlert, type NotifyEvent, type NotifyEventName } from './events.ts';
 import { filterPasses, storedFilter } from './filter.ts';
 import { Outbox, type NewDelivery } from './outbox.ts';
+import { PushNotifier } from './pushNotifier.ts';
 import { webhookAlert, webhookBodyText } from './webhookBody.ts';
 
 /** The events that ask somebody to do something go by e-mail; the informational ones go to webhooks only. */
@@ -38,9 +39,10 @@ export interface NotifierOptions {
   maxAttempts?: number;
   webhookTimeoutMs?: number;
   emailTimeoutMs?: number;
+  pushTimeoutMs?: number;
   /** How often the escalation chain is checked, ms (default 5000). */
   escalationCheckMs?: number;
-  /** More channels by name (a push channel is added here). */
+  /** More channels by name (replacing one of the same name). */
   extraChannels?: readonly Channel[];
 }
 
@@ -63,6 +65,8 @@ export type LinkAcknowledgement =
 
 export class Notifier {
   readonly outbox: Outbox;
+  /** Web Push: subscriptions, the VAPID key, the notification buttons (pushNotifier.ts). */
+  readonly push: PushNotifier;
   private readonly dispatcher: Dispatcher;
   private readonly tracker = new AlertEventTracker();
   private readonly waiting: NotifyEvent[] = [];
@@ -87,6 +91,8 @@ export class Notifier {
     channels.set('webhook', new WebhookChannel((target) => this.webhookEndpoint(target), dispatchNow, options.webhookTimeoutMs));
     this.email = config.smtpUrl && config.smtpFrom ? new EmailChannel(config.smtpUrl, config.smtpFrom, options.emailTimeoutMs) : null;
     if (this.email) channels.set('email', this.email);
+    this.push = new PushNotifier({ db: deps.db, config, watch: deps.watch, queue: deps.queue, now: deps.now, log: deps.log, secret: this.secret, dispatchNow, ...(options.pushTimeoutMs ? { timeoutMs: options.pushTimeoutMs } : {}) });
+    if (this.push.channel) channels.set('push', this.push.channel);
     for (const c of options.extraChannels ?? []) channels.set(c.name, c);
     this.lastError = this.outbox.lastFailure();
     this.dispatcher = new Dispatcher({
@@ -190,6 +196,7 @@ export class Notifier {
     if (this.email && emailEvents.has(e.event)) {
       for (const p of this.emailPeople()) if (filterPasses(storedFilter(p.filter), e.alert)) items.push(this.emailDelivery(p, e.event, e.atMs, e.alert, site));
     }
+    items.push(...this.push.deliveriesFor(e.event, e.atMs, e.alert, site.name));
     return items;
   }
 
@@ -237,9 +244,19 @@ export class Notifier {
     if (this.email) for (const p of people) items.push(this.emailDelivery(p, 'alert.escalated', nowMs, alert, site));
     const webhooks = this.webhookTargets(alert);
     for (const t of webhooks) items.push(this.webhookDelivery(t, 'alert.escalated', nowMs, alert, site.name));
+    // Push: every device of the step's people, whether or not they have an e-mail address.
+    const stepPeople = this.deps.db
+      .select({ id: peopleTable.id, displayName: peopleTable.displayName, role: peopleTable.role })
+      .from(peopleTable)
+      .where(isNull(peopleTable.disabledAtMs))
+      .all()
+      .filter((p) => (step.personId !== undefined ? p.id === step.personId : p.role === step.role));
+    const pushed = this.push.escalationDeliveries(new Set(stepPeople.map((p) => p.id)), nowMs, alert, site.name);
+    items.push(...pushed.items);
     const reachedPeople = this.email ? people.map((p) => `${p.displayName} by e-mail`) : [];
-    const reached = [...reachedPeople, ...(webhooks.length > 0 ? [`${webhooks.length} webhook${webhooks.length === 1 ? '' : 's'}`] : [])];
-    const words = reached.length > 0 ? reached.join(', ') : this.email ? 'nobody: no e-mail address is set for this step' : 'nobody: e-mail is not set up (SMTP_URL) and there is no webhook';
+    const reachedPush = stepPeople.filter((p) => pushed.reached.has(p.id)).map((p) => `${p.displayName} by push (${pushed.reached.get(p.id)} device${pushed.reached.get(p.id) === 1 ? '' : 's'})`);
+    const reached = [...reachedPeople, ...reachedPush, ...(webhooks.length > 0 ? [`${webhooks.length} webhook${webhooks.length === 1 ? '' : 's'}`] : [])];
+    const words = reached.length > 0 ? reached.join(', ') : this.email ? 'nobody: no e-mail address or push subscription is set for this step' : 'nobody: e-mail is not set up (SMTP_URL), no push subscription and no webhook';
     this.deps.db.transaction((tx) => {
       const inserted = tx.insert(notifyEscalationsTable).values({ alertId: alert.id, step: index, atMs: nowMs, target, reached: words }).onConflictDoNothing().run();
       if (inserted.changes > 0) recordAudit(tx, { actor: 'system', entity: 'alert', entityId: alert.id, action: 'escalated', after: { step: index + 1, target, reached: words, level: alert.level, subject: alert.subject } }, nowMs);
@@ -289,6 +306,16 @@ export class Notifier {
     return { deliveryId: row!.deliveryId };
   }
 
+  /** A test push to one of the person's devices. */
+  testPush(personId: number, subscriptionId: number, who: string): { deliveryId: string } | { error: string; status: 404 | 409 } {
+    const site = getSite(this.deps.db);
+    const item = this.push.test(personId, subscriptionId, site.name, who);
+    if ('error' in item) return item;
+    const [row] = this.outbox.add([item], this.deps.now());
+    this.dispatcher.kick();
+    return { deliveryId: row!.deliveryId };
+  }
+
   /**
    * A test message to one webhook: the contract's body with `"event": "test"` and an alert of
    * kind "test" (id 0), so a receiver can tell it from a real alert.
@@ -310,7 +337,7 @@ export class Notifier {
     return this.deps.config.alertWebhookUrl;
   }
 
-  health(): { pending: number; failed: number; lastError: { atMs: number; target: string; channel: string; result: string } | null; email: boolean; webhooks: number } {
+  health(): { pending: number; failed: number; lastError: { atMs: number; target: string; channel: string; result: string } | null; email: boolean; webhooks: number; push: ReturnType<PushNotifier['health']> } {
     let counts = { pending: 0, failed: 0 };
     try {
       counts = this.outbox.counts();
@@ -318,7 +345,7 @@ export class Notifier {
       // The database cannot be read: the counts are unknown, the last error says why.
     }
     const webhooks = (this.deps.config.alertWebhookUrl ? 1 : 0) + (this.deps.db.$client.prepare('SELECT COUNT(*) AS n FROM notify_webhooks WHERE enabled = 1').get() as { n: number }).n;
-    return { ...counts, lastError: this.lastError, email: this.email !== null, webhooks };
+    return { ...counts, lastError: this.lastError, email: this.email !== null, webhooks, push: this.push.health() };
   }
 
   async stop(): Promise<void> {

@@ -16,6 +16,11 @@ export function whenSignedOut(handler: () => void): void {
   onSignedOut = handler;
 }
 
+/** A call made without api() (web/src/offline.ts) was answered 401: the session is gone. */
+export function signedOutNow(): void {
+  onSignedOut?.();
+}
+
 /** An answer other than 2xx: status, the server's message and its field issues (400). */
 export class ApiError extends Error {
   constructor(

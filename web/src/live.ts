@@ -10,7 +10,8 @@
  */
 import { frameRecords, type Frame } from '../../server/live/frames.ts';
 import { foresightFromCell } from '../../server/watch/structureForesight.ts';
-import { api } from './api.ts';
+import { api, signedOutNow } from './api.ts';
+import { fetchSnapshot, type SnapshotAnswer } from './offline.ts';
 import { createStore } from './store.ts';
 import type { OpenAlert, SensorState, Snapshot, StructureState, WindLog } from './types.ts';
 
@@ -25,6 +26,12 @@ export interface LiveState {
   lastDataAtMs: number | null;
   /** Server clock − client clock, ms: ages are computed against the server's clock. */
   clockOffsetMs: number;
+  /**
+   * Null while the snapshot came from the server. Otherwise it is the copy the service worker
+   * kept (the server could not be reached) and this is the phone's clock when it was kept: the
+   * screens show it as OLD with its age, never as current.
+   */
+  keptAtMs: number | null;
 }
 
 /** The server pings every 15 s (liveRoutes.ts); two missed pings and a margin mean a dead link. */
@@ -32,7 +39,7 @@ const deadAfterMs = 35_000;
 /** Minutes of wind kept for the board's trend line. */
 export const trailMinutes = 30;
 
-export const live = createStore<LiveState>({ snapshot: null, connection: 'connecting', lastEventAtMs: null, lastDataAtMs: null, clockOffsetMs: 0 });
+export const live = createStore<LiveState>({ snapshot: null, connection: 'connecting', lastEventAtMs: null, lastDataAtMs: null, clockOffsetMs: 0, keptAtMs: null });
 
 /** Recent wind per sensor for the trend line: time (server ms), gust and mean in m/s. */
 export interface TrailPoint {
@@ -123,7 +130,7 @@ function handle(kind: string, data: string): void {
   switch (kind) {
     case 'snapshot': {
       const snap = payload as Snapshot;
-      live.update((s) => ({ ...s, snapshot: snap, lastDataAtMs: now, lastEventAtMs: now, clockOffsetMs: snap.atMs - now }));
+      live.update((s) => ({ ...s, snapshot: snap, lastDataAtMs: now, lastEventAtMs: now, clockOffsetMs: snap.atMs - now, keptAtMs: null }));
       for (const sensor of snap.sensors) addTrail(sensor);
       break;
     }
@@ -209,10 +216,14 @@ function connect(): void {
   live.update((s) => ({ ...s, connection: s.snapshot ? 'reconnecting' : 'connecting' }));
   es.onopen = () => {
     live.update((s) => ({ ...s, connection: 'open', lastEventAtMs: Date.now() }));
+    // Through the service worker, which keeps a copy for when the network drops (offline.ts).
+    void refreshSnapshot();
   };
   es.onerror = () => {
     if (source !== es) return;
     live.update((s) => ({ ...s, connection: navigator.onLine === false ? 'offline' : 'reconnecting' }));
+    // Opened with no way to the server: the copy the service worker kept, shown as old.
+    if (!live.get().snapshot) void refreshSnapshot();
     // CLOSED means the browser gave up (an HTTP error such as 401): retry ourselves, checking the
     // session first so a signed-out phone goes to the sign-in screen instead of looping.
     if (es.readyState === EventSource.CLOSED) scheduleRetry();
@@ -225,9 +236,17 @@ function scheduleRetry(): void {
   retryTimer = setTimeout(() => {
     retryTimer = null;
     // 401 here tells the app the session is gone (api.ts); anything else: try the stream again.
-    api('/api/live')
-      .then(() => connect())
-      .catch(() => scheduleRetry());
+    fetchSnapshot()
+      .then((answer) => {
+        if (answer.keptAtMs === null) return connect();
+        // Still no server: the kept copy (if it is newer than what is shown), and wait again.
+        takeSnapshot(answer);
+        scheduleRetry();
+      })
+      .catch((err: unknown) => {
+        if ((err as { status?: number }).status === 401) signedOutNow();
+        scheduleRetry();
+      });
   }, 3_000);
 }
 
@@ -238,12 +257,32 @@ function scheduleRetry(): void {
  */
 export async function refreshSnapshot(): Promise<void> {
   try {
-    const snap = await api<Snapshot>('/api/live');
-    const now = Date.now();
-    live.update((s) => ({ ...s, snapshot: snap, lastDataAtMs: s.connection === 'open' ? now : s.lastDataAtMs, clockOffsetMs: snap.atMs - now }));
-  } catch {
+    takeSnapshot(await fetchSnapshot());
+  } catch (err) {
+    if ((err as { status?: number }).status === 401) signedOutNow();
     // The stream's own snapshot stands; a failed refresh changes nothing on screen.
   }
+}
+
+/**
+ * A snapshot from GET /api/live. A kept copy (the service worker's, the server unreachable) never
+ * replaces live data: it is taken only while the stream is down and when it is newer than what is
+ * shown, with its age from when it was kept and the server's clock as it was then, so every age
+ * on screen (a sensor's last reading…) counts from the real time and reads as old.
+ */
+function takeSnapshot(answer: SnapshotAnswer): void {
+  const snap = answer.snapshot;
+  const now = Date.now();
+  if (answer.keptAtMs === null) {
+    live.update((s) => ({ ...s, snapshot: snap, lastDataAtMs: s.connection === 'open' ? now : s.lastDataAtMs, clockOffsetMs: snap.atMs - now, keptAtMs: null }));
+    return;
+  }
+  const keptAtMs = answer.keptAtMs;
+  live.update((s) => {
+    if (s.connection === 'open' || (s.snapshot !== null && s.snapshot.atMs >= snap.atMs)) return s;
+    return { ...s, snapshot: snap, lastDataAtMs: keptAtMs, clockOffsetMs: snap.atMs - keptAtMs, keptAtMs };
+  });
+  for (const sensor of snap.sensors) addTrail(sensor);
 }
 
 /** How often the register is re-read while the stream runs (see refreshSnapshot). */
@@ -278,7 +317,7 @@ export function stopLive(): void {
   if (retryTimer) clearTimeout(retryTimer);
   watchdog = null;
   retryTimer = null;
-  live.set({ snapshot: null, connection: 'connecting', lastEventAtMs: null, lastDataAtMs: null, clockOffsetMs: 0 });
+  live.set({ snapshot: null, connection: 'connecting', lastEventAtMs: null, lastDataAtMs: null, clockOffsetMs: 0, keptAtMs: null });
   windTrail.set(new Map());
 }
 

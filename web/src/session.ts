@@ -3,6 +3,8 @@
  * screens only hide what would be refused, so nobody taps a button that cannot work.
  */
 import { api, setCsrfToken, whenSignedOut } from './api.ts';
+import { forgetSiteData } from './offline.ts';
+import { unsubscribePush } from './push.ts';
 import { createStore } from './store.ts';
 import type { Role, Session } from './types.ts';
 
@@ -36,9 +38,13 @@ export async function loadSession(): Promise<void> {
 
 export async function signOut(): Promise<void> {
   try {
+    // A phone handed on (a shared crew phone) must stop receiving this person's alerts: this
+    // device's push subscription goes before the session does. Failing that, sign out anyway.
+    await unsubscribePush().catch(() => undefined);
     await api('/api/session', { method: 'DELETE' });
   } finally {
     setCsrfToken('');
+    await forgetSiteData();
     await loadSession();
   }
 }
