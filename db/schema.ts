@@ -31,6 +31,14 @@ export const sitesTable = sqliteTable('sites', {
   holdTimeMs: integer('hold_time_ms').notNull().default(15 * 60_000),
   /** How long after its alert a level's action that moves the structure may wait before it is signalled again as overdue (design §2.5). */
   actionDueMs: integer('action_due_ms').notNull().default(5 * 60_000),
+  /** The forecast feed (design §2.7): the address polled, or null for none (server/forecastFeed). */
+  forecastFeedUrl: text('forecast_feed_url'),
+  /** How often the feed is polled, ms (5 min to 6 h). */
+  forecastFeedIntervalMs: integer('forecast_feed_interval_ms').notNull().default(30 * 60_000),
+  /** Unit of bare numbers in the feed ('m/s' | 'km/h' | 'kn' | 'mph'), or null when the file states its units. */
+  forecastFeedUnit: text('forecast_feed_unit'),
+  /** Height the feed's speeds refer to, m (forecasts give 10 m). */
+  forecastFeedHeightM: real('forecast_feed_height_m').notNull().default(10),
   /** The site's default level list (JSON, see server/levels). */
   defaultLevelsJson: text('default_levels_json', { mode: 'json' }).notNull(),
   createdAtMs: integer('created_at_ms').notNull(),
@@ -409,3 +417,58 @@ export const notifyUsedTokensTable = sqliteTable('notify_used_tokens', {
   alertId: integer('alert_id').notNull(),
   usedAtMs: integer('used_at_ms').notNull(),
 });
+
+/**
+ * Web Push subscriptions (design §4b, server/notify/channels/push.ts): one row per browser (the
+ * push service's endpoint is unique to it), owned by the person who subscribed it there, with a
+ * label they chose ("my phone"). The keys are the browser's: `p256dh` its P-256 public key and
+ * `auth` its 16-byte secret (RFC 8291 §3), base64url. A row the push service answers 404/410 for
+ * is removed.
+ */
+export const notifyPushSubscriptionsTable = sqliteTable(
+  'notify_push_subscriptions',
+  {
+    id: integer().primaryKey({ autoIncrement: true }),
+    personId: integer('person_id').notNull(),
+    endpoint: text().notNull(),
+    p256dh: text().notNull(),
+    auth: text().notNull(),
+    label: text().notNull(),
+    userAgent: text('user_agent'),
+    createdAtMs: integer('created_at_ms').notNull(),
+    updatedAtMs: integer('updated_at_ms').notNull(),
+    /** The newest push the service accepted for it (null: none yet). */
+    lastDeliveredAtMs: integer('last_delivered_at_ms'),
+  },
+  (t) => [uniqueIndex('notify_push_subscriptions_endpoint').on(t.endpoint), index('notify_push_subscriptions_person').on(t.personId)],
+);
+
+/**
+ * Every poll of the forecast feed (design §2.7, server/forecastFeed): when, what address, what
+ * the server answered, whether the body could be read and why not, the rows read (the forecast
+ * table's rows in SI units, JSON) and how they were read. The newest successful poll is the
+ * forecast the board shows; the log compares each hour with the last poll made before it.
+ */
+export const forecastPollsTable = sqliteTable(
+  'forecast_polls',
+  {
+    id: integer().primaryKey({ autoIncrement: true }),
+    /** When the poll started. */
+    atMs: integer('at_ms').notNull(),
+    url: text().notNull(),
+    /** The HTTP status, or null when no answer came (refused, timed out). */
+    httpStatus: integer('http_status'),
+    ok: integer({ mode: 'boolean' }).notNull(),
+    /** Why it failed, in words ("HTTP 500", "timed out after 15 s", "Line 3, column 2 (gust): …"); null when ok. */
+    error: text(),
+    /** 'csv' | 'json', or null when no body was read. */
+    format: text(),
+    /** The rows read: `[{line, timeMs, meanMps, gustMps, dirFromDeg}]`; null when it failed. */
+    rowsJson: text('rows_json', { mode: 'json' }),
+    /** How the body was read (sentences), or every problem found when it could not be. */
+    notesJson: text('notes_json', { mode: 'json' }).notNull(),
+    bytes: integer(),
+    durationMs: integer('duration_ms').notNull(),
+  },
+  (t) => [index('forecast_polls_at').on(t.atMs), index('forecast_polls_url_at').on(t.url, t.atMs)],
+);

@@ -29,7 +29,9 @@ import { Watch, type InitialState, type OpenAlert, type SiteSettings, type Syste
 import { apiRoutes, type ApiContext } from './http/routes/apiRoutes.ts';
 import { accessRoutes, siteLinkOpener } from './http/routes/accessRoutes.ts';
 import { acknowledgeLinkRoutes, notifyRoutes } from './http/routes/notifyRoutes.ts';
+import { pushRoutes } from './http/routes/pushRoutes.ts';
 import { Notifier, type NotifierOptions } from './notify/index.ts';
+import { ForecastFeed, type ForecastFeedOptions } from './forecastFeed/index.ts';
 
 export interface RunningServer {
   config: Config;
@@ -45,6 +47,8 @@ export interface RunningServer {
   accounts: Accounts;
   /** Alert notifications: webhooks, e-mail, the outbox (server/notify). */
   notifier: Notifier;
+  /** The forecast feed's poller (server/forecastFeed). */
+  forecastFeed: ForecastFeed;
   /** Reloads the register into the watch (after changes made outside the API). */
   reloadRegister(): void;
   /** Reloads the register and rebuilds levels and open alerts from the log (after writing to it directly). */
@@ -64,6 +68,8 @@ export interface StartOptions {
   beforeListen?: (server: RunningServer) => Promise<void> | void;
   /** The notifier's retry schedule, clock and timeouts (tests). */
   notify?: NotifierOptions;
+  /** The forecast feed's timer, timeout and size cap (tests turn the timer off and poll by hand). */
+  forecastFeed?: ForecastFeedOptions;
 }
 
 export function siteSettings(db: Db): SiteSettings {
@@ -250,6 +256,10 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
   const notifier = new Notifier({ db, config, hub, watch, queue, now, log, publicBase: () => publicBase }, options.notify);
   notifier.start();
 
+  // The forecast feed (design §2.7): its own unref'd timer and requests, never in ingest's way.
+  const forecastFeed = new ForecastFeed({ db, now, log }, options.forecastFeed);
+  forecastFeed.start();
+
   const limiter = new SignInLimiter();
   // 30 failures in 15 minutes from one address: a crew behind one router, not a password list.
   const addressLimiter = new SignInLimiter({ maxFailures: 30, windowMs: 15 * 60_000 });
@@ -280,6 +290,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
       ingest: { ...pipeline.counters, rejectedTotal: rejections.totalCount },
       liveStreamClients: hub.listenerCount,
       notify: notifier.health(),
+      forecastFeed: forecastFeed.health(),
       atMs: now(),
     };
   };
@@ -308,13 +319,19 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     hub,
     accounts,
     notifier,
+    forecastFeed,
     reloadRegister,
     rebuildFromLog: () => watch.configure(siteSettings(db), registry.sensors(), activeStructures(db), initialState(db)),
     tickNow,
     close: async () => undefined,
   };
 
-  const ctx: ApiContext = { db, registry, watch, queue, hub, rejections, accounts, now, reloadRegister, topicPrefix: config.topicPrefix, health, log };
+  // A change of the site settings may change the feed's address, interval or unit: it polls at once.
+  const reloadAfterChange = (): void => {
+    reloadRegister();
+    forecastFeed.settingsChanged();
+  };
+  const ctx: ApiContext = { db, registry, watch, queue, hub, rejections, accounts, now, reloadRegister: reloadAfterChange, topicPrefix: config.topicPrefix, health, log, forecastFeed };
   const staticRoot = options.staticRoot === undefined ? path.resolve('web/dist') : options.staticRoot;
   const app = createApp({
     health: { health },
@@ -325,6 +342,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
       { path: '/api', app: accessRoutes({ accounts, limiter, addressLimiter, now, trustProxy: config.trustProxy, proxyHops: config.proxyHops, publicUrl: config.publicUrl }) },
       { path: '/api', app: apiRoutes(ctx) },
       { path: '/api', app: notifyRoutes({ db, notifier, now }) },
+      { path: '/api', app: pushRoutes({ notifier, now }) },
       { path: '/notify', app: acknowledgeLinkRoutes({ db, notifier, now }) },
       { path: '/link', app: siteLinkOpener({ accounts, limiter, addressLimiter, now, trustProxy: config.trustProxy, proxyHops: config.proxyHops }) },
     ],
@@ -368,6 +386,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     await broker?.stop();
     await external?.stop();
     await notifier.stop();
+    await forecastFeed.stop();
     queue.settle();
     queue.stop();
     rejections.flush();

@@ -61,6 +61,7 @@ export {
   type ForecastTableOptions,
   type ForecastTableProblem,
 } from './parseForecastTable.ts';
+export { parseForecastFeed, isJsonBody, type ForecastFeedFormat, type ForecastFeedRead } from './parseForecastFeed.ts';
 export { forecastSpeedUnits, beaufortTopMps, speedCell, type ForecastSpeedUnit, type ForecastCellUnit } from './forecastSpeedUnit.ts';
 export { dateOrders, type DateOrder } from './forecastDateTime.ts';
 export {

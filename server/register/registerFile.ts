@@ -40,6 +40,11 @@ const siteFileSchema = z.strictObject({
   deadBandFraction: z.number(),
   holdTimeMs: z.number(),
   actionDueMs: z.number().min(60_000).max(3_600_000).default(300_000),
+  // The forecast feed (issue 17); files written before it have none.
+  forecastFeedUrl: z.string().nullable().default(null),
+  forecastFeedIntervalMs: z.number().default(30 * 60_000),
+  forecastFeedUnit: z.string().nullable().default(null),
+  forecastFeedHeightM: z.number().default(10),
   defaultLevels: z.unknown(),
 });
 
@@ -76,6 +81,10 @@ export function exportRegister(db: Db, nowMs: number): RegisterFile {
       deadBandFraction: site.deadBandFraction,
       holdTimeMs: site.holdTimeMs,
       actionDueMs: site.actionDueMs,
+      forecastFeedUrl: site.forecastFeedUrl,
+      forecastFeedIntervalMs: site.forecastFeedIntervalMs,
+      forecastFeedUnit: site.forecastFeedUnit,
+      forecastFeedHeightM: site.forecastFeedHeightM,
       defaultLevels: site.defaultLevelsJson,
     },
     sensors: listSensors(db).map((s) => ({

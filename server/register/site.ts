@@ -9,10 +9,31 @@ import { z } from 'zod';
 import { sitesTable } from '../../db/schema.ts';
 import { HttpError } from '../http/httpError.ts';
 import { levelListSchema, type LevelDefinition } from '../levels/levelDefinition.ts';
+import { forecastSpeedUnits } from '../levels/forecastSpeedUnit.ts';
 import { siteDefaultLevels } from '../levels/siteDefaultLevels.ts';
 import type { Db, Tx } from '../storage/database.ts';
 import { recordAudit } from './audit.ts';
 import { siteDefaultLevelIssues, siteDesignDensityKgM3 } from './levelCheck.ts';
+
+/** Bounds of the forecast feed's poll interval, ms: 5 minutes to 6 hours. */
+export const forecastFeedIntervalBoundsMs = { min: 5 * 60_000, max: 6 * 3_600_000 } as const;
+
+/** The feed's address: http or https, at most 2000 characters; "" or null switches the feed off. */
+export const forecastFeedUrlSchema = z
+  .string()
+  .trim()
+  .max(2000, 'must be at most 2000 characters')
+  .refine((url) => url === '' || /^https?:$/.test(safeUrl(url)?.protocol ?? ''), 'must be an http:// or https:// address (or empty for no feed)')
+  .transform((url) => (url === '' ? null : url))
+  .nullable();
+
+function safeUrl(text: string): URL | null {
+  try {
+    return new URL(text);
+  } catch {
+    return null;
+  }
+}
 
 export const terrainCategories = ['0', 'I', 'II', 'III', 'IV'] as const;
 
@@ -42,6 +63,18 @@ export const siteUpdateSchema = z
     holdTimeMs: z.number().int().min(0).max(6 * 3600_000),
     /** A level's action that moves a structure and is not marked done this long after its alert is signalled again as overdue (design §2.5). */
     actionDueMs: z.number().int().min(60_000, 'must be at least 1 minute (60000 ms)').max(3_600_000, 'must be at most 60 minutes (3600000 ms)'),
+    /** The forecast feed polled (design §2.7): an http(s) address, or null (or "") for none. */
+    forecastFeedUrl: forecastFeedUrlSchema,
+    /** How often the feed is polled: 5 minutes to 6 hours. */
+    forecastFeedIntervalMs: z
+      .number()
+      .int()
+      .min(forecastFeedIntervalBoundsMs.min, 'must be at least 5 minutes (300000 ms): a forecast changes more slowly, and the feed’s server would be asked too often')
+      .max(forecastFeedIntervalBoundsMs.max, 'must be at most 6 hours (21600000 ms): a forecast older than that is stale'),
+    /** Unit of bare numbers in the feed, or null when the file states its units. */
+    forecastFeedUnit: z.enum(forecastSpeedUnits, { error: 'must be one of m/s, km/h, kn or mph (or null when the feed states its units)' }).nullable(),
+    /** Height the feed's speeds refer to, m (forecasts give 10 m). */
+    forecastFeedHeightM: z.number().gt(0, 'must be above 0 m').max(200, 'must be at most 200 m'),
     defaultLevels: levelListSchema,
   })
   .partial()

@@ -18,6 +18,7 @@ import { alertsTable, auditTable, levelChangesTable, sensorsTable, structuresTab
 import { registeredConfigurationName, type StructureRecord } from '../engine/index.ts';
 import { ConfigurationHistory, configurationChangesInWindow, type ConfigurationChangeEntry } from './configurationLog.ts';
 import type { Db } from './database.ts';
+import { forecastCheck, type ForecastCheck } from './forecastCheck.ts';
 import { utilizationE4Unbounded } from './writeQueue.ts';
 
 type SensorRow = typeof sensorsTable.$inferSelect;
@@ -175,6 +176,8 @@ export interface DaySummary {
   actionsNotDoneCount: number;
   /** The site's action time now, ms: an action marked done later than this after its alert counts as late. */
   actionDueMs: number;
+  /** How the forecast feed did: each forecast hour beside the measured wind (storage/forecastCheck.ts). */
+  forecastCheck: ForecastCheck;
 }
 
 /**
@@ -317,6 +320,7 @@ export function daySummary(db: Db, fromMs: number, toMs: number, nowMs: number):
     actionsLateCount: withAction.filter((a) => lateAction(a) === true).length,
     actionsNotDoneCount: withAction.filter((a) => a.actionDoneAtMs === null).length,
     actionDueMs,
+    forecastCheck: forecastCheck(db, fromMs, toMs, nowMs),
   };
 }
 

@@ -5,7 +5,8 @@
 import { useEffect, useRef } from 'preact/hooks';
 import { keepScreenOn, signalAlert } from './alarm.ts';
 import { boardSummary, summaryText } from './boardSummary.ts';
-import { live, onAlert, startLive, stopLive, type Connection } from './live.ts';
+import { live, onAlert, refreshSnapshot, startLive, stopLive, type Connection } from './live.ts';
+import { onWorkerMessage } from './offline.ts';
 import { href, navigate, useRoute } from './router.ts';
 import { loadSite, site } from './site.ts';
 import { may, roleNames, session } from './session.ts';
@@ -25,6 +26,8 @@ import { People } from './screens/people.tsx';
 import { SiteLinks } from './screens/siteLinks.tsx';
 import { FirstStart, SignIn } from './screens/signIn.tsx';
 import { SetupChecklistScreen } from './screens/setupChecklist.tsx';
+import { MyAlerts } from './screens/myAlerts.tsx';
+import { AlertsOut } from './screens/alertsOut.tsx';
 
 const tabs: Array<{ path: string; label: string; match: string[] }> = [
   { path: '/', label: 'Board', match: ['', 'structure'] },
@@ -32,7 +35,7 @@ const tabs: Array<{ path: string; label: string; match: string[] }> = [
   { path: '/sensors', label: 'Sensors', match: ['sensors'] },
   { path: '/log', label: 'Log', match: ['log'] },
   { path: '/plan', label: 'Plan', match: ['plan'] },
-  { path: '/more', label: 'More', match: ['more', 'people', 'links', 'setup'] },
+  { path: '/more', label: 'More', match: ['more', 'people', 'links', 'setup', 'my-alerts', 'alerts-out'] },
 ];
 
 const connectionText: Record<Connection, string> = {
@@ -51,7 +54,7 @@ function ConnectionPill() {
     <span class={`pill ${ok ? 'pill-ok' : 'pill-bad'}`} role="status" aria-live="polite">
       <span class="pill-dot" aria-hidden="true" />
       {connectionText[state.connection]}
-      {!ok && age !== null ? <span class="pill-age"> · data {duration(age)} old</span> : null}
+      {!ok && state.keptAtMs !== null ? <span class="pill-age"> · OLD copy, {duration(Math.max(0, now - state.keptAtMs))} old</span> : !ok && age !== null ? <span class="pill-age"> · data {duration(age)} old</span> : null}
     </span>
   );
 }
@@ -152,6 +155,10 @@ function Screen() {
       return may(s, 'competent-person') ? <SiteLinks /> : <Refused need="competent person" />;
     case 'setup':
       return may(s, 'competent-person') ? <SetupChecklistScreen /> : <Refused need="competent person" />;
+    case 'my-alerts':
+      return <MyAlerts />;
+    case 'alerts-out':
+      return may(s, 'competent-person') ? <AlertsOut /> : <Refused need="competent person" />;
     default:
       return (
         <main id="main">
@@ -197,8 +204,11 @@ export function App() {
     const off = onAlert((a) => {
       if (a.acknowledgedAtMs === null) signalAlert();
     });
+    // A push shown or a notification's button pressed on this phone: the board catches up at once.
+    const offWorker = onWorkerMessage(() => void refreshSnapshot());
     return () => {
       off();
+      offWorker();
       stopLive();
     };
   }, [signedIn]);

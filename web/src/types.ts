@@ -89,6 +89,11 @@ export interface SiteView {
   holdTimeMs: number;
   /** Issue 14: how long after its alert a plan action may wait before it is signalled as overdue, ms (default 5 min). */
   actionDueMs?: number;
+  /** Issue 17: the forecast feed polled (null: none), its interval, the unit of bare numbers and the height of its speeds. */
+  forecastFeedUrl?: string | null;
+  forecastFeedIntervalMs?: number;
+  forecastFeedUnit?: 'm/s' | 'km/h' | 'kn' | 'mph' | null;
+  forecastFeedHeightM?: number;
   defaultLevels: LevelDefinition[];
   createdAtMs: number;
   updatedAtMs: number;

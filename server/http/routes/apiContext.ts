@@ -7,6 +7,7 @@ import type { Db } from '../../storage/database.ts';
 import type { WriteQueue } from '../../storage/writeQueue.ts';
 import type { Watch } from '../../watch/watch.ts';
 import type { Logger } from '../../log.ts';
+import type { ForecastFeed } from '../../forecastFeed/index.ts';
 
 export interface ApiContext {
   db: Db;
@@ -24,4 +25,6 @@ export interface ApiContext {
   health: () => Record<string, unknown>;
   /** For what the routes notice that an operator should see (a stream client dropped). */
   log?: Logger;
+  /** The forecast feed's poller (design §2.7); absent in contexts built without one. */
+  forecastFeed?: ForecastFeed;
 }

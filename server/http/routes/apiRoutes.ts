@@ -2,6 +2,7 @@
 import { Hono } from 'hono';
 import type { AppEnv } from '../access.ts';
 import type { ApiContext } from './apiContext.ts';
+import { forecastFeedRoutes } from './forecastFeedRoutes.ts';
 import { liveRoutes } from './liveRoutes.ts';
 import { logRoutes } from './logRoutes.ts';
 import { registerRoutes } from './registerRoutes.ts';
@@ -13,5 +14,6 @@ export function apiRoutes(ctx: ApiContext): Hono<AppEnv> {
   api.route('/', liveRoutes(ctx));
   api.route('/', registerRoutes(ctx));
   api.route('/', logRoutes(ctx));
+  api.route('/', forecastFeedRoutes(ctx));
   return api;
 }

@@ -261,7 +261,7 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
 }
 
 /** A structure in the forecast check with every configuration: what `predictPlannedLevels` takes, and what the answer shows of each. */
-function forecastConfigurations(
+export function forecastConfigurations(
   ctx: ApiContext,
   state: StructureState,
   currentLadder: number[],

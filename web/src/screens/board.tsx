@@ -2,7 +2,8 @@
  * The live board, phone first: the site in one line on top ("2 at Stop and clear · 1 at Prepare ·
  * 1 sensor silent"), then one alert card per structure (and per sensor in trouble), then the
  * site's wind now, then every structure worst first with its level, margin, limit gust and its
- * own current gust.
+ * own current gust; under each structure's card its estimates (design §2.7) in one line tagged as
+ * an estimate, the inputs on tap (components/foresightView.tsx).
  *
  * An alert card leads with the structure's current level and that level's action, acknowledged or
  * not; the structure's other alerts are folded into it (alertGroups.ts) and one tap on
@@ -23,7 +24,9 @@ import { groupAlerts, mayFold, type AlertGroup, type SensorAlertGroup, type Stru
 import { armSound, screenKeptOn, soundArmed, tapped } from '../alarm.ts';
 import { boardSummary, sensorTrouble as sensorTroubleKind, summaryText } from '../boardSummary.ts';
 import { Caution } from '../components/caution.tsx';
+import { NotifyHealthLine } from '../components/notifyHealth.tsx';
 import { ConfigurationLineView } from '../components/configurationLine.tsx';
+import { ForesightStrip } from '../components/foresightView.tsx';
 import { PlanActionDone, PlanActionStatus } from '../components/planAction.tsx';
 import { alertAction } from '../configurationState.ts';
 import { useNow } from '../components/clock.ts';
@@ -57,12 +60,19 @@ export function Board() {
     // On opening the board only: the stream keeps it current from there.
   }, []);
   const dataAgeMs = state.lastDataAtMs === null ? null : Date.now() - state.lastDataAtMs;
+  const boardTimeZone = useTimeZone();
 
   return (
     <main id="main" class={`board${connected ? '' : ' is-stale'}`}>
       <h1 class="visually-hidden">Live board</h1>
       {snap ? <SummaryLine structures={snap.structures} sensors={snap.sensors} /> : null}
-      {!connected ? (
+      <NotifyHealthLine />
+      {!connected && state.keptAtMs !== null ? (
+        <div class="stale-banner kept-banner" role="alert">
+          <strong>OLD DATA — {duration(Math.max(0, Date.now() - state.keptAtMs))} old.</strong> The server cannot be reached: this is the last copy kept on this phone
+          {' '}({clockTime(state.keptAtMs, boardTimeZone)}). Nothing here is current. Treat the wind as unknown until this goes away.
+        </div>
+      ) : !connected ? (
         <div class="stale-banner" role="alert">
           <strong>{state.connection === 'offline' ? 'No network.' : state.snapshot ? 'Connection lost — reconnecting…' : 'Connecting to the site…'}</strong>{' '}
           {dataAgeMs !== null ? `What you see is ${duration(dataAgeMs)} old and may not be true now. ` : 'No live data yet. '}
@@ -81,8 +91,9 @@ export function Board() {
             {snap.structures.length === 0 ? <p class="empty">No structures registered yet.</p> : null}
             <ul class="cards">
               {snap.structures.map((s) => (
-                <li key={s.id}>
+                <li key={s.id} class="card-with-foresight">
                   <StructureCard s={s} sensors={snap.sensors} />
+                  <BoardForesight s={s} sensors={snap.sensors} />
                 </li>
               ))}
             </ul>
@@ -604,4 +615,10 @@ export function StructureCard({ s, sensors }: { s: StructureState; sensors: Sens
       </p>
     </a>
   );
+}
+
+/** The structure's estimates under its card (design §2.7): beside the card's link, never inside it, so its tap opens the inputs. */
+function BoardForesight({ s, sensors }: { s: StructureState; sensors: SensorState[] }) {
+  const unit = useStore(prefs).unit;
+  return <ForesightStrip s={s} unit={unit} sensors={sensors} />;
 }

@@ -54,6 +54,22 @@ export function More() {
         {msg ? <p class="error-box">{msg}</p> : null}
       </section>
 
+      {s.kind === 'person' ? (
+        <section class="panel" aria-labelledby="alerts-h">
+          <h2 id="alerts-h">Alerts when the board is closed</h2>
+          <ul class="plain-list link-list">
+            <li>
+              <a href={href('/my-alerts')}>My alerts: push on this phone, e-mail, which alerts</a>
+            </li>
+            {may(s, 'competent-person') ? (
+              <li>
+                <a href={href('/alerts-out')}>Alerts out: webhooks, escalation, deliveries</a>
+              </li>
+            ) : null}
+          </ul>
+        </section>
+      ) : null}
+
       <section class="panel" aria-labelledby="pref-h">
         <h2 id="pref-h">This device</h2>
         <fieldset class="inline-radios">

@@ -15,6 +15,7 @@ import { useEffect, useRef, useState } from 'preact/hooks';
 import { api, ApiError, errorText } from '../api.ts';
 import { Caution } from '../components/caution.tsx';
 import { Field } from '../components/field.tsx';
+import { ForecastFeedPanel } from './forecastFeedPanel.tsx';
 import { LevelShape, levelTone, type Tone } from '../components/levelBadge.tsx';
 import { LevelsTable } from '../components/levelsTable.tsx';
 import { live } from '../live.ts';
@@ -74,6 +75,7 @@ export function Plan() {
           Wind action plan
         </button>
       </div>
+      {tab === 'forecast' ? <ForecastFeedPanel /> : null}
       {tab === 'forecast' ? <ForecastCheck answer={answer} setAnswer={setAnswer} /> : <ActionPlan forecast={answer} />}
     </main>
   );

@@ -8,6 +8,7 @@ import { useEffect, useRef, useState } from 'preact/hooks';
 import { api, ApiError, errorText } from '../api.ts';
 import { Caution } from '../components/caution.tsx';
 import { Field } from '../components/field.tsx';
+import { ForecastFeedSettings } from './forecastFeedSettings.tsx';
 import { LevelsEditor } from '../components/levelsEditor.tsx';
 import { ReadOnlyNote } from '../components/readOnlyNote.tsx';
 import { draftLevels, levelsToDraft, plainMessage, typedNumber, type LevelRowDraft } from '../register/structureDraft.ts';
@@ -154,6 +155,7 @@ export function SiteSettings() {
         <h1>Site settings</h1>
         <Caution />
         <SiteSettingsReadOnly s={current} density={density} unit={unit} />
+        <ForecastFeedSettings s={current} canEdit={false} />
       </main>
     );
   }
@@ -312,6 +314,7 @@ export function SiteSettings() {
           {busy ? 'Saving…' : 'Save site settings'}
         </button>
       </div>
+      <ForecastFeedSettings s={current} canEdit />
     </main>
   );
 }

@@ -10,6 +10,7 @@ import { DirectionsTable, ElementsList, Warnings } from '../components/assessmen
 import { Caution } from '../components/caution.tsx';
 import { ConfigurationLineView } from '../components/configurationLine.tsx';
 import { ConfigurationsSection } from '../components/configurationsTable.tsx';
+import { ForesightSection } from '../components/foresightView.tsx';
 import { useNow } from '../components/clock.ts';
 import { LevelBadge } from '../components/levelBadge.tsx';
 import { LevelsTable } from '../components/levelsTable.tsx';
@@ -168,6 +169,8 @@ export function StructurePage({ id }: { id: number }) {
         <p class="unknown-box">No live state for this structure: its wind is unknown.</p>
       )}
       <Caution />
+
+      {s ? <ForesightSection s={s} unit={unit} sensors={snap?.sensors ?? []} /> : null}
 
       {s ? <ConfigurationsSection s={s} unit={unit} timeZone={tz} canSwitch={may(who, 'competent-person')} /> : null}
 
