@@ -149,6 +149,10 @@ describe.skipIf(skipBrowserTests)('a plan action that moves a screen to “lower
       ['screenMassKg', '900'],
       ['outriggerDepthM', '4.5'],
       ['ballastPerTowerKg', '1200'],
+      // Rubber pads under the feet (μ 0.6, common practice value from memory): with the default μ
+      // the towers slide first, raised or lowered alike, and lowering would gain nothing (the towers
+      // stay standing: engine/configuration.ts).
+      ['frictionCoefficient', '0.6'],
     ] as const) {
       await page.fill(`#sf-${field}`, value);
     }
@@ -184,7 +188,7 @@ describe.skipIf(skipBrowserTests)('a plan action that moves a screen to “lower
 
     // What was saved: the configuration and the level's action (checked through the API).
     const saved = await cp.call<{ structure: { record: Record<string, unknown>; levels: Array<Record<string, unknown>> } }>('GET', `/api/structures/${ids[screenA]}`);
-    expect(saved.structure.record).toMatchObject({ configurationName: 'raised', bottomHeightM: 4, configurations: [{ name: 'lowered', changes: { bottomHeightM: 0.5 } }] });
+    expect(saved.structure.record).toMatchObject({ configurationName: 'raised', bottomHeightM: 4, frictionCoefficient: 0.6, configurations: [{ name: 'lowered', changes: { bottomHeightM: 0.5 } }] });
     expect(saved.structure.levels.map((l) => l.moveToConfiguration ?? null)).toEqual([null, 'lowered', null]);
 
     // Saved again unchanged, nothing is lost (the form kept the configurations).
