@@ -195,6 +195,13 @@ export const levelChangesTable = sqliteTable(
     gustMps: real('gust_mps'),
     utilization: real(),
     noData: integer('no_data', { mode: 'boolean' }).notNull().default(false),
+    /**
+     * The estimate in force just before a rise (design §2.7): the level it was for (the next one
+     * above the level left), and its chance within 10 and 30 minutes; null when there was none.
+     */
+    estimateLevel: integer('estimate_level'),
+    estimateChance10: real('estimate_chance_10'),
+    estimateChance30: real('estimate_chance_30'),
   },
   (t) => [index('level_changes_structure_at').on(t.structureId, t.atMs), index('level_changes_at').on(t.atMs)],
 );

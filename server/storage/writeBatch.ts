@@ -36,6 +36,8 @@ export interface LevelChangeRow {
   gustMps: number | null;
   utilization: number | null;
   noData: boolean;
+  /** The estimate in force just before a rise: the level it was for and its chances within 10 and 30 min (foresight). */
+  estimate?: { level: number; chance10: number; chance30: number } | null;
 }
 
 export interface AlertRow {

@@ -167,7 +167,7 @@ export class WriteQueue {
          max_level = max(max_level, excluded.max_level)`,
     );
     this.insertLevelChange = sqlite.prepare(
-      `INSERT INTO level_changes (structure_id, at_ms, from_level, to_level, gust_mps, utilization, no_data) VALUES (?, ?, ?, ?, ?, ?, ?)`,
+      `INSERT INTO level_changes (structure_id, at_ms, from_level, to_level, gust_mps, utilization, no_data, estimate_level, estimate_chance_10, estimate_chance_30) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
     );
     this.insertAlert = sqlite.prepare(
       `INSERT OR IGNORE INTO alerts (id, site_id, kind, structure_id, sensor_id, level, label, action_text, raised_at_ms, gust_mps, utilization, move_to_configuration)
@@ -367,7 +367,8 @@ export class WriteQueue {
   }
 
   private writeLevelChange(row: LevelChangeRow): void {
-    this.insertLevelChange.run(row.structureId, row.atMs, row.fromLevel, row.toLevel, row.gustMps, finiteOrNull(row.utilization), row.noData ? 1 : 0);
+    const e = row.estimate ?? null;
+    this.insertLevelChange.run(row.structureId, row.atMs, row.fromLevel, row.toLevel, row.gustMps, finiteOrNull(row.utilization), row.noData ? 1 : 0, e?.level ?? null, e ? finiteOrNull(e.chance10) : null, e ? finiteOrNull(e.chance30) : null);
   }
 
   private writeAcknowledgement(ack: AcknowledgementRow): void {

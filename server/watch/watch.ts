@@ -853,7 +853,10 @@ export class Watch implements ReadingConsumer {
     switch (event.type) {
       case 'escalated':
       case 'de-escalated': {
-        batch.levelChanges.push({ structureId: s.model.id, atMs: event.atMs, fromLevel: event.fromLevel, toLevel: event.toLevel, gustMps: event.gustMps, utilization, noData: false });
+        // The estimate in force before a rise goes with it into the log (how the estimates did, design §2.7).
+        const f = s.foresight;
+        const estimate = event.type === 'escalated' && f !== null && !('unknown' in f) && f.nextLevel !== null && f.nextChance10 !== null && f.nextChance30 !== null ? { level: f.nextLevel, chance10: f.nextChance10, chance30: f.nextChance30 } : null;
+        batch.levelChanges.push({ structureId: s.model.id, atMs: event.atMs, fromLevel: event.fromLevel, toLevel: event.toLevel, gustMps: event.gustMps, utilization, noData: false, estimate });
         this.options.onNotice?.(`${s.model.name}: level ${event.fromLevel} → ${event.toLevel}`, { structureId: s.model.id, gustMps: event.gustMps });
         if (event.type === 'escalated') {
           const def = s.model.levels[event.toLevel - 1]!;

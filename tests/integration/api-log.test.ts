@@ -296,7 +296,7 @@ describe('CSV exports (GET /api/export/<table>.csv)', () => {
     'wind-minutes': 'sensor,minute_local,minute_utc,samples,mean_mps,max_gust_mps,mean_dir_from_deg',
     'structure-minutes': 'structure,minute_local,minute_utc,max_gust_mps,max_utilization_pct,min_margin_pct,max_level',
     // Issue 14 added columns at the end (README "CSV exports"): the configuration a level change was assessed in, and each alert's plan action.
-    'level-changes': 'structure,time_local,time_utc,event,from_level,to_level,gust_mps,utilization_pct,margin_pct,configuration',
+    'level-changes': 'structure,time_local,time_utc,event,from_level,to_level,gust_mps,utilization_pct,margin_pct,configuration,estimate_level,estimate_chance_10min_pct,estimate_chance_30min_pct',
     alerts:
       'id,kind,structure,sensor,level,label,raised_local,raised_utc,gust_mps,utilization_pct,acknowledged_local,acknowledged_utc,acknowledged_by,note,cleared_local,cleared_utc,action,move_to_configuration,action_done_local,action_done_utc,action_done_by,overdue_local,overdue_utc,action_late',
     audit: 'time_local,time_utc,who,what,id,action,before,after',

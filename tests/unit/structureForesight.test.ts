@@ -112,5 +112,21 @@ describe('foresight in the live watch', () => {
     expect(f.limitChance30).toBeGreaterThanOrEqual(f.limitChance10);
     expect(f.limitChance10).toBeLessThanOrEqual(f.nextChance10!);
     expect(f.expectedPeak10Mps).toBeGreaterThan(f.meanMps);
+
+    // A gust past the first level: the level change written for the log carries the estimate in
+    // force just before it (how the estimates did, design §2.7).
+    const firstTrigger = watch.structureStateById(1)!.triggerGustsMps[0]!;
+    let rise: import('../../server/storage/writeBatch.ts').LevelChangeRow | undefined;
+    // A steady rise of 1.5 m/s a second (no implausible step) until the level rises.
+    for (let speed = 9; speed < 1.6 * firstTrigger && rise === undefined; speed += 1.5) {
+      now += 1_000;
+      const step = watch.take(mast, [{ tsMs: now, speedMps: speed, gustMps: null, dirDeg: 240, tempC: null, pressurePa: null, rhPct: null }], now);
+      rise = step?.batch.levelChanges.find((c) => c.toLevel > c.fromLevel);
+    }
+    expect(rise).toBeDefined();
+    expect(rise!.estimate!.level).toBe(1);
+    expect(rise!.estimate!.chance30).toBeGreaterThanOrEqual(rise!.estimate!.chance10);
+    expect(rise!.estimate!.chance10).toBeGreaterThanOrEqual(0);
+    expect(rise!.estimate!.chance30).toBeLessThanOrEqual(1);
   });
 });

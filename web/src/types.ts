@@ -114,6 +114,10 @@ export interface LevelChangeRow {
   gustMps: number | null;
   utilization: number | null;
   noData: boolean;
+  /** The estimate in force just before a rise (design §2.7): the level it was for, its chance within 10 and 30 min; null when there was none. */
+  estimateLevel?: number | null;
+  estimateChance10?: number | null;
+  estimateChance30?: number | null;
   structureName?: string | null;
 }
 

@@ -395,11 +395,11 @@ export function exportCsv(ctx: Pick<ApiContext, 'db'>, table: (typeof csvTables)
     case 'level-changes': {
       const rows = sqlite
         .prepare(
-          `SELECT t.name, c.at_ms, c.from_level, c.to_level, c.gust_mps, c.utilization, c.no_data, c.structure_id, t.record_json
+          `SELECT t.name, c.at_ms, c.from_level, c.to_level, c.gust_mps, c.utilization, c.no_data, c.structure_id, t.record_json, c.estimate_level, c.estimate_chance_10, c.estimate_chance_30
            FROM level_changes c JOIN structures t ON t.id = c.structure_id WHERE c.at_ms >= ? AND c.at_ms < ? ORDER BY c.at_ms, c.id`,
         )
         .raw()
-        .all(fromMs, toMs) as Array<[string, number, number, number, number | null, number | null, number, number, string]>;
+        .all(fromMs, toMs) as Array<[string, number, number, number, number | null, number | null, number, number, string, number | null, number | null, number | null]>;
       // The configuration each change was assessed in (design §2.5): the log's last switch at or before it, else the one as registered.
       const history = new ConfigurationHistory(ctx.db, toMs);
       const registered = new Map<number, string>();
@@ -412,8 +412,11 @@ export function exportCsv(ctx: Pick<ApiContext, 'db'>, table: (typeof csvTables)
         return name;
       };
       return toCsv(
-        ['structure', 'time_local', 'time_utc', 'event', 'from_level', 'to_level', 'gust_mps', 'utilization_pct', 'margin_pct', 'configuration'],
-        rows.map((r) => [r[0], loc(r[1]), iso(r[1]), r[6] ? 'no data' : r[3] > r[2] ? 'raised' : r[3] < r[2] ? 'lowered' : 'data back', r[2], r[3], rounded(r[4], 1), pct(r[5]), marginPct(r[5]), history.at(r[7], r[1]) ?? registeredName(r[7], r[8])]),
+        ['structure', 'time_local', 'time_utc', 'event', 'from_level', 'to_level', 'gust_mps', 'utilization_pct', 'margin_pct', 'configuration', 'estimate_level', 'estimate_chance_10min_pct', 'estimate_chance_30min_pct'],
+        rows.map((r) => [
+          r[0], loc(r[1]), iso(r[1]), r[6] ? 'no data' : r[3] > r[2] ? 'raised' : r[3] < r[2] ? 'lowered' : 'data back', r[2], r[3], rounded(r[4], 1), pct(r[5]), marginPct(r[5]), history.at(r[7], r[1]) ?? registeredName(r[7], r[8]),
+          r[9] ?? '', r[10] === null ? '' : rounded(r[10] * 100, 1), r[11] === null ? '' : rounded(r[11] * 100, 1),
+        ]),
       );
     }
     case 'alerts': {

@@ -21,6 +21,7 @@ import { prefs } from '../prefs.ts';
 import { href } from '../router.ts';
 import { useTimeZone } from '../site.ts';
 import { useStore } from '../store.ts';
+import { chanceText } from '../foresightWords.ts';
 import type { AlertRow, ConfigurationChangeEntry, ConfigurationLog, DaySummary, LevelChangeRow, OverdueSignalEntry, StructureDay, StructureLog, WindLog } from '../types.ts';
 import { clockTime, dateTime, dayOf, duration, hourMinute, longDate, mpsToSpeed, percent, speed, speedUnitLabels } from '../units.ts';
 
@@ -226,6 +227,11 @@ function LogBody({ data, unit, tz, siteName, title }: { data: LogData; unit: Par
               <LevelShape tone={levelTone(c.toLevel, 3, c.noData)} size={18} /> <strong>{name}</strong>: {what}
               {c.gustMps !== null ? ` at ${speed(c.gustMps, unit)}` : ''}
               {c.utilization !== null ? `, ${percent(c.utilization)} of capacity` : ''}
+              {c.estimateLevel != null && c.estimateChance30 != null && c.estimateChance10 != null ? (
+                <span class="t-estimate">
+                  {' '}· the estimate before it: level {c.estimateLevel} {chanceText(c.estimateChance10)} within 10 min, {chanceText(c.estimateChance30)} within 30 min
+                </span>
+              ) : null}
             </span>
           </>
         ),
