@@ -101,7 +101,7 @@ function readmeColumns(table: string): string[] {
   return cell
     .replace(/\([^)]*\)/g, '')
     .split(',')
-    .map((part) => /`([a-z_]+)`/.exec(part)?.[1])
+    .map((part) => /`([a-z0-9_]+)`/.exec(part)?.[1])
     .filter((c): c is string => c !== undefined);
 }
 
