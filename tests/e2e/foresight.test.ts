@@ -318,6 +318,10 @@ describe.skipIf(skipBrowserTests)('foresight: the estimates on the board and the
     expect(text).toContain('mean U 10.0 m/s, spread σ 2.1 m/s');
     expect(text).toContain('Theil–Sen');
     await viewShot(page, section.getByTestId('foresight-inputs'), 'foresight-structure-open-phone');
+    // The forecast's 12 hours for this structure: with no feed set, the page says so (never calm).
+    const feed = page.locator('section.feed-panel');
+    await feed.waitFor();
+    expect(plain(await feed.textContent())).toContain('No forecast feed is set');
     const violations = await seriousAxeViolations(page);
     expect(violations, describeViolations(violations)).toEqual([]);
     await page.setViewportSize(desktop);

@@ -43,7 +43,11 @@ interface FeedAnswer {
 
 const refreshMs = 60_000;
 
-export function ForecastFeedPanel() {
+/**
+ * `structureId`: only that structure's row (its structure page: "the forecast's predicted level
+ * for the next 12 hours"); otherwise every structure (the Plan screen).
+ */
+export function ForecastFeedPanel({ structureId }: { structureId?: number } = {}) {
   const tz = useTimeZone();
   const unit = useStore(prefs).unit;
   const [feed, setFeed] = useState<FeedAnswer | null>(null);
@@ -82,16 +86,17 @@ export function ForecastFeedPanel() {
     return feed ? (
       <section class="feed-panel" aria-labelledby="feed-h">
         <h2 id="feed-h">From the feed</h2>
-        <p class="muted">No forecast feed is set (Site settings, “Forecast feed”). Paste a forecast below instead.</p>
+        <p class="muted">No forecast feed is set (Site settings, “Forecast feed”).{structureId === undefined ? ' Paste a forecast below instead.' : ' The Plan screen checks a pasted forecast.'}</p>
       </section>
     ) : null;
   }
   const last = feed.lastPoll;
-  const p = feed.predictions;
+  const all = feed.predictions;
+  const p = all && structureId !== undefined ? { ...all, structures: all.structures.filter((x) => x.id === structureId), notChecked: all.notChecked.filter((x) => x.id === structureId) } : all;
   return (
     <section class={`feed-panel${feed.stale ? ' feed-stale' : ''}`} aria-labelledby="feed-h">
       <h2 id="feed-h">
-        From the feed {feed.stale ? <span class="feed-flag">STALE</span> : last && !last.ok ? <span class="feed-flag">FAILING</span> : null}
+        {structureId === undefined ? 'From the feed' : 'Forecast from the feed, next 12 hours'} {feed.stale ? <span class="feed-flag">STALE</span> : last && !last.ok ? <span class="feed-flag">FAILING</span> : null}
       </h2>
       <p class="small">
         {last === null

@@ -11,6 +11,7 @@ import { Caution } from '../components/caution.tsx';
 import { ConfigurationLineView } from '../components/configurationLine.tsx';
 import { ConfigurationsSection } from '../components/configurationsTable.tsx';
 import { ForesightSection } from '../components/foresightView.tsx';
+import { ForecastFeedPanel } from './forecastFeedPanel.tsx';
 import { useNow } from '../components/clock.ts';
 import { LevelBadge } from '../components/levelBadge.tsx';
 import { LevelsTable } from '../components/levelsTable.tsx';
@@ -171,6 +172,7 @@ export function StructurePage({ id }: { id: number }) {
       <Caution />
 
       {s ? <ForesightSection s={s} unit={unit} sensors={snap?.sensors ?? []} /> : null}
+      {s ? <ForecastFeedPanel structureId={s.id} /> : null}
 
       {s ? <ConfigurationsSection s={s} unit={unit} timeZone={tz} canSwitch={may(who, 'competent-person')} /> : null}
 
