@@ -406,6 +406,7 @@ function LogBody({ data, unit, tz, siteName, title }: { data: LogData; unit: Par
       </section>
 
       <PlanActions summary={summary} tz={tz} />
+      <ForecastAgainstMeasured summary={summary} tz={tz} />
 
       <section aria-labelledby="wind-log-h" class="report-section">
         <h2 id="wind-log-h">Wind</h2>
@@ -516,6 +517,66 @@ function ActionCounts({ summary }: { summary: DaySummary }) {
 }
 
 type DayAction = StructureDay['alerts'][number] & { structure: string };
+
+/**
+ * How the forecast feed did (issue 17), for the report: each forecast hour's mean and gust beside
+ * the measured ones of the site's highest sensor, the difference, and the summary; nothing when no
+ * feed was polled that day.
+ */
+function ForecastAgainstMeasured({ summary, tz }: { summary: DaySummary; tz: string }) {
+  const unit = useStore(prefs).unit;
+  const check = summary.forecastCheck;
+  if (!check || (check.hours.length === 0 && check.pollCount === 0)) return null;
+  const diff = (v: number | null): string => (v === null ? '—' : `${v > 0 ? '+' : v < 0 ? '−' : ''}${speed(Math.abs(v), unit)}`);
+  const sum = check.summary;
+  return (
+    <section aria-labelledby="fc-h" class="report-section forecast-check">
+      <h2 id="fc-h">Forecast against measured wind</h2>
+      <p class="small">
+        {check.pollCount} feed polls that day{check.failedPollCount > 0 ? `, ${check.failedPollCount} failed` : ''}. Measured at{' '}
+        {check.sensor ? `${check.sensor.name} (${check.sensor.heightM} m)` : 'no sensor (no wind data)'}; the forecast's speeds at {check.forecastHeightM} m, not converted.
+        {sum.gustHours > 0 ? ` The measured gust was above the forecast in ${sum.gustUnderForecastHours} of ${sum.gustHours} hours` : ''}
+        {sum.largestGustUnderForecastMps !== null && sum.largestGustUnderForecastAtMs !== null ? `, by up to ${speed(sum.largestGustUnderForecastMps, unit)} (${hourMinute(sum.largestGustUnderForecastAtMs, tz)})` : ''}
+        {sum.gustHours > 0 ? '.' : ''}
+      </p>
+      {check.notes.length > 0 ? (
+        <ul class="small">
+          {check.notes.map((n) => (
+            <li>{n}</li>
+          ))}
+        </ul>
+      ) : null}
+      {check.hours.length > 0 ? (
+        <div class="table-scroll">
+          <table class="data stack-sm">
+            <caption>Each forecast hour beside the measured wind (forecast − measured)</caption>
+            <thead>
+              <tr>
+                <th scope="col">Hour</th>
+                <th scope="col">Forecast mean / gust</th>
+                <th scope="col">Measured mean / gust</th>
+                <th scope="col">Difference mean / gust</th>
+              </tr>
+            </thead>
+            <tbody>
+              {check.hours.map((h) => (
+                <tr class={h.gustDifferenceMps !== null && h.gustDifferenceMps < 0 ? 'action-late' : ''}>
+                  <th scope="row">{hourMinute(h.timeMs, tz)}</th>
+                  <td data-label="Forecast">{h.forecastMeanMps === null ? '—' : speed(h.forecastMeanMps, unit)} / {h.forecastGustMps === null ? '—' : speed(h.forecastGustMps, unit)}</td>
+                  <td data-label="Measured">
+                    {h.measuredMeanMps === null ? 'no data' : speed(h.measuredMeanMps, unit)} / {h.measuredGustMps === null ? 'no data' : speed(h.measuredGustMps, unit)}
+                    {h.counted ? '' : ` (${h.minutesWithData} min of data: not counted)`}
+                  </td>
+                  <td data-label="Difference">{diff(h.meanDifferenceMps)} / {diff(h.gustDifferenceMps)}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      ) : null}
+    </section>
+  );
+}
 
 /**
  * The day's plan actions, for the report: every level alert whose action moves a structure to
