@@ -17,7 +17,7 @@ import { randomBytes } from 'node:crypto';
 import { desc, eq } from 'drizzle-orm';
 import { Hono } from 'hono';
 import { z } from 'zod';
-import { notifyEscalationTable, notifyEscalationsTable, notifyPersonSettingsTable, notifyWebhooksTable } from '../../../db/schema.ts';
+import { notifyEscalationTable, notifyEscalationsTable, notifyPersonSettingsTable, notifyWebhooksTable, peopleTable } from '../../../db/schema.ts';
 import { principalName } from '../../auth/accounts.ts';
 import { checkWebhookUrl, ConfigError } from '../../config.ts';
 import { escalationChainsSchema, notifyFilterSchema, type Notifier } from '../../notify/index.ts';
@@ -75,6 +75,18 @@ function shownWebhook(row: typeof notifyWebhooksTable.$inferSelect) {
 export function notifyRoutes(ctx: NotifyRoutesContext): Hono<AppEnv> {
   const api = new Hono<AppEnv>();
   const { db, notifier } = ctx;
+
+  // ---------- who can be named in an escalation step ----------
+
+  /**
+   * The people an escalation step can name, for the competent person who sets the chains (the
+   * full list of people, with usernames and sign-in state, stays the administrator's): id, name
+   * and role of everyone not disabled.
+   */
+  api.get('/notify/people', requireRole('competent-person'), (c) => {
+    const people = db.select({ id: peopleTable.id, displayName: peopleTable.displayName, role: peopleTable.role, disabledAtMs: peopleTable.disabledAtMs }).from(peopleTable).orderBy(peopleTable.displayName).all();
+    return c.json({ people: people.filter((p) => p.disabledAtMs === null).map(({ id, displayName, role }) => ({ id, displayName, role })) });
+  });
 
   // ---------- webhooks ----------
 

@@ -61,13 +61,9 @@ export function AlertsOut() {
       .catch((err) => setHookError(errorText(err)));
   }, [reloadHooks]);
   useEffect(() => {
-    // Names of people for escalation steps and deliveries: only an administrator may list them.
-    if (!may(session.get(), 'admin')) {
-      setPeople(new Map());
-      return;
-    }
-    api<{ people: Person[] }>('/api/people')
-      .then((a) => setPeople(new Map(a.people.filter((p) => p.disabledAtMs === null).map((p) => [p.id, p.displayName]))))
+    // Names of people for escalation steps and deliveries (id, name, role: GET /api/notify/people).
+    api<{ people: Array<{ id: number; displayName: string }> }>('/api/notify/people')
+      .then((a) => setPeople(new Map(a.people.map((p) => [p.id, p.displayName]))))
       .catch(() => setPeople(new Map()));
   }, []);
 
