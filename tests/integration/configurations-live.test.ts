@@ -15,6 +15,7 @@ import path from 'node:path';
 import fs from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ApiClient, adminPassword, adminUsername, startTestServer, waitFor, type TestServer } from '../helpers/testServer.ts';
+import { harbourScreen, harbourLevels } from '../helpers/harbourScreen.ts';
 
 let clock = Date.UTC(2026, 6, 18, 14, 0, 0);
 let ts: TestServer;
@@ -24,29 +25,9 @@ let gateway: MqttClient;
 let gatewayPassword = '';
 let screenId = 0;
 
-const screen = {
-  kind: 'screen',
-  name: 'Harbour stage LED wall',
-  configurationName: 'raised',
-  widthM: 6,
-  heightM: 4,
-  bottomHeightM: 3,
-  supportTowers: 2,
-  towerMassKg: 400,
-  screenMassKg: 600,
-  outriggerDepthM: 3,
-  ballastPerTowerKg: 1500,
-  frictionCoefficient: 0.7,
-  towerWidthM: 0,
-  headerTrussDepthM: 0,
-  configurations: [{ name: 'lowered', changes: { bottomHeightM: 1.2 } }],
-};
+const screen = harbourScreen;
 
-const levels = [
-  { label: 'Prepare', trigger: { kind: 'utilization', fraction: 0.5 }, actionText: 'Crew to the screen; clear the area behind it.' },
-  { label: 'Lower the screen', trigger: { kind: 'utilization', fraction: 0.7 }, actionText: 'Lower the LED wall to its bottom stop.', moveToConfiguration: 'lowered' },
-  { label: 'Stop and clear', trigger: { kind: 'utilization', fraction: 0.9 }, actionText: 'Stop the show; clear 1.5 × height around the wall.' },
-];
+const levels = harbourLevels;
 
 async function publish(gustMps: number): Promise<void> {
   clock += 1_000;

@@ -15,6 +15,7 @@ import mqtt, { type MqttClient } from 'mqtt';
 import { SMTPServer } from 'smtp-server';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ApiClient, adminPassword, adminUsername, startTestServer, waitFor, type TestServer } from '../helpers/testServer.ts';
+import { harbourScreenPlain, harbourLevelsPlain } from '../helpers/harbourScreen.ts';
 
 let clock = Date.UTC(2026, 6, 18, 14, 0, 0);
 let ts: TestServer;
@@ -31,27 +32,8 @@ interface Mail {
 }
 const inbox: Mail[] = [];
 
-const screen = {
-  kind: 'screen',
-  name: 'Harbour stage LED wall',
-  configurationName: 'raised',
-  widthM: 6,
-  heightM: 4,
-  bottomHeightM: 3,
-  supportTowers: 2,
-  towerMassKg: 400,
-  screenMassKg: 600,
-  outriggerDepthM: 3,
-  ballastPerTowerKg: 1500,
-  frictionCoefficient: 0.7,
-  towerWidthM: 0,
-  headerTrussDepthM: 0,
-};
-const levels = [
-  { label: 'Prepare', trigger: { kind: 'utilization', fraction: 0.5 }, actionText: 'Crew to the screen; clear the area behind it.' },
-  { label: 'Lower the screen', trigger: { kind: 'utilization', fraction: 0.7 }, actionText: 'Lower the LED wall to its bottom stop.' },
-  { label: 'Stop and clear', trigger: { kind: 'utilization', fraction: 0.9 }, actionText: 'Stop the show; clear 1.5 × height around the wall.' },
-];
+const screen = harbourScreenPlain;
+const levels = harbourLevelsPlain;
 
 /** A body part decoded by its Content-Transfer-Encoding (RFC 2045 §6.7 quoted-printable, §6.8 base64). */
 function decodePart(headers: string, body: string): string {

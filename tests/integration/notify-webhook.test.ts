@@ -20,6 +20,7 @@ import { configFromEnv } from '../../server/config.ts';
 import { createLogger } from '../../server/log.ts';
 import { startServer, type RunningServer } from '../../server/runtime.ts';
 import { ApiClient, adminPassword, adminUsername, waitFor } from '../helpers/testServer.ts';
+import { harbourScreenPlain, harbourLevelsPlain } from '../helpers/harbourScreen.ts';
 
 const secret = 'test-webhook-secret-0123456789';
 let clock = Date.UTC(2026, 6, 18, 14, 0, 0);
@@ -46,27 +47,8 @@ let gateway: MqttClient;
 let gatewayPassword = '';
 let screenId = 0;
 
-const screen = {
-  kind: 'screen',
-  name: 'Harbour stage LED wall',
-  configurationName: 'raised',
-  widthM: 6,
-  heightM: 4,
-  bottomHeightM: 3,
-  supportTowers: 2,
-  towerMassKg: 400,
-  screenMassKg: 600,
-  outriggerDepthM: 3,
-  ballastPerTowerKg: 1500,
-  frictionCoefficient: 0.7,
-  towerWidthM: 0,
-  headerTrussDepthM: 0,
-};
-const levels = [
-  { label: 'Prepare', trigger: { kind: 'utilization', fraction: 0.5 }, actionText: 'Crew to the screen; clear the area behind it.' },
-  { label: 'Lower the screen', trigger: { kind: 'utilization', fraction: 0.7 }, actionText: 'Lower the LED wall to its bottom stop.' },
-  { label: 'Stop and clear', trigger: { kind: 'utilization', fraction: 0.9 }, actionText: 'Stop the show; clear 1.5 × height around the wall.' },
-];
+const screen = harbourScreenPlain;
+const levels = harbourLevelsPlain;
 
 function env(): NodeJS.ProcessEnv {
   return { DATA_DIR: dataDir, PORT: '0', HOST: '127.0.0.1', MQTT_PORT: '0', MQTT_HOST: '127.0.0.1', ADMIN_USERNAME: adminUsername, ADMIN_PASSWORD: adminPassword, ALERT_WEBHOOK_URL: `${receiverUrl}/hook`, ALERT_WEBHOOK_SECRET: secret };
