@@ -10,12 +10,12 @@
 import { describe, expect, it } from 'vitest';
 import type { Reading } from '../../server/ingest/payload.ts';
 import type { RegisteredSensor } from '../../server/ingest/registry.ts';
-import { siteDefaultLevels } from '../../server/levels/index.ts';
 import { frameRecords, selectFrame, type Frame, type FrameRow } from '../../server/live/frames.ts';
 import { LiveHub, type LiveEvent } from '../../server/live/liveHub.ts';
 import { seededRandom } from '../../server/demo/random.ts';
 import type { StructureRow } from '../../server/watch/structureModel.ts';
 import { Watch, type SiteSettings } from '../../server/watch/watch.ts';
+import { testSite } from '../helpers/testSite.ts';
 
 const t0 = Date.UTC(2026, 6, 4, 13, 0, 0);
 
@@ -63,22 +63,7 @@ describe('selectFrame', () => {
   });
 });
 
-function site(): SiteSettings {
-  return {
-    id: 1,
-    name: 'Saltmarsh Meadows',
-    altitudeM: 0,
-    terrainCategory: 'II',
-    timeZone: 'Europe/London',
-    airDensityMode: 'isa',
-    fixedAirDensityKgM3: null,
-    heightReductionEnabled: false,
-    directionalEnabled: false,
-    deadBandFraction: 0.1,
-    holdTimeMs: 0,
-    defaultLevels: siteDefaultLevels,
-  };
-}
+const site = (): SiteSettings => testSite({ name: 'Saltmarsh Meadows', holdTimeMs: 0 });
 
 function sensor(id: number): RegisteredSensor {
   return { id, siteId: 1, key: `mast-${String(id).padStart(3, '0')}`, name: `Mast ${id}`, heightM: 10, location: '', latDeg: null, lonDeg: null, unit: 'm/s', mode: 'summaries', silenceTimeoutMs: 30_000, createdAtMs: t0, retiredAtMs: null };

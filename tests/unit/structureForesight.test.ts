@@ -9,11 +9,11 @@
 import { describe, expect, it } from 'vitest';
 import type { Reading } from '../../server/ingest/payload.ts';
 import type { RegisteredSensor } from '../../server/ingest/registry.ts';
-import { siteDefaultLevels } from '../../server/levels/index.ts';
 import { LiveHub } from '../../server/live/liveHub.ts';
 import { seededRandom, normal } from '../../server/demo/random.ts';
 import { structureForesight, type ForesightView } from '../../server/watch/structureForesight.ts';
 import { Watch, type SiteSettings } from '../../server/watch/watch.ts';
+import { testSite } from '../helpers/testSite.ts';
 
 const known = { status: 'known' as const, source: 'samples' as const, meanMps: 10, sigmaMps: 2, upcrossingRateHz: 0.2, upcrossingRateSource: 'counted' as const, peakMps: 15, sampleCount: 600, observedS: 600, upcrossings: 120 };
 
@@ -66,9 +66,7 @@ describe('structureForesight, hand-worked', () => {
   });
 });
 
-function site(): SiteSettings {
-  return { id: 1, name: 'Gullhaven Quay', altitudeM: 0, terrainCategory: 'II', timeZone: 'Europe/London', airDensityMode: 'isa', fixedAirDensityKgM3: null, heightReductionEnabled: false, directionalEnabled: false, deadBandFraction: 0.1, holdTimeMs: 900_000, defaultLevels: siteDefaultLevels };
-}
+const site = (): SiteSettings => testSite();
 
 describe('foresight in the live watch', () => {
   it('appears on the structure once enough raw samples are in, with its inputs, and is unknown before', () => {

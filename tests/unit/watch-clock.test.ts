@@ -8,27 +8,14 @@
 import { describe, expect, it } from 'vitest';
 import type { Reading } from '../../server/ingest/payload.ts';
 import type { RegisteredSensor } from '../../server/ingest/registry.ts';
-import { siteDefaultLevels } from '../../server/levels/index.ts';
 import { LiveHub } from '../../server/live/liveHub.ts';
 import type { AlertRow, WriteBatch } from '../../server/storage/writeBatch.ts';
 import { Watch, type SiteSettings } from '../../server/watch/watch.ts';
+import { testSite } from '../helpers/testSite.ts';
 
 const t0 = Date.UTC(2026, 7, 8, 15, 0, 0);
 
-const site: SiteSettings = {
-  id: 1,
-  name: 'Harrowmere Showfield',
-  altitudeM: 0,
-  terrainCategory: 'II',
-  timeZone: 'Europe/London',
-  airDensityMode: 'isa',
-  fixedAirDensityKgM3: null,
-  heightReductionEnabled: false,
-  directionalEnabled: false,
-  deadBandFraction: 0.1,
-  holdTimeMs: 900_000,
-  defaultLevels: siteDefaultLevels,
-};
+const site: SiteSettings = testSite({ name: 'Harrowmere Showfield' });
 
 function sensor(silenceTimeoutMs: number): RegisteredSensor {
   return { id: 1, siteId: 1, key: 'gate-mast', name: 'Gate mast', heightM: 6, location: '', latDeg: null, lonDeg: null, unit: 'm/s', mode: 'summaries', silenceTimeoutMs, createdAtMs: t0, retiredAtMs: null };

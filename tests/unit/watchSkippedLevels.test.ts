@@ -7,12 +7,12 @@
  */
 import { describe, expect, it } from 'vitest';
 import type { RegisteredSensor } from '../../server/ingest/registry.ts';
-import { siteDefaultLevels } from '../../server/levels/index.ts';
 import { LiveHub } from '../../server/live/liveHub.ts';
 import { Watch, type SiteSettings } from '../../server/watch/watch.ts';
+import { testSite } from '../helpers/testSite.ts';
 
 const t0 = Date.UTC(2026, 7, 8, 15, 0, 0);
-const site: SiteSettings = { id: 1, name: 'Gullhaven Quay', altitudeM: 0, terrainCategory: 'II', timeZone: 'Europe/London', airDensityMode: 'isa', fixedAirDensityKgM3: null, heightReductionEnabled: false, directionalEnabled: false, deadBandFraction: 0.1, holdTimeMs: 900_000, defaultLevels: siteDefaultLevels };
+const site: SiteSettings = testSite();
 const mast: RegisteredSensor = { id: 1, siteId: 1, key: 'quay-mast', name: 'Quay mast', heightM: 10, location: '', latDeg: null, lonDeg: null, unit: 'm/s', mode: 'summaries', silenceTimeoutMs: 30_000, createdAtMs: t0, retiredAtMs: null };
 // The screen of tests/unit/configuration.test.ts (raised limit 14.75 m/s at 1.225 kg/m³, hand-worked there).
 const screen = {
