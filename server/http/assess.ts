@@ -27,6 +27,7 @@ import {
 import { levelListSchema } from '../levels/index.ts';
 import { levelProblems, rawTriggerGustsMps } from '../watch/structureModel.ts';
 import type { FieldIssue } from './httpError.ts';
+import { invalidInput, publicJsonBody } from './publicJson.ts';
 
 /** Gust range accepted, m/s: the sensor plausibility bound of design §3. */
 const maxGustMps = 120;
@@ -65,10 +66,6 @@ const assessBodySchema = z.strictObject({
  * The 400 answer, the same body as `HttpError.invalid` renders in app.ts. Answered here rather
  * than thrown so that the route behaves the same mounted or on its own (as in its tests).
  */
-function invalidInput(c: Context, issues: FieldIssue[]): Response {
-  return c.json({ error: 'invalid input', issues }, 400);
-}
-
 function isPlainObject(value: unknown): value is Record<string, unknown> {
   return typeof value === 'object' && value !== null && !Array.isArray(value);
 }
@@ -76,16 +73,9 @@ function isPlainObject(value: unknown): value is Record<string, unknown> {
 export const assessRoute = new Hono();
 
 assessRoute.post('/', async (c) => {
-  if (!(c.req.header('content-type') ?? '').toLowerCase().includes('application/json')) {
-    return c.json({ error: 'send the body as application/json' }, 415);
-  }
-  let body: unknown;
-  try {
-    body = await c.req.json();
-  } catch {
-    // The parser's own message adds nothing a caller can act on.
-    return invalidInput(c, [{ path: '', message: 'body is not valid JSON' }]);
-  }
+  const read = await publicJsonBody(c);
+  if (!read.ok) return read.response;
+  const body = read.body;
   const parsedBody = assessBodySchema.safeParse(body);
   const issues: FieldIssue[] = parsedBody.success ? [] : recordIssues(parsedBody.error.issues);
   // The record is checked even when the rest of the body is wrong, so one answer names everything.

@@ -8,11 +8,11 @@
  * /api/assess answers. Stores nothing; like /api/assess it is exempt from the origin and CSRF
  * checks (server/runtime.ts), since it changes nothing.
  */
-import { Hono, type Context } from 'hono';
+import { Hono } from 'hono';
 import { z } from 'zod';
 import { recordIssues } from '../engine/index.ts';
 import { chanceOfReaching } from '../foresight/index.ts';
-import type { FieldIssue } from './httpError.ts';
+import { invalidInput, publicJsonBody } from './publicJson.ts';
 
 /** Speeds accepted, m/s: the sensor plausibility bound of design §3 (as /api/assess's gust). */
 const maxSpeedMps = 120;
@@ -27,23 +27,12 @@ const chanceBodySchema = z.strictObject({
   upcrossingRateHz: z.number().gt(0, 'must be > 0 Hz').lte(maxUpcrossingRateHz, `must be ≤ ${maxUpcrossingRateHz} Hz`),
 });
 
-function invalidInput(c: Context, issues: FieldIssue[]): Response {
-  return c.json({ error: 'invalid input', issues }, 400);
-}
-
 export const chanceRoute = new Hono();
 
 chanceRoute.post('/', async (c) => {
-  if (!(c.req.header('content-type') ?? '').toLowerCase().includes('application/json')) {
-    return c.json({ error: 'send the body as application/json' }, 415);
-  }
-  let body: unknown;
-  try {
-    body = await c.req.json();
-  } catch {
-    return invalidInput(c, [{ path: '', message: 'body is not valid JSON' }]);
-  }
-  const parsed = chanceBodySchema.safeParse(body);
+  const read = await publicJsonBody(c);
+  if (!read.ok) return read.response;
+  const parsed = chanceBodySchema.safeParse(read.body);
   if (!parsed.success) return invalidInput(c, recordIssues(parsed.error.issues));
   const { meanMps, sigmaMps, thresholdMps, minutes, upcrossingRateHz } = parsed.data;
   const durationS = minutes * 60;

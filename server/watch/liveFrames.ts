@@ -8,7 +8,7 @@
  * The full figures stay in the snapshot (GET /api/live) and in the `structure` event that every
  * level change sends.
  */
-import { roundTo, type FrameRow } from '../live/frames.ts';
+import { roundTo } from '../live/frames.ts';
 import type { SensorState, StructureUpdate } from './watch.ts';
 
 /**
@@ -111,4 +111,3 @@ export function withAgo(cells: readonly unknown[], columns: readonly string[], a
   return cells.map((cell, i) => (typeof cell === 'number' && ago.includes(columns[i]!) ? atMs - cell : cell));
 }
 
-export type { FrameRow };

@@ -148,6 +148,8 @@ interface SensorLive {
   stuck: boolean;
   /** U, σ and ν of the last 10 minutes (foresight), refreshed every few seconds by the tick; null before the first. */
   statistics: WindStatistics | null;
+  /** The 10-minute gust factor (peak 3-s gust / mean, 1–10) at the same refresh; null with too little wind or data. */
+  gustFactor: number | null;
   /** The 10-minute mean once a minute over the last hour, for the trend (foresight/meanTrend.ts). */
   meanAtMs: number[];
   meanMps: number[];
@@ -429,6 +431,7 @@ export class Watch implements ReadingConsumer {
         implausibleAlertId: old?.implausibleAlertId ?? null,
         stuck: old?.stuck ?? false,
         statistics: keepWind ? old.statistics : null,
+        gustFactor: keepWind ? old.gustFactor : null,
         meanAtMs: keepWind ? old.meanAtMs : [],
         meanMps: keepWind ? old.meanMps : [],
       });
@@ -1135,6 +1138,7 @@ export class Watch implements ReadingConsumer {
       } else if (live.wind.newestMode === 'raw') {
         live.statistics = windowStatistics(threeSecondMeans(live.wind, nowMs), nowMs);
       } else live.statistics = null;
+      live.gustFactor = snap.mean10minMps !== null && snap.mean10minMps > 0.5 && snap.peakGust10minMps !== null ? Math.min(10, Math.max(1, snap.peakGust10minMps / snap.mean10minMps)) : null;
       const lastAt = live.meanAtMs.at(-1) ?? -Infinity;
       if (snap.mean10minMps !== null && snap.mean10minMps <= 120 && nowMs - lastAt >= 60_000) {
         live.meanAtMs.push(nowMs);
@@ -1149,14 +1153,13 @@ export class Watch implements ReadingConsumer {
       let next: StructureForesight | null = null;
       const sensor = s.governingSensorKey === null || s.level.noData || s.error !== null ? undefined : this.sensorsByKey.get(s.governingSensorKey);
       if (sensor && sensor.statistics !== null) {
-        const snap = windSnapshot(sensor.wind, nowMs);
         const current = this.currentDensity(s, s.windFromDeg);
         next = structureForesight({
           sensorKey: sensor.sensor.key,
           statistics: sensor.statistics,
           heightFactor: this.heightFactor(sensor, s),
           means: { atMs: sensor.meanAtMs, meanMps: sensor.meanMps },
-          gustFactor: snap.mean10minMps !== null && snap.mean10minMps > 0.5 && snap.peakGust10minMps !== null ? Math.min(10, Math.max(1, snap.peakGust10minMps / snap.mean10minMps)) : null,
+          gustFactor: sensor.gustFactor,
           level: s.level.level,
           levels: s.model.levels,
           triggerGustsMps: current.triggerGustsMps,

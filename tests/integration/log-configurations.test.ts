@@ -18,6 +18,7 @@ import mqtt, { type MqttClient } from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parseRfc4180 } from '../helpers/rfc4180.ts';
 import { ApiClient, adminPassword, adminUsername, startTestServer, waitFor, type TestServer } from '../helpers/testServer.ts';
+import { harbourLevels, harbourScreen } from '../helpers/harbourScreen.ts';
 
 const timeZone = 'Europe/Berlin';
 let clock = Date.UTC(2026, 7, 8, 9, 0, 0);
@@ -38,29 +39,9 @@ let overdueAtMs = 0;
 const crewName = 'Jonah Beck (rigger)';
 const cpName = 'Ilse Marten (competent person)';
 
-const screen = {
-  kind: 'screen',
-  name: 'Quayside LED wall',
-  configurationName: 'raised',
-  widthM: 6,
-  heightM: 4,
-  bottomHeightM: 3,
-  supportTowers: 2,
-  towerMassKg: 400,
-  screenMassKg: 600,
-  outriggerDepthM: 3,
-  ballastPerTowerKg: 1500,
-  frictionCoefficient: 0.7,
-  towerWidthM: 0,
-  headerTrussDepthM: 0,
-  configurations: [{ name: 'lowered', changes: { bottomHeightM: 1.2 } }],
-};
+const screen = { ...harbourScreen, name: 'Quayside LED wall' };
 
-const levels = [
-  { label: 'Prepare', trigger: { kind: 'utilization', fraction: 0.5 }, actionText: 'Crew to the wall; clear the area behind it.' },
-  { label: 'Lower the screen', trigger: { kind: 'utilization', fraction: 0.7 }, actionText: 'Lower the LED wall to its bottom stop.', moveToConfiguration: 'lowered' },
-  { label: 'Stop and clear', trigger: { kind: 'utilization', fraction: 0.9 }, actionText: 'Stop the show; clear 1.5 × height around the wall.' },
-];
+const levels = harbourLevels.map((level, i) => (i === 0 ? { ...level, actionText: 'Crew to the wall; clear the area behind it.' } : level));
 
 async function publish(gustMps: number): Promise<void> {
   clock += 1_000;

@@ -22,8 +22,8 @@ import { ensureSite, updateSite } from '../../server/register/site.ts';
 import { openDatabase, type OpenedDatabase } from '../../server/storage/database.ts';
 import { HttpError, type FieldIssue } from '../../server/http/httpError.ts';
 import { LiveHub } from '../../server/live/liveHub.ts';
-import { siteDefaultLevels } from '../../server/levels/index.ts';
 import { Watch, type SiteSettings } from '../../server/watch/watch.ts';
+import { testSite } from '../helpers/testSite.ts';
 
 const rho = 1.225; // ISA sea level, ISO 2533
 const g = 9.80665; // standard gravity, ISO 80000-3
@@ -191,20 +191,7 @@ describe('fence, hand-worked (ISA 1.225 kg/m³)', () => {
 
 // ---------------------------------------------------------------- defects
 describe('defects found in review (they failed on the code as reviewed; fixed since)', () => {
-  const isaSite: SiteSettings = {
-    id: 1,
-    name: 'Review site (invented)',
-    altitudeM: 0,
-    terrainCategory: 'II',
-    timeZone: 'Europe/London',
-    airDensityMode: 'isa',
-    fixedAirDensityKgM3: null,
-    heightReductionEnabled: false,
-    directionalEnabled: false,
-    deadBandFraction: 0.1,
-    holdTimeMs: 900_000,
-    defaultLevels: siteDefaultLevels,
-  };
+  const isaSite: SiteSettings = testSite({ name: 'Review site (invented)' });
   /** The demo marquee registered with its walls off, the walls-on state as a configuration named "walls on". */
   const registeredOpen = { ...valid(demoInput('Food hall marquee').record), wallsClosed: false, configurationName: 'sides off', configurations: [{ name: 'walls on', changes: { wallsClosed: true } }] };
 

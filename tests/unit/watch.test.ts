@@ -8,30 +8,16 @@ import { describe, expect, it } from 'vitest';
 import { gustHeightFactor } from '../../server/engine/index.ts';
 import type { Reading } from '../../server/ingest/payload.ts';
 import type { RegisteredSensor } from '../../server/ingest/registry.ts';
-import { siteDefaultLevels } from '../../server/levels/index.ts';
 import { frameRecords, type Frame } from '../../server/live/frames.ts';
 import { LiveHub } from '../../server/live/liveHub.ts';
 import type { StructureRow } from '../../server/watch/structureModel.ts';
 import { Watch, type SiteSettings } from '../../server/watch/watch.ts';
+import { testSite } from '../helpers/testSite.ts';
 
 const t0 = Date.UTC(2026, 5, 13, 14, 0, 0);
 
 function site(overrides: Partial<SiteSettings> = {}): SiteSettings {
-  return {
-    id: 1,
-    name: 'Brackenfold Common',
-    altitudeM: 0,
-    terrainCategory: 'II',
-    timeZone: 'Europe/London',
-    airDensityMode: 'isa',
-    fixedAirDensityKgM3: null,
-    heightReductionEnabled: false,
-    directionalEnabled: false,
-    deadBandFraction: 0.1,
-    holdTimeMs: 900_000,
-    defaultLevels: siteDefaultLevels,
-    ...overrides,
-  };
+  return testSite({ name: 'Brackenfold Common', ...overrides });
 }
 
 function sensor(id: number, key: string, heightM: number): RegisteredSensor {
