@@ -11,36 +11,41 @@
  */
 import { sql } from 'drizzle-orm';
 import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import { roles } from '../server/auth/roles.ts';
+import { speedUnits } from '../server/engine/units.ts';
+import type { LevelDefinition } from '../server/levels/levelDefinition.ts';
+import { sensorModes } from '../server/register/sensors.ts';
+import { airDensityModes, forecastSpeedUnits, siteSettingDefaults as siteDefaults, terrainCategories } from '../server/register/siteSettings.ts';
 
 export const sitesTable = sqliteTable('sites', {
   id: integer().primaryKey({ autoIncrement: true }),
   name: text().notNull(),
-  altitudeM: real('altitude_m').notNull().default(0),
+  altitudeM: real('altitude_m').notNull().default(siteDefaults.altitudeM),
   /** EN 1991-1-4 Table 4.1: '0', 'I', 'II', 'III', 'IV'. */
-  terrainCategory: text('terrain_category').notNull().default('II'),
-  timeZone: text('time_zone').notNull().default('UTC'),
+  terrainCategory: text('terrain_category', { enum: terrainCategories }).notNull().default(siteDefaults.terrainCategory),
+  timeZone: text('time_zone').notNull().default(siteDefaults.timeZone),
   /** 'isa' | 'measured' | 'fixed' (design.md 2.1). */
-  airDensityMode: text('air_density_mode').notNull().default('isa'),
+  airDensityMode: text('air_density_mode', { enum: airDensityModes }).notNull().default(siteDefaults.airDensityMode),
   fixedAirDensityKgM3: real('fixed_air_density_kg_m3'),
   /** A height factor below 1 is applied only when this is on (design.md 2.2). */
-  heightReductionEnabled: integer('height_reduction_enabled', { mode: 'boolean' }).notNull().default(false),
-  directionalEnabled: integer('directional_enabled', { mode: 'boolean' }).notNull().default(false),
+  heightReductionEnabled: integer('height_reduction_enabled', { mode: 'boolean' }).notNull().default(siteDefaults.heightReductionEnabled),
+  directionalEnabled: integer('directional_enabled', { mode: 'boolean' }).notNull().default(siteDefaults.directionalEnabled),
   /** With directional assessment: the directions within ± this many degrees of the mean direction count (design.md 2.2 v2). */
-  directionSectorHalfWidthDeg: real('direction_sector_half_width_deg').notNull().default(45),
-  deadBandFraction: real('dead_band_fraction').notNull().default(0.1),
-  holdTimeMs: integer('hold_time_ms').notNull().default(15 * 60_000),
+  directionSectorHalfWidthDeg: real('direction_sector_half_width_deg').notNull().default(siteDefaults.directionSectorHalfWidthDeg),
+  deadBandFraction: real('dead_band_fraction').notNull().default(siteDefaults.deadBandFraction),
+  holdTimeMs: integer('hold_time_ms').notNull().default(siteDefaults.holdTimeMs),
   /** How long after its alert a level's action that moves the structure may wait before it is signalled again as overdue (design §2.5). */
-  actionDueMs: integer('action_due_ms').notNull().default(5 * 60_000),
+  actionDueMs: integer('action_due_ms').notNull().default(siteDefaults.actionDueMs),
   /** The forecast feed (design §2.7): the address polled, or null for none (server/forecastFeed). */
   forecastFeedUrl: text('forecast_feed_url'),
   /** How often the feed is polled, ms (5 min to 6 h). */
-  forecastFeedIntervalMs: integer('forecast_feed_interval_ms').notNull().default(30 * 60_000),
+  forecastFeedIntervalMs: integer('forecast_feed_interval_ms').notNull().default(siteDefaults.forecastFeedIntervalMs),
   /** Unit of bare numbers in the feed ('m/s' | 'km/h' | 'kn' | 'mph'), or null when the file states its units. */
-  forecastFeedUnit: text('forecast_feed_unit'),
+  forecastFeedUnit: text('forecast_feed_unit', { enum: forecastSpeedUnits }),
   /** Height the feed's speeds refer to, m (forecasts give 10 m). */
-  forecastFeedHeightM: real('forecast_feed_height_m').notNull().default(10),
+  forecastFeedHeightM: real('forecast_feed_height_m').notNull().default(siteDefaults.forecastFeedHeightM),
   /** The site's default level list (JSON, see server/levels). */
-  defaultLevelsJson: text('default_levels_json', { mode: 'json' }).notNull(),
+  defaultLevelsJson: text('default_levels_json', { mode: 'json' }).$type<LevelDefinition[]>().notNull(),
   createdAtMs: integer('created_at_ms').notNull(),
   updatedAtMs: integer('updated_at_ms').notNull(),
 });
@@ -59,9 +64,9 @@ export const sensorsTable = sqliteTable(
     latDeg: real('lat_deg'),
     lonDeg: real('lon_deg'),
     /** The speed unit its payloads use: 'm/s' | 'km/h' | 'kn' | 'mph'. */
-    unit: text().notNull().default('m/s'),
+    unit: text({ enum: speedUnits }).notNull().default('m/s'),
     /** 'samples' (raw speed samples; the server computes gust and mean) | 'summaries'. */
-    mode: text().notNull().default('samples'),
+    mode: text({ enum: sensorModes }).notNull().default('samples'),
     silenceTimeoutMs: integer('silence_timeout_ms').notNull().default(30_000),
     createdAtMs: integer('created_at_ms').notNull(),
     retiredAtMs: integer('retired_at_ms'),
@@ -286,7 +291,7 @@ export const peopleTable = sqliteTable(
     id: integer().primaryKey({ autoIncrement: true }),
     username: text().notNull(),
     displayName: text('display_name').notNull(),
-    role: text().notNull(),
+    role: text({ enum: roles }).notNull(),
     /** scrypt hash (server/auth/password.ts). */
     passwordHash: text('password_hash').notNull(),
     createdAtMs: integer('created_at_ms').notNull(),

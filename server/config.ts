@@ -3,6 +3,7 @@
  * variable is optional; the defaults run everything embedded on one machine.
  */
 import path from 'node:path';
+import { maxPasswordLength } from './engine/limits.ts';
 
 export interface Config {
   /** HTTP port (PORT, default 8080). */
@@ -179,7 +180,7 @@ export function configFromEnv(env: NodeJS.ProcessEnv = process.env, argv: readon
   const adminPassword = textVar(env, 'ADMIN_PASSWORD');
   if ((adminUsername === null) !== (adminPassword === null)) throw new ConfigError('set both ADMIN_USERNAME and ADMIN_PASSWORD, or neither');
   if (adminUsername !== null && !/^[a-z0-9._-]{2,64}$/.test(adminUsername)) throw new ConfigError('ADMIN_USERNAME must be 2–64 characters of a-z, 0-9, . _ -');
-  if (adminPassword !== null && (adminPassword.length < 12 || adminPassword.length > 200)) throw new ConfigError('ADMIN_PASSWORD must be 12 to 200 characters');
+  if (adminPassword !== null && (adminPassword.length < 12 || adminPassword.length > maxPasswordLength)) throw new ConfigError(`ADMIN_PASSWORD must be 12 to ${maxPasswordLength} characters`);
   const protocol = intVar(env, 'MQTT_PROTOCOL_VERSION', 5, 4, 5);
   if (protocol !== 4 && protocol !== 5) throw new ConfigError('MQTT_PROTOCOL_VERSION must be 4 or 5');
   const mqttUrl = textVar(env, 'MQTT_URL');

@@ -6,8 +6,6 @@
  */
 import path from 'node:path';
 import { serve, type ServerType } from '@hono/node-server';
-import { desc, eq, isNull, or } from 'drizzle-orm';
-import { alertsTable, sensorsTable, structuresTable } from '../db/schema.ts';
 import { Accounts } from './auth/accounts.ts';
 import { SignInLimiter } from './auth/signInLimiter.ts';
 import type { Config } from './config.ts';
@@ -20,11 +18,10 @@ import { RejectionLog } from './ingest/rejections.ts';
 import { LiveHub } from './live/liveHub.ts';
 import type { Logger } from './log.ts';
 import { ensureSite, getSite } from './register/site.ts';
-import { openDatabase, type Db, type OpenedDatabase } from './storage/database.ts';
-import { removeRawReadingsBefore } from './storage/retention.ts';
-import { rebuildNewestMinutes, WriteQueue } from './storage/writeQueue.ts';
-import type { TerrainCategory } from './engine/index.ts';
-import type { LevelDefinition } from './levels/index.ts';
+import { siteView } from './register/siteSettings.ts';
+import type { Db, OpenedDatabase } from './storage/database.ts';
+import { openStorage, type Storage } from './storage/storage.ts';
+import type { WriteQueue } from './storage/writeQueue.ts';
 import { Watch, type InitialState, type OpenAlert, type SiteSettings, type SystemStatus } from './watch/watch.ts';
 import { apiRoutes, type ApiContext } from './http/routes/apiRoutes.ts';
 import { accessRoutes, siteLinkOpener } from './http/routes/accessRoutes.ts';
@@ -37,6 +34,9 @@ export interface RunningServer {
   config: Config;
   httpPort: number;
   mqttPort: number | null;
+  /** The one seam to the database (storage/storage.ts): what the server's parts are given. */
+  storage: Storage;
+  /** The SQLite database under it, for tests and tools that look at the tables directly. */
   db: Db;
   opened: OpenedDatabase;
   watch: Watch;
@@ -70,48 +70,30 @@ export interface StartOptions {
   notify?: NotifierOptions;
   /** The forecast feed's timer, timeout and size cap (tests turn the timer off and poll by hand). */
   forecastFeed?: ForecastFeedOptions;
+  /**
+   * Group commits on a worker thread with its own connection (default true; commitThread.ts).
+   * False commits on the main connection: tests that inject a fault into that connection.
+   */
+  commitThread?: boolean;
 }
 
-export function siteSettings(db: Db): SiteSettings {
-  const site = getSite(db);
-  return {
-    id: site.id,
-    name: site.name,
-    altitudeM: site.altitudeM,
-    terrainCategory: site.terrainCategory as TerrainCategory,
-    timeZone: site.timeZone,
-    airDensityMode: site.airDensityMode as SiteSettings['airDensityMode'],
-    fixedAirDensityKgM3: site.fixedAirDensityKgM3,
-    heightReductionEnabled: site.heightReductionEnabled,
-    directionalEnabled: site.directionalEnabled,
-    directionSectorHalfWidthDeg: site.directionSectorHalfWidthDeg,
-    deadBandFraction: site.deadBandFraction,
-    holdTimeMs: site.holdTimeMs,
-    actionDueMs: site.actionDueMs,
-    defaultLevels: site.defaultLevelsJson as LevelDefinition[],
-  };
+/** The site as the watch takes it: the settings' one schema (register/siteSettings.ts) over the stored row. */
+export function siteSettings(storage: Storage): SiteSettings {
+  return siteView(getSite(storage));
 }
 
-function activeStructures(db: Db) {
-  return db.select().from(structuresTable).where(isNull(structuresTable.retiredAtMs)).all();
+function activeStructures(storage: Storage) {
+  return storage.structures.active();
 }
 
 /** Last level of each structure and the alerts still open, to rebuild the watch after a restart. */
-export function initialState(db: Db): InitialState {
-  const levels = new Map<number, { level: number; sinceMs: number }>();
+export function initialState(storage: Storage): InitialState {
   // The last logged row of each structure, in one pass over the (small) level-change log.
-  const rows = db.$client
-    .prepare(
-      `SELECT structure_id AS id, to_level AS level, at_ms AS atMs FROM (
-         SELECT structure_id, to_level, at_ms, ROW_NUMBER() OVER (PARTITION BY structure_id ORDER BY at_ms DESC, id DESC) AS rn FROM level_changes
-       ) WHERE rn = 1`,
-    )
-    .all() as Array<{ id: number; level: number; atMs: number }>;
-  for (const r of rows) levels.set(r.id, { level: r.level, sinceMs: r.atMs });
-  const sensorKeys = new Map(db.select({ id: sensorsTable.id, key: sensorsTable.key, name: sensorsTable.name }).from(sensorsTable).all().map((s) => [s.id, s]));
-  const structureNames = new Map(db.select({ id: structuresTable.id, name: structuresTable.name }).from(structuresTable).all().map((s) => [s.id, s.name]));
-  const actionDueMs = getSite(db).actionDueMs;
-  const alertRows = db.select().from(alertsTable).where(or(isNull(alertsTable.acknowledgedAtMs), isNull(alertsTable.clearedAtMs))).all();
+  const levels = storage.levelChanges.lastLevels();
+  const sensorKeys = new Map(storage.sensors.all().map((s) => [s.id, s]));
+  const structureNames = storage.structures.names();
+  const actionDueMs = getSite(storage).actionDueMs;
+  const alertRows = storage.alerts.open();
   const alerts: OpenAlert[] = alertRows.map((r) => {
     const sensor = r.sensorId !== null ? sensorKeys.get(r.sensorId) : undefined;
     return {
@@ -138,37 +120,31 @@ export function initialState(db: Db): InitialState {
       overdueAtMs: r.overdueAtMs,
     };
   });
-  const maxId = (db.$client.prepare('SELECT MAX(id) AS id FROM alerts').get() as { id: number | null }).id ?? 0;
+  const maxId = storage.alerts.maxId();
   // Each structure's last configuration switch: after a restart it is assessed as it stands.
-  const configurations = new Map<number, { name: string; atMs: number; by: string }>();
-  const switched = db.$client
-    .prepare(
-      `SELECT structure_id AS id, to_name AS name, at_ms AS atMs, by FROM (
-         SELECT structure_id, to_name, at_ms, by, ROW_NUMBER() OVER (PARTITION BY structure_id ORDER BY at_ms DESC, id DESC) AS rn FROM configuration_changes
-       ) WHERE rn = 1`,
-    )
-    .all() as Array<{ id: number; name: string; atMs: number; by: string }>;
-  for (const r of switched) configurations.set(r.id, { name: r.name, atMs: r.atMs, by: r.by });
+  const configurations = storage.log.lastConfigurations();
   return { levels, alerts, nextAlertId: maxId + 1, configurations };
 }
 
 export async function startServer(config: Config, log: Logger, options: StartOptions = {}): Promise<RunningServer> {
   const now = options.now ?? Date.now;
-  const opened = openDatabase(path.join(config.dataDir, 'holdfast.sqlite'));
-  const { db, sqlite } = opened;
-  ensureSite(db, now());
+  // The one place the database is opened; everything below is given `storage`.
+  const storage = openStorage(path.join(config.dataDir, 'holdfast.sqlite'));
+  const { opened } = storage;
+  const { db } = opened;
+  ensureSite(storage, now());
 
-  const accounts = new Accounts(db);
-  const registry = new Registry(db);
-  const rejections = new RejectionLog(sqlite, log, now, (key) => registry.sensorByKey(key) !== undefined);
+  const accounts = new Accounts(storage);
+  const registry = new Registry(storage);
+  const rejections = new RejectionLog(storage.rejections, log, now, (key) => registry.sensorByKey(key) !== undefined);
   // Each sensor's newest minute rollup lived in memory until the last stop: recompute it.
-  const newestMinutes = rebuildNewestMinutes(sqlite);
-  const queue = new WriteQueue(sqlite, now, config.mqttUrl ? 0 : 2, newestMinutes);
+  const newestMinutes = storage.writes.rebuildNewestMinutes();
+  const queue = storage.writes.queue(now, config.mqttUrl ? 0 : 2, newestMinutes, { commitThread: options.commitThread ?? true });
   const hub = new LiveHub();
   let systemStatus: () => SystemStatus = () => ({ storageOk: true, storageError: null, storageBacklogRows: 0, brokerOk: true, brokerState: 'starting' });
   const watch = new Watch({ hub, now, onNotice: (message, detail) => log.info(detail, message), systemStatus: () => systemStatus() });
-  const reloadRegister = (): void => watch.configure(siteSettings(db), registry.sensors(), activeStructures(db));
-  watch.configure(siteSettings(db), registry.sensors(), activeStructures(db), initialState(db));
+  const reloadRegister = (): void => watch.configure(siteSettings(storage), registry.sensors(), activeStructures(storage));
+  watch.configure(siteSettings(storage), registry.sensors(), activeStructures(storage), initialState(storage));
   registry.onReload(reloadRegister);
 
   const pipeline = new IngestPipeline(config.topicPrefix, registry, rejections, watch, queue);
@@ -197,7 +173,8 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
       await broker.start();
     } catch (err) {
       await broker.stop().catch(() => undefined);
-      sqlite.close();
+      queue.stop(); // ends the commit thread, which would keep the process alive
+      storage.close();
       throw err;
     }
   }
@@ -208,7 +185,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     if (tickRunning) return;
     tickRunning = true;
     try {
-      queue.writeOpenMinutes();
+      void queue.writeOpenMinutes();
       const result = watch.tick();
       if (result) {
         // Held in memory when the database cannot write: reported once below, on the change of state.
@@ -232,7 +209,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     if (retentionRunning || closing) return;
     retentionRunning = true;
     const cutoff = now() - config.rawRetentionDays * 86_400_000;
-    removeRawReadingsBefore(sqlite, cutoff, { pause: () => new Promise((resolve, reject) => setImmediate(() => (closing ? reject(new Error('server closing')) : resolve()))) })
+    storage.writes.removeRawReadingsBefore(cutoff, { pause: () => new Promise((resolve, reject) => setImmediate(() => (closing ? reject(new Error('server closing')) : resolve()))) })
       .then(
         (removed) => {
           if (removed > 0) log.info({ removed, cutoff }, 'raw readings past retention removed (per-minute rollups kept)');
@@ -253,11 +230,11 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
 
   // Fed by the live hub's alert events, which are published after their commit (design §5).
   let publicBase = config.publicUrl ?? '';
-  const notifier = new Notifier({ db, config, hub, watch, queue, now, log, publicBase: () => publicBase }, options.notify);
+  const notifier = new Notifier({ storage, config, hub, watch, queue, now, log, publicBase: () => publicBase }, options.notify);
   notifier.start();
 
   // The forecast feed (design §2.7): its own unref'd timer and requests, never in ingest's way.
-  const forecastFeed = new ForecastFeed({ db, now, log }, options.forecastFeed);
+  const forecastFeed = new ForecastFeed({ storage, now, log }, options.forecastFeed);
   forecastFeed.start();
 
   const limiter = new SignInLimiter();
@@ -272,7 +249,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
       broker: brokerHealth,
       database: {
         ok: dbOk,
-        file: opened.file,
+        file: storage.location,
         committedReadings: queue.stats.committedReadings,
         duplicateReadings: queue.stats.duplicateReadings,
         failedCommits: queue.stats.failedCommits,
@@ -310,6 +287,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     config,
     httpPort: 0,
     mqttPort: broker ? broker.port : null,
+    storage,
     db,
     opened,
     watch,
@@ -321,7 +299,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     notifier,
     forecastFeed,
     reloadRegister,
-    rebuildFromLog: () => watch.configure(siteSettings(db), registry.sensors(), activeStructures(db), initialState(db)),
+    rebuildFromLog: () => watch.configure(siteSettings(storage), registry.sensors(), activeStructures(storage), initialState(storage)),
     tickNow,
     close: async () => undefined,
   };
@@ -331,7 +309,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     reloadRegister();
     forecastFeed.settingsChanged();
   };
-  const ctx: ApiContext = { db, registry, watch, queue, hub, rejections, accounts, now, reloadRegister: reloadAfterChange, topicPrefix: config.topicPrefix, health, log, forecastFeed };
+  const ctx: ApiContext = { storage, registry, watch, queue, hub, rejections, accounts, now, reloadRegister: reloadAfterChange, topicPrefix: config.topicPrefix, health, log, forecastFeed };
   const staticRoot = options.staticRoot === undefined ? path.resolve('web/dist') : options.staticRoot;
   const app = createApp({
     health: { health },
@@ -341,9 +319,9 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     routes: [
       { path: '/api', app: accessRoutes({ accounts, limiter, addressLimiter, now, trustProxy: config.trustProxy, proxyHops: config.proxyHops, publicUrl: config.publicUrl }) },
       { path: '/api', app: apiRoutes(ctx) },
-      { path: '/api', app: notifyRoutes({ db, notifier, now }) },
+      { path: '/api', app: notifyRoutes({ storage, notifier, now }) },
       { path: '/api', app: pushRoutes({ notifier, now }) },
-      { path: '/notify', app: acknowledgeLinkRoutes({ db, notifier, now }) },
+      { path: '/notify', app: acknowledgeLinkRoutes({ storage, notifier, now }) },
       { path: '/link', app: siteLinkOpener({ accounts, limiter, addressLimiter, now, trustProxy: config.trustProxy, proxyHops: config.proxyHops }) },
     ],
     staticRoot,
@@ -387,10 +365,10 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     await external?.stop();
     await notifier.stop();
     await forecastFeed.stop();
-    queue.settle();
+    await queue.settle();
     queue.stop();
     rejections.flush();
-    sqlite.close();
+    storage.close();
   };
   return running;
 }

@@ -11,21 +11,17 @@
  * structure back once the wind has dropped. On the past day the first fence action comes late,
  * so the log shows it signalled again as overdue before it was done.
  */
-import { eq } from 'drizzle-orm';
 import mqtt, { type MqttClient } from 'mqtt';
-import { alertsTable, metaTable, structuresTable } from '../../db/schema.ts';
 import type { Config } from '../config.ts';
 import { LiveHub } from '../live/liveHub.ts';
 import type { Logger } from '../log.ts';
-import { recordAudit } from '../register/audit.ts';
 import { createGateway } from '../register/gateways.ts';
 import { createSensor } from '../register/sensors.ts';
 import { getSite, updateSite } from '../register/site.ts';
 import { createStructure, listStructures } from '../register/structures.ts';
 import { readingTopic } from '../ingest/topic.ts';
 import { siteSettings, startServer, type RunningServer } from '../runtime.ts';
-import type { Db } from '../storage/database.ts';
-import { WriteQueue } from '../storage/writeQueue.ts';
+import type { Storage } from '../storage/storage.ts';
 import { zonedDayWindow } from '../http/routes/zonedDay.ts';
 import { Watch } from '../watch/watch.ts';
 import { mpsToSpeed, type SpeedUnit } from '../engine/units.ts';
@@ -40,17 +36,17 @@ const pastDayCrew = ['Sam Okoro (site crew)', 'Priya Nandakumar (stage manager)'
 const gatewayPasswordKey = 'demo-gateway-password';
 const actor = 'demo set-up';
 
-function meta(db: Db, key: string): string | null {
-  return db.select().from(metaTable).where(eq(metaTable.key, key)).get()?.value ?? null;
+function meta(storage: Storage, key: string): string | null {
+  return storage.meta.get(key);
 }
 
-function setMeta(db: Db, key: string, value: string, nowMs: number): void {
-  db.insert(metaTable).values({ key, value, updatedAtMs: nowMs }).onConflictDoUpdate({ target: metaTable.key, set: { value, updatedAtMs: nowMs } }).run();
+function setMeta(storage: Storage, key: string, value: string, nowMs: number): void {
+  storage.meta.set(key, value, nowMs);
 }
 
 /** Registers the demo site once per data folder. */
 async function seedRegister(server: RunningServer, nowMs: number): Promise<void> {
-  const { db, accounts } = server;
+  const { storage: db, accounts } = server;
   if (meta(db, seededKey)) return;
   updateSite(db, { name: demoSiteName, altitudeM: 85, terrainCategory: 'II', timeZone: demoTimeZone, airDensityMode: 'measured' }, actor, nowMs);
   const site = getSite(db);
@@ -96,14 +92,14 @@ export function demoRegisteredAtMs(nowMs: number): number {
 }
 
 function writePastDay(server: RunningServer, nowMs: number, seed: number, log: Logger): void {
-  const { db } = server;
+  const { storage: db } = server;
   const { day: yesterday, window } = pastDay(nowMs);
   let simNow = window.fromMs;
   const watch = new Watch({ hub: new LiveHub(50), now: () => simNow });
   const sensors = server.registry.sensors();
   const structures = listStructures(db).map((s) => ({ ...s, recordJson: s.record, sensorKeysJson: s.sensorKeys, levelsJson: s.levels }));
   watch.configure(siteSettings(db), sensors, structures);
-  const queue = new WriteQueue(db.$client, () => simNow);
+  const queue = db.writes.queue(() => simNow);
   const noon = window.fromMs + 12 * 3_600_000;
   const simulator = new WindSimulator({
     seed,
@@ -119,7 +115,7 @@ function writePastDay(server: RunningServer, nowMs: number, seed: number, log: L
     ],
   });
   const byKey = new Map(sensors.map((s) => [s.key, s]));
-  const kinds = new Map(db.select({ id: structuresTable.id, kind: structuresTable.kind }).from(structuresTable).all().map((s) => [s.id, s.kind]));
+  const kinds = new Map(db.structures.all().map((s) => [s.id, s.kind]));
   // The crew act on the plan in simulated time, through the watch, as the live route does.
   const crewRandom = seededRandom(seed + 2);
   const demoCrew = new DemoCrew({
@@ -157,15 +153,16 @@ function writePastDay(server: RunningServer, nowMs: number, seed: number, log: L
   // structure (those whose action they marked done were acknowledged with it).
   const random = seededRandom(seed + 1);
   const crew = pastDayCrew;
-  const alerts = db.select().from(alertsTable).all().filter((a) => a.raisedAtMs >= window.fromMs && a.raisedAtMs < window.toMs);
+  // By id: the order the crew's random picks were drawn in.
+  const alerts = db.alerts.raisedInWindow(window.fromMs, window.toMs).sort((a, b) => a.id - b.id);
   for (const a of alerts) {
     if (a.acknowledgedAtMs !== null) continue;
     const by = crew[Math.floor(random() * crew.length)]!;
     const options = demoAcknowledgeNotes(a.kind, a.structureId === null ? null : (kinds.get(a.structureId) ?? null), a.level);
     const note = options[Math.floor(random() * options.length)]!;
     const atMs = a.raisedAtMs + Math.round(30_000 + random() * 210_000);
-    db.update(alertsTable).set({ acknowledgedAtMs: atMs, acknowledgedBy: by, acknowledgeNote: note }).where(eq(alertsTable.id, a.id)).run();
-    recordAudit(db, { actor: by, entity: 'alert', entityId: a.id, action: 'acknowledge', after: { by, note } }, atMs);
+    db.alerts.acknowledge(a.id, atMs, by, note);
+    db.audit.record({ actor: by, entity: 'alert', entityId: a.id, action: 'acknowledge', after: { by, note } }, atMs);
   }
   log.info({ day: yesterday, readings: queue.stats.committedReadings, alerts: alerts.length, actionsDone: demoCrew.counts.done, late: demoCrew.counts.late, switchedBack: demoCrew.counts.back }, 'demo: past windy day written to the log');
 }
@@ -220,7 +217,7 @@ function startLiveCrew(server: RunningServer, seed: number, log: Logger): { stop
     random: seededRandom(seed + 3),
     kindOf: (id) => {
       if (!kinds.has(id)) {
-        const row = server.db.select({ kind: structuresTable.kind }).from(structuresTable).where(eq(structuresTable.id, id)).get();
+        const row = server.storage.structures.byId(id);
         if (row) kinds.set(id, row.kind);
       }
       return kinds.get(id) ?? null;
@@ -228,7 +225,7 @@ function startLiveCrew(server: RunningServer, seed: number, log: Logger): { stop
     crew: [demoPeople.find((p) => p.role === 'crew')!.displayName],
     competentPerson: demoPeople.find((p) => p.role === 'competent-person')!.displayName,
     doneAfterMs: [100_000, 160_000],
-    actionDueMs: getSite(server.db).actionDueMs,
+    actionDueMs: getSite(server.storage).actionDueMs,
     lateKind: null,
     calmForMs: 10 * 60_000,
   });
@@ -246,16 +243,16 @@ export async function runDemo(config: Config, log: Logger): Promise<RunningServe
   const server = await startServer(config, log, {
     beforeListen: async (s) => {
       const nowMs = Date.now();
-      if (!meta(s.db, seededKey)) {
+      if (!meta(s.storage, seededKey)) {
         await seedRegister(s, demoRegisteredAtMs(nowMs));
         writePastDay(s, nowMs, config.demoSeed, log);
-        setMeta(s.db, seededKey, new Date(nowMs).toISOString(), nowMs);
+        setMeta(s.storage, seededKey, new Date(nowMs).toISOString(), nowMs);
         // The live watch starts from what the past day left in the log.
         s.rebuildFromLog();
       }
     },
   });
-  const password = meta(server.db, gatewayPasswordKey);
+  const password = meta(server.storage, gatewayPasswordKey);
   if (!password) throw new Error('demo gateway password missing: delete the data folder and start the demo again');
   const simulator = startSimulator(server, config, password, log);
   const crew = startLiveCrew(server, config.demoSeed, log);

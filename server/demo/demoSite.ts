@@ -205,7 +205,17 @@ export const demoStructures: StructureInput[] = [
     lonDeg: null,
     mobile: false,
     sensorKeys: ['east-gate'],
-    levels: null,
+    // Prepare on the estimate (design §2.7): the header panel takes two crew and a few minutes to
+    // lay down, so the plan starts when 80 % of the arch's capacity is likely within half an hour.
+    levels: [
+      { label: 'Watch', trigger: { kind: 'utilization', fraction: 0.6 }, actionText: 'Walk round the arch: water ballast full, leg ties tight. Keep the queue from standing under the header.' },
+      {
+        label: 'Prepare',
+        trigger: { kind: 'chance', fraction: 0.8, withinMinutes: 30, probability: 0.2 },
+        actionText: 'Close the lane under the arch and have two crew ready to lay the header panel down on the lee side.',
+      },
+      { label: 'Stop and clear', trigger: { kind: 'utilization', fraction: 1 }, actionText: 'Clear everyone from within 6 m of the arch downwind. Lay the header panel down, face to the ground, and keep the lane closed.' },
+    ],
   },
 ];
 

@@ -9,6 +9,7 @@
  */
 import { assertInRange } from './rangeCheck.ts';
 import { standardGravityMps2 } from './gravity.ts';
+import { plausibleAirDensityKgM3 } from './limits.ts';
 
 /** ISO 2533 sea-level temperature, K. */
 export const isaSeaLevelTemperatureK = 288.15;
@@ -26,11 +27,8 @@ export const waterVapourGasConstantJPerKgK = 461.5;
 /** Range of the ISA troposphere layer, geopotential metres (ISO 2533 tabulates from −2 000 m). */
 const isaAltitudeRangeM = { min: -2000, max: 11_000 } as const;
 
-/**
- * Plausible air density near the ground, kg/m³: a site at 5 000 m on a hot day is about 0.7,
- * −40 °C at sea level about 1.5. Anything outside is a typo or a unit error.
- */
-export const plausibleAirDensityKgM3 = { min: 0.5, max: 1.6 } as const;
+/** Plausible air density near the ground, kg/m³ (engine/limits.ts). */
+export { plausibleAirDensityKgM3 };
 
 /** Exponent g0/(R·L) of the barometric formula: 5.25588 (ISO 2533). */
 const barometricExponent = standardGravityMps2 / (dryAirGasConstantJPerKgK * isaLapseRateKPerM);
@@ -91,6 +89,9 @@ export function moistAirDensityKgM3({ tempC, pressurePa, rhPct }: MoistAirInput)
     vapourPressurePa / (waterVapourGasConstantJPerKgK * temperatureK)
   );
 }
+
+/** The names of the three ways a site sets its air density (design §2.1): the site setting and its stored column. */
+export const airDensityModes = ['isa', 'measured', 'fixed'] as const;
 
 /** The three ways a site sets its air density (design §2.1). */
 export type AirDensityMode =

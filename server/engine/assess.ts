@@ -14,15 +14,12 @@ import { assertAirDensity, isaSeaLevelDensityKgM3 } from './air.ts';
 import { governingWords } from './caseWords.ts';
 import { dynamicPressurePa } from './dynamicPressure.ts';
 import { expandStructure, type SourceNote } from './kinds/index.ts';
+import { maxPlausibleSpeedMps } from './limits.ts';
 import { assertInRange } from './rangeCheck.ts';
 import type { StructureKind, StructureRecord } from './record.ts';
 import {
   criteria,
-  directionUtilizations,
   edgeWords,
-  effectiveUtilization,
-  governingCase,
-  gustAtPerPaMps,
   stabilityCoefficients,
   type BodyCoefficients,
   type Criterion,
@@ -30,6 +27,7 @@ import {
   type Edge,
   type StabilityCoefficients,
 } from './stability.ts';
+import { directionUtilizations, effectiveUtilization, governingCase, gustAtPerPaMps } from './utilization.ts';
 import type { ExpandedStructure } from './structure.ts';
 
 /** A number, or null for Infinity (see the module comment). */
@@ -177,7 +175,7 @@ export function assessCoefficients(
   airDensityKgM3: number,
   frontAzimuthDeg: number | null = null,
 ): Omit<AssessmentReport, 'name' | 'kind' | 'expanded' | 'sources' | 'notes'> {
-  assertInRange('assessCoefficients', 'gustMps', gustMps, 0, 120, 'm/s');
+  assertInRange('assessCoefficients', 'gustMps', gustMps, 0, maxPlausibleSpeedMps, 'm/s');
   assertAirDensity('assessCoefficients', airDensityKgM3);
   const qPa = dynamicPressurePa(gustMps, airDensityKgM3);
   const governing = governingCase(coefficients);

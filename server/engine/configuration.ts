@@ -20,8 +20,8 @@
  */
 import { assessStructure, type AssessmentOptions, type AssessmentReport } from './assess.ts';
 import { defaultRegisteredConfigurationName, maxConfigurations } from './kinds/recordBase.ts';
-import { screenTowerHeightM } from './kinds/screen.ts';
-import { structureRecordSchema, validateRecordItself, type RecordIssue, type StructureKind, type StructureRecord } from './record.ts';
+import { kindDefinition } from './kinds/index.ts';
+import { validateRecordItself, type RecordIssue, type StructureKind, type StructureRecord } from './record.ts';
 
 export { defaultRegisteredConfigurationName, maxConfigurations };
 
@@ -72,18 +72,8 @@ export function registeredConfigurationName(record: Pick<StructureRecord, 'confi
 
 /** The top-level fields of a kind's record, read from its schema. */
 function kindFields(kind: StructureKind): ReadonlySet<string> {
-  const schema = structureRecordSchema.options.find((option) => option.shape.kind.value === kind);
-  if (!schema) throw new RangeError(`kindFields: kind must be one of the structure kinds, got ${String(kind)}`);
-  return new Set(Object.keys(schema.shape));
+  return new Set(Object.keys(kindDefinition(kind).schema.shape));
 }
-
-const kindWords: Readonly<Record<StructureKind, string>> = {
-  tent: 'a tent',
-  banner: 'a banner',
-  screen: 'a screen',
-  shell: 'a shell',
-  custom: 'a custom',
-};
 
 /** The record itself, without its configurations: what every configuration starts from. */
 function withoutConfigurations(record: StructureRecord): StructureRecord {
@@ -110,7 +100,7 @@ export function applyConfiguration(record: StructureRecord, changes: Readonly<Re
     if (unchangeableFields.includes(field)) {
       issues.push({ path: field, message: `cannot be changed by a configuration (${unchangeableFields.join(', ')} belong to the structure)` });
     } else if (!fields.has(field)) {
-      issues.push({ path: field, message: `is not a field of ${kindWords[record.kind]} record (check the spelling)` });
+      issues.push({ path: field, message: `is not a field of ${kindDefinition(record.kind).recordWords} record (check the spelling)` });
     } else changed.push(field);
   }
   // The fields that may change are checked even when others may not, so one answer names everything.
@@ -137,17 +127,10 @@ export function applyConfiguration(record: StructureRecord, changes: Readonly<Re
   return { ok: false, issues };
 }
 
-/** Changes that move a screen on its towers (lowered, raised, a deeper truss), not the towers. */
-const screenOnTowerFields = ['bottomHeightM', 'heightM', 'headerTrussDepthM'];
-
 /**
- * The record itself with the listed fields of `changes` applied (null removes the field).
- *
- * A screen lowered on its towers leaves the towers standing: when the record derives the towers'
- * height from the screen's top (no `towerHeightM`) and the change moves the screen but does not set
- * `towerHeightM`, the towers keep their registered height. Without this a lowered screen's towers
- * would be modelled shorter, with less wind on them and a lower reference height: about 5 % on the
- * limit of the demo's screen, on the unsafe side (engineering review, issue 14).
+ * The record itself with the listed fields of `changes` applied (null removes the field), and what
+ * the kind carries along with them (its definition's `configured`: a screen lowered on its towers
+ * leaves the towers standing, kinds/screen.ts).
  */
 function changedRecord(record: StructureRecord, changes: Readonly<Record<string, unknown>>, fields: readonly string[]): Record<string, unknown> {
   const merged: Record<string, unknown> = { ...withoutConfigurations(record) };
@@ -155,9 +138,7 @@ function changedRecord(record: StructureRecord, changes: Readonly<Record<string,
     if (changes[field] === null) delete merged[field];
     else merged[field] = changes[field];
   }
-  if (record.kind === 'screen' && record.towerHeightM === undefined && !fields.includes('towerHeightM') && fields.some((f) => screenOnTowerFields.includes(f))) {
-    merged.towerHeightM = screenTowerHeightM(record);
-  }
+  kindDefinition(record.kind).configured?.(record, merged, fields);
   return merged;
 }
 

@@ -7,6 +7,7 @@
  * where the wind blows FROM. A structure's `orientationDeg` is the azimuth its front faces toward
  * (the outward normal of the front face). Wind from 0° onto a structure oriented 0° hits the front.
  */
+import { maxPlausibleSpeedMps } from './limits.ts';
 import { assertInRange } from './rangeCheck.ts';
 
 const degreesPerRadian = 180 / Math.PI;
@@ -54,8 +55,8 @@ function velocityComponents(speedMps: number, towardDeg: number): { eastMps: num
  * (design §2.2). Driving into a 10 m/s wind at 5 m/s gives 15 m/s from ahead.
  */
 export function relativeWindMps({ windMps, windFromDeg, travelSpeedMps, headingDeg }: RelativeWindInput): RelativeWind {
-  assertInRange('relativeWindMps', 'windMps', windMps, 0, 120, 'm/s');
-  assertInRange('relativeWindMps', 'travelSpeedMps', travelSpeedMps, 0, 120, 'm/s');
+  assertInRange('relativeWindMps', 'windMps', windMps, 0, maxPlausibleSpeedMps, 'm/s');
+  assertInRange('relativeWindMps', 'travelSpeedMps', travelSpeedMps, 0, maxPlausibleSpeedMps, 'm/s');
   assertInRange('relativeWindMps', 'windFromDeg', windFromDeg, -360, 360, '°');
   assertInRange('relativeWindMps', 'headingDeg', headingDeg, -360, 360, '°');
   // The air moves toward windFromDeg + 180.
@@ -95,7 +96,7 @@ export interface TravelSpeed {
  */
 export function highestTravelSpeedMps({ limitGustMps, gustMps, windFromDeg, headingDeg }: TravelSpeedInput): TravelSpeed {
   assertInRange('highestTravelSpeedMps', 'limitGustMps', limitGustMps, 0, Infinity, 'm/s');
-  assertInRange('highestTravelSpeedMps', 'gustMps', gustMps, 0, 120, 'm/s');
+  assertInRange('highestTravelSpeedMps', 'gustMps', gustMps, 0, maxPlausibleSpeedMps, 'm/s');
   if (gustMps > limitGustMps) return { possible: false, speedMps: 0 };
   const headwindCosine =
     windFromDeg === null || headingDeg === null ? 1 : Math.cos(angleBetweenDeg(windFromDeg, headingDeg) / degreesPerRadian);

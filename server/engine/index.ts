@@ -14,11 +14,13 @@
  * - units: speed units and Beaufort.
  */
 export * from './units.ts';
+export * from './limits.ts';
 export { standardGravityMps2 } from './gravity.ts';
 export { dynamicPressurePa, speedForDynamicPressureMps } from './dynamicPressure.ts';
 export {
   airDensity,
   airDensityKgM3,
+  airDensityModes,
   assertAirDensity,
   dryAirGasConstantJPerKgK,
   isaAirDensityKgM3,
@@ -72,14 +74,24 @@ export {
 } from './directions.ts';
 export {
   bodyCoefficients,
+  criteria,
+  defaultSafetyFactors,
+  edges,
+  edgeWords,
+  safetyFactorSources,
+  stabilityCoefficients,
+  type BodyCoefficients,
+  type Criterion,
+  type DirectionCoefficients,
+  type Edge,
+  type StabilityCoefficients,
+  type Utilizations,
+} from './stability.ts';
+export {
   calculatedLimitGustMps,
   compactGoverningCase,
   compactStability,
-  criteria,
-  defaultSafetyFactors,
   directionUtilizations,
-  edges,
-  edgeWords,
   effectiveLimitGustMps,
   effectiveLimitMps,
   effectiveUtilization,
@@ -89,23 +101,14 @@ export {
   gustAtPerPaMps,
   gustForUtilizationMps,
   parts,
-  requiredBallast,
-  safetyFactorSources,
-  stabilityCoefficients,
   utilizationAtPa,
   withRating,
   type AssessedDirections,
-  type BodyCoefficients,
   type CompactStability,
-  type Criterion,
-  type DirectionCoefficients,
-  type Edge,
   type GoverningCase,
-  type RequiredBallast,
   type Stability,
-  type StabilityCoefficients,
-  type Utilizations,
-} from './stability.ts';
+} from './utilization.ts';
+export { requiredBallast, type RequiredBallast } from './requiredBallast.ts';
 export { compassPointName, criterionWords, governingWords, sideName, windWords } from './caseWords.ts';
 export {
   directionalUpliftSchema,

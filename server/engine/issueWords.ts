@@ -140,3 +140,38 @@ export function plainIssueMessage(issue: IssueLike): string {
       return 'is not accepted';
   }
 }
+
+/** A problem with one field: dotted path ("masses.2.xM", "" for the whole input) and the reason. */
+export interface PathIssue {
+  path: string;
+  message: string;
+}
+
+/** What an unknown key is called: "is not a field here" (request bodies), "is not a known field" (structure records). */
+export const unknownFieldMessages = {
+  here: 'is not a field here (check the spelling)',
+  known: 'is not a known field (check the spelling)',
+} as const;
+
+/**
+ * The one mapper from zod issues (or anything with a path and a message) to field issues with
+ * dotted paths under `prefix`. An unknown key is reported at its own path with `unknownField`, so
+ * a misspelt field is named, not the object holding it; the library's own wording becomes a plain
+ * phrase (`plainIssueMessage`).
+ *
+ * @example issuePaths(z.strictObject({ a: z.number() }).safeParse({ b: 1 }).error!.issues, { prefix: 'x' })
+ * // → [{ path: 'x.a', message: 'is required (a number)' }, { path: 'x.b', message: 'is not a field here (check the spelling)' }]
+ */
+export function issuePaths(
+  issues: ReadonlyArray<IssueLike & { path: ReadonlyArray<PropertyKey>; keys?: readonly string[] }>,
+  options: { prefix?: string | undefined; unknownField?: string } = {},
+): PathIssue[] {
+  const prefix = options.prefix ?? '';
+  const unknownField = options.unknownField ?? unknownFieldMessages.here;
+  const dotted = (path: ReadonlyArray<PropertyKey>) => [prefix, ...path.map(String)].filter((p) => p !== '').join('.');
+  return issues.flatMap((issue) =>
+    issue.code === 'unrecognized_keys' && issue.keys
+      ? issue.keys.map((key) => ({ path: dotted([...issue.path, key]), message: unknownField }))
+      : [{ path: dotted(issue.path), message: plainIssueMessage(issue) }],
+  );
+}

@@ -10,8 +10,8 @@
  */
 import { z } from 'zod';
 import { configurationIssues } from './configuration.ts';
-import { plainIssueMessage } from './issueWords.ts';
-import { expandStructure } from './kinds/index.ts';
+import { issuePaths, unknownFieldMessages, type PathIssue } from './issueWords.ts';
+import { expandStructure, kindDefinitions } from './kinds/index.ts';
 import { bannerRecordSchema } from './kinds/banner.ts';
 import { customRecordSchema } from './kinds/custom.ts';
 import { screenRecordSchema } from './kinds/screen.ts';
@@ -25,29 +25,22 @@ export type { ScreenRecord } from './kinds/screen.ts';
 export type { ShellRecord } from './kinds/shell.ts';
 export type { TentRecord } from './kinds/tent.ts';
 
-export const structureRecordSchema = z.discriminatedUnion('kind', [
-  tentRecordSchema,
-  bannerRecordSchema,
-  screenRecordSchema,
-  shellRecordSchema,
-  customRecordSchema,
-]);
+/** The schemas of `kindDefinitions` (kinds/index.ts), in its order, as the union's option types. */
+type SchemasOf<Definitions extends readonly unknown[]> = { -readonly [I in keyof Definitions]: Definitions[I] extends { schema: infer Schema } ? Schema : never };
+type KindSchemas = SchemasOf<typeof kindDefinitions>;
+
+/** Every kind's record schema as one union on `kind`, from the kind list (kinds/index.ts `kindDefinitions`). */
+export const structureRecordSchema = z.discriminatedUnion('kind', kindDefinitions.map((definition) => definition.schema) as unknown as KindSchemas);
 
 export type StructureRecord = z.infer<typeof structureRecordSchema>;
 export type StructureKind = StructureRecord['kind'];
-export const structureKinds: readonly StructureKind[] = ['tent', 'banner', 'screen', 'shell', 'custom'];
+/** Every kind's name, in the order of the kind list (the register form's order). */
+export const structureKinds: readonly StructureKind[] = kindDefinitions.map((definition) => definition.kind);
 
 /** A problem with one field: dotted path ("masses.2.xM", "" for the record itself) and the reason. */
-export interface RecordIssue {
-  path: string;
-  message: string;
-}
+export type RecordIssue = PathIssue;
 
 export type RecordValidation = { ok: true; record: StructureRecord } | { ok: false; issues: RecordIssue[] };
-
-function dottedPath(prefix: string, path: ReadonlyArray<PropertyKey>): string {
-  return [prefix, ...path.map(String)].filter((part) => part !== '').join('.');
-}
 
 /**
  * Zod issues as record issues under `prefix`. An unknown key is reported at its own path, so the
@@ -55,11 +48,7 @@ function dottedPath(prefix: string, path: ReadonlyArray<PropertyKey>): string {
  * becomes a plain phrase (issueWords.ts).
  */
 export function recordIssues(issues: ReadonlyArray<z.core.$ZodIssue>, prefix = ''): RecordIssue[] {
-  return issues.flatMap((issue) =>
-    issue.code === 'unrecognized_keys'
-      ? issue.keys.map((key) => ({ path: dottedPath(prefix, [...issue.path, key]), message: 'is not a known field (check the spelling)' }))
-      : [{ path: dottedPath(prefix, issue.path), message: plainIssueMessage(issue) }],
-  );
+  return issuePaths(issues, { prefix, unknownField: unknownFieldMessages.known });
 }
 
 /**

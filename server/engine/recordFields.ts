@@ -4,9 +4,9 @@
  * bounds only catch typos and unit errors (mm for m, g for kg); they are not design limits.
  */
 import { z } from 'zod';
+import { maxDimensionM, maxLabelLength, maxMassKg, maxPlausibleSpeedMps } from './limits.ts';
 
-/** Longest edge or highest point accepted, m: EN 1991-1-4's profile ends at z_max = 200 m. */
-const maxDimensionM = 200;
+// maxDimensionM: longest edge or highest point accepted, m (EN 1991-1-4's profile ends at z_max = 200 m; engine/limits.ts).
 
 /** A length, height or depth > 0 m. */
 export const dimensionM = () =>
@@ -21,7 +21,7 @@ export const areaM2 = () =>
   z.number().gte(0, 'must be ≥ 0 m²').lte(maxDimensionM * maxDimensionM, `must be ≤ ${maxDimensionM * maxDimensionM} m²`);
 
 /** A mass ≥ 0 kg (at most 1 000 t). */
-export const massKg = () => z.number().gte(0, 'must be ≥ 0 kg').lte(1e6, 'must be ≤ 1 000 000 kg');
+export const massKg = () => z.number().gte(0, 'must be ≥ 0 kg').lte(maxMassKg, `must be ≤ ${String(maxMassKg).replace(/\B(?=(\d{3})+$)/g, ' ')} kg`);
 
 /** A force or lift coefficient, 0..4 (the highest code value, EN Table 7.9 zone A, is 3.4). */
 export const coefficient = () => z.number().gte(0, 'must be ≥ 0').lte(4, 'must be ≤ 4');
@@ -33,14 +33,14 @@ export const safetyFactor = () => z.number().gte(1, 'must be ≥ 1').lte(5, 'mus
 export const frictionCoefficient = () => z.number().gt(0, 'must be > 0').lte(1, 'must be ≤ 1');
 
 /** A gust speed, (0, 120] m/s (120 m/s is the plausibility bound of design §3). */
-export const gustMps = () => z.number().gt(0, 'must be > 0 m/s').lte(120, 'must be ≤ 120 m/s');
+export const gustMps = () => z.number().gt(0, 'must be > 0 m/s').lte(maxPlausibleSpeedMps, `must be ≤ ${maxPlausibleSpeedMps} m/s`);
 
 /** A count of legs, feet or towers. */
 export const count = (min: number) =>
   z.number().int('must be a whole number').gte(min, `must be ≥ ${min}`).lte(1000, 'must be ≤ 1000');
 
 /** A label people read: a face or mass name. */
-export const label = () => z.string().trim().min(1, 'must not be empty').max(200, 'must be at most 200 characters');
+export const label = () => z.string().trim().min(1, 'must not be empty').max(maxLabelLength, `must be at most ${maxLabelLength} characters`);
 
 /** A source citation for an overridden value. */
 export const sourceText = () =>

@@ -14,17 +14,17 @@
  * The whole wind action is factored, uplift included (EN 1990 EQU: γ_Q on every destabilizing
  * variable action), and the resistance is self-weight alone. Every force and moment of the wind is
  * proportional to q = ½ρv², so every utilization is U = k·q: this module computes the k of each
- * direction and criterion once per structure (`stabilityCoefficients`), and everything else —
- * utilization at a gust, limit gusts, level gusts, required ballast — is closed-form from them:
+ * direction and criterion once per structure (`stabilityCoefficients`, this file), and everything
+ * else is closed-form from them: utilization at a gust, the governing case, limit gusts and level
+ * gusts (utilization.ts), required ballast (requiredBallast.ts):
  *   U(v) = k·½ρv²,   v_lim = √(2/(ρk)),   fraction f of capacity at v_lim·√f.
  *
  * A record without `baseWidthM` is a strip (first-round records): only the front and back edges
  * are checked, and the report warns that wind onto the ends was not.
  */
-import { assertAirDensity } from './air.ts';
-import { dynamicPressurePa, speedForDynamicPressureMps } from './dynamicPressure.ts';
-import { assessedDirectionsDeg, azimuthDeg, faceIncidence, faceNormal, inSector, wrappedDeg, type DirectionSector } from './directions.ts';
+import { assessedDirectionsDeg, azimuthDeg, faceIncidence, faceNormal, inSector } from './directions.ts';
 import { standardGravityMps2 } from './gravity.ts';
+import { maxDimensionM, maxMassKg, maxPlausibleSpeedMps } from './limits.ts';
 import { assertAbove, assertInRange } from './rangeCheck.ts';
 import type { ExpandedStructure, SafetyFactors, StabilityBody, Uplift } from './structure.ts';
 
@@ -94,12 +94,6 @@ export interface StabilityCoefficients {
   ratedGustMps: number | null;
 }
 
-/** The worst direction (and part) of a structure, by k: the same at every gust, since U = k·q. */
-export interface GoverningCase {
-  part: BodyCoefficients;
-  direction: DirectionCoefficients;
-}
-
 function checked(caller: string, name: string, value: number, min: number, max: number, unit = ''): number {
   assertInRange(caller, name, value, min, max, unit);
   return value;
@@ -113,7 +107,7 @@ const edgeNormals: Readonly<Record<Edge, { x: number; y: number }>> = {
 };
 
 /** Distance of a plan point from each edge (the lever about that edge), m. */
-function distancesM(xM: number, yM: number, depthM: number, widthM: number): Record<Edge, number> {
+export function distancesM(xM: number, yM: number, depthM: number, widthM: number): Record<Edge, number> {
   return { front: xM, back: depthM - xM, endY0: yM, endYW: widthM - yM };
 }
 
@@ -136,7 +130,7 @@ interface CheckedUplift {
 }
 
 function checkedUplift(caller: string, path: string, uplift: Uplift, depthM: number, widthM: number): CheckedUplift {
-  const planAreaM2 = checked(caller, `${path}.planAreaM2`, uplift.planAreaM2, 0, 40_000, 'm²');
+  const planAreaM2 = checked(caller, `${path}.planAreaM2`, uplift.planAreaM2, 0, maxDimensionM * maxDimensionM, 'm²');
   const lift = checked(caller, `${path}.liftCoefficient`, uplift.liftCoefficient, 0, 4);
   const xM = checked(caller, `${path}.xM`, uplift.xM ?? depthM / 2, 0, depthM, 'm (within the base)');
   const yM = checked(caller, `${path}.yM`, uplift.yM ?? widthM / 2, 0, widthM, 'm (within the base)');
@@ -160,9 +154,9 @@ export function bodyCoefficients(body: StabilityBody, element: string | null = n
   const { facingsDeg = [], exactDeg = [], refine = true } = options;
   const caller = element === null ? 'stabilityCoefficients' : `stabilityCoefficients (element "${element}")`;
   const depthM = body.baseDepthM;
-  assertAbove(caller, 'baseDepthM', depthM, 0, 200, 'm');
+  assertAbove(caller, 'baseDepthM', depthM, 0, maxDimensionM, 'm');
   const strip = body.baseWidthM === undefined;
-  if (!strip) assertAbove(caller, 'baseWidthM', body.baseWidthM!, 0, 200, 'm');
+  if (!strip) assertAbove(caller, 'baseWidthM', body.baseWidthM!, 0, maxDimensionM, 'm');
   // A strip has no ends to tip about; its y positions do not enter.
   const widthM = body.baseWidthM ?? 0;
   assertAbove(caller, 'frictionCoefficient', body.frictionCoefficient, 0, 1);
@@ -170,8 +164,8 @@ export function bodyCoefficients(body: StabilityBody, element: string | null = n
   const usedEdges: readonly Edge[] = strip ? ['front', 'back'] : edges;
 
   const faces = body.faces.map((face, index) => {
-    const areaM2 = checked(caller, `faces.${index}.areaM2`, face.areaM2, 0, 40_000, 'm²');
-    const heightM = checked(caller, `faces.${index}.centroidHeightM`, face.centroidHeightM, 0, 200, 'm');
+    const areaM2 = checked(caller, `faces.${index}.areaM2`, face.areaM2, 0, maxDimensionM * maxDimensionM, 'm²');
+    const heightM = checked(caller, `faces.${index}.centroidHeightM`, face.centroidHeightM, 0, maxDimensionM, 'm');
     const facingDeg = checked(caller, `faces.${index}.facingDeg`, face.facingDeg ?? 0, 0, 360, '°');
     return {
       facingDeg,
@@ -185,7 +179,7 @@ export function bodyCoefficients(body: StabilityBody, element: string | null = n
   let weightN = 0;
   const restoringMomentNm: Record<Edge, number> = { front: 0, back: 0, endY0: 0, endYW: 0 };
   body.masses.forEach((mass, index) => {
-    const massWeightN = standardGravityMps2 * checked(caller, `masses.${index}.massKg`, mass.massKg, 0, 1e6, 'kg');
+    const massWeightN = standardGravityMps2 * checked(caller, `masses.${index}.massKg`, mass.massKg, 0, maxMassKg, 'kg');
     const xM = checked(caller, `masses.${index}.xM`, mass.xM, 0, depthM, 'm (within the base)');
     const yM = checked(caller, `masses.${index}.yM`, mass.yM ?? widthM / 2, 0, widthM, 'm (within the base)');
     weightN += massWeightN;
@@ -329,7 +323,7 @@ function travelEdge(forceX: number, forceY: number): Edge {
 
 /** The whole structure's coefficients: body, elements (each on its own base), rating. */
 export function stabilityCoefficients(structure: ExpandedStructure): StabilityCoefficients {
-  if (structure.ratedGustMps !== undefined) assertAbove('stabilityCoefficients', 'ratedGustMps', structure.ratedGustMps, 0, 120, 'm/s');
+  if (structure.ratedGustMps !== undefined) assertAbove('stabilityCoefficients', 'ratedGustMps', structure.ratedGustMps, 0, maxPlausibleSpeedMps, 'm/s');
   // Every part is assessed in every direction any part has a face normal in, so that the
   // structure's directions line up across its parts.
   const allParts = [structure, ...(structure.elements ?? [])];
@@ -344,258 +338,6 @@ export function stabilityCoefficients(structure: ExpandedStructure): StabilityCo
       ? first
       : allParts.map((part, index) => ({ ...bodyCoefficients(part, names[index]!, { facingsDeg: normals, exactDeg: refined, refine: false }), refinedDeg: first[index]!.refinedDeg }));
   return { body: parts[0]!, elements: parts.slice(1), ratedGustMps: structure.ratedGustMps ?? null };
-}
-
-/** k × q, with an unbounded k giving 0 at q = 0 (no wind, no load) and Infinity above. */
-export function utilizationAtPa(perPaValue: number, qPa: number): number {
-  if (qPa === 0) return 0;
-  return perPaValue * qPa;
-}
-
-/** Utilizations of one direction at dynamic pressure q. */
-export function directionUtilizations(direction: DirectionCoefficients, qPa: number): Utilizations {
-  const k = direction.utilizationPerPa;
-  return {
-    overturning: utilizationAtPa(k.overturning, qPa),
-    sliding: utilizationAtPa(k.sliding, qPa),
-    uplift: utilizationAtPa(k.uplift, qPa),
-    governing: utilizationAtPa(k.governing, qPa),
-  };
-}
-
-/** Relative direction of the wind, or the sector of directions to assess: null = every direction. */
-export type AssessedDirections = DirectionSector | null;
-
-/** Parts of the structure: the body first, then its elements. */
-export function parts(coefficients: StabilityCoefficients): BodyCoefficients[] {
-  return [coefficients.body, ...coefficients.elements];
-}
-
-/**
- * Where the highest k is: part p and direction d with the highest `kAt(p, d)`, over the directions
- * within `sector` (all when null), the first direction and then the body on a tie. A sector holds
- * at least one of the 15° directions when it is 7.5° wide or more; a narrower one falls back to the
- * direction assessed nearest its centre. One search for the calculator's full coefficients and the
- * watch's compact ones.
- */
-function highestK(
-  directionsDeg: ArrayLike<number>,
-  partCount: number,
-  kAt: (part: number, direction: number) => number,
-  sector: AssessedDirections,
-): { part: number; direction: number } {
-  let best = { part: -1, direction: -1, k: -Infinity };
-  let nearest = 0;
-  for (let d = 0; d < directionsDeg.length; d++) {
-    if (sector !== null && !inSector(directionsDeg[d]!, sector)) {
-      if (Math.abs(wrappedDeg(directionsDeg[d]! - sector.centreDeg)) < Math.abs(wrappedDeg(directionsDeg[nearest]! - sector.centreDeg))) nearest = d;
-      continue;
-    }
-    for (let p = 0; p < partCount; p++) {
-      const k = kAt(p, d);
-      if (best.part < 0 || k > best.k) best = { part: p, direction: d, k };
-    }
-  }
-  if (best.part >= 0) return best;
-  let part = 0;
-  for (let p = 1; p < partCount; p++) if (kAt(p, nearest) > kAt(part, nearest)) part = p;
-  return { part, direction: nearest };
-}
-
-/**
- * The governing case: the part and direction with the highest k (within `sector` when given).
- * Since every U = k·q this is the governing case at every gust.
- */
-export function governingCase(coefficients: StabilityCoefficients, sector: AssessedDirections = null): GoverningCase {
-  const all = parts(coefficients);
-  const directions = coefficients.body.directions;
-  const found = highestK(
-    directions.map((direction) => direction.directionDeg),
-    all.length,
-    (p, d) => all[p]!.directions[d]!.utilizationPerPa.governing,
-    sector,
-  );
-  const part = all[found.part]!;
-  return { part, direction: part.directions[found.direction]! };
-}
-
-/**
- * What the live watch keeps of a structure's coefficients: per part and direction only the
- * governing k, its criterion and its tipping edge, in typed arrays (a thousand structures with
- * their elements hold tens of thousands of directions). Everything the watch shows follows from
- * these: U = k·q, limits, effective figures, and what governs in words.
- */
-export interface CompactStability {
-  /** Directions assessed, degrees relative to the front; the same for every part. */
-  directionsDeg: Float64Array;
-  /** Part names: null for the body, then the elements'. */
-  parts: ReadonlyArray<string | null>;
-  /** Governing k of part p in direction d at [p · directions + d], 1/Pa. */
-  k: Float64Array;
-  /** Index into `criteria` of that governing k. */
-  criterion: Uint8Array;
-  /** Index into `edges` of the edge that case tips about. */
-  edge: Uint8Array;
-  strip: boolean;
-  ratedGustMps: number | null;
-}
-
-export function compactStability(coefficients: StabilityCoefficients): CompactStability {
-  const all = parts(coefficients);
-  const count = coefficients.body.directions.length;
-  const k = new Float64Array(all.length * count);
-  const criterion = new Uint8Array(all.length * count);
-  const edge = new Uint8Array(all.length * count);
-  all.forEach((part, p) =>
-    part.directions.forEach((direction, d) => {
-      k[p * count + d] = direction.utilizationPerPa.governing;
-      criterion[p * count + d] = criteria.indexOf(direction.governing);
-      edge[p * count + d] = edges.indexOf(direction.tippingEdge);
-    }),
-  );
-  return {
-    directionsDeg: Float64Array.from(coefficients.body.directions, (direction) => direction.directionDeg),
-    parts: all.map((part) => part.element),
-    k,
-    criterion,
-    edge,
-    strip: coefficients.body.strip,
-    ratedGustMps: coefficients.ratedGustMps,
-  };
-}
-
-/** The governing case of a compact structure: part, direction, criterion, edge and k (the first on a tie). */
-export function compactGoverningCase(
-  stability: CompactStability,
-  sector: AssessedDirections = null,
-): { element: string | null; directionDeg: number; criterion: Criterion; tippingEdge: Edge; perPa: number } {
-  const count = stability.directionsDeg.length;
-  const found = highestK(stability.directionsDeg, stability.parts.length, (p, d) => stability.k[p * count + d]!, sector);
-  const index = found.part * count + found.direction;
-  return {
-    element: stability.parts[found.part]!,
-    directionDeg: stability.directionsDeg[found.direction]!,
-    criterion: criteria[stability.criterion[index]!]!,
-    tippingEdge: edges[stability.edge[index]!]!,
-    perPa: stability.k[index]!,
-  };
-}
-
-/** The structure's coefficients, full (the calculator's) or compact (the watch's). */
-export type Stability = StabilityCoefficients | CompactStability;
-
-/** The highest governing k (1/Pa) of the structure, within the sector when given. */
-export function governingPerPa(stability: Stability, sector: AssessedDirections = null): number {
-  if ('k' in stability) return compactGoverningCase(stability, sector).perPa;
-  return governingCase(stability, sector).direction.utilizationPerPa.governing;
-}
-
-/** The gust (m/s) at which utilization k·q reaches `fraction`: √(2f/(ρk)); Infinity when k = 0, 0 when unbounded. */
-export function gustAtPerPaMps(perPaValue: number, fraction: number, airDensityKgM3: number): number {
-  if (perPaValue <= 0) return Infinity;
-  if (!Number.isFinite(perPaValue)) return 0;
-  return speedForDynamicPressureMps(fraction / perPaValue, airDensityKgM3);
-}
-
-/** The calculated limit gust (m/s): the lowest over parts, directions and criteria (within the sector). */
-export function calculatedLimitGustMps(coefficients: Stability, airDensityKgM3: number, sector: AssessedDirections = null): number {
-  assertAirDensity('calculatedLimitGustMps', airDensityKgM3);
-  return gustAtPerPaMps(governingPerPa(coefficients, sector), 1, airDensityKgM3);
-}
-
-/** The effective limit (design §2.3): the lower of the calculated limit and the rated gust, m/s. */
-export function effectiveLimitMps(coefficients: Stability, airDensityKgM3: number, sector: AssessedDirections = null): number {
-  const calculated = calculatedLimitGustMps(coefficients, airDensityKgM3, sector);
-  return coefficients.ratedGustMps === null ? calculated : Math.min(calculated, coefficients.ratedGustMps);
-}
-
-/** The effective utilization from the calculated one: max(U, (v / v_rated)²) (design §2.3). */
-export function withRating(calculatedUtilization: number, gustMps: number, ratedGustMps: number | null): number {
-  if (ratedGustMps === null) return calculatedUtilization;
-  const ratio = gustMps / ratedGustMps;
-  return Math.max(calculatedUtilization, ratio * ratio);
-}
-
-/** Effective utilization at a gust: max(U, (v / v_rated)²) (design §2.3). */
-export function effectiveUtilization(coefficients: Stability, gustMps: number, airDensityKgM3: number, sector: AssessedDirections = null): number {
-  return withRating(utilizationAtPa(governingPerPa(coefficients, sector), dynamicPressurePa(gustMps, airDensityKgM3)), gustMps, coefficients.ratedGustMps);
-}
-
-/** The gust (m/s) at which the effective utilization reaches `fraction` of capacity: v_lim,eff·√f. */
-export function gustAtFractionMps(coefficients: Stability, fraction: number, airDensityKgM3: number, sector: AssessedDirections = null): number {
-  assertAbove('gustAtFractionMps', 'fraction', fraction, 0, 10);
-  return effectiveLimitMps(coefficients, airDensityKgM3, sector) * Math.sqrt(fraction);
-}
-
-/** The whole-structure effective limit from an expanded structure, m/s (compute coefficients once where it matters). */
-export function effectiveLimitGustMps(structure: ExpandedStructure, airDensityKgM3: number): number {
-  return effectiveLimitMps(stabilityCoefficients(structure), airDensityKgM3);
-}
-
-/** The gust at which a fraction of the effective capacity is reached, from an expanded structure. */
-export function gustForUtilizationMps(structure: ExpandedStructure, fraction: number, airDensityKgM3: number): number {
-  return gustAtFractionMps(stabilityCoefficients(structure), fraction, airDensityKgM3);
-}
-
-/** A stated answer for required ballast: the mass, or why no mass at that point can do it. */
-export type RequiredBallast =
-  | { possible: true; massKg: number }
-  | { possible: false; massKg: null; reason: string };
-
-/**
- * Extra mass at plan point (xM, yM) of the body that brings the effective governing utilization at
- * `designGustMps` to 1 (design §2.3). Every check is linear in the added mass Δm:
- *   overturning about e: Δm = (γ_ot (M_h,e + M_u,e) − M_w,e) / (g · dist(point, e)),
- *   sliding: Δm = (γ_sl (|F⃗| + μ F_up) / μ − W) / g,   uplift: Δm = (γ_up F_up − W) / g.
- * Not possible when the rating governs (the design gust is above the rated gust), when an element
- * fails at the design gust (ballast on the body does not hold down a part on its own feet), or
- * when the point sits on an edge that needs more restoring moment.
- */
-export function requiredBallast(
-  coefficients: StabilityCoefficients,
-  designGustMps: number,
-  airDensityKgM3: number,
-  point: { xM: number; yM?: number | undefined },
-): RequiredBallast {
-  const caller = 'requiredBallast';
-  assertInRange(caller, 'designGustMps', designGustMps, 0, 120, 'm/s');
-  assertAirDensity(caller, airDensityKgM3);
-  const body = coefficients.body;
-  assertInRange(caller, 'xM', point.xM, 0, body.baseDepthM, 'm (within the base)');
-  const widthM = body.baseWidthM ?? 0;
-  const yM = point.yM ?? widthM / 2;
-  assertInRange(caller, 'yM', yM, 0, widthM, 'm (within the base)');
-  if (coefficients.ratedGustMps !== null && designGustMps > coefficients.ratedGustMps) {
-    return { possible: false, massKg: null, reason: `the design gust is above the rated gust ${coefficients.ratedGustMps} m/s: no ballast raises a rating` };
-  }
-  const qPa = dynamicPressurePa(designGustMps, airDensityKgM3);
-  for (const element of coefficients.elements) {
-    const worst = Math.max(...element.directions.map((direction) => utilizationAtPa(direction.utilizationPerPa.governing, qPa)));
-    if (worst > 1) {
-      return { possible: false, massKg: null, reason: `${element.element} fails on its own at this gust: it needs ballast of its own` };
-    }
-  }
-  const levers = distancesM(point.xM, yM, body.baseDepthM, widthM);
-  const usedEdges: readonly Edge[] = body.strip ? ['front', 'back'] : edges;
-  const { safetyFactors, frictionCoefficient: mu, weightN } = body;
-  let neededWeightN = 0;
-  for (const direction of body.directions) {
-    const upliftN = direction.upliftPerPaM2 * qPa;
-    neededWeightN = Math.max(
-      neededWeightN,
-      (safetyFactors.sliding * (direction.forcePerPaM2 * qPa + mu * upliftN)) / mu - weightN,
-      safetyFactors.uplift * upliftN - weightN,
-    );
-    for (const edge of usedEdges) {
-      const deficitNm = safetyFactors.overturning * direction.windMomentPerPaM3[edge] * qPa - direction.restoringMomentNm[edge];
-      if (deficitNm <= 0) continue;
-      if (levers[edge] <= 0) {
-        return { possible: false, massKg: null, reason: `ballast on the ${edgeWords[edge]} adds nothing against tipping about it: place it elsewhere` };
-      }
-      neededWeightN = Math.max(neededWeightN, deficitNm / levers[edge]);
-    }
-  }
-  return { possible: true, massKg: neededWeightN / standardGravityMps2 };
 }
 
 /** Edges in words, for reports and reasons. */

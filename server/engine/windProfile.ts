@@ -5,6 +5,7 @@
  * The orography factor c_0 is 1 (flat terrain) unless given; the turbulence factor k_I is 1.0
  * (the recommended value). Heights run from 0 (clamped to z_min) to z_max = 200 m.
  */
+import { maxDimensionM, maxPlausibleSpeedMps } from './limits.ts';
 import { assertAbove, assertInRange } from './rangeCheck.ts';
 import { dynamicPressurePa } from './dynamicPressure.ts';
 
@@ -28,8 +29,8 @@ export const terrainParameters: Readonly<Record<TerrainCategory, TerrainParamete
   IV: { roughnessLengthM: 1.0, minimumHeightM: 10, description: 'at least 15 % of the surface covered by buildings higher than 15 m' },
 };
 
-/** z_max of EN 1991-1-4 §4.3.2, m. */
-export const profileMaximumHeightM = 200;
+/** z_max of EN 1991-1-4 §4.3.2 (Table 4.1: 200 m), m; engine/limits.ts bounds every height by it. */
+export const profileMaximumHeightM = maxDimensionM;
 /** Roughness length of category II, the reference terrain of expression 4.5, m. */
 const referenceRoughnessLengthM = 0.05;
 /** Turbulence factor k_I, recommended value (EN 1991-1-4 §4.4 note 2). */
@@ -82,7 +83,7 @@ export interface ProfileInput {
 
 /** Mean wind v_m(z) = c_r(z) c_0(z) v_b in m/s (EN 1991-1-4 expression 4.3). */
 export function meanWindMps({ baseWindMps, heightM, terrainCategory, orographyFactor = 1 }: ProfileInput): number {
-  assertInRange('meanWindMps', 'baseWindMps', baseWindMps, 0, 120, 'm/s');
+  assertInRange('meanWindMps', 'baseWindMps', baseWindMps, 0, maxPlausibleSpeedMps, 'm/s');
   assertAbove('meanWindMps', 'orographyFactor', orographyFactor, 0);
   return roughnessFactor(heightM, terrainCategory) * orographyFactor * baseWindMps;
 }
@@ -183,7 +184,7 @@ export interface LogLawTransfer {
  */
 export function logLawSpeedMps({ speedMps, fromHeightM, toHeightM, roughnessLengthM }: LogLawTransfer): number {
   const caller = 'logLawSpeedMps';
-  assertInRange(caller, 'speedMps', speedMps, 0, 120, 'm/s');
+  assertInRange(caller, 'speedMps', speedMps, 0, maxPlausibleSpeedMps, 'm/s');
   assertAbove(caller, 'roughnessLengthM', roughnessLengthM, 0, 5, 'm');
   assertAbove(caller, 'fromHeightM', fromHeightM, roughnessLengthM, profileMaximumHeightM, 'm');
   assertAbove(caller, 'toHeightM', toHeightM, roughnessLengthM, profileMaximumHeightM, 'm');
@@ -196,7 +197,7 @@ export function logLawSpeedMps({ speedMps, fromHeightM, toHeightM, roughnessLeng
  */
 export function powerLawSpeedMps(speedMps: number, fromHeightM: number, toHeightM: number, exponent = 1 / 7): number {
   const caller = 'powerLawSpeedMps';
-  assertInRange(caller, 'speedMps', speedMps, 0, 120, 'm/s');
+  assertInRange(caller, 'speedMps', speedMps, 0, maxPlausibleSpeedMps, 'm/s');
   assertAbove(caller, 'fromHeightM', fromHeightM, 0, profileMaximumHeightM, 'm');
   assertAbove(caller, 'toHeightM', toHeightM, 0, profileMaximumHeightM, 'm');
   assertAbove(caller, 'exponent', exponent, 0, 1);
@@ -218,7 +219,7 @@ export interface CrossTerrainTransfer {
  */
 export function crossTerrainMeanWindMps(transfer: CrossTerrainTransfer): number {
   const { meanWindMps: measuredMps, fromHeightM, fromCategory, toHeightM, toCategory } = transfer;
-  assertInRange('crossTerrainMeanWindMps', 'meanWindMps', measuredMps, 0, 120, 'm/s');
+  assertInRange('crossTerrainMeanWindMps', 'meanWindMps', measuredMps, 0, maxPlausibleSpeedMps, 'm/s');
   const equivalentBaseWindMps = measuredMps / roughnessFactor(fromHeightM, fromCategory);
   return roughnessFactor(toHeightM, toCategory) * equivalentBaseWindMps;
 }

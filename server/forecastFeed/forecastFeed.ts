@@ -1,7 +1,7 @@
 /**
  * The forecast feed (design §2.7, issue 17): the server polls a forecast from the address in the
  * site settings at the site's interval, reads it with the forecast table's parser
- * (levels/parseForecastFeed.ts) and keeps every poll in `forecast_polls`, good or not.
+ * (foresight/parseForecastFeed.ts) and keeps every poll in `forecast_polls`, good or not.
  *
  * It never holds up ingest: the request is asynchronous with its own timer (unref'd, so it keeps
  * no process alive), one poll at a time (a poll asked for while one runs waits for it), a timeout
@@ -10,13 +10,12 @@
  * with the reason in words, retried with back-off (pollDelay.ts). Settings are read at each poll;
  * a change of address, interval or unit polls at once.
  */
-import { and, desc, eq } from 'drizzle-orm';
 import { performance } from 'node:perf_hooks';
-import { forecastPollsTable } from '../../db/schema.ts';
-import { parseForecastFeed, type ForecastRow, type ForecastSpeedUnit } from '../levels/index.ts';
+import { parseForecastFeed, type ForecastSpeedUnit } from '../foresight/index.ts';
 import type { Logger } from '../log.ts';
 import { getSite } from '../register/site.ts';
-import type { Db } from '../storage/database.ts';
+import type { ForecastPoll } from '../storage/forecastPolls.ts';
+import type { Storage } from '../storage/storage.ts';
 import { fetchErrorWords, fetchFeed } from './fetchFeed.ts';
 import { feedIsStale, nextPollDelayMs } from './pollDelay.ts';
 
@@ -31,21 +30,7 @@ export interface ForecastFeedOptions {
   now?: () => number;
 }
 
-export interface ForecastPoll {
-  id: number;
-  atMs: number;
-  url: string;
-  httpStatus: number | null;
-  ok: boolean;
-  error: string | null;
-  format: 'csv' | 'json' | null;
-  /** The rows read, in SI units; null when the poll failed. */
-  rows: ForecastRow[] | null;
-  /** How the body was read, or every problem found in it. */
-  notes: string[];
-  bytes: number | null;
-  durationMs: number;
-}
+export type { ForecastPoll };
 
 export interface ForecastFeedSettings {
   url: string | null;
@@ -73,24 +58,6 @@ export interface ForecastFeedStatus {
 export const defaultFeedTimeoutMs = 15_000;
 export const defaultFeedMaxBytes = 1_048_576;
 
-type PollRow = typeof forecastPollsTable.$inferSelect;
-
-function pollOf(row: PollRow): ForecastPoll {
-  return {
-    id: row.id,
-    atMs: row.atMs,
-    url: row.url,
-    httpStatus: row.httpStatus,
-    ok: row.ok,
-    error: row.error,
-    format: row.format as ForecastPoll['format'],
-    rows: (row.rowsJson as ForecastRow[] | null) ?? null,
-    notes: (row.notesJson as string[] | null) ?? [],
-    bytes: row.bytes,
-    durationMs: row.durationMs,
-  };
-}
-
 export class ForecastFeed {
   private readonly timers: boolean;
   private readonly timeoutMs: number;
@@ -104,9 +71,9 @@ export class ForecastFeed {
   /** Failed polls in a row of the address set now (reset from the database when it changes). */
   private failures = 0;
 
-  private readonly deps: { db: Db; now: () => number; log?: Logger };
+  private readonly deps: { storage: Storage; now: () => number; log?: Logger };
 
-  constructor(deps: { db: Db; now: () => number; log?: Logger }, options: ForecastFeedOptions = {}) {
+  constructor(deps: { storage: Storage; now: () => number; log?: Logger }, options: ForecastFeedOptions = {}) {
     this.deps = { ...deps, now: options.now ?? deps.now };
     this.timers = options.timers ?? true;
     this.timeoutMs = options.timeoutMs ?? defaultFeedTimeoutMs;
@@ -119,8 +86,8 @@ export class ForecastFeed {
   }
 
   settings(): ForecastFeedSettings {
-    const site = getSite(this.deps.db);
-    return { url: site.forecastFeedUrl, intervalMs: site.forecastFeedIntervalMs, unit: site.forecastFeedUnit as ForecastSpeedUnit | null, heightM: site.forecastFeedHeightM };
+    const site = getSite(this.deps.storage);
+    return { url: site.forecastFeedUrl, intervalMs: site.forecastFeedIntervalMs, unit: site.forecastFeedUnit, heightM: site.forecastFeedHeightM };
   }
 
   /** Plans the first poll: at once when the address has never been polled, else when the last poll's next one falls due. */
@@ -171,25 +138,11 @@ export class ForecastFeed {
 
   /** The newest poll of an address (any address when none is given). */
   lastPoll(url?: string | null): ForecastPoll | null {
-    const row = this.deps.db
-      .select()
-      .from(forecastPollsTable)
-      .where(url ? eq(forecastPollsTable.url, url) : undefined)
-      .orderBy(desc(forecastPollsTable.atMs), desc(forecastPollsTable.id))
-      .limit(1)
-      .get();
-    return row ? pollOf(row) : null;
+    return this.deps.storage.forecastPolls.last(url);
   }
 
   lastSuccess(url: string): ForecastPoll | null {
-    const row = this.deps.db
-      .select()
-      .from(forecastPollsTable)
-      .where(and(eq(forecastPollsTable.url, url), eq(forecastPollsTable.ok, true)))
-      .orderBy(desc(forecastPollsTable.atMs), desc(forecastPollsTable.id))
-      .limit(1)
-      .get();
-    return row ? pollOf(row) : null;
+    return this.deps.storage.forecastPolls.lastWith(url, true);
   }
 
   status(nowMs = this.deps.now()): ForecastFeedStatus {
@@ -215,13 +168,7 @@ export class ForecastFeed {
   health(): { configured: boolean; ok: boolean | null; stale: boolean; lastError: string | null; lastErrorAtMs: number | null; lastSuccessAtMs: number | null } {
     const s = this.status();
     if (!s.configured) return { configured: false, ok: null, stale: false, lastError: null, lastErrorAtMs: null, lastSuccessAtMs: null };
-    const failed = this.deps.db
-      .select({ atMs: forecastPollsTable.atMs, error: forecastPollsTable.error })
-      .from(forecastPollsTable)
-      .where(and(eq(forecastPollsTable.url, s.settings.url!), eq(forecastPollsTable.ok, false)))
-      .orderBy(desc(forecastPollsTable.atMs), desc(forecastPollsTable.id))
-      .limit(1)
-      .get();
+    const failed = this.deps.storage.forecastPolls.lastWith(s.settings.url!, false);
     return {
       configured: true,
       ok: s.lastPoll?.ok === true && !s.stale,
@@ -259,19 +206,16 @@ export class ForecastFeed {
   private storedFailures(url: string | null): number {
     if (url === null) return 0;
     const good = this.lastSuccess(url);
-    return this.deps.db.$client
-      .prepare('SELECT COUNT(*) AS n FROM forecast_polls WHERE url = ? AND ok = 0 AND id > ?')
-      .pluck()
-      .get(url, good?.id ?? 0) as number;
+    return this.deps.storage.forecastPolls.failuresAfter(url, good?.id ?? 0);
   }
 
   private async pollOnce(): Promise<ForecastPoll | null> {
-    const { db, now, log } = this.deps;
+    const { storage, now, log } = this.deps;
     let settings: ForecastFeedSettings;
     let timeZone: string;
     try {
       settings = this.settings();
-      timeZone = getSite(db).timeZone;
+      timeZone = getSite(storage).timeZone;
     } catch (err) {
       log?.error({ err: fetchErrorWords(err) }, 'forecast feed: the site settings cannot be read');
       return null;
@@ -302,23 +246,7 @@ export class ForecastFeed {
     if (!result.ok && !wasFailing) log?.warn({ url: redactedUrl(url), error: result.error }, 'forecast feed poll failed: the board shows the feed as failed');
     if (result.ok && wasFailing) log?.info({ url: redactedUrl(url), rows: result.rows?.length ?? 0 }, 'forecast feed read again');
     try {
-      const row = db
-        .insert(forecastPollsTable)
-        .values({
-          atMs,
-          url,
-          httpStatus: result.httpStatus,
-          ok: result.ok,
-          error: result.error,
-          format: result.format,
-          rowsJson: result.rows,
-          notesJson: result.notes,
-          bytes: result.bytes,
-          durationMs,
-        })
-        .returning()
-        .get();
-      return pollOf(row);
+      return storage.forecastPolls.add({ atMs, url, durationMs, ...result });
     } catch (err) {
       log?.error({ err: fetchErrorWords(err) }, 'forecast feed: the poll cannot be stored');
       return { id: 0, atMs, url, durationMs, ...result };

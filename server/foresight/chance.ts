@@ -17,6 +17,7 @@
  * slow swings of the mean) the Poisson count over-states the chance: the estimate errs high, which
  * is the safe side; a rising mean wind is not in it (see meanTrend.ts for that).
  */
+import { maxPlausibleSpeedMps } from '../engine/limits.ts';
 import { assertAbove, assertInRange } from '../engine/rangeCheck.ts';
 import { peakFactor } from './peakFactor.ts';
 
@@ -52,8 +53,8 @@ export interface Chance {
 export const maxDurationS = 86_400;
 /** Highest up-crossing rate accepted, Hz: far above any 3-s mean speed's (sanity bound). */
 export const maxUpcrossingRateHz = 100;
-/** Highest measured speed accepted, m/s: the plausibility bound of design.md 3. */
-export const maxSpeedMps = 120;
+/** Highest measured speed accepted, m/s: the plausibility bound of design.md 3 (engine/limits.ts). */
+export const maxSpeedMps = maxPlausibleSpeedMps;
 /**
  * Highest U or σ accepted here, m/s: a sanity bound above the sensors' 120 m/s, because a height
  * factor may raise a measured figure (structureGustProcess.ts); anything beyond is an error.

@@ -59,3 +59,30 @@ export {
   type TrendStatus,
 } from './meanTrend.ts';
 export { timeToLevel, type TimeToLevelInput, type TimeToLevel } from './timeToLevel.ts';
+// Forecasts (design §2.7 and §2.8): a pasted or polled forecast table read and turned into each
+// structure's predicted level hour by hour, in each configuration.
+export {
+  parseForecastTable,
+  maxForecastRows,
+  maxForecastProblems,
+  type ForecastRow,
+  type ForecastTable,
+  type ForecastTableOptions,
+  type ForecastTableProblem,
+} from './parseForecastTable.ts';
+export { parseForecastFeed, isJsonBody, type ForecastFeedFormat, type ForecastFeedRead } from './parseForecastFeed.ts';
+export { forecastSpeedUnits, beaufortTopMps, speedCell, type ForecastSpeedUnit, type ForecastCellUnit } from './forecastSpeedUnit.ts';
+export { dateOrders, type DateOrder } from './forecastDateTime.ts';
+export {
+  predictLevels,
+  predictPlannedLevels,
+  inlandGustFactor,
+  type ChanceThreshold,
+  type ForecastConfiguration,
+  type ForecastPlannedStructure,
+  type PlannedPrediction,
+  type ForecastInputRow,
+  type ForecastPrediction,
+  type ForecastStructure,
+  type PredictedLevel,
+} from './predictLevels.ts';

@@ -19,6 +19,7 @@
  *    independent means, every order equally likely — in 174 of the 5 040 orders, 3.5 % (counted
  *    by enumeration).
  */
+import { maxPlausibleSpeedMps } from '../engine/limits.ts';
 import { assertInRange } from '../engine/rangeCheck.ts';
 import { maxTheilSenPoints, theilSenLine } from './theilSen.ts';
 
@@ -75,7 +76,7 @@ export function meanTrend(series: MeanSeries, nowMs: number): MeanTrend {
     if (i > 0 && !(t > atMs[i - 1]!)) {
       throw new RangeError(`${caller}: series.atMs must increase strictly, got atMs[${i}] = ${t} after atMs[${i - 1}] = ${atMs[i - 1]}`);
     }
-    assertInRange(caller, `series.meanMps[${i}]`, meanMps[i]!, 0, 120, 'm/s');
+    assertInRange(caller, `series.meanMps[${i}]`, meanMps[i]!, 0, maxPlausibleSpeedMps, 'm/s');
     if (t >= nowMs - trendWindowMs && t <= nowMs) {
       // Seconds from now (≤ 0): small numbers, so the pairwise differences keep their digits.
       times.push((t - nowMs) / 1000);

@@ -12,6 +12,7 @@
  *   measured over): a trend is not extrapolated further ahead than it was observed.
  * The estimate assumes the gust factor stays as it is; it says nothing of a squall line.
  */
+import { maxPlausibleSpeedMps } from '../engine/limits.ts';
 import { assertAbove, assertInRange } from '../engine/rangeCheck.ts';
 import type { MeanTrend, TrendStatus } from './meanTrend.ts';
 
@@ -40,7 +41,7 @@ export type TimeToLevel =
 export function timeToLevel(input: TimeToLevelInput): TimeToLevel {
   const caller = 'timeToLevel';
   const heightFactor = input.heightFactor ?? 1;
-  assertInRange(caller, 'meanMps', input.meanMps, 0, 120, 'm/s');
+  assertInRange(caller, 'meanMps', input.meanMps, 0, maxPlausibleSpeedMps, 'm/s');
   assertInRange(caller, 'gustFactor', input.gustFactor, 1, 10);
   assertInRange(caller, 'triggerGustMps', input.triggerGustMps, 0, Number.MAX_VALUE, 'm/s');
   assertAbove(caller, 'heightFactor', heightFactor, 0, 20);

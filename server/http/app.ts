@@ -9,6 +9,8 @@ import { serveStatic } from '@hono/node-server/serve-static';
 import { Hono } from 'hono';
 import { bodyLimit } from 'hono/body-limit';
 import { secureHeaders } from 'hono/secure-headers';
+import { Conflict, DomainError, Invalid, NotFound, Refused } from '../domainErrors.ts';
+import { classifyStorageError, storageErrorWords, type StorageErrorKind } from '../storage/errors.ts';
 import { HttpError } from './httpError.ts';
 import { assessRoute } from './assess.ts';
 import { chanceRoute } from './chance.ts';
@@ -88,15 +90,50 @@ export function createApp(services: AppServices): Hono<AppEnv> {
   }
   app.notFound((c) => c.json({ error: 'not found' }, 404));
   app.onError((err, c) => {
+    const domain = err instanceof DomainError ? domainErrorResponse(err) : null;
+    if (domain) return c.json(domain.body, domain.status);
     if (err instanceof HttpError) {
       return c.json(err.issues ? { error: err.message, issues: err.issues } : { error: err.message }, err.status);
     }
     if (err instanceof SyntaxError) {
       return c.json({ error: 'invalid input', issues: [{ path: '', message: 'body is not valid JSON' }] }, 400);
     }
+    // A database error, by kind (storage/errors.ts): a duplicate or a broken rule is the caller's
+    // conflict; a disk that is full, read-only, failing or locked, or a damaged file, is the
+    // server's state, answered 503 in words (never the driver's text or the SQL) and logged.
+    const stored = classifyStorageError(err);
+    if (stored) {
+      const status = storageErrorStatus[stored];
+      if (status === 503) services.log.error({ err: err instanceof Error ? err.message : String(err), kind: stored, path: c.req.path }, 'request failed: the database cannot serve it');
+      return c.json({ error: storageErrorWords[stored] }, status);
+    }
     // Anything else is our fault: log it, tell the caller nothing about the inside.
     services.log.error({ err: err instanceof Error ? { message: err.message, stack: err.stack } : String(err), path: c.req.path }, 'request failed');
     return c.json({ error: 'internal error' }, 500);
   });
   return app;
+}
+
+/** The HTTP status of each kind of database error: mapped here once. */
+export const storageErrorStatus: Record<StorageErrorKind, 409 | 503> = {
+  unique: 409,
+  constraint: 409,
+  'disk-full': 503,
+  'read-only': 503,
+  io: 503,
+  busy: 503,
+  corrupt: 503,
+};
+
+/**
+ * The one mapping of domain errors (server/domainErrors.ts) to HTTP: Invalid 400 with every field
+ * issue, Refused 403, NotFound 404, Conflict 409; the body `{error, issues?}` as every route answers.
+ */
+export function domainErrorResponse(err: DomainError): { status: 400 | 403 | 404 | 409; body: { error: string; issues?: Invalid['issues'] } } | null {
+  if (err instanceof Invalid) return { status: 400, body: { error: err.message, issues: err.issues } };
+  if (err instanceof Refused) return { status: 403, body: { error: err.message } };
+  if (err instanceof NotFound) return { status: 404, body: { error: err.message } };
+  if (err instanceof Conflict) return { status: 409, body: { error: err.message } };
+  // A DomainError class not mapped here is a bug: logged and answered 500 like any other.
+  return null;
 }

@@ -18,6 +18,7 @@ import {
   assessConfigurations,
   assessStructure,
   highestTravelSpeedMps,
+  maxPlausibleSpeedMps,
   plausibleAirDensityKgM3,
   recordIssues,
   requiredBallast,
@@ -29,8 +30,8 @@ import { levelProblems, rawTriggerGustsMps } from '../watch/structureModel.ts';
 import type { FieldIssue } from './httpError.ts';
 import { invalidInput, publicJsonBody } from './publicJson.ts';
 
-/** Gust range accepted, m/s: the sensor plausibility bound of design §3. */
-const maxGustMps = 120;
+/** Gust range accepted, m/s: the sensor plausibility bound of design §3 (engine/limits.ts). */
+const maxGustMps = maxPlausibleSpeedMps;
 
 const assessBodySchema = z.strictObject({
   // Checked separately, so its issues carry the full record path.

@@ -10,12 +10,12 @@
  */
 import { Hono } from 'hono';
 import { z } from 'zod';
-import { recordIssues } from '../engine/index.ts';
+import { maxPlausibleSpeedMps, recordIssues } from '../engine/index.ts';
 import { chanceOfReaching } from '../foresight/index.ts';
 import { invalidInput, publicJsonBody } from './publicJson.ts';
 
 /** Speeds accepted, m/s: the sensor plausibility bound of design §3 (as /api/assess's gust). */
-const maxSpeedMps = 120;
+const maxSpeedMps = maxPlausibleSpeedMps;
 /** Up-crossing rates accepted, Hz: far above any 3-s mean speed's (a sanity bound). */
 const maxUpcrossingRateHz = 10;
 

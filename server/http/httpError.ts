@@ -1,15 +1,14 @@
 /**
- * The one error type of the HTTP layer: a status, a message people can read, and for invalid
- * input every offending field with the reason. `onError` in app.ts turns it into JSON; anything
- * else becomes a plain 500 with no stack trace or SQL in the body.
+ * The error type of the HTTP layer itself (415, 413, 401, 429, a route's own 400/404/409): a status,
+ * a message people can read, and for invalid input every offending field with the reason. The
+ * domain (register/, auth/) throws the errors of server/domainErrors.ts instead. `onError` in
+ * app.ts turns both into JSON, once; anything else becomes a plain 500 with no stack trace or SQL
+ * in the body.
  */
-import { plainIssueMessage, type IssueLike } from '../engine/issueWords.ts';
+import { issuePaths, type IssueLike, type PathIssue } from '../engine/issueWords.ts';
 
-export interface FieldIssue {
-  /** Dotted path of the field ("structure.masses.2.xM"), or "" for the body itself. */
-  path: string;
-  message: string;
-}
+/** A problem with one field: dotted path ("structure.masses.2.xM", or "" for the body itself) and the reason. */
+export type FieldIssue = PathIssue;
 
 export class HttpError extends Error {
   readonly status: 400 | 401 | 403 | 404 | 409 | 413 | 415 | 429 | 500 | 503;
@@ -36,10 +35,5 @@ export class HttpError extends Error {
  * the library's own wording becomes a plain phrase (engine/issueWords.ts).
  */
 export function fieldIssues(issues: ReadonlyArray<IssueLike & { path: ReadonlyArray<PropertyKey>; keys?: readonly string[] }>, prefix = ''): FieldIssue[] {
-  const dotted = (path: ReadonlyArray<PropertyKey>) => [prefix, ...path.map(String)].filter((p) => p !== '').join('.');
-  return issues.flatMap((issue) =>
-    issue.code === 'unrecognized_keys' && issue.keys
-      ? issue.keys.map((key) => ({ path: dotted([...issue.path, key]), message: 'is not a field here (check the spelling)' }))
-      : [{ path: dotted(issue.path), message: plainIssueMessage(issue) }],
-  );
+  return issuePaths(issues, { prefix });
 }

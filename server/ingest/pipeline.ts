@@ -3,7 +3,6 @@
  * (wind state, structure assessments, levels) → one group commit → announce on the live stream.
  * Anything that is not a valid reading is rejected with a reason and counted, never stored.
  */
-import type { SpeedUnit } from '../engine/units.ts';
 import type { WriteQueue } from '../storage/writeQueue.ts';
 import type { WriteBatch } from '../storage/writeBatch.ts';
 import { parseReadingPayload, type Reading } from './payload.ts';
@@ -57,7 +56,7 @@ export class IngestPipeline implements ReadingSink {
     let taken: ReturnType<ReadingConsumer['take']>;
     let readings: readonly Reading[];
     try {
-      const parsed = parseReadingPayload(payload, { receivedAtMs, unit: sensor.unit as SpeedUnit });
+      const parsed = parseReadingPayload(payload, { receivedAtMs, unit: sensor.unit });
       if (!parsed.ok) return this.reject(key, parsed.reason, parsed.detail);
       for (const bad of parsed.rejected ?? []) {
         this.counters.rejectedReadings++;

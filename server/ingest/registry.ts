@@ -2,17 +2,13 @@
  * The registered sensors and gateways, held in memory for the per-message path (topic → sensor,
  * username → gateway) and reloaded from the database whenever the register changes.
  */
-import { isNull } from 'drizzle-orm';
-import { gatewaySensorsTable, gatewaysTable, sensorsTable } from '../../db/schema.ts';
-import type { Db } from '../storage/database.ts';
-import type { SpeedUnit } from '../engine/units.ts';
+import type { SensorRow } from '../storage/sensors.ts';
+import type { Storage } from '../storage/storage.ts';
 
-export type SensorRow = typeof sensorsTable.$inferSelect;
+export type { SensorRow };
 
-export interface RegisteredSensor extends Omit<SensorRow, 'unit' | 'mode'> {
-  unit: SpeedUnit;
-  mode: 'samples' | 'summaries';
-}
+/** A sensor as registered: the stored row (its unit and mode are enum columns, db/schema.ts). */
+export type RegisteredSensor = SensorRow;
 
 export interface RegisteredGateway {
   id: number;
@@ -29,22 +25,22 @@ export class Registry {
   private gatewaysByUsername = new Map<string, RegisteredGateway>();
   private listeners: Array<() => void> = [];
 
-  constructor(private readonly db: Db) {
+  constructor(private readonly storage: Pick<Storage, 'sensors' | 'gateways'>) {
     this.reload();
   }
 
   /** Re-reads sensors and gateways; call after every change to them. */
   reload(): void {
-    const sensors = this.db.select().from(sensorsTable).where(isNull(sensorsTable.retiredAtMs)).all();
+    const sensors = this.storage.sensors.active();
     this.sensorsByKey = new Map();
     this.sensorsById = new Map();
     for (const row of sensors) {
-      const sensor = row as RegisteredSensor;
+      const sensor: RegisteredSensor = row;
       this.sensorsByKey.set(sensor.key, sensor);
       this.sensorsById.set(sensor.id, sensor);
     }
-    const gateways = this.db.select().from(gatewaysTable).where(isNull(gatewaysTable.revokedAtMs)).all();
-    const links = this.db.select().from(gatewaySensorsTable).all();
+    const gateways = this.storage.gateways.active();
+    const links = this.storage.gateways.links();
     this.gatewaysByUsername = new Map();
     for (const g of gateways) {
       const keys = new Set<string>();

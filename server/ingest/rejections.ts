@@ -10,17 +10,10 @@
  * short excerpt of its payload. Grouped by who and why, so a gateway retrying every few seconds
  * fills one line, not the book; at most `maxRefusalGroups` groups, the stalest dropped first.
  */
-import type Database from 'better-sqlite3';
+import type { RejectionCount, RejectionStore } from '../storage/rejections.ts';
 import type { Logger } from '../log.ts';
 
-export interface RejectionCount {
-  sensorKey: string;
-  reason: string;
-  count: number;
-  firstAtMs: number;
-  lastAtMs: number;
-  lastDetail: string;
-}
+export type { RejectionCount };
 
 /** How often the same sensor and reason may reach the log. */
 export const rejectionLogIntervalMs = 60_000;
@@ -42,7 +35,6 @@ export class RejectionLog {
   private readonly counts = new Map<string, RejectionCount>();
   private readonly dirty = new Set<string>();
   private readonly lastLoggedAtMs = new Map<string, number>();
-  private readonly upsert: Database.Statement;
   private timer: NodeJS.Timeout | null = null;
   private total = 0;
   /** Refusals at the embedded broker since this server started (memory only, bounded). */
@@ -58,23 +50,17 @@ export class RejectionLog {
    *   default no key is, and every key past the cap goes to the bucket.
    */
   constructor(
-    private readonly sqlite: Database.Database,
+    private readonly store: Pick<RejectionStore, 'all' | 'save'>,
     private readonly log: Logger,
     private readonly now: () => number = Date.now,
     private readonly isRegistered: (sensorKey: string) => boolean = () => false,
   ) {
     this.refusals = new BrokerRefusals(now);
-    for (const row of sqlite
-      .prepare('SELECT sensor_key AS sensorKey, reason, count, first_at_ms AS firstAtMs, last_at_ms AS lastAtMs, last_detail AS lastDetail FROM rejections')
-      .all() as RejectionCount[]) {
+    for (const row of store.all()) {
       this.counts.set(`${row.sensorKey}\u0000${row.reason}`, row);
       this.sensorKeys.add(row.sensorKey);
       this.total += row.count;
     }
-    this.upsert = sqlite.prepare(
-      `INSERT INTO rejections (sensor_key, reason, count, first_at_ms, last_at_ms, last_detail) VALUES (?, ?, ?, ?, ?, ?)
-       ON CONFLICT (sensor_key, reason) DO UPDATE SET count = excluded.count, last_at_ms = excluded.last_at_ms, last_detail = excluded.last_detail`,
-    );
   }
 
   record(givenKey: string, reason: string, detail: string): void {
@@ -127,12 +113,7 @@ export class RejectionLog {
     const keys = [...this.dirty];
     this.dirty.clear();
     try {
-      this.sqlite.transaction(() => {
-        for (const key of keys) {
-          const e = this.counts.get(key)!;
-          this.upsert.run(e.sensorKey, e.reason, e.count, e.firstAtMs, e.lastAtMs, e.lastDetail);
-        }
-      })();
+      this.store.save(keys.map((key) => this.counts.get(key)!));
     } catch (err) {
       // The counts stay in memory and are retried on the next rejection or flush.
       for (const key of keys) this.dirty.add(key);

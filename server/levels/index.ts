@@ -1,5 +1,7 @@
 /**
- * Levels: the staged alert plan of each structure (design §2.4) and the forecast check (§2.5).
+ * Levels: the staged alert plan of each structure (design §2.4), its level machine with gust,
+ * utilization and chance triggers, and the alert book with its words (the forecast check is in
+ * foresight/, design §5 v2).
  * Pure: no I/O, no clock; times come in as ms since the Unix epoch, speeds in m/s.
  */
 export {
@@ -8,11 +10,15 @@ export {
   levelTriggerSchema,
   gustTriggerSchema,
   utilizationTriggerSchema,
+  chanceTriggerSchema,
+  minChanceMinutes,
+  maxChanceMinutes,
   maxLevelCount,
   maxLevelLabelLength,
   maxActionTextLength,
   maxTriggerFraction,
   maxTriggerGustMps,
+  type ChanceTrigger,
   type GustTrigger,
   type LevelDefinition,
   type LevelList,
@@ -29,50 +35,23 @@ export {
   levelStepParams,
   defaultLevelStepParams,
   type LevelEvent,
+  type LevelChance,
   type LevelInput,
   type LevelState,
   type LevelStep,
   type LevelStepParams,
 } from './stepLevel.ts';
+export { AlertBook, alertKinds, defaultResignalIntervalMs, type AlertEvent, type AlertKind, type NewAlert, type OpenAlert } from './alertBook.ts';
 export {
-  alertKinds,
-  escalationAlert,
-  noDataAlert,
+  chanceRiseWords,
+  clockOffsetWords,
+  escalationWords,
   noDataActionText,
-  sensorAlert,
-  type Acknowledgement,
-  type Alert,
-  type AlertKind,
-} from './alert.ts';
-export {
-  acknowledge,
-  AcknowledgementError,
-  maxAcknowledgerNameLength,
-  maxAcknowledgementNoteLength,
-  type AcknowledgementErrorCode,
-} from './acknowledge.ts';
-export { resignalDue, recordSignal, defaultResignalIntervalMs } from './resignalDue.ts';
-export {
-  parseForecastTable,
-  maxForecastRows,
-  maxForecastProblems,
-  type ForecastRow,
-  type ForecastTable,
-  type ForecastTableOptions,
-  type ForecastTableProblem,
-} from './parseForecastTable.ts';
-export { parseForecastFeed, isJsonBody, type ForecastFeedFormat, type ForecastFeedRead } from './parseForecastFeed.ts';
-export { forecastSpeedUnits, beaufortTopMps, speedCell, type ForecastSpeedUnit, type ForecastCellUnit } from './forecastSpeedUnit.ts';
-export { dateOrders, type DateOrder } from './forecastDateTime.ts';
-export {
-  predictLevels,
-  predictPlannedLevels,
-  inlandGustFactor,
-  type ForecastConfiguration,
-  type ForecastPlannedStructure,
-  type PlannedPrediction,
-  type ForecastInputRow,
-  type ForecastPrediction,
-  type ForecastStructure,
-  type PredictedLevel,
-} from './predictLevels.ts';
+  noDataWords,
+  sensorClockWords,
+  sensorImplausibleWords,
+  sensorSilentWords,
+  sensorUnusableWords,
+  type AlertWords,
+  type SensorFacts,
+} from './alertWords.ts';

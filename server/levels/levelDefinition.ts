@@ -9,20 +9,30 @@
  * (see `checkLevelOrder`). Triggers of the same kind are comparable without a structure, and
  * this schema checks their order.
  *
+ * A third kind, the chance trigger (design §2.7 v2), rises on an estimate instead of a measurement:
+ * when the chance that the gust at the structure reaches a fraction of its capacity within T
+ * minutes exceeds p (foresight/chance.ts: Rice's up-crossing rate with Davenport's wind model). It
+ * has no gust of its own to order by; its threshold gust (the gust at that fraction) must lie above
+ * the trigger of the level below it, checked with the structure (`levelProblems`). The measured
+ * gust reaching the threshold counts as certain, and the ladder gives a chance level a gust at
+ * which it rises in any case (structureModel.ts `triggerLadderMps`), so a level on a chance can
+ * never rise later than the measured gust would have raised it.
+ *
  * Limits are our own: up to 8 levels (a crew cannot follow more stages), labels ≤ 60 characters
  * (they must fit a phone screen), action text ≤ 2000 characters. Fractions go up to 1 (100 % of
  * the effective capacity): a level above it would rise only after the structure has passed its
  * limit (design §2.6 v2); gusts up to 120 m/s match the plausible sensor range (design §3).
  */
 import { z } from 'zod';
+import { maxLevelLabelLength, maxPlausibleSpeedMps, maxTextLength } from '../engine/limits.ts';
 
 export const maxLevelCount = 8;
-export const maxLevelLabelLength = 60;
-export const maxActionTextLength = 2000;
+export { maxLevelLabelLength };
+export const maxActionTextLength = maxTextLength;
 /** Upper bound of a utilization trigger (fraction of load capacity, dimensionless). */
 export const maxTriggerFraction = 1;
 /** Upper bound of a gust trigger in m/s: the plausible range of a reading (design §3). */
-export const maxTriggerGustMps = 120;
+export const maxTriggerGustMps = maxPlausibleSpeedMps;
 
 export const utilizationTriggerSchema = z.strictObject({
   kind: z.literal('utilization'),
@@ -36,7 +46,21 @@ export const gustTriggerSchema = z.strictObject({
   gustMps: z.number().gt(0).lte(maxTriggerGustMps),
 });
 
-export const levelTriggerSchema = z.discriminatedUnion('kind', [utilizationTriggerSchema, gustTriggerSchema]);
+/** Bounds of a chance trigger's horizon, minutes: the chance calculator's range (POST /api/chance). */
+export const minChanceMinutes = 1;
+export const maxChanceMinutes = 180;
+
+export const chanceTriggerSchema = z.strictObject({
+  kind: z.literal('chance'),
+  /** The fraction of load capacity whose chance is watched: 1 is the structure's limit. */
+  fraction: z.number().gt(0).lte(maxTriggerFraction, 'must be at most 1 (100 % of capacity, the limit)'),
+  /** The horizon T of the chance, whole minutes. */
+  withinMinutes: z.number().int('must be whole minutes').gte(minChanceMinutes).lte(maxChanceMinutes),
+  /** The chance p above which the level rises: 0.2 means 20 %. */
+  probability: z.number().gt(0, 'must be above 0 % (a level at 0 % would always be raised)').lt(1, 'must be below 100 %'),
+});
+
+export const levelTriggerSchema = z.discriminatedUnion('kind', [utilizationTriggerSchema, gustTriggerSchema, chanceTriggerSchema]);
 
 export const levelDefinitionSchema = z.strictObject({
   label: z.string().trim().min(1, 'label must not be empty').max(maxLevelLabelLength),
@@ -56,7 +80,8 @@ export const levelListSchema = z
   .max(maxLevelCount)
   .superRefine((levels, ctx) => {
     // Same-kind triggers must rise with the level; mixed kinds are checked by the caller once
-    // the structure's equivalent gusts are known.
+    // the structure's equivalent gusts are known. A chance trigger has no order of its own here
+    // (its threshold is checked against the level below it with the structure).
     let lastFraction = 0;
     let lastGustMps = 0;
     const seenLabels = new Map<string, number>();
@@ -71,7 +96,7 @@ export const levelListSchema = z
           });
         }
         lastFraction = Math.max(lastFraction, trigger.fraction);
-      } else {
+      } else if (trigger.kind === 'gust') {
         if (trigger.gustMps <= lastGustMps) {
           ctx.addIssue({
             code: 'custom',
@@ -98,6 +123,7 @@ export const levelListSchema = z
 
 export type UtilizationTrigger = z.infer<typeof utilizationTriggerSchema>;
 export type GustTrigger = z.infer<typeof gustTriggerSchema>;
+export type ChanceTrigger = z.infer<typeof chanceTriggerSchema>;
 export type LevelTrigger = z.infer<typeof levelTriggerSchema>;
 export type LevelDefinition = z.infer<typeof levelDefinitionSchema>;
 export type LevelList = z.infer<typeof levelListSchema>;

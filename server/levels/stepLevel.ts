@@ -16,6 +16,13 @@
  *   data is never calm: the hold is cleared, because time without readings is not time below the
  *   threshold, and starts again from the first reading after data returns.
  *
+ * - Chance triggers (design §2.7 v2, levelDefinition.ts): a level on a chance also rises when its
+ *   estimated chance is over its trigger p (strictly: "over 20 %"), and is held while the chance
+ *   stays at or above p × (1 − dead band), with the same hold time: the dead band and hold act on
+ *   the chance as they act on the gust. The ladder's gust for that level still raises it too (the
+ *   measured gust reaching the threshold is certain). An unknown chance never raises a level and
+ *   never lets one fall: unknown is not calm, so it counts as held.
+ *
  * A new state starts with no data (a structure shows "no data" until its first reading), so the
  * first reading produces a 'data-restored' event.
  */
@@ -36,6 +43,19 @@ export interface LevelState {
   readonly noDataSinceMs: number | null;
   /** Time of the last step; steps must not go back in time. Null before the first step. */
   readonly lastStepAtMs: number | null;
+  /**
+   * The highest level below the current one that a chance held during the pending run (0 or
+   * absent: none), so that the drop stops there as it stops where the run's peak gust was.
+   */
+  readonly pendingLowerChanceLevel?: number;
+}
+
+/** A level on a chance trigger: the estimate now and the trigger's p. */
+export interface LevelChance {
+  /** The estimated chance now, 0..1, or null when it cannot be estimated (unknown is never calm). */
+  readonly chance: number | null;
+  /** The chance above which the level rises, 0 < p < 1. */
+  readonly probability: number;
 }
 
 export interface LevelInput {
@@ -45,6 +65,8 @@ export interface LevelInput {
   readonly gustMps: number | null;
   /** Trigger gusts of levels 1..n for the structure's current assessment, m/s, ascending. */
   readonly triggerGustsMps: readonly number[];
+  /** Per level 1..n (index 0 is level 1): the chance of a level on a chance trigger, null for the others. Absent: no level is on a chance. */
+  readonly chances?: readonly (LevelChance | null)[];
 }
 
 export interface LevelStepParams {
@@ -116,6 +138,22 @@ export function initialLevelState(nowMs: number): LevelState {
 }
 
 const noEvents: readonly LevelEvent[] = Object.freeze([]);
+const noChances: readonly (LevelChance | null)[] = Object.freeze([]);
+
+function assertChances(levelCount: number, chances: readonly (LevelChance | null)[]): void {
+  if (!Array.isArray(chances) || chances.length > levelCount) {
+    throw new RangeError(`stepLevel: chances must be an array of at most one entry per level (${levelCount}), got ${String(chances)}`);
+  }
+  chances.forEach((c, index) => {
+    if (c === null || c === undefined) return;
+    if (!(c.probability > 0 && c.probability < 1)) {
+      throw new RangeError(`stepLevel: chances[${index}].probability must be in (0, 1), got ${c.probability}`);
+    }
+    if (c.chance !== null && !(c.chance >= 0 && c.chance <= 1)) {
+      throw new RangeError(`stepLevel: chances[${index}].chance must be null (unknown) or in [0, 1], got ${c.chance}`);
+    }
+  });
+}
 
 /**
  * Advance the state machine by one reading. Returns the new state and the events it caused, in
@@ -137,6 +175,7 @@ export function stepLevel(
   params: LevelStepParams = defaultLevelStepParams,
 ): LevelStep {
   const { nowMs, gustMps, triggerGustsMps } = input;
+  const chances = input.chances ?? noChances;
   if (!Number.isFinite(nowMs)) {
     throw new RangeError(`stepLevel: nowMs must be a finite time in ms since the epoch, got ${nowMs}`);
   }
@@ -154,13 +193,15 @@ export function stepLevel(
       `stepLevel: state.level must be an integer in [0, ${triggerGustsMps.length}] for this ladder, got ${state.level}`,
     );
   }
+  assertChances(triggerGustsMps.length, chances);
   assertLevelStepParams('stepLevel', params);
 
   if (gustMps === null) {
     if (state.noData) return { state: { ...state, lastStepAtMs: nowMs }, events: noEvents };
+    const { pendingLowerChanceLevel: _cleared, ...kept } = state;
     return {
       state: {
-        ...state,
+        ...kept,
         pendingLowerSinceMs: null,
         pendingLowerPeakGustMps: null,
         noData: true,
@@ -180,38 +221,66 @@ export function stepLevel(
   let pendingSinceMs = state.pendingLowerSinceMs;
   let pendingPeakMps = state.pendingLowerPeakGustMps;
 
-  const reached = justifiedLevel(gustMps, triggerGustsMps);
+  // Levels 1..n a chance raises (over p) or holds (at or above p lowered by the band, or unknown).
+  const raisedByChance = (lvl: number): boolean => {
+    const c = chances[lvl - 1];
+    return c !== null && c !== undefined && c.chance !== null && c.chance > c.probability;
+  };
+  const heldByChance = (lvl: number): boolean => {
+    const c = chances[lvl - 1];
+    return c !== null && c !== undefined && (c.chance === null || c.chance >= c.probability * (1 - deadBandFraction));
+  };
+  /** The highest level in [from, to] a chance holds now (0 if none). */
+  const highestHeldByChance = (from: number, to: number): number => {
+    for (let lvl = to; lvl >= from; lvl--) if (heldByChance(lvl)) return lvl;
+    return 0;
+  };
+  let pendingChanceLevel = state.pendingLowerChanceLevel ?? 0;
+
+  let reached = justifiedLevel(gustMps, triggerGustsMps);
+  for (let lvl = triggerGustsMps.length; lvl > reached; lvl--) {
+    if (raisedByChance(lvl)) {
+      reached = lvl;
+      break;
+    }
+  }
   if (reached > level) {
     events.push({ type: 'escalated', fromLevel: level, toLevel: reached, atMs: nowMs, gustMps });
     level = reached;
     sinceMs = nowMs;
     pendingSinceMs = null;
     pendingPeakMps = null;
+    pendingChanceLevel = 0;
   } else if (level > 0) {
     const loweredMps = triggerGustsMps[level - 1]! * (1 - deadBandFraction);
-    if (gustMps >= loweredMps) {
+    if (gustMps >= loweredMps || highestHeldByChance(level, triggerGustsMps.length) > 0) {
       pendingSinceMs = null;
       pendingPeakMps = null;
+      pendingChanceLevel = 0;
     } else {
       if (pendingSinceMs === null || pendingPeakMps === null) {
         pendingSinceMs = nowMs;
         pendingPeakMps = gustMps;
+        pendingChanceLevel = 0;
       } else if (gustMps > pendingPeakMps) {
         pendingPeakMps = gustMps;
       }
+      pendingChanceLevel = Math.max(pendingChanceLevel, highestHeldByChance(1, level - 1));
       if (nowMs - pendingSinceMs >= holdTimeMs) {
         let target = level - 1;
-        while (target > 0 && pendingPeakMps < triggerGustsMps[target - 1]! * (1 - deadBandFraction)) target--;
+        while (target > pendingChanceLevel && pendingPeakMps < triggerGustsMps[target - 1]! * (1 - deadBandFraction)) target--;
         events.push({ type: 'de-escalated', fromLevel: level, toLevel: target, atMs: nowMs, gustMps });
         level = target;
         sinceMs = nowMs;
         // The lower level runs its own hold from now if this reading is already below its band.
-        if (target > 0 && gustMps < triggerGustsMps[target - 1]! * (1 - deadBandFraction)) {
+        if (target > 0 && gustMps < triggerGustsMps[target - 1]! * (1 - deadBandFraction) && highestHeldByChance(target, triggerGustsMps.length) === 0) {
           pendingSinceMs = nowMs;
           pendingPeakMps = gustMps;
+          pendingChanceLevel = highestHeldByChance(1, target - 1);
         } else {
           pendingSinceMs = null;
           pendingPeakMps = null;
+          pendingChanceLevel = 0;
         }
       }
     }
@@ -226,6 +295,7 @@ export function stepLevel(
       noData: false,
       noDataSinceMs: null,
       lastStepAtMs: nowMs,
+      ...(pendingChanceLevel > 0 ? { pendingLowerChanceLevel: pendingChanceLevel } : {}),
     },
     events: events.length === 0 ? noEvents : events,
   };

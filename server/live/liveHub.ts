@@ -4,7 +4,9 @@
  * it missed; one that was away too long gets a fresh snapshot instead. Dozens of phones cost
  * one JSON.stringify per event, not one per phone.
  */
-export type LiveEventKind = 'winds' | 'structure' | 'structures' | 'foresight' | 'alert' | 'alert-update' | 'health' | 'register';
+import type { LiveEventKind, LiveEventMap } from './liveEvents.ts';
+
+export type { LiveEventKind } from './liveEvents.ts';
 
 export interface LiveEvent {
   id: number;
@@ -47,7 +49,8 @@ export class LiveHub {
     this.ring = new Array<LiveEvent>(capacity);
   }
 
-  publish(kind: LiveEventKind, payload: unknown): LiveEvent {
+  /** An event of the typed map (liveEvents.ts), serialized once here. */
+  publish<K extends LiveEventKind>(kind: K, payload: LiveEventMap[K]): LiveEvent {
     return this.publishText(kind, JSON.stringify(payload));
   }
 

@@ -5,9 +5,7 @@
  * (the nonce is stored), so a forwarded or replayed link cannot acknowledge again.
  */
 import { createHmac, randomBytes, timingSafeEqual } from 'node:crypto';
-import { eq } from 'drizzle-orm';
-import { metaTable } from '../../db/schema.ts';
-import type { Db } from '../storage/database.ts';
+import type { Storage } from '../storage/storage.ts';
 
 export const ackLinkLifetimeMs = 2 * 3_600_000;
 
@@ -22,12 +20,10 @@ export type AckCheck = { ok: true; claim: AckClaim } | { ok: false; reason: 'mal
 
 const secretKey = 'notify_ack_secret';
 
-export function ackSecret(db: Db, nowMs: number): Buffer {
-  const row = db.select().from(metaTable).where(eq(metaTable.key, secretKey)).get();
-  if (row) return Buffer.from(row.value, 'base64url');
-  const secret = randomBytes(32);
-  db.insert(metaTable).values({ key: secretKey, value: secret.toString('base64url'), updatedAtMs: nowMs }).onConflictDoNothing().run();
-  return Buffer.from(db.select().from(metaTable).where(eq(metaTable.key, secretKey)).get()!.value, 'base64url');
+export function ackSecret(storage: Pick<Storage, 'meta'>, nowMs: number): Buffer {
+  const stored = storage.meta.get(secretKey);
+  if (stored !== null) return Buffer.from(stored, 'base64url');
+  return Buffer.from(storage.meta.setIfAbsent(secretKey, randomBytes(32).toString('base64url'), nowMs), 'base64url');
 }
 
 function sign(secret: Buffer, text: string): string {

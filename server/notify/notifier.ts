@@ -5,14 +5,11 @@
  * dispatcher sends them, each with its own timeout: nothing here runs on the reading's path, and
  * no channel waits for another. The escalation chain is checked every few seconds.
  */
-import { and, eq, isNull } from 'drizzle-orm';
-import { notifyEscalationTable, notifyEscalationsTable, notifyPersonSettingsTable, notifyWebhooksTable, peopleTable } from '../../db/schema.ts';
 import type { Config } from '../config.ts';
 import type { LiveHub } from '../live/liveHub.ts';
 import type { Logger } from '../log.ts';
-import { recordAudit } from '../register/audit.ts';
 import { getSite } from '../register/site.ts';
-import type { Db } from '../storage/database.ts';
+import type { Storage } from '../storage/storage.ts';
 import { emptyWriteBatch } from '../storage/writeBatch.ts';
 import type { WriteQueue } from '../storage/writeQueue.ts';
 import type { OpenAlert, Watch } from '../watch/watch.ts';
@@ -25,7 +22,7 @@ import { alertEmail, testEmail } from './emailMessage.ts';
 import { dueSteps, escalationChainSchema, type EscalationStep } from './escalation.ts';
 import { AlertEventTracker, type HubAlert, type NotifyEvent, type NotifyEventName } from './events.ts';
 import { filterPasses, storedFilter } from './filter.ts';
-import { Outbox, type NewDelivery } from './outbox.ts';
+import type { NewDelivery, Outbox } from './outbox.ts';
 import { PushNotifier } from './pushNotifier.ts';
 import { webhookAlert, webhookBodyText } from './webhookBody.ts';
 
@@ -47,7 +44,7 @@ export interface NotifierOptions {
 }
 
 export interface NotifierDeps {
-  db: Db;
+  storage: Storage;
   config: Config;
   hub: LiveHub;
   watch: Watch;
@@ -83,15 +80,15 @@ export class Notifier {
     private readonly deps: NotifierDeps,
     private readonly options: NotifierOptions = {},
   ) {
-    this.outbox = new Outbox(deps.db);
-    this.secret = ackSecret(deps.db, deps.now());
+    this.outbox = deps.storage.outbox;
+    this.secret = ackSecret(deps.storage, deps.now());
     const { config } = deps;
     const dispatchNow = options.dispatchNow ?? Date.now;
     const channels = new Map<string, Channel>();
     channels.set('webhook', new WebhookChannel((target) => this.webhookEndpoint(target), dispatchNow, options.webhookTimeoutMs));
     this.email = config.smtpUrl && config.smtpFrom ? new EmailChannel(config.smtpUrl, config.smtpFrom, options.emailTimeoutMs) : null;
     if (this.email) channels.set('email', this.email);
-    this.push = new PushNotifier({ db: deps.db, config, watch: deps.watch, queue: deps.queue, now: deps.now, log: deps.log, secret: this.secret, dispatchNow, ...(options.pushTimeoutMs ? { timeoutMs: options.pushTimeoutMs } : {}) });
+    this.push = new PushNotifier({ storage: deps.storage, config, watch: deps.watch, queue: deps.queue, now: deps.now, log: deps.log, secret: this.secret, dispatchNow, ...(options.pushTimeoutMs ? { timeoutMs: options.pushTimeoutMs } : {}) });
     if (this.push.channel) channels.set('push', this.push.channel);
     for (const c of options.extraChannels ?? []) channels.set(c.name, c);
     this.lastError = this.outbox.lastFailure();
@@ -110,7 +107,7 @@ export class Notifier {
 
   start(): void {
     this.tracker.seed(this.deps.watch.openAlerts());
-    for (const r of this.deps.db.select({ alertId: notifyEscalationsTable.alertId, step: notifyEscalationsTable.step }).from(notifyEscalationsTable).all()) {
+    for (const r of this.deps.storage.notifications.stepsTaken()) {
       let set = this.taken.get(r.alertId);
       if (!set) this.taken.set(r.alertId, (set = new Set()));
       set.add(r.step);
@@ -155,14 +152,14 @@ export class Notifier {
     const { config } = this.deps;
     if (target === 'webhook:env') return config.alertWebhookUrl && config.alertWebhookSecret ? { url: config.alertWebhookUrl, secret: config.alertWebhookSecret } : null;
     const id = Number(target.slice('webhook:'.length));
-    const row = this.deps.db.select().from(notifyWebhooksTable).where(eq(notifyWebhooksTable.id, id)).get();
+    const row = this.deps.storage.notifications.webhook(id);
     return row && row.enabled ? { url: row.url, secret: row.secret } : null;
   }
 
   private webhookTargets(alert: OpenAlert): string[] {
     const out: string[] = [];
     if (this.deps.config.alertWebhookUrl && this.deps.config.alertWebhookSecret) out.push('webhook:env');
-    for (const w of this.deps.db.select().from(notifyWebhooksTable).where(eq(notifyWebhooksTable.enabled, true)).all()) {
+    for (const w of this.deps.storage.notifications.enabledWebhooks()) {
       if (filterPasses(storedFilter(w.filterJson), alert)) out.push(`webhook:${w.id}`);
     }
     return out;
@@ -174,12 +171,8 @@ export class Notifier {
 
   /** People who may get e-mail: enabled, with an address. */
   private emailPeople(): Array<{ id: number; displayName: string; role: string; email: string; filter: unknown }> {
-    return this.deps.db
-      .select({ id: peopleTable.id, displayName: peopleTable.displayName, role: peopleTable.role, email: notifyPersonSettingsTable.email, filter: notifyPersonSettingsTable.filterJson })
-      .from(notifyPersonSettingsTable)
-      .innerJoin(peopleTable, eq(peopleTable.id, notifyPersonSettingsTable.personId))
-      .where(isNull(peopleTable.disabledAtMs))
-      .all()
+    return this.deps.storage.notifications
+      .emailSettingsOfActivePeople()
       .filter((p): p is typeof p & { email: string } => p.email !== null && p.email !== '');
   }
 
@@ -191,7 +184,7 @@ export class Notifier {
   }
 
   private deliveriesFor(e: NotifyEvent): NewDelivery[] {
-    const site = getSite(this.deps.db);
+    const site = getSite(this.deps.storage);
     const items = this.webhookTargets(e.alert).map((t) => this.webhookDelivery(t, e.event, e.atMs, e.alert, site.name));
     if (this.email && emailEvents.has(e.event)) {
       for (const p of this.emailPeople()) if (filterPasses(storedFilter(p.filter), e.alert)) items.push(this.emailDelivery(p, e.event, e.atMs, e.alert, site));
@@ -213,7 +206,7 @@ export class Notifier {
 
   private escalateDue(nowMs: number): void {
     const chains = new Map<number, EscalationStep[]>();
-    for (const row of this.deps.db.select().from(notifyEscalationTable).all()) {
+    for (const row of this.deps.storage.notifications.chains()) {
       const parsed = escalationChainSchema.safeParse({ level: row.level, steps: row.stepsJson });
       if (parsed.success && parsed.data.steps.length > 0) chains.set(row.level, parsed.data.steps);
     }
@@ -237,7 +230,7 @@ export class Notifier {
   }
 
   private escalationStep(alert: OpenAlert, index: number, step: EscalationStep, nowMs: number): NewDelivery[] {
-    const site = getSite(this.deps.db);
+    const site = getSite(this.deps.storage);
     const target = step.personId !== undefined ? `person:${step.personId}` : `role:${step.role}`;
     const people = this.emailPeople().filter((p) => (step.personId !== undefined ? p.id === step.personId : p.role === step.role));
     const items: NewDelivery[] = [];
@@ -245,11 +238,8 @@ export class Notifier {
     const webhooks = this.webhookTargets(alert);
     for (const t of webhooks) items.push(this.webhookDelivery(t, 'alert.escalated', nowMs, alert, site.name));
     // Push: every device of the step's people, whether or not they have an e-mail address.
-    const stepPeople = this.deps.db
-      .select({ id: peopleTable.id, displayName: peopleTable.displayName, role: peopleTable.role })
-      .from(peopleTable)
-      .where(isNull(peopleTable.disabledAtMs))
-      .all()
+    const stepPeople = this.deps.storage.people
+      .active()
       .filter((p) => (step.personId !== undefined ? p.id === step.personId : p.role === step.role));
     const pushed = this.push.escalationDeliveries(new Set(stepPeople.map((p) => p.id)), nowMs, alert, site.name);
     items.push(...pushed.items);
@@ -257,9 +247,10 @@ export class Notifier {
     const reachedPush = stepPeople.filter((p) => pushed.reached.has(p.id)).map((p) => `${p.displayName} by push (${pushed.reached.get(p.id)} device${pushed.reached.get(p.id) === 1 ? '' : 's'})`);
     const reached = [...reachedPeople, ...reachedPush, ...(webhooks.length > 0 ? [`${webhooks.length} webhook${webhooks.length === 1 ? '' : 's'}`] : [])];
     const words = reached.length > 0 ? reached.join(', ') : this.email ? 'nobody: no e-mail address or push subscription is set for this step' : 'nobody: e-mail is not set up (SMTP_URL), no push subscription and no webhook';
-    this.deps.db.transaction((tx) => {
-      const inserted = tx.insert(notifyEscalationsTable).values({ alertId: alert.id, step: index, atMs: nowMs, target, reached: words }).onConflictDoNothing().run();
-      if (inserted.changes > 0) recordAudit(tx, { actor: 'system', entity: 'alert', entityId: alert.id, action: 'escalated', after: { step: index + 1, target, reached: words, level: alert.level, subject: alert.subject } }, nowMs);
+    const { storage } = this.deps;
+    storage.transaction(() => {
+      const inserted = storage.notifications.logStep({ alertId: alert.id, step: index, atMs: nowMs, target, reached: words });
+      if (inserted) storage.audit.record({ actor: 'system', entity: 'alert', entityId: alert.id, action: 'escalated', after: { step: index + 1, target, reached: words, level: alert.level, subject: alert.subject } }, nowMs);
     });
     this.deps.log.warn({ alertId: alert.id, step: index + 1, target, reached: words }, 'alert not acknowledged in time: escalated');
     return items;
@@ -276,19 +267,19 @@ export class Notifier {
       return { status: check.reason === 'malformed' ? 400 : 403, message: 'this is not a valid acknowledge link' };
     }
     const { claim } = check;
-    const used = this.deps.db.$client.prepare('SELECT used_at_ms AS atMs FROM notify_used_tokens WHERE nonce = ?').get(claim.nonce) as { atMs: number } | undefined;
-    if (used) return { status: 410, message: `this acknowledge link was used at ${new Date(used.atMs).toISOString()}; each link works once` };
-    const person = this.deps.db.select().from(peopleTable).where(and(eq(peopleTable.id, claim.personId), isNull(peopleTable.disabledAtMs))).get();
+    const usedAtMs = this.deps.storage.notifications.tokenUsedAt(claim.nonce);
+    if (usedAtMs !== null) return { status: 410, message: `this acknowledge link was used at ${new Date(usedAtMs).toISOString()}; each link works once` };
+    const person = this.deps.storage.people.activeById(claim.personId);
     if (!person) return { status: 403, message: 'the person this link was sent to can no longer sign in' };
     const open = this.deps.watch.openAlert(claim.alertId);
     if (!open) return { status: 409, message: `alert ${claim.alertId} is no longer open (acknowledged and ended)` };
     if (open.acknowledgedAtMs !== null) return { status: 409, message: `alert ${claim.alertId} was acknowledged by ${open.acknowledgedBy ?? 'someone'} at ${new Date(open.acknowledgedAtMs).toISOString()}` };
     if (!use) return { status: 'confirm', claim, alert: open };
-    const consumed = this.deps.db.$client.prepare('INSERT OR IGNORE INTO notify_used_tokens (nonce, alert_id, used_at_ms) VALUES (?, ?, ?)').run(claim.nonce, claim.alertId, nowMs);
-    if (consumed.changes === 0) return { status: 410, message: 'this acknowledge link was used just now; each link works once' };
+    if (!this.deps.storage.notifications.useToken(claim.nonce, claim.alertId, nowMs)) return { status: 410, message: 'this acknowledge link was used just now; each link works once' };
     const note = 'acknowledged from the e-mail link';
-    const alert = this.deps.watch.acknowledged(claim.alertId, person.displayName, note, nowMs)!;
+    // Stored (or held while the disk refuses) before the stream and the notifications say so, as the app's acknowledgement is.
     await this.deps.queue.enqueue({ ...emptyWriteBatch(), acknowledgements: [{ alertId: claim.alertId, atMs: nowMs, by: person.displayName, note, actor: `${person.displayName} (${person.username}) by e-mail link` }] });
+    const alert = this.deps.watch.acknowledged(claim.alertId, person.displayName, note, nowMs) ?? { ...open, acknowledgedAtMs: nowMs, acknowledgedBy: person.displayName, acknowledgeNote: note };
     return { status: 200, alert, by: person.displayName };
   }
 
@@ -299,7 +290,7 @@ export class Notifier {
     if (!this.email) return { error: 'e-mail is not set up on this server (SMTP_URL and SMTP_FROM)' };
     const p = this.emailPeople().find((x) => x.id === personId);
     if (!p) return { error: 'set your e-mail address first' };
-    const site = getSite(this.deps.db);
+    const site = getSite(this.deps.storage);
     const payload = testEmail(p.email, site.name, p.displayName);
     const [row] = this.outbox.add([{ channel: 'email', target: `person:${p.id}`, event: 'test', alertId: null, payload: () => payload }], this.deps.now());
     this.dispatcher.kick();
@@ -308,7 +299,7 @@ export class Notifier {
 
   /** A test push to one of the person's devices. */
   testPush(personId: number, subscriptionId: number, who: string): { deliveryId: string } | { error: string; status: 404 | 409 } {
-    const site = getSite(this.deps.db);
+    const site = getSite(this.deps.storage);
     const item = this.push.test(personId, subscriptionId, site.name, who);
     if ('error' in item) return item;
     const [row] = this.outbox.add([item], this.deps.now());
@@ -322,7 +313,7 @@ export class Notifier {
    */
   testWebhook(target: string): { deliveryId: string } | { error: string } {
     if (this.webhookEndpoint(target) === null) return { error: 'no such webhook, or it is switched off' };
-    const site = getSite(this.deps.db);
+    const site = getSite(this.deps.storage);
     const atMs = this.deps.now();
     const [row] = this.outbox.add([{ channel: 'webhook', target, event: 'test', alertId: null, payload: (id) => ({ body: webhookBodyText({ id, event: 'test', atMs, site: { name: site.name }, alert: { id: 0, kind: 'test', label: 'Test message' } }) }) }], atMs);
     this.dispatcher.kick();
@@ -344,7 +335,7 @@ export class Notifier {
     } catch {
       // The database cannot be read: the counts are unknown, the last error says why.
     }
-    const webhooks = (this.deps.config.alertWebhookUrl ? 1 : 0) + (this.deps.db.$client.prepare('SELECT COUNT(*) AS n FROM notify_webhooks WHERE enabled = 1').get() as { n: number }).n;
+    const webhooks = (this.deps.config.alertWebhookUrl ? 1 : 0) + this.deps.storage.notifications.enabledWebhookCount();
     return { ...counts, lastError: this.lastError, email: this.email !== null, webhooks, push: this.push.health() };
   }
 

@@ -6,12 +6,10 @@
  * button takes the same path as POST /api/structures/:id/configuration with `alertId`
  * (Watch.switchConfiguration, then the write queue, then the announcement).
  */
-import { eq } from 'drizzle-orm';
-import { notifyPersonSettingsTable } from '../../db/schema.ts';
 import { roleAllows, type Role } from '../auth/roles.ts';
 import type { Config } from '../config.ts';
 import type { Logger } from '../log.ts';
-import type { Db } from '../storage/database.ts';
+import type { Storage } from '../storage/storage.ts';
 import { emptyWriteBatch } from '../storage/writeBatch.ts';
 import type { WriteQueue } from '../storage/writeQueue.ts';
 import type { OpenAlert, Watch } from '../watch/watch.ts';
@@ -20,7 +18,7 @@ import type { NotifyEventName } from './events.ts';
 import { filterPasses, storedFilter, type NotifyFilter } from './filter.ts';
 import type { NewDelivery } from './outbox.ts';
 import { alertPushMessage, buttonsFor, testPushMessage, type PushButton } from './pushMessage.ts';
-import { PushSubscriptions, type PushSubscriptionRow } from './pushSubscriptions.ts';
+import type { PushSubscriptionRow } from './pushSubscriptions.ts';
 import { checkPushActionToken, makePushActionToken, pushActionLifetimeMs, type PushActionClaim } from './pushTokens.ts';
 import { loadVapidKeys, vapidSubject, type VapidKeys } from './vapid.ts';
 
@@ -35,7 +33,7 @@ export type PushActionAnswer =
   | { status: 400 | 403 | 404 | 409 | 410 | 503; message: string };
 
 export interface PushNotifierDeps {
-  db: Db;
+  storage: Storage;
   config: Config;
   watch: Watch;
   queue: WriteQueue;
@@ -50,14 +48,14 @@ export interface PushNotifierDeps {
 type Recipient = { sub: PushSubscriptionRow; person: { id: number; displayName: string; role: string; username: string } };
 
 export class PushNotifier {
-  readonly subscriptions: PushSubscriptions;
+  readonly subscriptions: Storage['pushSubscriptions'];
   readonly channel: PushChannel | null;
   readonly keys: VapidKeys | null;
   /** Why push is off (the key file could not be read or made), in words. */
   readonly problem: string | null;
 
   constructor(private readonly deps: PushNotifierDeps) {
-    this.subscriptions = new PushSubscriptions(deps.db);
+    this.subscriptions = deps.storage.pushSubscriptions;
     let keys: VapidKeys | null = null;
     let problem: string | null = null;
     try {
@@ -89,8 +87,8 @@ export class PushNotifier {
   }
 
   private filterOf(personId: number): NotifyFilter {
-    const row = this.deps.db.select({ filter: notifyPersonSettingsTable.filterJson }).from(notifyPersonSettingsTable).where(eq(notifyPersonSettingsTable.personId, personId)).get();
-    return row ? storedFilter(row.filter) : { kind: 'all' };
+    const row = this.deps.storage.notifications.personSettings(personId);
+    return row ? storedFilter(row.filterJson) : { kind: 'all' };
   }
 
   private buttons(alert: OpenAlert, event: NotifyEventName, person: Recipient['person']): PushButton[] {
@@ -158,20 +156,18 @@ export class PushNotifier {
       return { status: check.reason === 'malformed' ? 400 : 403, message: 'this is not a valid notification button' };
     }
     const { claim } = check;
-    const used = this.deps.db.$client.prepare('SELECT used_at_ms AS atMs FROM notify_used_tokens WHERE nonce = ?').get(claim.nonce) as { atMs: number } | undefined;
-    if (used) return { status: 409, message: `this button was already used at ${new Date(used.atMs).toISOString()}; each works once` };
-    const person = this.deps.db.$client.prepare('SELECT id, username, display_name AS displayName, role, disabled_at_ms AS disabledAtMs FROM people WHERE id = ?').get(claim.personId) as
-      | { id: number; username: string; displayName: string; role: string; disabledAtMs: number | null }
-      | undefined;
+    const usedAtMs = this.deps.storage.notifications.tokenUsedAt(claim.nonce);
+    if (usedAtMs !== null) return { status: 409, message: `this button was already used at ${new Date(usedAtMs).toISOString()}; each works once` };
+    const person = this.deps.storage.people.byId(claim.personId);
     if (!person || person.disabledAtMs !== null) return { status: 403, message: 'the person this notification was sent to can no longer sign in' };
-    if (!roleAllows(person.role as Role, actingRole)) return { status: 403, message: `acknowledging needs the ${actingRole} role` };
+    if (!roleAllows(person.role, actingRole)) return { status: 403, message: `acknowledging needs the ${actingRole} role` };
     const open = this.deps.watch.openAlert(claim.alertId);
     if (!open) return { status: 409, message: `alert ${claim.alertId} is no longer open (acknowledged and ended)` };
     return claim.action === 'ack' ? this.acknowledge(claim, open, person, nowMs) : this.done(claim, open, person, nowMs);
   }
 
   private consume(claim: PushActionClaim, nowMs: number): boolean {
-    return this.deps.db.$client.prepare('INSERT OR IGNORE INTO notify_used_tokens (nonce, alert_id, used_at_ms) VALUES (?, ?, ?)').run(claim.nonce, claim.alertId, nowMs).changes > 0;
+    return this.deps.storage.notifications.useToken(claim.nonce, claim.alertId, nowMs);
   }
 
   private async acknowledge(claim: PushActionClaim, open: OpenAlert, person: { username: string; displayName: string }, nowMs: number): Promise<PushActionAnswer> {

@@ -4,14 +4,15 @@
  * secret) and the label the person gave the device. Subscribing the same browser again (the same
  * endpoint) updates the row, also when another person now signs in on it: a device alerts the
  * person who subscribed it last.
+ *
+ * This module checks what a browser sends; storage/pushSubscriptions.ts stores it.
  */
 import { createPublicKey } from 'node:crypto';
-import { and, eq, isNull } from 'drizzle-orm';
 import { z } from 'zod';
-import { notifyPushSubscriptionsTable, peopleTable } from '../../db/schema.ts';
-import type { Db } from '../storage/database.ts';
+import { maxUrlLength } from '../engine/limits.ts';
+import type { PushSubscriptionRow } from '../storage/pushSubscriptions.ts';
 
-export type PushSubscriptionRow = typeof notifyPushSubscriptionsTable.$inferSelect;
+export type { PushSubscriptionRow };
 
 /** Loopback only: a push service is always https (RFC 8030 §8); http is for a test endpoint on this machine. */
 function loopbackHost(hostname: string): boolean {
@@ -39,7 +40,7 @@ export const pushSubscribeSchema = z.strictObject({
       endpoint: z
         .string({ error: 'must be the push service address the browser gave (PushSubscription.endpoint)' })
         .trim()
-        .max(2000, { error: 'is longer than 2000 characters' })
+        .max(maxUrlLength, { error: `is longer than ${maxUrlLength} characters` })
         .superRefine((value, ctx) => {
           let url: URL;
           try {
@@ -78,69 +79,4 @@ export function shownSubscription(row: PushSubscriptionRow) {
     service = '';
   }
   return { id: row.id, label: row.label, endpoint: row.endpoint, service, userAgent: row.userAgent, createdAtMs: row.createdAtMs, updatedAtMs: row.updatedAtMs, lastDeliveredAtMs: row.lastDeliveredAtMs };
-}
-
-export class PushSubscriptions {
-  constructor(private readonly db: Db) {}
-
-  ofPerson(personId: number): PushSubscriptionRow[] {
-    return this.db.select().from(notifyPushSubscriptionsTable).where(eq(notifyPushSubscriptionsTable.personId, personId)).orderBy(notifyPushSubscriptionsTable.id).all();
-  }
-
-  byId(id: number): PushSubscriptionRow | undefined {
-    return this.db.select().from(notifyPushSubscriptionsTable).where(eq(notifyPushSubscriptionsTable.id, id)).get();
-  }
-
-  /** Every subscription of a person who may still sign in, with the person. */
-  active(): Array<{ sub: PushSubscriptionRow; person: { id: number; displayName: string; role: string; username: string } }> {
-    return this.db
-      .select({ sub: notifyPushSubscriptionsTable, person: { id: peopleTable.id, displayName: peopleTable.displayName, role: peopleTable.role, username: peopleTable.username } })
-      .from(notifyPushSubscriptionsTable)
-      .innerJoin(peopleTable, eq(peopleTable.id, notifyPushSubscriptionsTable.personId))
-      .where(isNull(peopleTable.disabledAtMs))
-      .orderBy(notifyPushSubscriptionsTable.id)
-      .all();
-  }
-
-  /** Stores (or renews) the browser's subscription for this person. `created` false: the endpoint was known. */
-  save(personId: number, body: PushSubscribeBody, userAgent: string | null, atMs: number): { row: PushSubscriptionRow; created: boolean } {
-    const { endpoint, keys } = body.subscription;
-    return this.db.transaction((tx) => {
-      const before = tx.select().from(notifyPushSubscriptionsTable).where(eq(notifyPushSubscriptionsTable.endpoint, endpoint)).get();
-      const values = { personId, p256dh: keys.p256dh, auth: keys.auth, label: body.label, userAgent: userAgent ? userAgent.slice(0, 200) : null, updatedAtMs: atMs };
-      if (before) {
-        const row = tx.update(notifyPushSubscriptionsTable).set(values).where(eq(notifyPushSubscriptionsTable.id, before.id)).returning().get();
-        return { row, created: false };
-      }
-      const row = tx.insert(notifyPushSubscriptionsTable).values({ ...values, endpoint, createdAtMs: atMs }).returning().get();
-      return { row, created: true };
-    });
-  }
-
-  relabel(personId: number, id: number, label: string, atMs: number): PushSubscriptionRow | undefined {
-    return this.db
-      .update(notifyPushSubscriptionsTable)
-      .set({ label, updatedAtMs: atMs })
-      .where(and(eq(notifyPushSubscriptionsTable.id, id), eq(notifyPushSubscriptionsTable.personId, personId)))
-      .returning()
-      .get();
-  }
-
-  /** Removes one of the person's subscriptions; false when it is not theirs (or not there). */
-  remove(personId: number, id: number): boolean {
-    return this.db.delete(notifyPushSubscriptionsTable).where(and(eq(notifyPushSubscriptionsTable.id, id), eq(notifyPushSubscriptionsTable.personId, personId))).run().changes > 0;
-  }
-
-  /** The push service said it is gone. */
-  removeGone(id: number): void {
-    this.db.delete(notifyPushSubscriptionsTable).where(eq(notifyPushSubscriptionsTable.id, id)).run();
-  }
-
-  markDelivered(id: number, atMs: number): void {
-    this.db.update(notifyPushSubscriptionsTable).set({ lastDeliveredAtMs: atMs }).where(eq(notifyPushSubscriptionsTable.id, id)).run();
-  }
-
-  count(): number {
-    return (this.db.$client.prepare('SELECT COUNT(*) AS n FROM notify_push_subscriptions').get() as { n: number }).n;
-  }
 }

@@ -3,6 +3,7 @@
  * or line break enclosed in double quotes, a quote inside doubled. Read side also takes LF line
  * ends and a UTF-8 byte-order mark (spreadsheets write both).
  */
+import { delimitedProblemWords, readDelimited } from '../formats/delimitedText.ts';
 
 function field(value: unknown): string {
   if (value === null || value === undefined) return '';
@@ -34,66 +35,12 @@ export class CsvError extends Error {
   }
 }
 
-/** Parses CSV text into rows of fields (strings). */
+/**
+ * Parses CSV text into rows of fields (strings), with the one delimited-text reader
+ * (formats/delimitedText.ts); blank lines are skipped. Throws a CsvError naming the line.
+ */
 export function parseCsv(text: string): string[][] {
-  const input = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
-  const rows: string[][] = [];
-  let row: string[] = [];
-  let value = '';
-  let quoted = false;
-  let line = 1;
-  let i = 0;
-  let fieldStarted = false;
-  while (i < input.length) {
-    const ch = input[i]!;
-    if (quoted) {
-      if (ch === '"') {
-        if (input[i + 1] === '"') {
-          value += '"';
-          i += 2;
-          continue;
-        }
-        quoted = false;
-        i++;
-        if (i < input.length && input[i] !== ',' && input[i] !== '\r' && input[i] !== '\n') throw new CsvError('text after a closing quote', line);
-        continue;
-      }
-      if (ch === '\n') line++;
-      value += ch;
-      i++;
-      continue;
-    }
-    if (ch === '"' && !fieldStarted) {
-      quoted = true;
-      fieldStarted = true;
-      i++;
-      continue;
-    }
-    if (ch === ',') {
-      row.push(value);
-      value = '';
-      fieldStarted = false;
-      i++;
-      continue;
-    }
-    if (ch === '\r' || ch === '\n') {
-      row.push(value);
-      rows.push(row);
-      row = [];
-      value = '';
-      fieldStarted = false;
-      i += ch === '\r' && input[i + 1] === '\n' ? 2 : 1;
-      line++;
-      continue;
-    }
-    value += ch;
-    fieldStarted = true;
-    i++;
-  }
-  if (quoted) throw new CsvError('a quoted field is not closed', line);
-  if (fieldStarted || row.length > 0) {
-    row.push(value);
-    rows.push(row);
-  }
-  return rows.filter((r) => !(r.length === 1 && r[0] === ''));
+  const read = readDelimited(text, ',');
+  if (!read.ok) throw new CsvError(delimitedProblemWords[read.problem], read.line);
+  return read.records.map((record) => record.fields).filter((r) => !(r.length === 1 && r[0] === ''));
 }

@@ -4,12 +4,10 @@
  * at or above the limit, a fraction above 100 %. Used for a structure's own levels and for the
  * site's default levels, which every structure without its own list follows.
  */
-import { and, isNull } from 'drizzle-orm';
-import { structuresTable } from '../../db/schema.ts';
 import { isaAirDensityKgM3, recordConfigurations, type StructureRecord } from '../engine/index.ts';
-import type { FieldIssue } from '../http/httpError.ts';
+import type { PathIssue as FieldIssue } from '../engine/issueWords.ts';
 import type { LevelDefinition } from '../levels/index.ts';
-import type { Tx } from '../storage/database.ts';
+import type { Storage } from '../storage/storage.ts';
 import { densityDependent, levelProblems, structureModel, type StructureModel } from '../watch/structureModel.ts';
 
 /**
@@ -28,8 +26,8 @@ export function modelLevelProblems(model: StructureModel, densityKgM3: number): 
 }
 
 /** Problems of new site default levels for every active structure that follows them. */
-export function siteDefaultLevelIssues(tx: Tx, levels: readonly LevelDefinition[], densityKgM3: number): FieldIssue[] {
-  const rows = tx.select().from(structuresTable).where(and(isNull(structuresTable.retiredAtMs), isNull(structuresTable.levelsJson))).all();
+export function siteDefaultLevelIssues(storage: Storage, levels: readonly LevelDefinition[], densityKgM3: number): FieldIssue[] {
+  const rows = storage.structures.activeOnSiteLevels();
   return rows.flatMap((row) => {
     try {
       // Every configuration of the structure: the levels run on whichever it stands in (design §2.5).

@@ -13,40 +13,18 @@
  * Import validates everything first and changes nothing when anything is wrong. 'merge' adds and
  * updates (sensors by key, structures by name); 'replace' also retires what the file leaves out.
  */
-import { eq, isNull } from 'drizzle-orm';
 import { z } from 'zod';
-import { sensorsTable, sitesTable, structuresTable } from '../../db/schema.ts';
-import { HttpError, type FieldIssue } from '../http/httpError.ts';
-import type { Db } from '../storage/database.ts';
-import { recordAudit } from './audit.ts';
+import { Conflict, Invalid } from '../domainErrors.ts';
+import { issuePaths, type PathIssue as FieldIssue } from '../engine/issueWords.ts';
+import type { Storage } from '../storage/storage.ts';
 import { CsvError, parseCsv, toCsv, unguard } from './csv.ts';
 import { listGateways } from './gateways.ts';
 import { listSensors, sensorInputSchema } from './sensors.ts';
-import { getSite, siteUpdateSchema } from './site.ts';
-import { checkStructure, listStructures, structureColumns, structureInputSchema, structureView } from './structures.ts';
+import { getSite } from './site.ts';
+import { settingsOf, siteFileSchema, siteView } from './siteSettings.ts';
+import { createStructure, listStructures, structureInputSchema, updateStructure } from './structures.ts';
 
 export const registerFormat = 'holdfast-register';
-
-const siteFileSchema = z.strictObject({
-  name: z.string(),
-  altitudeM: z.number(),
-  terrainCategory: z.string(),
-  timeZone: z.string(),
-  airDensityMode: z.string(),
-  fixedAirDensityKgM3: z.number().nullable(),
-  heightReductionEnabled: z.boolean(),
-  directionalEnabled: z.boolean(),
-  directionSectorHalfWidthDeg: z.number().min(15).max(180).default(45),
-  deadBandFraction: z.number(),
-  holdTimeMs: z.number(),
-  actionDueMs: z.number().min(60_000).max(3_600_000).default(300_000),
-  // The forecast feed (issue 17); files written before it have none.
-  forecastFeedUrl: z.string().nullable().default(null),
-  forecastFeedIntervalMs: z.number().default(30 * 60_000),
-  forecastFeedUnit: z.string().nullable().default(null),
-  forecastFeedHeightM: z.number().default(10),
-  defaultLevels: z.unknown(),
-});
 
 const structureFileSchema = structureInputSchema;
 const gatewayFileSchema = z.strictObject({ name: z.string(), username: z.string(), sensorKeys: z.array(z.string()) });
@@ -62,46 +40,28 @@ export const registerSchema = z.strictObject({
 });
 export type RegisterFile = z.infer<typeof registerSchema>;
 
-export function exportRegister(db: Db, nowMs: number): RegisterFile {
-  const site = getSite(db);
+export function exportRegister(storage: Storage, nowMs: number): RegisterFile {
+  const site = getSite(storage);
   return {
     format: registerFormat,
     version: 1,
     exportedAtMs: nowMs,
-    site: {
-      name: site.name,
-      altitudeM: site.altitudeM,
-      terrainCategory: site.terrainCategory,
-      timeZone: site.timeZone,
-      airDensityMode: site.airDensityMode,
-      fixedAirDensityKgM3: site.fixedAirDensityKgM3,
-      heightReductionEnabled: site.heightReductionEnabled,
-      directionalEnabled: site.directionalEnabled,
-      directionSectorHalfWidthDeg: site.directionSectorHalfWidthDeg,
-      deadBandFraction: site.deadBandFraction,
-      holdTimeMs: site.holdTimeMs,
-      actionDueMs: site.actionDueMs,
-      forecastFeedUrl: site.forecastFeedUrl,
-      forecastFeedIntervalMs: site.forecastFeedIntervalMs,
-      forecastFeedUnit: site.forecastFeedUnit,
-      forecastFeedHeightM: site.forecastFeedHeightM,
-      defaultLevels: site.defaultLevelsJson,
-    },
-    sensors: listSensors(db).map((s) => ({
+    site: settingsOf(siteView(site)),
+    sensors: listSensors(storage).map((s) => ({
       key: s.key,
       name: s.name,
       heightM: s.heightM,
       location: s.location,
       latDeg: s.latDeg,
       lonDeg: s.lonDeg,
-      unit: s.unit as RegisterFile['sensors'][number]['unit'],
-      mode: s.mode as 'samples' | 'summaries',
+      unit: s.unit,
+      mode: s.mode,
       silenceTimeoutMs: s.silenceTimeoutMs,
     })),
-    gateways: listGateways(db)
+    gateways: listGateways(storage)
       .filter((g) => g.revokedAtMs === null)
       .map((g) => ({ name: g.name, username: g.username, sensorKeys: g.sensorKeys })),
-    structures: listStructures(db).map((s) => ({
+    structures: listStructures(storage).map((s) => ({
       record: s.record,
       orientationDeg: s.orientationDeg,
       location: s.location,
@@ -165,11 +125,11 @@ export function registerFromCsv(text: string): RegisterFile {
   try {
     rows = parseCsv(text);
   } catch (err) {
-    throw HttpError.invalid([{ path: '', message: err instanceof CsvError ? err.message : String(err) }]);
+    throw new Invalid([{ path: '', message: err instanceof CsvError ? err.message : String(err) }]);
   }
   const header = rows[0] ?? [];
   const missing = csvHeader.filter((h) => !header.includes(h));
-  if (missing.length > 0) throw HttpError.invalid([{ path: 'header', message: `missing columns: ${missing.join(', ')}` }]);
+  if (missing.length > 0) throw new Invalid([{ path: 'header', message: `missing columns: ${missing.join(', ')}` }]);
   // Undo the spreadsheet guard of csv.ts: a quote mark put before = + - @ on export.
   const col = (row: string[], name: (typeof csvHeader)[number]): string => unguard(row[header.indexOf(name)] ?? '');
   const num = (v: string): number | null => (v.trim() === '' ? null : Number(v));
@@ -229,10 +189,10 @@ export function registerFromCsv(text: string): RegisterFile {
         issues.push({ path: `line ${line}.entity`, message: `"${entity}" is not site, sensor, gateway or structure` });
     }
   });
-  if (issues.length > 0) throw HttpError.invalid(issues);
+  if (issues.length > 0) throw new Invalid(issues);
   const parsed = registerSchema.safeParse({ format: registerFormat, version: 1, site, sensors, gateways, structures });
   if (!parsed.success) {
-    throw HttpError.invalid(parsed.error.issues.map((i) => ({ path: i.path.map(String).join('.'), message: i.message })));
+    throw new Invalid(issuePaths(parsed.error.issues));
   }
   return parsed.data;
 }
@@ -249,11 +209,8 @@ export interface ImportSummary {
 }
 
 /** Applies a register file in one transaction, after checking all of it. */
-export function importRegister(db: Db, file: RegisterFile, mode: 'merge' | 'replace', actor: string, nowMs: number): ImportSummary {
-  const siteCheck = siteUpdateSchema.safeParse(file.site);
-  if (!siteCheck.success) {
-    throw HttpError.invalid(siteCheck.error.issues.map((i) => ({ path: ['register', 'site', ...i.path.map(String)].join('.'), message: i.message })));
-  }
+export function importRegister(storage: Storage, file: RegisterFile, mode: 'merge' | 'replace', actor: string, nowMs: number): ImportSummary {
+  // file.site was checked whole by siteFileSchema (the settings' one schema) when the file was read.
   const keys = new Set<string>();
   const names = new Set<string>();
   const issues: FieldIssue[] = [];
@@ -268,74 +225,73 @@ export function importRegister(db: Db, file: RegisterFile, mode: 'merge' | 'repl
       names.add(name);
     }
   });
-  if (issues.length > 0) throw HttpError.invalid(issues);
+  if (issues.length > 0) throw new Invalid(issues);
 
-  return db.transaction((tx) => {
+  return storage.transaction(() => {
     const summary: ImportSummary = { siteUpdated: true, sensorsAdded: 0, sensorsUpdated: 0, sensorsRetired: 0, structuresAdded: 0, structuresUpdated: 0, structuresRetired: 0, gatewaysSkipped: file.gateways.length };
-    const site = getSite(tx);
-    const { defaultLevels, ...siteRest } = siteCheck.data;
-    tx.update(sitesTable)
-      .set({ ...siteRest, ...(defaultLevels ? { defaultLevelsJson: defaultLevels } : {}), updatedAtMs: nowMs })
-      .where(eq(sitesTable.id, site.id))
-      .run();
+    const site = getSite(storage);
+    const { defaultLevels, ...siteRest } = file.site;
+    storage.site.update(site.id, { ...siteRest, ...(defaultLevels ? { defaultLevelsJson: defaultLevels } : {}), updatedAtMs: nowMs });
 
-    const existingSensors = new Map(tx.select().from(sensorsTable).all().map((s) => [s.key, s]));
+    const existingSensors = new Map(storage.sensors.all().map((s) => [s.key, s]));
     for (const s of file.sensors) {
       const old = existingSensors.get(s.key);
       if (old) {
-        tx.update(sensorsTable).set({ ...s, retiredAtMs: null }).where(eq(sensorsTable.id, old.id)).run();
+        storage.sensors.update(old.id, { ...s, retiredAtMs: null });
         if (old.retiredAtMs === null) summary.sensorsUpdated++;
         else summary.sensorsAdded++;
       } else {
-        tx.insert(sensorsTable).values({ ...s, siteId: site.id, createdAtMs: nowMs }).run();
+        storage.sensors.insert({ ...s, siteId: site.id, createdAtMs: nowMs });
         summary.sensorsAdded++;
       }
     }
     if (mode === 'replace') {
       for (const old of existingSensors.values()) {
         if (old.retiredAtMs === null && !keys.has(old.key)) {
-          tx.update(sensorsTable).set({ retiredAtMs: nowMs }).where(eq(sensorsTable.id, old.id)).run();
+          storage.sensors.update(old.id, { retiredAtMs: nowMs });
           summary.sensorsRetired++;
         }
       }
     }
 
-    const existingStructures = new Map(tx.select().from(structuresTable).where(isNull(structuresTable.retiredAtMs)).all().map((s) => [s.name, s]));
+    const existingStructures = new Map(storage.structures.active().map((s) => [s.name, s]));
     const structureIssues: FieldIssue[] = [];
+    // The same upserts as a single edit through the API (checked whole, name free, an audit row
+    // each, its configurations included), here inside the import's one transaction: every
+    // structure's problems are gathered, then the whole import is refused if any had one.
     file.structures.forEach((input, i) => {
-      let record;
+      const name = (input.record as { name?: unknown } | null)?.name;
+      const old = typeof name === 'string' ? existingStructures.get(name) : undefined;
       try {
-        record = checkStructure(tx, input);
+        if (old) {
+          updateStructure(storage, old.id, input, actor, nowMs, `import (${mode})`);
+          summary.structuresUpdated++;
+        } else {
+          createStructure(storage, site.id, input, actor, nowMs, `import (${mode})`);
+          summary.structuresAdded++;
+        }
       } catch (err) {
-        if (err instanceof HttpError && err.issues) {
+        if (err instanceof Invalid) {
           structureIssues.push(...err.issues.map((issue) => ({ path: `register.structures.${i}.${issue.path}`, message: issue.message })));
+          return;
+        }
+        if (err instanceof Conflict) {
+          structureIssues.push({ path: `register.structures.${i}.record.name`, message: err.message });
           return;
         }
         throw err;
       }
-      const values = { ...structureColumns(input, record), updatedAtMs: nowMs };
-      const old = existingStructures.get(record.name);
-      // Each structure's record (its configurations included) goes into the audit trail, as a change through the API does.
-      if (old) {
-        const after = structureView(tx.update(structuresTable).set(values).where(eq(structuresTable.id, old.id)).returning().get()!);
-        recordAudit(tx, { actor, entity: 'structure', entityId: old.id, action: `import (${mode})`, before: structureView(old), after }, nowMs);
-        summary.structuresUpdated++;
-      } else {
-        const after = structureView(tx.insert(structuresTable).values({ ...values, siteId: site.id, createdAtMs: nowMs }).returning().get());
-        recordAudit(tx, { actor, entity: 'structure', entityId: after.id, action: `import (${mode})`, after }, nowMs);
-        summary.structuresAdded++;
-      }
     });
-    if (structureIssues.length > 0) throw HttpError.invalid(structureIssues);
+    if (structureIssues.length > 0) throw new Invalid(structureIssues);
     if (mode === 'replace') {
       for (const old of existingStructures.values()) {
         if (!names.has(old.name)) {
-          tx.update(structuresTable).set({ retiredAtMs: nowMs }).where(eq(structuresTable.id, old.id)).run();
+          storage.structures.update(old.id, { retiredAtMs: nowMs });
           summary.structuresRetired++;
         }
       }
     }
-    recordAudit(tx, { actor, entity: 'register', entityId: site.id, action: `import (${mode})`, after: summary }, nowMs);
+    storage.audit.record({ actor, entity: 'register', entityId: site.id, action: `import (${mode})`, after: summary }, nowMs);
     return summary;
   });
 }

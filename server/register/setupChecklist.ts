@@ -4,11 +4,9 @@
  * a sensor and (with the embedded broker) a gateway for it, a structure, levels and actions of
  * the site's own, another person, and a reading that arrived.
  */
-import { and, desc, eq, isNull } from 'drizzle-orm';
-import { gatewaySensorsTable, gatewaysTable, readingsTable, sensorsTable, structuresTable, windMinutesTable } from '../../db/schema.ts';
 import type { LevelDefinition } from '../levels/levelDefinition.ts';
 import { siteDefaultLevels } from '../levels/siteDefaultLevels.ts';
-import type { Db } from '../storage/database.ts';
+import type { Storage } from '../storage/storage.ts';
 import { getSite } from './site.ts';
 
 export const checklistStepIds = ['site', 'sensors', 'structures', 'levels', 'people', 'publish'] as const;
@@ -42,29 +40,21 @@ export interface ChecklistContext {
 const levelText = (levels: readonly LevelDefinition[]): string => JSON.stringify(levels.map((l) => [l.label, l.trigger, l.actionText.trim()]));
 
 /** The newest stored reading of any sensor (retired ones too), by the primary key: one seek per sensor. */
-function newestReading(db: Db): { sensorKey: string; sensorName: string; tsMs: number } | null {
+function newestReading(storage: Storage): { sensorKey: string; sensorName: string; tsMs: number } | null {
   let best: { sensorKey: string; sensorName: string; tsMs: number } | null = null;
-  for (const s of db.select({ id: sensorsTable.id, key: sensorsTable.key, name: sensorsTable.name }).from(sensorsTable).all()) {
-    const raw = db.select({ tsMs: readingsTable.tsMs }).from(readingsTable).where(eq(readingsTable.sensorId, s.id)).orderBy(desc(readingsTable.tsMs)).limit(1).get();
-    // Raw readings past retention are deleted; their minute rollups stay.
-    const minute = raw ? undefined : db.select({ tsMs: windMinutesTable.minuteMs }).from(windMinutesTable).where(eq(windMinutesTable.sensorId, s.id)).orderBy(desc(windMinutesTable.minuteMs)).limit(1).get();
-    const tsMs = raw?.tsMs ?? minute?.tsMs;
-    if (tsMs !== undefined && (best === null || tsMs > best.tsMs)) best = { sensorKey: s.key, sensorName: s.name, tsMs };
+  for (const s of storage.sensors.all()) {
+    // Raw readings past retention are deleted; their minute rollups stay (the store looks at both).
+    const tsMs = storage.readings.newestDataMs(s.id);
+    if (tsMs !== null && (best === null || tsMs > best.tsMs)) best = { sensorKey: s.key, sensorName: s.name, tsMs };
   }
   return best;
 }
 
-export function setupChecklist(db: Db, ctx: ChecklistContext): SetupChecklist {
-  const site = getSite(db);
-  const sensors = db.select({ id: sensorsTable.id, key: sensorsTable.key, name: sensorsTable.name }).from(sensorsTable).where(isNull(sensorsTable.retiredAtMs)).all();
-  const gatewayLinks = db
-    .select({ gateway: gatewaysTable.username, sensorId: gatewaySensorsTable.sensorId })
-    .from(gatewaySensorsTable)
-    .innerJoin(gatewaysTable, eq(gatewaysTable.id, gatewaySensorsTable.gatewayId))
-    .innerJoin(sensorsTable, and(eq(sensorsTable.id, gatewaySensorsTable.sensorId), isNull(sensorsTable.retiredAtMs)))
-    .where(isNull(gatewaysTable.revokedAtMs))
-    .all();
-  const structures = db.select({ name: structuresTable.name, levels: structuresTable.levelsJson }).from(structuresTable).where(isNull(structuresTable.retiredAtMs)).all();
+export function setupChecklist(storage: Storage, ctx: ChecklistContext): SetupChecklist {
+  const site = getSite(storage);
+  const sensors = storage.sensors.active();
+  const gatewayLinks = storage.gateways.activeLinks();
+  const structures = storage.structures.active().map((s) => ({ name: s.name, levels: s.levelsJson }));
 
   const density = site.airDensityMode === 'fixed' ? `fixed ${site.fixedAirDensityKgM3 ?? '?'} kg/m³` : site.airDensityMode === 'isa' ? `ISA at ${site.altitudeM} m` : 'measured on site';
   const siteNow = `time zone ${site.timeZone}, terrain category ${site.terrainCategory}, air density ${density}`;
@@ -82,13 +72,13 @@ export function setupChecklist(db: Db, ctx: ChecklistContext): SetupChecklist {
           : `${sensors.length} sensor${sensors.length === 1 ? '' : 's'}; gateway${gatewayNames.length === 1 ? '' : 's'} ${gatewayNames.join(', ')}.`;
 
   const ownLevels = structures.filter((s) => s.levels !== null).length;
-  const defaultsOwn = levelText(site.defaultLevelsJson as LevelDefinition[]) !== levelText(siteDefaultLevels);
+  const defaultsOwn = levelText(site.defaultLevelsJson) !== levelText(siteDefaultLevels);
   const levelsDone = defaultsOwn || ownLevels > 0;
   const levelsDetail = levelsDone
     ? [defaultsOwn ? "the site's default levels are the site's own" : null, ownLevels > 0 ? `${ownLevels} structure${ownLevels === 1 ? ' has' : 's have'} levels of ${ownLevels === 1 ? 'its' : 'their'} own` : null].filter(Boolean).join('; ').replace(/^./, (c) => c.toUpperCase()) + '.'
     : 'The levels and actions are still the wording Holdfast ships with.';
 
-  const reading = newestReading(db);
+  const reading = newestReading(storage);
   const publishDetail = reading
     ? `A reading arrived from ${reading.sensorName}.`
     : ctx.refusedSinceStart > 0

@@ -4,15 +4,14 @@
  * govern it, whether it moves, and its own levels when the site's defaults do not fit.
  * Every change is written to the audit trail in the same transaction.
  */
-import { and, eq, isNull } from 'drizzle-orm';
 import { z } from 'zod';
-import { structuresTable, sensorsTable } from '../../db/schema.ts';
-import { recordConfigurations, validateStructureRecord, type StructureRecord } from '../engine/index.ts';
-import { HttpError, type FieldIssue } from '../http/httpError.ts';
+import { maxLabelLength, recordConfigurations, validateStructureRecord, type StructureRecord } from '../engine/index.ts';
+import type { PathIssue as FieldIssue } from '../engine/issueWords.ts';
+import { Conflict, Invalid, NotFound } from '../domainErrors.ts';
 import { levelListSchema, type LevelDefinition } from '../levels/index.ts';
-import type { Db, Tx } from '../storage/database.ts';
+import type { Storage } from '../storage/storage.ts';
+import type { StructureRow } from '../storage/structures.ts';
 import { structureModel } from '../watch/structureModel.ts';
-import { recordAudit } from './audit.ts';
 import { modelLevelProblems, siteDesignDensityKgM3 } from './levelCheck.ts';
 import { getSite } from './site.ts';
 
@@ -21,7 +20,7 @@ export const structureInputSchema = z.strictObject({
   record: z.unknown(),
   /** Azimuth the front faces toward, degrees clockwise from north. */
   orientationDeg: z.number().min(0).max(360).default(0),
-  location: z.string().trim().max(200).default(''),
+  location: z.string().trim().max(maxLabelLength).default(''),
   latDeg: z.number().min(-90).max(90).nullable().default(null),
   lonDeg: z.number().min(-180).max(180).nullable().default(null),
   mobile: z.boolean().default(false),
@@ -33,7 +32,7 @@ export const structureInputSchema = z.strictObject({
 export type StructureInput = z.infer<typeof structureInputSchema>;
 export const structureUpdateSchema = structureInputSchema.partial();
 
-export type StructureRow = typeof structuresTable.$inferSelect;
+export type { StructureRow };
 
 export interface StructureView {
   id: number;
@@ -76,23 +75,23 @@ export function structureView(row: StructureRow): StructureView {
  * site's design density. Returns the parsed
  * record or throws 400 naming every problem.
  */
-export function checkStructure(tx: Tx, input: StructureInput): StructureRecord {
+export function checkStructure(storage: Storage, input: StructureInput): StructureRecord {
   const issues: FieldIssue[] = [];
   const validation = validateStructureRecord(input.record);
   if (!validation.ok) issues.push(...validation.issues.map((i) => ({ path: i.path ? `record.${i.path}` : 'record', message: i.message })));
   if (input.sensorKeys && input.sensorKeys.length > 0) {
-    const known = new Set(tx.select({ key: sensorsTable.key }).from(sensorsTable).where(isNull(sensorsTable.retiredAtMs)).all().map((r) => r.key));
+    const known = new Set(storage.sensors.active().map((r) => r.key));
     input.sensorKeys.forEach((key, i) => {
       if (!known.has(key)) issues.push({ path: `sensorKeys.${i}`, message: `no sensor is registered with key "${key}"` });
     });
   }
-  if (!validation.ok) throw HttpError.invalid(issues);
+  if (!validation.ok) throw new Invalid(issues);
   const record = validation.record;
   try {
-    const site = getSite(tx);
+    const site = getSite(storage);
     const model = structureModel(
       { id: 0, name: record.name, kind: record.kind, recordJson: record, orientationDeg: input.orientationDeg, mobile: input.mobile, sensorKeysJson: null, levelsJson: input.levels },
-      site.defaultLevelsJson as LevelDefinition[],
+      site.defaultLevelsJson,
     );
     // Mixed utilization and gust triggers can only be ordered once the structure is known; a
     // gust trigger at or above the effective limit would let the structure pass its limit first.
@@ -102,7 +101,7 @@ export function checkStructure(tx: Tx, input: StructureInput): StructureRecord {
     // The levels run on whichever configuration the structure is in (design §2.5): each is checked.
     const configured = recordConfigurations(record);
     for (const c of configured.slice(1)) {
-      const other = structureModel({ id: 0, name: record.name, kind: record.kind, recordJson: c.record, orientationDeg: input.orientationDeg, mobile: input.mobile, sensorKeysJson: null, levelsJson: input.levels }, site.defaultLevelsJson as LevelDefinition[]);
+      const other = structureModel({ id: 0, name: record.name, kind: record.kind, recordJson: c.record, orientationDeg: input.orientationDeg, mobile: input.mobile, sensorKeysJson: null, levelsJson: input.levels }, site.defaultLevelsJson);
       for (const problem of modelLevelProblems(other, siteDesignDensityKgM3(site))) {
         const path = input.levels === null ? 'levels' : `levels.${problem.index}.trigger.${problem.field}`;
         if (issues.some((i) => i.path === path)) continue;
@@ -119,17 +118,17 @@ export function checkStructure(tx: Tx, input: StructureInput): StructureRecord {
   } catch (err) {
     issues.push({ path: 'record', message: err instanceof Error ? err.message : String(err) });
   }
-  if (issues.length > 0) throw HttpError.invalid(issues);
+  if (issues.length > 0) throw new Invalid(issues);
   return record;
 }
 
-export function listStructures(db: Tx): StructureView[] {
-  return db.select().from(structuresTable).where(isNull(structuresTable.retiredAtMs)).orderBy(structuresTable.name).all().map(structureView);
+export function listStructures(storage: Storage): StructureView[] {
+  return storage.structures.activeByName().map(structureView);
 }
 
-export function getStructureRow(db: Tx, id: number): StructureRow {
-  const row = db.select().from(structuresTable).where(eq(structuresTable.id, id)).get();
-  if (!row || row.retiredAtMs !== null) throw HttpError.notFound(`structure ${id}`);
+export function getStructureRow(storage: Storage, id: number): StructureRow {
+  const row = storage.structures.byId(id);
+  if (!row || row.retiredAtMs !== null) throw new NotFound(`structure ${id}`);
   return row;
 }
 
@@ -150,25 +149,30 @@ export function structureColumns(input: StructureInput, record: StructureRecord)
 }
 
 /** Structures are known by name on the board, in the log and in register files: one active structure per name. */
-function assertNameFree(tx: Tx, name: string, exceptId: number | null): void {
-  const clash = tx.select({ id: structuresTable.id }).from(structuresTable).where(and(eq(structuresTable.name, name), isNull(structuresTable.retiredAtMs))).all().find((r) => r.id !== exceptId);
-  if (clash) throw new HttpError(409, `a structure named "${name}" is registered (id ${clash.id}); choose another name`);
+function assertNameFree(storage: Storage, name: string, exceptId: number | null): void {
+  const clash = storage.structures.activeNamed(name).find((r) => r.id !== exceptId);
+  if (clash) throw new Conflict(`a structure named "${name}" is registered (id ${clash.id}); choose another name`);
 }
 
-export function createStructure(db: Db, siteId: number, input: StructureInput, actor: string, nowMs: number): StructureView {
-  return db.transaction((tx) => {
-    const record = checkStructure(tx, input);
-    assertNameFree(tx, record.name, null);
-    const row = tx.insert(structuresTable).values({ siteId, ...structureColumns(input, record), createdAtMs: nowMs, updatedAtMs: nowMs }).returning().get();
+/**
+ * Registers a structure: checked whole, its name free, one audit row. A register import calls it
+ * per structure inside its own transaction (a savepoint here), with its own `action` words.
+ */
+export function createStructure(storage: Storage, siteId: number, input: StructureInput, actor: string, nowMs: number, action = 'create'): StructureView {
+  return storage.transaction(() => {
+    const record = checkStructure(storage, input);
+    assertNameFree(storage, record.name, null);
+    const row = storage.structures.insert({ siteId, ...structureColumns(input, record), createdAtMs: nowMs, updatedAtMs: nowMs });
     const view = structureView(row);
-    recordAudit(tx, { actor, entity: 'structure', entityId: row.id, action: 'create', after: view }, nowMs);
+    storage.audit.record({ actor, entity: 'structure', entityId: row.id, action, after: view }, nowMs);
     return view;
   });
 }
 
-export function updateStructure(db: Db, id: number, patch: z.infer<typeof structureUpdateSchema>, actor: string, nowMs: number): StructureView {
-  return db.transaction((tx) => {
-    const before = structureView(getStructureRow(tx, id));
+/** Changes a structure: the result checked whole, its name free, one audit row with before and after. */
+export function updateStructure(storage: Storage, id: number, patch: z.infer<typeof structureUpdateSchema>, actor: string, nowMs: number, action = 'update'): StructureView {
+  return storage.transaction(() => {
+    const before = structureView(getStructureRow(storage, id));
     const merged: StructureInput = {
       record: patch.record ?? before.record,
       orientationDeg: patch.orientationDeg ?? before.orientationDeg,
@@ -179,20 +183,20 @@ export function updateStructure(db: Db, id: number, patch: z.infer<typeof struct
       sensorKeys: patch.sensorKeys === undefined ? before.sensorKeys : patch.sensorKeys,
       levels: patch.levels === undefined ? before.levels : patch.levels,
     };
-    const record = checkStructure(tx, merged);
-    assertNameFree(tx, record.name, id);
-    const row = tx.update(structuresTable).set({ ...structureColumns(merged, record), updatedAtMs: nowMs }).where(eq(structuresTable.id, id)).returning().get();
+    const record = checkStructure(storage, merged);
+    assertNameFree(storage, record.name, id);
+    const row = storage.structures.update(id, { ...structureColumns(merged, record), updatedAtMs: nowMs });
     const after = structureView(row);
-    recordAudit(tx, { actor, entity: 'structure', entityId: id, action: 'update', before, after }, nowMs);
+    storage.audit.record({ actor, entity: 'structure', entityId: id, action, before, after }, nowMs);
     return after;
   });
 }
 
 /** Retires a structure: it leaves the live board, its history stays in the log. */
-export function retireStructure(db: Db, id: number, actor: string, nowMs: number): void {
-  db.transaction((tx) => {
-    const before = structureView(getStructureRow(tx, id));
-    tx.update(structuresTable).set({ retiredAtMs: nowMs, updatedAtMs: nowMs }).where(eq(structuresTable.id, id)).run();
-    recordAudit(tx, { actor, entity: 'structure', entityId: id, action: 'retire', before }, nowMs);
+export function retireStructure(storage: Storage, id: number, actor: string, nowMs: number): void {
+  storage.transaction(() => {
+    const before = structureView(getStructureRow(storage, id));
+    storage.structures.update(id, { retiredAtMs: nowMs, updatedAtMs: nowMs });
+    storage.audit.record({ actor, entity: 'structure', entityId: id, action: 'retire', before }, nowMs);
   });
 }

@@ -114,3 +114,15 @@ export class ConfigurationHistory {
     return name;
   }
 }
+
+/** Each structure's last configuration switch (after a restart it is assessed as it stands). */
+export function lastConfigurations(db: Db): Map<number, { name: string; atMs: number; by: string }> {
+  const rows = db.$client
+    .prepare(
+      `SELECT structure_id AS id, to_name AS name, at_ms AS atMs, by FROM (
+         SELECT structure_id, to_name, at_ms, by, ROW_NUMBER() OVER (PARTITION BY structure_id ORDER BY at_ms DESC, id DESC) AS rn FROM configuration_changes
+       ) WHERE rn = 1`,
+    )
+    .all() as Array<{ id: number; name: string; atMs: number; by: string }>;
+  return new Map(rows.map((r) => [r.id, { name: r.name, atMs: r.atMs, by: r.by }]));
+}

@@ -9,6 +9,7 @@ import { drizzle, type BetterSQLite3Database } from 'drizzle-orm/better-sqlite3'
 import type { BaseSQLiteDatabase } from 'drizzle-orm/sqlite-core';
 import { migrate } from 'drizzle-orm/better-sqlite3/migrator';
 import * as schema from '../../db/schema.ts';
+import { configureConnection } from './connection.ts';
 
 export type Db = BetterSQLite3Database<typeof schema> & { $client: Database.Database };
 /** The database or a transaction on it: what query functions take, so they compose inside transactions. */
@@ -29,13 +30,7 @@ export function migrationsFolder(): string {
 export function openDatabase(file: string): OpenedDatabase {
   if (file !== ':memory:') fs.mkdirSync(path.dirname(file), { recursive: true });
   const sqlite = new Database(file);
-  // WAL: readers never block the writer; NORMAL: a commit is durable against a process crash
-  // (SIGKILL) and reaches the disk at the next checkpoint — the trade-off documented in
-  // DEVELOPERS.md ("durability").
-  sqlite.pragma('journal_mode = WAL');
-  sqlite.pragma('synchronous = NORMAL');
-  sqlite.pragma('foreign_keys = ON');
-  sqlite.pragma('busy_timeout = 5000');
+  configureConnection(sqlite);
   const db = drizzle({ client: sqlite, schema }) as Db;
   migrate(db, { migrationsFolder: migrationsFolder() });
   return { db, sqlite, file };

@@ -19,7 +19,7 @@ import { registeredConfigurationName, type StructureRecord } from '../engine/ind
 import { ConfigurationHistory, configurationChangesInWindow, type ConfigurationChangeEntry } from './configurationLog.ts';
 import type { Db } from './database.ts';
 import { forecastCheck, type ForecastCheck } from './forecastCheck.ts';
-import { utilizationE4Unbounded } from './writeQueue.ts';
+import { utilizationE4Unbounded } from './storedUnits.ts';
 
 type SensorRow = typeof sensorsTable.$inferSelect;
 type StructureRow = typeof structuresTable.$inferSelect;

@@ -8,7 +8,7 @@
  */
 import type Database from 'better-sqlite3';
 import { unitVectorMeanDegFromSums } from '../wind/index.ts';
-import { utilizationE4Unbounded } from './writeQueue.ts';
+import { utilizationE4Unbounded } from './storedUnits.ts';
 
 const minuteMs = 60_000;
 

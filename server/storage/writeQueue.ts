@@ -20,12 +20,21 @@
  * After a crash, `rebuildNewestMinutes` recomputes each sensor's newest minute from its raw
  * readings, so the log never misses what the memory held.
  *
- * Raw prepared statements, not the query builder: this is the per-message path.
+ * The server runs it on the commit thread (`commitThread: true`, commitThread.ts): the same class
+ * runs there, on the worker's connection, and this instance forwards to it; tests, tools and the
+ * demo's past day use it in-thread.
+ *
+ * Raw prepared statements, not the query builder: this is the per-message path. About 460 lines:
+ * the statements, the transaction, the rollups and the backlog are one commit path, in one file
+ * so the worker and the in-thread queue cannot differ.
  */
 import type Database from 'better-sqlite3';
 import type { AcknowledgementRow, AlertRow, ConfigurationChangeRow, LevelChangeRow, ReadingRow, StructureMinuteRow, WriteBatch } from './writeBatch.ts';
 import { sensorsWithReadings } from './retention.ts';
 import { batchRowCount } from './writeBatch.ts';
+import { finiteOrNull, toCmps, toDeciC, toUtilizationE4, toWholeDeg } from './storedUnits.ts';
+import { recountDelta, storedWindMinuteSql, upsertWindMinuteSql, type MinuteSums } from './windMinutes.ts';
+import { CommitThread } from './commitThread.ts';
 
 /**
  * Rows kept in memory while the database cannot write; beyond this the oldest readings go first
@@ -37,8 +46,8 @@ const retryIntervalMs = 5_000;
 /** A group this large is committed at once. */
 const maxGroupBatches = 500;
 
-/** Stored utilization is in ten-thousandths; "no resistance left" is stored as this sentinel. */
-export const utilizationE4Unbounded = 2_000_000_000;
+/** Stored utilization is in ten-thousandths; "no resistance left" is stored as this sentinel (storedUnits.ts). */
+export { utilizationE4Unbounded } from './storedUnits.ts';
 
 interface Pending {
   batch: WriteBatch;
@@ -72,7 +81,6 @@ function emptyMinute(sensorId: number, minuteMs: number): MinuteAggregate {
 }
 
 const minuteMs = 60_000;
-const toCmps = (speedMps: number): number => Math.round(speedMps * 100);
 
 export interface WriteQueueStats {
   /** Rows waiting in memory for the database to accept writes again. */
@@ -124,6 +132,8 @@ export class WriteQueue {
   private readonly insertAudit: Database.Statement;
   private readonly commit: (batches: WriteBatch[]) => Map<number, MinuteAggregate>;
   private readonly commitMinutes: (aggregates: MinuteAggregate[]) => void;
+  /** Set with `commitThread`: every call goes to the commit thread (commitThread.ts). */
+  private readonly thread: CommitThread | null = null;
 
   /**
    * @param groupWindowMs how long the first batch of a group waits for company before the commit.
@@ -135,29 +145,32 @@ export class WriteQueue {
    * @param newestMinutes each sensor's newest stored minute, from `rebuildNewestMinutes` at start:
    *   a sensor's first reading after a restart that is older than that minute (a replayed, late
    *   one) is then upserted at once rather than held as the sensor's open minute.
+   * @param options.commitThread commit on a worker thread with its own connection to the same
+   *   file (commitThread.ts): the same guarantee, off the event loop. `flush` then only sends,
+   *   `writeOpenMinutes` and `settle` resolve once the worker has written, and `groupWindowMs`
+   *   is not used (groups gather while the previous one commits).
    */
   constructor(
     private readonly sqlite: Database.Database,
     private readonly now: () => number = Date.now,
     private readonly groupWindowMs = 0,
     newestMinutes: ReadonlyMap<number, number> = new Map(),
+    options: { commitThread?: boolean } = {},
   ) {
+    if (options.commitThread) {
+      if (sqlite.memory) throw new Error('a commit thread needs a database file, not :memory:');
+      // Checkpoints (copying the WAL into the file, with an fsync) are the commit thread's: one
+      // started by a rare write on the main connection would block the event loop.
+      sqlite.pragma('wal_autocheckpoint = 0');
+      this.thread = new CommitThread({ file: sqlite.name, now, newestMinutes, rebuildNewestMinutes: () => rebuildNewestMinutes(sqlite), stats: this.stats });
+    }
     for (const [sensorId, minute] of newestMinutes) this.openMinutes.set(sensorId, emptyMinute(sensorId, minute));
     this.insertReading = sqlite.prepare(
       `INSERT OR IGNORE INTO readings (sensor_id, ts_ms, speed_cmps, gust_cmps, dir_deg, temp_deci_c, pressure_pa, rh_pct, flags)
        VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`,
     );
-    this.upsertWindMinute = sqlite.prepare(
-      `INSERT INTO wind_minutes (sensor_id, minute_ms, sample_count, speed_sum_cmps, max_gust_cmps, dir_sin_sum, dir_cos_sum, dir_count)
-       VALUES (?, ?, ?, ?, ?, ?, ?, ?)
-       ON CONFLICT (sensor_id, minute_ms) DO UPDATE SET
-         sample_count = sample_count + excluded.sample_count,
-         speed_sum_cmps = speed_sum_cmps + excluded.speed_sum_cmps,
-         max_gust_cmps = max(max_gust_cmps, excluded.max_gust_cmps),
-         dir_sin_sum = dir_sin_sum + excluded.dir_sin_sum,
-         dir_cos_sum = dir_cos_sum + excluded.dir_cos_sum,
-         dir_count = dir_count + excluded.dir_count`,
-    );
+    // The one upsert of a minute rollup, additive (windMinutes.ts says why).
+    this.upsertWindMinute = sqlite.prepare(upsertWindMinuteSql);
     this.upsertStructureMinute = sqlite.prepare(
       `INSERT INTO structure_minutes (structure_id, minute_ms, max_gust_cmps, max_utilization_e4, max_level)
        VALUES (?, ?, ?, ?, ?)
@@ -209,6 +222,7 @@ export class WriteQueue {
 
   /** Resolves when the batch is committed (`stored: true`) or held for retry (`stored: false`). */
   enqueue(batch: WriteBatch): Promise<WriteOutcome> {
+    if (this.thread) return this.thread.enqueue(batch);
     return new Promise<WriteOutcome>((resolve) => {
       this.pending.push({ batch, resolve });
       if (this.pending.length >= maxGroupBatches) {
@@ -223,6 +237,7 @@ export class WriteQueue {
 
   /** Commits the backlog and everything pending now (also used at shutdown). */
   flush(): void {
+    if (this.thread) return this.thread.flush();
     this.scheduled = false;
     const pending = this.pending;
     if (pending.length === 0 && this.backlog.length === 0) return;
@@ -254,9 +269,15 @@ export class WriteQueue {
   /**
    * Writes what each sensor's newest minute gathered since it was last written (the 1 Hz tick;
    * shutdown). Nothing is lost when the database cannot write: the sums stay in memory and go
-   * with the next call that succeeds.
+   * with the next call that succeeds. In-thread, done when the call returns.
    */
-  writeOpenMinutes(): void {
+  writeOpenMinutes(): Promise<void> {
+    if (this.thread) return this.thread.writeOpenMinutes();
+    this.writeOpenMinutesNow();
+    return Promise.resolve();
+  }
+
+  private writeOpenMinutesNow(): void {
     const dirty = [...this.openMinutes.values()].filter((m) => m.count > 0);
     if (dirty.length === 0) return;
     try {
@@ -270,14 +291,20 @@ export class WriteQueue {
     for (const m of dirty) this.openMinutes.set(m.sensorId, emptyMinute(m.sensorId, m.minuteMs));
   }
 
-  /** Commits everything pending and the open minutes: shutdown, and tools that read right after writing. */
-  settle(): void {
+  /**
+   * Commits everything pending and the open minutes: shutdown, and tools that read right after
+   * writing. In-thread, done when the call returns.
+   */
+  settle(): Promise<void> {
+    if (this.thread) return this.thread.settle();
     this.flush();
-    this.writeOpenMinutes();
+    this.writeOpenMinutesNow();
+    return Promise.resolve();
   }
 
   /** True while the last commit failed or rows wait in the backlog. */
   get failing(): boolean {
+    if (this.thread) return this.thread.failing;
     return this.backlog.length > 0;
   }
 
@@ -300,8 +327,9 @@ export class WriteQueue {
     }
   }
 
-  /** Stops the retry timer (shutdown). */
+  /** Stops the retry timer (shutdown); ends the commit thread (after `settle`). */
   stop(): void {
+    this.thread?.stop();
     if (this.retryTimer) clearInterval(this.retryTimer);
     this.retryTimer = null;
   }
@@ -313,8 +341,8 @@ export class WriteQueue {
       row.tsMs,
       speedCmps,
       row.gustMps === null ? null : toCmps(row.gustMps),
-      row.dirDeg === null ? null : Math.round(row.dirDeg) % 360,
-      row.tempC === null ? null : Math.round(row.tempC * 10),
+      row.dirDeg === null ? null : toWholeDeg(row.dirDeg),
+      row.tempC === null ? null : toDeciC(row.tempC),
       row.pressurePa === null ? null : Math.round(row.pressurePa),
       row.rhPct === null ? null : Math.round(row.rhPct),
       row.late ? 1 : 0,
@@ -362,8 +390,7 @@ export class WriteQueue {
   }
 
   private writeStructureMinute(row: StructureMinuteRow): void {
-    const utilE4 = Number.isFinite(row.utilization) ? Math.min(utilizationE4Unbounded, Math.round(row.utilization * 10_000)) : utilizationE4Unbounded;
-    this.upsertStructureMinute.run(row.structureId, row.minuteMs, toCmps(row.gustMps), utilE4, row.level);
+    this.upsertStructureMinute.run(row.structureId, row.minuteMs, toCmps(row.gustMps), toUtilizationE4(row.utilization), row.level);
   }
 
   private writeLevelChange(row: LevelChangeRow): void {
@@ -399,10 +426,6 @@ export class WriteQueue {
   }
 }
 
-function finiteOrNull(value: number | null): number | null {
-  return value !== null && Number.isFinite(value) ? value : null;
-}
-
 /**
  * After a start (a crash may have lost what memory held of each sensor's newest minute), each
  * sensor's newest minute is recomputed from its raw readings: count, speed sum and direction sums
@@ -415,19 +438,11 @@ function finiteOrNull(value: number | null): number | null {
 export function rebuildNewestMinutes(sqlite: Database.Database): Map<number, number> {
   const newest = sqlite.prepare('SELECT MAX(ts_ms) AS ts FROM readings WHERE sensor_id = ?');
   const rows = sqlite.prepare('SELECT speed_cmps AS speed, gust_cmps AS gust, dir_deg AS dir FROM readings WHERE sensor_id = ? AND ts_ms >= ? AND ts_ms < ?');
-  const write = sqlite.prepare(
-    `INSERT INTO wind_minutes (sensor_id, minute_ms, sample_count, speed_sum_cmps, max_gust_cmps, dir_sin_sum, dir_cos_sum, dir_count)
-     VALUES (?, ?, ?, ?, ?, ?, ?, ?)
-     ON CONFLICT (sensor_id, minute_ms) DO UPDATE SET
-       speed_sum_cmps = excluded.speed_sum_cmps,
-       max_gust_cmps = max(max_gust_cmps, excluded.max_gust_cmps),
-       dir_sin_sum = excluded.dir_sin_sum,
-       dir_cos_sum = excluded.dir_cos_sum,
-       dir_count = excluded.dir_count,
-       sample_count = excluded.sample_count
-     WHERE excluded.sample_count >= wind_minutes.sample_count`,
-  );
+  // The same additive upsert as the live path: the recount adds what the stored row lacks (windMinutes.ts).
+  const write = sqlite.prepare(upsertWindMinuteSql);
+  const stored = sqlite.prepare(storedWindMinuteSql);
   const newestBySensor = new Map<number, number>();
+  // IMMEDIATE: it reads before it writes, and after a commit thread died a new one may be writing.
   sqlite.transaction(() => {
     for (const sensorId of sensorsWithReadings(sqlite)) {
       const ts = (newest.get(sensorId) as { ts: number }).ts;
@@ -444,9 +459,10 @@ export function rebuildNewestMinutes(sqlite: Database.Database): Map<number, num
           agg.dirCount++;
         }
       }
-      write.run(agg.sensorId, agg.minuteMs, agg.count, agg.speedSumCmps, agg.maxGustCmps, agg.dirSin, agg.dirCos, agg.dirCount);
+      const d = recountDelta(stored.get(sensorId, minute) as MinuteSums | undefined, agg);
+      if (d) write.run(agg.sensorId, agg.minuteMs, d.count, d.speedSumCmps, d.maxGustCmps, d.dirSin, d.dirCos, d.dirCount);
       newestBySensor.set(sensorId, minute);
     }
-  })();
+  }).immediate();
   return newestBySensor;
 }

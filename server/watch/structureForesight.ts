@@ -17,6 +17,7 @@ import {
   type MeanSeries,
   type WindStatistics,
 } from '../foresight/index.ts';
+import { maxPlausibleSpeedMps } from '../engine/limits.ts';
 
 export interface ForesightView {
   /** Always true: the figures are estimates beside the measured gust. */
@@ -46,6 +47,21 @@ export interface ForesightView {
   nextLevelInS: number | null;
   /** Why there is no time to the next level (the trend's status), or 'ahead' / 'reached'. */
   trend: string;
+  /**
+   * Levels on a chance trigger (levels/levelDefinition.ts): the chance now that the gust at the
+   * structure reaches the trigger's threshold (its fraction of capacity) within its horizon. The
+   * level machine rises on it (levels/stepLevel.ts); empty when no level is on a chance.
+   */
+  triggerChances: TriggerChance[];
+}
+
+export interface TriggerChance {
+  level: number;
+  label: string;
+  thresholdGustMps: number;
+  withinMinutes: number;
+  probability: number;
+  chance: number;
 }
 
 export type StructureForesight = ForesightView | { estimate: true; unknown: string };
@@ -59,7 +75,7 @@ export interface ForesightInput {
   /** The sensor's current gust factor (10-min peak / 10-min mean), or null. */
   gustFactor: number | null;
   level: number;
-  levels: ReadonlyArray<{ label: string }>;
+  levels: ReadonlyArray<{ label: string; trigger?: { kind: string; fraction?: number; withinMinutes?: number; probability?: number } }>;
   triggerGustsMps: readonly number[];
   limitGustMps: number;
   nowMs: number;
@@ -80,7 +96,7 @@ export function structureForesight(input: ForesightInput): StructureForesight {
   let nextLevelInS: number | null = null;
   let trend = 'top level';
   if (nextTrigger !== null) {
-    const t = input.gustFactor !== null && input.gustFactor >= 1 && input.gustFactor <= 10 && stats.meanMps <= 120
+    const t = input.gustFactor !== null && input.gustFactor >= 1 && input.gustFactor <= 10 && stats.meanMps <= maxPlausibleSpeedMps
       ? timeToLevel({ trend: meanTrend(input.means, input.nowMs), meanMps: stats.meanMps, gustFactor: input.gustFactor, triggerGustMps: nextTrigger, heightFactor: input.heightFactor })
       : ({ status: 'none', reason: 'no gust factor' } as const);
     if (t.status === 'none') trend = t.reason;
@@ -109,7 +125,39 @@ export function structureForesight(input: ForesightInput): StructureForesight {
     limitChance30: chance(limit, thirtyMinutesS),
     nextLevelInS,
     trend,
+    triggerChances: input.levels.flatMap((level, i) => {
+      const t = level.trigger;
+      if (t?.kind !== 'chance' || t.fraction === undefined || t.withinMinutes === undefined || t.probability === undefined) return [];
+      // The threshold is the gust at that fraction of the effective limit (every utilization is
+      // proportional to q, so to the gust squared: design §2.3).
+      const thresholdGustMps = limit * Math.sqrt(t.fraction);
+      return [{ level: i + 1, label: level.label, thresholdGustMps, withinMinutes: t.withinMinutes, probability: t.probability, chance: chance(thresholdGustMps, t.withinMinutes * 60) }];
+    }),
   };
+}
+
+/** How long a refresh of the figures is trusted by the level machine: older, a chance is unknown. */
+export const foresightTrustedForMs = 30_000;
+
+/**
+ * The chances of a structure's levels for the level machine (levels/stepLevel.ts `chances`): one
+ * entry per level, null for a level that is not on a chance; a chance level's entry carries null
+ * (unknown: never calm) when the figures are unknown or older than `foresightTrustedForMs`.
+ * Undefined when no level is on a chance.
+ */
+export function levelChances(
+  levels: ReadonlyArray<{ trigger: { kind: string; probability?: number } }>,
+  foresight: StructureForesight | null,
+  foresightAtMs: number,
+  nowMs: number,
+): Array<{ chance: number | null; probability: number } | null> | undefined {
+  if (!levels.some((l) => l.trigger.kind === 'chance')) return undefined;
+  const fresh = foresight !== null && !('unknown' in foresight) && nowMs - foresightAtMs <= foresightTrustedForMs ? foresight : null;
+  return levels.map((l, i) => {
+    if (l.trigger.kind !== 'chance' || l.trigger.probability === undefined) return null;
+    const known = fresh?.triggerChances.find((c) => c.level === i + 1 && c.probability === l.trigger.probability);
+    return { chance: known ? known.chance : null, probability: l.trigger.probability };
+  });
 }
 
 /**
@@ -135,6 +183,7 @@ export const foresightCellFields = [
   'heightFactor',
   'source',
   'upcrossingRateSource',
+  'triggerChances',
 ] as const;
 
 export function foresightCell(f: StructureForesight | null): unknown[] | null {
@@ -160,6 +209,8 @@ export function foresightCell(f: StructureForesight | null): unknown[] | null {
     Math.round(f.heightFactor * 1000) / 1000,
     f.source,
     f.upcrossingRateSource,
+    // Only for a structure with a level on a chance (the frame's budget is per character).
+    ...(f.triggerChances.length === 0 ? [] : [f.triggerChances.map((c) => ({ ...c, thresholdGustMps: r1(c.thresholdGustMps), chance: p(c.chance) }))]),
   ];
 }
 
@@ -168,7 +219,7 @@ export function foresightIdentity(f: StructureForesight | null): string {
   if (f === null) return 'none';
   if ('unknown' in f) return `unknown:${f.unknown}`;
   const pc = (v: number | null): string => (v === null ? '-' : String(Math.round(v * 100)));
-  return [f.nextLevel, pc(f.nextChance10), pc(f.nextChance30), pc(f.limitChance10), pc(f.limitChance30), Math.round(f.expectedPeak10Mps * 2), f.nextLevelInS === null ? '-' : Math.round(f.nextLevelInS / 60), f.trend, f.sensorKey].join('|');
+  return [f.nextLevel, pc(f.nextChance10), pc(f.nextChance30), pc(f.limitChance10), pc(f.limitChance30), Math.round(f.expectedPeak10Mps * 2), f.nextLevelInS === null ? '-' : Math.round(f.nextLevelInS / 60), f.trend, f.sensorKey, ...f.triggerChances.map((c) => `${c.level}:${pc(c.chance)}`)].join('|');
 }
 
 /** The compact cell of a `structures` frame back to the figures (the web app's reader). */
@@ -177,5 +228,6 @@ export function foresightFromCell(cell: unknown): StructureForesight | null {
   if (cell.length === 1) return { estimate: true, unknown: String(cell[0]) };
   const view: Record<string, unknown> = { estimate: true };
   foresightCellFields.forEach((field, i) => (view[field] = cell[i] ?? null));
+  if (!Array.isArray(view.triggerChances)) view.triggerChances = [];
   return view as unknown as ForesightView;
 }

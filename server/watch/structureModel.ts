@@ -10,12 +10,13 @@ import {
   compactStability,
   effectiveLimitMps,
   expandStructure,
+  maxPlausibleSpeedMps,
   stabilityCoefficients,
   type AssessedDirections,
   type CompactStability,
   type StructureRecord,
 } from '../engine/index.ts';
-import { checkLevelOrder, type LevelDefinition } from '../levels/index.ts';
+import { type LevelDefinition } from '../levels/index.ts';
 
 export interface StructureModel {
   id: number;
@@ -25,7 +26,7 @@ export interface StructureModel {
   mobile: boolean;
   /** Keys of the governing sensors; null = every sensor on the site (the highest governs). */
   sensorKeys: ReadonlySet<string> | null;
-  /** Governing k of every part and direction (engine/stability.ts `CompactStability`). */
+  /** Governing k of every part and direction (engine/utilization.ts `CompactStability`). */
   stability: CompactStability;
   /** Height the gust is transferred to, m (the structure's top unless set). */
   referenceHeightM: number;
@@ -91,18 +92,45 @@ export function rawTriggerGustsMps(levels: readonly LevelDefinition[], limitGust
 }
 
 /**
+ * The levels on a chance trigger with the gust their chance watches: the gust at that fraction of
+ * the effective limit, v_lim,eff · √f (as for a utilization trigger, design §2.3).
+ */
+export function chanceThresholds(levels: ReadonlyArray<Pick<LevelDefinition, 'trigger'>>, limitGustMps: number): Array<{ level: number; thresholdGustMps: number; withinMinutes: number; probability: number }> {
+  const limit = Number.isFinite(limitGustMps) ? Math.min(limitGustMps, 120) : 120;
+  return levels.flatMap((l, i) => (l.trigger.kind === 'chance' ? [{ level: i + 1, thresholdGustMps: limit * Math.sqrt(l.trigger.fraction), withinMinutes: l.trigger.withinMinutes, probability: l.trigger.probability }] : []));
+}
+
+/**
  * The ladder the level state machine runs on. A gust trigger at or above the effective limit is
  * refused on save; if the limit later falls below it (colder, denser air), it is lowered to the
  * limit, so no level comes after the structure has passed its limit. The ladder is then made
  * strictly rising by lowering the lower level (it escalates earlier, never later).
  */
 export function triggerLadderMps(levels: readonly LevelDefinition[], limitGustMps: number): number[] {
-  const limit = Number.isFinite(limitGustMps) ? Math.min(limitGustMps, 120) : 120;
+  const limit = Number.isFinite(limitGustMps) ? Math.min(limitGustMps, maxPlausibleSpeedMps) : maxPlausibleSpeedMps;
   const ladder = rawTriggerGustsMps(levels, limit).map((g) => (Number.isFinite(g) ? Math.min(g, limit) : limit));
   for (let i = ladder.length - 2; i >= 0; i--) {
     if (ladder[i]! >= ladder[i + 1]!) ladder[i] = ladder[i + 1]! * 0.999;
   }
   return ladder.map((g) => Math.max(g, 0.01));
+}
+
+/**
+ * Indices of levels out of order (checkLevelOrder, levels/levelOrder.ts), with chance triggers
+ * (levels/levelDefinition.ts) in their place: a chance level's threshold gust must be above every
+ * gust or utilization trigger below it, but it sets no floor for the levels above, because it
+ * may watch a fraction higher than theirs ("Prepare when the limit is likely within 30 min" before
+ * "Lower at 80 %"). The ladder still rises: `triggerLadderMps` lowers its gust below the next level's.
+ */
+function chanceAwareLevelOrder(levels: readonly LevelDefinition[], gusts: readonly number[]): number[] {
+  const offending: number[] = [];
+  let floor = 0;
+  levels.forEach((level, index) => {
+    const gust = gusts[index]!;
+    if (!(gust > floor)) offending.push(index);
+    else if (level.trigger.kind !== 'chance') floor = gust;
+  });
+  return offending;
 }
 
 /** Limits and ladder at this density, over every direction or within a sector of them. */
@@ -124,7 +152,7 @@ export function densityDependent(model: StructureModel, airDensityKgM3: number, 
 export function levelProblems(levels: readonly LevelDefinition[], limitGustMps: number): Array<{ index: number; field: 'fraction' | 'gustMps'; message: string }> {
   const problems: Array<{ index: number; field: 'fraction' | 'gustMps'; message: string }> = [];
   const gusts = rawTriggerGustsMps(levels, limitGustMps);
-  const outOfOrder = new Set(checkLevelOrder(gusts));
+  const outOfOrder = new Set(chanceAwareLevelOrder(levels, gusts));
   levels.forEach((level, index) => {
     const field = level.trigger.kind === 'gust' ? 'gustMps' : 'fraction';
     if (level.trigger.kind === 'gust' && Number.isFinite(limitGustMps) && level.trigger.gustMps >= limitGustMps) {
@@ -140,11 +168,14 @@ export function levelProblems(levels: readonly LevelDefinition[], limitGustMps: 
         message: `level ${index + 1} (${level.label}): ${Math.round(level.trigger.fraction * 100)} % of capacity is beyond the structure's limit; use at most 100 %`,
       });
     } else if (outOfOrder.has(index)) {
-      const below = Math.max(0, ...gusts.slice(0, index).filter((gust) => Number.isFinite(gust)));
+      const below = Math.max(0, ...gusts.slice(0, index).filter((gust, i) => Number.isFinite(gust) && levels[i]!.trigger.kind !== 'chance'));
       problems.push({
         index,
         field,
-        message: `level ${index + 1} (${level.label}) triggers at ${gusts[index]!.toFixed(1)} m/s for this structure, not above level ${index} (${below.toFixed(1)} m/s): levels must rise in order`,
+        message:
+          level.trigger.kind === 'chance'
+            ? `level ${index + 1} (${level.label}) watches the chance of ${Math.round(level.trigger.fraction * 100)} % of capacity (${gusts[index]!.toFixed(1)} m/s for this structure), not above the trigger of the levels below it (${below.toFixed(1)} m/s): watch a higher fraction`
+            : `level ${index + 1} (${level.label}) triggers at ${gusts[index]!.toFixed(1)} m/s for this structure, not above level ${index} (${below.toFixed(1)} m/s): levels must rise in order`,
       });
     }
   });

@@ -17,6 +17,14 @@
  * at all when neither maximum moved. Structures with their own sensor list, or a site with
  * directional assessment, take the direct loop over their sensors.
  *
+ * What lives elsewhere: alerts in the alert book and their words (levels/alertBook.ts,
+ * alertWords.ts), the level machine (levels/stepLevel.ts), the estimates (structureForesight.ts),
+ * the stream frames (liveFrames.ts), the in-memory state and its rules (liveState.ts) and what
+ * screens see (watchState.ts). Why this file is still long (about 1,200 lines): it is one class
+ * because every step of the per-reading path and the tick reads and changes the same in-memory
+ * state (sensors, structures, the site-wide gust maxima, the book), and its methods are those steps
+ * in order; splitting them across files would pass that state through every call.
+ *
  * Loads are never computed here: every figure comes from the engine's per-structure coefficients
  * (engine/stability.ts), the same ones the calculator reports. Without directional assessment
  * every direction around the structure counts; with it, the directions within the site's sector
@@ -34,33 +42,27 @@ import {
   highestTravelSpeedMps,
   isaAirDensityKgM3,
   isaSeaLevelDensityKgM3,
-  recordConfigurations,
   unclampedExposureFactor,
   utilizationAtPa,
   withRating,
   type AssessedDirections,
-  type StructureRecord,
-  type TerrainCategory,
 } from '../engine/index.ts';
-import {
-  defaultResignalIntervalMs,
-  initialLevelState,
-  noDataActionText,
-  stepLevel,
-  type LevelDefinition,
-  type LevelEvent,
-  type LevelState,
-  type LevelStepParams,
-} from '../levels/index.ts';
+import { stepLevel, justifiedLevel, type LevelEvent, type LevelStepParams } from '../levels/index.ts';
 import type { Reading } from '../ingest/payload.ts';
 import type { ReadingConsumer } from '../ingest/pipeline.ts';
 import type { RegisteredSensor } from '../ingest/registry.ts';
 import type { LiveHub } from '../live/liveHub.ts';
-import type { AlertRow, WriteBatch } from '../storage/writeBatch.ts';
+import type { WriteBatch } from '../storage/writeBatch.ts';
 import { batchRowCount, emptyWriteBatch } from '../storage/writeBatch.ts';
-import { summaryStatistics, windowStatistics, type WindStatistics } from '../foresight/index.ts';
-import { foresightCell, foresightIdentity, structureForesight, type StructureForesight } from './structureForesight.ts';
-import { acceptReading, threeSecondMeans, clockOffsetAlertMs, clockOffsetClearMs, clockOffsetMs, createSensorWindState, noteArrival, sensorSilent, stuckSensors, windSnapshot, type SensorWindState } from '../wind/index.ts';
+import { summaryStatistics, windowStatistics } from '../foresight/index.ts';
+import { AlertBook, defaultResignalIntervalMs, type NewAlert, type OpenAlert } from '../levels/alertBook.ts';
+import { chanceRiseWords, clockOffsetWords, escalationWords, noDataWords, sensorClockWords, sensorImplausibleWords, sensorSilentWords, sensorUnusableWords, type SensorFacts } from '../levels/alertWords.ts';
+import { watchEventRows } from '../storage/watchRows.ts';
+import type { WatchEvent } from './watchEvents.ts';
+import { byUrgency } from '../live/liveEvents.ts';
+import { publishMessages, type LiveMessage } from '../live/liveMessages.ts';
+import { foresightCell, foresightIdentity, levelChances, structureForesight, type StructureForesight } from './structureForesight.ts';
+import { acceptReading, threeSecondMeans, clockOffsetAlertMs, clockOffsetClearMs, clockOffsetMs, createSensorWindState, noteArrival, sensorSilent, stuckSensors, windSnapshot } from '../wind/index.ts';
 import type { FrameRow } from '../live/frames.ts';
 import { selectFrame } from '../live/frames.ts';
 import {
@@ -83,7 +85,9 @@ import {
   foresightFrameBudgetChars,
   foresightOverdueAfterMs,
 } from './liveFrames.ts';
-import { densityDependent, structureModel, type DensityDependent, type StructureModel, type StructureRow } from './structureModel.ts';
+import { densityDependent, type DensityDependent, type StructureRow } from './structureModel.ts';
+import { maxDimensionM, maxPlausibleSpeedMps } from '../engine/limits.ts';
+import type { WatchSiteSettings } from '../register/siteSettings.ts';
 
 /** A reading older than this at receipt is "late" (from a gateway's buffer): stored, not used live. */
 export const liveReadingMaxAgeMs = 60_000;
@@ -101,245 +105,17 @@ const foresightIntervalMs = 5_000;
 /** After start, a structure or sensor must have had this long to report before "no data" alerts. */
 const startGraceMs = 30_000;
 
-export interface SiteSettings {
-  id: number;
-  name: string;
-  altitudeM: number;
-  terrainCategory: TerrainCategory;
-  timeZone: string;
-  airDensityMode: 'isa' | 'measured' | 'fixed';
-  fixedAirDensityKgM3: number | null;
-  heightReductionEnabled: boolean;
-  directionalEnabled: boolean;
-  deadBandFraction: number;
-  holdTimeMs: number;
-  /** A level action that moves the structure and is not marked done this long after its alert is signalled as overdue, ms (default 5 min). */
-  actionDueMs?: number | undefined;
-  defaultLevels: readonly LevelDefinition[];
-  /** Half-width of the sector of directions assessed around the mean direction, degrees (default 45). */
-  directionSectorHalfWidthDeg?: number | undefined;
-}
-
-/** √c_e at a height, with and without the z_min clamp (EN 1991-1-4 §4.3.2; design §2.2 v2). */
-interface ProfileRoots {
-  clamped: number;
-  unclamped: number;
-}
+/** The site settings the watch takes, derived from the settings' one schema (register/siteSettings.ts). */
+export type SiteSettings = WatchSiteSettings;
 
 /** Default half-width of the directional sector (design §2.2 v2: ±45°). */
 export const defaultDirectionSectorHalfWidthDeg = 45;
 
-interface SensorLive {
-  sensor: RegisteredSensor;
-  wind: SensorWindState;
-  /** The 3-s gust at the newest live reading, m/s; null before the first. */
-  gustMps: number | null;
-  dirDeg: number | null;
-  /** 10-minute vector-mean direction, refreshed once a second with the health check. */
-  meanDirDeg: number | null;
-  lastLiveAtMs: number | null;
-  /** √c_e at the sensor's height, clamped at z_min and not (see `profileRoots`). */
-  profile: ProfileRoots;
-  lastHealthCheckAtMs: number;
-  silentAlertId: number | null;
-  implausibleAlertId: number | null;
-  /** The open alert for a clock offset beyond clockOffsetAlertMs; null when none. */
-  clockAlertId: number | null;
-  stuck: boolean;
-  /** U, σ and ν of the last 10 minutes (foresight), refreshed every few seconds by the tick; null before the first. */
-  statistics: WindStatistics | null;
-  /** The 10-minute gust factor (peak 3-s gust / mean, 1–10) at the same refresh; null with too little wind or data. */
-  gustFactor: number | null;
-  /** The 10-minute mean once a minute over the last hour, for the trend (foresight/meanTrend.ts). */
-  meanAtMs: number[];
-  meanMps: number[];
-}
-
-interface StructureLive {
-  /** The model of the live configuration (one of `configurations`). */
-  model: StructureModel;
-  /** One model per configuration (design §2.5), the one as registered first; names in `configurationNames`. */
-  configurations: StructureModel[];
-  configurationNames: string[];
-  /** Index of the live configuration in `configurations`. */
-  configurationIndex: number;
-  /** When and by whom the live configuration was switched to; null: as registered since the register was loaded. */
-  configurationSinceMs: number | null;
-  configurationBy: string | null;
-  /** A configuration the log names that the record no longer has (shown on the card, never silent). */
-  configurationWarning: string | null;
-  /** What the model was built from (to keep it across a reload of an unchanged register). */
-  modelKey: string;
-  density: DensityDependent;
-  profile: ProfileRoots;
-  level: LevelState;
-  gustMps: number | null;
-  governingSensorKey: string | null;
-  /** The wind direction of the governing sensor (for directional assessment and display). */
-  windFromDeg: number | null;
-  /** Limits and ladder within the current directional sector; null = every direction (`density`). */
-  sectorDensity: DensityDependent | null;
-  /** The sector `sectorDensity` was computed for. */
-  sectorCentreDeg: number;
-  sectorHalfWidthDeg: number;
-  /** What governs in words, and the case it was built for. */
-  words: string | null;
-  wordsKey: string | null;
-  evaluatedAtMs: number | null;
-  minuteMs: number;
-  minuteMaxGustMps: number;
-  minuteMaxLevel: number;
-  minuteDirty: boolean;
-  noDataAlertId: number | null;
-  error: string | null;
-  /** What the last announcement showed (to announce only changes). */
-  shown: { level: number; noData: boolean; sensorKey: string | null; gustMps: number | null } | null;
-  /** The foresight figures (structureForesight.ts), refreshed every few seconds by the tick. */
-  foresight: StructureForesight | null;
-  foresightIdentity: string;
-  foresightAtMs: number;
-}
-
-/** The part of a structure's state that changes with the wind: the once-a-second `structures` event. */
-export type StructureUpdate = Pick<
-  StructureState,
-  | 'id'
-  | 'level'
-  | 'levelLabel'
-  | 'levelSinceMs'
-  | 'noData'
-  | 'gustMps'
-  | 'governingSensorKey'
-  | 'windFromDeg'
-  | 'utilization'
-  | 'calculatedUtilization'
-  | 'margin'
-  | 'unbounded'
-  | 'evaluatedAtMs'
-> &
-  /** With directional assessment only: what governs and the limits move with the wind direction. */
-  Partial<Pick<StructureState, 'governing' | 'governingDirectionDeg' | 'governingElement' | 'governingText' | 'limitGustMps' | 'triggerGustsMps'>>;
-
-export interface OpenAlert {
-  id: number;
-  kind: AlertRow['kind'];
-  structureId: number | null;
-  sensorKey: string | null;
-  level: number | null;
-  label: string;
-  actionText: string;
-  raisedAtMs: number;
-  gustMps: number | null;
-  utilization: number | null;
-  lastSignalledAtMs: number;
-  clearedAtMs: number | null;
-  acknowledgedAtMs: number | null;
-  acknowledgedBy: string | null;
-  acknowledgeNote: string | null;
-  /** Where it belongs, for a screen: the structure's or sensor's name. */
-  subject: string;
-  /** A level alert whose action moves the structure to this configuration ("Done: lowered"); null otherwise. */
-  moveToConfiguration: string | null;
-  actionDoneAtMs: number | null;
-  actionDoneBy: string | null;
-  /** When the action becomes overdue (raised + the site's action time); null without an action that moves the structure. */
-  actionDueAtMs: number | null;
-  /** When it was signalled again as overdue; null when not (yet). */
-  overdueAtMs: number | null;
-}
-
-export interface StructureState {
-  id: number;
-  name: string;
-  kind: string;
-  level: number;
-  levelLabel: string | null;
-  levelSinceMs: number;
-  noData: boolean;
-  gustMps: number | null;
-  governingSensorKey: string | null;
-  windFromDeg: number | null;
-  /** Effective utilization: max(governing U, (gust / rated gust)²) (design §2.3); null when unknown or unbounded. */
-  utilization: number | null;
-  /** The calculated governing utilization (without the rating); null when unknown or unbounded. */
-  calculatedUtilization: number | null;
-  /** The criterion of the governing case. */
-  governing: string | null;
-  /** θ of the governing case relative to the front, degrees; null when unknown. */
-  governingDirectionDeg: number | null;
-  /** The part that governs: null for the whole body, else the element's name. */
-  governingElement: string | null;
-  /** What governs, in words ("wind from the W onto the west end: sliding"). */
-  governingText: string | null;
-  /** 1 − effective utilization; null when unknown. */
-  margin: number | null;
-  unbounded: boolean;
-  /** The effective limit over the directions now assessed (the sector, with directional assessment), m/s. */
-  limitGustMps: number;
-  /** The effective limit over every direction, m/s. */
-  allDirectionsLimitGustMps: number;
-  calculatedLimitGustMps: number;
-  ratedGustMps: number | null;
-  airDensityKgM3: number;
-  referenceHeightM: number;
-  triggerGustsMps: number[];
-  levels: Array<{ level: number; label: string; actionText: string; triggerGustMps: number; trigger: LevelDefinition['trigger'] }>;
-  /** What the engine could not check for this record (e.g. a strip record's ends). */
-  warnings: string[];
-  evaluatedAtMs: number | null;
-  error: string | null;
-  mobile: boolean;
-  /** The sensors whose wind governs it; null = every sensor on the site. */
-  sensorKeys: string[] | null;
-  /**
-   * Mobile structures: the highest travel speed with the face raised in the current gust, heading
-   * straight into the wind (the worst case; design.md 2.2), m/s; null when not mobile or unknown.
-   */
-  highestTravelSpeedMps: number | null;
-  /** Estimates of what comes (design §2.7): the chance of the next level and the limit, the expected peak, the time to the next level; null before the first figures. */
-  foresight: StructureForesight | null;
-  /** The live configuration's name (design §2.5). */
-  configuration: string;
-  /** When and by whom it was switched to; null: as registered, never switched since the register was loaded. */
-  configurationSinceMs: number | null;
-  configurationBy: string | null;
-  /** Every configuration with its limits at the current air density, the one as registered first. */
-  configurations: Array<{ name: string; current: boolean; limitGustMps: number; calculatedLimitGustMps: number; triggerGustsMps: number[] }>;
-}
-
-export interface SensorState {
-  key: string;
-  name: string;
-  heightM: number;
-  /** The sensor's own silence timeout, ms: a screen whose stream dropped can judge staleness itself. */
-  silenceTimeoutMs: number;
-  currentGustMps: number | null;
-  peakGust10minMps: number | null;
-  mean10minMps: number | null;
-  meanDirDeg: number | null;
-  beaufort: number | null;
-  lastReadingTsMs: number | null;
-  lastReceivedAtMs: number | null;
-  /** When the newest reading of any kind arrived (late ones too); null before the first. */
-  lastArrivalAtMs: number | null;
-  /** The sensor's clock offset from the server's, ms (positive: behind), over the last 30–60 s of arrivals; null when nothing arrived. */
-  clockOffsetMs: number | null;
-  silent: boolean;
-  implausible: string[];
-  temperatureC: number | null;
-  pressurePa: number | null;
-  rhPct: number | null;
-}
-
-/** The state of the parts around the watch that a crew must know about (shown on every screen). */
-export interface SystemStatus {
-  storageOk: boolean;
-  storageError: string | null;
-  /** Rows held in memory until the database accepts writes again. */
-  storageBacklogRows: number;
-  brokerOk: boolean;
-  brokerState: string;
-}
+/** An alert in the alert book (levels/alertBook.ts). */
+export type { OpenAlert } from '../levels/alertBook.ts';
+export type { SensorState, StructureState, StructureUpdate, SystemStatus } from './watchState.ts';
+import type { SensorState, StructureState, StructureUpdate, SystemStatus } from './watchState.ts';
+import { brokenStructure, clampedTriggerWarnings, configurationModels, restoredLevel, sameConfigurationName, weakestConfiguration, type ProfileRoots, type SensorLive, type StructureLive } from './liveState.ts';
 
 export interface WatchOptions {
   hub: LiveHub;
@@ -370,7 +146,8 @@ export class Watch implements ReadingConsumer {
   /** Structures taking their wind from every sensor, and those with their own list, by sensor key. */
   private allSensorStructures: StructureLive[] = [];
   private structuresBySensorKey = new Map<string, StructureLive[]>();
-  private readonly alerts = new Map<number, OpenAlert>();
+  /** Every alert from raise to end (levels/alertBook.ts); the watch says when, the book keeps them. */
+  private readonly book = new AlertBook();
   private airDensityKgM3 = isaSeaLevelDensityKgM3;
   private airDensityBasis: 'isa' | 'measured' | 'fixed' = 'isa';
   /** Site-wide maxima of the decomposition above; recomputed per live reading. */
@@ -393,7 +170,6 @@ export class Watch implements ReadingConsumer {
   /** Structures whose foresight changed and is not yet in a `foresight` frame: id → since when. */
   private readonly foresightWaiting = new Map<number, number>();
   /** Alert ids are given here (the alerts table never gets rows from anywhere else). */
-  private nextAlertId = 1;
   private params!: LevelStepParams;
 
   constructor(private readonly options: WatchOptions) {
@@ -519,9 +295,8 @@ export class Watch implements ReadingConsumer {
     }
 
     if (initial) {
-      this.nextAlertId = Math.max(this.nextAlertId, initial.nextAlertId);
+      this.book.restore(initial.alerts, initial.nextAlertId);
       for (const alert of initial.alerts) {
-        this.alerts.set(alert.id, alert);
         if (alert.clearedAtMs === null) {
           if (alert.kind === 'no-data' && alert.structureId !== null) {
             const s = this.structures.get(alert.structureId);
@@ -545,7 +320,7 @@ export class Watch implements ReadingConsumer {
    * a mast below z_min is never credited with the wind at z_min (design §2.2 v2).
    */
   private profileRoots(heightM: number): ProfileRoots {
-    const z = Math.max(0.1, Math.min(heightM, 200));
+    const z = Math.max(0.1, Math.min(heightM, maxDimensionM));
     return { clamped: Math.sqrt(exposureFactor(z, this.site.terrainCategory)), unclamped: Math.sqrt(unclampedExposureFactor(z, this.site.terrainCategory)) };
   }
 
@@ -622,7 +397,7 @@ export class Watch implements ReadingConsumer {
     }
     if (!live || !anyLive) return { batch, afterCommit: null };
 
-    const announcements: Array<() => void> = [];
+    const announcements: LiveMessage[] = [];
     // Plausibility is judged over seconds to minutes: once a second is enough, and a snapshot per
     // reading would be the costliest step of ingest.
     if (receivedAtMs - live.lastHealthCheckAtMs >= 1_000 || live.silentAlertId !== null) {
@@ -635,7 +410,7 @@ export class Watch implements ReadingConsumer {
     if (moved || this.site.directionalEnabled) for (const s of this.allSensorStructures) this.evaluate(s, receivedAtMs, batch, announcements);
     for (const s of this.structuresBySensorKey.get(sensor.key) ?? noStructures) this.evaluate(s, receivedAtMs, batch, announcements);
     // The sensor's wind goes to the stream in the next once-a-second `winds` frame (tick).
-    return { batch, afterCommit: announcements.length > 0 ? () => announcements.forEach((a) => a()) : null };
+    return { batch, afterCommit: announcements.length > 0 ? () => publishMessages(this.options.hub, announcements) : null };
   }
 
   /** Recomputes the site-wide maxima over live sensors; true when either moved. */
@@ -727,13 +502,13 @@ export class Watch implements ReadingConsumer {
 
   /** Effective utilization at this gust over the directions assessed (Infinity when unbounded). */
   private effective(s: StructureLive, gustMps: number, windFromDeg: number | null): number {
-    return effectiveUtilization(s.model.stability, Math.min(gustMps, 120), this.airDensityKgM3, this.sector(s, windFromDeg));
+    return effectiveUtilization(s.model.stability, Math.min(gustMps, maxPlausibleSpeedMps), this.airDensityKgM3, this.sector(s, windFromDeg));
   }
 
   /** The governing case at this gust: effective and calculated utilization, criterion, direction, part, words. */
   private assess(s: StructureLive, gustMps: number, windFromDeg: number | null) {
     const sector = this.sector(s, windFromDeg);
-    const gust = Math.min(gustMps, 120);
+    const gust = Math.min(gustMps, maxPlausibleSpeedMps);
     const worst = compactGoverningCase(s.model.stability, sector);
     const calculated = utilizationAtPa(worst.perPa, dynamicPressurePa(gust, this.airDensityKgM3));
     return {
@@ -773,7 +548,7 @@ export class Watch implements ReadingConsumer {
     return cached;
   }
 
-  private evaluate(s: StructureLive, nowMs: number, batch: WriteBatch, announcements: Array<() => void>): void {
+  private evaluate(s: StructureLive, nowMs: number, batch: WriteBatch, announcements: LiveMessage[]): void {
     if (s.error !== null) return;
     const governing = this.governingGust(s, nowMs);
     const wasNoData = s.level.noData;
@@ -784,12 +559,14 @@ export class Watch implements ReadingConsumer {
       s.gustMps = null;
       s.governingSensorKey = null;
     } else {
-      const gustMps = Math.min(governing.gustMps, 120);
+      const gustMps = Math.min(governing.gustMps, maxPlausibleSpeedMps);
       const ladder = this.currentDensity(s, governing.dirDeg).triggerGustsMps;
-      // Calm, with data, below the first trigger: the state machine would change nothing.
-      const calm = s.level.level === 0 && !s.level.noData && gustMps < ladder[0]!;
+      // Levels on a chance trigger rise on the latest estimate too (structureForesight.ts).
+      const chances = levelChances(s.model.levels, s.foresight, s.foresightAtMs, nowMs);
+      // Calm, with data, below the first trigger and no chance over its trigger: the state machine would change nothing.
+      const calm = s.level.level === 0 && !s.level.noData && gustMps < ladder[0]! && (chances === undefined || !chances.some((c) => c !== null && c.chance !== null && c.chance > c.probability));
       if (calm) events = noLevelEvents;
-      else ({ state: s.level, events } = stepLevel(s.level, { nowMs, gustMps, triggerGustsMps: ladder }, this.params));
+      else ({ state: s.level, events } = stepLevel(s.level, chances === undefined ? { nowMs, gustMps, triggerGustsMps: ladder } : { nowMs, gustMps, triggerGustsMps: ladder, chances }, this.params));
       s.gustMps = gustMps;
       s.governingSensorKey = governing.sensorKey;
       s.windFromDeg = governing.dirDeg;
@@ -808,7 +585,7 @@ export class Watch implements ReadingConsumer {
     }
     for (const event of events) this.onLevelEvent(s, event, previousLevel, batch, announcements);
     if (previousLevel !== s.level.level || wasNoData !== s.level.noData) {
-      announcements.push(() => this.options.hub.publish('structure', this.structureState(s)));
+      announcements.push({ kind: 'structure', payload: () => this.structureState(s) });
     }
   }
 
@@ -851,7 +628,7 @@ export class Watch implements ReadingConsumer {
   }
 
   /** `levelBefore`: the level before this step (no-data and data-back rows record the level they happened at). */
-  private onLevelEvent(s: StructureLive, event: LevelEvent, levelBefore: number, batch: WriteBatch, announcements: Array<() => void>): void {
+  private onLevelEvent(s: StructureLive, event: LevelEvent, levelBefore: number, batch: WriteBatch, announcements: LiveMessage[]): void {
     const utilization = s.gustMps === null ? null : this.assess(s, s.gustMps, s.windFromDeg).utilization;
     switch (event.type) {
       case 'escalated':
@@ -859,38 +636,27 @@ export class Watch implements ReadingConsumer {
         // The estimate in force before a rise goes with it into the log (how the estimates did, design §2.7).
         const f = s.foresight;
         const estimate = event.type === 'escalated' && f !== null && !('unknown' in f) && f.nextLevel !== null && f.nextChance10 !== null && f.nextChance30 !== null ? { level: f.nextLevel, chance10: f.nextChance10, chance30: f.nextChance30 } : null;
-        batch.levelChanges.push({ structureId: s.model.id, atMs: event.atMs, fromLevel: event.fromLevel, toLevel: event.toLevel, gustMps: event.gustMps, utilization, noData: false, estimate });
+        this.record([{ type: 'level-changed', structureId: s.model.id, atMs: event.atMs, fromLevel: event.fromLevel, toLevel: event.toLevel, gustMps: event.gustMps, utilization, estimate }], batch, announcements);
         this.options.onNotice?.(`${s.model.name}: level ${event.fromLevel} → ${event.toLevel}`, { structureId: s.model.id, gustMps: event.gustMps });
         if (event.type === 'escalated') {
-          const def = s.model.levels[event.toLevel - 1]!;
-          const { actionText, moveTo } = this.escalationAction(s, event.fromLevel, event.toLevel);
-          this.raise(
-            batch,
-            announcements,
-            { siteId: this.site.id, kind: 'level', structureId: s.model.id, sensorId: null, level: event.toLevel, label: def.label, actionText, raisedAtMs: event.atMs, gustMps: event.gustMps, utilization, moveToConfiguration: moveTo },
-            s.model.name,
-            null,
-          );
+          const words = escalationWords(s.model.levels, event.fromLevel, event.toLevel, (name) => this.moveTarget(s, name));
+          const actionText = words.actionText + this.chanceRise(s, event.toLevel, event.gustMps);
+          this.raise(batch, announcements, { kind: 'level', structureId: s.model.id, sensorId: null, sensorKey: null, level: event.toLevel, label: words.label, actionText, raisedAtMs: event.atMs, gustMps: event.gustMps, utilization, moveToConfiguration: words.moveTo, subject: s.model.name });
         } else {
           // Alerts of the levels left behind are cleared (their records stay until acknowledged).
-          for (const alert of this.alerts.values()) {
-            if (alert.kind === 'level' && alert.structureId === s.model.id && alert.clearedAtMs === null && (alert.level ?? 0) > event.toLevel) {
-              this.clear(alert, event.atMs, batch, announcements);
-            }
-          }
+          this.record(this.book.clearLevelsAbove(s.model.id, event.toLevel, event.atMs), batch, announcements);
         }
         break;
       }
       case 'no-data': {
-        batch.levelChanges.push({ structureId: s.model.id, atMs: event.atMs, fromLevel: levelBefore, toLevel: levelBefore, gustMps: null, utilization: null, noData: true });
+        this.record([{ type: 'data-lost', structureId: s.model.id, atMs: event.atMs, level: levelBefore }], batch, announcements);
         if (s.noDataAlertId === null && event.atMs - this.startedAtMs >= startGraceMs) this.raiseNoData(s, event.atMs, batch, announcements);
         break;
       }
       case 'data-restored': {
-        batch.levelChanges.push({ structureId: s.model.id, atMs: event.atMs, fromLevel: levelBefore, toLevel: levelBefore, gustMps: s.gustMps, utilization, noData: false });
+        this.record([{ type: 'data-restored', structureId: s.model.id, atMs: event.atMs, level: levelBefore, gustMps: s.gustMps, utilization }], batch, announcements);
         if (s.noDataAlertId !== null) {
-          const alert = this.alerts.get(s.noDataAlertId);
-          if (alert) this.clear(alert, event.atMs, batch, announcements);
+          this.record(this.book.clear(s.noDataAlertId, event.atMs), batch, announcements);
           s.noDataAlertId = null;
         }
         break;
@@ -898,116 +664,82 @@ export class Watch implements ReadingConsumer {
     }
   }
 
-  private raiseNoData(s: StructureLive, atMs: number, batch: WriteBatch, announcements: Array<() => void>): void {
-    const row: Omit<AlertRow, 'id'> = {
-      siteId: this.site.id,
-      kind: 'no-data',
-      structureId: s.model.id,
-      sensorId: null,
-      level: null,
-      label: 'No wind data',
-      actionText: noDataActionText,
-      raisedAtMs: atMs,
-      gustMps: null,
-      utilization: null,
-      moveToConfiguration: null,
-    };
-    s.noDataAlertId = this.raise(batch, announcements, row, s.model.name, null);
+  /**
+   * When a level rose on its chance trigger rather than on the measured gust (levels/stepLevel.ts),
+   * the alert says so after the competent person's action: the crew must know it is an estimate.
+   */
+  private chanceRise(s: StructureLive, toLevel: number, gustMps: number): string {
+    const ladder = this.currentDensity(s, s.windFromDeg).triggerGustsMps;
+    if (justifiedLevel(gustMps, ladder) >= toLevel) return '';
+    const f = s.foresight;
+    const c = f !== null && !('unknown' in f) ? f.triggerChances.find((t) => t.level === toLevel) : undefined;
+    return c === undefined ? '' : chanceRiseWords(c);
+  }
+
+  private raiseNoData(s: StructureLive, atMs: number, batch: WriteBatch, announcements: LiveMessage[]): void {
+    s.noDataAlertId = this.raise(batch, announcements, { kind: 'no-data', structureId: s.model.id, sensorId: null, sensorKey: null, level: null, ...noDataWords, raisedAtMs: atMs, gustMps: null, utilization: null, moveToConfiguration: null, subject: s.model.name });
   }
 
   /**
-   * Raises an alert: it gets its id here, is open in memory at once and goes into the batch. The
-   * announcement follows the commit — or follows anyway when the disk cannot take it (the caller
-   * runs the announcements either way): alerting never waits for storage.
+   * Raises an alert in the book: it has its id at once, is open in memory and goes into the
+   * batch. The announcement follows the commit — or follows anyway when the disk cannot take it
+   * (the caller runs the announcements either way): alerting never waits for storage.
    */
-  private raise(batch: WriteBatch, announcements: Array<() => void>, row: Omit<AlertRow, 'id'>, subject: string, sensorKey: string | null): number {
-    const id = this.nextAlertId++;
-    batch.alerts.push({ ...row, id });
-    const alert: OpenAlert = {
-      id,
-      kind: row.kind,
-      structureId: row.structureId,
-      sensorKey,
-      level: row.level,
-      label: row.label,
-      actionText: row.actionText,
-      raisedAtMs: row.raisedAtMs,
-      gustMps: row.gustMps,
-      utilization: row.utilization !== null && Number.isFinite(row.utilization) ? row.utilization : null,
-      lastSignalledAtMs: row.raisedAtMs,
-      clearedAtMs: null,
-      acknowledgedAtMs: null,
-      acknowledgedBy: null,
-      acknowledgeNote: null,
-      subject,
-      moveToConfiguration: row.moveToConfiguration,
-      actionDoneAtMs: null,
-      actionDoneBy: null,
-      actionDueAtMs: row.moveToConfiguration === null ? null : row.raisedAtMs + this.actionDueMs(),
-      overdueAtMs: null,
-    };
-    this.alerts.set(id, alert);
-    announcements.push(() => this.options.hub.publish('alert', { ...alert, resignal: false }));
-    return id;
+  private raise(batch: WriteBatch, announcements: LiveMessage[], input: NewAlert): number {
+    const { alert, events } = this.book.raise(input, this.actionDueMs());
+    this.record(events, batch, announcements);
+    return alert.id;
   }
 
-  private clear(alert: OpenAlert, atMs: number, batch: WriteBatch, announcements: Array<() => void>): void {
-    alert.clearedAtMs = atMs;
-    batch.clearedAlerts.push({ id: alert.id, atMs });
-    if (alert.acknowledgedAtMs !== null) this.alerts.delete(alert.id);
-    announcements.push(() => this.options.hub.publish('alert-update', alert));
+  /**
+   * Domain events (watchEvents.ts, levels/alertBook.ts) into the batch (storage/watchRows.ts) and
+   * into stream messages that go out after the commit: a raise, a re-signal or an overdue action as
+   * an `alert` message; a clear, an acknowledgement or an action done as one `alert-update` per
+   * alert. A structure's own events reach the stream as its `structure` message (evaluate).
+   */
+  private record(events: readonly WatchEvent[], batch: WriteBatch, announcements: LiveMessage[]): void {
+    if (events.length === 0) return;
+    watchEventRows(events, this.site.id, batch);
+    const updated = new Map<number, OpenAlert>();
+    for (const e of events) {
+      if (!('alert' in e)) continue;
+      const alert = e.alert;
+      if (e.type === 'alert-raised') announcements.push({ kind: 'alert', payload: () => ({ ...alert, resignal: false }) });
+      else if (e.type === 'alert-resignalled') announcements.push({ kind: 'alert', payload: () => ({ ...alert, resignal: true }) });
+      else if (e.type === 'action-overdue') announcements.push({ kind: 'alert', payload: () => ({ ...alert, resignal: true, overdue: true }) });
+      else updated.set(alert.id, alert);
+    }
+    for (const alert of updated.values()) announcements.push({ kind: 'alert-update', payload: alert });
   }
 
-  private checkSensorHealth(live: SensorLive, nowMs: number, batch: WriteBatch, announcements: Array<() => void>): void {
+  /** A sensor's facts for the alert texts (levels/alertWords.ts). */
+  private sensorFacts(live: SensorLive): SensorFacts {
+    return { name: live.sensor.name, silenceTimeoutMs: live.sensor.silenceTimeoutMs, liveMaxAgeMs: liveReadingMaxAgeMs, aheadToleranceMs: live.wind.clockAheadToleranceMs };
+  }
+
+  private checkSensorHealth(live: SensorLive, nowMs: number, batch: WriteBatch, announcements: LiveMessage[]): void {
     const snap = windSnapshot(live.wind, nowMs);
     live.meanDirDeg = snap.meanDirDeg;
     if (live.silentAlertId !== null) {
-      const alert = this.alerts.get(live.silentAlertId);
-      if (alert) this.clear(alert, nowMs, batch, announcements);
+      this.record(this.book.clear(live.silentAlertId, nowMs), batch, announcements);
       live.silentAlertId = null;
     }
     const implausible = snap.implausibleReasons.length > 0;
     if (implausible && live.implausibleAlertId === null) {
       this.raiseSensorAlert(live, 'sensor-implausible', nowMs, batch, announcements, snap.implausibleReasons.join(', '));
     } else if (!implausible && live.implausibleAlertId !== null) {
-      const alert = this.alerts.get(live.implausibleAlertId);
-      if (alert) this.clear(alert, nowMs, batch, announcements);
+      this.record(this.book.clear(live.implausibleAlertId, nowMs), batch, announcements);
       live.implausibleAlertId = null;
     }
   }
 
-  private raiseSensorAlert(live: SensorLive, kind: 'sensor-silent' | 'sensor-implausible' | 'sensor-clock', atMs: number, batch: WriteBatch, announcements: Array<() => void>, why: string): void {
-    const timeoutS = Math.round(live.sensor.silenceTimeoutMs / 1000);
+  private raiseSensorAlert(live: SensorLive, kind: 'sensor-silent' | 'sensor-implausible' | 'sensor-clock', atMs: number, batch: WriteBatch, announcements: LiveMessage[], why: string): void {
     const offset = clockOffsetMs(live.wind, atMs);
     // Readings that arrive but cannot be used live (stamped too far behind or ahead) are not silence.
     const arriving = atMs - live.wind.arrivalLastAtMs <= live.sensor.silenceTimeoutMs && offset !== null;
-    const texts =
-      kind === 'sensor-silent'
-        ? arriving
-          ? {
-              label: 'Sensor readings unusable',
-              actionText: `Readings from ${live.sensor.name} arrive, but none usable for more than ${timeoutS} s: they are stamped ${clockOffsetWords(offset)} the server's clock (a reading more than ${Math.round(liveReadingMaxAgeMs / 1000)} s old, or more than ${Math.round(live.wind.clockAheadToleranceMs / 1000)} s ahead, is stored but not used live). Set the gateway's clock (NTP). Structures that take their wind from it have one reading fewer; if it was their only one they show "no data".`,
-            }
-          : {
-              label: 'Sensor silent',
-              actionText: `No reading from ${live.sensor.name} for more than ${timeoutS} s. Check its power, mounting and gateway. Structures that take their wind from it have one reading fewer; if it was their only one they show "no data".`,
-            }
-        : kind === 'sensor-clock'
-          ? {
-              label: 'Sensor clock off',
-              actionText: `${live.sensor.name}'s readings are stamped ${why} the server's clock (measured from their arrival). They are still used and placed on the timeline by their own time; a reading more than ${Math.round(liveReadingMaxAgeMs / 1000)} s behind or ${Math.round(live.wind.clockAheadToleranceMs / 1000)} s ahead cannot be used live. Set the gateway's clock (NTP).`,
-            }
-        : {
-            label: 'Sensor readings implausible',
-            actionText: `${live.sensor.name} is sending values that cannot be right (${why}); they are not used. Check it for damage, icing, a loose mounting or a wrong unit setting.`,
-          };
-    const id = this.raise(
-      batch,
-      announcements,
-      { siteId: this.site.id, kind, structureId: null, sensorId: live.sensor.id, level: null, ...texts, raisedAtMs: atMs, gustMps: null, utilization: null, moveToConfiguration: null },
-      live.sensor.name,
-      live.sensor.key,
-    );
+    const facts = this.sensorFacts(live);
+    const words = kind === 'sensor-silent' ? (arriving ? sensorUnusableWords(facts, offset) : sensorSilentWords(facts)) : kind === 'sensor-clock' ? sensorClockWords(facts, why) : sensorImplausibleWords(facts, why);
+    const id = this.raise(batch, announcements, { kind, structureId: null, sensorId: live.sensor.id, sensorKey: live.sensor.key, level: null, ...words, raisedAtMs: atMs, gustMps: null, utilization: null, moveToConfiguration: null, subject: live.sensor.name });
     if (kind === 'sensor-silent') live.silentAlertId = id;
     else if (kind === 'sensor-clock') live.clockAlertId = id;
     else live.implausibleAlertId = id;
@@ -1023,7 +755,7 @@ export class Watch implements ReadingConsumer {
   tick(): { batch: WriteBatch; afterCommit: () => void } | null {
     const nowMs = this.now();
     const batch = emptyWriteBatch();
-    const announcements: Array<() => void> = [];
+    const announcements: LiveMessage[] = [];
 
     // Measured air density follows temperature and pressure, which change over minutes: once a
     // second here is plenty, and keeps a look across every sensor off the per-reading path.
@@ -1044,8 +776,7 @@ export class Watch implements ReadingConsumer {
       if (offset !== null && Math.abs(offset) > clockOffsetAlertMs && s.clockAlertId === null) {
         this.raiseSensorAlert(s, 'sensor-clock', nowMs, batch, announcements, clockOffsetWords(offset));
       } else if (offset !== null && Math.abs(offset) < clockOffsetClearMs && s.clockAlertId !== null) {
-        const alert = this.alerts.get(s.clockAlertId);
-        if (alert) this.clear(alert, nowMs, batch, announcements);
+        this.record(this.book.clear(s.clockAlertId, nowMs), batch, announcements);
         s.clockAlertId = null;
       }
     }
@@ -1064,30 +795,18 @@ export class Watch implements ReadingConsumer {
       const key = `${system.storageOk}|${system.brokerOk}|${system.brokerState}`;
       if (key !== this.lastSystemKey) {
         this.lastSystemKey = key;
-        announcements.push(() => this.options.hub.publish('health', system));
+        announcements.push({ kind: 'health', payload: system });
       }
     }
 
-    // A level's action that moves the structure, not done in time: signalled again as overdue.
-    for (const alert of this.alerts.values()) {
-      if (alert.actionDueAtMs === null || alert.actionDoneAtMs !== null || alert.overdueAtMs !== null || alert.clearedAtMs !== null || nowMs < alert.actionDueAtMs) continue;
+    // A level's action that moves the structure, not done in time, is signalled again as overdue
+    // (unless it is already in that configuration, switched by hand); unacknowledged alerts are
+    // signalled again every interval.
+    const alreadyThere = (alert: OpenAlert): boolean => {
       const st = alert.structureId === null ? undefined : this.structures.get(alert.structureId);
-      // Already in that configuration (switched by hand): nothing left to do.
-      if (st && alert.moveToConfiguration !== null && sameConfigurationName(st.configurationNames[st.configurationIndex]!, alert.moveToConfiguration)) continue;
-      alert.overdueAtMs = nowMs;
-      alert.lastSignalledAtMs = nowMs;
-      batch.overdue.push({ alertId: alert.id, atMs: nowMs });
-      const shown = alert;
-      announcements.push(() => this.options.hub.publish('alert', { ...shown, resignal: true, overdue: true }));
-    }
-
-    const interval = this.options.resignalIntervalMs ?? defaultResignalIntervalMs;
-    for (const alert of this.alerts.values()) {
-      if (alert.acknowledgedAtMs === null && nowMs - alert.lastSignalledAtMs >= interval) {
-        alert.lastSignalledAtMs = nowMs;
-        announcements.push(() => this.options.hub.publish('alert', { ...alert, resignal: true }));
-      }
-    }
+      return st !== undefined && alert.moveToConfiguration !== null && sameConfigurationName(st.configurationNames[st.configurationIndex]!, alert.moveToConfiguration);
+    };
+    this.record(this.book.due(nowMs, this.options.resignalIntervalMs ?? defaultResignalIntervalMs, alreadyThere), batch, announcements);
 
     if (nowMs - this.lastForesightAtMs >= foresightIntervalMs) {
       this.lastForesightAtMs = nowMs;
@@ -1097,11 +816,11 @@ export class Watch implements ReadingConsumer {
 
     const empty = batchRowCount(batch) === 0;
     if (empty && announcements.length === 0) return null;
-    return { batch, afterCommit: () => announcements.forEach((a) => a()) };
+    return { batch, afterCommit: () => publishMessages(this.options.hub, announcements) };
   }
 
   /** The `foresight` frame (liveFrames.ts): the structures whose estimates changed, within its budget. */
-  private foresightFrame(nowMs: number, announcements: Array<() => void>): void {
+  private foresightFrame(nowMs: number, announcements: LiveMessage[]): void {
     if (this.foresightWaiting.size === 0) return;
     const rows = new Map<number, FrameRow>();
     for (const [id, since] of this.foresightWaiting) {
@@ -1118,7 +837,7 @@ export class Watch implements ReadingConsumer {
     for (const id of frame.sent) this.foresightWaiting.delete(id);
     if (frame.data !== null) {
       const data = frame.data;
-      announcements.push(() => this.options.hub.publishText('foresight', data));
+      announcements.push({ kind: 'foresight', text: data });
     }
   }
 
@@ -1132,7 +851,7 @@ export class Watch implements ReadingConsumer {
       const snap = windSnapshot(live.wind, nowMs);
       if (live.wind.newestMode === 'summary') {
         live.statistics =
-          snap.mean10minMps !== null && snap.peakGust10minMps !== null && snap.mean10minMps <= 120 && snap.peakGust10minMps <= 120
+          snap.mean10minMps !== null && snap.peakGust10minMps !== null && snap.mean10minMps <= maxPlausibleSpeedMps && snap.peakGust10minMps <= maxPlausibleSpeedMps
             ? summaryStatistics({ meanMps: snap.mean10minMps, gustMps: snap.peakGust10minMps })
             : null;
       } else if (live.wind.newestMode === 'raw') {
@@ -1140,7 +859,7 @@ export class Watch implements ReadingConsumer {
       } else live.statistics = null;
       live.gustFactor = snap.mean10minMps !== null && snap.mean10minMps > 0.5 && snap.peakGust10minMps !== null ? Math.min(10, Math.max(1, snap.peakGust10minMps / snap.mean10minMps)) : null;
       const lastAt = live.meanAtMs.at(-1) ?? -Infinity;
-      if (snap.mean10minMps !== null && snap.mean10minMps <= 120 && nowMs - lastAt >= 60_000) {
+      if (snap.mean10minMps !== null && snap.mean10minMps <= maxPlausibleSpeedMps && nowMs - lastAt >= 60_000) {
         live.meanAtMs.push(nowMs);
         live.meanMps.push(snap.mean10minMps);
         while (live.meanAtMs.length > 0 && live.meanAtMs[0]! < nowMs - 3_600_000) {
@@ -1182,7 +901,7 @@ export class Watch implements ReadingConsumer {
    * the sensors and structures whose shown figures changed, within each frame's budget, the most
    * urgent first; a row that does not fit waits for the next frame (and comes first once overdue).
    */
-  private frames(nowMs: number, announcements: Array<() => void>): void {
+  private frames(nowMs: number, announcements: LiveMessage[]): void {
     const windRows = new Map<string, FrameRow>();
     const windIdentity = new Map<string, string>();
     for (const s of this.sensors.values()) {
@@ -1204,7 +923,7 @@ export class Watch implements ReadingConsumer {
     }
     if (winds.data !== null) {
       const data = winds.data;
-      announcements.push(() => this.options.hub.publishText('winds', data));
+      announcements.push({ kind: 'winds', text: data });
     }
 
     this.foresightFrame(nowMs, announcements);
@@ -1226,7 +945,7 @@ export class Watch implements ReadingConsumer {
     for (const id of structures.sent) this.dirtyStructures.delete(id);
     if (structures.data !== null) {
       const data = structures.data;
-      announcements.push(() => this.options.hub.publishText('structures', data));
+      announcements.push({ kind: 'structures', text: data });
     }
   }
 
@@ -1243,13 +962,9 @@ export class Watch implements ReadingConsumer {
 
   /** Marks an alert acknowledged in memory and announces it (the caller has stored it). */
   acknowledged(id: number, by: string, note: string | null, atMs: number): OpenAlert | null {
-    const alert = this.alerts.get(id);
+    const alert = this.book.get(id);
     if (!alert) return null;
-    alert.acknowledgedAtMs = atMs;
-    alert.acknowledgedBy = by;
-    alert.acknowledgeNote = note;
-    if (alert.clearedAtMs !== null) this.alerts.delete(id);
-    this.options.hub.publish('alert-update', alert);
+    if (this.book.acknowledge(id, { by, note, atMs, actor: by }).length > 0) this.options.hub.publish('alert-update', alert);
     return alert;
   }
 
@@ -1257,25 +972,6 @@ export class Watch implements ReadingConsumer {
   private moveTarget(s: StructureLive, name: string | undefined): string | null {
     if (name === undefined) return null;
     return s.configurationNames.find((n) => sameConfigurationName(n, name)) ?? null;
-  }
-
-  /**
-   * The action of an escalation from `fromLevel` to `toLevel`. A gust that passes several levels at
-   * once raises one alert, of the highest; the actions of the levels it passed are still to do (a
-   * screen that was to be lowered at Prepare must still be lowered at Stop), so they follow its own
-   * text, and when the highest level's action moves no structure, the configuration of the highest
-   * level passed that does is the one its "Done" asks for (found in review of the demo's windy spell).
-   */
-  private escalationAction(s: StructureLive, fromLevel: number, toLevel: number): { actionText: string; moveTo: string | null } {
-    const levels = s.model.levels;
-    const def = levels[toLevel - 1]!;
-    const passed = levels.slice(Math.max(0, fromLevel), toLevel - 1).filter((l) => l.actionText.trim().length > 0 || l.moveToConfiguration !== undefined);
-    let moveTo = this.moveTarget(s, def.moveToConfiguration);
-    for (let i = toLevel - 2; moveTo === null && i >= Math.max(0, fromLevel); i--) moveTo = this.moveTarget(s, levels[i]!.moveToConfiguration);
-    if (passed.length === 0) return { actionText: def.actionText, moveTo };
-    const also = passed.map((l) => `${l.label}: ${l.actionText.trim() || `move it to "${l.moveToConfiguration}"`}`).join(' ');
-    // The level's own action stays the first line (what e-mail, push and webhooks lead with).
-    return { actionText: `${def.actionText.trim()}${def.actionText.trim() ? '\n' : ''}The gust passed ${passed.map((l) => l.label).join(' and ')} at once; do their actions too. ${also}`, moveTo };
   }
 
   private actionDueMs(): number {
@@ -1298,7 +994,7 @@ export class Watch implements ReadingConsumer {
     if (index < 0) return { ok: false, status: 400, path: 'configuration', message: `"${input.name}" is not a configuration of ${s.model.name}; it has ${s.configurationNames.map((n) => `"${n}"`).join(', ')}` };
     let alert: OpenAlert | null = null;
     if (input.alertId !== null) {
-      alert = this.alerts.get(input.alertId) ?? null;
+      alert = this.book.get(input.alertId) ?? null;
       if (alert === null || alert.structureId !== input.structureId) return { ok: false, status: 409, message: `alert ${input.alertId} is not an open alert of ${s.model.name}` };
       if (alert.moveToConfiguration === null) return { ok: false, status: 400, path: 'alertId', message: `the action of alert ${alert.id} (${alert.label}) does not move the structure to another configuration` };
       if (!sameConfigurationName(alert.moveToConfiguration, input.name)) return { ok: false, status: 400, path: 'configuration', message: `the action of alert ${alert.id} (${alert.label}) moves ${s.model.name} to "${alert.moveToConfiguration}", not "${input.name}"` };
@@ -1308,11 +1004,11 @@ export class Watch implements ReadingConsumer {
     }
 
     const batch = emptyWriteBatch();
-    const announcements: Array<() => void> = [];
+    const announcements: LiveMessage[] = [];
     const fromName = s.configurationNames[s.configurationIndex]!;
     const toName = s.configurationNames[index]!;
     if (index !== s.configurationIndex) {
-      batch.configurationChanges.push({ structureId: s.model.id, atMs: input.atMs, fromName, toName, by: input.by, note: input.note, alertId: alert?.id ?? null, reason: alert ? 'action-done' : 'by-hand', actor: input.actor });
+      this.record([{ type: 'configuration-changed', structureId: s.model.id, atMs: input.atMs, fromName, toName, by: input.by, note: input.note, alertId: alert?.id ?? null, reason: alert ? 'action-done' : 'by-hand', actor: input.actor }], batch, announcements);
       const model = s.configurations[index]!;
       s.configurationIndex = index;
       s.model = model;
@@ -1328,32 +1024,18 @@ export class Watch implements ReadingConsumer {
     s.configurationSinceMs = input.atMs;
     s.configurationBy = input.by;
     s.configurationWarning = null;
-    if (alert) {
-      alert.actionDoneAtMs = input.atMs;
-      alert.actionDoneBy = input.by;
-      batch.actionsDone.push({ alertId: alert.id, atMs: input.atMs, by: input.by });
-      if (alert.acknowledgedAtMs === null) {
-        const note = input.note ?? `Done: ${toName}`;
-        alert.acknowledgedAtMs = input.atMs;
-        alert.acknowledgedBy = input.by;
-        alert.acknowledgeNote = note;
-        batch.acknowledgements.push({ alertId: alert.id, atMs: input.atMs, by: input.by, note, actor: input.actor });
-      }
-      if (alert.clearedAtMs !== null) this.alerts.delete(alert.id);
-      const shown = alert;
-      announcements.push(() => this.options.hub.publish('alert-update', shown));
-    }
+    if (alert) this.record(this.book.actionDone(alert.id, { by: input.by, note: input.note, atMs: input.atMs, actor: input.actor, configurationName: toName }), batch, announcements);
     // The new ladder, through the state machine (dead band and hold time as for any drop).
     this.evaluate(s, input.atMs, batch, announcements);
-    announcements.push(() => this.options.hub.publish('structure', this.structureState(s)));
-    return { ok: true, batch, announce: () => announcements.forEach((a) => a()), structure: this.structureState(s), alert };
+    announcements.push({ kind: 'structure', payload: () => this.structureState(s) });
+    return { ok: true, batch, announce: () => publishMessages(this.options.hub, announcements), structure: this.structureState(s), alert };
   }
 
   // ---------- reading the state ----------
 
   /** An alert still open in memory (not yet acknowledged, or not yet cleared). */
   openAlert(id: number): OpenAlert | null {
-    return this.alerts.get(id) ?? null;
+    return this.book.get(id) ?? null;
   }
 
   structureState(s: StructureLive): StructureState {
@@ -1416,7 +1098,7 @@ export class Watch implements ReadingConsumer {
       sensorKeys: m.sensorKeys === null ? null : [...m.sensorKeys],
       highestTravelSpeedMps:
         m.mobile && s.gustMps !== null && !s.level.noData && Number.isFinite(s.density.limitGustMps)
-          ? highestTravelSpeedMps({ limitGustMps: s.density.limitGustMps, gustMps: Math.min(s.gustMps, 120), windFromDeg: null, headingDeg: null }).speedMps
+          ? highestTravelSpeedMps({ limitGustMps: s.density.limitGustMps, gustMps: Math.min(s.gustMps, maxPlausibleSpeedMps), windFromDeg: null, headingDeg: null }).speedMps
           : null,
       // Only while the gust is known: an estimate never stands in for missing data.
       foresight: s.level.noData || s.error !== null ? null : s.foresight,
@@ -1514,7 +1196,7 @@ export class Watch implements ReadingConsumer {
   }
 
   openAlerts(): OpenAlert[] {
-    return [...this.alerts.values()].filter((a) => a.acknowledgedAtMs === null || a.clearedAtMs === null).sort((a, b) => b.raisedAtMs - a.raisedAtMs);
+    return this.book.open();
   }
 
   structureStateById(id: number): StructureState | null {
@@ -1532,118 +1214,5 @@ export class Watch implements ReadingConsumer {
   }
 }
 
-/**
- * A gust trigger refused on save at or above the limit can still meet it later: denser (colder)
- * air lowers the limit. The ladder then takes it at the limit; the card says so.
- */
-function clampedTriggerWarnings(levels: readonly LevelDefinition[], limitGustMps: number): string[] {
-  if (!Number.isFinite(limitGustMps)) return [];
-  return levels.flatMap((level, index) =>
-    level.trigger.kind === 'gust' && level.trigger.gustMps >= limitGustMps
-      ? [
-          `Level ${index + 1} (${level.label}) is set at a gust of ${level.trigger.gustMps.toFixed(1)} m/s, at or above the limit of ${limitGustMps.toFixed(1)} m/s in today's air: it is taken at the limit. Lower its trigger.`,
-        ]
-      : [],
-  );
-}
-
-/** "40 s behind" / "12 s ahead of" (a clock offset in words, for alert texts). */
-function clockOffsetWords(offsetMs: number | null): string {
-  if (offsetMs === null) return 'at an unknown offset from';
-  const s = Math.round(Math.abs(offsetMs) / 1000);
-  return offsetMs >= 0 ? `${s} s behind` : `${s} s ahead of`;
-}
-
 const noLevelEvents: readonly LevelEvent[] = Object.freeze([]);
 const noStructures: readonly StructureLive[] = Object.freeze([]);
-
-/** No data first, then highest level, then least margin. */
-function byUrgency(a: StructureState, b: StructureState): number {
-  if (a.noData !== b.noData) return a.noData ? -1 : 1;
-  if (a.level !== b.level) return b.level - a.level;
-  const ma = a.margin ?? -Infinity;
-  const mb = b.margin ?? -Infinity;
-  return ma - mb;
-}
-
-function restoredLevel(restored: { level: number; sinceMs: number } | undefined, nowMs: number): LevelState {
-  const initial = initialLevelState(nowMs);
-  if (!restored || restored.level <= 0) return initial;
-  // After a restart the last logged level holds until readings justify lowering it (with the
-  // usual hold): a restart must never make a structure look calmer than it was.
-  return { ...initial, level: restored.level, sinceMs: restored.sinceMs };
-}
-
-/** Configuration names are compared trimmed and ignoring case (engine/configuration.ts). */
-function sameConfigurationName(a: string, b: string): boolean {
-  return a.trim().normalize('NFC').toLowerCase() === b.trim().normalize('NFC').toLowerCase();
-}
-
-/** The index of the configuration with the lowest effective limit at this density (the first on a tie). */
-function weakestConfiguration(models: readonly StructureModel[], airDensityKgM3: number): number {
-  let weakest = 0;
-  let lowest = Infinity;
-  models.forEach((model, i) => {
-    const limit = densityDependent(model, airDensityKgM3).limitGustMps;
-    if (limit < lowest) {
-      lowest = limit;
-      weakest = i;
-    }
-  });
-  return weakest;
-}
-
-/** A model per configuration of the record (design §2.5), the one as registered first. */
-function configurationModels(row: StructureRow, siteLevels: readonly LevelDefinition[]): { models: StructureModel[]; names: string[] } {
-  const configured = recordConfigurations(row.recordJson as StructureRecord);
-  return { models: configured.map((c) => structureModel({ ...row, recordJson: c.record }, siteLevels)), names: configured.map((c) => c.name) };
-}
-
-function brokenStructure(row: StructureRow, err: unknown, nowMs: number, old: StructureLive | undefined): StructureLive {
-  const message = err instanceof Error ? err.message : String(err);
-  return {
-    modelKey: '',
-    model: {
-      id: row.id,
-      name: row.name,
-      kind: row.kind,
-      orientationDeg: row.orientationDeg,
-      mobile: row.mobile,
-      sensorKeys: null,
-      // Never assessed: a broken structure shows its error and counts as no data.
-      stability: { directionsDeg: new Float64Array(0), parts: [null], k: new Float64Array(0), criterion: new Uint8Array(0), edge: new Uint8Array(0), strip: true, ratedGustMps: null },
-      referenceHeightM: 1,
-      levels: [],
-      ratedGustMps: null,
-      warnings: [],
-    },
-    configurations: [],
-    configurationNames: ['as registered'],
-    configurationIndex: 0,
-    configurationSinceMs: null,
-    configurationBy: null,
-    configurationWarning: null,
-    density: { airDensityKgM3: isaSeaLevelDensityKgM3, calculatedLimitGustMps: 0, limitGustMps: 0, triggerGustsMps: [] },
-    profile: { clamped: 1, unclamped: 1 },
-    level: old?.level ?? { ...initialLevelState(nowMs) },
-    gustMps: null,
-    governingSensorKey: null,
-    windFromDeg: null,
-    sectorDensity: null,
-    sectorCentreDeg: Number.NaN,
-    sectorHalfWidthDeg: Number.NaN,
-    words: null,
-    wordsKey: null,
-    evaluatedAtMs: null,
-    minuteMs: 0,
-    minuteMaxGustMps: 0,
-    minuteMaxLevel: 0,
-    minuteDirty: false,
-    noDataAlertId: old?.noDataAlertId ?? null,
-    error: `stored record cannot be assessed: ${message}`,
-    shown: null,
-    foresight: null,
-    foresightIdentity: '',
-    foresightAtMs: 0,
-  };
-}

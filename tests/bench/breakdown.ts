@@ -13,14 +13,13 @@
  */
 import path from 'node:path';
 import { performance } from 'node:perf_hooks';
-import { isNull } from 'drizzle-orm';
-import { structuresTable } from '../../db/schema.ts';
 import { WindSimulator } from '../../server/demo/windSimulator.ts';
 import { parseReadingPayload } from '../../server/ingest/payload.ts';
 import { Registry } from '../../server/ingest/registry.ts';
 import { LiveHub } from '../../server/live/liveHub.ts';
 import { initialState, siteSettings } from '../../server/runtime.ts';
 import { openDatabase } from '../../server/storage/database.ts';
+import { SqliteStorage } from '../../server/storage/storage.ts';
 import { WriteQueue } from '../../server/storage/writeQueue.ts';
 import { Watch } from '../../server/watch/watch.ts';
 import { median } from './common.ts';
@@ -39,10 +38,12 @@ export interface BreakdownResult {
 
 function open(templateDir: string, dir: string) {
   copyTemplate(templateDir, dir);
-  const { db, sqlite } = openDatabase(path.join(dir, 'holdfast.sqlite'));
-  const registry = new Registry(db);
+  const opened = openDatabase(path.join(dir, 'holdfast.sqlite'));
+  const { sqlite } = opened;
+  const storage = new SqliteStorage(opened);
+  const registry = new Registry(storage);
   const watch = new Watch({ hub: new LiveHub() });
-  watch.configure(siteSettings(db), registry.sensors(), db.select().from(structuresTable).where(isNull(structuresTable.retiredAtMs)).all(), initialState(db));
+  watch.configure(siteSettings(storage), registry.sensors(), storage.structures.active(), initialState(storage));
   return { sqlite, registry, watch, queue: new WriteQueue(sqlite) };
 }
 

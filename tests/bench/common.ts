@@ -162,7 +162,7 @@ let clockTicksPerS: number | null = null;
  * /proc/<pid>/stat; null when unavailable. Unlike wall-clock rates, CPU time per reading hardly
  * changes with what else the machine is doing.
  */
-export function cpuSeconds(pid: number): number | null {
+export function cpuSeconds(pid: number, tid?: number): number | null {
   try {
     if (clockTicksPerS === null) {
       try {
@@ -171,7 +171,8 @@ export function cpuSeconds(pid: number): number | null {
         clockTicksPerS = 100;
       }
     }
-    const stat = fs.readFileSync(`/proc/${pid}/stat`, 'utf8');
+    // With `tid`, one thread's (the main thread's tid is the pid): /proc/<pid>/task/<tid>/stat.
+    const stat = fs.readFileSync(tid === undefined ? `/proc/${pid}/stat` : `/proc/${pid}/task/${tid}/stat`, 'utf8');
     // Fields after the command name (which may contain spaces) start after the last ')'.
     const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
     const utime = Number(fields[11]);

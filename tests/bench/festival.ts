@@ -24,6 +24,7 @@ import { WindSimulator } from '../../server/demo/windSimulator.ts';
 import { createSensor } from '../../server/register/sensors.ts';
 import { ensureSite, getSite, updateSite } from '../../server/register/site.ts';
 import { migrationsFolder, openDatabase } from '../../server/storage/database.ts';
+import { SqliteStorage } from '../../server/storage/storage.ts';
 import { bucketWidthMs, LogQueries, type WindSeries } from '../../server/storage/logQueries.ts';
 import { emptyWriteBatch } from '../../server/storage/writeBatch.ts';
 import { WriteQueue } from '../../server/storage/writeQueue.ts';
@@ -74,7 +75,9 @@ export async function festivalDatabase(dir: string, params: FestivalParams, log:
 }
 
 async function generate(file: string, p: FestivalParams, log: (line: string) => void): Promise<number> {
-  const { db, sqlite } = openDatabase(file);
+  const opened = openDatabase(file);
+  const { sqlite } = opened;
+  const db = new SqliteStorage(opened);
   try {
     ensureSite(db, p.startMs, 'Brackenfold Common');
     updateSite(db, { name: 'Brackenfold Common — festival week (benchmark log, invented)', timeZone: 'Europe/London' }, 'benchmark set-up', p.startMs);

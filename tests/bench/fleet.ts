@@ -18,6 +18,7 @@ import { createSensor } from '../../server/register/sensors.ts';
 import { ensureSite, getSite, updateSite } from '../../server/register/site.ts';
 import { createStructure, type StructureInput } from '../../server/register/structures.ts';
 import { openDatabase } from '../../server/storage/database.ts';
+import { SqliteStorage } from '../../server/storage/storage.ts';
 import { densityDependent, structureModel } from '../../server/watch/structureModel.ts';
 
 export const benchSiteName = 'Brackenfold Common — festival week (benchmark site, invented)';
@@ -209,7 +210,9 @@ export async function writeTemplate(o: TemplateOptions): Promise<Fleet> {
   fs.rmSync(o.dir, { recursive: true, force: true });
   fs.mkdirSync(o.dir, { recursive: true });
   const nowMs = Date.now();
-  const { db, sqlite } = openDatabase(path.join(o.dir, 'holdfast.sqlite'));
+  const opened = openDatabase(path.join(o.dir, 'holdfast.sqlite'));
+  const { sqlite } = opened;
+  const db = new SqliteStorage(opened);
   try {
     ensureSite(db, nowMs, benchSiteName);
     updateSite(db, { name: benchSiteName, altitudeM: 0, terrainCategory: 'II', timeZone: 'Europe/London', airDensityMode: 'isa' }, actor, nowMs);

@@ -55,6 +55,8 @@ export interface IngestRun {
   perS: number;
   /** CPU time the process under test used per reading during the timed burst, µs (null: unknown). */
   cpuUsPerReading: number | null;
+  /** Server runs: the same for its main thread alone (the event loop; the commit thread is the rest). */
+  mainThreadCpuUsPerReading?: number | null;
   /** Server runs: what the database holds afterwards. */
   stored?: { readings: number; late: number; levelChanges: number; noDataEvents: number; alerts: number };
   /** Server runs: resident memory of the server process during the run. */
@@ -120,7 +122,7 @@ async function health(server: ServerProcess): Promise<{ broker: { state?: string
 }
 
 /** A server run's figures, with what its database holds afterwards. */
-function serverRun(broker: IngestRun['broker'], o: IngestOptions, repeat: number, seconds: number, cpuUsPerReading: number | null, dataDir: string, mem: { maxRssKb: number; hwmKb: number }): IngestRun {
+function serverRun(broker: IngestRun['broker'], o: IngestOptions, repeat: number, seconds: number, cpu: { all: number | null; main: number | null }, dataDir: string, mem: { maxRssKb: number; hwmKb: number }): IngestRun {
   return {
     broker,
     variant: 'server',
@@ -128,7 +130,8 @@ function serverRun(broker: IngestRun['broker'], o: IngestOptions, repeat: number
     readings: o.readings,
     seconds,
     perS: o.readings / seconds,
-    cpuUsPerReading,
+    cpuUsPerReading: cpu.all,
+    mainThreadCpuUsPerReading: cpu.main,
     stored: storedFigures(dataDir),
     memory: { maxRssKb: mem.maxRssKb, hwmKb: mem.hwmKb },
   };
@@ -142,16 +145,29 @@ export async function stopGracefully(server: ServerProcess): Promise<void> {
 }
 
 /** CPU seconds of `pid` between `start()` and `stop()`, as µs per reading (null when /proc is unavailable). */
-function cpuMeter(pid: number): { start: () => void; usPerReading: (readings: number) => number | null } {
+function cpuMeter(pid: number, tid?: number): { start: () => void; usPerReading: (readings: number) => number | null } {
   let at: number | null = null;
   return {
     start: () => {
-      at = cpuSeconds(pid);
+      at = cpuSeconds(pid, tid);
     },
     usPerReading: (readings) => {
-      const now = cpuSeconds(pid);
+      const now = cpuSeconds(pid, tid);
       return at === null || now === null ? null : ((now - at) * 1e6) / readings;
     },
+  };
+}
+
+/** A server's CPU per reading: the whole process, and its main thread (the event loop). */
+function serverCpuMeter(pid: number): { start: () => void; usPerReading: (readings: number) => { all: number | null; main: number | null } } {
+  const all = cpuMeter(pid);
+  const main = cpuMeter(pid, pid);
+  return {
+    start: () => {
+      all.start();
+      main.start();
+    },
+    usPerReading: (readings) => ({ all: all.usPerReading(readings), main: main.usPerReading(readings) }),
   };
 }
 
@@ -196,7 +212,7 @@ async function embeddedServer(o: IngestOptions, repeat: number): Promise<IngestR
   try {
     pub = await startPublisher(o, `mqtt://127.0.0.1:${server.mqttPort}`, true, 'server');
     memory = sampleMemory(server.proc.pid!);
-    const cpu = cpuMeter(server.proc.pid!);
+    const cpu = serverCpuMeter(server.proc.pid!);
     const main = await bursts(o, pub, () => cpu.start(), async () => undefined);
     const cpuUsPerReading = cpu.usPerReading(o.readings);
     const mem = memory.stop();
@@ -271,7 +287,7 @@ async function mosquittoServer(o: IngestOptions, repeat: number): Promise<Ingest
       }
     };
     memory = sampleMemory(s.proc.pid!);
-    const cpu = cpuMeter(s.proc.pid!);
+    const cpu = serverCpuMeter(s.proc.pid!);
     const main = await bursts(o, pub, () => cpu.start(), async () => {
       await waitStored(o.warmupReadings, 60_000);
       base = (await health(s)).database.committedReadings;
@@ -311,6 +327,8 @@ export interface IngestResult {
  */
 export interface CpuFigures {
   serverUs: number;
+  /** The server's main thread alone (median over repeats). */
+  serverMainUs: number;
   bareUs: number;
   ratio: number;
 }
@@ -330,7 +348,7 @@ export async function runIngest(o: IngestOptions): Promise<IngestResult> {
   const runs: IngestRun[] = [];
   const note = (r: IngestRun): void => {
     runs.push(r);
-    o.log(`  ${r.broker} ${r.variant} #${r.repeat}: ${Math.round(r.perS)} readings/s (${r.readings} in ${r.seconds.toFixed(2)} s, ${r.cpuUsPerReading === null ? '?' : r.cpuUsPerReading.toFixed(0)} µs CPU per reading)${r.stored ? `, stored ${r.stored.readings} (late ${r.stored.late}), level changes ${r.stored.levelChanges}, no-data events ${r.stored.noDataEvents}, alerts ${r.stored.alerts}` : ''}${r.memory ? `, max RSS ${(r.memory.maxRssKb / 1024).toFixed(0)} MB` : ''}`);
+    o.log(`  ${r.broker} ${r.variant} #${r.repeat}: ${Math.round(r.perS)} readings/s (${r.readings} in ${r.seconds.toFixed(2)} s, ${r.cpuUsPerReading === null ? '?' : r.cpuUsPerReading.toFixed(0)} µs CPU per reading${r.mainThreadCpuUsPerReading != null ? `, ${r.mainThreadCpuUsPerReading.toFixed(0)} on the main thread` : ''})${r.stored ? `, stored ${r.stored.readings} (late ${r.stored.late}), level changes ${r.stored.levelChanges}, no-data events ${r.stored.noDataEvents}, alerts ${r.stored.alerts}` : ''}${r.memory ? `, max RSS ${(r.memory.maxRssKb / 1024).toFixed(0)} MB` : ''}`);
   };
   // Interleaved, so a slow spell of the machine does not favour one side.
   for (let repeat = 1; repeat <= o.repeats; repeat++) {
@@ -354,7 +372,8 @@ export async function runIngest(o: IngestOptions): Promise<IngestResult> {
   const cpuFigures = (broker: IngestRun['broker'], bare: IngestRun['variant']): CpuFigures => {
     const serverUs = cpuOf(broker, 'server');
     const bareUs = cpuOf(broker, bare);
-    return { serverUs, bareUs, ratio: bareUs / serverUs };
+    const serverMainUs = medianOf(runs.filter((r) => r.broker === broker && r.variant === 'server' && r.mainThreadCpuUsPerReading != null).map((r) => r.mainThreadCpuUsPerReading!));
+    return { serverUs, serverMainUs, bareUs, ratio: bareUs / serverUs };
   };
   return {
     runs,

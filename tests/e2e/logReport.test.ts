@@ -202,10 +202,11 @@ describe.skipIf(skipBrowserTests)('the log and the day report, the morning after
       for (const w of wind) expect(w.series.map((s) => s.label)).toEqual(['Highest gust per 2 min, m/s', 'Mean wind per 2 min, m/s', 'Direction the wind blows from, ° (dots, right axis)']);
       const util = charts.find((c) => c.title.startsWith('Highest utilization'))!;
       expect(util.series.map((s) => s.label).sort()).toEqual(demoNames.map((n) => `${n}, % of capacity`));
-      // The demo's structures follow the site's default levels (60 %, 80 %, 100 % of capacity).
+      // The demo's structures follow the site's default levels (60 %, 80 %, 100 % of capacity);
+      // the Sponsor arch prepares on the chance of 80 % within 30 min, or at 80 % measured.
       expect(util.levels).toEqual([
         'Level 1 · Watch: from 60 % of capacity (levels as set now)',
-        'Level 2 · Prepare: from 80 % of capacity (levels as set now)',
+        'Level 2 · Prepare: from 80 % of capacity, or sooner on its estimated chance at Sponsor arch (levels as set now)',
         'Limit: 100 % of capacity',
       ]);
       await partShots(page, `log-report-${label}`);

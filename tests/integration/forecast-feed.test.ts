@@ -17,6 +17,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ForecastFeed, firstRetryMs } from '../../server/forecastFeed/index.ts';
 import { ensureSite } from '../../server/register/site.ts';
 import { openDatabase } from '../../server/storage/database.ts';
+import { SqliteStorage } from '../../server/storage/storage.ts';
 import { emptyWriteBatch } from '../../server/storage/writeBatch.ts';
 import { ApiClient, adminPassword, adminUsername, startTestServer, waitFor, type TestServer } from '../helpers/testServer.ts';
 
@@ -306,26 +307,28 @@ describe('the feed on the board (GET /api/forecast/feed)', () => {
 
 describe('the feed’s own timer', () => {
   it('polls a never-polled feed at once, then after the interval; a failure is retried after a minute', async () => {
-    const { db } = openDatabase(':memory:');
-    ensureSite(db, 0);
+    const opened = openDatabase(':memory:');
+    const { db } = opened;
+    const storage = new SqliteStorage(opened);
+    ensureSite(storage, 0);
     db.$client.prepare('UPDATE sites SET forecast_feed_url = ?, forecast_feed_interval_ms = ?').run(feedUrl, 20 * minuteMs);
     const clock = Date.UTC(2026, 5, 14, 9);
     mode = { body: 'time,gust (m/s)\n2026-06-14T12:00Z,9' };
-    const good = new ForecastFeed({ db, now: () => clock }, { timeoutMs: 2_000 });
+    const good = new ForecastFeed({ storage, now: () => clock }, { timeoutMs: 2_000 });
     good.start();
     await waitFor(() => good.status().nextPollAtMs === clock + 20 * minuteMs, 5_000, 'the next poll planned an interval ahead');
     expect(good.lastPoll()?.ok).toBe(true);
     await good.stop();
 
     // Restarted a minute later: the address was polled a minute ago, so the next poll is 19 minutes away.
-    const restarted = new ForecastFeed({ db, now: () => clock + minuteMs }, { timeoutMs: 2_000 });
+    const restarted = new ForecastFeed({ storage, now: () => clock + minuteMs }, { timeoutMs: 2_000 });
     restarted.start();
     expect(restarted.status().nextPollAtMs).toBe(clock + 20 * minuteMs);
     await restarted.stop();
 
     mode = { status: 503, body: 'busy' };
     db.$client.prepare('UPDATE sites SET forecast_feed_url = ?').run(`${feedUrl}&other=1`);
-    const failing = new ForecastFeed({ db, now: () => clock }, { timeoutMs: 2_000 });
+    const failing = new ForecastFeed({ storage, now: () => clock }, { timeoutMs: 2_000 });
     failing.start();
     await waitFor(() => failing.status().nextPollAtMs === clock + firstRetryMs, 5_000, 'a retry a minute ahead');
     expect(failing.lastPoll(`${feedUrl}&other=1`)).toMatchObject({ ok: false, httpStatus: 503 });

@@ -6,6 +6,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { openDatabase } from '../../server/storage/database.ts';
+import { SqliteStorage } from '../../server/storage/storage.ts';
 import { LogQueries } from '../../server/storage/logQueries.ts';
 import { emptyWriteBatch } from '../../server/storage/writeBatch.ts';
 import { WriteQueue } from '../../server/storage/writeQueue.ts';
@@ -125,13 +126,15 @@ describe('the day report lists only what was on the register that day', async ()
   const tz = 'Europe/London';
   const day = zonedDayWindow('2026-06-13', tz)!;
   const at = (iso: string): number => Date.parse(iso);
-  const { db, sqlite } = openDatabase(':memory:');
-  const site = ensureSite(db, at('2026-06-01T08:00:00Z'));
-  updateSite(db, { timeZone: tz }, 'test', at('2026-06-01T08:00:00Z'));
-  const sensor = (key: string, iso: string) => createSensor(db, site.id, { key, name: key, heightM: 10, location: '', latDeg: null, lonDeg: null, unit: 'm/s', mode: 'samples', silenceTimeoutMs: 30_000 }, 'test', at(iso));
+  const opened = openDatabase(':memory:');
+  const { db, sqlite } = opened;
+  const storage = new SqliteStorage(opened);
+  const site = ensureSite(storage, at('2026-06-01T08:00:00Z'));
+  updateSite(storage, { timeZone: tz }, 'test', at('2026-06-01T08:00:00Z'));
+  const sensor = (key: string, iso: string) => createSensor(storage, site.id, { key, name: key, heightM: 10, location: '', latDeg: null, lonDeg: null, unit: 'm/s', mode: 'samples', silenceTimeoutMs: 30_000 }, 'test', at(iso));
   const arch = (name: string, iso: string) =>
     createStructure(
-      db,
+      storage,
       site.id,
       {
         record: { kind: 'custom', name, baseDepthM: 1.5, referenceHeightM: 10, faces: [{ areaM2: 6, centroidHeightM: 3.5, cfFront: 1.8, cfBack: 1.8 }], masses: [{ massKg: 1000, xM: 0.75 }] },
@@ -148,11 +151,11 @@ describe('the day report lists only what was on the register that day', async ()
     );
 
   sensor('old-mast', '2026-06-01T09:00:00Z');
-  retireSensor(db, 'old-mast', 'test', at('2026-06-05T09:00:00Z'));
+  retireSensor(storage, 'old-mast', 'test', at('2026-06-05T09:00:00Z'));
   sensor('north-mast', '2026-06-10T09:00:00Z');
   sensor('west-mast', '2026-06-10T09:00:00Z');
   // Retired at 12:00 site time on the day, its key registered again two days later.
-  retireSensor(db, 'west-mast', 'test', at('2026-06-13T11:00:00Z'));
+  retireSensor(storage, 'west-mast', 'test', at('2026-06-13T11:00:00Z'));
   sensor('west-mast', '2026-06-15T07:30:00Z');
   // Registered the morning after the day ("created today" when the report is read).
   sensor('east-pole', '2026-06-14T08:00:00Z');
@@ -169,9 +172,9 @@ describe('the day report lists only what was on the register that day', async ()
   const marquee = arch('Hospitality marquee', '2026-06-14T09:00:00Z');
   // Up at 10:00 site time on the day, taken down at 16:00.
   const booth = arch('Ticket booth banner', '2026-06-13T09:00:00Z');
-  retireStructure(db, booth.id, 'test', at('2026-06-13T15:00:00Z'));
+  retireStructure(storage, booth.id, 'test', at('2026-06-13T15:00:00Z'));
   const oldStage = arch('Old stage wing', '2026-06-02T09:00:00Z');
-  retireStructure(db, oldStage.id, 'test', at('2026-06-04T09:00:00Z'));
+  retireStructure(storage, oldStage.id, 'test', at('2026-06-04T09:00:00Z'));
 
   const summary = daySummary(db, day.fromMs, day.toMs, at('2026-06-16T12:00:00Z'));
 

@@ -11,21 +11,24 @@ import { Registry } from '../../server/ingest/registry.ts';
 import { RejectionLog } from '../../server/ingest/rejections.ts';
 import { createLogger } from '../../server/log.ts';
 import { openDatabase } from '../../server/storage/database.ts';
+import { SqliteStorage } from '../../server/storage/storage.ts';
 import { WriteQueue } from '../../server/storage/writeQueue.ts';
 
 describe('the ingest pipeline', () => {
   it('rejects and counts a message whose handling throws, instead of leaving it unacknowledged', async () => {
-    const { db, sqlite } = openDatabase(':memory:');
+    const opened = openDatabase(':memory:');
+    const { sqlite } = opened;
+    const storage = new SqliteStorage(opened);
     sqlite.prepare("INSERT INTO sites (id, name, default_levels_json, created_at_ms, updated_at_ms) VALUES (1, 'Brackenfold Common', '[]', 0, 0)").run();
     sqlite.prepare("INSERT INTO sensors (id, site_id, key, name, height_m, created_at_ms) VALUES (1, 1, 'north-mast', 'North mast', 10, 0)").run();
-    const rejections = new RejectionLog(sqlite, createLogger('silent'));
+    const rejections = new RejectionLog(storage.rejections, createLogger('silent'));
     const broken: ReadingConsumer = {
       take: () => {
         throw new TypeError("Cannot read properties of undefined (reading 'gustMps')");
       },
     };
     const queue = new WriteQueue(sqlite);
-    const pipeline = new IngestPipeline('wind', new Registry(db), rejections, broken, queue);
+    const pipeline = new IngestPipeline('wind', new Registry(storage), rejections, broken, queue);
     await expect(pipeline.accept('wind/north-mast/reading', Buffer.from(JSON.stringify({ ts: Date.now(), speed: 8 })), Date.now())).resolves.toBeUndefined();
     queue.settle();
     expect(pipeline.counters).toMatchObject({ messages: 1, rejectedMessages: 1, acceptedReadings: 0 });

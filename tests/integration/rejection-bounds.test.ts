@@ -8,6 +8,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { openDatabase } from '../../server/storage/database.ts';
+import { SqliteStorage } from '../../server/storage/storage.ts';
 import { RejectionLog, maxRejectionKeys, maxRejectionLogLinesPerInterval, otherKeysBucket } from '../../server/ingest/rejections.ts';
 import type { Logger } from '../../server/log.ts';
 
@@ -18,10 +19,11 @@ function recordingLogger(lines: unknown[]): Logger {
 
 describe('1,000 distinct unknown keys', () => {
   it('make at most 200 + 1 entries, all 1,000 counted, and at most 20 log lines in the minute', () => {
-    const { sqlite } = openDatabase(':memory:');
+    const opened = openDatabase(':memory:');
+    const { sqlite } = opened;
     const lines: unknown[] = [];
     let now = Date.UTC(2026, 7, 8, 12, 0, 0);
-    const log = new RejectionLog(sqlite, recordingLogger(lines), () => now, (key) => key === 'gate-mast');
+    const log = new RejectionLog(new SqliteStorage(opened).rejections, recordingLogger(lines), () => now, (key) => key === 'gate-mast');
     for (let i = 0; i < 1000; i++) {
       now += 2;
       log.record(`ghost-${i}`, 'not-permitted', `no sensor is registered with the key "ghost-${i}"`);

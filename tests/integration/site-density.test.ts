@@ -10,6 +10,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { airDensityKgM3, isaSeaLevelDensityKgM3 } from '../../server/engine/index.ts';
 import { ensureSite, getSite, newSiteAirDensityKgM3, updateSite } from '../../server/register/site.ts';
 import { openDatabase } from '../../server/storage/database.ts';
+import { SqliteStorage } from '../../server/storage/storage.ts';
 
 const dirs: string[] = [];
 afterAll(() => {
@@ -19,7 +20,8 @@ afterAll(() => {
 function freshDatabase() {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'holdfast-site-density-'));
   dirs.push(dir);
-  return openDatabase(path.join(dir, 'holdfast.sqlite'));
+  const opened = openDatabase(path.join(dir, 'holdfast.sqlite'));
+  return { ...opened, db: new SqliteStorage(opened) };
 }
 
 const t0 = Date.UTC(2026, 4, 2, 9, 0, 0);

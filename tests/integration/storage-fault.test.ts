@@ -33,7 +33,10 @@ function publish(gustMps: number): void {
 const sqlite = () => ts.server.db.$client;
 
 beforeAll(async () => {
-  ts = await startTestServer({}, { now: () => clock, tickMs: 60_000 });
+  // The faults are set on the main connection (max_page_count and query_only are per
+  // connection), so the commits run on it too; commit-thread.test.ts and
+  // disk-full-crash.test.ts cover the commit thread's refusals.
+  ts = await startTestServer({}, { now: () => clock, tickMs: 60_000, commitThread: false });
   api = new ApiClient(ts.baseUrl);
   await api.signIn(adminUsername, adminPassword);
   await api.json('POST', '/api/sensors', { key: 'fault-mast', name: 'Fault mast', heightM: 10 });

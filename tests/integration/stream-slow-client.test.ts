@@ -63,7 +63,7 @@ describe('a stream client that stops reading', () => {
     // 4,000 events of 4 kB (16 MB): far more than the kernel's socket buffers and the 1 MiB bound.
     const big = { note: 'x'.repeat(4_000) };
     for (let i = 0; i < 4_000 && ts.server.hub.listenerCount > before; i++) {
-      ts.server.hub.publish('health', big);
+      ts.server.hub.publishText('health', JSON.stringify(big));
       if (i % 50 === 0) await new Promise((r) => setImmediate(r));
     }
     await waitFor(() => ts.server.hub.listenerCount === before, 10_000, 'stalled client dropped');
@@ -93,7 +93,7 @@ describe('a stream client that stops reading', () => {
     const startBytes = readBytes;
     // 400 events of 4 kB in one turn of the event loop: 1.6 MB queued before any can be written.
     const big = { note: 'y'.repeat(4_000) };
-    for (let i = 0; i < 400; i++) ts.server.hub.publish('health', big);
+    for (let i = 0; i < 400; i++) ts.server.hub.publishText('health', JSON.stringify(big));
     await waitFor(() => readBytes - startBytes > 1_600_000, 10_000, 'the reader to receive the whole burst');
     expect(ended).toBe(false);
     expect(ts.server.hub.listenerCount).toBe(before);

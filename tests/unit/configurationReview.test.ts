@@ -20,7 +20,9 @@ import type { StructureInput } from '../../server/register/structures.ts';
 import { createStructure } from '../../server/register/structures.ts';
 import { ensureSite, updateSite } from '../../server/register/site.ts';
 import { openDatabase, type OpenedDatabase } from '../../server/storage/database.ts';
-import { HttpError, type FieldIssue } from '../../server/http/httpError.ts';
+import { SqliteStorage } from '../../server/storage/storage.ts';
+import { Invalid } from '../../server/domainErrors.ts';
+import type { FieldIssue } from '../../server/http/httpError.ts';
 import { LiveHub } from '../../server/live/liveHub.ts';
 import { Watch, type SiteSettings } from '../../server/watch/watch.ts';
 import { testSite } from '../helpers/testSite.ts';
@@ -225,7 +227,7 @@ describe('defects found in review (they failed on the code as reviewed; fixed si
       call();
       return [];
     } catch (error) {
-      if (error instanceof HttpError && error.issues) return error.issues;
+      if (error instanceof Invalid) return error.issues;
       throw error;
     }
   };
@@ -233,19 +235,21 @@ describe('defects found in review (they failed on the code as reviewed; fixed si
 
   it('the save check refuses own levels above a weaker configuration’s limit (walls on 13.41 m/s at 1.25 kg/m³)', () => {
     opened = openDatabase(':memory:');
-    ensureSite(opened.db, 0, 'Review site (invented)'); // new site: fixed 1.25 kg/m³
+    const storage = new SqliteStorage(opened);
+    ensureSite(storage, 0, 'Review site (invented)'); // new site: fixed 1.25 kg/m³
     // 14 m/s is below sides off (15.86·√(1.225/1.25) = 15.70) but above walls on (13.544·0.98995 = 13.41).
     expect(13.544 * Math.sqrt(rho / 1.25)).toBeLessThan(14);
-    const refused = issuesOf(() => createStructure(opened!.db, 1, marqueeInput(gustLevels(14)), 'review', 0));
+    const refused = issuesOf(() => createStructure(storage, 1, marqueeInput(gustLevels(14)), 'review', 0));
     expect(refused).toEqual([expect.objectContaining({ path: 'levels.2.trigger.gustMps', message: expect.stringContaining('in configuration "walls on"') })]);
   });
 
   it('DEFECT 3 (fixed): site default levels are checked against every configuration (server/register/levelCheck.ts siteDefaultLevelIssues)', () => {
     opened = openDatabase(':memory:');
-    ensureSite(opened.db, 0, 'Review site (invented)');
-    createStructure(opened.db, 1, marqueeInput(null), 'review', 0); // follows the site's (fractional) defaults
+    const storage = new SqliteStorage(opened);
+    ensureSite(storage, 0, 'Review site (invented)');
+    createStructure(storage, 1, marqueeInput(null), 'review', 0); // follows the site's (fractional) defaults
     // The same 14 m/s Stop trigger, now as the site's default: it should be refused for "walls on" as well.
-    const refused = issuesOf(() => updateSite(opened!.db, { defaultLevels: gustLevels(14) }, 'review', 1));
+    const refused = issuesOf(() => updateSite(storage, { defaultLevels: gustLevels(14) }, 'review', 1));
     expect(refused).toEqual([expect.objectContaining({ path: 'defaultLevels.2.trigger.gustMps', message: expect.stringContaining('walls on') })]);
   });
 });

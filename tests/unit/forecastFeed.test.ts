@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { feedIsStale, nextPollDelayMs } from '../../server/forecastFeed/index.ts';
-import { parseForecastFeed, parseForecastTable } from '../../server/levels/index.ts';
+import { parseForecastFeed, parseForecastTable } from '../../server/foresight/index.ts';
 
 const noon = Date.UTC(2026, 5, 14, 12);
 

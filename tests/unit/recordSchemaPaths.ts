@@ -5,26 +5,14 @@
  * array's name (`faces.areaM2`, `masses.yM`). Used by the register-form and README coverage tests.
  */
 import type { z } from 'zod';
-import {
-  bannerRecordSchema,
-  customRecordSchema,
-  screenRecordSchema,
-  shellRecordSchema,
-  structureKinds,
-  tentRecordSchema,
-  type StructureKind,
-} from '../../server/engine/record.ts';
+import { structureKinds, type StructureKind } from '../../server/engine/record.ts';
+import { kindDefinitions } from '../../server/engine/kinds/index.ts';
 import { recordBaseShape } from '../../server/engine/kinds/recordBase.ts';
 
 export { structureKinds, type StructureKind };
 
-export const kindSchemas: Readonly<Record<StructureKind, z.ZodType>> = {
-  tent: tentRecordSchema,
-  banner: bannerRecordSchema,
-  screen: screenRecordSchema,
-  shell: shellRecordSchema,
-  custom: customRecordSchema,
-};
+/** Each kind's record schema, from the engine's kind list (server/engine/kinds/index.ts `kindDefinitions`). */
+export const kindSchemas: Readonly<Record<StructureKind, z.ZodType>> = Object.fromEntries(kindDefinitions.map((definition) => [definition.kind, definition.schema])) as unknown as Record<StructureKind, z.ZodType>;
 
 export interface SchemaLeaf {
   /** Dotted path: "widthM", "coefficients.cf", "faces.facingDeg". */

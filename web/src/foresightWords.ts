@@ -20,7 +20,7 @@
  * count (S. O. Rice, Bell System Technical Journal 23-24, 1944-45), Davenport's peak factor
  * (A. G. Davenport, Proc. ICE 28, 1964), the Theil–Sen slope of the 10-minute mean.
  */
-import type { ForesightView, StructureForesight } from '../../server/watch/structureForesight.ts';
+import type { ForesightView, StructureForesight, TriggerChance } from '../../server/watch/structureForesight.ts';
 import { speed, unitSpace, type SpeedUnit } from './units.ts';
 
 const _ = unitSpace;
@@ -174,7 +174,12 @@ export function trendText(v: Pick<ForesightView, 'trend' | 'nextLevelInS'> & Par
 /** The card's one line, without the "Estimate" tag it always carries. */
 export function foresightLineParts(v: ForesightView, unit: SpeedUnit): string[] {
   const parts: string[] = [];
-  if (v.nextLevel !== null && nextIsLimit(v)) {
+  // The next level on a chance trigger: its own chance is what raises it, so that is what the line says.
+  const nextOnChance = (v.triggerChances ?? []).find((c) => c.level === v.nextLevel);
+  if (nextOnChance !== undefined) {
+    parts.push(`${nextOnChance.label}: ${chanceText(nextOnChance.chance)} ${within(nextOnChance.withinMinutes)} (rises over ${chanceText(nextOnChance.probability)})`);
+    parts.push(`limit: ${chanceText(v.limitChance30)} ${within(30)}`);
+  } else if (v.nextLevel !== null && nextIsLimit(v)) {
     parts.push(`${levelName(v)} (the limit): ${chanceText(v.nextChance30)} ${within(30)}`);
   } else {
     if (v.nextLevel !== null) parts.push(`${levelName(v)}: ${chanceText(v.nextChance30)} ${within(30)}`);
@@ -252,6 +257,15 @@ export function foresightInputs(v: ForesightView, unit: SpeedUnit, sensorName: S
     lines: chances,
     rule: 'N = ν·T·exp(−(x − U)²/(2σ²)) expected up-crossings of x in T, P = 1 − e^(−N)',
   });
+  const triggers = v.triggerChances ?? [];
+  if (triggers.length > 0) {
+    rows.push({
+      key: 'triggers',
+      label: 'Levels on a chance',
+      lines: triggers.map((c) => triggerChanceText(c, unit)),
+      rule: 'the same formula with x the gust at the level’s fraction of capacity and T its minutes; it rises when the chance is over its trigger and falls back after the hold time under the trigger less the dead band',
+    });
+  }
   const nuT = v.upcrossingRateHz * 600;
   const g = (v.expectedPeak10Mps - v.meanMps * f) / (v.sigmaMps * f);
   rows.push({
@@ -267,6 +281,11 @@ export function foresightInputs(v: ForesightView, unit: SpeedUnit, sensorName: S
     rule: 'the Theil–Sen slope of the 10-min mean over the last hour, with the present gust factor',
   });
   return rows;
+}
+
+/** "Prepare rises over 20 %: now 14 % that a gust reaches 14.5 m/s within 30 min". */
+export function triggerChanceText(c: TriggerChance, unit: SpeedUnit): string {
+  return `${c.label} rises over ${chanceText(c.probability)}: now ${chanceText(c.chance)} that a gust here reaches ${speed(c.thresholdGustMps, unit)} ${within(c.withinMinutes)}`;
 }
 
 /** What the estimate is, and is not: said under its inputs. */

@@ -8,7 +8,8 @@
  * opened again. Until it is back every screen says "reconnecting" and how old its data is, and
  * nothing stale is allowed to look calm.
  */
-import { frameRecords, type Frame } from '../../server/live/frames.ts';
+import { frameRecords } from '../../server/live/frames.ts';
+import { byUrgency, listedAlerts, streamEventKinds, type LiveEventMap, type StreamOnlyEventMap } from '../../server/live/liveEvents.ts';
 import { foresightFromCell } from '../../server/watch/structureForesight.ts';
 import { api, signedOutNow } from './api.ts';
 import { fetchSnapshot, type SnapshotAnswer } from './offline.ts';
@@ -67,17 +68,6 @@ export function serverNow(): number {
   return Date.now() + live.get().clockOffsetMs;
 }
 
-/** Same order as the server's snapshot: no data first, then highest level, then least margin. */
-function byUrgency(a: StructureState, b: StructureState): number {
-  if (a.noData !== b.noData) return a.noData ? -1 : 1;
-  if (a.level !== b.level) return b.level - a.level;
-  return (a.margin ?? -Infinity) - (b.margin ?? -Infinity);
-}
-
-function openAlerts(alerts: OpenAlert[]): OpenAlert[] {
-  return alerts.filter((a) => a.acknowledgedAtMs === null || a.clearedAtMs === null).sort((a, b) => b.raisedAtMs - a.raisedAtMs);
-}
-
 function withSnapshot(change: (s: Snapshot) => Snapshot): void {
   const now = Date.now();
   live.update((state) => (state.snapshot ? { ...state, snapshot: change(state.snapshot), lastDataAtMs: now, lastEventAtMs: now } : state));
@@ -94,7 +84,7 @@ function upsertStructures(list: StructureState[]): void {
 function upsertAlert(alert: OpenAlert): void {
   withSnapshot((s) => {
     const rest = s.alerts.filter((a) => a.id !== alert.id);
-    return { ...s, alerts: openAlerts([...rest, alert]) };
+    return { ...s, alerts: listedAlerts([...rest, alert]) };
   });
 }
 
@@ -129,14 +119,14 @@ function handle(kind: string, data: string): void {
   }
   switch (kind) {
     case 'snapshot': {
-      const snap = payload as Snapshot;
+      const snap = payload as StreamOnlyEventMap['snapshot'] satisfies Snapshot;
       live.update((s) => ({ ...s, snapshot: snap, lastDataAtMs: now, lastEventAtMs: now, clockOffsetMs: snap.atMs - now, keptAtMs: null }));
       for (const sensor of snap.sensors) addTrail(sensor);
       break;
     }
     case 'winds': {
       // Once a second: a row per sensor whose wind or state changed (server/live/frames.ts).
-      const rows = frameRecords(payload as Frame) as Array<Partial<SensorState> & { key: string }>;
+      const rows = frameRecords(payload as LiveEventMap['winds']) as Array<Partial<SensorState> & { key: string }>;
       let unknown = false;
       const merged: SensorState[] = [];
       withSnapshot((s) => {
@@ -160,12 +150,12 @@ function handle(kind: string, data: string): void {
       break;
     }
     case 'structure': {
-      upsertStructures([payload as StructureState]);
+      upsertStructures([payload as LiveEventMap['structure']]);
       break;
     }
     case 'structures': {
       // Once a second: only the wind-dependent fields of the structures whose shown state moved.
-      const updates = frameRecords(payload as Frame) as Array<Partial<StructureState> & { id: number }>;
+      const updates = frameRecords(payload as LiveEventMap['structures']) as Array<Partial<StructureState> & { id: number }>;
       withSnapshot((s) => {
         const byId = new Map(updates.map((u) => [u.id, u]));
         return { ...s, structures: s.structures.map((x) => (byId.has(x.id) ? { ...x, ...byId.get(x.id)! } : x)).sort(byUrgency) };
@@ -174,7 +164,7 @@ function handle(kind: string, data: string): void {
     }
     case 'foresight': {
       // Every few seconds at most: the estimates of the structures whose figures changed.
-      const rows = frameRecords(payload as Frame);
+      const rows = frameRecords(payload as LiveEventMap['foresight']);
       withSnapshot((s) => {
         const byId = new Map(rows.map((r) => [r.id as number, foresightFromCell(r.foresight)]));
         return { ...s, structures: s.structures.map((x) => (byId.has(x.id) ? { ...x, foresight: byId.get(x.id)! } : x)) };
@@ -187,18 +177,18 @@ function handle(kind: string, data: string): void {
       break;
     }
     case 'health': {
-      const system = payload as Snapshot['system'];
+      const system = payload as LiveEventMap['health'];
       withSnapshot((s) => ({ ...s, system }));
       break;
     }
     case 'alert': {
-      const alert = payload as OpenAlert & { resignal?: boolean };
+      const alert = payload as LiveEventMap['alert'];
       upsertAlert(alert);
       for (const l of alertListeners) l(alert);
       break;
     }
     case 'alert-update': {
-      upsertAlert(payload as OpenAlert);
+      upsertAlert(payload as LiveEventMap['alert-update']);
       break;
     }
     default:
@@ -206,7 +196,7 @@ function handle(kind: string, data: string): void {
   }
 }
 
-const kinds = ['hello', 'snapshot', 'winds', 'structure', 'structures', 'foresight', 'register', 'alert', 'alert-update', 'ping', 'health'];
+const kinds = streamEventKinds;
 
 function connect(): void {
   if (!running) return;

@@ -5,7 +5,7 @@
  */
 import type { OpenAlert, SensorState, StructureState, Watch } from '../../server/watch/watch.ts';
 import type { AssessmentReport } from '../../server/engine/assess.ts';
-import type { RequiredBallast } from '../../server/engine/stability.ts';
+import type { RequiredBallast } from '../../server/engine/requiredBallast.ts';
 import type { StructureRecord, StructureKind } from '../../server/engine/record.ts';
 import type { DaySummary, StructureDay, SensorDay } from '../../server/storage/daySummary.ts';
 import type { WindSeries, StructureSeries } from '../../server/storage/logQueries.ts';
@@ -18,7 +18,7 @@ import type { LevelDefinition, LevelTrigger } from '../../server/levels/levelDef
 import type { BrokerRefusal, RefusalKind, RefusalReason, RejectionCount } from '../../server/ingest/rejections.ts';
 import type { ChecklistStep, ChecklistStepId, SetupChecklist } from '../../server/register/setupChecklist.ts';
 import type { LinkAddress } from '../../server/http/routes/accessRoutes.ts';
-import type { ForecastPrediction } from '../../server/levels/predictLevels.ts';
+import type { ForecastPrediction } from '../../server/foresight/predictLevels.ts';
 import type { alertsTable } from '../../db/schema.ts';
 
 export type {
@@ -73,31 +73,8 @@ export type AssessAnswer = AssessmentReport & {
   configurations?: AssessConfiguration[];
 };
 
-/** GET /api/site */
-export interface SiteView {
-  id: number;
-  name: string;
-  altitudeM: number;
-  terrainCategory: string;
-  timeZone: string;
-  airDensityMode: 'isa' | 'measured' | 'fixed';
-  fixedAirDensityKgM3: number | null;
-  heightReductionEnabled: boolean;
-  directionalEnabled: boolean;
-  directionSectorHalfWidthDeg: number;
-  deadBandFraction: number;
-  holdTimeMs: number;
-  /** Issue 14: how long after its alert a plan action may wait before it is signalled as overdue, ms (default 5 min). */
-  actionDueMs?: number;
-  /** Issue 17: the forecast feed polled (null: none), its interval, the unit of bare numbers and the height of its speeds. */
-  forecastFeedUrl?: string | null;
-  forecastFeedIntervalMs?: number;
-  forecastFeedUnit?: 'm/s' | 'km/h' | 'kn' | 'mph' | null;
-  forecastFeedHeightM?: number;
-  defaultLevels: LevelDefinition[];
-  createdAtMs: number;
-  updatedAtMs: number;
-}
+/** GET /api/site: the settings' one schema with the row's id and times (server/register/siteSettings.ts). */
+export type { SiteView } from '../../server/register/siteSettings.ts';
 
 /** GET /api/sensors (one entry) */
 export type SensorView = SensorRecord & { topic: string; live: SensorState | null; rejections: RejectionCount[] };

@@ -32,6 +32,7 @@
  * (one panel when there is one foot, at the middle).
  */
 import { z } from 'zod';
+import { defineKind } from './kindDefinition.ts';
 import { count, coefficient, dimensionM, heightM, massKg } from '../recordFields.ts';
 import type { Element, Mass } from '../structure.ts';
 import { boardForceCoefficient, freeStandingWallStretchCpNet } from './boardCoefficient.ts';
@@ -357,3 +358,11 @@ function endPanelCoefficient(record: BannerRecord, run: RunShape, runCf: SourceN
     source: `${table}; not below the run's c_f ${runCf.value.toFixed(3)}${raised}`,
   };
 }
+
+/** The banner kind as the engine's kind list holds it (kinds/index.ts, kindDefinition.ts). */
+export const bannerKind = defineKind({
+  kind: 'banner',
+  schema: bannerRecordSchema,
+  recordWords: 'a banner',
+  expand: expandBanner,
+});

@@ -6,6 +6,7 @@
  * record is a strip and the answer warns that wind onto the ends was not checked.
  */
 import { z } from 'zod';
+import { defineKind } from './kindDefinition.ts';
 import { dimensionM } from '../recordFields.ts';
 import { faceSchema, massSchema, upliftSchema } from '../structure.ts';
 import { givenCoefficient, recordBaseShape, resistanceSettings, type Expansion } from './recordBase.ts';
@@ -88,3 +89,11 @@ export function expandCustom(record: CustomRecord): Expansion {
     ],
   };
 }
+
+/** The custom kind as the engine's kind list holds it (kinds/index.ts, kindDefinition.ts). */
+export const customKind = defineKind({
+  kind: 'custom',
+  schema: customRecordSchema,
+  recordWords: 'a custom',
+  expand: expandCustom,
+});

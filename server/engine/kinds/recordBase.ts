@@ -6,6 +6,7 @@
 import { z } from 'zod';
 import { defaultSafetyFactors, safetyFactorSources, criteria } from '../stability.ts';
 import type { ExpandedStructure, SafetyFactors } from '../structure.ts';
+import { maxLabelLength, maxNameLength } from '../limits.ts';
 import { dimensionM, frictionCoefficient, gustMps, safetyFactor, sourceText } from '../recordFields.ts';
 import { frictionBySurface, steelFeetOnHardFriction, type SourcedValue } from './coefficients.ts';
 
@@ -15,11 +16,11 @@ export const maxConfigurations = 8;
 export const defaultRegisteredConfigurationName = 'as registered';
 
 function configurationNameSchema() {
-  return z.string().trim().min(1, 'must not be empty').max(100, 'must be at most 100 characters');
+  return z.string().trim().min(1, 'must not be empty').max(maxNameLength, `must be at most ${maxNameLength} characters`);
 }
 
 export const recordBaseShape = {
-  name: z.string().trim().min(1, 'must not be empty').max(200, 'must be at most 200 characters'),
+  name: z.string().trim().min(1, 'must not be empty').max(maxLabelLength, `must be at most ${maxLabelLength} characters`),
   /** Partial safety factors; each one missing takes its default (1.5 / 2.0 / 1.5). */
   safetyFactors: z
     .strictObject({ overturning: safetyFactor().optional(), sliding: safetyFactor().optional(), uplift: safetyFactor().optional() })

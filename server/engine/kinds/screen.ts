@@ -39,6 +39,7 @@
  * only) and the answer says so.
  */
 import { z } from 'zod';
+import { defineKind } from './kindDefinition.ts';
 import { count, coefficient, dimensionM, heightM, massKg } from '../recordFields.ts';
 import type { Element, Face, Mass } from '../structure.ts';
 import { boardForceCoefficient } from './boardCoefficient.ts';
@@ -181,6 +182,22 @@ function rounded(value: number, places = 3): number {
  */
 export function screenTowerHeightM(record: Pick<ScreenRecord, 'towerHeightM' | 'bottomHeightM' | 'heightM' | 'headerTrussDepthM'>): number {
   return record.towerHeightM ?? record.bottomHeightM + record.heightM + (record.headerTrussDepthM ?? memberSizes.headerTrussDepthM.value);
+}
+
+/** Changes that move a screen on its towers (lowered, raised, a deeper truss), not the towers. */
+const screenOnTowerFields = ['bottomHeightM', 'heightM', 'headerTrussDepthM'];
+
+/**
+ * A screen lowered on its towers leaves the towers standing: when the record derives the towers'
+ * height from the screen's top (no `towerHeightM`) and a configuration moves the screen but does
+ * not set `towerHeightM`, the towers keep their registered height. Without this a lowered screen's
+ * towers would be modelled shorter, with less wind on them and a lower reference height: about 5 %
+ * on the limit of the demo's screen, on the unsafe side (engineering review, issue 14).
+ */
+function keepTowersStanding(registered: ScreenRecord, changed: Record<string, unknown>, changedFields: readonly string[]): void {
+  if (registered.towerHeightM === undefined && !changedFields.includes('towerHeightM') && changedFields.some((f) => screenOnTowerFields.includes(f))) {
+    changed.towerHeightM = screenTowerHeightM(registered);
+  }
 }
 
 export function expandScreen(record: ScreenRecord): Expansion {
@@ -343,3 +360,12 @@ export function expandScreen(record: ScreenRecord): Expansion {
     ...(warnings.length > 0 ? { warnings } : {}),
   };
 }
+
+/** The screen kind as the engine's kind list holds it (kinds/index.ts, kindDefinition.ts). */
+export const screenKind = defineKind({
+  kind: 'screen',
+  schema: screenRecordSchema,
+  recordWords: 'a screen',
+  expand: expandScreen,
+  configured: keepTowersStanding,
+});

@@ -31,6 +31,7 @@
  * `shellCoefficients` for the values and their sources.
  */
 import { z } from 'zod';
+import { defineKind } from './kindDefinition.ts';
 import { coefficient, dimensionM, heightM, massKg } from '../recordFields.ts';
 import type { DirectionalUplift, Face, Mass, Uplift } from '../structure.ts';
 import { defaultCoefficients, type SourcedValue } from './coefficients.ts';
@@ -388,3 +389,11 @@ function expandDome(record: ShellRecord): Expansion {
     ],
   };
 }
+
+/** The shell kind as the engine's kind list holds it (kinds/index.ts, kindDefinition.ts). */
+export const shellKind = defineKind({
+  kind: 'shell',
+  schema: shellRecordSchema,
+  recordWords: 'a shell',
+  expand: expandShell,
+});

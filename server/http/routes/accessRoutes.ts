@@ -6,6 +6,7 @@ import { Hono } from 'hono';
 import { z } from 'zod';
 import { personInputSchema, personUpdateSchema, principalName, type Accounts } from '../../auth/accounts.ts';
 import type { SignInLimiter } from '../../auth/signInLimiter.ts';
+import { maxNameLength, maxPasswordLength } from '../../engine/limits.ts';
 import { clearSessionCookie, requestIsSecure, requireRole, setSessionCookie, type AppEnv } from '../access.ts';
 import { HttpError } from '../httpError.ts';
 import { idParam, jsonBody, jsonPatchBody } from '../validate.ts';
@@ -58,7 +59,7 @@ export function linkAddress(c: { req: { url: string; header(name: string): strin
   return { origin, source: 'request', warning };
 }
 
-const signInSchema = z.strictObject({ username: z.string().min(1).max(64), password: z.string().min(1).max(200) });
+const signInSchema = z.strictObject({ username: z.string().min(1).max(64), password: z.string().min(1).max(maxPasswordLength) });
 const setupSchema = z.strictObject({
   code: z.string().min(1).max(100),
   username: personInputSchema.shape.username,
@@ -66,7 +67,7 @@ const setupSchema = z.strictObject({
   password: personInputSchema.shape.password,
 });
 const siteLinkSchema = z.strictObject({
-  label: z.string().trim().min(1, 'label must not be empty').max(100),
+  label: z.string().trim().min(1, 'label must not be empty').max(maxNameLength),
   /** How long the link works, hours (at most 31 days: a festival and its build and break). */
   validHours: z.number().gt(0).max(31 * 24).default(72),
 });

@@ -3,14 +3,15 @@ import type { Accounts } from '../../auth/accounts.ts';
 import type { Registry } from '../../ingest/registry.ts';
 import type { RejectionLog } from '../../ingest/rejections.ts';
 import type { LiveHub } from '../../live/liveHub.ts';
-import type { Db } from '../../storage/database.ts';
+import type { Storage } from '../../storage/storage.ts';
 import type { WriteQueue } from '../../storage/writeQueue.ts';
 import type { Watch } from '../../watch/watch.ts';
 import type { Logger } from '../../log.ts';
 import type { ForecastFeed } from '../../forecastFeed/index.ts';
 
 export interface ApiContext {
-  db: Db;
+  /** The one seam to the database (storage/storage.ts). */
+  storage: Storage;
   registry: Registry;
   watch: Watch;
   /** The group-commit queue (acknowledgements go through it, so they survive a full disk). */

@@ -9,13 +9,13 @@
  *   days (storage/forecastCheck.ts).
  */
 import { Hono } from 'hono';
-import { gustHeightFactor, type TerrainCategory } from '../../engine/index.ts';
+import { gustHeightFactor } from '../../engine/index.ts';
 import type { ForecastFeed, ForecastFeedStatus, ForecastPoll } from '../../forecastFeed/index.ts';
 import { redactedUrl } from '../../forecastFeed/index.ts';
-import { predictLevels, predictPlannedLevels, type ForecastRow, type LevelDefinition } from '../../levels/index.ts';
+import { predictLevels, predictPlannedLevels, type ForecastRow } from '../../foresight/index.ts';
 import { getSite } from '../../register/site.ts';
-import { forecastCheck, forecastCheckMaxWindowMs } from '../../storage/forecastCheck.ts';
-import { triggerLadderMps } from '../../watch/structureModel.ts';
+import { forecastCheckMaxWindowMs } from '../../storage/forecastCheck.ts';
+import { chanceThresholds, triggerLadderMps } from '../../watch/structureModel.ts';
 import { requireRole, type AppEnv } from '../access.ts';
 import { HttpError } from '../httpError.ts';
 import type { ApiContext } from './apiContext.ts';
@@ -88,12 +88,12 @@ export function forecastFeedRoutes(ctx: ApiContext): Hono<AppEnv> {
     return c.json({ poll: pollView(poll) });
   });
 
-  api.get('/log/forecast', viewer, (c) => {
-    const { fromMs, toMs } = windowOf((n) => c.req.query(n), ctx.now(), getSite(ctx.db).timeZone);
+  api.get('/log/forecast', viewer, async (c) => {
+    const { fromMs, toMs } = windowOf((n) => c.req.query(n), ctx.now(), getSite(ctx.storage).timeZone);
     if (toMs - fromMs > forecastCheckMaxWindowMs) throw HttpError.invalid([{ path: 'from', message: 'the forecast check spans at most 7 days' }]);
     // The newest minute of each sensor is summed in memory: write it first, as the other log reads do.
-    ctx.queue.writeOpenMinutes();
-    return c.json(forecastCheck(ctx.db, fromMs, toMs, ctx.now()));
+    await ctx.queue.writeOpenMinutes();
+    return c.json(ctx.storage.log.forecastCheck(fromMs, toMs, ctx.now()));
   });
 
   return api;
@@ -105,16 +105,16 @@ export function forecastFeedRoutes(ctx: ApiContext): Hono<AppEnv> {
  * height to the structure's, every configuration and the one the plan moves it to.
  */
 function feedPredictions(ctx: ApiContext, rows: readonly ForecastRow[], heightM: number) {
-  const site = getSite(ctx.db);
+  const site = getSite(ctx.storage);
   const all = ctx.watch.snapshot().structures;
   const states = all.filter((s) => !s.error && s.triggerGustsMps.length > 0);
   const ladders = states.map((s) => (s.limitGustMps === s.allDirectionsLimitGustMps ? s.triggerGustsMps : triggerLadderMps(s.levels, s.allDirectionsLimitGustMps)));
-  const heightFactor = (toHeightM: number) => gustHeightFactor({ fromHeightM: heightM, toHeightM, terrainCategory: site.terrainCategory as TerrainCategory, allowReduction: site.heightReductionEnabled });
+  const heightFactor = (toHeightM: number) => gustHeightFactor({ fromHeightM: heightM, toHeightM, terrainCategory: site.terrainCategory, allowReduction: site.heightReductionEnabled });
   const predictions = predictLevels(
     rows,
-    states.map((s, i) => ({ id: String(s.id), triggerGustsMps: ladders[i]!, heightFactor: heightFactor(s.referenceHeightM) })),
+    states.map((s, i) => ({ id: String(s.id), triggerGustsMps: ladders[i]!, heightFactor: heightFactor(s.referenceHeightM), chanceTriggers: chanceThresholds(s.levels, s.allDirectionsLimitGustMps) })),
   );
-  const siteLevels = site.defaultLevelsJson as LevelDefinition[];
+  const siteLevels = site.defaultLevelsJson;
   const planned = states.map((s, i) => forecastConfigurations(ctx, s, ladders[i]!, heightFactor, siteLevels));
   const plans = predictPlannedLevels(rows, planned.map((p) => p.structure));
   return {

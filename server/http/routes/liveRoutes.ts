@@ -31,11 +31,10 @@
  */
 import { Hono } from 'hono';
 import { streamSSE } from 'hono/streaming';
-import { eq } from 'drizzle-orm';
 import { z } from 'zod';
-import { alertsTable, sensorsTable } from '../../../db/schema.ts';
 import { principalName } from '../../auth/accounts.ts';
 import { roleAllows } from '../../auth/roles.ts';
+import { maxTextLength } from '../../engine/limits.ts';
 import { emptyWriteBatch } from '../../storage/writeBatch.ts';
 import { requireRole, type AppEnv } from '../access.ts';
 import { HttpError } from '../httpError.ts';
@@ -44,7 +43,7 @@ import { sseBytes, type LiveEvent } from '../../live/liveHub.ts';
 import type { OpenAlert } from '../../watch/watch.ts';
 import type { ApiContext } from './apiContext.ts';
 
-const noteSchema = z.string({ error: 'must be text' }).trim().max(2000, { error: 'is longer than 2000 characters' }).optional();
+const noteSchema = z.string({ error: 'must be text' }).trim().max(maxTextLength, { error: `is longer than ${maxTextLength} characters` }).optional();
 
 const acknowledgeSchema = z.strictObject({
   note: noteSchema,
@@ -256,7 +255,7 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
     // at once and is stored when it can be.
     const open = ctx.watch.openAlert(id);
     if (!open) {
-      const stored = ctx.db.select().from(alertsTable).where(eq(alertsTable.id, id)).get();
+      const stored = ctx.storage.alerts.byId(id);
       if (!stored) throw HttpError.notFound(`alert ${id}`);
       throw new HttpError(409, `alert ${id} was acknowledged by ${stored.acknowledgedBy ?? 'someone'}${stored.acknowledgedAtMs ? ` at ${new Date(stored.acknowledgedAtMs).toISOString()}` : ''}`);
     }
@@ -312,12 +311,12 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
           return;
         }
         // Not open any more: acknowledged (and ended) already, or not an alert of this subject at all.
-        const stored = ctx.db.select().from(alertsTable).where(eq(alertsTable.id, id)).get();
+        const stored = ctx.storage.alerts.byId(id);
         const ownsStored =
           stored !== undefined &&
           (body.structureId !== undefined
             ? stored.structureId === body.structureId
-            : stored.sensorId !== null && ctx.db.select({ key: sensorsTable.key }).from(sensorsTable).where(eq(sensorsTable.id, stored.sensorId)).get()?.key === body.sensorKey);
+            : stored.sensorId !== null && ctx.storage.sensors.byId(stored.sensorId)?.key === body.sensorKey);
         if (stored && ownsStored && stored.acknowledgedAtMs !== null) alreadyAcknowledged.push({ id, acknowledgedBy: stored.acknowledgedBy, acknowledgedAtMs: stored.acknowledgedAtMs });
         else issues.push({ path: `alertIds.${i}`, message: `alert ${id} is not an alert of ${subject.words}` });
       });

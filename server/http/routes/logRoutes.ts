@@ -7,21 +7,17 @@
  * in the site's time zone. Default: the last 24 hours. At most 62 days at a time.
  */
 import { Hono, type MiddlewareHandler } from 'hono';
-import { and, asc, eq, gte, lt } from 'drizzle-orm';
 import { z } from 'zod';
-import { alertsTable, auditTable, levelChangesTable, sensorsTable, structuresTable } from '../../../db/schema.ts';
-import { gustHeightFactor, recordConfigurations, registeredConfigurationName, type StructureRecord, type TerrainCategory } from '../../engine/index.ts';
-import { dateOrders, parseForecastTable, predictLevels, predictPlannedLevels, forecastSpeedUnits, type ForecastPlannedStructure, type LevelDefinition } from '../../levels/index.ts';
-import { densityDependent, structureModel, triggerLadderMps } from '../../watch/structureModel.ts';
+import { gustHeightFactor, maxDimensionM, recordConfigurations, registeredConfigurationName, type StructureRecord } from '../../engine/index.ts';
+import { type LevelDefinition } from '../../levels/index.ts';
+import { dateOrders, parseForecastTable, predictLevels, predictPlannedLevels, forecastSpeedUnits, type ForecastPlannedStructure } from '../../foresight/index.ts';
+import { chanceThresholds, densityDependent, structureModel, triggerLadderMps } from '../../watch/structureModel.ts';
 import type { StructureState } from '../../watch/watch.ts';
+import { isoInstantMs } from '../../formats/isoDateTime.ts';
 import { toCsv } from '../../register/csv.ts';
 import { getSite } from '../../register/site.ts';
 import { getSensor } from '../../register/sensors.ts';
 import { getStructureRow } from '../../register/structures.ts';
-import { daySummary, sensorsInWindow } from '../../storage/daySummary.ts';
-import { ConfigurationHistory, configurationChangesInWindow, overdueSignalsInWindow } from '../../storage/configurationLog.ts';
-import { LogQueries } from '../../storage/logQueries.ts';
-import { utilizationE4Unbounded } from '../../storage/writeQueue.ts';
 import { requireRole, type AppEnv } from '../access.ts';
 import { HttpError } from '../httpError.ts';
 import { idParam, jsonBody } from '../validate.ts';
@@ -30,13 +26,13 @@ import { LocalTimes, zonedDayWindow } from './zonedDay.ts';
 
 const maxWindowMs = 62 * 86_400_000;
 
-/** ISO 8601: a date (UTC midnight), or a date and time with its zone (without one it would be the server's local time). */
-const isoPattern = /^[0-9]{4}-[0-9]{2}-[0-9]{2}(T[0-9]{2}:[0-9]{2}(:[0-9]{2}(\.[0-9]{1,9})?)?(Z|[+-][0-9]{2}:?[0-9]{2}))?$/;
 
 function timeParam(raw: string | undefined, name: string): number | null {
   if (raw === undefined || raw === '') return null;
-  // Only epoch ms or ISO 8601: Date.parse also reads words ("June 13" → 13 June 2001).
-  const value = /^[0-9]{1,15}$/.test(raw) ? Number(raw) : isoPattern.test(raw) ? Date.parse(raw) : NaN;
+  // Only epoch ms or ISO 8601 (formats/isoDateTime.ts): a date (UTC midnight), or a date and time with its
+  // zone (without one it would be the server's local time). Date.parse also reads words ("June 13" → 13 June 2001).
+  const iso = /^[0-9]{1,15}$/.test(raw) ? null : isoInstantMs(raw, { dateAlone: true });
+  const value = iso === null ? Number(raw) : iso.ok ? iso.value : NaN;
   if (!Number.isFinite(value)) throw HttpError.invalid([{ path: name, message: `"${raw.slice(0, 40)}" is not a time: give epoch ms or ISO 8601 with a zone (2026-06-13T14:00:00Z)` }]);
   return value;
 }
@@ -80,7 +76,7 @@ const forecastSchema = z.strictObject({
   heightM: z
     .number({ error: 'the height of the forecast speeds must be a number of metres' })
     .gt(0, 'the height of the forecast speeds must be above 0 m')
-    .max(200, 'the height of the forecast speeds must be at most 200 m')
+    .max(maxDimensionM, `the height of the forecast speeds must be at most ${maxDimensionM} m`)
     .default(10),
 });
 
@@ -95,13 +91,14 @@ function structureParam(raw: string | undefined): number | undefined {
 
 export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
   const api = new Hono<AppEnv>();
-  const queries = new LogQueries(ctx.db.$client);
+  const { storage } = ctx;
+  const queries = storage.log.series;
   const viewer = requireRole('viewer');
-  const win = (c: { req: { query(name: string): string | undefined } }) => windowOf((n) => c.req.query(n), ctx.now(), getSite(ctx.db).timeZone);
+  const win = (c: { req: { query(name: string): string | undefined } }) => windowOf((n) => c.req.query(n), ctx.now(), getSite(storage).timeZone);
   // Each sensor's newest minute rollup is summed in memory between ticks: write it before a
   // read, so the log and its exports include the reading that just came in.
   const withOpenMinutes: MiddlewareHandler<AppEnv> = async (_c, next) => {
-    ctx.queue.writeOpenMinutes();
+    await ctx.queue.writeOpenMinutes();
     await next();
   };
   api.use('/log/*', withOpenMinutes);
@@ -113,8 +110,8 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
     const key = c.req.query('sensor');
     // The sensors on the register during the window (a retired sensor keeps its history; one
     // registered later has none), or the one asked for, retired or not.
-    const present = sensorsInWindow(ctx.db, fromMs, toMs).map((p) => p.sensor);
-    const sensors = key ? [present.find((s) => s.key === key) ?? ctx.db.select().from(sensorsTable).where(eq(sensorsTable.key, key)).get() ?? getSensor(ctx.db, key)] : present;
+    const present = storage.log.sensorsInWindow(fromMs, toMs).map((p) => p.sensor);
+    const sensors = key ? [present.find((s) => s.key === key) ?? storage.sensors.byKey(key) ?? getSensor(storage, key)] : present;
     return c.json({
       fromMs,
       toMs,
@@ -125,21 +122,11 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
   api.get('/log/structures/:id', viewer, (c) => {
     const id = idParam(c);
     // A retired structure's history stays in the log: only an id never registered is unknown.
-    const row = ctx.db.select().from(structuresTable).where(eq(structuresTable.id, id)).get() ?? getStructureRow(ctx.db, id);
+    const row = storage.structures.byId(id) ?? getStructureRow(storage, id);
     const { fromMs, toMs } = win(c);
     const points = pointsParam(c.req.query('points'));
-    const changes = ctx.db
-      .select()
-      .from(levelChangesTable)
-      .where(and(eq(levelChangesTable.structureId, id), gte(levelChangesTable.atMs, fromMs), lt(levelChangesTable.atMs, toMs)))
-      .orderBy(asc(levelChangesTable.atMs))
-      .all();
-    const alerts = ctx.db
-      .select()
-      .from(alertsTable)
-      .where(and(eq(alertsTable.structureId, id), gte(alertsTable.raisedAtMs, fromMs), lt(alertsTable.raisedAtMs, toMs)))
-      .orderBy(asc(alertsTable.raisedAtMs))
-      .all();
+    const changes = storage.levelChanges.inWindow(fromMs, toMs, { structureId: id });
+    const alerts = storage.alerts.raisedInWindow(fromMs, toMs, { structureId: id });
     return c.json({
       fromMs,
       toMs,
@@ -148,8 +135,8 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
       series: queries.structureSeries(id, fromMs, toMs, points),
       levelChanges: changes,
       alerts,
-      configurationChanges: configurationChangesInWindow(ctx.db, fromMs, toMs, id),
-      overdueSignals: overdueSignalsInWindow(ctx.db, fromMs, toMs, id),
+      configurationChanges: storage.log.configurationChanges(fromMs, toMs, id),
+      overdueSignals: storage.log.overdueSignals(fromMs, toMs, id),
     });
   });
 
@@ -158,41 +145,39 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
   api.get('/log/configurations', viewer, (c) => {
     const { fromMs, toMs } = win(c);
     const structure = structureParam(c.req.query('structure'));
-    return c.json({ fromMs, toMs, configurationChanges: configurationChangesInWindow(ctx.db, fromMs, toMs, structure), overdueSignals: overdueSignalsInWindow(ctx.db, fromMs, toMs, structure) });
+    return c.json({ fromMs, toMs, configurationChanges: storage.log.configurationChanges(fromMs, toMs, structure), overdueSignals: storage.log.overdueSignals(fromMs, toMs, structure) });
   });
 
   api.get('/log/levels', viewer, (c) => {
     const { fromMs, toMs } = win(c);
     const structure = structureParam(c.req.query('structure'));
-    const conditions = [gte(levelChangesTable.atMs, fromMs), lt(levelChangesTable.atMs, toMs)];
-    if (structure !== undefined) conditions.push(eq(levelChangesTable.structureId, structure));
-    const names = new Map(ctx.db.select({ id: structuresTable.id, name: structuresTable.name }).from(structuresTable).all().map((s) => [s.id, s.name]));
-    const rows = ctx.db.select().from(levelChangesTable).where(and(...conditions)).orderBy(asc(levelChangesTable.atMs)).limit(20_000).all();
+    const names = storage.structures.names();
+    const rows = storage.levelChanges.inWindow(fromMs, toMs, { ...(structure !== undefined ? { structureId: structure } : {}), limit: 20_000 });
     return c.json({ fromMs, toMs, levelChanges: rows.map((r) => ({ ...r, structureName: names.get(r.structureId) ?? null })) });
   });
 
   api.get('/log/alerts', viewer, (c) => {
     const { fromMs, toMs } = win(c);
-    const rows = ctx.db.select().from(alertsTable).where(and(gte(alertsTable.raisedAtMs, fromMs), lt(alertsTable.raisedAtMs, toMs))).orderBy(asc(alertsTable.raisedAtMs)).limit(20_000).all();
+    const rows = storage.alerts.raisedInWindow(fromMs, toMs, { limit: 20_000 });
     return c.json({ fromMs, toMs, alerts: rows });
   });
 
   api.get('/log/audit', viewer, (c) => {
     const { fromMs, toMs } = win(c);
-    const rows = ctx.db.select().from(auditTable).where(and(gte(auditTable.atMs, fromMs), lt(auditTable.atMs, toMs))).orderBy(asc(auditTable.atMs)).limit(20_000).all();
+    const rows = storage.audit.inWindow(fromMs, toMs, 20_000);
     return c.json({ fromMs, toMs, audit: rows });
   });
 
   api.get('/log/summary', viewer, (c) => {
     const { fromMs, toMs } = win(c);
-    return c.json(daySummary(ctx.db, fromMs, toMs, ctx.now()));
+    return c.json(storage.log.daySummary(fromMs, toMs, ctx.now()));
   });
 
   api.get('/export/:table{[a-z-]+\\.csv}', viewer, (c) => {
     const table = c.req.param('table').replace(/\.csv$/, '') as (typeof csvTables)[number];
     if (!csvTables.includes(table)) throw HttpError.notFound(`export "${table}"`);
     const { fromMs, toMs } = win(c);
-    const timeZone = getSite(ctx.db).timeZone;
+    const timeZone = getSite(storage).timeZone;
     const csv = exportCsv(ctx, table, fromMs, toMs, timeZone);
     c.header('Content-Type', 'text/csv; charset=utf-8');
     // Named after the window's first date on the site's clock (day=2026-06-13 starts at 23:00 UTC the day before in summer in London).
@@ -202,7 +187,7 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
 
   api.post('/forecast', viewer, async (c) => {
     const input = await jsonBody(c, forecastSchema);
-    const site = getSite(ctx.db);
+    const site = getSite(storage);
     const table = parseForecastTable(input.text, {
       ...(input.unit ? { unit: input.unit } : {}),
       ...(input.dateOrder ? { dateOrder: input.dateOrder } : {}),
@@ -217,17 +202,18 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
     // The ladder over every direction: the live ladder may be a sector's (directional assessment,
     // taken from the wind blowing now), which says nothing about the forecast hours.
     const ladders = states.map((s) => (s.limitGustMps === s.allDirectionsLimitGustMps ? s.triggerGustsMps : triggerLadderMps(s.levels, s.allDirectionsLimitGustMps)));
-    const heightFactor = (toHeightM: number) => gustHeightFactor({ fromHeightM: input.heightM, toHeightM, terrainCategory: site.terrainCategory as TerrainCategory, allowReduction: site.heightReductionEnabled });
+    const heightFactor = (toHeightM: number) => gustHeightFactor({ fromHeightM: input.heightM, toHeightM, terrainCategory: site.terrainCategory, allowReduction: site.heightReductionEnabled });
     const structures = states.map((s, i) => ({
       id: String(s.id),
       triggerGustsMps: ladders[i]!,
       heightFactor: heightFactor(s.referenceHeightM),
+      chanceTriggers: chanceThresholds(s.levels, s.allDirectionsLimitGustMps),
     }));
     const predictions = predictLevels(table.rows, structures);
     // Every configuration (design §2.5, §2.8): the same engine per configuration as the watch
     // (engine recordConfigurations → one structure model each), each at the air density now and
     // over every direction, with its own reference height; the current one as the watch has it.
-    const siteLevels = site.defaultLevelsJson as LevelDefinition[];
+    const siteLevels = site.defaultLevelsJson;
     const planned = states.map((s, i) => forecastConfigurations(ctx, s, ladders[i]!, heightFactor, siteLevels));
     const plans = predictPlannedLevels(table.rows, planned.map((p) => p.structure));
     return c.json({
@@ -268,7 +254,7 @@ export function forecastConfigurations(
   heightFactor: (toHeightM: number) => number,
   siteLevels: readonly LevelDefinition[],
 ): { structure: ForecastPlannedStructure; views: Array<{ name: string; current: boolean; referenceHeightM: number; limitGustMps: number; levels: Array<{ level: number; label: string; triggerGustMps: number }> }>; moveTo: Array<string | null> } {
-  const row = ctx.db.select().from(structuresTable).where(eq(structuresTable.id, state.id)).get();
+  const row = ctx.storage.structures.byId(state.id);
   const key = (name: string) => name.trim().normalize('NFC').toLowerCase();
   const current = { name: state.configuration, triggerGustsMps: currentLadder, heightFactor: heightFactor(state.referenceHeightM), referenceHeightM: state.referenceHeightM, limitGustMps: state.allDirectionsLimitGustMps };
   let list: Array<typeof current> = [current];
@@ -300,7 +286,7 @@ export function forecastConfigurations(
     return i >= 0 ? i : null;
   });
   return {
-    structure: { id: String(state.id), configurations: list.map(({ name, triggerGustsMps, heightFactor: f }) => ({ name, triggerGustsMps, heightFactor: f })), currentIndex, moveToIndex },
+    structure: { id: String(state.id), configurations: list.map(({ name, triggerGustsMps, heightFactor: f, limitGustMps }) => ({ name, triggerGustsMps, heightFactor: f, chanceTriggers: chanceThresholds(state.levels, limitGustMps) })), currentIndex, moveToIndex },
     views: list.map((c, i) => ({ name: c.name, current: i === currentIndex, referenceHeightM: c.referenceHeightM, limitGustMps: c.limitGustMps, levels: state.levels.map((l, j) => ({ level: l.level, label: l.label, triggerGustMps: c.triggerGustsMps[j]! })) })),
     moveTo,
   };
@@ -340,68 +326,44 @@ const marginPct = (fraction: number | null | undefined): string => rounded(tenth
  * speeds to 0.1 m/s, utilization and margin to 0.1 % of capacity, directions to 1°, temperature
  * to 0.1 °C, pressure to 0.1 hPa, humidity to 1 %. README "CSV exports" lists the columns.
  */
-export function exportCsv(ctx: Pick<ApiContext, 'db'>, table: (typeof csvTables)[number], fromMs: number, toMs: number, timeZone: string): string {
-  const sqlite = ctx.db.$client;
+export function exportCsv(ctx: Pick<ApiContext, 'storage'>, table: (typeof csvTables)[number], fromMs: number, toMs: number, timeZone: string): string {
+  const { storage } = ctx;
   const local = new LocalTimes(timeZone);
   const iso = (ms: number | null) => (ms === null ? '' : new Date(ms).toISOString());
   const loc = (ms: number | null) => (ms === null ? '' : local.dateTime(ms));
-  const cmps = (v: number | null) => (v === null ? '' : rounded(v / 100, 1));
   switch (table) {
     case 'readings': {
-      const rows = sqlite
-        .prepare(
-          `SELECT s.key, r.ts_ms, r.speed_cmps, r.gust_cmps, r.dir_deg, r.temp_deci_c, r.pressure_pa, r.rh_pct, r.flags
-           FROM readings r JOIN sensors s ON s.id = r.sensor_id WHERE r.ts_ms >= ? AND r.ts_ms < ? ORDER BY r.ts_ms, s.key LIMIT 2000000`,
-        )
-        .raw()
-        .all(fromMs, toMs) as Array<[string, number, number, number | null, number | null, number | null, number | null, number | null, number]>;
       return toCsv(
         ['sensor', 'time_local', 'time_utc', 'speed_mps', 'gust_mps', 'dir_from_deg', 'temp_c', 'pressure_hpa', 'rh_pct', 'late'],
-        rows.map((r) => [r[0], loc(r[1]), iso(r[1]), cmps(r[2]), cmps(r[3]), rounded(r[4], 0), r[5] === null ? '' : rounded(r[5] / 10, 1), r[6] === null ? '' : rounded(r[6] / 100, 1), rounded(r[7], 0), r[8] & 1 ? 'yes' : '']),
+        storage.log.exports
+          .readings(fromMs, toMs)
+          .map((r) => [r.sensorKey, loc(r.tsMs), iso(r.tsMs), rounded(r.speedMps, 1), rounded(r.gustMps, 1), rounded(r.dirDeg, 0), rounded(r.tempC, 1), r.pressurePa === null ? '' : rounded(r.pressurePa / 100, 1), rounded(r.rhPct, 0), r.late ? 'yes' : '']),
       );
     }
     case 'wind-minutes': {
-      const rows = sqlite
-        .prepare(
-          `SELECT s.key, w.minute_ms, w.sample_count, w.speed_sum_cmps, w.max_gust_cmps, w.dir_sin_sum, w.dir_cos_sum, w.dir_count
-           FROM wind_minutes w JOIN sensors s ON s.id = w.sensor_id WHERE w.minute_ms >= ? AND w.minute_ms < ? ORDER BY w.minute_ms, s.key`,
-        )
-        .raw()
-        .all(fromMs, toMs) as Array<[string, number, number, number, number, number, number, number]>;
       return toCsv(
         ['sensor', 'minute_local', 'minute_utc', 'samples', 'mean_mps', 'max_gust_mps', 'mean_dir_from_deg'],
-        rows.map((r) => {
-          const dir = r[7] > 0 ? ((Math.atan2(r[5], r[6]) * 180) / Math.PI + 360) % 360 : null;
-          return [r[0], loc(r[1]), iso(r[1]), r[2], r[2] > 0 ? rounded(r[3] / r[2] / 100, 1) : '', cmps(r[4]), dir === null ? '' : rounded(dir, 0) === '360' ? '0' : rounded(dir, 0)];
+        storage.log.exports.windMinutes(fromMs, toMs).map((r) => {
+          // A bearing that rounds up to 360° is north, written 0.
+          const dir = rounded(r.meanDirDeg, 0);
+          return [r.sensorKey, loc(r.minuteMs), iso(r.minuteMs), r.samples, rounded(r.meanMps, 1), rounded(r.maxGustMps, 1), dir === '360' ? '0' : dir];
         }),
       );
     }
     case 'structure-minutes': {
-      const rows = sqlite
-        .prepare(
-          `SELECT t.name, m.minute_ms, m.max_gust_cmps, m.max_utilization_e4, m.max_level
-           FROM structure_minutes m JOIN structures t ON t.id = m.structure_id WHERE m.minute_ms >= ? AND m.minute_ms < ? ORDER BY m.minute_ms, t.name`,
-        )
-        .raw()
-        .all(fromMs, toMs) as Array<[string, number, number, number, number]>;
       return toCsv(
         ['structure', 'minute_local', 'minute_utc', 'max_gust_mps', 'max_utilization_pct', 'min_margin_pct', 'max_level'],
-        rows.map((r) => {
-          const unbounded = r[3] >= utilizationE4Unbounded;
-          return [r[0], loc(r[1]), iso(r[1]), cmps(r[2]), unbounded ? 'unbounded' : pct(r[3] / 10_000), unbounded ? 'none' : marginPct(r[3] / 10_000), r[4]];
+        storage.log.exports.structureMinutes(fromMs, toMs).map((r) => {
+          // An infinite utilization: no resistance was left.
+          const unbounded = !Number.isFinite(r.maxUtilization);
+          return [r.structureName, loc(r.minuteMs), iso(r.minuteMs), rounded(r.maxGustMps, 1), unbounded ? 'unbounded' : pct(r.maxUtilization), unbounded ? 'none' : marginPct(r.maxUtilization), r.maxLevel];
         }),
       );
     }
     case 'level-changes': {
-      const rows = sqlite
-        .prepare(
-          `SELECT t.name, c.at_ms, c.from_level, c.to_level, c.gust_mps, c.utilization, c.no_data, c.structure_id, t.record_json, c.estimate_level, c.estimate_chance_10, c.estimate_chance_30
-           FROM level_changes c JOIN structures t ON t.id = c.structure_id WHERE c.at_ms >= ? AND c.at_ms < ? ORDER BY c.at_ms, c.id`,
-        )
-        .raw()
-        .all(fromMs, toMs) as Array<[string, number, number, number, number | null, number | null, number, number, string, number | null, number | null, number | null]>;
+      const rows = storage.log.exports.levelChanges(fromMs, toMs);
       // The configuration each change was assessed in (design §2.5): the log's last switch at or before it, else the one as registered.
-      const history = new ConfigurationHistory(ctx.db, toMs);
+      const history = storage.log.configurationHistory(toMs);
       const registered = new Map<number, string>();
       const registeredName = (id: number, json: string): string => {
         let name = registered.get(id);
@@ -414,16 +376,16 @@ export function exportCsv(ctx: Pick<ApiContext, 'db'>, table: (typeof csvTables)
       return toCsv(
         ['structure', 'time_local', 'time_utc', 'event', 'from_level', 'to_level', 'gust_mps', 'utilization_pct', 'margin_pct', 'configuration', 'estimate_level', 'estimate_chance_10min_pct', 'estimate_chance_30min_pct'],
         rows.map((r) => [
-          r[0], loc(r[1]), iso(r[1]), r[6] ? 'no data' : r[3] > r[2] ? 'raised' : r[3] < r[2] ? 'lowered' : 'data back', r[2], r[3], rounded(r[4], 1), pct(r[5]), marginPct(r[5]), history.at(r[7], r[1]) ?? registeredName(r[7], r[8]),
-          r[9] ?? '', r[10] === null ? '' : rounded(r[10] * 100, 1), r[11] === null ? '' : rounded(r[11] * 100, 1),
+          r.structureName, loc(r.atMs), iso(r.atMs), r.noData ? 'no data' : r.toLevel > r.fromLevel ? 'raised' : r.toLevel < r.fromLevel ? 'lowered' : 'data back', r.fromLevel, r.toLevel, rounded(r.gustMps, 1), pct(r.utilization), marginPct(r.utilization), history.at(r.structureId, r.atMs) ?? registeredName(r.structureId, r.recordJson),
+          r.estimateLevel ?? '', r.estimateChance10 === null ? '' : rounded(r.estimateChance10 * 100, 1), r.estimateChance30 === null ? '' : rounded(r.estimateChance30 * 100, 1),
         ]),
       );
     }
     case 'alerts': {
-      const rows = ctx.db.select().from(alertsTable).where(and(gte(alertsTable.raisedAtMs, fromMs), lt(alertsTable.raisedAtMs, toMs))).orderBy(asc(alertsTable.raisedAtMs), asc(alertsTable.id)).all();
-      const names = new Map(ctx.db.select({ id: structuresTable.id, name: structuresTable.name }).from(structuresTable).all().map((s) => [s.id, s.name]));
-      const sensorNames = new Map(ctx.db.select({ id: sensorsTable.id, key: sensorsTable.key }).from(sensorsTable).all().map((s) => [s.id, s.key]));
-      const actionDueMs = getSite(ctx.db).actionDueMs;
+      const rows = storage.alerts.raisedInWindow(fromMs, toMs);
+      const names = storage.structures.names();
+      const sensorNames = new Map(storage.sensors.all().map((s) => [s.id, s.key]));
+      const actionDueMs = getSite(storage).actionDueMs;
       return toCsv(
         [
           'id', 'kind', 'structure', 'sensor', 'level', 'label', 'raised_local', 'raised_utc', 'gust_mps', 'utilization_pct', 'acknowledged_local', 'acknowledged_utc', 'acknowledged_by', 'note', 'cleared_local', 'cleared_utc', 'action',
@@ -459,7 +421,7 @@ export function exportCsv(ctx: Pick<ApiContext, 'db'>, table: (typeof csvTables)
       );
     }
     case 'configuration-changes': {
-      const rows = configurationChangesInWindow(ctx.db, fromMs, toMs);
+      const rows = storage.log.configurationChanges(fromMs, toMs);
       return toCsv(
         ['structure', 'time_local', 'time_utc', 'from', 'to', 'reason', 'by', 'alert_id', 'alert_level', 'alert_label', 'after_alert_min', 'signalled_overdue', 'note'],
         rows.map((r) => [
@@ -480,7 +442,7 @@ export function exportCsv(ctx: Pick<ApiContext, 'db'>, table: (typeof csvTables)
       );
     }
     case 'audit': {
-      const rows = ctx.db.select().from(auditTable).where(and(gte(auditTable.atMs, fromMs), lt(auditTable.atMs, toMs))).orderBy(asc(auditTable.atMs), asc(auditTable.id)).all();
+      const rows = storage.audit.inWindow(fromMs, toMs);
       return toCsv(
         ['time_local', 'time_utc', 'who', 'what', 'id', 'action', 'before', 'after'],
         rows.map((r) => [loc(r.atMs), iso(r.atMs), r.actor, r.entity, r.entityId, r.action, r.beforeJson === null ? '' : JSON.stringify(r.beforeJson), r.afterJson === null ? '' : JSON.stringify(r.afterJson)]),

@@ -14,22 +14,21 @@
  *   the link acknowledges nothing.
  */
 import { randomBytes } from 'node:crypto';
-import { desc, eq } from 'drizzle-orm';
 import { Hono } from 'hono';
 import { z } from 'zod';
-import { notifyEscalationTable, notifyEscalationsTable, notifyPersonSettingsTable, notifyWebhooksTable, peopleTable } from '../../../db/schema.ts';
 import { principalName } from '../../auth/accounts.ts';
 import { checkWebhookUrl, ConfigError } from '../../config.ts';
+import { maxUrlLength } from '../../engine/limits.ts';
 import { escalationChainsSchema, notifyFilterSchema, type Notifier } from '../../notify/index.ts';
 import { allAlerts, storedFilter } from '../../notify/filter.ts';
-import { recordAudit } from '../../register/audit.ts';
-import type { Db } from '../../storage/database.ts';
+import type { WebhookRow } from '../../storage/notifications.ts';
+import type { Storage } from '../../storage/storage.ts';
 import { requireRole, type AppEnv } from '../access.ts';
 import { HttpError } from '../httpError.ts';
 import { idParam, jsonBody } from '../validate.ts';
 
 export interface NotifyRoutesContext {
-  db: Db;
+  storage: Storage;
   notifier: Notifier;
   now: () => number;
 }
@@ -37,7 +36,7 @@ export interface NotifyRoutesContext {
 const webhookUrlSchema = z
   .string({ error: 'must be the webhook address (http:// or https://)' })
   .trim()
-  .max(2000, { error: 'is longer than 2000 characters' })
+  .max(maxUrlLength, { error: `is longer than ${maxUrlLength} characters` })
   .superRefine((value, ctx) => {
     try {
       checkWebhookUrl(value, 'the address');
@@ -68,13 +67,13 @@ function newSecret(): string {
   return `whsec_${randomBytes(24).toString('base64url')}`;
 }
 
-function shownWebhook(row: typeof notifyWebhooksTable.$inferSelect) {
+function shownWebhook(row: WebhookRow) {
   return { id: row.id, name: row.name, url: row.url, filter: storedFilter(row.filterJson), enabled: row.enabled, source: 'app' as const, createdBy: row.createdBy, createdAtMs: row.createdAtMs, updatedAtMs: row.updatedAtMs };
 }
 
 export function notifyRoutes(ctx: NotifyRoutesContext): Hono<AppEnv> {
   const api = new Hono<AppEnv>();
-  const { db, notifier } = ctx;
+  const { storage, notifier } = ctx;
 
   // ---------- who can be named in an escalation step ----------
 
@@ -84,14 +83,14 @@ export function notifyRoutes(ctx: NotifyRoutesContext): Hono<AppEnv> {
    * and role of everyone not disabled.
    */
   api.get('/notify/people', requireRole('competent-person'), (c) => {
-    const people = db.select({ id: peopleTable.id, displayName: peopleTable.displayName, role: peopleTable.role, disabledAtMs: peopleTable.disabledAtMs }).from(peopleTable).orderBy(peopleTable.displayName).all();
-    return c.json({ people: people.filter((p) => p.disabledAtMs === null).map(({ id, displayName, role }) => ({ id, displayName, role })) });
+    const people = storage.people.activeByDisplayName();
+    return c.json({ people: people.map(({ id, displayName, role }) => ({ id, displayName, role })) });
   });
 
   // ---------- webhooks ----------
 
   api.get('/notify/webhooks', requireRole('competent-person'), (c) => {
-    const rows = db.select().from(notifyWebhooksTable).orderBy(notifyWebhooksTable.id).all().map(shownWebhook);
+    const rows = storage.notifications.webhooks().map(shownWebhook);
     const env = notifier.envWebhookUrl ? [{ id: 'env', name: 'ALERT_WEBHOOK_URL', url: notifier.envWebhookUrl, filter: allAlerts, enabled: true, source: 'environment' as const }] : [];
     return c.json({ webhooks: [...env, ...rows] });
   });
@@ -101,9 +100,9 @@ export function notifyRoutes(ctx: NotifyRoutesContext): Hono<AppEnv> {
     const atMs = ctx.now();
     const actor = principalName(c.get('principal'));
     const secret = newSecret();
-    const row = db.transaction((tx) => {
-      const made = tx.insert(notifyWebhooksTable).values({ name: body.name, url: body.url, secret, filterJson: body.filter ?? allAlerts, enabled: true, createdBy: actor, createdAtMs: atMs, updatedAtMs: atMs }).returning().get();
-      recordAudit(tx, { actor, entity: 'notify', entityId: `webhook:${made.id}`, action: 'create', after: shownWebhook(made) }, atMs);
+    const row = storage.transaction(() => {
+      const made = storage.notifications.insertWebhook({ name: body.name, url: body.url, secret, filterJson: body.filter ?? allAlerts, enabled: true, createdBy: actor, createdAtMs: atMs, updatedAtMs: atMs });
+      storage.audit.record({ actor, entity: 'notify', entityId: `webhook:${made.id}`, action: 'create', after: shownWebhook(made) }, atMs);
       return made;
     });
     return c.json({ webhook: shownWebhook(row), secret }, 201);
@@ -112,26 +111,21 @@ export function notifyRoutes(ctx: NotifyRoutesContext): Hono<AppEnv> {
   api.patch('/notify/webhooks/:id', requireRole('competent-person'), async (c) => {
     const id = idParam(c);
     const body = await jsonBody(c, webhookUpdateSchema);
-    const before = db.select().from(notifyWebhooksTable).where(eq(notifyWebhooksTable.id, id)).get();
+    const before = storage.notifications.webhook(id);
     if (!before) throw HttpError.notFound(`webhook ${id}`);
     const atMs = ctx.now();
     const actor = principalName(c.get('principal'));
     const secret = body.renewSecret ? newSecret() : null;
-    const row = db.transaction((tx) => {
-      const after = tx
-        .update(notifyWebhooksTable)
-        .set({
+    const row = storage.transaction(() => {
+      const after = storage.notifications.updateWebhook(id, {
           ...(body.name !== undefined ? { name: body.name } : {}),
           ...(body.url !== undefined ? { url: body.url } : {}),
           ...(body.filter !== undefined ? { filterJson: body.filter } : {}),
           ...(body.enabled !== undefined ? { enabled: body.enabled } : {}),
           ...(secret !== null ? { secret } : {}),
           updatedAtMs: atMs,
-        })
-        .where(eq(notifyWebhooksTable.id, id))
-        .returning()
-        .get();
-      recordAudit(tx, { actor, entity: 'notify', entityId: `webhook:${id}`, action: secret ? 'update (new secret)' : 'update', before: shownWebhook(before), after: shownWebhook(after) }, atMs);
+        });
+      storage.audit.record({ actor, entity: 'notify', entityId: `webhook:${id}`, action: secret ? 'update (new secret)' : 'update', before: shownWebhook(before), after: shownWebhook(after) }, atMs);
       return after;
     });
     return c.json(secret ? { webhook: shownWebhook(row), secret } : { webhook: shownWebhook(row) });
@@ -139,12 +133,12 @@ export function notifyRoutes(ctx: NotifyRoutesContext): Hono<AppEnv> {
 
   api.delete('/notify/webhooks/:id', requireRole('competent-person'), (c) => {
     const id = idParam(c);
-    const before = db.select().from(notifyWebhooksTable).where(eq(notifyWebhooksTable.id, id)).get();
+    const before = storage.notifications.webhook(id);
     if (!before) throw HttpError.notFound(`webhook ${id}`);
     const atMs = ctx.now();
-    db.transaction((tx) => {
-      tx.delete(notifyWebhooksTable).where(eq(notifyWebhooksTable.id, id)).run();
-      recordAudit(tx, { actor: principalName(c.get('principal')), entity: 'notify', entityId: `webhook:${id}`, action: 'delete', before: shownWebhook(before) }, atMs);
+    storage.transaction(() => {
+      storage.notifications.deleteWebhook(id);
+      storage.audit.record({ actor: principalName(c.get('principal')), entity: 'notify', entityId: `webhook:${id}`, action: 'delete', before: shownWebhook(before) }, atMs);
     });
     return c.body(null, 204);
   });
@@ -160,8 +154,8 @@ export function notifyRoutes(ctx: NotifyRoutesContext): Hono<AppEnv> {
   // ---------- escalation ----------
 
   api.get('/notify/escalation', requireRole('competent-person'), (c) => {
-    const chains = db.select().from(notifyEscalationTable).orderBy(notifyEscalationTable.level).all().map((r) => ({ level: r.level, steps: r.stepsJson, updatedBy: r.updatedBy, updatedAtMs: r.updatedAtMs }));
-    const recent = db.select().from(notifyEscalationsTable).orderBy(desc(notifyEscalationsTable.id)).limit(100).all();
+    const chains = storage.notifications.chains().map((r) => ({ level: r.level, steps: r.stepsJson, updatedBy: r.updatedBy, updatedAtMs: r.updatedAtMs }));
+    const recent = storage.notifications.recentSteps(100);
     return c.json({ chains, recent: recent.map((r) => ({ alertId: r.alertId, step: r.step + 1, atMs: r.atMs, target: r.target, reached: r.reached })) });
   });
 
@@ -169,11 +163,10 @@ export function notifyRoutes(ctx: NotifyRoutesContext): Hono<AppEnv> {
     const body = await jsonBody(c, escalationChainsSchema);
     const atMs = ctx.now();
     const actor = principalName(c.get('principal'));
-    const before = db.select().from(notifyEscalationTable).all();
-    db.transaction((tx) => {
-      tx.delete(notifyEscalationTable).run();
-      for (const chain of body.chains) if (chain.steps.length > 0) tx.insert(notifyEscalationTable).values({ level: chain.level, stepsJson: chain.steps, updatedBy: actor, updatedAtMs: atMs }).run();
-      recordAudit(tx, { actor, entity: 'notify', entityId: 'escalation', action: 'update', before: before.map((r) => ({ level: r.level, steps: r.stepsJson })), after: body.chains }, atMs);
+    const before = storage.notifications.chains();
+    storage.transaction(() => {
+      storage.notifications.replaceChains(body.chains, actor, atMs);
+      storage.audit.record({ actor, entity: 'notify', entityId: 'escalation', action: 'update', before: before.map((r) => ({ level: r.level, steps: r.stepsJson })), after: body.chains }, atMs);
     });
     return c.json({ chains: body.chains.filter((ch) => ch.steps.length > 0) });
   });
@@ -197,7 +190,7 @@ export function notifyRoutes(ctx: NotifyRoutesContext): Hono<AppEnv> {
   const me = principalOf;
   api.get('/me/notifications', requireRole('viewer'), (c) => {
     const person = me(c);
-    const row = db.select().from(notifyPersonSettingsTable).where(eq(notifyPersonSettingsTable.personId, person.id)).get();
+    const row = storage.notifications.personSettings(person.id);
     return c.json({ email: row?.email ?? null, filter: row ? storedFilter(row.filterJson) : allAlerts, emailAvailable: notifier.emailConfigured });
   });
 
@@ -205,13 +198,10 @@ export function notifyRoutes(ctx: NotifyRoutesContext): Hono<AppEnv> {
     const person = me(c);
     const body = await jsonBody(c, personSettingsSchema);
     const atMs = ctx.now();
-    const row = db.select().from(notifyPersonSettingsTable).where(eq(notifyPersonSettingsTable.personId, person.id)).get();
+    const row = storage.notifications.personSettings(person.id);
     const email = body.email !== undefined ? body.email : (row?.email ?? null);
     const filter = body.filter ?? (row ? storedFilter(row.filterJson) : allAlerts);
-    db.insert(notifyPersonSettingsTable)
-      .values({ personId: person.id, email, filterJson: filter, updatedAtMs: atMs })
-      .onConflictDoUpdate({ target: notifyPersonSettingsTable.personId, set: { email, filterJson: filter, updatedAtMs: atMs } })
-      .run();
+    storage.notifications.savePersonSettings(person.id, email, filter, atMs);
     return c.json({ email, filter, emailAvailable: notifier.emailConfigured });
   });
 

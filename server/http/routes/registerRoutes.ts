@@ -12,6 +12,7 @@ import { createGateway, gatewayInputSchema, gatewayUpdateSchema, getGateway, lis
 import { exportRegister, importRegister, registerCsv, registerFromCsv, registerSchema } from '../../register/registerFile.ts';
 import { createSensor, getSensor, listSensors, retireSensor, sensorInputSchema, sensorUpdateSchema, updateSensor } from '../../register/sensors.ts';
 import { getSite, siteUpdateSchema, updateSite } from '../../register/site.ts';
+import { siteView } from '../../register/siteSettings.ts';
 import { createStructure, getStructureRow, listStructures, retireStructure, structureInputSchema, structureUpdateSchema, structureView, updateStructure } from '../../register/structures.ts';
 import { readingTopic } from '../../ingest/topic.ts';
 import { setupChecklist } from '../../register/setupChecklist.ts';
@@ -57,16 +58,13 @@ export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
 
   // ---- site ----
   api.get('/site', viewer, (c) => {
-    const site = getSite(ctx.db);
-    const { defaultLevelsJson, ...rest } = site;
-    return c.json({ site: { ...rest, defaultLevels: defaultLevelsJson }, airDensityKgM3: ctx.watch.currentAirDensityKgM3 });
+    return c.json({ site: siteView(getSite(ctx.storage)), airDensityKgM3: ctx.watch.currentAirDensityKgM3 });
   });
   api.patch('/site', editor, async (c) => {
     const patch = await jsonPatchBody(c, siteUpdateSchema);
-    const site = updateSite(ctx.db, patch, actor(c), ctx.now());
+    const site = updateSite(ctx.storage, patch, actor(c), ctx.now());
     ctx.reloadRegister();
-    const { defaultLevelsJson, ...rest } = site;
-    return c.json({ site: { ...rest, defaultLevels: defaultLevelsJson } });
+    return c.json({ site: siteView(site) });
   });
 
   // ---- sensors ----
@@ -76,23 +74,23 @@ export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
     live: ctx.watch.sensorStateByKey(s.key),
     rejections: ctx.rejections.list(s.key),
   });
-  api.get('/sensors', viewer, (c) => c.json({ sensors: listSensors(ctx.db).map(sensorView) }));
-  api.get('/sensors/:key', viewer, (c) => c.json({ sensor: sensorView(getSensor(ctx.db, c.req.param('key'))) }));
+  api.get('/sensors', viewer, (c) => c.json({ sensors: listSensors(ctx.storage).map(sensorView) }));
+  api.get('/sensors/:key', viewer, (c) => c.json({ sensor: sensorView(getSensor(ctx.storage, c.req.param('key'))) }));
   api.post('/sensors', editor, async (c) => {
     const input = await jsonBody(c, sensorInputSchema);
-    const site = getSite(ctx.db);
-    const sensor = createSensor(ctx.db, site.id, input, actor(c), ctx.now());
+    const site = getSite(ctx.storage);
+    const sensor = createSensor(ctx.storage, site.id, input, actor(c), ctx.now());
     ctx.registry.reload();
     return c.json({ sensor: sensorView(sensor) }, 201);
   });
   api.patch('/sensors/:key', editor, async (c) => {
     const patch = await jsonPatchBody(c, sensorUpdateSchema);
-    const sensor = updateSensor(ctx.db, c.req.param('key'), patch, actor(c), ctx.now());
+    const sensor = updateSensor(ctx.storage, c.req.param('key'), patch, actor(c), ctx.now());
     ctx.registry.reload();
     return c.json({ sensor: sensorView(sensor) });
   });
   api.delete('/sensors/:key', editor, (c) => {
-    retireSensor(ctx.db, c.req.param('key'), actor(c), ctx.now());
+    retireSensor(ctx.storage, c.req.param('key'), actor(c), ctx.now());
     ctx.registry.reload();
     return c.json({ retired: true });
   });
@@ -112,7 +110,7 @@ export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
   // ---- the first-start checklist ----
   api.get('/setup/checklist', editor, (c) => {
     const broker = (ctx.health().broker ?? {}) as { kind?: string };
-    const checklist = setupChecklist(ctx.db, {
+    const checklist = setupChecklist(ctx.storage, {
       activePeople: ctx.accounts.listPeople().filter((p) => p.disabledAtMs === null).length,
       brokerKind: broker.kind === 'embedded' ? 'embedded' : 'external',
       refusedSinceStart: ctx.rejections.refusals.totalCount,
@@ -121,47 +119,47 @@ export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
   });
 
   // ---- gateways (credentials: competent person only, even to read) ----
-  api.get('/gateways', editor, (c) => c.json({ gateways: listGateways(ctx.db) }));
-  api.get('/gateways/:id', editor, (c) => c.json({ gateway: getGateway(ctx.db, idParam(c)) }));
+  api.get('/gateways', editor, (c) => c.json({ gateways: listGateways(ctx.storage) }));
+  api.get('/gateways/:id', editor, (c) => c.json({ gateway: getGateway(ctx.storage, idParam(c)) }));
   api.post('/gateways', editor, async (c) => {
     const input = await jsonBody(c, gatewayInputSchema);
-    const site = getSite(ctx.db);
-    const { gateway, password } = await createGateway(ctx.db, site.id, input, actor(c), ctx.now());
+    const site = getSite(ctx.storage);
+    const { gateway, password } = await createGateway(ctx.storage, site.id, input, actor(c), ctx.now());
     ctx.registry.reload();
     return c.json({ gateway, password, note: 'The password is shown once. Store it in the gateway now.' }, 201);
   });
   api.patch('/gateways/:id', editor, async (c) => {
     const patch = await jsonPatchBody(c, gatewayUpdateSchema);
-    const { gateway, password } = await updateGateway(ctx.db, idParam(c), patch, actor(c), ctx.now());
+    const { gateway, password } = await updateGateway(ctx.storage, idParam(c), patch, actor(c), ctx.now());
     ctx.registry.reload();
     return c.json(password ? { gateway, password, note: 'The new password is shown once.' } : { gateway });
   });
   api.delete('/gateways/:id', editor, (c) => {
-    const gateway = revokeGateway(ctx.db, idParam(c), actor(c), ctx.now());
+    const gateway = revokeGateway(ctx.storage, idParam(c), actor(c), ctx.now());
     ctx.registry.reload();
     return c.json({ gateway });
   });
 
   // ---- structures ----
   const withLive = (view: ReturnType<typeof structureView>) => ({ ...view, live: ctx.watch.structureStateById(view.id) });
-  api.get('/structures', viewer, (c) => c.json({ structures: listStructures(ctx.db).map(withLive) }));
-  api.get('/structures/:id', viewer, (c) => c.json({ structure: withLive(structureView(getStructureRow(ctx.db, idParam(c)))) }));
+  api.get('/structures', viewer, (c) => c.json({ structures: listStructures(ctx.storage).map(withLive) }));
+  api.get('/structures/:id', viewer, (c) => c.json({ structure: withLive(structureView(getStructureRow(ctx.storage, idParam(c)))) }));
   api.post('/structures', editor, async (c) => {
     const input = await structureBody(c, structureInputSchema);
-    const site = getSite(ctx.db);
-    const view = createStructure(ctx.db, site.id, input, actor(c), ctx.now());
+    const site = getSite(ctx.storage);
+    const view = createStructure(ctx.storage, site.id, input, actor(c), ctx.now());
     ctx.reloadRegister();
     return c.json({ structure: withLive(view) }, 201);
   });
   api.patch('/structures/:id', editor, async (c) => {
     const id = idParam(c);
     const patch = (await structureBody(c, structureUpdateSchema, true)) as Partial<z.infer<typeof structureUpdateSchema>>;
-    const view = updateStructure(ctx.db, id, patch, actor(c), ctx.now());
+    const view = updateStructure(ctx.storage, id, patch, actor(c), ctx.now());
     ctx.reloadRegister();
     return c.json({ structure: withLive(view) });
   });
   api.delete('/structures/:id', editor, (c) => {
-    retireStructure(ctx.db, idParam(c), actor(c), ctx.now());
+    retireStructure(ctx.storage, idParam(c), actor(c), ctx.now());
     ctx.reloadRegister();
     return c.json({ retired: true });
   });
@@ -169,12 +167,12 @@ export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
   // ---- the whole register ----
   api.get('/register', viewer, (c) => {
     c.header('Content-Disposition', 'attachment; filename="register.json"');
-    return c.json(exportRegister(ctx.db, ctx.now()));
+    return c.json(exportRegister(ctx.storage, ctx.now()));
   });
   api.get('/register.csv', viewer, (c) => {
     c.header('Content-Type', 'text/csv; charset=utf-8');
     c.header('Content-Disposition', 'attachment; filename="register.csv"');
-    return c.body(registerCsv(exportRegister(ctx.db, ctx.now())));
+    return c.body(registerCsv(exportRegister(ctx.storage, ctx.now())));
   });
   api.post('/register/import', editor, async (c) => {
     const type = (c.req.header('content-type') ?? '').toLowerCase();
@@ -188,7 +186,7 @@ export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
       mode = body.mode;
       register = check(registerSchema, body.register, 'register');
     }
-    const summary = importRegister(ctx.db, register, mode, actor(c), ctx.now());
+    const summary = importRegister(ctx.storage, register, mode, actor(c), ctx.now());
     ctx.registry.reload();
     ctx.reloadRegister();
     return c.json({ imported: summary });

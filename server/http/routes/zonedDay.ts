@@ -2,6 +2,7 @@
  * A calendar day in a time zone as a window of epoch milliseconds: from local midnight to the
  * next local midnight (23 or 25 hours on the days clocks change).
  */
+import { isoDate } from '../../formats/isoDateTime.ts';
 
 const formatters = new Map<string, Intl.DateTimeFormat>();
 
@@ -41,11 +42,9 @@ export function zonedMidnightMs(year: number, month: number, day: number, timeZo
 }
 
 export function zonedDayWindow(day: string, timeZone: string): { fromMs: number; toMs: number } | null {
-  const m = /^([0-9]{4})-([0-9]{2})-([0-9]{2})$/.exec(day);
-  if (!m) return null;
-  const [y, mo, d] = [Number(m[1]), Number(m[2]), Number(m[3])];
-  const check = new Date(Date.UTC(y, mo - 1, d));
-  if (check.getUTCFullYear() !== y || check.getUTCMonth() !== mo - 1 || check.getUTCDate() !== d) return null;
+  const date = isoDate(day);
+  if (!date.ok) return null;
+  const { year: y, month: mo, day: d } = date.value;
   const next = new Date(Date.UTC(y, mo - 1, d + 1));
   return { fromMs: zonedMidnightMs(y, mo, d, timeZone), toMs: zonedMidnightMs(next.getUTCFullYear(), next.getUTCMonth() + 1, next.getUTCDate(), timeZone) };
 }

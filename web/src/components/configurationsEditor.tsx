@@ -25,6 +25,7 @@ import {
 import { maxConfigurations } from '../configurationState.ts';
 import type { AssessAnswer, AssessConfiguration } from '../types.ts';
 import { speed, speedUnitLabels, type SpeedUnit } from '../units.ts';
+import { maxNameLength } from '../../../server/engine/limits.ts';
 import { described, Field } from './field.tsx';
 
 /** The id of a configuration's control (fieldWords.ts names them the same way). */
@@ -154,7 +155,7 @@ function ConfigurationRow(props: {
         Configuration {i + 2}: {title}
       </legend>
       <Field id={nameId} label={configurationColumns[0].label} error={nameErr} help={configurationColumns[0].help}>
-        <input id={nameId} maxLength={100} value={c.name} disabled={props.readOnly} aria-invalid={nameErr ? true : undefined} aria-describedby={described(nameId, true, !!nameErr)} onInput={(e) => props.rename(e.currentTarget.value)} />
+        <input id={nameId} maxLength={maxNameLength} value={c.name} disabled={props.readOnly} aria-invalid={nameErr ? true : undefined} aria-describedby={described(nameId, true, !!nameErr)} onInput={(e) => props.rename(e.currentTarget.value)} />
       </Field>
       <p class="cfg-limit" data-testid={`config-${i}-limit`} aria-live="polite">
         Limit in this configuration:{' '}

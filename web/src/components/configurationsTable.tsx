@@ -11,6 +11,7 @@ import { configurationsNow } from '../configurationState.ts';
 import { live, refreshSnapshot } from '../live.ts';
 import type { ConfigurationSwitchAnswer, StructureState } from '../types.ts';
 import { dateTime, speed, type SpeedUnit } from '../units.ts';
+import { maxTextLength } from '../../../server/engine/limits.ts';
 import { LevelShape, levelTone } from './levelBadge.tsx';
 
 export function ConfigurationsSection({ s, unit, timeZone, canSwitch }: { s: StructureState; unit: SpeedUnit; timeZone: string; canSwitch: boolean }) {
@@ -122,7 +123,7 @@ function SwitchConfiguration({ s, names, current }: { s: StructureState; names: 
       </div>
       <div class="field">
         <label for="cfg-switch-note">Note for the log (recommended): what was done and why</label>
-        <textarea id="cfg-switch-note" rows={2} maxLength={2000} value={note} onInput={(e) => setNote(e.currentTarget.value)} />
+        <textarea id="cfg-switch-note" rows={2} maxLength={maxTextLength} value={note} onInput={(e) => setNote(e.currentTarget.value)} />
       </div>
       <button type="button" class="primary" disabled={busy || target === ''} onClick={() => void send()}>
         {busy ? 'Switching…' : `Switch to “${target}”`}

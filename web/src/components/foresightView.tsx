@@ -10,7 +10,7 @@
  *   inputs one tap away.
  * Words: foresightWords.ts.
  */
-import { estimateNote, foresightInputs, foresightLineParts, nextIsLimit, noEstimateText, readForesight, chanceText, trendText, type SensorNamer } from '../foresightWords.ts';
+import { estimateNote, foresightInputs, foresightLineParts, nextIsLimit, noEstimateText, readForesight, chanceText, trendText, triggerChanceText, type SensorNamer } from '../foresightWords.ts';
 import type { SensorState, StructureState } from '../types.ts';
 import { speed, type SpeedUnit } from '../units.ts';
 
@@ -18,7 +18,7 @@ export function sensorNamer(sensors: readonly SensorState[]): SensorNamer {
   return (key) => sensors.find((x) => x.key === key)?.name ?? key;
 }
 
-function EstimateTag() {
+export function EstimateTag() {
   return <span class="fs-tag">Estimate</span>;
 }
 
@@ -114,6 +114,15 @@ export function ForesightSection({ s, unit, sensors }: { s: StructureState; unit
               </tr>
             </tbody>
           </table>
+          {(r.view.triggerChances ?? []).length > 0 ? (
+            <ul class="plain-list fs-trigger-chances" data-testid="trigger-chances">
+              {r.view.triggerChances.map((c) => (
+                <li key={c.level}>
+                  <strong>Level {c.level}</strong> {triggerChanceText(c, unit)}
+                </li>
+              ))}
+            </ul>
+          ) : null}
           <p class="fs-figure">
             Expected peak gust here in the next 10 min: <strong class="nowrap">{speed(r.view.expectedPeak10Mps, unit)}</strong>
           </p>

@@ -1,12 +1,13 @@
 /**
- * Editing a level ladder: up to 8 rows of label, trigger (percent of load capacity, or a gust
- * in the chosen unit) and the action text the crew will read when the level is reached.
+ * Editing a level ladder: up to 8 rows of label, trigger (percent of load capacity, a gust
+ * in the chosen unit, or the chance of a percent of capacity within some minutes) and the action text the crew will read when the level is reached.
  * `readOnly`: the same ladder as a table, no inputs and no buttons, for a role that cannot
  * change it. With `configurations` (a structure's, design §2.5), each level can also name the
  * configuration its action moves the structure to: the board then offers the crew "Done: <name>".
  */
 import type { LevelRowDraft } from '../register/structureDraft.ts';
 import { speedUnitLabels, type SpeedUnit } from '../units.ts';
+import { maxLevelLabelLength, maxTextLength } from '../../../server/engine/limits.ts';
 import { LevelShape, levelTone } from './levelBadge.tsx';
 
 const maxLevels = 8;
@@ -28,7 +29,7 @@ export function LevelsEditor(props: {
   const configurations = props.configurations ?? [];
   if (props.readOnly) return <LevelsReadOnly levels={levels} unit={unit} gustsText={props.gustsText} />;
   const set = (i: number, patch: Partial<LevelRowDraft>) => props.onChange(levels.map((l, j) => (j === i ? { ...l, ...patch } : l)));
-  const err = (i: number, k: string) => props.errors.get(`levels.${i}.${k}`) ?? (k === 'trigger' ? (props.errors.get(`levels.${i}.trigger.fraction`) ?? props.errors.get(`levels.${i}.trigger.gustMps`)) : undefined);
+  const err = (i: number, k: string) => props.errors.get(`levels.${i}.${k}`) ?? (k === 'trigger' ? (props.errors.get(`levels.${i}.trigger.fraction`) ?? props.errors.get(`levels.${i}.trigger.gustMps`) ?? props.errors.get(`levels.${i}.trigger.kind`)) : undefined);
   return (
     <div class="levels-editor">
       {props.errors.get('levels') ? <p class="field-error">{props.errors.get('levels')}</p> : null}
@@ -45,7 +46,7 @@ export function LevelsEditor(props: {
             <div class="grid2">
               <div class={`field${lErr ? ' has-error' : ''}`}>
                 <label for={`${id}-label`}>Label</label>
-                <input id={`${id}-label`} maxLength={60} value={l.label} onInput={(e) => set(i, { label: e.currentTarget.value })} />
+                <input id={`${id}-label`} maxLength={maxLevelLabelLength} value={l.label} onInput={(e) => set(i, { label: e.currentTarget.value })} />
                 {lErr ? <p class="field-error">{lErr}</p> : null}
               </div>
               <div class={`field${tErr ? ' has-error' : ''}`}>
@@ -55,15 +56,21 @@ export function LevelsEditor(props: {
                   <select aria-label={`Level ${i + 1} trigger kind`} value={l.kind} onChange={(e) => set(i, { kind: e.currentTarget.value as LevelRowDraft['kind'] })}>
                     <option value="utilization">% of capacity</option>
                     <option value="gust">{speedUnitLabels[unit]} gust</option>
+                    <option value="chance">chance of %</option>
                   </select>
                 </div>
                 {tErr ? <p class="field-error">{tErr}</p> : null}
-                <p class="help">Percent of load capacity (60 means the governing utilization reaches 0.6), or a gust at the structure (e.g. from the manufacturer’s sheet).</p>
+                <p class="help">
+                  {l.kind === 'chance'
+                    ? 'The level rises when the estimated chance that the gust reaches this percent of load capacity (100 is the limit) within the minutes below is over the chance below. An estimate: the measured gust reaching it raises the level too.'
+                    : 'Percent of load capacity (60 means the governing utilization reaches 0.6), or a gust at the structure (e.g. from the manufacturer’s sheet).'}
+                </p>
               </div>
             </div>
+            {l.kind === 'chance' ? <ChanceFields id={id} level={l} onChange={(patch) => set(i, patch)} errors={{ minutes: err(i, 'trigger.withinMinutes'), chance: err(i, 'trigger.probability') }} /> : null}
             <div class={`field wide${err(i, 'actionText') ? ' has-error' : ''}`}>
               <label for={`${id}-action`}>Action the crew reads</label>
-              <textarea id={`${id}-action`} rows={3} maxLength={2000} value={l.actionText} onInput={(e) => set(i, { actionText: e.currentTarget.value })} />
+              <textarea id={`${id}-action`} rows={3} maxLength={maxTextLength} value={l.actionText} onInput={(e) => set(i, { actionText: e.currentTarget.value })} />
               {err(i, 'actionText') ? <p class="field-error">{err(i, 'actionText')}</p> : null}
             </div>
             {configurations.length > 0 || (l.moveToConfiguration ?? '') !== '' ? (
@@ -85,6 +92,32 @@ export function LevelsEditor(props: {
       </button>
     </div>
   );
+}
+
+/** A chance trigger's horizon and chance (levels/levelDefinition.ts: 1-180 minutes, a chance in (0, 100) %). */
+function ChanceFields(props: { id: string; level: LevelRowDraft; onChange: (patch: Partial<LevelRowDraft>) => void; errors: { minutes: string | undefined; chance: string | undefined } }) {
+  const { id, level, errors } = props;
+  return (
+    <div class="grid2 chance-fields">
+      <div class={`field${errors.minutes ? ' has-error' : ''}`}>
+        <label for={`${id}-within`}>Within (minutes)</label>
+        <input id={`${id}-within`} inputMode="numeric" value={level.withinMinutes ?? ''} onInput={(e) => props.onChange({ withinMinutes: e.currentTarget.value })} />
+        {errors.minutes ? <p class="field-error">{errors.minutes}</p> : null}
+        <p class="help">How far ahead, 1 to 180 minutes: the time the action takes and a margin (lowering a screen, clearing a tent).</p>
+      </div>
+      <div class={`field${errors.chance ? ' has-error' : ''}`}>
+        <label for={`${id}-chance`}>When the chance is over (%)</label>
+        <input id={`${id}-chance`} inputMode="decimal" value={level.chancePct ?? ''} onInput={(e) => props.onChange({ chancePct: e.currentTarget.value })} />
+        {errors.chance ? <p class="field-error">{errors.chance}</p> : null}
+        <p class="help">It falls back only when the chance stays under this less the site’s dead band for the hold time, as a gust does.</p>
+      </div>
+    </div>
+  );
+}
+
+/** A chance trigger in words: "a 20 % chance of 100 % of load capacity within 30 min". */
+export function chanceTriggerWords(capacityPct: string, withinMinutes: string, chancePct: string): string {
+  return `a chance over ${chancePct || "?"}\u00a0% of ${capacityPct || "?"}\u00a0% of load capacity within ${withinMinutes || "?"}\u00a0min (estimate)`;
 }
 
 /**
@@ -136,7 +169,7 @@ function LevelsReadOnly({ levels, unit, gustsText }: { levels: LevelRowDraft[]; 
             </th>
             <td>
               <span class="reached">Reached at </span>
-              {l.kind === 'utilization' ? `${l.value}\u00a0% of load capacity` : `a gust of ${l.value} ${speedUnitLabels[unit]}`}
+              {l.kind === 'utilization' ? `${l.value}\u00a0% of load capacity` : l.kind === 'chance' ? chanceTriggerWords(l.value, l.withinMinutes ?? '', l.chancePct ?? '') : `a gust of ${l.value} ${speedUnitLabels[unit]}`}
               {gustsText?.[i] ? <span class="muted small"> — {gustsText[i]} here</span> : null}
             </td>
             <td class="action-cell">

@@ -18,6 +18,7 @@ export interface LevelRow {
 }
 
 export function triggerText(t: LevelTrigger, unit: SpeedUnit): string {
+  if (t.kind === 'chance') return `a chance over ${Math.round(t.probability * 1000) / 10}\u00a0% of ${Math.round(t.fraction * 100)}\u00a0% of load capacity within ${t.withinMinutes}\u00a0min (an estimate; the gust above raises it in any case)`;
   return t.kind === 'utilization' ? `${Math.round(t.fraction * 100)}\u00a0% of load capacity` : `gust of ${speed(t.gustMps, unit)} (set directly)`;
 }
 

@@ -21,6 +21,7 @@ import { useState } from 'preact/hooks';
 import { windWords } from '../../../server/engine/caseWords.ts';
 import type { Criterion, Edge } from '../../../server/engine/stability.ts';
 import type { AssessAnswer, StructureKind } from '../types.ts';
+import { kindForms, type KindForm } from '../register/kinds/index.ts';
 import { kiloNewtons } from '../units.ts';
 import { placeLabels, spreadAlong, spreadInRows, textWidth, type Box } from './labelLayout.ts';
 import { faceForce, faceSide, facingOf, massGroupText, sideLabel, type Face, type Mass, type MassGroup } from './structureGeometry.ts';
@@ -38,30 +39,14 @@ const maxArrowPx = 84;
 /** Labels that stand on the ground whatever levels the record gives. */
 const standsOnGround = /\b(towers?|legs?|masts?|poles?|posts?|uprights?)\b/i;
 
-function num(v: unknown): number | null {
-  return typeof v === 'number' && Number.isFinite(v) ? v : null;
+/** The kind's drawing data (register/kinds/<kind>.ts), or null for a record without a known kind. */
+function kindFormOf(record: Readonly<Record<string, unknown>>): KindForm | null {
+  return typeof record.kind === 'string' && Object.hasOwn(kindForms, record.kind) ? kindForms[record.kind as StructureKind] : null;
 }
 
-/** Heights the record gives where a face may start (above the ground), m. */
+/** Heights the record gives where a face may start (above the ground), m: the kind's `faceLevelsM`. */
 function recordLevelsM(record: Record<string, unknown>): number[] {
-  const levels: Array<number | null> = [];
-  switch (record.kind) {
-    case 'tent':
-      levels.push(num(record.eaveHeightM));
-      break;
-    case 'banner':
-      levels.push(num(record.clearanceM));
-      break;
-    case 'screen': {
-      const bottom = num(record.bottomHeightM);
-      const height = num(record.heightM);
-      levels.push(bottom, bottom !== null && height !== null ? bottom + height : null);
-      break;
-    }
-    case 'shell':
-      levels.push(num(record.baseHeightM));
-      break;
-  }
+  const levels = kindFormOf(record)?.faceLevelsM(record) ?? [];
   return levels.filter((v): v is number => v !== null && v > 0);
 }
 
@@ -337,19 +322,8 @@ function SideDrawing({ answer, record, part, frontAzimuthDeg }: { answer: Assess
       )[0]!
     : null;
   // ---- outline of the kind, for recognition (behind the faces) ----
-  let outline: string | null = null;
-  if (!part.element && record.kind === 'tent') {
-    const eave = num(record.eaveHeightM) ?? 0;
-    const ridge = num(record.ridgeHeightM) ?? eave;
-    outline = axis === 'x' ? `M${U(0)} ${Y(0)} V${Y(eave)} L${U(spanM / 2)} ${Y(ridge)} L${U(spanM)} ${Y(eave)} V${Y(0)} Z` : `M${U(0)} ${Y(0)} V${Y(ridge)} H${U(spanM)} V${Y(0)} Z`;
-  } else if (!part.element && record.kind === 'shell') {
-    const base = num(record.baseHeightM) ?? 0;
-    const r = Math.min(num(record.radiusM) ?? spanM, axis === 'x' ? spanM : spanM / 2);
-    outline =
-      axis === 'x'
-        ? `M${U(0)} ${Y(base)} V${Y(base + r)} A${r * scale} ${r * scale} 0 0 1 ${U(r)} ${Y(base)} Z`
-        : `M${U(spanM / 2 - r)} ${Y(base)} A${r * scale} ${r * scale} 0 0 1 ${U(spanM / 2 + r)} ${Y(base)} Z`;
-  }
+  // The kind's own (register/kinds/<kind>.ts `sideOutline`: a tent's gable, a shell's curve), for the whole structure only.
+  const outline: string | null = part.element ? null : (kindFormOf(record)?.sideOutline?.(record, { axis, spanM, u: U, y: Y, scale }) ?? null);
 
   const seenFrom = axis === 'x' ? 'across the depth, front on the left' : 'along the width, the y = 0 end on the left';
   return (

@@ -11,6 +11,7 @@
  */
 import { commonFields, faceColumns, kindFields, massColumns, type FieldDef } from './kindFields.ts';
 import type { StructureKind } from '../types.ts';
+import { kindForms } from './kinds/index.ts';
 
 /** The id of a kind field's control (structureForm.tsx builds it the same way). */
 export const fieldControlId = (path: string): string => `sf-${path.replace(/\./g, '-')}`;
@@ -120,15 +121,6 @@ export function issueFields(issues: Iterable<readonly [string, string]>, kind: S
   return out;
 }
 
-/** What the base width is called on each kind's form, for "the y = baseWidthM end". */
-const baseWidthWords: Readonly<Record<StructureKind, string>> = {
-  tent: 'length',
-  banner: 'length of the run',
-  screen: 'tower spacing',
-  shell: 'base width',
-  custom: 'base width',
-};
-
 const escapeRegExp = (s: string) => s.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
 
 /** Field-name tokens of a kind and their labels, longest first so "coefficients.wallCf" wins over "wallCf". */
@@ -146,7 +138,8 @@ function tokenLabels(kind: StructureKind): Array<[RegExp, string]> {
     if (last !== f.path && fields.filter((g) => g.path.split('.').at(-1) === last).length === 1) add(last, f.label);
   }
   for (const [path, [label]] of Object.entries(placementFields)) add(path, label);
-  if (kind === 'custom') {
+  // A kind whose faces and masses are the form's rows (register/kinds/custom.ts) names their columns too.
+  if (kindForms[kind].editor === 'rows') {
     for (const c of faceColumns) add(c.key, `face ${c.label.toLowerCase()}`);
     for (const c of massColumns) if (!pairs.has(c.key)) add(c.key, `mass ${c.label.toLowerCase()}`);
   }
@@ -165,7 +158,7 @@ const cache = new Map<StructureKind, Array<[RegExp, string]>>();
  * @example formWords('Give referenceHeightM.', 'custom') // → 'Give “Reference height”.'
  */
 export function formWords(text: string, kind: StructureKind): string {
-  let out = text.replace(/y = lengthM\b/g, 'y = length').replace(/y = baseWidthM\b/g, `y = ${baseWidthWords[kind]}`);
+  let out = text.replace(/y = lengthM\b/g, 'y = length').replace(/y = baseWidthM\b/g, `y = ${kindForms[kind].baseWidthWords}`);
   if (!/[a-z][A-Z]|[a-z]\.[a-z]/.test(out)) return out;
   let tokens = cache.get(kind);
   if (!tokens) cache.set(kind, (tokens = tokenLabels(kind)));

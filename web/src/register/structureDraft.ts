@@ -13,6 +13,7 @@
 import type { LevelConfigurationField, LevelDefinition, StructureKind, StructureView } from '../types.ts';
 import { mpsToSpeed, speedToMps, type SpeedUnit } from '../units.ts';
 import { commonFields, groupLabels, kindFields, unchangeableByConfiguration, type FieldDef } from './kindFields.ts';
+import { kindForms } from './kinds/index.ts';
 
 export interface FaceRow {
   label: string;
@@ -49,9 +50,12 @@ export const emptyMassRow = (): MassRow => ({ label: '', massKg: '', xM: '', yM:
 const emptyUplift = (): UpliftDraft => ({ planAreaM2: '', liftCoefficient: '', xM: '', yM: '' });
 export interface LevelRowDraft {
   label: string;
-  kind: 'utilization' | 'gust';
-  /** Percent of capacity, or a gust in the person's unit. */
+  kind: 'utilization' | 'gust' | 'chance';
+  /** Percent of capacity (a utilization or chance trigger), or a gust in the person's unit. */
   value: string;
+  /** A chance trigger's horizon, minutes, and the chance in percent above which the level rises. */
+  withinMinutes?: string;
+  chancePct?: string;
   actionText: string;
   /** The configuration the level's action moves the structure to (a name of the record's configurations); empty or absent: none. */
   moveToConfiguration?: string;
@@ -117,7 +121,8 @@ export function levelsToDraft(levels: readonly LevelDefinition[], unit: SpeedUni
   return levels.map((l) => ({
     label: l.label,
     kind: l.trigger.kind,
-    value: l.trigger.kind === 'utilization' ? String(Math.round(l.trigger.fraction * 1000) / 10) : roundSpeed(mpsToSpeed(l.trigger.gustMps, unit)),
+    value: l.trigger.kind === 'gust' ? roundSpeed(mpsToSpeed(l.trigger.gustMps, unit)) : String(Math.round(l.trigger.fraction * 1000) / 10),
+    ...(l.trigger.kind === 'chance' ? { withinMinutes: String(l.trigger.withinMinutes), chancePct: String(Math.round(l.trigger.probability * 1000) / 10) } : {}),
     actionText: l.actionText,
     moveToConfiguration: (l as LevelDefinition & LevelConfigurationField).moveToConfiguration ?? '',
   }));
@@ -163,9 +168,6 @@ export function switchKind(d: Draft, kind: StructureKind, siteLevels: readonly L
   return { ...d, kind, values: kept, configurations };
 }
 
-/** The tent's four side fields (kindFields.ts), filled from `wallsClosed` when a record gives that instead. */
-const tentSidePaths = ['sides.front', 'sides.back', 'sides.endY0', 'sides.endYW'] as const;
-
 function getPath(obj: unknown, path: string): unknown {
   return path.split('.').reduce<unknown>((o, k) => (o !== null && typeof o === 'object' ? (o as Record<string, unknown>)[k] : undefined), obj);
 }
@@ -194,13 +196,10 @@ export function draftFromView(view: StructureView, siteLevels: readonly LevelDef
       d.loadedSpeeds[f.path] = [text, v];
     } else d.values[f.path] = String(v);
   }
-  if (view.record.kind === 'tent' && view.record.wallsClosed !== undefined) {
-    // A record with `wallsClosed` (all sides at once): each side it does not list takes that state.
-    const state = view.record.wallsClosed ? 'closed' : 'open';
-    for (const side of tentSidePaths) d.values[side] ??= state;
-  }
-  if (view.record.kind === 'custom') {
-    const r = view.record;
+  // What the kind reads its own way (a tent's `wallsClosed` as its four sides: register/kinds/tent.ts).
+  kindForms[d.kind].loadValues?.(record, d.values);
+  if (kindForms[d.kind].editor === 'rows') {
+    const r = view.record as unknown as RowsRecord;
     const text = (v: number | undefined): string => (v === undefined ? '' : String(v));
     d.faces = faceRowsOf(r.faces);
     d.masses = r.masses.map((m) => ({ label: m.label ?? '', massKg: String(m.massKg), xM: String(m.xM), yM: text(m.yM) }));
@@ -221,6 +220,9 @@ export function draftFromView(view: StructureView, siteLevels: readonly LevelDef
   d.configurations = (view.record.configurations ?? []).map((c) => configurationFromRecord(view.record as unknown as Record<string, unknown>, c.name, c.changes, unit));
   return d;
 }
+
+/** A record whose faces, masses and uplift are the form's rows (a kind with `editor: 'rows'`: register/kinds/custom.ts). */
+type RowsRecord = Pick<Extract<StructureView['record'], { faces: unknown; masses: unknown }>, 'faces' | 'masses' | 'uplift'>;
 
 /** A stored record's faces as form rows. */
 function faceRowsOf(faces: ReadonlyArray<{ label?: string; areaM2: number; centroidHeightM: number; cfFront: number; cfBack: number; facingDeg?: number }>): FaceRow[] {
@@ -258,17 +260,6 @@ function rowNumber(text: string | undefined, path: string, issues: LocalIssues, 
     return undefined;
   }
   return numberOrText(text!, path, issues);
-}
-
-/**
- * A fence's run, asked for before the server is: the engine's layout check (kinds/banner.ts) only
- * runs once every number is there, so an empty form would not say that the panels are needed.
- * The panel width and count are the way in; the run's length and the feet are the alternatives.
- */
-function bannerRunIssues(values: Readonly<Record<string, string>>, issues: LocalIssues): void {
-  const given = (path: string) => (values[path] ?? '').trim() !== '';
-  if (!given('panelWidthM') && !given('widthM')) issues.set('panelWidthM', 'is required, with the number of panels (or give the run’s length instead)');
-  if (!given('panels') && !given('feet') && !(given('panelWidthM') && given('widthM'))) issues.set('panels', 'is required: the number of panels (the feet follow: one at every joint and one at each end)');
 }
 
 /** Sets `target[key]` unless the value is undefined (an empty optional field is left out, not sent as null). */
@@ -313,8 +304,9 @@ export function draftRecord(d: Draft, unit: SpeedUnit, issues: LocalIssues = new
     }
     if (value !== undefined) setPath(record, f.path, value);
   }
-  if (d.kind === 'banner') bannerRunIssues(d.values, issues);
-  if (d.kind === 'custom') {
+  // The kind's own checks before the server's (a fence's panels: register/kinds/banner.ts).
+  kindForms[d.kind].localIssues?.(d.values, issues);
+  if (kindForms[d.kind].editor === 'rows') {
     record.faces = d.faces.map((f, i) => {
       const face: Record<string, unknown> = {};
       if (f.label.trim()) face.label = f.label.trim();
@@ -348,10 +340,16 @@ export function draftLevels(levels: readonly LevelRowDraft[], unit: SpeedUnit, i
   return levels.map((l, i) => {
     const n = typedNumber(l.value);
     if (n === undefined || Number.isNaN(n)) issues.set(`levels.${i}.trigger`, n === undefined ? 'is required' : 'must be a number');
-    const trigger =
-      l.kind === 'utilization'
-        ? { kind: 'utilization', fraction: n === undefined || Number.isNaN(n) ? l.value : n / 100 }
-        : { kind: 'gust', gustMps: n === undefined || Number.isNaN(n) ? l.value : speedToMps(n, unit) };
+    const asTyped = (v: number | undefined, text: string, scale: (x: number) => number): unknown => (v === undefined || Number.isNaN(v) ? text : scale(v));
+    let trigger: Record<string, unknown>;
+    if (l.kind === 'chance') {
+      const minutes = typedNumber(l.withinMinutes ?? '');
+      const pct = typedNumber(l.chancePct ?? '');
+      if (minutes === undefined || Number.isNaN(minutes)) issues.set(`levels.${i}.trigger.withinMinutes`, minutes === undefined ? 'is required' : 'must be a number');
+      if (pct === undefined || Number.isNaN(pct)) issues.set(`levels.${i}.trigger.probability`, pct === undefined ? 'is required' : 'must be a number');
+      trigger = { kind: 'chance', fraction: asTyped(n, l.value, (x) => x / 100), withinMinutes: asTyped(minutes, l.withinMinutes ?? '', (x) => x), probability: asTyped(pct, l.chancePct ?? '', (x) => x / 100) };
+    } else if (l.kind === 'utilization') trigger = { kind: 'utilization', fraction: asTyped(n, l.value, (x) => x / 100) };
+    else trigger = { kind: 'gust', gustMps: asTyped(n, l.value, (x) => speedToMps(x, unit)) };
     const moveTo = (l.moveToConfiguration ?? '').trim();
     return { label: l.label.trim(), trigger, actionText: l.actionText.trim(), ...(moveTo === '' ? {} : { moveToConfiguration: moveTo }) };
   });
@@ -455,7 +453,7 @@ export function configurableFields(kind: StructureKind): ConfigurableField[] {
     if (group) group.defs.push(def);
     else out.push({ field, label: def.path === field ? def.label : (groupLabels[field] ?? field), defs: [def] });
   }
-  if (kind === 'custom') out.unshift({ field: 'faces', label: groupLabels.faces!, defs: [] });
+  if (kindForms[kind].editor === 'rows') out.unshift({ field: 'faces', label: groupLabels.faces!, defs: [] });
   return out;
 }
 
@@ -503,8 +501,8 @@ export function configurationFromRecord(record: Readonly<Record<string, unknown>
   const groups = configurableFields(kind);
   const entries = Object.entries(changes);
   for (const [field, value] of entries) {
-    if (kind === 'tent' && field === 'wallsClosed') continue;
-    if (field === 'faces' && kind === 'custom' && Array.isArray(value)) {
+    if (kindForms[kind].changesReadElsewhere?.includes(field)) continue;
+    if (field === 'faces' && kindForms[kind].editor === 'rows' && Array.isArray(value)) {
       c.fields.push('faces');
       c.faces = faceRowsOf(value as Parameters<typeof faceRowsOf>[0]);
       continue;
@@ -527,16 +525,8 @@ export function configurationFromRecord(record: Readonly<Record<string, unknown>
       } else c.values[def.path] = String(v);
     }
   }
-  if (kind === 'tent' && ('wallsClosed' in changes || 'sides' in changes)) {
-    const sides = ('sides' in changes ? changes.sides : record.sides) as Partial<Record<string, string>> | null | undefined;
-    const wallsClosed = ('wallsClosed' in changes ? changes.wallsClosed : record.wallsClosed) as boolean | null | undefined;
-    const fallback = wallsClosed === undefined || wallsClosed === null ? undefined : wallsClosed ? 'closed' : 'open';
-    if (!c.fields.includes('sides')) c.fields.push('sides');
-    for (const path of tentSidePaths) {
-      const state = sides?.[path.slice('sides.'.length)] ?? fallback;
-      if (state !== undefined) c.values[path] = state;
-    }
-  }
+  // What the kind reads its own way (a tent's `wallsClosed` as its four sides: register/kinds/tent.ts).
+  kindForms[kind].loadChanges?.(record, changes, c);
   return c;
 }
 

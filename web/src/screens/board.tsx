@@ -26,7 +26,8 @@ import { boardSummary, sensorTrouble as sensorTroubleKind, summaryText } from '.
 import { Caution } from '../components/caution.tsx';
 import { NotifyHealthLine } from '../components/notifyHealth.tsx';
 import { ConfigurationLineView } from '../components/configurationLine.tsx';
-import { ForesightStrip } from '../components/foresightView.tsx';
+import { EstimateTag, ForesightStrip } from '../components/foresightView.tsx';
+import { chanceRiseOf } from '../../../server/levels/alertWords.ts';
 import { PlanActionDone, PlanActionStatus } from '../components/planAction.tsx';
 import { alertAction } from '../configurationState.ts';
 import { useNow } from '../components/clock.ts';
@@ -43,6 +44,7 @@ import { site, useTimeZone } from '../site.ts';
 import { useStore } from '../store.ts';
 import type { OpenAlert, SensorState, StructureState } from '../types.ts';
 import { beaufortText, clockTime, compassPoint, duration, hourMinute, speed, speedNumber, speedUnitLabels, unitSpace } from '../units.ts';
+import { maxTextLength } from '../../../server/engine/limits.ts';
 
 /**
  * A reading older than its sensor's own silence timeout is flagged on the board by the phone
@@ -293,7 +295,7 @@ function AckAll({ subject, alerts, noun, idBase }: { subject: { structureId: num
       {alerts.length > 0 && noteOpen ? (
         <div class="ack-form">
           <label for={`note-${idBase}`}>Note (optional): what you did or saw</label>
-          <textarea id={`note-${idBase}`} rows={2} maxLength={2000} value={note} onInput={(e) => setNote(e.currentTarget.value)} />
+          <textarea id={`note-${idBase}`} rows={2} maxLength={maxTextLength} value={note} onInput={(e) => setNote(e.currentTarget.value)} />
         </div>
       ) : null}
       {alerts.length > 0 ? (
@@ -389,6 +391,7 @@ export function StructureAlertCard({ g }: { g: StructureAlertGroup }) {
         <div class="current-level">
           {c.noData ? <p class="alert-kept">Level kept until readings return: {levelName}</p> : null}
           <p class="alert-action">{c.actionText ?? current?.actionText ?? ''}</p>
+          {current && chanceRiseOf(current.actionText) !== null ? <p class="alert-estimate" data-testid="alert-estimate"><EstimateTag /> {chanceRiseOf(current.actionText)}</p> : null}
           <p class="alert-meta">
             {current ? (
               <>

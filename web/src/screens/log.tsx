@@ -675,7 +675,10 @@ export function utilizationBands(structures: StructureLog[], maxPct: number): Ba
   const limit: Band = { scale: 'pct', from: 100, to: maxPct * 1.1, colorVar: '--l3', label: 'Limit 100 %', legend: 'Limit: 100 % of capacity' };
   // A retired structure has no levels now: the lines are those of the structures still registered.
   const current = structures.filter((s) => s.live !== null && s.live.levels.length > 0);
-  const ladders = current.map((s) => s.live!.levels.map((l) => (l.trigger.kind === 'utilization' ? `${l.level}|${l.label}|${Math.round(l.trigger.fraction * 1000)}` : null)));
+  // A level on a chance (design §2.7) rises at its fraction by measurement too, so it shares the
+  // line of a level at that fraction; the legend names the structures where it may rise sooner.
+  const fractionOf = (t: { kind: string; fraction?: number }): number | null => (t.kind === 'utilization' || t.kind === 'chance' ? (t.fraction ?? null) : null);
+  const ladders = current.map((s) => s.live!.levels.map((l) => { const f = fractionOf(l.trigger); return f === null ? null : `${l.level}|${l.label}|${Math.round(f * 1000)}`; }));
   const first = ladders[0];
   const shared = first !== undefined && first.every((x) => x !== null) && ladders.every((l) => l.join() === first.join());
   if (!shared) return [limit];
@@ -683,12 +686,16 @@ export function utilizationBands(structures: StructureLog[], maxPct: number): Ba
   const n = levels.length;
   const bands: Band[] = [];
   levels.forEach((l, i) => {
-    if (l.trigger.kind !== 'utilization') return;
-    const fromPct = l.trigger.fraction * 100;
+    const fraction = fractionOf(l.trigger);
+    if (fraction === null) return;
+    const fromPct = fraction * 100;
     if (fromPct >= 100) return;
     const next = levels[i + 1];
-    const toPct = next && next.trigger.kind === 'utilization' ? Math.min(100, next.trigger.fraction * 100) : 100;
-    bands.push({ scale: 'pct', from: fromPct, to: toPct, colorVar: `--${levelTone(l.level, n)}`, label: `${l.level} · ${l.label} ${Math.round(fromPct)} %`, legend: `Level ${l.level} · ${l.label}: from ${Math.round(fromPct)} % of capacity (levels as set now)` });
+    const nextFraction = next ? fractionOf(next.trigger) : null;
+    const toPct = nextFraction !== null ? Math.min(100, nextFraction * 100) : 100;
+    const onChance = current.filter((s) => s.live!.levels[i]?.trigger.kind === 'chance').map((s) => s.structure.name);
+    const sooner = onChance.length === 0 ? '' : `, or sooner on its estimated chance at ${onChance.join(', ')}`;
+    bands.push({ scale: 'pct', from: fromPct, to: toPct, colorVar: `--${levelTone(l.level, n)}`, label: `${l.level} · ${l.label} ${Math.round(fromPct)} %`, legend: `Level ${l.level} · ${l.label}: from ${Math.round(fromPct)} % of capacity${sooner} (levels as set now)` });
   });
   return [...bands, limit];
 }

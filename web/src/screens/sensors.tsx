@@ -20,7 +20,7 @@ import { useStore } from '../store.ts';
 import type { BrokerRefusal, GatewayView, RefusalReason, RefusalsAnswer, RejectionCount, SensorView } from '../types.ts';
 import { beaufortText, clockTime, dateTime, duration, longDate, speedUnitLabels, speedUnits, type SpeedUnit } from '../units.ts';
 import { plainMessage, typedNumber } from '../register/structureDraft.ts';
-import { isBelowMinimumHeight, terrainCategories, terrainParameters, type TerrainCategory } from '../../../server/engine/windProfile.ts';
+import { isBelowMinimumHeight, profileMaximumHeightM, terrainCategories, terrainParameters, type TerrainCategory } from '../../../server/engine/windProfile.ts';
 
 export function Sensors() {
   const canEdit = may(useStore(session), 'competent-person');
@@ -372,7 +372,7 @@ function SensorForm({ sensor, onDone }: { sensor: SensorView | null; onDone: () 
   const terrain = siteSettings && (terrainCategories as readonly string[]).includes(siteSettings.terrainCategory) ? (siteSettings.terrainCategory as TerrainCategory) : null;
   const typedHeight = typedNumber(f.heightM);
   const mastTooLow =
-    terrain !== null && typedHeight !== undefined && Number.isFinite(typedHeight) && typedHeight > 0 && typedHeight <= 200 && isBelowMinimumHeight(typedHeight, terrain);
+    terrain !== null && typedHeight !== undefined && Number.isFinite(typedHeight) && typedHeight > 0 && typedHeight <= profileMaximumHeightM && isBelowMinimumHeight(typedHeight, terrain);
 
   const save = async (e: Event) => {
     e.preventDefault();

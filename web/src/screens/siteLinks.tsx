@@ -12,6 +12,7 @@ import { ScanCode } from '../components/scanCode.tsx';
 import { useTimeZone } from '../site.ts';
 import type { LinkAddress, SiteLink } from '../types.ts';
 import { dateTime } from '../units.ts';
+import { maxNameLength } from '../../../server/engine/limits.ts';
 import { typedNumber } from '../register/structureDraft.ts';
 
 export function SiteLinks() {
@@ -96,7 +97,7 @@ export function SiteLinks() {
         <h2>Make a link</h2>
         <div class="grid2">
           <Field id="sl-label" label="For whom" help="E.g. “Gate stewards, Saturday”. Shown in the audit trail.">
-            <input id="sl-label" maxLength={100} value={label} onInput={(e) => setLabel(e.currentTarget.value)} />
+            <input id="sl-label" maxLength={maxNameLength} value={label} onInput={(e) => setLabel(e.currentTarget.value)} />
           </Field>
           <Field id="sl-hours" label="Valid for" unit="hours" help="At most 744 h (31 days). Default 72 h.">
             <input id="sl-hours" inputMode="decimal" value={hours} onInput={(e) => setHours(e.currentTarget.value)} />

@@ -20,6 +20,7 @@ import { refreshSnapshot } from '../live.ts';
 import { useStore } from '../store.ts';
 import type { SiteView } from '../types.ts';
 import { dateTime, quantity, type SpeedUnit } from '../units.ts';
+import { fixedAirDensityRangeKgM3, maxSiteNameLength } from '../../../server/engine/limits.ts';
 
 interface SiteDraft {
   name: string;
@@ -228,7 +229,7 @@ export function SiteSettings() {
           <h2>The site</h2>
           <div class="grid2">
             <Field id="st-name" label="Site name" error={e('name')}>
-              <input id="st-name" value={d.name} maxLength={120} onInput={(ev) => set({ name: ev.currentTarget.value })} />
+              <input id="st-name" value={d.name} maxLength={maxSiteNameLength} onInput={(ev) => set({ name: ev.currentTarget.value })} />
             </Field>
             <Field id="st-tz" label="Time zone" error={e('timeZone')} help="IANA name, e.g. Europe/London. Days in the log and times on every screen are in this zone.">
               <input id="st-tz" value={d.timeZone} onInput={(ev) => set({ timeZone: ev.currentTarget.value })} />
@@ -260,7 +261,7 @@ export function SiteSettings() {
                 <option value="fixed">fixed value</option>
               </select>
             </Field>
-            <Field id="st-fixed" label="Fixed air density" unit="kg/m³" error={e('fixedAirDensityKgM3')} help="Used only with “fixed value”; 0.9–1.5.">
+            <Field id="st-fixed" label="Fixed air density" unit="kg/m³" error={e('fixedAirDensityKgM3')} help={`Used only with “fixed value”; ${fixedAirDensityRangeKgM3.min}–${fixedAirDensityRangeKgM3.max}.`}>
               <input id="st-fixed" inputMode="decimal" value={d.fixedAirDensityKgM3} onInput={(ev) => set({ fixedAirDensityKgM3: ev.currentTarget.value })} />
             </Field>
           </div>

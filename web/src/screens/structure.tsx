@@ -27,6 +27,7 @@ import { useTimeZone } from '../site.ts';
 import { useStore } from '../store.ts';
 import type { AlertActionFields, AlertRow, AssessAnswer, StructureLog, StructureState, StructureWithLive } from '../types.ts';
 import { dateTime, duration, mpsToSpeed, percent, quantity, speed, speedUnitLabels, type SpeedUnit } from '../units.ts';
+import { maxPlausibleSpeedMps } from '../../../server/engine/limits.ts';
 import { levelTone } from '../components/levelBadge.tsx';
 
 const windows = [
@@ -248,8 +249,8 @@ export function StructurePage({ id }: { id: number }) {
 /** The gust the figures below are drawn at: the current one, or the limit when calm or unknown, m/s. */
 function figureGustMps(s: StructureState): { gustMps: number; atLimit: boolean } {
   const limit = [s.limitGustMps, s.allDirectionsLimitGustMps, s.calculatedLimitGustMps].find((v) => typeof v === 'number' && Number.isFinite(v) && v > 0);
-  if (!s.noData && s.gustMps !== null && s.gustMps >= 1) return { gustMps: Math.min(120, s.gustMps), atLimit: false };
-  return { gustMps: Math.min(120, limit ?? 20), atLimit: true };
+  if (!s.noData && s.gustMps !== null && s.gustMps >= 1) return { gustMps: Math.min(maxPlausibleSpeedMps, s.gustMps), atLimit: false };
+  return { gustMps: Math.min(maxPlausibleSpeedMps, limit ?? 20), atLimit: true };
 }
 
 /**

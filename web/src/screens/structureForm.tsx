@@ -20,11 +20,13 @@ import { Caution } from '../components/caution.tsx';
 import { described, Field } from '../components/field.tsx';
 import { ConfigurationsEditor } from '../components/configurationsEditor.tsx';
 import { LevelsEditor } from '../components/levelsEditor.tsx';
+import { triggerText } from '../components/levelsTable.tsx';
 import { DirectionsTable, ElementsList, Warnings } from '../components/assessmentSummary.tsx';
 import { PlanView } from '../components/planView.tsx';
 import { SideView } from '../components/sideView.tsx';
 import { faceColumns, kindFields, kindIntro, kindNames, massColumns, commonFields, panelPresets, panelPresetsSource, upliftColumns, type FieldDef } from '../register/kindFields.ts';
 import { fieldControlId, formWords, issueFields, type IssueField } from '../register/fieldWords.ts';
+import { formKinds, kindForms } from '../register/kinds/index.ts';
 import { bannerRun, draftFromView, draftInput, draftLevels, draftRecord, emptyFaceRow, emptyMassRow, newDraft, plainMessage, switchKind, typedNumber, type Draft } from '../register/structureDraft.ts';
 import { refreshSnapshot } from '../live.ts';
 import { prefs } from '../prefs.ts';
@@ -34,8 +36,10 @@ import { site, siteDensity } from '../site.ts';
 import { useStore } from '../store.ts';
 import type { AssessAnswer, SensorView, StructureKind, StructureWithLive } from '../types.ts';
 import { kiloNewtonMetres, kiloNewtons, mpsToSpeed, percent, quantity, speed, speedToMps, speedUnitLabels } from '../units.ts';
+import { maxLabelLength, maxPlausibleSpeedMps } from '../../../server/engine/limits.ts';
 
-const kinds: StructureKind[] = ['tent', 'banner', 'screen', 'shell', 'custom'];
+/** Every kind, in the form's order (register/kinds/index.ts). */
+const kinds = formKinds;
 /** Pause after the last keystroke before asking the calculator, ms. */
 const debounceMs = 350;
 
@@ -67,7 +71,7 @@ export function StructureForm({ id }: { id: number | null }) {
   // Load the structure (or start a new draft once the site's default levels are known).
   useEffect(() => {
     if (id === null) {
-      if (siteInfo && !draft) setDraft(newDraft('tent', siteLevels, unit));
+      if (siteInfo && !draft) setDraft(newDraft(formKinds[0]!, siteLevels, unit));
       return;
     }
     api<{ structure: StructureWithLive }>(`/api/structures/${id}`)
@@ -117,8 +121,8 @@ export function StructureForm({ id }: { id: number | null }) {
     const timer = setTimeout(() => {
       // The calculator needs a name; an unnamed draft is still worth calculating while typing.
       const structure = record.name === '' ? { ...record, name: 'unnamed' } : record;
-      const body: Record<string, unknown> = { structure, gustMps: Math.min(120, Math.max(0, checkGustMps)), levels: levelsForAssess };
-      if (checkGustMps > 0) body.designGustMps = Math.min(120, checkGustMps);
+      const body: Record<string, unknown> = { structure, gustMps: Math.min(maxPlausibleSpeedMps, Math.max(0, checkGustMps)), levels: levelsForAssess };
+      if (checkGustMps > 0) body.designGustMps = Math.min(maxPlausibleSpeedMps, checkGustMps);
       if (density !== null) body.airDensityKgM3 = density;
       if (frontAzimuthDeg !== null) body.frontAzimuthDeg = frontAzimuthDeg;
       api<AssessAnswer>('/api/assess', { body, signal: controller.signal })
@@ -295,7 +299,7 @@ export function StructureForm({ id }: { id: number | null }) {
   /** The check gust: at the top of the panel until there is an answer, then at the head of its numbers (the drawing comes first). */
   const checkField = (show: boolean) =>
     show ? (
-      <Field id="sf-check" label="Check gust at the structure" unit={speedUnitLabels[unit]} error={checkGustMps === null ? 'must be a number' : checkGustMps > 120 ? 'at most 120 m/s' : undefined} help="Loads and forces (in the drawing too) are at this gust; it is also the design gust for the extra ballast. Air density: the site’s current value.">
+      <Field id="sf-check" label="Check gust at the structure" unit={speedUnitLabels[unit]} error={checkGustMps === null ? 'must be a number' : checkGustMps > maxPlausibleSpeedMps ? `at most ${maxPlausibleSpeedMps} m/s` : undefined} help="Loads and forces (in the drawing too) are at this gust; it is also the design gust for the extra ballast. Air density: the site’s current value.">
             <input id="sf-check" inputMode="decimal" value={checkGust} onInput={(e) => setCheckGust(e.currentTarget.value)} />
           </Field>
     ) : null;
@@ -339,7 +343,7 @@ export function StructureForm({ id }: { id: number | null }) {
               <input
                 id="sf-name"
                 value={draft.name}
-                maxLength={200}
+                maxLength={maxLabelLength}
                 aria-describedby={described('sf-name', true, !!nameErr)}
                 onInput={(e) => {
                   touch('name');
@@ -351,7 +355,7 @@ export function StructureForm({ id }: { id: number | null }) {
 
           <section aria-labelledby="dims-h">
             <h2 id="dims-h">Dimensions, masses and coefficients</h2>
-            {draft.kind === 'banner' ? (
+            {kindForms[draft.kind].editor === 'fencePanels' ? (
               <FencePanels draft={draft} fieldInput={fieldInput} setValues={(values) => {
                 setTouched(new Set([...touched, ...Object.keys(values)]));
                 update({ values: { ...draft.values, ...values } });
@@ -360,11 +364,11 @@ export function StructureForm({ id }: { id: number | null }) {
             <div class="grid2">{mainFields(draft.kind).map(fieldInput)}</div>
             {alternativeFields(draft.kind).length > 0 ? (
               <details class="alt-fields" open={alternativeFields(draft.kind).some((f) => (draft.values[f.path] ?? '').trim() !== '')}>
-                <summary>Or give the run’s length, or feet that are not one per joint</summary>
+                <summary>{kindForms[draft.kind].alternativesSummary ?? 'Or give these instead'}</summary>
                 <div class="grid2">{alternativeFields(draft.kind).map(fieldInput)}</div>
               </details>
             ) : null}
-            {draft.kind === 'custom' ? <CustomRows draft={draft} update={update} errorFor={errorFor} touch={touch} /> : null}
+            {kindForms[draft.kind].editor === 'rows' ? <CustomRows draft={draft} update={update} errorFor={errorFor} touch={touch} /> : null}
           </section>
 
           <section aria-labelledby="res-h">
@@ -414,7 +418,7 @@ export function StructureForm({ id }: { id: number | null }) {
                     <strong>
                       {l.level} · {l.label}
                     </strong>
-                    : {l.trigger.kind === 'utilization' ? `${Math.round(l.trigger.fraction * 100)}\u00a0% of load capacity` : `gust ${speed(l.trigger.gustMps, unit)}`}
+                    : {l.trigger.kind === 'utilization' ? `${Math.round(l.trigger.fraction * 100)}\u00a0% of load capacity` : l.trigger.kind === 'chance' ? triggerText(l.trigger, unit) : `gust ${speed(l.trigger.gustMps, unit)}`}
                     {l.triggerGustMps !== null ? ` → reached at ${speed(l.triggerGustMps, unit)}` : ''}
                   </li>
                 ))}
@@ -447,7 +451,7 @@ export function StructureForm({ id }: { id: number | null }) {
                 />
               </Field>
               <Field id="sf-loc" label="Location on site" error={errorFor('location')} help="In words the crew know: “west lawn, by the bar”.">
-                <input id="sf-loc" maxLength={200} value={draft.location} onInput={(e) => update({ location: e.currentTarget.value })} />
+                <input id="sf-loc" maxLength={maxLabelLength} value={draft.location} onInput={(e) => update({ location: e.currentTarget.value })} />
               </Field>
               <Field id="sf-lat" label="Latitude" unit="°" error={errorFor('latDeg')} help="Optional, −90 to 90.">
                 <input id="sf-lat" inputMode="decimal" value={draft.latDeg} onInput={(e) => update({ latDeg: e.currentTarget.value })} />
@@ -659,9 +663,8 @@ function CalcStrip(props: { answer: AssessAnswer | null; attention: IssueField[]
   );
 }
 
-/** Kind fields shown in the main grid: not the fence's panel fields (FencePanels) nor the folded alternatives. */
-const mainFields = (kind: StructureKind): FieldDef[] =>
-  kindFields[kind].filter((f) => !f.alternative && !(kind === 'banner' && (f.path === 'panelWidthM' || f.path === 'panels')));
+/** Kind fields shown in the main grid: not those its editor shows (a fence's panel fields: FencePanels) nor the folded alternatives. */
+const mainFields = (kind: StructureKind): FieldDef[] => kindFields[kind].filter((f) => !f.alternative && !(kindForms[kind].editorFields ?? []).includes(f.path));
 const alternativeFields = (kind: StructureKind): FieldDef[] => kindFields[kind].filter((f) => f.alternative);
 
 /**
@@ -670,7 +673,7 @@ const alternativeFields = (kind: StructureKind): FieldDef[] => kindFields[kind].
  */
 function FencePanels(props: { draft: Draft; fieldInput: (f: FieldDef) => preact.JSX.Element; setValues: (values: Record<string, string>) => void }) {
   const { draft } = props;
-  const byPath = (path: string) => kindFields.banner.find((f) => f.path === path)!;
+  const byPath = (path: string) => kindFields[draft.kind].find((f) => f.path === path)!;
   const run = bannerRun(draft.values);
   const isOn = (p: (typeof panelPresets)[number]) => typedNumber(draft.values.panelWidthM ?? '') === p.panelWidthM && typedNumber(draft.values.heightM ?? '') === p.heightM;
   return (
