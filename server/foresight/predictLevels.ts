@@ -131,11 +131,14 @@ export function predictLevels(
       // over its p. A row with a gust and no mean cannot give σ: the ladder alone decides there.
       if (row.meanMps !== null && structure.chanceTriggers !== undefined && structure.chanceTriggers.length > 0) {
         const stats = summaryStatistics({ meanMps: Math.min(row.meanMps, gustMps), gustMps });
-        if (stats.status === 'known') {
-          const process = structureGustProcess(stats, structure.heightFactor);
-          for (const t of structure.chanceTriggers) {
-            if (t.level > level && chanceOfReaching({ ...process, thresholdMps: t.thresholdGustMps, durationS: t.withinMinutes * 60 }).probability > t.probability) level = t.level;
-          }
+        const process = stats.status === 'known' ? structureGustProcess(stats, structure.heightFactor) : null;
+        const meanAtStructureMps = row.meanMps * structure.heightFactor;
+        for (const t of structure.chanceTriggers) {
+          if (t.level <= level) continue;
+          // P = 1 when x ≤ U (Rice), whether or not σ follows from the row: a row whose gust is
+          // not above its mean gives no σ, yet a threshold at or below its mean is reached.
+          if (t.thresholdGustMps <= meanAtStructureMps) level = t.level;
+          else if (process !== null && chanceOfReaching({ ...process, thresholdMps: t.thresholdGustMps, durationS: t.withinMinutes * 60 }).probability > t.probability) level = t.level;
         }
       }
       return { structureId: structure.id, gustAtStructureMps, level };

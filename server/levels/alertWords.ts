@@ -76,6 +76,8 @@ export function escalationWords(
   fromLevel: number,
   toLevel: number,
   moveTarget: (name: string | undefined) => string | null,
+  /** True when the level rose on its chance trigger (the estimate), not on a measured gust. */
+  onEstimate = false,
 ): { label: string; actionText: string; moveTo: string | null } {
   const def = levels[toLevel - 1]!;
   const passed = levels.slice(Math.max(0, fromLevel), toLevel - 1).filter((l) => l.actionText.trim().length > 0 || l.moveToConfiguration !== undefined);
@@ -84,7 +86,7 @@ export function escalationWords(
   if (passed.length === 0) return { label: def.label, actionText: def.actionText, moveTo };
   const also = passed.map((l) => `${l.label}: ${l.actionText.trim() || `move it to "${l.moveToConfiguration}"`}`).join(' ');
   // The level's own action stays the first line (what e-mail, push and webhooks lead with).
-  return { label: def.label, actionText: `${def.actionText.trim()}${def.actionText.trim() ? '\n' : ''}The gust passed ${passed.map((l) => l.label).join(' and ')} at once; do their actions too. ${also}`, moveTo };
+  return { label: def.label, actionText: `${def.actionText.trim()}${def.actionText.trim() ? '\n' : ''}${onEstimate ? 'The estimate raised it past' : 'The gust passed'} ${passed.map((l) => l.label).join(' and ')} at once; do their actions too. ${also}`, moveTo };
 }
 
 /** A chance in an alert's words: whole percent, "< 1" and "> 99" at the ends (never 0 or 100). */

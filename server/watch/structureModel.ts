@@ -108,11 +108,13 @@ export function chanceThresholds(levels: ReadonlyArray<Pick<LevelDefinition, 'tr
  */
 export function triggerLadderMps(levels: readonly LevelDefinition[], limitGustMps: number): number[] {
   const limit = Number.isFinite(limitGustMps) ? Math.min(limitGustMps, maxPlausibleSpeedMps) : maxPlausibleSpeedMps;
-  const ladder = rawTriggerGustsMps(levels, limit).map((g) => (Number.isFinite(g) ? Math.min(g, limit) : limit));
+  // The 0.01 m/s floor comes before the lowering, so that two triggers under it (or a limit of
+  // 0) still give a strictly rising ladder: stepLevel refuses any other.
+  const ladder = rawTriggerGustsMps(levels, limit).map((g) => Math.max(Number.isFinite(g) ? Math.min(g, limit) : limit, 0.01));
   for (let i = ladder.length - 2; i >= 0; i--) {
     if (ladder[i]! >= ladder[i + 1]!) ladder[i] = ladder[i + 1]! * 0.999;
   }
-  return ladder.map((g) => Math.max(g, 0.01));
+  return ladder;
 }
 
 /**
@@ -151,7 +153,9 @@ export function densityDependent(model: StructureModel, airDensityKgM3: number, 
  */
 export function levelProblems(levels: readonly LevelDefinition[], limitGustMps: number): Array<{ index: number; field: 'fraction' | 'gustMps'; message: string }> {
   const problems: Array<{ index: number; field: 'fraction' | 'gustMps'; message: string }> = [];
-  const gusts = rawTriggerGustsMps(levels, limitGustMps);
+  // An unbounded limit (no wind reaches it) orders fractions as the ladder does, on the plausible
+  // range (`triggerLadderMps`): Infinity · √f would make every fraction level tie with the one below.
+  const gusts = rawTriggerGustsMps(levels, Number.isFinite(limitGustMps) ? limitGustMps : maxPlausibleSpeedMps);
   const outOfOrder = new Set(chanceAwareLevelOrder(levels, gusts));
   levels.forEach((level, index) => {
     const field = level.trigger.kind === 'gust' ? 'gustMps' : 'fraction';

@@ -639,8 +639,9 @@ export class Watch implements ReadingConsumer {
         this.record([{ type: 'level-changed', structureId: s.model.id, atMs: event.atMs, fromLevel: event.fromLevel, toLevel: event.toLevel, gustMps: event.gustMps, utilization, estimate }], batch, announcements);
         this.options.onNotice?.(`${s.model.name}: level ${event.fromLevel} → ${event.toLevel}`, { structureId: s.model.id, gustMps: event.gustMps });
         if (event.type === 'escalated') {
-          const words = escalationWords(s.model.levels, event.fromLevel, event.toLevel, (name) => this.moveTarget(s, name));
-          const actionText = words.actionText + this.chanceRise(s, event.toLevel, event.gustMps);
+          const onEstimate = this.chanceRise(s, event.toLevel, event.gustMps);
+          const words = escalationWords(s.model.levels, event.fromLevel, event.toLevel, (name) => this.moveTarget(s, name), onEstimate !== '');
+          const actionText = words.actionText + onEstimate;
           this.raise(batch, announcements, { kind: 'level', structureId: s.model.id, sensorId: null, sensorKey: null, level: event.toLevel, label: words.label, actionText, raisedAtMs: event.atMs, gustMps: event.gustMps, utilization, moveToConfiguration: words.moveTo, subject: s.model.name });
         } else {
           // Alerts of the levels left behind are cleared (their records stay until acknowledged).

@@ -89,4 +89,45 @@ describe('a level on a chance trigger, live', () => {
     const spellEndedMs = t0 + (7 + 12) * 60_000;
     expect(fall.atMs).toBeGreaterThanOrEqual(spellEndedMs + 15 * 60_000);
   });
+  it('a rise on the estimate past a gust level does not say the gust passed it', () => {
+    // Review case: "Watch" at a gust of 95 % of the limit, "Prepare" on the chance of the limit within
+    // 60 min over 5 %, "Take down" at the limit. Every gust stays under 0.9 × Watch's gust, so the
+    // estimate raises 0 → 2 past Watch; the alert said "The gust passed Watch at once", which no gust did.
+    const t0 = Date.UTC(2026, 7, 1, 12, 0, 0);
+    let now = t0;
+    const mast: RegisteredSensor = { id: 1, siteId: 1, key: 'quay-mast', name: 'Quay mast', heightM: 10, location: '', latDeg: null, lonDeg: null, unit: 'm/s', mode: 'samples', silenceTimeoutMs: 30_000, createdAtMs: t0, retiredAtMs: null };
+    const recordJson = { kind: 'custom', name: 'Quay banner', baseDepthM: 2, frictionCoefficient: 0.4, referenceHeightM: 10, faces: [{ areaM2: 8, centroidHeightM: 5, cfFront: 1.8, cfBack: 1.8 }], masses: [{ massKg: 4000, xM: 1 }], coefficientSource: 'EN 1991-1-4 7.4.3 signboard c_f 1.80' };
+    const structure = (levelsJson: unknown) => ({ id: 1, name: 'Quay banner', kind: 'custom', orientationDeg: 0, mobile: false, sensorKeysJson: null, levelsJson, recordJson });
+    const probe = new Watch({ hub: new LiveHub(1000), now: () => now });
+    probe.configure(testSite(), [mast], [structure([{ label: 'Take down', trigger: { kind: 'utilization', fraction: 1 }, actionText: '' }])]);
+    const limit = probe.structureStateById(1)!.limitGustMps;
+    const levels = [
+      { label: 'Watch', trigger: { kind: 'gust', gustMps: 0.95 * limit }, actionText: 'Tell the stage manager.' },
+      { label: 'Prepare', trigger: { kind: 'chance', fraction: 1, withinMinutes: 60, probability: 0.05 }, actionText: 'Bring the second ballast pallet to the banner.' },
+      { label: 'Take down', trigger: { kind: 'utilization', fraction: 1 }, actionText: 'Unclip the banner and roll it.' },
+    ];
+    const watch = new Watch({ hub: new LiveHub(1000), now: () => now });
+    watch.configure(testSite(), [mast], [structure(levels)]);
+    const ladder = watch.structureStateById(1)!.triggerGustsMps;
+    const random = seededRandom(11);
+    let wind = 0;
+    const raised: Array<{ level: number | null; actionText: string }> = [];
+    for (let i = 0; i < 19 * 60; i++) {
+      now += 1_000;
+      // The same seeded AR(1) wind as above: 7 min light, then 12 min gusty (mean 60 %, σ 12 % of the limit), held under 0.9 × Watch's gust.
+      const [meanMps, sigmaMps] = i < 7 * 60 ? [0.25 * limit, 0.04 * limit] : [0.6 * limit, 0.12 * limit];
+      wind = 0.8 * wind + 0.6 * sigmaMps * normal(random);
+      const speedMps = Math.min(0.9 * ladder[0]!, Math.max(0, meanMps + wind));
+      const step = watch.take(mast, [{ tsMs: now, speedMps, gustMps: null, dirDeg: 240, tempC: null, pressurePa: null, rhPct: null }], now);
+      for (const a of step?.batch.alerts ?? []) if (a.kind === 'level') raised.push({ level: a.level, actionText: a.actionText });
+      watch.tick();
+    }
+    expect(raised.map((a) => a.level)).toEqual([2]);
+    const text = raised[0]!.actionText;
+    expect(text).toMatch(/^Bring the second ballast pallet to the banner\./);
+    // Watch's action is still to do, and the words say the level rose past it on the estimate.
+    expect(text).toContain('Watch: Tell the stage manager.');
+    expect(text).not.toMatch(/gust passed/);
+    expect(text).toMatch(/Raised on the estimate, not a measured gust: a \d+ % chance of a gust of \d+\.\d m\/s within 60 min/);
+  });
 });

@@ -80,6 +80,42 @@ describe('chance trigger: order against the structure', () => {
     expect(problems[0]!.index).toBe(1);
     expect(problems[0]!.message).toMatch(/watches the chance of 50 % of capacity \(14\.1 m\/s/);
   });
+  it('orders fractions against an unbounded limit as the ladder does, instead of refusing them as tied at Infinity', () => {
+    // Review case: a structure no wind can overturn or slide in the model has limit Infinity; the ladder
+    // takes 120 m/s (the plausible range, design §3), 120·√0.5 = 84.85 < 120·√0.8 = 107.33 m/s, yet the
+    // check compared Infinity with Infinity and refused both a chance level and a utilization level.
+    for (const second of [{ kind: 'chance' as const, fraction: 0.8, withinMinutes: 30, probability: 0.2 }, { kind: 'utilization' as const, fraction: 0.8 }]) {
+      const levels = [{ label: 'Prepare', trigger: { kind: 'utilization' as const, fraction: 0.5 }, actionText: '' }, { label: 'Clear', trigger: second, actionText: '' }];
+      expect(levelProblems(levels, Infinity)).toEqual([]);
+      const l = triggerLadderMps(levels, Infinity);
+      expect(l[0]!).toBeCloseTo(84.853, 2);
+      expect(l[1]!).toBeCloseTo(107.331, 2);
+    }
+    // Still refused when out of order: 120·√0.4 = 75.9 m/s is not above 84.85 m/s.
+    expect(levelProblems([{ label: 'Prepare', trigger: { kind: 'utilization', fraction: 0.5 }, actionText: '' }, { label: 'Clear', trigger: { kind: 'chance', fraction: 0.4, withinMinutes: 30, probability: 0.2 }, actionText: '' }], Infinity)).toHaveLength(1);
+  });
+  it('a plan the checks accept gives a ladder the level machine takes, even with triggers under the 0.01 m/s floor', () => {
+    // Review case: gust triggers 0.004 and 0.008 m/s (the schema takes any gust > 0) and a chance on a
+    // fraction of 1e-8 (20·√1e-8 = 0.002 m/s) were both floored to 0.01, a ladder [0.01, 0.01] that
+    // stepLevel refuses (it must rise strictly, design §2.4), so every reading of the structure threw.
+    const tiny = [
+      [{ label: 'A', trigger: { kind: 'gust' as const, gustMps: 0.004 }, actionText: '' }, { label: 'B', trigger: { kind: 'gust' as const, gustMps: 0.008 }, actionText: '' }],
+      [{ label: 'A', trigger: { kind: 'chance' as const, fraction: 1e-8, withinMinutes: 30, probability: 0.2 }, actionText: '' }, { label: 'B', trigger: { kind: 'utilization' as const, fraction: 2e-8 }, actionText: '' }],
+    ];
+    for (const levels of tiny) {
+      expect(levelListSchema.safeParse(levels).success).toBe(true);
+      expect(levelProblems(levels, 20)).toEqual([]);
+      const l = triggerLadderMps(levels, 20);
+      expect(l[0]!).toBeLessThan(l[1]!);
+      expect(() => stepLevel(initialLevelState(t0), { nowMs: t0, gustMps: 5, triggerGustsMps: l }, params)).not.toThrow();
+    }
+    // A limit of 0 (engine/utilization.ts: an unbounded utilization, the structure past its limit in
+    // still air, e.g. in one sector of a directional assessment) put every fraction level at 0.01 m/s.
+    const atZero = triggerLadderMps(plan, 0);
+    expect(atZero[0]!).toBeLessThan(atZero[1]!);
+    expect(atZero[1]!).toBeLessThan(atZero[2]!);
+    expect(() => stepLevel(initialLevelState(t0), { nowMs: t0, gustMps: 5, triggerGustsMps: atZero }, params)).not.toThrow();
+  });
 });
 
 describe('chance trigger: the level machine', () => {
@@ -207,5 +243,17 @@ describe('chance trigger: the forecast check', () => {
     expect(predictLevels([rows[0]!], [{ ...structure, chanceTriggers: [] }])[0]!.levels[0]!.level).toBe(0);
     // A higher p than the chance: not predicted.
     expect(predictLevels([rows[0]!], [{ ...structure, chanceTriggers: [{ ...structure.chanceTriggers[0]!, probability: 0.5 }] }])[0]!.levels[0]!.level).toBe(0);
+  });
+  it('predicts a level on a chance whose threshold is at or below the hour’s mean, also when the gust gives no σ', async () => {
+    const { predictLevels } = await import('../../../server/foresight/index.ts');
+    // Review case: an hour of mean 15 m/s and gust 14 m/s (a gust not above its mean gives no σ,
+    // summaryStatistics.ts) against a threshold of 14.5 m/s: Rice's P = 1 when x ≤ U (issue 17's
+    // formula; S. O. Rice 1944–45) raises the level, where the gust alone (14 < 14.5) does not.
+    const structure = { id: 'quay-banner', triggerGustsMps: [14.5, 17.89, 20], heightFactor: 1, chanceTriggers: [{ level: 1, thresholdGustMps: 14.5, withinMinutes: 30, probability: 0.2 }] };
+    const row = { timeMs: t0, meanMps: 15, gustMps: 14 };
+    expect(predictLevels([row], [{ ...structure, chanceTriggers: [] }])[0]!.levels[0]!.level).toBe(0);
+    expect(predictLevels([row], [structure])[0]!.levels[0]!.level).toBe(1);
+    // Moved by the height factor as the gust is: at 0.9, U = 13.5 m/s at the structure, below x; no σ, so the ladder decides (12.6 < 14.5).
+    expect(predictLevels([row], [{ ...structure, heightFactor: 0.9 }])[0]!.levels[0]!.level).toBe(0);
   });
 });
