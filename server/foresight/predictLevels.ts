@@ -128,11 +128,13 @@ export function predictLevels(
       // A level on a chance: the hour's mean and gust give σ through Davenport's peak factor with
       // the stated default ν (foresight/summaryStatistics.ts, as for a sensor that sends summaries),
       // both moved to the structure by the height factor; the level is predicted when the chance is
-      // over its p. A row with a gust and no mean cannot give σ: the ladder alone decides there.
-      if (row.meanMps !== null && structure.chanceTriggers !== undefined && structure.chanceTriggers.length > 0) {
-        const stats = summaryStatistics({ meanMps: Math.min(row.meanMps, gustMps), gustMps });
+      // over its p. A row with a gust and no mean takes the mean as gust / 1.66 (the in-land gust
+      // factor, as a mean-only row takes its gust): the larger spread is the conservative side.
+      if (structure.chanceTriggers !== undefined && structure.chanceTriggers.length > 0) {
+        const meanMps = row.meanMps ?? gustMps / inlandGustFactor;
+        const stats = summaryStatistics({ meanMps: Math.min(meanMps, gustMps), gustMps });
         const process = stats.status === 'known' ? structureGustProcess(stats, structure.heightFactor) : null;
-        const meanAtStructureMps = row.meanMps * structure.heightFactor;
+        const meanAtStructureMps = meanMps * structure.heightFactor;
         for (const t of structure.chanceTriggers) {
           if (t.level <= level) continue;
           // P = 1 when x ≤ U (Rice), whether or not σ follows from the row: a row whose gust is

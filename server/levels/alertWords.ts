@@ -89,8 +89,8 @@ export function escalationWords(
   return { label: def.label, actionText: `${def.actionText.trim()}${def.actionText.trim() ? '\n' : ''}${onEstimate ? 'The estimate raised it past' : 'The gust passed'} ${passed.map((l) => l.label).join(' and ')} at once; do their actions too. ${also}`, moveTo };
 }
 
-/** A chance in an alert's words: whole percent, "< 1" and "> 99" at the ends (never 0 or 100). */
-const percentWords = (p: number): string => (p < 0.005 ? '< 1' : p >= 0.995 ? '> 99' : String(Math.round(p * 100)));
+/** A chance in an alert's words: whole percent (to 0.1 under 10 %, so a chance just over a small trigger never reads as the trigger), "< 1" and "> 99" at the ends (never 0 or 100). */
+const percentWords = (p: number): string => (p < 0.005 ? '< 1' : p >= 0.995 ? '> 99' : p < 0.1 ? String(Math.round(p * 1000) / 10) : String(Math.round(p * 100)));
 
 const chanceRiseLead = 'Raised on the estimate, not a measured gust:';
 

@@ -21,7 +21,7 @@
  *   stays at or above p × (1 − dead band), with the same hold time: the dead band and hold act on
  *   the chance as they act on the gust. The ladder's gust for that level still raises it too (the
  *   measured gust reaching the threshold is certain). An unknown chance never raises a level and
- *   never lets one fall: unknown is not calm, so it counts as held.
+ *   never lets the level standing on it fall: unknown is not calm. It holds nothing else.
  *
  * A new state starts with no data (a structure shows "no data" until its first reading), so the
  * first reading produces a 'data-restored' event.
@@ -221,14 +221,19 @@ export function stepLevel(
   let pendingSinceMs = state.pendingLowerSinceMs;
   let pendingPeakMps = state.pendingLowerPeakGustMps;
 
-  // Levels 1..n a chance raises (over p) or holds (at or above p lowered by the band, or unknown).
+  // Levels 1..n a chance raises (over p) or holds (at or above p lowered by the band). An unknown
+  // chance holds only the level that stands on it (the one the machine is at): it cannot keep a
+  // lower level up, nor stop a drop, or a calm or steady wind (no fluctuation: σ unknown) would
+  // hold a level the gusts no longer justify.
   const raisedByChance = (lvl: number): boolean => {
     const c = chances[lvl - 1];
     return c !== null && c !== undefined && c.chance !== null && c.chance > c.probability;
   };
+  let standing = state.level;
   const heldByChance = (lvl: number): boolean => {
     const c = chances[lvl - 1];
-    return c !== null && c !== undefined && (c.chance === null || c.chance >= c.probability * (1 - deadBandFraction));
+    if (c === null || c === undefined) return false;
+    return c.chance === null ? lvl === standing : c.chance >= c.probability * (1 - deadBandFraction);
   };
   /** The highest level in [from, to] a chance holds now (0 if none). */
   const highestHeldByChance = (from: number, to: number): number => {
@@ -271,6 +276,7 @@ export function stepLevel(
         while (target > pendingChanceLevel && pendingPeakMps < triggerGustsMps[target - 1]! * (1 - deadBandFraction)) target--;
         events.push({ type: 'de-escalated', fromLevel: level, toLevel: target, atMs: nowMs, gustMps });
         level = target;
+        standing = target;
         sinceMs = nowMs;
         // The lower level runs its own hold from now if this reading is already below its band.
         if (target > 0 && gustMps < triggerGustsMps[target - 1]! * (1 - deadBandFraction) && highestHeldByChance(target, triggerGustsMps.length) === 0) {

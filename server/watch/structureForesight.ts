@@ -92,7 +92,8 @@ export function structureForesight(input: ForesightInput): StructureForesight {
   const chance = (x: number, s: number): number => chanceOfReaching({ ...atStructure, thresholdMps: x, durationS: s }).probability;
   const next = input.level < input.levels.length ? input.level + 1 : null;
   const nextTrigger = next === null ? null : (input.triggerGustsMps[next - 1] ?? null);
-  const limit = Number.isFinite(input.limitGustMps) ? Math.min(input.limitGustMps, 1000) : 1000;
+  // An unbounded limit is taken at the plausible top speed, as the ladder takes it (structureModel.ts).
+  const limit = Number.isFinite(input.limitGustMps) ? Math.min(input.limitGustMps, maxPlausibleSpeedMps) : maxPlausibleSpeedMps;
   let nextLevelInS: number | null = null;
   let trend = 'top level';
   if (nextTrigger !== null) {

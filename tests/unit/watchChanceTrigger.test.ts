@@ -76,7 +76,7 @@ describe('a level on a chance trigger, live', () => {
     expect(changes.filter((c) => c.toLevel > c.fromLevel).map((c) => c.toLevel)).toEqual([1]);
     expect(raised.map((a) => a.level)).toEqual([1]);
     // The crew read the competent person's action, then that the level rose on an estimate, with its figures.
-    expect(raised[0]!.actionText).toMatch(/^Bring the second ballast pallet to the banner.\n\nRaised on the estimate, not a measured gust: a \d+ % chance of a gust of \d+\.\d m\/s within 60 min \(the level rises over 5 %\)\.$/);
+    expect(raised[0]!.actionText).toMatch(/^Bring the second ballast pallet to the banner.\n\nRaised on the estimate, not a measured gust: a \d+(\.\d)? % chance of a gust of \d+\.\d m\/s within 60 min \(the level rises over 5 %\)\.$/);
 
     // Calm again: the 10-minute window empties of the gusty spell, the chance falls under 4.5 %, and the level holds 15 min more before it falls.
     feed(10 * 60, 0.25 * limit, 0.04 * limit);
@@ -128,6 +128,6 @@ describe('a level on a chance trigger, live', () => {
     // Watch's action is still to do, and the words say the level rose past it on the estimate.
     expect(text).toContain('Watch: Tell the stage manager.');
     expect(text).not.toMatch(/gust passed/);
-    expect(text).toMatch(/Raised on the estimate, not a measured gust: a \d+ % chance of a gust of \d+\.\d m\/s within 60 min/);
+    expect(text).toMatch(/Raised on the estimate, not a measured gust: a \d+(\.\d)? % chance of a gust of \d+\.\d m\/s within 60 min/);
   });
 });

@@ -127,6 +127,17 @@ describe('chance trigger: the level machine', () => {
     expect(states.map((s) => s.level)).toEqual([0, 1]);
   });
 
+  it('an unknown chance holds only the level standing on it: not a lower one in a steady calm (review case)', () => {
+    // Ladder [13.9, 14, 17] with level 3 on a chance (p 20 %), levels 1 and 2 on gusts: a gust of 14.2 raises level 2,
+    // then a steady calm (σ unknown: no fluctuation) for 4 hours. Level 2 falls after the 15-min hold, as on gusts alone.
+    const chances = (c: number | null): Array<LevelChance | null> => [null, null, { chance: c, probability: 0.2 }];
+    let state = initialLevelState(t0);
+    ({ state } = stepLevel(state, { nowMs: t0, gustMps: 14.2, triggerGustsMps: ladder, chances: chances(0.01) }, params));
+    expect(state.level).toBe(2);
+    for (let m = 1; m <= 240; m++) ({ state } = stepLevel(state, { nowMs: t0 + m * minuteMs, gustMps: 0, triggerGustsMps: ladder, chances: chances(null) }, params));
+    expect(state.level).toBe(0);
+  });
+
   it('an unknown chance never raises a level, and never lets one fall', () => {
     const states = run([
       { atMin: 0, gust: 8, chance: null },
@@ -222,7 +233,7 @@ describe('chance trigger: the estimate the watch feeds it', () => {
 });
 
 describe('chance trigger: the forecast check', () => {
-  it('predicts a level on a chance from the hour’s mean and gust (σ through Davenport’s peak factor), and leaves a gust-only hour to the ladder', async () => {
+  it('predicts a level on a chance from the hour’s mean and gust (σ through Davenport’s peak factor), and a gust-only hour from its gust with the in-land gust factor', async () => {
     const { predictLevels } = await import('../../../server/foresight/index.ts');
     // Limit 20 m/s; level 1 watches 56.25 % of capacity: x = 20·√0.5625 = 15 m/s within 30 min, p = 20 %.
     const structure = { id: 'quay-banner', triggerGustsMps: [15, 17.89, 20], heightFactor: 1, chanceTriggers: [{ level: 1, thresholdGustMps: 15, withinMinutes: 30, probability: 0.2 }] };
@@ -238,8 +249,14 @@ describe('chance trigger: the forecast check', () => {
     const p = 1 - Math.exp(-180 * Math.exp(-25 / (2 * sigma * sigma)));
     expect(p).toBeCloseTo(0.4225, 3);
     expect(withMean!.levels[0]!.level).toBe(1);
-    // The gust alone (14.5 < 15) reaches nothing, and an hour with no mean gives no σ.
-    expect(gustOnly!.levels[0]!.level).toBe(0);
+    // An hour with a gust and no mean takes U = gust / 1.66 (the in-land gust factor, Harper,
+    // Kepert & Ginger 2010, WMO/TD-No. 1555) = 8.7349: σ = (14.5 − 8.7349)/3.06330 = 1.88206,
+    // N = 180 · exp(−(15 − 8.7349)²/(2 · 1.88206²)) = 180 · exp(−5.5406) = 0.7063, P = 0.5066 > 20 %
+    // (the review's case: leaving it to the gust, 14.5 < 15, predicted calm).
+    const u = 14.5 / 1.66;
+    const s2 = (14.5 - u) / g;
+    expect(1 - Math.exp(-180 * Math.exp(-((15 - u) ** 2) / (2 * s2 * s2)))).toBeCloseTo(0.5066, 3);
+    expect(gustOnly!.levels[0]!.level).toBe(1);
     expect(predictLevels([rows[0]!], [{ ...structure, chanceTriggers: [] }])[0]!.levels[0]!.level).toBe(0);
     // A higher p than the chance: not predicted.
     expect(predictLevels([rows[0]!], [{ ...structure, chanceTriggers: [{ ...structure.chanceTriggers[0]!, probability: 0.5 }] }])[0]!.levels[0]!.level).toBe(0);
