@@ -12,7 +12,7 @@
  * each configuration's limit, utilization and governing case at the same gust and density, the one
  * as registered first; the top-level figures stay those of the record as registered.
  */
-import { Hono, type Context } from 'hono';
+import { Hono } from 'hono';
 import { z } from 'zod';
 import {
   assessConfigurations,

@@ -31,34 +31,6 @@ export type AlertKind = (typeof alertKinds)[number];
 /** Signal an unacknowledged alert again this often (our choice, see above). */
 export const defaultResignalIntervalMs = 2 * 60 * 1000;
 
-export interface OpenAlert {
-  id: number;
-  kind: AlertKind;
-  structureId: number | null;
-  sensorKey: string | null;
-  level: number | null;
-  label: string;
-  actionText: string;
-  raisedAtMs: number;
-  gustMps: number | null;
-  utilization: number | null;
-  lastSignalledAtMs: number;
-  clearedAtMs: number | null;
-  acknowledgedAtMs: number | null;
-  acknowledgedBy: string | null;
-  acknowledgeNote: string | null;
-  /** Where it belongs, for a screen: the structure's or sensor's name. */
-  subject: string;
-  /** A level alert whose action moves the structure to this configuration ("Done: lowered"); null otherwise. */
-  moveToConfiguration: string | null;
-  actionDoneAtMs: number | null;
-  actionDoneBy: string | null;
-  /** When the action becomes overdue (raised + the site's action time); null without an action that moves the structure. */
-  actionDueAtMs: number | null;
-  /** When it was signalled again as overdue; null when not (yet). */
-  overdueAtMs: number | null;
-}
-
 /** What a raise needs: the alert's facts, without the book's bookkeeping. */
 export interface NewAlert {
   kind: AlertKind;
@@ -76,6 +48,23 @@ export interface NewAlert {
   moveToConfiguration: string | null;
   subject: string;
 }
+
+/** An alert in the book: what raised it (the sensor by its key) and its life since. */
+export type OpenAlert = Omit<NewAlert, 'sensorId'> & {
+  id: number;
+  lastSignalledAtMs: number;
+  clearedAtMs: number | null;
+  acknowledgedAtMs: number | null;
+  acknowledgedBy: string | null;
+  acknowledgeNote: string | null;
+  actionDoneAtMs: number | null;
+  actionDoneBy: string | null;
+  /** When the action becomes overdue (raised + the site's action time); null without an action that moves the structure. */
+  actionDueAtMs: number | null;
+  /** When it was signalled again as overdue; null when not (yet). */
+  overdueAtMs: number | null;
+};
+
 
 /** The domain events of the alert book, in the order they happened. */
 export type AlertEvent =

@@ -83,6 +83,8 @@ export type LevelEvent =
       readonly toLevel: number;
       readonly atMs: number;
       readonly gustMps: number;
+      /** An escalation above what the gust reached, raised by a level's chance (set only then). */
+      readonly onEstimate?: true;
     }
   | { readonly type: 'no-data' | 'data-restored'; readonly atMs: number };
 
@@ -242,7 +244,8 @@ export function stepLevel(
   };
   let pendingChanceLevel = state.pendingLowerChanceLevel ?? 0;
 
-  let reached = justifiedLevel(gustMps, triggerGustsMps);
+  const byGust = justifiedLevel(gustMps, triggerGustsMps);
+  let reached = byGust;
   for (let lvl = triggerGustsMps.length; lvl > reached; lvl--) {
     if (raisedByChance(lvl)) {
       reached = lvl;
@@ -250,7 +253,7 @@ export function stepLevel(
     }
   }
   if (reached > level) {
-    events.push({ type: 'escalated', fromLevel: level, toLevel: reached, atMs: nowMs, gustMps });
+    events.push(reached > byGust ? { type: 'escalated', fromLevel: level, toLevel: reached, atMs: nowMs, gustMps, onEstimate: true } : { type: 'escalated', fromLevel: level, toLevel: reached, atMs: nowMs, gustMps });
     level = reached;
     sinceMs = nowMs;
     pendingSinceMs = null;

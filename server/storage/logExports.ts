@@ -5,18 +5,10 @@
  */
 import { fromCmps, fromCmpsOrNull, fromDeciCOrNull, fromUtilizationE4, meanDirectionDeg } from './storedUnits.ts';
 import type { Db } from './database.ts';
+import type { ReadingRow } from './writeBatch.ts';
 
-export interface ReadingExportRow {
-  sensorKey: string;
-  tsMs: number;
-  speedMps: number;
-  gustMps: number | null;
-  dirDeg: number | null;
-  tempC: number | null;
-  pressurePa: number | null;
-  rhPct: number | null;
-  late: boolean;
-}
+/** A stored reading as exported: named by its sensor's key, without the rollup's bookkeeping. */
+export type ReadingExportRow = Omit<ReadingRow, 'sensorId' | 'rollupGustMps'> & { sensorKey: string };
 
 export interface WindMinuteExportRow {
   sensorKey: string;

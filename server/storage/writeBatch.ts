@@ -3,6 +3,8 @@
  * (per-minute rollups of wind and of structure assessments, level changes, alerts). Built in
  * memory on the per-message path, written in one transaction by `WriteQueue`.
  */
+import type { NewAlert } from '../levels/alertBook.ts';
+import type { StructureEvent } from '../watch/watchEvents.ts';
 export interface ReadingRow {
   sensorId: number;
   tsMs: number;
@@ -40,37 +42,14 @@ export interface LevelChangeRow {
   estimate?: { level: number; chance10: number; chance30: number } | null;
 }
 
-export interface AlertRow {
-  /** Given by the live watch, so an alert has its id (and can be shown and acknowledged) before it is stored. */
-  id: number;
-  siteId: number;
-  kind: 'level' | 'no-data' | 'sensor-silent' | 'sensor-implausible' | 'sensor-clock';
-  structureId: number | null;
-  sensorId: number | null;
-  level: number | null;
-  label: string;
-  actionText: string;
-  raisedAtMs: number;
-  gustMps: number | null;
-  utilization: number | null;
-  /** A level alert whose action moves the structure to this configuration (design §2.5); null otherwise. */
-  moveToConfiguration: string | null;
-}
+/**
+ * An alert as stored: the alert book's raise (levels/alertBook.ts `NewAlert`) with its id, given
+ * by the live watch so an alert can be shown and acknowledged before it is stored, and its site.
+ */
+export type AlertRow = Omit<NewAlert, 'sensorKey' | 'subject'> & { id: number; siteId: number };
 
-/** A structure's live configuration switched (design §2.5). */
-export interface ConfigurationChangeRow {
-  structureId: number;
-  atMs: number;
-  fromName: string;
-  toName: string;
-  by: string;
-  note: string | null;
-  /** The alert whose action was marked done; null for a switch by hand. */
-  alertId: number | null;
-  reason: 'action-done' | 'by-hand';
-  /** Who, for the audit trail (the signed-in principal). */
-  actor: string;
-}
+/** A structure's live configuration switched (design §2.5): the watch's event (watch/watchEvents.ts) as stored. */
+export type ConfigurationChangeRow = Omit<Extract<StructureEvent, { type: 'configuration-changed' }>, 'type'>;
 
 export interface AcknowledgementRow {
   alertId: number;

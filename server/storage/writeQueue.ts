@@ -151,7 +151,7 @@ export class WriteQueue {
    *   is not used (groups gather while the previous one commits).
    */
   constructor(
-    private readonly sqlite: Database.Database,
+    sqlite: Database.Database,
     private readonly now: () => number = Date.now,
     private readonly groupWindowMs = 0,
     newestMinutes: ReadonlyMap<number, number> = new Map(),

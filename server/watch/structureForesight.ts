@@ -18,6 +18,7 @@ import {
   type WindStatistics,
 } from '../foresight/index.ts';
 import { maxPlausibleSpeedMps } from '../engine/limits.ts';
+import { cappedLimitMps, chanceThresholds } from './structureModel.ts';
 
 export interface ForesightView {
   /** Always true: the figures are estimates beside the measured gust. */
@@ -92,8 +93,8 @@ export function structureForesight(input: ForesightInput): StructureForesight {
   const chance = (x: number, s: number): number => chanceOfReaching({ ...atStructure, thresholdMps: x, durationS: s }).probability;
   const next = input.level < input.levels.length ? input.level + 1 : null;
   const nextTrigger = next === null ? null : (input.triggerGustsMps[next - 1] ?? null);
-  // An unbounded limit is taken at the plausible top speed, as the ladder takes it (structureModel.ts).
-  const limit = Number.isFinite(input.limitGustMps) ? Math.min(input.limitGustMps, maxPlausibleSpeedMps) : maxPlausibleSpeedMps;
+  // An unbounded limit is taken at the plausible top speed, as the ladder takes it.
+  const limit = cappedLimitMps(input.limitGustMps);
   let nextLevelInS: number | null = null;
   let trend = 'top level';
   if (nextTrigger !== null) {
@@ -126,14 +127,7 @@ export function structureForesight(input: ForesightInput): StructureForesight {
     limitChance30: chance(limit, thirtyMinutesS),
     nextLevelInS,
     trend,
-    triggerChances: input.levels.flatMap((level, i) => {
-      const t = level.trigger;
-      if (t?.kind !== 'chance' || t.fraction === undefined || t.withinMinutes === undefined || t.probability === undefined) return [];
-      // The threshold is the gust at that fraction of the effective limit (every utilization is
-      // proportional to q, so to the gust squared: design §2.3).
-      const thresholdGustMps = limit * Math.sqrt(t.fraction);
-      return [{ level: i + 1, label: level.label, thresholdGustMps, withinMinutes: t.withinMinutes, probability: t.probability, chance: chance(thresholdGustMps, t.withinMinutes * 60) }];
-    }),
+    triggerChances: chanceThresholds(input.levels, limit).map((t) => ({ ...t, label: input.levels[t.level - 1]!.label, chance: chance(t.thresholdGustMps, t.withinMinutes * 60) })),
   };
 }
 

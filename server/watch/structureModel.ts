@@ -91,13 +91,25 @@ export function rawTriggerGustsMps(levels: readonly LevelDefinition[], limitGust
   return levels.map((level) => (level.trigger.kind === 'gust' ? level.trigger.gustMps : limitGustMps * Math.sqrt(level.trigger.fraction)));
 }
 
+/** The effective limit the ladder and the estimates use: an unbounded one (or above it) taken at the plausible top speed. */
+export function cappedLimitMps(limitGustMps: number): number {
+  return Number.isFinite(limitGustMps) ? Math.min(limitGustMps, maxPlausibleSpeedMps) : maxPlausibleSpeedMps;
+}
+
 /**
  * The levels on a chance trigger with the gust their chance watches: the gust at that fraction of
  * the effective limit, v_lim,eff · √f (as for a utilization trigger, design §2.3).
  */
-export function chanceThresholds(levels: ReadonlyArray<Pick<LevelDefinition, 'trigger'>>, limitGustMps: number): Array<{ level: number; thresholdGustMps: number; withinMinutes: number; probability: number }> {
-  const limit = Number.isFinite(limitGustMps) ? Math.min(limitGustMps, 120) : 120;
-  return levels.flatMap((l, i) => (l.trigger.kind === 'chance' ? [{ level: i + 1, thresholdGustMps: limit * Math.sqrt(l.trigger.fraction), withinMinutes: l.trigger.withinMinutes, probability: l.trigger.probability }] : []));
+export function chanceThresholds(
+  levels: ReadonlyArray<{ trigger?: { kind: string; fraction?: number; withinMinutes?: number; probability?: number } }>,
+  limitGustMps: number,
+): Array<{ level: number; thresholdGustMps: number; withinMinutes: number; probability: number }> {
+  const limit = cappedLimitMps(limitGustMps);
+  return levels.flatMap(({ trigger: t }, i) =>
+    t?.kind === 'chance' && t.fraction !== undefined && t.withinMinutes !== undefined && t.probability !== undefined
+      ? [{ level: i + 1, thresholdGustMps: limit * Math.sqrt(t.fraction), withinMinutes: t.withinMinutes, probability: t.probability }]
+      : [],
+  );
 }
 
 /**
@@ -107,7 +119,7 @@ export function chanceThresholds(levels: ReadonlyArray<Pick<LevelDefinition, 'tr
  * strictly rising by lowering the lower level (it escalates earlier, never later).
  */
 export function triggerLadderMps(levels: readonly LevelDefinition[], limitGustMps: number): number[] {
-  const limit = Number.isFinite(limitGustMps) ? Math.min(limitGustMps, maxPlausibleSpeedMps) : maxPlausibleSpeedMps;
+  const limit = cappedLimitMps(limitGustMps);
   // The 0.01 m/s floor comes before the lowering, so that two triggers under it (or a limit of
   // 0) still give a strictly rising ladder: stepLevel refuses any other.
   const ladder = rawTriggerGustsMps(levels, limit).map((g) => Math.max(Number.isFinite(g) ? Math.min(g, limit) : limit, 0.01));

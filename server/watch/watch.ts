@@ -47,7 +47,7 @@ import {
   withRating,
   type AssessedDirections,
 } from '../engine/index.ts';
-import { stepLevel, justifiedLevel, type LevelEvent, type LevelStepParams } from '../levels/index.ts';
+import { stepLevel, type LevelEvent, type LevelStepParams } from '../levels/index.ts';
 import type { Reading } from '../ingest/payload.ts';
 import type { ReadingConsumer } from '../ingest/pipeline.ts';
 import type { RegisteredSensor } from '../ingest/registry.ts';
@@ -639,9 +639,9 @@ export class Watch implements ReadingConsumer {
         this.record([{ type: 'level-changed', structureId: s.model.id, atMs: event.atMs, fromLevel: event.fromLevel, toLevel: event.toLevel, gustMps: event.gustMps, utilization, estimate }], batch, announcements);
         this.options.onNotice?.(`${s.model.name}: level ${event.fromLevel} → ${event.toLevel}`, { structureId: s.model.id, gustMps: event.gustMps });
         if (event.type === 'escalated') {
-          const onEstimate = this.chanceRise(s, event.toLevel, event.gustMps);
-          const words = escalationWords(s.model.levels, event.fromLevel, event.toLevel, (name) => this.moveTarget(s, name), onEstimate !== '');
-          const actionText = words.actionText + onEstimate;
+          const estimate = event.onEstimate ? this.chanceRise(s, event.toLevel) : '';
+          const words = escalationWords(s.model.levels, event.fromLevel, event.toLevel, (name) => this.moveTarget(s, name), event.onEstimate === true);
+          const actionText = words.actionText + estimate;
           this.raise(batch, announcements, { kind: 'level', structureId: s.model.id, sensorId: null, sensorKey: null, level: event.toLevel, label: words.label, actionText, raisedAtMs: event.atMs, gustMps: event.gustMps, utilization, moveToConfiguration: words.moveTo, subject: s.model.name });
         } else {
           // Alerts of the levels left behind are cleared (their records stay until acknowledged).
@@ -669,9 +669,7 @@ export class Watch implements ReadingConsumer {
    * When a level rose on its chance trigger rather than on the measured gust (levels/stepLevel.ts),
    * the alert says so after the competent person's action: the crew must know it is an estimate.
    */
-  private chanceRise(s: StructureLive, toLevel: number, gustMps: number): string {
-    const ladder = this.currentDensity(s, s.windFromDeg).triggerGustsMps;
-    if (justifiedLevel(gustMps, ladder) >= toLevel) return '';
+  private chanceRise(s: StructureLive, toLevel: number): string {
     const f = s.foresight;
     const c = f !== null && !('unknown' in f) ? f.triggerChances.find((t) => t.level === toLevel) : undefined;
     return c === undefined ? '' : chanceRiseWords(c);

@@ -14,6 +14,19 @@ export type StructureEvent =
   /** Readings came back. */
   | { type: 'data-restored'; structureId: number; atMs: number; level: number; gustMps: number | null; utilization: number | null }
   /** The live configuration switched (design §2.5): the crew's Done or a switch by hand. */
-  | { type: 'configuration-changed'; structureId: number; atMs: number; fromName: string; toName: string; by: string; note: string | null; alertId: number | null; reason: 'action-done' | 'by-hand'; actor: string };
+  | {
+      type: 'configuration-changed';
+      structureId: number;
+      atMs: number;
+      fromName: string;
+      toName: string;
+      by: string;
+      note: string | null;
+      /** The alert whose action was marked done; null for a switch by hand. */
+      alertId: number | null;
+      reason: 'action-done' | 'by-hand';
+      /** Who, for the audit trail (the signed-in principal). */
+      actor: string;
+    };
 
 export type WatchEvent = AlertEvent | StructureEvent;

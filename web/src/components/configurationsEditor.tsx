@@ -20,7 +20,6 @@ import {
   withoutChangedField,
   type ConfigurationDraft,
   type Draft,
-  type LevelRowDraft,
 } from '../register/structureDraft.ts';
 import { maxConfigurations } from '../configurationState.ts';
 import type { AssessAnswer, AssessConfiguration } from '../types.ts';

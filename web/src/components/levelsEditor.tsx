@@ -9,6 +9,7 @@ import type { LevelRowDraft } from '../register/structureDraft.ts';
 import { speedUnitLabels, type SpeedUnit } from '../units.ts';
 import { maxLevelLabelLength, maxTextLength } from '../../../server/engine/limits.ts';
 import { LevelShape, levelTone } from './levelBadge.tsx';
+import { chanceTriggerWords } from './levelsTable.tsx';
 
 const maxLevels = 8;
 
@@ -115,10 +116,6 @@ function ChanceFields(props: { id: string; level: LevelRowDraft; onChange: (patc
   );
 }
 
-/** A chance trigger in words: "a 20 % chance of 100 % of load capacity within 30 min". */
-export function chanceTriggerWords(capacityPct: string, withinMinutes: string, chancePct: string): string {
-  return `a chance over ${chancePct || "?"}\u00a0% of ${capacityPct || "?"}\u00a0% of load capacity within ${withinMinutes || "?"}\u00a0min (estimate)`;
-}
 
 /**
  * Which configuration the level's action moves the structure to. A stored name the structure no
@@ -169,7 +166,7 @@ function LevelsReadOnly({ levels, unit, gustsText }: { levels: LevelRowDraft[]; 
             </th>
             <td>
               <span class="reached">Reached at </span>
-              {l.kind === 'utilization' ? `${l.value}\u00a0% of load capacity` : l.kind === 'chance' ? chanceTriggerWords(l.value, l.withinMinutes ?? '', l.chancePct ?? '') : `a gust of ${l.value} ${speedUnitLabels[unit]}`}
+              {l.kind === 'utilization' ? `${l.value}\u00a0% of load capacity` : l.kind === 'chance' ? `${chanceTriggerWords(l.value, l.withinMinutes ?? '', l.chancePct ?? '')} (estimate)` : `a gust of ${l.value} ${speedUnitLabels[unit]}`}
               {gustsText?.[i] ? <span class="muted small"> — {gustsText[i]} here</span> : null}
             </td>
             <td class="action-cell">

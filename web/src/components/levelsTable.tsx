@@ -17,8 +17,13 @@ export interface LevelRow {
   moveToConfiguration?: string | null;
 }
 
+/** A chance trigger in words, as typed or stored: "a chance over 20 % of 100 % of load capacity within 30 min" ("?" for what is not typed yet). */
+export function chanceTriggerWords(capacityPct: string, withinMinutes: string, chancePct: string): string {
+  return `a chance over ${chancePct || '?'}\u00a0% of ${capacityPct || '?'}\u00a0% of load capacity within ${withinMinutes || '?'}\u00a0min`;
+}
+
 export function triggerText(t: LevelTrigger, unit: SpeedUnit): string {
-  if (t.kind === 'chance') return `a chance over ${Math.round(t.probability * 1000) / 10}\u00a0% of ${Math.round(t.fraction * 100)}\u00a0% of load capacity within ${t.withinMinutes}\u00a0min (an estimate; the gust above raises it in any case)`;
+  if (t.kind === 'chance') return `${chanceTriggerWords(String(Math.round(t.fraction * 100)), String(t.withinMinutes), String(Math.round(t.probability * 1000) / 10))} (an estimate; the gust above raises it in any case)`;
   return t.kind === 'utilization' ? `${Math.round(t.fraction * 100)}\u00a0% of load capacity` : `gust of ${speed(t.gustMps, unit)} (set directly)`;
 }
 

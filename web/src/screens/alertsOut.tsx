@@ -40,7 +40,7 @@ import { href } from '../router.ts';
 import { may, session } from '../session.ts';
 import { useTimeZone } from '../site.ts';
 import { useStore } from '../store.ts';
-import type { Person, Role } from '../types.ts';
+import type { Role } from '../types.ts';
 import { dateTime, clockTime } from '../units.ts';
 import { useLevelLabels, useStructureList } from './myAlerts.tsx';
 
