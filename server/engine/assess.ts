@@ -27,7 +27,8 @@ import {
   type Edge,
   type StabilityCoefficients,
 } from './stability.ts';
-import { directionUtilizations, effectiveUtilization, governingCase, gustAtPerPaMps } from './utilization.ts';
+import { structureLimits, utilizationAtGust } from './liveAssessment.ts';
+import { directionUtilizations, governingCase, gustAtPerPaMps } from './utilization.ts';
 import type { ExpandedStructure } from './structure.ts';
 
 /** A number, or null for Infinity (see the module comment). */
@@ -180,10 +181,12 @@ export function assessCoefficients(
   const qPa = dynamicPressurePa(gustMps, airDensityKgM3);
   const governing = governingCase(coefficients);
   const top = directionReport(governing.part, governing.direction, qPa, airDensityKgM3);
-  const calculatedLimitMps = gustAtPerPaMps(governing.direction.utilizationPerPa.governing, 1, airDensityKgM3);
+  // The headline figures come from the functions the live watch runs (liveAssessment.ts).
+  const limits = structureLimits(coefficients, airDensityKgM3);
+  const calculatedLimitMps = limits.calculatedLimitGustMps;
   const rated = coefficients.ratedGustMps;
   const ratedGoverns = rated !== null && rated < calculatedLimitMps;
-  const effective = effectiveUtilization(coefficients, gustMps, airDensityKgM3);
+  const effective = utilizationAtGust(coefficients, gustMps, airDensityKgM3);
   const unbounded = { overturning: false, sliding: false, uplift: false, governing: top.utilization.governing === null };
   for (const criterion of criteria) unbounded[criterion] = top.utilization[criterion] === null;
   const warnings: string[] = [];
@@ -220,7 +223,7 @@ export function assessCoefficients(
     effectiveUtilization: bounded(effective),
     margin: bounded(1 - effective),
     calculatedLimitGustMps: bounded(calculatedLimitMps),
-    limitGustMps: bounded(ratedGoverns ? rated : calculatedLimitMps),
+    limitGustMps: bounded(limits.limitGustMps),
     limitGovernedBy: ratedGoverns ? 'rated' : 'calculated',
     directions: worstPerDirection(coefficients, qPa, airDensityKgM3),
     elements: coefficients.elements.map((element) => elementReport(element, qPa, airDensityKgM3)),

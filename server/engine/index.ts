@@ -108,6 +108,7 @@ export {
   type GoverningCase,
   type Stability,
 } from './utilization.ts';
+export { caseAtGust, liveStructure, structureLimits, utilizationAtGust, type CaseAtGust, type LiveStructure, type StructureLimits } from './liveAssessment.ts';
 export { requiredBallast, type RequiredBallast } from './requiredBallast.ts';
 export { compassPointName, criterionWords, governingWords, sideName, windWords } from './caseWords.ts';
 export {

@@ -25,8 +25,8 @@ import {
   stabilityCoefficients,
   validateStructureRecord,
 } from '../engine/index.ts';
-import { levelListSchema } from '../levels/index.ts';
-import { levelProblems, rawTriggerGustsMps } from '../watch/structureModel.ts';
+import { levelListSchema, rawTriggerGustsMps } from '../levels/index.ts';
+import { structureLevelIssues } from '../register/levelCheck.ts';
 import type { FieldIssue } from './httpError.ts';
 import { invalidInput, publicJsonBody } from './publicJson.ts';
 
@@ -95,7 +95,8 @@ assessRoute.post('/', async (c) => {
   if (levels) {
     const gusts = rawTriggerGustsMps(levels, limitMps);
     extras.levels = levels.map((level, i) => ({ level: i + 1, label: level.label, trigger: level.trigger, triggerGustMps: Number.isFinite(gusts[i]!) ? gusts[i] : null }));
-    extras.levelOrderProblems = levelProblems(levels, limitMps).map((problem) => ({ path: `levels.${problem.index}.trigger.${problem.field}`, message: problem.message }));
+    // The save's own check (register/levelCheck.ts), in every configuration, at this density.
+    extras.levelOrderProblems = structureLevelIssues(structure.record, levels, density, false);
   }
   if ((structure.record.configurations ?? []).length > 0) {
     // Extension (issue 14): every configuration at the same gust and density, the one as

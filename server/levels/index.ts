@@ -26,6 +26,7 @@ export {
   type UtilizationTrigger,
 } from './levelDefinition.ts';
 export { checkLevelOrder } from './levelOrder.ts';
+export { cappedLimitMps, chanceThresholds, levelProblems, rawTriggerGustsMps, triggerLadderMps, type LevelProblem } from './triggerLadder.ts';
 export { siteDefaultLevels } from './siteDefaultLevels.ts';
 export { gustAtFractionWithoutUpliftMps } from './gustAtFractionWithoutUplift.ts';
 export { justifiedLevel } from './justifiedLevel.ts';

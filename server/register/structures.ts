@@ -11,8 +11,7 @@ import { Conflict, Invalid, NotFound } from '../domainErrors.ts';
 import { levelListSchema, type LevelDefinition } from '../levels/index.ts';
 import type { Storage } from '../storage/storage.ts';
 import type { StructureRow } from '../storage/structures.ts';
-import { structureModel } from '../watch/structureModel.ts';
-import { modelLevelProblems, siteDesignDensityKgM3 } from './levelCheck.ts';
+import { siteDesignDensityKgM3, structureLevelIssues } from './levelCheck.ts';
 import { getSite } from './site.ts';
 
 export const structureInputSchema = z.strictObject({
@@ -89,25 +88,11 @@ export function checkStructure(storage: Storage, input: StructureInput): Structu
   const record = validation.record;
   try {
     const site = getSite(storage);
-    const model = structureModel(
-      { id: 0, name: record.name, kind: record.kind, recordJson: record, orientationDeg: input.orientationDeg, mobile: input.mobile, sensorKeysJson: null, levelsJson: input.levels },
-      site.defaultLevelsJson,
-    );
     // Mixed utilization and gust triggers can only be ordered once the structure is known; a
     // gust trigger at or above the effective limit would let the structure pass its limit first.
-    for (const problem of modelLevelProblems(model, siteDesignDensityKgM3(site))) {
-      issues.push({ path: input.levels === null ? 'levels' : `levels.${problem.index}.trigger.${problem.field}`, message: input.levels === null ? `the site's default ${problem.message}` : problem.message });
-    }
-    // The levels run on whichever configuration the structure is in (design §2.5): each is checked.
+    // The same check the form's calculator shows (POST /api/assess at the design density).
+    issues.push(...structureLevelIssues(record, input.levels ?? site.defaultLevelsJson, siteDesignDensityKgM3(site), input.levels === null));
     const configured = recordConfigurations(record);
-    for (const c of configured.slice(1)) {
-      const other = structureModel({ id: 0, name: record.name, kind: record.kind, recordJson: c.record, orientationDeg: input.orientationDeg, mobile: input.mobile, sensorKeysJson: null, levelsJson: input.levels }, site.defaultLevelsJson);
-      for (const problem of modelLevelProblems(other, siteDesignDensityKgM3(site))) {
-        const path = input.levels === null ? 'levels' : `levels.${problem.index}.trigger.${problem.field}`;
-        if (issues.some((i) => i.path === path)) continue;
-        issues.push({ path, message: `in configuration "${c.name}": ${input.levels === null ? `the site's default ${problem.message}` : problem.message}` });
-      }
-    }
     // A level's action may move the structure only to a configuration it has.
     (input.levels ?? []).forEach((level, i) => {
       if (level.moveToConfiguration === undefined) return;

@@ -18,7 +18,7 @@ import {
   type WindStatistics,
 } from '../foresight/index.ts';
 import { maxPlausibleSpeedMps } from '../engine/limits.ts';
-import { cappedLimitMps, chanceThresholds } from './structureModel.ts';
+import { cappedLimitMps, chanceThresholds } from '../levels/index.ts';
 
 export interface ForesightView {
   /** Always true: the figures are estimates beside the measured gust. */

@@ -34,18 +34,16 @@
 import {
   airDensity,
   beaufortForce,
-  dynamicPressurePa,
-  effectiveUtilization,
-  compactGoverningCase,
+  caseAtGust,
   governingWords,
   exposureFactor,
   highestTravelSpeedMps,
   isaAirDensityKgM3,
   isaSeaLevelDensityKgM3,
   unclampedExposureFactor,
-  utilizationAtPa,
-  withRating,
+  utilizationAtGust,
   type AssessedDirections,
+  type CaseAtGust,
 } from '../engine/index.ts';
 import { stepLevel, type LevelEvent, type LevelStepParams } from '../levels/index.ts';
 import type { Reading } from '../ingest/payload.ts';
@@ -502,31 +500,21 @@ export class Watch implements ReadingConsumer {
 
   /** Effective utilization at this gust over the directions assessed (Infinity when unbounded). */
   private effective(s: StructureLive, gustMps: number, windFromDeg: number | null): number {
-    return effectiveUtilization(s.model.stability, Math.min(gustMps, maxPlausibleSpeedMps), this.airDensityKgM3, this.sector(s, windFromDeg));
+    return utilizationAtGust(s.model.stability, gustMps, this.airDensityKgM3, this.sector(s, windFromDeg));
   }
 
   /** The governing case at this gust: effective and calculated utilization, criterion, direction, part, words. */
   private assess(s: StructureLive, gustMps: number, windFromDeg: number | null) {
-    const sector = this.sector(s, windFromDeg);
-    const gust = Math.min(gustMps, maxPlausibleSpeedMps);
-    const worst = compactGoverningCase(s.model.stability, sector);
-    const calculated = utilizationAtPa(worst.perPa, dynamicPressurePa(gust, this.airDensityKgM3));
-    return {
-      utilization: withRating(calculated, gust, s.model.stability.ratedGustMps),
-      calculatedUtilization: calculated,
-      governing: worst.criterion,
-      directionDeg: worst.directionDeg,
-      element: worst.element,
-      text: this.governingText(s, worst),
-    };
+    const found = caseAtGust(s.model.stability, gustMps, this.airDensityKgM3, this.sector(s, windFromDeg));
+    return { ...found, text: this.governingText(s, found) };
   }
 
   /** What governs in words, kept per structure until the case changes (the words are built from strings). */
-  private governingText(s: StructureLive, worst: ReturnType<typeof compactGoverningCase>): string {
-    const key = `${worst.element}|${worst.directionDeg}|${worst.criterion}|${worst.tippingEdge}`;
+  private governingText(s: StructureLive, found: CaseAtGust): string {
+    const key = `${found.element}|${found.directionDeg}|${found.governing}|${found.tippingEdge}`;
     if (s.wordsKey !== key || s.words === null) {
       s.wordsKey = key;
-      s.words = governingWords({ ...worst, frontAzimuthDeg: s.model.orientationDeg, strip: s.model.stability.strip });
+      s.words = governingWords({ element: found.element, directionDeg: found.directionDeg, criterion: found.governing, tippingEdge: found.tippingEdge, frontAzimuthDeg: s.model.orientationDeg, strip: s.model.stability.strip });
     }
     return s.words;
   }

@@ -10,12 +10,15 @@ import type { SiteView } from './types.ts';
 
 export const site = createStore<SiteView | null>(null);
 export const siteDensity = createStore<number | null>(null);
+/** The design density the levels are checked at on save (and the register form calculates at). */
+export const siteDesignDensity = createStore<number | null>(null);
 
 export async function loadSite(): Promise<void> {
   try {
-    const answer = await api<{ site: SiteView; airDensityKgM3: number }>('/api/site');
+    const answer = await api<{ site: SiteView; airDensityKgM3: number; designAirDensityKgM3: number }>('/api/site');
     site.set(answer.site);
     siteDensity.set(answer.airDensityKgM3);
+    siteDesignDensity.set(answer.designAirDensityKgM3);
   } catch {
     // Screens fall back to the live snapshot's site block, and to UTC for times.
   }

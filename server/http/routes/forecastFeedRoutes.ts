@@ -15,7 +15,7 @@ import { redactedUrl } from '../../forecastFeed/index.ts';
 import { predictLevels, predictPlannedLevels, type ForecastRow } from '../../foresight/index.ts';
 import { getSite } from '../../register/site.ts';
 import { forecastCheckMaxWindowMs } from '../../storage/forecastCheck.ts';
-import { chanceThresholds, triggerLadderMps } from '../../watch/structureModel.ts';
+import { chanceThresholds, triggerLadderMps } from '../../levels/index.ts';
 import { requireRole, type AppEnv } from '../access.ts';
 import { HttpError } from '../httpError.ts';
 import type { ApiContext } from './apiContext.ts';

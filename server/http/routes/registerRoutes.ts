@@ -13,6 +13,7 @@ import { exportRegister, importRegister, registerCsv, registerFromCsv, registerS
 import { createSensor, getSensor, listSensors, retireSensor, sensorInputSchema, sensorUpdateSchema, updateSensor } from '../../register/sensors.ts';
 import { getSite, siteUpdateSchema, updateSite } from '../../register/site.ts';
 import { siteView } from '../../register/siteSettings.ts';
+import { siteDesignDensityKgM3 } from '../../register/levelCheck.ts';
 import { createStructure, getStructureRow, listStructures, retireStructure, structureInputSchema, structureUpdateSchema, structureView, updateStructure } from '../../register/structures.ts';
 import { readingTopic } from '../../ingest/topic.ts';
 import { setupChecklist } from '../../register/setupChecklist.ts';
@@ -58,7 +59,10 @@ export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
 
   // ---- site ----
   api.get('/site', viewer, (c) => {
-    return c.json({ site: siteView(getSite(ctx.storage)), airDensityKgM3: ctx.watch.currentAirDensityKgM3 });
+    const site = getSite(ctx.storage);
+    // The density now (the live board's) and the design density the levels are checked at on
+    // save, which the register form's calculator uses too (register/levelCheck.ts).
+    return c.json({ site: siteView(site), airDensityKgM3: ctx.watch.currentAirDensityKgM3, designAirDensityKgM3: siteDesignDensityKgM3(site) });
   });
   api.patch('/site', editor, async (c) => {
     const patch = await jsonPatchBody(c, siteUpdateSchema);

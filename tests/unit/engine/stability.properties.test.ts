@@ -5,7 +5,11 @@
  */
 import { describe, expect, it } from 'vitest';
 import {
+  assessCoefficients,
   bodyCoefficients,
+  caseAtGust,
+  structureLimits,
+  utilizationAtGust,
   compactGoverningCase,
   compactStability,
   governingCase,
@@ -141,6 +145,32 @@ describe('stability properties over seeded structures (design §2.3 v2)', () => 
         expect(b.directionDeg).toBe(a.direction.directionDeg);
         expect(b.element).toBe(a.part.element);
         expect(b.criterion).toBe(a.direction.governing);
+      }
+    }
+  });
+
+  it('the live assessment (engine/liveAssessment.ts) on the compact form gives the calculator’s utilization, limit and case (assessCoefficients), with and without a rating', () => {
+    const random = seededRandom(21);
+    for (const structure of structures({ uplift: true, elements: true }, 21)) {
+      for (const ratedGustMps of [null, between(random, 8, 30)]) {
+        const full = { ...stabilityCoefficients(structure), ratedGustMps };
+        const compact = compactStability(full);
+        const gustMps = between(random, 2, 40);
+        const report = assessCoefficients(full, gustMps, rho);
+        const live = caseAtGust(compact, gustMps, rho);
+        const limits = structureLimits(compact, rho);
+        // Effective utilization max(U, (v / v_rated)²) and the effective limit (design §2.3).
+        const utilization = Number.isFinite(live.utilization) ? live.utilization : null;
+        expect(utilization).toBe(report.effectiveUtilization);
+        expect(utilizationAtGust(compact, gustMps, rho)).toBe(live.utilization);
+        expect(Number.isFinite(limits.limitGustMps) ? limits.limitGustMps : null).toBe(report.limitGustMps);
+        expect(Number.isFinite(limits.calculatedLimitGustMps) ? limits.calculatedLimitGustMps : null).toBe(report.calculatedLimitGustMps);
+        expect(live.governing).toBe(report.governing);
+        expect(live.directionDeg).toBe(report.governingDirectionDeg);
+        expect(live.element).toBe(report.governingElement);
+        expect(live.tippingEdge).toBe(report.governingEdge);
+        // The full and the compact form give the same case.
+        expect(caseAtGust(full, gustMps, rho)).toEqual(live);
       }
     }
   });

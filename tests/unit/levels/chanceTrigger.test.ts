@@ -12,7 +12,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { initialLevelState, levelListSchema, stepLevel, type LevelChance, type LevelState, type LevelStepParams } from '../../../server/levels/index.ts';
-import { levelProblems, triggerLadderMps } from '../../../server/watch/structureModel.ts';
+import { levelProblems, triggerLadderMps } from '../../../server/levels/index.ts';
 import { levelChances, structureForesight, type ForesightView } from '../../../server/watch/structureForesight.ts';
 
 const minuteMs = 60_000;

@@ -32,7 +32,7 @@ import { refreshSnapshot } from '../live.ts';
 import { prefs } from '../prefs.ts';
 import { href, navigate, useRoute } from '../router.ts';
 import { may, session } from '../session.ts';
-import { site, siteDensity } from '../site.ts';
+import { site, siteDesignDensity } from '../site.ts';
 import { useStore } from '../store.ts';
 import type { AssessAnswer, SensorView, StructureKind, StructureWithLive } from '../types.ts';
 import { kiloNewtonMetres, kiloNewtons, mpsToSpeed, percent, quantity, speed, speedToMps, speedUnitLabels } from '../units.ts';
@@ -47,7 +47,8 @@ export function StructureForm({ id }: { id: number | null }) {
   const who = useStore(session);
   const unit = useStore(prefs).unit;
   const siteInfo = useStore(site);
-  const density = useStore(siteDensity);
+  // The design density, as the save checks the levels: the form and the save agree.
+  const density = useStore(siteDesignDensity);
   const siteLevels = siteInfo?.defaultLevels ?? [];
   const canEdit = may(who, 'competent-person');
 
@@ -123,7 +124,8 @@ export function StructureForm({ id }: { id: number | null }) {
       const structure = record.name === '' ? { ...record, name: 'unnamed' } : record;
       const body: Record<string, unknown> = { structure, gustMps: Math.min(maxPlausibleSpeedMps, Math.max(0, checkGustMps)), levels: levelsForAssess };
       if (checkGustMps > 0) body.designGustMps = Math.min(maxPlausibleSpeedMps, checkGustMps);
-      if (density !== null) body.airDensityKgM3 = density;
+      // Until the site has loaded, the EN 1991-1-4 §4.5 recommended 1.25 kg/m³ (the save's floor).
+      body.airDensityKgM3 = density ?? 1.25;
       if (frontAzimuthDeg !== null) body.frontAzimuthDeg = frontAzimuthDeg;
       api<AssessAnswer>('/api/assess', { body, signal: controller.signal })
         .then((a) => {
@@ -299,7 +301,7 @@ export function StructureForm({ id }: { id: number | null }) {
   /** The check gust: at the top of the panel until there is an answer, then at the head of its numbers (the drawing comes first). */
   const checkField = (show: boolean) =>
     show ? (
-      <Field id="sf-check" label="Check gust at the structure" unit={speedUnitLabels[unit]} error={checkGustMps === null ? 'must be a number' : checkGustMps > maxPlausibleSpeedMps ? `at most ${maxPlausibleSpeedMps} m/s` : undefined} help="Loads and forces (in the drawing too) are at this gust; it is also the design gust for the extra ballast. Air density: the site’s current value.">
+      <Field id="sf-check" label="Check gust at the structure" unit={speedUnitLabels[unit]} error={checkGustMps === null ? 'must be a number' : checkGustMps > maxPlausibleSpeedMps ? `at most ${maxPlausibleSpeedMps} m/s` : undefined} help="Loads and forces (in the drawing too) are at this gust; it is also the design gust for the extra ballast. Air density: the design density the levels are checked at on save (the site’s ISA or fixed density, never less than 1.25 kg/m³).">
             <input id="sf-check" inputMode="decimal" value={checkGust} onInput={(e) => setCheckGust(e.currentTarget.value)} />
           </Field>
     ) : null;
@@ -749,6 +751,9 @@ function Results(props: {
               Governs: <strong>{formWords(answer.governingText, kind)}</strong>
             </>
           )}
+        </span>
+        <span class="fig-note" data-testid="calc-density">
+          At the design air density, {quantity(answer.airDensityKgM3, 'kg/m³', 3)}: the density the levels are checked at when you save. The live board uses the density on the day.
         </span>
       </div>
       {answer.configurations && answer.configurations.length > 1 ? (
