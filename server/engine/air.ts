@@ -131,6 +131,24 @@ export function airDensity(mode: AirDensityMode): AirDensity {
   }
 }
 
+/**
+ * The density a site's settings give: fixed when fixed (and a value given), measured from the
+ * first sensor reporting temperature and pressure in measured mode, else ISA at the altitude. A
+ * measurement outside the plausible range is not used: ISA at the site's altitude instead.
+ */
+export function siteAirDensity(
+  site: { airDensityMode: AirDensityMode['mode']; fixedAirDensityKgM3: number | null; altitudeM: number },
+  measured: { tempC: number; pressurePa: number; rhPct: number | null } | null,
+): AirDensity {
+  if (site.airDensityMode === 'fixed' && site.fixedAirDensityKgM3 !== null) return airDensity({ mode: 'fixed', densityKgM3: site.fixedAirDensityKgM3 });
+  if (site.airDensityMode !== 'measured') return airDensity({ mode: 'isa', altitudeM: site.altitudeM });
+  try {
+    return airDensity({ mode: 'measured', altitudeM: site.altitudeM, ...(measured ?? {}) });
+  } catch {
+    return { densityKgM3: isaAirDensityKgM3(site.altitudeM), basis: 'isa' };
+  }
+}
+
 /** The site's air density in kg/m³ (see `airDensity` for the basis). */
 export function airDensityKgM3(mode: AirDensityMode): number {
   return airDensity(mode).densityKgM3;

@@ -19,6 +19,7 @@ export { standardGravityMps2 } from './gravity.ts';
 export { dynamicPressurePa, speedForDynamicPressureMps } from './dynamicPressure.ts';
 export {
   airDensity,
+  siteAirDensity,
   airDensityKgM3,
   airDensityModes,
   assertAirDensity,

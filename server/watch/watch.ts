@@ -32,14 +32,13 @@
  * by the cosine of an angle.
  */
 import {
-  airDensity,
   beaufortForce,
   caseAtGust,
   governingWords,
   exposureFactor,
   highestTravelSpeedMps,
-  isaAirDensityKgM3,
   isaSeaLevelDensityKgM3,
+  siteAirDensity,
   unclampedExposureFactor,
   utilizationAtGust,
   type AssessedDirections,
@@ -329,13 +328,9 @@ export class Watch implements ReadingConsumer {
   }
 
   private updateAirDensity(): boolean {
-    const site = this.site;
-    let result: { densityKgM3: number; basis: 'isa' | 'measured' | 'fixed' };
-    if (site.airDensityMode === 'fixed' && site.fixedAirDensityKgM3 !== null) {
-      result = airDensity({ mode: 'fixed', densityKgM3: site.fixedAirDensityKgM3 });
-    } else if (site.airDensityMode === 'measured') {
+    let measured: { tempC: number; pressurePa: number; rhPct: number | null } | null = null;
+    if (this.site.airDensityMode === 'measured') {
       const nowMs = this.now();
-      let measured: { tempC: number; pressurePa: number; rhPct: number | null } | null = null;
       for (const s of this.sensors.values()) {
         const snap = windSnapshot(s.wind, nowMs);
         if (snap.temperatureC !== null && snap.pressurePa !== null) {
@@ -343,15 +338,8 @@ export class Watch implements ReadingConsumer {
           break;
         }
       }
-      try {
-        result = airDensity({ mode: 'measured', altitudeM: site.altitudeM, ...(measured ?? {}) });
-      } catch {
-        // A measurement outside the plausible range is not used: ISA at the site's altitude.
-        result = { densityKgM3: isaAirDensityKgM3(site.altitudeM), basis: 'isa' };
-      }
-    } else {
-      result = airDensity({ mode: 'isa', altitudeM: site.altitudeM });
     }
+    const result = siteAirDensity(this.site, measured);
     const changed = Math.abs(result.densityKgM3 - this.airDensityKgM3) > 1e-4 || result.basis !== this.airDensityBasis;
     this.airDensityKgM3 = result.densityKgM3;
     this.airDensityBasis = result.basis;

@@ -7,6 +7,7 @@ import {
   isaTemperatureK,
   moistAirDensityKgM3,
   saturationVapourPressurePa,
+  siteAirDensity,
 } from '../../../server/engine/index.ts';
 
 describe('International Standard Atmosphere (ISO 2533 / ICAO Doc 7488)', () => {
@@ -100,5 +101,18 @@ describe("the site's air density modes (design §2.1)", () => {
   it('fixed mode takes the value (EN 1991-1-4 recommends 1.25 kg/m³) and rejects implausible ones', () => {
     expect(airDensityKgM3({ mode: 'fixed', densityKgM3: 1.25 })).toBe(1.25);
     expect(() => airDensityKgM3({ mode: 'fixed', densityKgM3: 12.5 })).toThrow(RangeError);
+  });
+
+  it('a site\'s settings pick the mode; a measurement outside the plausible range is not used (ISA at the altitude instead)', () => {
+    const site = { airDensityMode: 'measured' as const, fixedAirDensityKgM3: null, altitudeM: 500 };
+    // 20 °C, 50 % RH at 101 325 Pa: 1.1989 kg/m³ (the CIPM-2007 check above).
+    expect(siteAirDensity(site, { tempC: 20, pressurePa: 101_325, rhPct: 50 }).densityKgM3).toBeCloseTo(1.1989, 4);
+    expect(siteAirDensity(site, null)).toEqual({ densityKgM3: isaAirDensityKgM3(500), basis: 'isa' });
+    // 2 000 hPa is no air pressure at a site: refused by the moist-air formula's range, so ISA.
+    expect(siteAirDensity(site, { tempC: 20, pressurePa: 200_000, rhPct: 50 })).toEqual({ densityKgM3: isaAirDensityKgM3(500), basis: 'isa' });
+    expect(siteAirDensity({ airDensityMode: 'fixed', fixedAirDensityKgM3: 1.25, altitudeM: 500 }, null)).toEqual({ densityKgM3: 1.25, basis: 'fixed' });
+    // Fixed without a value (the settings refuse it; a stored row could lack it): ISA, never a guess.
+    expect(siteAirDensity({ airDensityMode: 'fixed', fixedAirDensityKgM3: null, altitudeM: 0 }, null).basis).toBe('isa');
+    expect(siteAirDensity({ airDensityMode: 'isa', fixedAirDensityKgM3: 1.3, altitudeM: 1000 }, { tempC: -10, pressurePa: 90_000, rhPct: null }).densityKgM3).toBe(isaAirDensityKgM3(1000));
   });
 });
