@@ -1,6 +1,6 @@
 /**
  * The one reader of ISO 8601 dates and instants (the extended format RFC 3339 §5.6 profiles):
- * a reading's `ts` (ingest/payload.ts), the log's `from`/`to` (http/routes/logRoutes.ts) and a
+ * a reading's `ts` (ingest/payloads/readingObject.ts), the log's `from`/`to` (http/routes/logRoutes.ts) and a
  * calendar day `YYYY-MM-DD` (http/routes/zonedDay.ts). Pure.
  *
  * An instant is `YYYY-MM-DD`, `T`, `hh:mm`, optionally `:ss` and a fraction (`.` or `,`, 1 to 9

@@ -24,7 +24,7 @@
  * limit (design §2.6 v2); gusts up to 120 m/s match the plausible sensor range (design §3).
  */
 import { z } from 'zod';
-import { maxLevelLabelLength, maxPlausibleSpeedMps, maxTextLength } from '../engine/limits.ts';
+import { maxLevelLabelLength, maxNameLength, maxPlausibleSpeedMps, maxTextLength } from '../engine/limits.ts';
 
 export const maxLevelCount = 8;
 export { maxLevelLabelLength };
@@ -71,7 +71,13 @@ export const levelDefinitionSchema = z.strictObject({
    * "lowered"); the crew mark it done on their phone and the live assessment switches to it.
    * Checked against the record's configurations when the structure is saved.
    */
-  moveToConfiguration: z.string().trim().min(1, 'must name a configuration of the structure').max(60).optional(),
+  moveToConfiguration: z
+    .string()
+    .trim()
+    .min(1, 'must name a configuration of the structure')
+    // As long as a configuration's name may be (kinds/recordBase.ts), so every configuration can be named.
+    .max(maxNameLength, `must be at most ${maxNameLength} characters, as a configuration's name`)
+    .optional(),
 });
 
 export const levelListSchema = z

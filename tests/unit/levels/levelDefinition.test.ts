@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { validateStructureRecord } from '../../../server/engine/index.ts';
 import {
   checkLevelOrder,
   gustAtFractionWithoutUpliftMps,
@@ -148,5 +149,23 @@ describe('gustAtFractionWithoutUpliftMps', () => {
     expect(() => gustAtFractionWithoutUpliftMps(Number.NaN, 0.6)).toThrow(RangeError);
     expect(() => gustAtFractionWithoutUpliftMps(20, 0)).toThrow(/fraction.*\(0, 1\].*got 0/);
     expect(() => gustAtFractionWithoutUpliftMps(20, 2)).toThrow(RangeError);
+  });
+});
+
+describe("a level's move to a configuration", () => {
+  it('may name any configuration a record may have: as long as a configuration name (100 characters), not longer', () => {
+    const longest = 'l'.repeat(100);
+    // A record accepts a configuration with a name of 100 characters (kinds/recordBase.ts)...
+    const record = validateStructureRecord({
+      kind: 'banner', name: 'Long-named fence', widthM: 10, heightM: 2, clearanceM: 0.1, feet: 6, ballastPerFootKg: 60, footDepthM: 0.8, selfWeightKg: 100,
+      configurations: [{ name: longest, changes: { solidity: 0.3 } }],
+    });
+    expect(record.ok).toBe(true);
+    // ...so a level must be able to move the structure to it.
+    const moving = { ...level('Prepare', { kind: 'utilization', fraction: 0.8 }), moveToConfiguration: longest };
+    expect(levelListSchema.safeParse([moving]).success).toBe(true);
+    const tooLong = levelListSchema.safeParse([{ ...moving, moveToConfiguration: `${longest}x` }]);
+    expect(tooLong.success).toBe(false);
+    expect(tooLong.error?.issues[0]?.path).toEqual([0, 'moveToConfiguration']);
   });
 });
