@@ -290,6 +290,9 @@ export class Watch implements ReadingConsumer {
         this.structuresBySensorKey.set(key, list);
       }
     }
+    // A record, the levels or the density may have changed the ladder and the limit: the chances
+    // kept from before are worked out again at once, not up to 5 s later.
+    for (const s of nextStructures.values()) if (s.foresight !== null) this.refreshForesight(s, nowMs);
 
     if (initial) {
       this.book.restore(initial.alerts, initial.nextAlertId);
@@ -843,31 +846,38 @@ export class Watch implements ReadingConsumer {
         }
       }
     }
-    for (const s of this.structures.values()) {
-      let next: StructureForesight | null = null;
-      const sensor = s.governingSensorKey === null || s.level.noData || s.error !== null ? undefined : this.sensorsByKey.get(s.governingSensorKey);
-      if (sensor && sensor.statistics !== null) {
-        const current = this.currentDensity(s, s.windFromDeg);
-        next = structureForesight({
-          sensorKey: sensor.sensor.key,
-          statistics: sensor.statistics,
-          heightFactor: this.heightFactor(sensor, s),
-          means: { atMs: sensor.meanAtMs, meanMps: sensor.meanMps },
-          gustFactor: sensor.gustFactor,
-          level: s.level.level,
-          levels: s.model.levels,
-          triggerGustsMps: current.triggerGustsMps,
-          limitGustMps: current.limitGustMps,
-          nowMs,
-        });
-      }
-      s.foresight = next;
-      s.foresightAtMs = nowMs;
-      const identity = foresightIdentity(next);
-      if (identity !== s.foresightIdentity) {
-        s.foresightIdentity = identity;
-        if (!this.foresightWaiting.has(s.model.id)) this.foresightWaiting.set(s.model.id, nowMs);
-      }
+    for (const s of this.structures.values()) this.refreshForesight(s, nowMs);
+  }
+
+  /**
+   * One structure's foresight from its governing sensor's statistics, on its ladder and limit now.
+   * Run every few seconds, and at once when the ladder changes (a configuration switch, a register
+   * reload), so the level machine never weighs a chance worked out for another configuration.
+   */
+  private refreshForesight(s: StructureLive, nowMs: number): void {
+    let next: StructureForesight | null = null;
+    const sensor = s.governingSensorKey === null || s.level.noData || s.error !== null ? undefined : this.sensorsByKey.get(s.governingSensorKey);
+    if (sensor && sensor.statistics !== null) {
+      const current = this.currentDensity(s, s.windFromDeg);
+      next = structureForesight({
+        sensorKey: sensor.sensor.key,
+        statistics: sensor.statistics,
+        heightFactor: this.heightFactor(sensor, s),
+        means: { atMs: sensor.meanAtMs, meanMps: sensor.meanMps },
+        gustFactor: sensor.gustFactor,
+        level: s.level.level,
+        levels: s.model.levels,
+        triggerGustsMps: current.triggerGustsMps,
+        limitGustMps: current.limitGustMps,
+        nowMs,
+      });
+    }
+    s.foresight = next;
+    s.foresightAtMs = nowMs;
+    const identity = foresightIdentity(next);
+    if (identity !== s.foresightIdentity) {
+      s.foresightIdentity = identity;
+      if (!this.foresightWaiting.has(s.model.id)) this.foresightWaiting.set(s.model.id, nowMs);
     }
   }
 
@@ -1000,7 +1010,9 @@ export class Watch implements ReadingConsumer {
     s.configurationBy = input.by;
     s.configurationWarning = null;
     if (alert) this.record(this.book.actionDone(alert.id, { by: input.by, note: input.note, atMs: input.atMs, actor: input.actor, configurationName: toName }), batch, announcements);
-    // The new ladder, through the state machine (dead band and hold time as for any drop).
+    // The new ladder, through the state machine (dead band and hold time as for any drop), with
+    // the chances worked out for the new configuration.
+    this.refreshForesight(s, input.atMs);
     this.evaluate(s, input.atMs, batch, announcements);
     announcements.push({ kind: 'structure', payload: () => this.structureState(s) });
     return { ok: true, batch, announce: () => publishMessages(this.options.hub, announcements), structure: this.structureState(s), alert };

@@ -130,4 +130,45 @@ describe('a level on a chance trigger, live', () => {
     expect(text).not.toMatch(/gust passed/);
     expect(text).toMatch(/Raised on the estimate, not a measured gust: a \d+(\.\d)? % chance of a gust of \d+\.\d m\/s within 60 min/);
   });
+
+  it('a configuration switch weighs the chance worked out for the new configuration at once, not the old one for up to 5 s', () => {
+    const t0 = Date.UTC(2026, 7, 1, 12, 0, 0);
+    let now = t0;
+    const mast: RegisteredSensor = { id: 1, siteId: 1, key: 'quay-mast', name: 'Quay mast', heightM: 10, location: '', latDeg: null, lonDeg: null, unit: 'm/s', mode: 'samples', silenceTimeoutMs: 30_000, createdAtMs: t0, retiredAtMs: null };
+    const face = (areaM2: number) => [{ areaM2, centroidHeightM: 5, cfFront: 1.8, cfBack: 1.8 }];
+    // Rolled, the banner shows a quarter of its area: its limit is twice as high (U = k·q, k ∝ A, so v_lim ∝ 1/√A).
+    const recordJson = {
+      kind: 'custom', name: 'Quay banner', baseDepthM: 2, frictionCoefficient: 0.4, referenceHeightM: 10, faces: face(8), masses: [{ massKg: 4000, xM: 1 }],
+      coefficientSource: 'EN 1991-1-4 7.4.3 signboard c_f 1.80', configurations: [{ name: 'rolled', changes: { faces: face(2) } }],
+    };
+    const levels = [
+      { label: 'Prepare', trigger: { kind: 'chance', fraction: 1, withinMinutes: 60, probability: 0.05 }, actionText: 'Bring the second ballast pallet to the banner.' },
+      { label: 'Take down', trigger: { kind: 'utilization', fraction: 1 }, actionText: 'Unclip the banner and roll it.' },
+    ];
+    const watch = new Watch({ hub: new LiveHub(1000), now: () => now });
+    watch.configure(testSite(), [mast], [{ id: 1, name: 'Quay banner', kind: 'custom', orientationDeg: 0, mobile: false, sensorKeysJson: null, levelsJson: levels, recordJson }]);
+    const limit = watch.structureStateById(1)!.limitGustMps;
+    const ladder = watch.structureStateById(1)!.triggerGustsMps;
+    const random = seededRandom(11);
+    let wind = 0;
+    for (let i = 0; i < 19 * 60; i++) {
+      now += 1_000;
+      const [meanMps, sigmaMps] = i < 7 * 60 ? [0.25 * limit, 0.04 * limit] : [0.6 * limit, 0.12 * limit];
+      wind = 0.8 * wind + 0.6 * sigmaMps * normal(random);
+      watch.take(mast, [{ tsMs: now, speedMps: Math.min(0.9 * ladder[0]!, Math.max(0, meanMps + wind)), gustMps: null, dirDeg: 240, tempC: null, pressurePa: null, rhPct: null }], now);
+      watch.tick();
+    }
+    const before = watch.structureStateById(1)!;
+    expect(before.level).toBe(1);
+    expect((before.foresight as ForesightView).triggerChances[0]!.thresholdGustMps).toBeCloseTo(limit, 0);
+
+    const switched = watch.switchConfiguration({ structureId: 1, name: 'rolled', by: 'Deck crew', actor: 'crew', note: null, alertId: null, atMs: now });
+    expect(switched.ok).toBe(true);
+    const after = watch.structureStateById(1)!;
+    expect(after.limitGustMps).toBeCloseTo(2 * limit, 6);
+    // In the same moment, the chance is of the rolled banner's limit (to the 0.1 m/s a screen shows), and far smaller.
+    const f = after.foresight as ForesightView;
+    expect(f.triggerChances[0]!.thresholdGustMps).toBeCloseTo(after.limitGustMps, 0);
+    expect(f.triggerChances[0]!.chance).toBeLessThan((before.foresight as ForesightView).triggerChances[0]!.chance);
+  });
 });
