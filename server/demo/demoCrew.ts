@@ -78,8 +78,11 @@ export class DemoCrew {
       if (plan.acknowledgeAtMs !== null && !plan.acknowledged && nowMs >= plan.acknowledgeAtMs && alert.acknowledgedAtMs === null) {
         plan.acknowledged = true;
         const note = demoConfigurationNotes(kind).seenLate;
-        watch.acknowledged(alert.id, plan.by, note, nowMs);
-        void this.options.store({ ...emptyWriteBatch(), acknowledgements: [{ alertId: alert.id, atMs: nowMs, by: plan.by, note, actor: demoActor }] });
+        const by = plan.by;
+        // Stored first, then the watch marks it and the stream says so, as the acknowledge route does.
+        void Promise.resolve(this.options.store({ ...emptyWriteBatch(), acknowledgements: [{ alertId: alert.id, atMs: nowMs, by, note, actor: demoActor }] })).then(() =>
+          watch.acknowledged(alert.id, by, note, nowMs),
+        );
       }
       if (nowMs >= plan.doneAtMs) {
         const notes = demoAcknowledgeNotes('level', kind, alert.level);
