@@ -33,6 +33,12 @@
  * then how many more, each message starting with where it is in plain words:
  * 'Line 4, column 3 (gust): "8 mhp" is not a speed — use m/s, km/h, mph or kn' (lines counted from
  * 1 at the first line of the text, columns from 1 at the left).
+ *
+ * Why this file is long (about 560 lines): it is one reader whose phases (header and its settings,
+ * splitting the lines, the date order of the whole table, the cells, the order of the rows) share
+ * the header's settings and one problem list, marked "----" below. The parts that stand alone are
+ * in their own files: columns (forecastColumns.ts), dates and times (forecastDateTime.ts), speed
+ * units (forecastSpeedUnit.ts), zones (zonedTimeResolver.ts), fields (formats/delimitedText.ts).
  */
 import { compassPointDeg } from './compassPointDeg.ts';
 import { readDelimited, type DelimitedProblem } from '../formats/delimitedText.ts';
