@@ -50,9 +50,9 @@ export interface RunningServer {
   /** The forecast feed's poller (server/forecastFeed). */
   forecastFeed: ForecastFeed;
   /** Reloads the register into the watch (after changes made outside the API). */
-  reloadRegister(): void;
+  reloadRegister(): Promise<void>;
   /** Reloads the register and rebuilds levels and open alerts from the log (after writing to it directly). */
-  rebuildFromLog(): void;
+  rebuildFromLog(): Promise<void>;
   /** Runs one tick now (tests). */
   tickNow(): Promise<void>;
   close(): Promise<void>;
@@ -81,8 +81,8 @@ export interface StartOptions {
 }
 
 /** The site as the watch takes it: the settings' one schema (register/siteSettings.ts) over the stored row. */
-export function siteSettings(storage: Storage): SiteSettings {
-  return siteView(getSite(storage));
+export async function siteSettings(storage: Storage): Promise<SiteSettings> {
+  return siteView(await getSite(storage));
 }
 
 function activeStructures(storage: Storage) {
@@ -90,13 +90,13 @@ function activeStructures(storage: Storage) {
 }
 
 /** Last level of each structure and the alerts still open, to rebuild the watch after a restart. */
-export function initialState(storage: Storage): InitialState {
+export async function initialState(storage: Storage): Promise<InitialState> {
   // The last logged row of each structure, in one pass over the (small) level-change log.
-  const levels = storage.levelChanges.lastLevels();
-  const sensorKeys = new Map(storage.sensors.all().map((s) => [s.id, s]));
-  const structureNames = storage.structures.names();
-  const actionDueMs = getSite(storage).actionDueMs;
-  const alertRows = storage.alerts.open();
+  const levels = await storage.levelChanges.lastLevels();
+  const sensorKeys = new Map((await storage.sensors.all()).map((s) => [s.id, s]));
+  const structureNames = await storage.structures.names();
+  const actionDueMs = (await getSite(storage)).actionDueMs;
+  const alertRows = await storage.alerts.open();
   const alerts: OpenAlert[] = alertRows.map((r) => {
     const sensor = r.sensorId !== null ? sensorKeys.get(r.sensorId) : undefined;
     return {
@@ -123,9 +123,9 @@ export function initialState(storage: Storage): InitialState {
       overdueAtMs: r.overdueAtMs,
     };
   });
-  const maxId = storage.alerts.maxId();
+  const maxId = await storage.alerts.maxId();
   // Each structure's last configuration switch: after a restart it is assessed as it stands.
-  const configurations = storage.log.lastConfigurations();
+  const configurations = await storage.log.lastConfigurations();
   return { levels, alerts, nextAlertId: maxId + 1, configurations };
 }
 
@@ -135,19 +135,19 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
   const storage = openStorage(path.join(config.dataDir, 'holdfast.sqlite'));
   const { opened } = storage;
   const { db } = opened;
-  ensureSite(storage, now());
+  await ensureSite(storage, now());
 
   const accounts = new Accounts(storage);
-  const registry = new Registry(storage);
-  const rejections = new RejectionLog(storage.rejections, log, now, (key) => registry.sensorByKey(key) !== undefined);
+  const registry = await Registry.load(storage);
+  const rejections = await RejectionLog.open(storage.rejections, log, now, (key) => registry.sensorByKey(key) !== undefined);
   // Each sensor's newest minute rollup lived in memory until the last stop: recompute it.
-  const newestMinutes = storage.writes.rebuildNewestMinutes();
+  const newestMinutes = await storage.writes.rebuildNewestMinutes();
   const queue = storage.writes.queue(now, config.mqttUrl ? 0 : 2, newestMinutes, { commitThread: options.commitThread ?? config.mqttUrl === null });
   const hub = new LiveHub();
   let systemStatus: () => SystemStatus = () => ({ storageOk: true, storageError: null, storageBacklogRows: 0, brokerOk: true, brokerState: 'starting' });
   const watch = new Watch({ hub, now, onNotice: (message, detail) => log.info(detail, message), systemStatus: () => systemStatus() });
-  const reloadRegister = (): void => watch.configure(siteSettings(storage), registry.sensors(), activeStructures(storage));
-  watch.configure(siteSettings(storage), registry.sensors(), activeStructures(storage), initialState(storage));
+  const reloadRegister = async (): Promise<void> => watch.configure(await siteSettings(storage), registry.sensors(), await activeStructures(storage));
+  watch.configure(await siteSettings(storage), registry.sensors(), await activeStructures(storage), await initialState(storage));
   registry.onReload(reloadRegister);
 
   const pipeline = new IngestPipeline(config.topicPrefix, registry, rejections, watch, queue);
@@ -177,7 +177,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     } catch (err) {
       await broker.stop().catch(() => undefined);
       queue.stop(); // ends the commit thread, which would keep the process alive
-      storage.close();
+      await storage.close();
       throw err;
     }
   }
@@ -233,17 +233,19 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
 
   // Fed by the live hub's alert events, which are published after their commit (design §5).
   let publicBase = config.publicUrl ?? '';
-  const notifier = new Notifier({ storage, config, hub, watch, queue, now, log, publicBase: () => publicBase }, options.notify);
-  notifier.start();
+  const notifier = await Notifier.open({ storage, config, hub, watch, queue, now, log, publicBase: () => publicBase }, options.notify);
+  await notifier.start();
 
   // The forecast feed (design §2.7): its own unref'd timer and requests, never in ingest's way.
   const forecastFeed = new ForecastFeed({ storage, now, log }, options.forecastFeed);
-  forecastFeed.start();
+  await forecastFeed.start();
 
   const limiter = new SignInLimiter();
   // 30 failures in 15 minutes from one address: a crew behind one router, not a password list.
   const addressLimiter = new SignInLimiter({ maxFailures: 30, windowMs: 15 * 60_000 });
-  const health = () => {
+  const health = async () => {
+    const notify = await notifier.health();
+    const forecastFeedHealth = await forecastFeed.health();
     const brokerHealth = broker ? broker.health() : external!.health();
     const brokerOk = broker ? brokerHealth && (brokerHealth as { listening: boolean }).listening : external!.connected;
     const dbOk = !queue.failing;
@@ -269,8 +271,8 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
       },
       ingest: { ...pipeline.counters, rejectedTotal: rejections.totalCount },
       liveStreamClients: hub.listenerCount,
-      notify: notifier.health(),
-      forecastFeed: forecastFeed.health(),
+      notify,
+      forecastFeed: forecastFeedHealth,
       atMs: now(),
     };
   };
@@ -302,15 +304,15 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     notifier,
     forecastFeed,
     reloadRegister,
-    rebuildFromLog: () => watch.configure(siteSettings(storage), registry.sensors(), activeStructures(storage), initialState(storage)),
+    rebuildFromLog: async () => watch.configure(await siteSettings(storage), registry.sensors(), await activeStructures(storage), await initialState(storage)),
     tickNow,
     close: async () => undefined,
   };
 
   // A change of the site settings may change the feed's address, interval or unit: it polls at once.
-  const reloadAfterChange = (): void => {
-    reloadRegister();
-    forecastFeed.settingsChanged();
+  const reloadAfterChange = async (): Promise<void> => {
+    await reloadRegister();
+    await forecastFeed.settingsChanged();
   };
   const ctx: ApiContext = { storage, registry, watch, queue, hub, rejections, accounts, now, reloadRegister: reloadAfterChange, topicPrefix: config.topicPrefix, health, log, forecastFeed };
   const staticRoot = options.staticRoot === undefined ? path.resolve('web/dist') : options.staticRoot;
@@ -370,8 +372,8 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     await forecastFeed.stop();
     await queue.settle();
     queue.stop();
-    rejections.flush();
-    storage.close();
+    await rejections.flush();
+    await storage.close();
   };
   return running;
 }

@@ -65,24 +65,24 @@ function toPerson(row: PersonRow): Person {
 export class Accounts {
   constructor(private readonly storage: Storage) {}
 
-  countPeople(): number {
+  countPeople(): Promise<number> {
     return this.storage.people.count();
   }
 
-  listPeople(): Person[] {
-    return this.storage.people.all().map(toPerson);
+  async listPeople(): Promise<Person[]> {
+    return (await this.storage.people.all()).map(toPerson);
   }
 
   async createPerson(input: z.infer<typeof personInputSchema>, actor: string, nowMs: number): Promise<Person> {
     const passwordHash = await hashPassword(input.password);
     const { storage } = this;
-    return storage.transaction(() => {
-      if (storage.people.byUsername(input.username)) {
+    return await storage.transaction(async () => {
+      if (await storage.people.byUsername(input.username)) {
         throw new Conflict(`username "${input.username}" is taken`);
       }
-      const row = storage.people.insert({ username: input.username, displayName: input.displayName, role: input.role, passwordHash, createdAtMs: nowMs });
+      const row = await storage.people.insert({ username: input.username, displayName: input.displayName, role: input.role, passwordHash, createdAtMs: nowMs });
       const person = toPerson(row);
-      storage.audit.record({ actor, entity: 'person', entityId: person.username, action: 'create', after: person }, nowMs);
+      await storage.audit.record({ actor, entity: 'person', entityId: person.username, action: 'create', after: person }, nowMs);
       return person;
     });
   }
@@ -90,13 +90,13 @@ export class Accounts {
   async updatePerson(id: number, patch: z.infer<typeof personUpdateSchema>, actor: string, nowMs: number): Promise<Person> {
     const passwordHash = patch.password ? await hashPassword(patch.password) : null;
     const { storage } = this;
-    return storage.transaction(() => {
-      const beforeRow = storage.people.byId(id);
+    return await storage.transaction(async () => {
+      const beforeRow = await storage.people.byId(id);
       if (!beforeRow) throw new NotFound(`person ${id}`);
       const before = toPerson(beforeRow);
       const becomesNonAdmin = (patch.role !== undefined && patch.role !== 'admin') || patch.disabled === true;
       if (before.role === 'admin' && becomesNonAdmin) {
-        const admins = storage.people.activeAdmins();
+        const admins = await storage.people.activeAdmins();
         if (admins.length <= 1) throw new Conflict('the last administrator cannot be demoted or disabled');
       }
       const set: Parameters<Storage['people']['update']>[1] = {};
@@ -104,28 +104,28 @@ export class Accounts {
       if (patch.role !== undefined) set.role = patch.role;
       if (passwordHash) set.passwordHash = passwordHash;
       if (patch.disabled !== undefined) set.disabledAtMs = patch.disabled ? nowMs : null;
-      const after = toPerson(storage.people.update(id, set));
+      const after = toPerson(await storage.people.update(id, set));
       // A new password, a new role or a disabled account ends every open session of the person.
-      if (passwordHash || patch.role !== undefined || patch.disabled) storage.people.closeSessionsOf(id);
-      storage.audit.record({ actor, entity: 'person', entityId: after.username, action: passwordHash ? 'update, new password' : 'update', before, after }, nowMs);
+      if (passwordHash || patch.role !== undefined || patch.disabled) await storage.people.closeSessionsOf(id);
+      await storage.audit.record({ actor, entity: 'person', entityId: after.username, action: passwordHash ? 'update, new password' : 'update', before, after }, nowMs);
       return after;
     });
   }
 
   /** Checks a username and password; the person, or null (same answer for unknown and wrong). */
   async checkPassword(username: string, password: string): Promise<Person | null> {
-    const row = this.storage.people.byUsername(username);
+    const row = await this.storage.people.byUsername(username);
     // Hash anyway for an unknown user, so timing does not tell which usernames exist.
     const ok = await verifyPassword(password, row?.passwordHash ?? 'scrypt$32768$8$1$AAAAAAAAAAAAAAAAAAAAAA==$AAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAA=');
     if (!row || !ok || row.disabledAtMs !== null) return null;
     return toPerson(row);
   }
 
-  openSession(owner: { personId: number } | { siteLinkId: number }, nowMs: number, lifetimeMs = sessionLifetimeMs): { token: string; csrfToken: string; expiresAtMs: number } {
+  async openSession(owner: { personId: number } | { siteLinkId: number }, nowMs: number, lifetimeMs = sessionLifetimeMs): Promise<{ token: string; csrfToken: string; expiresAtMs: number }> {
     const token = newToken();
     const csrfToken = newToken();
     const expiresAtMs = nowMs + lifetimeMs;
-    this.storage.people.openSession({
+    await this.storage.people.openSession({
       tokenHash: tokenHash(token),
       personId: 'personId' in owner ? owner.personId : null,
       siteLinkId: 'siteLinkId' in owner ? owner.siteLinkId : null,
@@ -137,68 +137,68 @@ export class Accounts {
   }
 
   /** The principal behind a session cookie, or null when the session is unknown, expired or revoked. */
-  principalOfSession(token: string, nowMs: number): Principal | null {
+  async principalOfSession(token: string, nowMs: number): Promise<Principal | null> {
     const hash = tokenHash(token);
-    const session = this.storage.people.session(hash);
+    const session = await this.storage.people.session(hash);
     if (!session) return null;
     if (session.expiresAtMs <= nowMs) {
-      this.storage.people.closeSession(hash);
+      await this.storage.people.closeSession(hash);
       return null;
     }
     if (session.personId !== null) {
-      const row = this.storage.people.byId(session.personId);
+      const row = await this.storage.people.byId(session.personId);
       if (!row || row.disabledAtMs !== null) return null;
       const person = toPerson(row);
       return { kind: 'person', person, role: person.role, sessionTokenHash: hash, csrfToken: session.csrfToken };
     }
     if (session.siteLinkId !== null) {
-      const link = this.storage.people.siteLink(session.siteLinkId);
+      const link = await this.storage.people.siteLink(session.siteLinkId);
       if (!link || link.revokedAtMs !== null || link.expiresAtMs <= nowMs) return null;
       return { kind: 'link', linkId: link.id, label: link.label, role: 'viewer', sessionTokenHash: hash, csrfToken: session.csrfToken };
     }
     return null;
   }
 
-  closeSession(sessionTokenHash: string): void {
-    this.storage.people.closeSession(sessionTokenHash);
+  async closeSession(sessionTokenHash: string): Promise<void> {
+    await this.storage.people.closeSession(sessionTokenHash);
   }
 
-  closeAllSessionsOf(personId: number): number {
+  closeAllSessionsOf(personId: number): Promise<number> {
     return this.storage.people.closeSessionsOf(personId);
   }
 
   // ---- site links ----
 
-  createSiteLink(label: string, lifetimeMs: number, actor: string, nowMs: number): { id: number; token: string; expiresAtMs: number } {
+  async createSiteLink(label: string, lifetimeMs: number, actor: string, nowMs: number): Promise<{ id: number; token: string; expiresAtMs: number }> {
     const token = newToken();
     const expiresAtMs = nowMs + lifetimeMs;
     const { storage } = this;
-    const row = storage.transaction(() => {
-      const r = storage.people.insertSiteLink({ tokenHash: tokenHash(token), label, createdBy: actor, createdAtMs: nowMs, expiresAtMs });
-      storage.audit.record({ actor, entity: 'site-link', entityId: r.id, action: 'create', after: { label, expiresAtMs } }, nowMs);
+    const row = await storage.transaction(async () => {
+      const r = await storage.people.insertSiteLink({ tokenHash: tokenHash(token), label, createdBy: actor, createdAtMs: nowMs, expiresAtMs });
+      await storage.audit.record({ actor, entity: 'site-link', entityId: r.id, action: 'create', after: { label, expiresAtMs } }, nowMs);
       return r;
     });
     return { id: row.id, token, expiresAtMs };
   }
 
-  listSiteLinks(): Array<{ id: number; label: string; createdBy: string; createdAtMs: number; expiresAtMs: number; revokedAtMs: number | null }> {
-    return this.storage.people.siteLinks().map(({ id, label, createdBy, createdAtMs, expiresAtMs, revokedAtMs }) => ({ id, label, createdBy, createdAtMs, expiresAtMs, revokedAtMs }));
+  async listSiteLinks(): Promise<Array<{ id: number; label: string; createdBy: string; createdAtMs: number; expiresAtMs: number; revokedAtMs: number | null }>> {
+    return (await this.storage.people.siteLinks()).map(({ id, label, createdBy, createdAtMs, expiresAtMs, revokedAtMs }) => ({ id, label, createdBy, createdAtMs, expiresAtMs, revokedAtMs }));
   }
 
   /** The link a token opens, if it is live. */
-  liveSiteLink(token: string, nowMs: number): { id: number; label: string; expiresAtMs: number } | null {
-    const link = this.storage.people.liveSiteLink(tokenHash(token), nowMs);
+  async liveSiteLink(token: string, nowMs: number): Promise<{ id: number; label: string; expiresAtMs: number } | null> {
+    const link = await this.storage.people.liveSiteLink(tokenHash(token), nowMs);
     return link ? { id: link.id, label: link.label, expiresAtMs: link.expiresAtMs } : null;
   }
 
-  revokeSiteLink(id: number, actor: string, nowMs: number): void {
+  async revokeSiteLink(id: number, actor: string, nowMs: number): Promise<void> {
     const { storage } = this;
-    storage.transaction(() => {
-      const link = storage.people.siteLink(id);
+    await storage.transaction(async () => {
+      const link = await storage.people.siteLink(id);
       if (!link) throw new NotFound(`site link ${id}`);
-      storage.people.revokeSiteLink(id, link.revokedAtMs ?? nowMs);
-      storage.people.closeSessionsOfLink(id);
-      storage.audit.record({ actor, entity: 'site-link', entityId: id, action: 'revoke', before: { label: link.label } }, nowMs);
+      await storage.people.revokeSiteLink(id, link.revokedAtMs ?? nowMs);
+      await storage.people.closeSessionsOfLink(id);
+      await storage.audit.record({ actor, entity: 'site-link', entityId: id, action: 'revoke', before: { label: link.label } }, nowMs);
     });
   }
 
@@ -209,7 +209,7 @@ export class Accounts {
    * setup code (returned, to be printed in the log). Returns null when people exist already.
    */
   async prepareFirstAdmin(config: { username: string | null; password: string | null }, nowMs: number): Promise<{ created: Person } | { setupCode: string } | null> {
-    if (this.countPeople() > 0) return null;
+    if ((await this.countPeople()) > 0) return null;
     if (config.username && config.password) {
       const created = await this.createPerson(
         { username: config.username, displayName: config.username, role: 'admin', password: config.password },
@@ -219,21 +219,21 @@ export class Accounts {
       return { created };
     }
     const setupCode = newToken().slice(0, 24);
-    this.storage.meta.set(setupCodeKey, tokenHash(setupCode), nowMs);
+    await this.storage.meta.set(setupCodeKey, tokenHash(setupCode), nowMs);
     return { setupCode };
   }
 
-  get setupPending(): boolean {
-    return this.countPeople() === 0 && this.storage.meta.get(setupCodeKey) !== null;
+  async setupPending(): Promise<boolean> {
+    return (await this.countPeople()) === 0 && (await this.storage.meta.get(setupCodeKey)) !== null;
   }
 
   /** Uses the setup code once to create the first administrator. */
   async completeSetup(code: string, input: { username: string; displayName: string; password: string }, nowMs: number): Promise<Person> {
-    const stored = this.storage.meta.get(setupCodeKey);
-    if (stored === null || this.countPeople() > 0) throw new Conflict('setup is already done');
+    const stored = await this.storage.meta.get(setupCodeKey);
+    if (stored === null || (await this.countPeople()) > 0) throw new Conflict('setup is already done');
     if (tokenHash(code) !== stored) throw new Refused('wrong setup code');
     const person = await this.createPerson({ ...input, role: 'admin' }, 'setup code', nowMs);
-    this.storage.meta.delete(setupCodeKey);
+    await this.storage.meta.delete(setupCodeKey);
     return person;
   }
 }

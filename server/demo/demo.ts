@@ -36,29 +36,29 @@ const pastDayCrew = ['Sam Okoro (site crew)', 'Priya Nandakumar (stage manager)'
 const gatewayPasswordKey = 'demo-gateway-password';
 const actor = 'demo set-up';
 
-function meta(storage: Storage, key: string): string | null {
+function meta(storage: Storage, key: string): Promise<string | null> {
   return storage.meta.get(key);
 }
 
-function setMeta(storage: Storage, key: string, value: string, nowMs: number): void {
-  storage.meta.set(key, value, nowMs);
+function setMeta(storage: Storage, key: string, value: string, nowMs: number): Promise<void> {
+  return storage.meta.set(key, value, nowMs);
 }
 
 /** Registers the demo site once per data folder. */
 async function seedRegister(server: RunningServer, nowMs: number): Promise<void> {
   const { storage: db, accounts } = server;
-  if (meta(db, seededKey)) return;
-  updateSite(db, { name: demoSiteName, altitudeM: 85, terrainCategory: 'II', timeZone: demoTimeZone, airDensityMode: 'measured' }, actor, nowMs);
-  const site = getSite(db);
+  if (await meta(db, seededKey)) return;
+  await updateSite(db, { name: demoSiteName, altitudeM: 85, terrainCategory: 'II', timeZone: demoTimeZone, airDensityMode: 'measured' }, actor, nowMs);
+  const site = await getSite(db);
   for (const person of demoPeople) {
-    if (!accounts.listPeople().some((p) => p.username === person.username)) await accounts.createPerson(person, actor, nowMs);
+    if (!(await accounts.listPeople()).some((p) => p.username === person.username)) await accounts.createPerson(person, actor, nowMs);
   }
-  for (const sensor of demoSensors) createSensor(db, site.id, sensor, actor, nowMs);
+  for (const sensor of demoSensors) await createSensor(db, site.id, sensor, actor, nowMs);
   const { password } = await createGateway(db, site.id, { name: 'Site gateway (demo)', username: demoGatewayUsername, sensorKeys: demoSensors.map((s) => s.key) }, actor, nowMs);
-  setMeta(db, gatewayPasswordKey, password, nowMs);
-  for (const structure of demoStructures) createStructure(db, site.id, structure, actor, nowMs);
-  server.registry.reload();
-  server.reloadRegister();
+  await setMeta(db, gatewayPasswordKey, password, nowMs);
+  for (const structure of demoStructures) await createStructure(db, site.id, structure, actor, nowMs);
+  await server.registry.reload();
+  await server.reloadRegister();
 }
 
 /** Spells for the live demo: the first 3 minutes after start, then every 40 minutes for a day. */
@@ -91,14 +91,15 @@ export function demoRegisteredAtMs(nowMs: number): number {
   return pastDay(nowMs).window.fromMs - 5 * 3_600_000;
 }
 
-function writePastDay(server: RunningServer, nowMs: number, seed: number, log: Logger): void {
+async function writePastDay(server: RunningServer, nowMs: number, seed: number, log: Logger): Promise<void> {
   const { storage: db } = server;
   const { day: yesterday, window } = pastDay(nowMs);
   let simNow = window.fromMs;
   const watch = new Watch({ hub: new LiveHub(50), now: () => simNow });
   const sensors = server.registry.sensors();
-  const structures = listStructures(db).map((s) => ({ ...s, recordJson: s.record, sensorKeysJson: s.sensorKeys, levelsJson: s.levels }));
-  watch.configure(siteSettings(db), sensors, structures);
+  const structures = (await listStructures(db)).map((s) => ({ ...s, recordJson: s.record, sensorKeysJson: s.sensorKeys, levelsJson: s.levels }));
+  const settings = await siteSettings(db);
+  watch.configure(settings, sensors, structures);
   const queue = db.writes.queue(() => simNow);
   const noon = window.fromMs + 12 * 3_600_000;
   const simulator = new WindSimulator({
@@ -115,7 +116,7 @@ function writePastDay(server: RunningServer, nowMs: number, seed: number, log: L
     ],
   });
   const byKey = new Map(sensors.map((s) => [s.key, s]));
-  const kinds = new Map(db.structures.all().map((s) => [s.id, s.kind]));
+  const kinds = new Map((await db.structures.all()).map((s) => [s.id, s.kind]));
   // The crew act on the plan in simulated time, through the watch, as the live route does.
   const crewRandom = seededRandom(seed + 2);
   const demoCrew = new DemoCrew({
@@ -126,7 +127,7 @@ function writePastDay(server: RunningServer, nowMs: number, seed: number, log: L
     crew: pastDayCrew.slice(0, 2),
     competentPerson: pastDayCrew[2]!,
     doneAfterMs: [50_000, 200_000],
-    actionDueMs: siteSettings(db).actionDueMs ?? 5 * 60_000,
+    actionDueMs: settings.actionDueMs ?? 5 * 60_000,
     lateKind: 'banner',
     calmForMs: 20 * 60_000,
   });
@@ -147,22 +148,22 @@ function writePastDay(server: RunningServer, nowMs: number, seed: number, log: L
       pending = 0;
     }
   }
-  queue.settle();
+  await queue.settle();
 
   // The crew acknowledged every other alert within a few minutes, with what they did to that
   // structure (those whose action they marked done were acknowledged with it).
   const random = seededRandom(seed + 1);
   const crew = pastDayCrew;
   // By id: the order the crew's random picks were drawn in.
-  const alerts = db.alerts.raisedInWindow(window.fromMs, window.toMs).sort((a, b) => a.id - b.id);
+  const alerts = (await db.alerts.raisedInWindow(window.fromMs, window.toMs)).sort((a, b) => a.id - b.id);
   for (const a of alerts) {
     if (a.acknowledgedAtMs !== null) continue;
     const by = crew[Math.floor(random() * crew.length)]!;
     const options = demoAcknowledgeNotes(a.kind, a.structureId === null ? null : (kinds.get(a.structureId) ?? null), a.level);
     const note = options[Math.floor(random() * options.length)]!;
     const atMs = a.raisedAtMs + Math.round(30_000 + random() * 210_000);
-    db.alerts.acknowledge(a.id, atMs, by, note);
-    db.audit.record({ actor: by, entity: 'alert', entityId: a.id, action: 'acknowledge', after: { by, note } }, atMs);
+    await db.alerts.acknowledge(a.id, atMs, by, note);
+    await db.audit.record({ actor: by, entity: 'alert', entityId: a.id, action: 'acknowledge', after: { by, note } }, atMs);
   }
   log.info({ day: yesterday, readings: queue.stats.committedReadings, alerts: alerts.length, actionsDone: demoCrew.counts.done, late: demoCrew.counts.late, switchedBack: demoCrew.counts.back }, 'demo: past windy day written to the log');
 }
@@ -209,23 +210,30 @@ function startSimulator(server: RunningServer, config: Config, password: string,
  * two minutes after its alert (time for a visitor to press Done first), through the watch as the
  * route does; the competent person switches the structure back once the wind has stayed down.
  */
-function startLiveCrew(server: RunningServer, seed: number, log: Logger): { stop: () => void } {
-  const kinds = new Map<number, string>();
+async function startLiveCrew(server: RunningServer, seed: number, log: Logger): Promise<{ stop: () => void }> {
+  // Read at start; a structure registered later is looked up the first time the crew meets it
+  // (its kind is known from the next step on).
+  const kinds = new Map((await server.storage.structures.all()).map((s) => [s.id, s.kind]));
+  const actionDueMs = (await getSite(server.storage)).actionDueMs;
   const crew = new DemoCrew({
     watch: server.watch,
     store: (batch) => server.queue.enqueue(batch),
     random: seededRandom(seed + 3),
     kindOf: (id) => {
       if (!kinds.has(id)) {
-        const row = server.storage.structures.byId(id);
-        if (row) kinds.set(id, row.kind);
+        void server.storage.structures.byId(id).then(
+          (row) => {
+            if (row) kinds.set(id, row.kind);
+          },
+          () => undefined,
+        );
       }
       return kinds.get(id) ?? null;
     },
     crew: [demoPeople.find((p) => p.role === 'crew')!.displayName],
     competentPerson: demoPeople.find((p) => p.role === 'competent-person')!.displayName,
     doneAfterMs: [100_000, 160_000],
-    actionDueMs: getSite(server.storage).actionDueMs,
+    actionDueMs,
     lateKind: null,
     calmForMs: 10 * 60_000,
   });
@@ -243,19 +251,19 @@ export async function runDemo(config: Config, log: Logger): Promise<RunningServe
   const server = await startServer(config, log, {
     beforeListen: async (s) => {
       const nowMs = Date.now();
-      if (!meta(s.storage, seededKey)) {
+      if (!(await meta(s.storage, seededKey))) {
         await seedRegister(s, demoRegisteredAtMs(nowMs));
-        writePastDay(s, nowMs, config.demoSeed, log);
-        setMeta(s.storage, seededKey, new Date(nowMs).toISOString(), nowMs);
+        await writePastDay(s, nowMs, config.demoSeed, log);
+        await setMeta(s.storage, seededKey, new Date(nowMs).toISOString(), nowMs);
         // The live watch starts from what the past day left in the log.
-        s.rebuildFromLog();
+        await s.rebuildFromLog();
       }
     },
   });
-  const password = meta(server.storage, gatewayPasswordKey);
+  const password = await meta(server.storage, gatewayPasswordKey);
   if (!password) throw new Error('demo gateway password missing: delete the data folder and start the demo again');
   const simulator = startSimulator(server, config, password, log);
-  const crew = startLiveCrew(server, config.demoSeed, log);
+  const crew = await startLiveCrew(server, config.demoSeed, log);
   log.warn(
     { signIns: demoPeople.map((p) => `${p.username} / ${p.password} (${p.role})`) },
     `DEMO ONLY — sign in at http://localhost:${server.httpPort}/ with these demo accounts. Never use them on a real site.`,

@@ -85,29 +85,29 @@ export class ForecastFeed {
     return this.deps.now();
   }
 
-  settings(): ForecastFeedSettings {
-    const site = getSite(this.deps.storage);
+  async settings(): Promise<ForecastFeedSettings> {
+    const site = await getSite(this.deps.storage);
     return { url: site.forecastFeedUrl, intervalMs: site.forecastFeedIntervalMs, unit: site.forecastFeedUnit, heightM: site.forecastFeedHeightM };
   }
 
   /** Plans the first poll: at once when the address has never been polled, else when the last poll's next one falls due. */
-  start(): void {
-    const s = this.settings();
+  async start(): Promise<void> {
+    const s = await this.settings();
     this.settingsKey = settingsKey(s);
-    this.failures = this.storedFailures(s.url);
+    this.failures = await this.storedFailures(s.url);
     if (s.url === null) return;
-    const last = this.lastPoll(s.url);
+    const last = await this.lastPoll(s.url);
     const due = last === null ? 0 : last.atMs + nextPollDelayMs(s.intervalMs, this.failures) - this.deps.now();
     this.schedule(Math.max(0, due));
   }
 
   /** After the site settings changed: a new address, interval or unit is polled at once. */
-  settingsChanged(): void {
-    const s = this.settings();
+  async settingsChanged(): Promise<void> {
+    const s = await this.settings();
     const key = settingsKey(s);
     if (key === this.settingsKey) return;
     this.settingsKey = key;
-    this.failures = this.storedFailures(s.url);
+    this.failures = await this.storedFailures(s.url);
     if (s.url === null) this.cancelTimer();
     else this.schedule(0);
   }
@@ -137,21 +137,21 @@ export class ForecastFeed {
   }
 
   /** The newest poll of an address (any address when none is given). */
-  lastPoll(url?: string | null): ForecastPoll | null {
+  lastPoll(url?: string | null): Promise<ForecastPoll | null> {
     return this.deps.storage.forecastPolls.last(url);
   }
 
-  lastSuccess(url: string): ForecastPoll | null {
+  lastSuccess(url: string): Promise<ForecastPoll | null> {
     return this.deps.storage.forecastPolls.lastWith(url, true);
   }
 
-  status(nowMs = this.deps.now()): ForecastFeedStatus {
-    const settings = this.settings();
+  async status(nowMs = this.deps.now()): Promise<ForecastFeedStatus> {
+    const settings = await this.settings();
     if (settings.url === null) {
       return { configured: false, settings, lastPoll: null, lastSuccess: null, ageMs: null, stale: false, consecutiveFailures: 0, nextPollAtMs: null };
     }
-    const lastPoll = this.lastPoll(settings.url);
-    const lastSuccess = lastPoll?.ok ? lastPoll : this.lastSuccess(settings.url);
+    const lastPoll = await this.lastPoll(settings.url);
+    const lastSuccess = lastPoll?.ok ? lastPoll : await this.lastSuccess(settings.url);
     return {
       configured: true,
       settings,
@@ -159,16 +159,16 @@ export class ForecastFeed {
       lastSuccess,
       ageMs: lastSuccess === null ? null : nowMs - lastSuccess.atMs,
       stale: feedIsStale(lastSuccess?.atMs ?? null, settings.intervalMs, nowMs),
-      consecutiveFailures: this.storedFailures(settings.url),
+      consecutiveFailures: await this.storedFailures(settings.url),
       nextPollAtMs: this.nextAtMs,
     };
   }
 
   /** For /api/health: configured, ok (the last poll read and the forecast not stale; null without a feed), stale, the newest failure. */
-  health(): { configured: boolean; ok: boolean | null; stale: boolean; lastError: string | null; lastErrorAtMs: number | null; lastSuccessAtMs: number | null } {
-    const s = this.status();
+  async health(): Promise<{ configured: boolean; ok: boolean | null; stale: boolean; lastError: string | null; lastErrorAtMs: number | null; lastSuccessAtMs: number | null }> {
+    const s = await this.status();
     if (!s.configured) return { configured: false, ok: null, stale: false, lastError: null, lastErrorAtMs: null, lastSuccessAtMs: null };
-    const failed = this.deps.storage.forecastPolls.lastWith(s.settings.url!, false);
+    const failed = await this.deps.storage.forecastPolls.lastWith(s.settings.url!, false);
     return {
       configured: true,
       ok: s.lastPoll?.ok === true && !s.stale,
@@ -197,15 +197,15 @@ export class ForecastFeed {
     this.timer = null;
     this.nextAtMs = null;
     await this.pollNow();
-    const s = this.settings();
+    const s = await this.settings();
     // A timer set meanwhile (settings changed during the poll) stands.
     if (s.url !== null && this.timer === null) this.schedule(nextPollDelayMs(s.intervalMs, this.failures));
   }
 
   /** Failed polls of this address since its last successful one (what the back-off counts). */
-  private storedFailures(url: string | null): number {
+  private async storedFailures(url: string | null): Promise<number> {
     if (url === null) return 0;
-    const good = this.lastSuccess(url);
+    const good = await this.lastSuccess(url);
     return this.deps.storage.forecastPolls.failuresAfter(url, good?.id ?? 0);
   }
 
@@ -214,8 +214,8 @@ export class ForecastFeed {
     let settings: ForecastFeedSettings;
     let timeZone: string;
     try {
-      settings = this.settings();
-      timeZone = getSite(storage).timeZone;
+      settings = await this.settings();
+      timeZone = (await getSite(storage)).timeZone;
     } catch (err) {
       log?.error({ err: fetchErrorWords(err) }, 'forecast feed: the site settings cannot be read');
       return null;
@@ -246,7 +246,7 @@ export class ForecastFeed {
     if (!result.ok && !wasFailing) log?.warn({ url: redactedUrl(url), error: result.error }, 'forecast feed poll failed: the board shows the feed as failed');
     if (result.ok && wasFailing) log?.info({ url: redactedUrl(url), rows: result.rows?.length ?? 0 }, 'forecast feed read again');
     try {
-      return storage.forecastPolls.add({ atMs, url, durationMs, ...result });
+      return await storage.forecastPolls.add({ atMs, url, durationMs, ...result });
     } catch (err) {
       log?.error({ err: fetchErrorWords(err) }, 'forecast feed: the poll cannot be stored');
       return { id: 0, atMs, url, durationMs, ...result };

@@ -26,7 +26,7 @@ export interface AccessOptions {
 export function resolvePrincipal(options: AccessOptions): MiddlewareHandler<AppEnv> {
   return async (c, next) => {
     const token = getCookie(c, sessionCookieName);
-    const principal = token ? options.accounts.principalOfSession(token, options.now()) : null;
+    const principal = token ? await options.accounts.principalOfSession(token, options.now()) : null;
     c.set('principal', principal);
     if (principal && stateChanging.has(c.req.method) && !options.csrfExempt.has(c.req.path)) {
       const sent = c.req.header('x-csrf-token');

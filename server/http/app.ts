@@ -19,7 +19,7 @@ import type { Logger } from '../log.ts';
 
 export interface HealthSource {
   /** The health report; `ok` false answers 503 so probes notice. */
-  health(): { ok: boolean } & Record<string, unknown>;
+  health(): Promise<{ ok: boolean } & Record<string, unknown>>;
 }
 
 export interface AppServices {
@@ -68,8 +68,8 @@ export function createApp(services: AppServices): Hono<AppEnv> {
   app.use('*', checkRequestOrigin(services.origin));
   app.use('*', resolvePrincipal(services.access));
 
-  app.get('/api/health', (c) => {
-    const report = services.health.health();
+  app.get('/api/health', async (c) => {
+    const report = await services.health.health();
     return c.json(report, report.ok ? 200 : 503);
   });
   app.route('/api/assess', assessRoute);

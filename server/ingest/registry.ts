@@ -1,6 +1,7 @@
 /**
  * The registered sensors and gateways, held in memory for the per-message path (topic → sensor,
- * username → gateway) and reloaded from the database whenever the register changes.
+ * username → gateway) and reloaded from the database whenever the register changes. The lookups
+ * are synchronous; only the reload waits for the database.
  */
 import type { SensorRow } from '../storage/sensors.ts';
 import type { Storage } from '../storage/storage.ts';
@@ -23,15 +24,22 @@ export class Registry {
   private sensorsByKey = new Map<string, RegisteredSensor>();
   private sensorsById = new Map<number, RegisteredSensor>();
   private gatewaysByUsername = new Map<string, RegisteredGateway>();
-  private listeners: Array<() => void> = [];
+  private listeners: Array<() => void | Promise<void>> = [];
 
-  constructor(private readonly storage: Pick<Storage, 'sensors' | 'gateways'>) {
-    this.reload();
+  /** Empty until `reload` (or made loaded by `Registry.load`). */
+  constructor(private readonly storage: Pick<Storage, 'sensors' | 'gateways'>) {}
+
+  /** A registry loaded from storage. */
+  static async load(storage: Pick<Storage, 'sensors' | 'gateways'>): Promise<Registry> {
+    const registry = new Registry(storage);
+    await registry.reload();
+    return registry;
   }
 
-  /** Re-reads sensors and gateways; call after every change to them. */
-  reload(): void {
-    const sensors = this.storage.sensors.active();
+  /** Re-reads sensors and gateways, then runs the listeners; call (and await) after every change to them. */
+  async reload(): Promise<void> {
+    // Read in the order they are asked for, applied in the same order: the newest reload wins.
+    const [sensors, gateways, links] = await Promise.all([this.storage.sensors.active(), this.storage.gateways.active(), this.storage.gateways.links()]);
     this.sensorsByKey = new Map();
     this.sensorsById = new Map();
     for (const row of sensors) {
@@ -39,8 +47,6 @@ export class Registry {
       this.sensorsByKey.set(sensor.key, sensor);
       this.sensorsById.set(sensor.id, sensor);
     }
-    const gateways = this.storage.gateways.active();
-    const links = this.storage.gateways.links();
     this.gatewaysByUsername = new Map();
     for (const g of gateways) {
       const keys = new Set<string>();
@@ -51,10 +57,10 @@ export class Registry {
       }
       this.gatewaysByUsername.set(g.username, { id: g.id, name: g.name, username: g.username, passwordHash: g.passwordHash, sensorKeys: keys });
     }
-    for (const listener of this.listeners) listener();
+    for (const listener of this.listeners) await listener();
   }
 
-  onReload(listener: () => void): void {
+  onReload(listener: () => void | Promise<void>): void {
     this.listeners.push(listener);
   }
 

@@ -11,6 +11,7 @@
  * fills one line, not the book; at most `maxRefusalGroups` groups, the stalest dropped first.
  */
 import type { RejectionCount, RejectionStore } from '../storage/rejections.ts';
+import type { Stored } from '../storage/storage.ts';
 import type { Logger } from '../log.ts';
 
 export type { RejectionCount };
@@ -45,18 +46,25 @@ export class RejectionLog {
   private logLinesInWindow = 0;
   private unloggedInWindow = 0;
 
+  /** The log with the counts stored so far (the constructor's arguments, `stored` read from `store`). */
+  static async open(store: Pick<Stored<RejectionStore>, 'all' | 'save'>, log: Logger, now: () => number = Date.now, isRegistered: (sensorKey: string) => boolean = () => false): Promise<RejectionLog> {
+    return new RejectionLog(store, log, now, isRegistered, await store.all());
+  }
+
   /**
    * @param isRegistered whether a key is a registered sensor's (those are never bucketed); by
    *   default no key is, and every key past the cap goes to the bucket.
+   * @param stored the counts stored so far (`open` reads them).
    */
   constructor(
-    private readonly store: Pick<RejectionStore, 'all' | 'save'>,
+    private readonly store: Pick<Stored<RejectionStore>, 'save'>,
     private readonly log: Logger,
     private readonly now: () => number = Date.now,
     private readonly isRegistered: (sensorKey: string) => boolean = () => false,
+    stored: readonly RejectionCount[] = [],
   ) {
     this.refusals = new BrokerRefusals(now);
-    for (const row of store.all()) {
+    for (const row of stored) {
       this.counts.set(`${row.sensorKey}\u0000${row.reason}`, row);
       this.sensorKeys.add(row.sensorKey);
       this.total += row.count;
@@ -100,20 +108,20 @@ export class RejectionLog {
       }
     }
     if (!this.timer) {
-      this.timer = setTimeout(() => this.flush(), flushIntervalMs);
+      this.timer = setTimeout(() => void this.flush(), flushIntervalMs);
       this.timer.unref();
     }
   }
 
   /** Writes changed counts to the database. */
-  flush(): void {
+  async flush(): Promise<void> {
     if (this.timer) clearTimeout(this.timer);
     this.timer = null;
     if (this.dirty.size === 0) return;
     const keys = [...this.dirty];
     this.dirty.clear();
     try {
-      this.store.save(keys.map((key) => this.counts.get(key)!));
+      await this.store.save(keys.map((key) => this.counts.get(key)!));
     } catch (err) {
       // The counts stay in memory and are retried on the next rejection or flush.
       for (const key of keys) this.dirty.add(key);

@@ -20,10 +20,10 @@ export type AckCheck = { ok: true; claim: AckClaim } | { ok: false; reason: 'mal
 
 const secretKey = 'notify_ack_secret';
 
-export function ackSecret(storage: Pick<Storage, 'meta'>, nowMs: number): Buffer {
-  const stored = storage.meta.get(secretKey);
+export async function ackSecret(storage: Pick<Storage, 'meta'>, nowMs: number): Promise<Buffer> {
+  const stored = await storage.meta.get(secretKey);
   if (stored !== null) return Buffer.from(stored, 'base64url');
-  return Buffer.from(storage.meta.setIfAbsent(secretKey, randomBytes(32).toString('base64url'), nowMs), 'base64url');
+  return Buffer.from(await storage.meta.setIfAbsent(secretKey, randomBytes(32).toString('base64url'), nowMs), 'base64url');
 }
 
 function sign(secret: Buffer, text: string): string {

@@ -31,6 +31,9 @@ export class Dispatcher {
   private timerAtMs = Infinity;
   private scheduled = false;
   private stopped = false;
+  /** A round is reading the outbox; another asked for meanwhile runs after it (`again`). */
+  private roundRunning = false;
+  private again = false;
   private readonly running = new Set<Promise<void>>();
   private readonly controllers = new Set<AbortController>();
 
@@ -48,7 +51,22 @@ export class Dispatcher {
     });
   }
 
+  /** One round at a time: a round started while another reads the outbox would start its rows twice. */
   private run(): void {
+    if (this.roundRunning) {
+      this.again = true;
+      return;
+    }
+    this.roundRunning = true;
+    void this.round().finally(() => {
+      this.roundRunning = false;
+      if (!this.again) return;
+      this.again = false;
+      this.run();
+    });
+  }
+
+  private async round(): Promise<void> {
     if (this.stopped) return;
     const nowMs = this.now();
     const maxInFlight = this.options.maxInFlight ?? 16;
@@ -57,12 +75,13 @@ export class Dispatcher {
     let nextDueMs = Infinity;
     let rows: OutboxRow[];
     try {
-      rows = this.options.outbox.pending();
+      rows = await this.options.outbox.pending();
     } catch (err) {
       this.options.log?.error({ err: String(err) }, 'notifications: cannot read the outbox; trying again in 5 s');
       this.schedule(nowMs + 5_000);
       return;
     }
+    if (this.stopped) return;
     for (const row of rows) {
       const key = row.alertId === null ? null : `${row.target}|${row.alertId}`;
       const blocked = key !== null && seen.has(key);
@@ -101,7 +120,7 @@ export class Dispatcher {
     const attempt: Promise<AttemptResult> = channel
       ? channel.send({ deliveryId: row.deliveryId, target: row.target, payload: row.payloadJson }, controller.signal).catch((err: unknown) => ({ ok: false, result: `channel failed: ${String(err)}` }))
       : Promise.resolve({ ok: false, result: `the ${row.channel} channel is not set up (see README "Alert notifications")` });
-    const done = attempt.then((result) => {
+    const done = attempt.then(async (result) => {
       clearTimeout(timeout);
       this.controllers.delete(controller);
       if (this.stopped) return;
@@ -111,7 +130,7 @@ export class Dispatcher {
       const status = result.ok ? 'delivered' : giveUp ? 'failed' : 'pending';
       const nextAttemptAtMs = status === 'pending' ? atMs + retryDelayMs(attempts, this.options.retryDelaysMs ?? defaultRetryDelaysMs) : atMs;
       try {
-        this.options.outbox.record(row, { atMs: startedMs, durationMs: Math.max(0, atMs - startedMs), ok: result.ok, result: result.result }, { status, nextAttemptAtMs });
+        await this.options.outbox.record(row, { atMs: startedMs, durationMs: Math.max(0, atMs - startedMs), ok: result.ok, result: result.result }, { status, nextAttemptAtMs });
       } catch (err) {
         // Not recorded (disk full): the row stays pending as it was and is tried again.
         this.options.log?.error({ err: String(err), deliveryId: row.deliveryId }, 'notifications: cannot record a delivery attempt');

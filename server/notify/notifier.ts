@@ -76,12 +76,19 @@ export class Notifier {
   /** Escalation steps taken, per alert. */
   private readonly taken = new Map<number, Set<number>>();
 
-  constructor(
+  /** The notifier, with its signing key (made on first start) and the outbox's last failure read. */
+  static async open(deps: NotifierDeps, options: NotifierOptions = {}): Promise<Notifier> {
+    return new Notifier(deps, options, await ackSecret(deps.storage, deps.now()), await deps.storage.outbox.lastFailure());
+  }
+
+  private constructor(
     private readonly deps: NotifierDeps,
-    private readonly options: NotifierOptions = {},
+    private readonly options: NotifierOptions,
+    secret: Buffer,
+    lastError: { atMs: number; target: string; channel: string; result: string } | null,
   ) {
     this.outbox = deps.storage.outbox;
-    this.secret = ackSecret(deps.storage, deps.now());
+    this.secret = secret;
     const { config } = deps;
     const dispatchNow = options.dispatchNow ?? Date.now;
     const channels = new Map<string, Channel>();
@@ -91,7 +98,7 @@ export class Notifier {
     this.push = new PushNotifier({ storage: deps.storage, config, watch: deps.watch, queue: deps.queue, now: deps.now, log: deps.log, secret: this.secret, dispatchNow, ...(options.pushTimeoutMs ? { timeoutMs: options.pushTimeoutMs } : {}) });
     if (this.push.channel) channels.set('push', this.push.channel);
     for (const c of options.extraChannels ?? []) channels.set(c.name, c);
-    this.lastError = this.outbox.lastFailure();
+    this.lastError = lastError;
     this.dispatcher = new Dispatcher({
       outbox: this.outbox,
       channels,
@@ -105,9 +112,10 @@ export class Notifier {
     });
   }
 
-  start(): void {
+  async start(): Promise<void> {
+    const stepsTaken = await this.deps.storage.notifications.stepsTaken();
     this.tracker.seed(this.deps.watch.openAlerts());
-    for (const r of this.deps.storage.notifications.stepsTaken()) {
+    for (const r of stepsTaken) {
       let set = this.taken.get(r.alertId);
       if (!set) this.taken.set(r.alertId, (set = new Set()));
       set.add(r.step);
@@ -123,7 +131,7 @@ export class Notifier {
       }
       this.scheduleProcessing();
     });
-    this.escalationTimer = setInterval(() => this.checkEscalations(), this.options.escalationCheckMs ?? 5_000);
+    this.escalationTimer = setInterval(() => void this.checkEscalations(), this.options.escalationCheckMs ?? 5_000);
     this.escalationTimer.unref();
     // Whatever was pending at the last stop is sent now.
     this.dispatcher.kick();
@@ -132,34 +140,39 @@ export class Notifier {
   private scheduleProcessing(): void {
     if (this.processing) return;
     this.processing = true;
-    setImmediate(() => {
-      this.processing = false;
-      const events = this.waiting.splice(0);
-      try {
-        const items = events.flatMap((e) => this.deliveriesFor(e));
-        this.outbox.add(items, this.deps.now());
-      } catch (err) {
-        this.lastError = { atMs: this.deps.now(), target: '*', channel: '*', result: `could not queue notifications: ${String(err)}` };
-        this.deps.log.error({ err: String(err), events: events.length }, 'notifications: could not write to the outbox; these alert events are not sent');
-      }
-      this.dispatcher.kick();
-    });
+    setImmediate(() => void this.processWaiting());
+  }
+
+  /** The waiting events into the outbox; one round at a time, so the rows keep the events' order. */
+  private async processWaiting(): Promise<void> {
+    const events = this.waiting.splice(0);
+    try {
+      const items: NewDelivery[] = [];
+      for (const e of events) items.push(...(await this.deliveriesFor(e)));
+      await this.outbox.add(items, this.deps.now());
+    } catch (err) {
+      this.lastError = { atMs: this.deps.now(), target: '*', channel: '*', result: `could not queue notifications: ${String(err)}` };
+      this.deps.log.error({ err: String(err), events: events.length }, 'notifications: could not write to the outbox; these alert events are not sent');
+    }
+    this.dispatcher.kick();
+    this.processing = false;
+    if (this.waiting.length > 0) this.scheduleProcessing();
   }
 
   // ---------- recipients ----------
 
-  private webhookEndpoint(target: string): WebhookEndpoint | null {
+  private async webhookEndpoint(target: string): Promise<WebhookEndpoint | null> {
     const { config } = this.deps;
     if (target === 'webhook:env') return config.alertWebhookUrl && config.alertWebhookSecret ? { url: config.alertWebhookUrl, secret: config.alertWebhookSecret } : null;
     const id = Number(target.slice('webhook:'.length));
-    const row = this.deps.storage.notifications.webhook(id);
+    const row = await this.deps.storage.notifications.webhook(id);
     return row && row.enabled ? { url: row.url, secret: row.secret } : null;
   }
 
-  private webhookTargets(alert: OpenAlert): string[] {
+  private async webhookTargets(alert: OpenAlert): Promise<string[]> {
     const out: string[] = [];
     if (this.deps.config.alertWebhookUrl && this.deps.config.alertWebhookSecret) out.push('webhook:env');
-    for (const w of this.deps.storage.notifications.enabledWebhooks()) {
+    for (const w of await this.deps.storage.notifications.enabledWebhooks()) {
       if (filterPasses(storedFilter(w.filterJson), alert)) out.push(`webhook:${w.id}`);
     }
     return out;
@@ -170,9 +183,8 @@ export class Notifier {
   }
 
   /** People who may get e-mail: enabled, with an address. */
-  private emailPeople(): Array<{ id: number; displayName: string; role: string; email: string; filter: unknown }> {
-    return this.deps.storage.notifications
-      .emailSettingsOfActivePeople()
+  private async emailPeople(): Promise<Array<{ id: number; displayName: string; role: string; email: string; filter: unknown }>> {
+    return (await this.deps.storage.notifications.emailSettingsOfActivePeople())
       .filter((p): p is typeof p & { email: string } => p.email !== null && p.email !== '');
   }
 
@@ -183,30 +195,30 @@ export class Notifier {
     return { channel: 'email', target: `person:${person.id}`, event, alertId: alert.id, payload: () => payload };
   }
 
-  private deliveriesFor(e: NotifyEvent): NewDelivery[] {
-    const site = getSite(this.deps.storage);
-    const items = this.webhookTargets(e.alert).map((t) => this.webhookDelivery(t, e.event, e.atMs, e.alert, site.name));
+  private async deliveriesFor(e: NotifyEvent): Promise<NewDelivery[]> {
+    const site = await getSite(this.deps.storage);
+    const items = (await this.webhookTargets(e.alert)).map((t) => this.webhookDelivery(t, e.event, e.atMs, e.alert, site.name));
     if (this.email && emailEvents.has(e.event)) {
-      for (const p of this.emailPeople()) if (filterPasses(storedFilter(p.filter), e.alert)) items.push(this.emailDelivery(p, e.event, e.atMs, e.alert, site));
+      for (const p of await this.emailPeople()) if (filterPasses(storedFilter(p.filter), e.alert)) items.push(this.emailDelivery(p, e.event, e.atMs, e.alert, site));
     }
-    items.push(...this.push.deliveriesFor(e.event, e.atMs, e.alert, site.name));
+    items.push(...(await this.push.deliveriesFor(e.event, e.atMs, e.alert, site.name)));
     return items;
   }
 
   // ---------- escalation ----------
 
   /** Takes every escalation step that is due (the 5-s timer calls it; tests may too). */
-  checkEscalations(): void {
+  async checkEscalations(): Promise<void> {
     try {
-      this.escalateDue(this.deps.now());
+      await this.escalateDue(this.deps.now());
     } catch (err) {
       this.deps.log.error({ err: String(err) }, 'notifications: escalation check failed');
     }
   }
 
-  private escalateDue(nowMs: number): void {
+  private async escalateDue(nowMs: number): Promise<void> {
     const chains = new Map<number, EscalationStep[]>();
-    for (const row of this.deps.storage.notifications.chains()) {
+    for (const row of await this.deps.storage.notifications.chains()) {
       const parsed = escalationChainSchema.safeParse({ level: row.level, steps: row.stepsJson });
       if (parsed.success && parsed.data.steps.length > 0) chains.set(row.level, parsed.data.steps);
     }
@@ -220,37 +232,35 @@ export class Notifier {
       this.taken.set(alert.id, taken);
       for (const i of dueSteps(alert.raisedAtMs, steps, taken, nowMs)) {
         taken.add(i);
-        items.push(...this.escalationStep(alert, i, steps[i]!, nowMs));
+        items.push(...(await this.escalationStep(alert, i, steps[i]!, nowMs)));
       }
     }
     if (items.length > 0) {
-      this.outbox.add(items, nowMs);
+      await this.outbox.add(items, nowMs);
       this.dispatcher.kick();
     }
   }
 
-  private escalationStep(alert: OpenAlert, index: number, step: EscalationStep, nowMs: number): NewDelivery[] {
-    const site = getSite(this.deps.storage);
+  private async escalationStep(alert: OpenAlert, index: number, step: EscalationStep, nowMs: number): Promise<NewDelivery[]> {
+    const site = await getSite(this.deps.storage);
     const target = step.personId !== undefined ? `person:${step.personId}` : `role:${step.role}`;
-    const people = this.emailPeople().filter((p) => (step.personId !== undefined ? p.id === step.personId : p.role === step.role));
+    const people = (await this.emailPeople()).filter((p) => (step.personId !== undefined ? p.id === step.personId : p.role === step.role));
     const items: NewDelivery[] = [];
     if (this.email) for (const p of people) items.push(this.emailDelivery(p, 'alert.escalated', nowMs, alert, site));
-    const webhooks = this.webhookTargets(alert);
+    const webhooks = await this.webhookTargets(alert);
     for (const t of webhooks) items.push(this.webhookDelivery(t, 'alert.escalated', nowMs, alert, site.name));
     // Push: every device of the step's people, whether or not they have an e-mail address.
-    const stepPeople = this.deps.storage.people
-      .active()
-      .filter((p) => (step.personId !== undefined ? p.id === step.personId : p.role === step.role));
-    const pushed = this.push.escalationDeliveries(new Set(stepPeople.map((p) => p.id)), nowMs, alert, site.name);
+    const stepPeople = (await this.deps.storage.people.active()).filter((p) => (step.personId !== undefined ? p.id === step.personId : p.role === step.role));
+    const pushed = await this.push.escalationDeliveries(new Set(stepPeople.map((p) => p.id)), nowMs, alert, site.name);
     items.push(...pushed.items);
     const reachedPeople = this.email ? people.map((p) => `${p.displayName} by e-mail`) : [];
     const reachedPush = stepPeople.filter((p) => pushed.reached.has(p.id)).map((p) => `${p.displayName} by push (${pushed.reached.get(p.id)} device${pushed.reached.get(p.id) === 1 ? '' : 's'})`);
     const reached = [...reachedPeople, ...reachedPush, ...(webhooks.length > 0 ? [`${webhooks.length} webhook${webhooks.length === 1 ? '' : 's'}`] : [])];
     const words = reached.length > 0 ? reached.join(', ') : this.email ? 'nobody: no e-mail address or push subscription is set for this step' : 'nobody: e-mail is not set up (SMTP_URL), no push subscription and no webhook';
     const { storage } = this.deps;
-    storage.transaction(() => {
-      const inserted = storage.notifications.logStep({ alertId: alert.id, step: index, atMs: nowMs, target, reached: words });
-      if (inserted) storage.audit.record({ actor: 'system', entity: 'alert', entityId: alert.id, action: 'escalated', after: { step: index + 1, target, reached: words, level: alert.level, subject: alert.subject } }, nowMs);
+    await storage.transaction(async () => {
+      const inserted = await storage.notifications.logStep({ alertId: alert.id, step: index, atMs: nowMs, target, reached: words });
+      if (inserted) await storage.audit.record({ actor: 'system', entity: 'alert', entityId: alert.id, action: 'escalated', after: { step: index + 1, target, reached: words, level: alert.level, subject: alert.subject } }, nowMs);
     });
     this.deps.log.warn({ alertId: alert.id, step: index + 1, target, reached: words }, 'alert not acknowledged in time: escalated');
     return items;
@@ -267,15 +277,15 @@ export class Notifier {
       return { status: check.reason === 'malformed' ? 400 : 403, message: 'this is not a valid acknowledge link' };
     }
     const { claim } = check;
-    const usedAtMs = this.deps.storage.notifications.tokenUsedAt(claim.nonce);
+    const usedAtMs = await this.deps.storage.notifications.tokenUsedAt(claim.nonce);
     if (usedAtMs !== null) return { status: 410, message: `this acknowledge link was used at ${new Date(usedAtMs).toISOString()}; each link works once` };
-    const person = this.deps.storage.people.activeById(claim.personId);
+    const person = await this.deps.storage.people.activeById(claim.personId);
     if (!person) return { status: 403, message: 'the person this link was sent to can no longer sign in' };
     const open = this.deps.watch.openAlert(claim.alertId);
     if (!open) return { status: 409, message: `alert ${claim.alertId} is no longer open (acknowledged and ended)` };
     if (open.acknowledgedAtMs !== null) return { status: 409, message: `alert ${claim.alertId} was acknowledged by ${open.acknowledgedBy ?? 'someone'} at ${new Date(open.acknowledgedAtMs).toISOString()}` };
     if (!use) return { status: 'confirm', claim, alert: open };
-    if (!this.deps.storage.notifications.useToken(claim.nonce, claim.alertId, nowMs)) return { status: 410, message: 'this acknowledge link was used just now; each link works once' };
+    if (!(await this.deps.storage.notifications.useToken(claim.nonce, claim.alertId, nowMs))) return { status: 410, message: 'this acknowledge link was used just now; each link works once' };
     const note = 'acknowledged from the e-mail link';
     // Stored (or held while the disk refuses) before the stream and the notifications say so, as the app's acknowledgement is.
     await this.deps.queue.enqueue({ ...emptyWriteBatch(), acknowledgements: [{ alertId: claim.alertId, atMs: nowMs, by: person.displayName, note, actor: `${person.displayName} (${person.username}) by e-mail link` }] });
@@ -286,23 +296,23 @@ export class Notifier {
   // ---------- tests and visibility ----------
 
   /** A test message to one person's e-mail address. */
-  testPerson(personId: number): { deliveryId: string } | { error: string } {
+  async testPerson(personId: number): Promise<{ deliveryId: string } | { error: string }> {
     if (!this.email) return { error: 'e-mail is not set up on this server (SMTP_URL and SMTP_FROM)' };
-    const p = this.emailPeople().find((x) => x.id === personId);
+    const p = (await this.emailPeople()).find((x) => x.id === personId);
     if (!p) return { error: 'set your e-mail address first' };
-    const site = getSite(this.deps.storage);
+    const site = await getSite(this.deps.storage);
     const payload = testEmail(p.email, site.name, p.displayName);
-    const [row] = this.outbox.add([{ channel: 'email', target: `person:${p.id}`, event: 'test', alertId: null, payload: () => payload }], this.deps.now());
+    const [row] = await this.outbox.add([{ channel: 'email', target: `person:${p.id}`, event: 'test', alertId: null, payload: () => payload }], this.deps.now());
     this.dispatcher.kick();
     return { deliveryId: row!.deliveryId };
   }
 
   /** A test push to one of the person's devices. */
-  testPush(personId: number, subscriptionId: number, who: string): { deliveryId: string } | { error: string; status: 404 | 409 } {
-    const site = getSite(this.deps.storage);
-    const item = this.push.test(personId, subscriptionId, site.name, who);
+  async testPush(personId: number, subscriptionId: number, who: string): Promise<{ deliveryId: string } | { error: string; status: 404 | 409 }> {
+    const site = await getSite(this.deps.storage);
+    const item = await this.push.test(personId, subscriptionId, site.name, who);
     if ('error' in item) return item;
-    const [row] = this.outbox.add([item], this.deps.now());
+    const [row] = await this.outbox.add([item], this.deps.now());
     this.dispatcher.kick();
     return { deliveryId: row!.deliveryId };
   }
@@ -311,11 +321,11 @@ export class Notifier {
    * A test message to one webhook: the contract's body with `"event": "test"` and an alert of
    * kind "test" (id 0), so a receiver can tell it from a real alert.
    */
-  testWebhook(target: string): { deliveryId: string } | { error: string } {
-    if (this.webhookEndpoint(target) === null) return { error: 'no such webhook, or it is switched off' };
-    const site = getSite(this.deps.storage);
+  async testWebhook(target: string): Promise<{ deliveryId: string } | { error: string }> {
+    if ((await this.webhookEndpoint(target)) === null) return { error: 'no such webhook, or it is switched off' };
+    const site = await getSite(this.deps.storage);
     const atMs = this.deps.now();
-    const [row] = this.outbox.add([{ channel: 'webhook', target, event: 'test', alertId: null, payload: (id) => ({ body: webhookBodyText({ id, event: 'test', atMs, site: { name: site.name }, alert: { id: 0, kind: 'test', label: 'Test message' } }) }) }], atMs);
+    const [row] = await this.outbox.add([{ channel: 'webhook', target, event: 'test', alertId: null, payload: (id) => ({ body: webhookBodyText({ id, event: 'test', atMs, site: { name: site.name }, alert: { id: 0, kind: 'test', label: 'Test message' } }) }) }], atMs);
     this.dispatcher.kick();
     return { deliveryId: row!.deliveryId };
   }
@@ -328,15 +338,15 @@ export class Notifier {
     return this.deps.config.alertWebhookUrl;
   }
 
-  health(): { pending: number; failed: number; lastError: { atMs: number; target: string; channel: string; result: string } | null; email: boolean; webhooks: number; push: ReturnType<PushNotifier['health']> } {
+  async health(): Promise<{ pending: number; failed: number; lastError: { atMs: number; target: string; channel: string; result: string } | null; email: boolean; webhooks: number; push: Awaited<ReturnType<PushNotifier['health']>> }> {
     let counts = { pending: 0, failed: 0 };
     try {
-      counts = this.outbox.counts();
+      counts = await this.outbox.counts();
     } catch {
       // The database cannot be read: the counts are unknown, the last error says why.
     }
-    const webhooks = (this.deps.config.alertWebhookUrl ? 1 : 0) + this.deps.storage.notifications.enabledWebhookCount();
-    return { ...counts, lastError: this.lastError, email: this.email !== null, webhooks, push: this.push.health() };
+    const webhooks = (this.deps.config.alertWebhookUrl ? 1 : 0) + (await this.deps.storage.notifications.enabledWebhookCount());
+    return { ...counts, lastError: this.lastError, email: this.email !== null, webhooks, push: await this.push.health() };
   }
 
   async stop(): Promise<void> {

@@ -70,15 +70,17 @@ export class PushNotifier {
       ? new PushChannel(
           keys,
           {
-            subscription: (target) => {
-              const row = this.subscriptions.byId(Number(target.slice('push:'.length)));
+            subscription: async (target) => {
+              const row = await this.subscriptions.byId(Number(target.slice('push:'.length)));
               return row ? { id: row.id, endpoint: row.endpoint, p256dh: row.p256dh, auth: row.auth } : null;
             },
-            gone: (id, result) => {
-              this.subscriptions.removeGone(id);
+            gone: async (id, result) => {
+              await this.subscriptions.removeGone(id);
               deps.log.warn({ subscriptionId: id, result }, 'push subscription gone at the push service: removed');
             },
-            delivered: (id, atMs) => this.subscriptions.markDelivered(id, atMs),
+            delivered: async (id, atMs) => {
+              await this.subscriptions.markDelivered(id, atMs);
+            },
           },
           deps.dispatchNow,
           deps.timeoutMs,
@@ -86,8 +88,8 @@ export class PushNotifier {
       : null;
   }
 
-  private filterOf(personId: number): NotifyFilter {
-    const row = this.deps.storage.notifications.personSettings(personId);
+  private async filterOf(personId: number): Promise<NotifyFilter> {
+    const row = await this.deps.storage.notifications.personSettings(personId);
     return row ? storedFilter(row.filterJson) : { kind: 'all' };
   }
 
@@ -110,24 +112,24 @@ export class PushNotifier {
   }
 
   /** The pushes of one alert event: every subscribed device whose owner's filter passes it. */
-  deliveriesFor(event: NotifyEventName, atMs: number, alert: OpenAlert, siteName: string): NewDelivery[] {
+  async deliveriesFor(event: NotifyEventName, atMs: number, alert: OpenAlert, siteName: string): Promise<NewDelivery[]> {
     if (!this.channel || !pushEvents.has(event)) return [];
     const filters = new Map<number, NotifyFilter>();
     const out: NewDelivery[] = [];
-    for (const r of this.subscriptions.active()) {
+    for (const r of await this.subscriptions.active()) {
       let f = filters.get(r.person.id);
-      if (!f) filters.set(r.person.id, (f = this.filterOf(r.person.id)));
+      if (!f) filters.set(r.person.id, (f = await this.filterOf(r.person.id)));
       if (filterPasses(f, alert)) out.push(this.delivery(r, event, atMs, alert, siteName));
     }
     return out;
   }
 
   /** An escalation step's pushes: every device of the chosen people (their filters do not apply: they were chosen). */
-  escalationDeliveries(personIds: ReadonlySet<number>, atMs: number, alert: OpenAlert, siteName: string): { items: NewDelivery[]; reached: Map<number, number> } {
+  async escalationDeliveries(personIds: ReadonlySet<number>, atMs: number, alert: OpenAlert, siteName: string): Promise<{ items: NewDelivery[]; reached: Map<number, number> }> {
     const items: NewDelivery[] = [];
     const reached = new Map<number, number>();
     if (!this.channel) return { items, reached };
-    for (const r of this.subscriptions.active()) {
+    for (const r of await this.subscriptions.active()) {
       if (!personIds.has(r.person.id)) continue;
       items.push(this.delivery(r, 'alert.escalated', atMs, alert, siteName));
       reached.set(r.person.id, (reached.get(r.person.id) ?? 0) + 1);
@@ -135,9 +137,9 @@ export class PushNotifier {
     return { items, reached };
   }
 
-  test(personId: number, subscriptionId: number, siteName: string, who: string): NewDelivery | { error: string; status: 404 | 409 } {
+  async test(personId: number, subscriptionId: number, siteName: string, who: string): Promise<NewDelivery | { error: string; status: 404 | 409 }> {
     if (!this.channel) return { error: `Web Push is off on this server: ${this.problem ?? 'no key'}`, status: 409 };
-    const sub = this.subscriptions.byId(subscriptionId);
+    const sub = await this.subscriptions.byId(subscriptionId);
     if (!sub || sub.personId !== personId) return { error: `push subscription ${subscriptionId} is not one of yours`, status: 404 };
     const payload: PushPayload = { message: testPushMessage(siteName, who, sub.label, this.deps.now()), ttlSeconds: 300, urgency: 'normal' };
     return { channel: 'push', target: `push:${sub.id}`, event: 'test', alertId: null, payload: () => payload };
@@ -156,9 +158,9 @@ export class PushNotifier {
       return { status: check.reason === 'malformed' ? 400 : 403, message: 'this is not a valid notification button' };
     }
     const { claim } = check;
-    const usedAtMs = this.deps.storage.notifications.tokenUsedAt(claim.nonce);
+    const usedAtMs = await this.deps.storage.notifications.tokenUsedAt(claim.nonce);
     if (usedAtMs !== null) return { status: 409, message: `this button was already used at ${new Date(usedAtMs).toISOString()}; each works once` };
-    const person = this.deps.storage.people.byId(claim.personId);
+    const person = await this.deps.storage.people.byId(claim.personId);
     if (!person || person.disabledAtMs !== null) return { status: 403, message: 'the person this notification was sent to can no longer sign in' };
     if (!roleAllows(person.role, actingRole)) return { status: 403, message: `acknowledging needs the ${actingRole} role` };
     const open = this.deps.watch.openAlert(claim.alertId);
@@ -166,13 +168,13 @@ export class PushNotifier {
     return claim.action === 'ack' ? this.acknowledge(claim, open, person, nowMs) : this.done(claim, open, person, nowMs);
   }
 
-  private consume(claim: PushActionClaim, nowMs: number): boolean {
+  private consume(claim: PushActionClaim, nowMs: number): Promise<boolean> {
     return this.deps.storage.notifications.useToken(claim.nonce, claim.alertId, nowMs);
   }
 
   private async acknowledge(claim: PushActionClaim, open: OpenAlert, person: { username: string; displayName: string }, nowMs: number): Promise<PushActionAnswer> {
     if (open.acknowledgedAtMs !== null) return { status: 409, message: `already acknowledged by ${open.acknowledgedBy ?? 'someone'} at ${new Date(open.acknowledgedAtMs).toISOString()}` };
-    if (!this.consume(claim, nowMs)) return { status: 409, message: 'this button was used just now; each works once' };
+    if (!(await this.consume(claim, nowMs))) return { status: 409, message: 'this button was used just now; each works once' };
     const note = 'acknowledged from the push notification';
     // Stored (or held while the disk refuses) before the stream and the notifications say so, as the app's acknowledgement is.
     await this.deps.queue.enqueue({ ...emptyWriteBatch(), acknowledgements: [{ alertId: claim.alertId, atMs: nowMs, by: person.displayName, note, actor: `${person.displayName} (${person.username}) by push notification` }] });
@@ -194,8 +196,8 @@ export class PushNotifier {
       atMs: nowMs,
     });
     if (!result.ok) return { status: result.status === 400 ? 409 : result.status, message: result.message };
-    // Synchronous from the checks to here: no other tap of this button can come between.
-    this.consume(claim, nowMs);
+    // Synchronous from the checks to the switch: no other tap of this button can come between.
+    await this.consume(claim, nowMs);
     await this.deps.queue.enqueue(result.batch);
     result.announce();
     const alert = result.alert ?? open;
@@ -203,10 +205,10 @@ export class PushNotifier {
   }
 
   /** For /api/health (public): no addresses, only whether push works and how many devices. */
-  health(): { enabled: boolean; subscriptions: number; problem: string | null } {
+  async health(): Promise<{ enabled: boolean; subscriptions: number; problem: string | null }> {
     let subscriptions = 0;
     try {
-      subscriptions = this.subscriptions.count();
+      subscriptions = await this.subscriptions.count();
     } catch {
       // unknown
     }

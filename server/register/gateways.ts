@@ -41,9 +41,9 @@ export function generatePassword(): string {
   return randomBytes(18).toString('base64url'); // 24 characters, 144 bits
 }
 
-function sensorIdsForKeys(storage: Storage, keys: readonly string[]): number[] {
+async function sensorIdsForKeys(storage: Storage, keys: readonly string[]): Promise<number[]> {
   if (keys.length === 0) return [];
-  const rows = storage.sensors.activeWithKeys(keys);
+  const rows = await storage.sensors.activeWithKeys(keys);
   const unknown = keys.filter((k) => !rows.some((r) => r.key === k));
   if (unknown.length > 0) {
     throw new Invalid(unknown.map((k) => ({ path: 'sensorKeys', message: `no sensor is registered with key "${k}"` })));
@@ -51,18 +51,20 @@ function sensorIdsForKeys(storage: Storage, keys: readonly string[]): number[] {
   return rows.map((r) => r.id);
 }
 
-function view(storage: Storage, id: number): GatewayView {
-  const g = storage.gateways.byId(id);
+async function view(storage: Storage, id: number): Promise<GatewayView> {
+  const g = await storage.gateways.byId(id);
   if (!g) throw new NotFound(`gateway ${id}`);
-  const keys = storage.gateways.sensorKeysOf(id).sort();
+  const keys = (await storage.gateways.sensorKeysOf(id)).sort();
   return { id: g.id, name: g.name, username: g.username, sensorKeys: keys, createdAtMs: g.createdAtMs, revokedAtMs: g.revokedAtMs };
 }
 
-export function listGateways(storage: Storage): GatewayView[] {
-  return storage.gateways.all().map((g) => view(storage, g.id));
+export async function listGateways(storage: Storage): Promise<GatewayView[]> {
+  const views: GatewayView[] = [];
+  for (const g of await storage.gateways.all()) views.push(await view(storage, g.id));
+  return views;
 }
 
-export function getGateway(storage: Storage, id: number): GatewayView {
+export function getGateway(storage: Storage, id: number): Promise<GatewayView> {
   return view(storage, id);
 }
 
@@ -75,14 +77,14 @@ export async function createGateway(
 ): Promise<{ gateway: GatewayView; password: string }> {
   const password = input.password ?? generatePassword();
   const passwordHash = await hashPassword(password);
-  const gateway = storage.transaction(() => {
-    if (storage.gateways.byUsername(input.username)) {
+  const gateway = await storage.transaction(async () => {
+    if (await storage.gateways.byUsername(input.username)) {
       throw new Conflict(`a gateway with username "${input.username}" exists`);
     }
-    const sensorIds = sensorIdsForKeys(storage, input.sensorKeys);
-    const row = storage.gateways.insert({ siteId, name: input.name, username: input.username, passwordHash, createdAtMs: nowMs }, sensorIds);
-    const after = view(storage, row.id);
-    storage.audit.record({ actor, entity: 'gateway', entityId: row.id, action: 'create', after }, nowMs);
+    const sensorIds = await sensorIdsForKeys(storage, input.sensorKeys);
+    const row = await storage.gateways.insert({ siteId, name: input.name, username: input.username, passwordHash, createdAtMs: nowMs }, sensorIds);
+    const after = await view(storage, row.id);
+    await storage.audit.record({ actor, entity: 'gateway', entityId: row.id, action: 'create', after }, nowMs);
     return after;
   });
   return { gateway, password };
@@ -97,24 +99,24 @@ export async function updateGateway(
 ): Promise<{ gateway: GatewayView; password: string | null }> {
   const password = patch.newPassword ? generatePassword() : null;
   const passwordHash = password ? await hashPassword(password) : null;
-  const gateway = storage.transaction(() => {
-    const before = view(storage, id);
+  const gateway = await storage.transaction(async () => {
+    const before = await view(storage, id);
     if (before.revokedAtMs !== null) throw new Conflict(`gateway ${id} is revoked; make a new one`);
-    storage.gateways.update(id, { ...(patch.name !== undefined ? { name: patch.name } : {}), ...(passwordHash ? { passwordHash } : {}) });
-    if (patch.sensorKeys !== undefined) storage.gateways.setSensors(id, sensorIdsForKeys(storage, patch.sensorKeys));
-    const after = view(storage, id);
-    storage.audit.record({ actor, entity: 'gateway', entityId: id, action: passwordHash ? 'update, new password' : 'update', before, after }, nowMs);
+    await storage.gateways.update(id, { ...(patch.name !== undefined ? { name: patch.name } : {}), ...(passwordHash ? { passwordHash } : {}) });
+    if (patch.sensorKeys !== undefined) await storage.gateways.setSensors(id, await sensorIdsForKeys(storage, patch.sensorKeys));
+    const after = await view(storage, id);
+    await storage.audit.record({ actor, entity: 'gateway', entityId: id, action: passwordHash ? 'update, new password' : 'update', before, after }, nowMs);
     return after;
   });
   return { gateway, password };
 }
 
-export function revokeGateway(storage: Storage, id: number, actor: string, nowMs: number): GatewayView {
-  return storage.transaction(() => {
-    const before = view(storage, id);
-    if (before.revokedAtMs === null) storage.gateways.update(id, { revokedAtMs: nowMs });
-    const after = view(storage, id);
-    storage.audit.record({ actor, entity: 'gateway', entityId: id, action: 'revoke', before, after }, nowMs);
+export async function revokeGateway(storage: Storage, id: number, actor: string, nowMs: number): Promise<GatewayView> {
+  return await storage.transaction(async () => {
+    const before = await view(storage, id);
+    if (before.revokedAtMs === null) await storage.gateways.update(id, { revokedAtMs: nowMs });
+    const after = await view(storage, id);
+    await storage.audit.record({ actor, entity: 'gateway', entityId: id, action: 'revoke', before, after }, nowMs);
     return after;
   });
 }

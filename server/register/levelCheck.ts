@@ -62,8 +62,8 @@ export function structureLevelIssues(record: StructureRecord, levels: readonly L
 }
 
 /** Problems of new site default levels for every active structure that follows them. */
-export function siteDefaultLevelIssues(storage: Storage, levels: readonly LevelDefinition[], densityKgM3: number): FieldIssue[] {
-  const rows = storage.structures.activeOnSiteLevels();
+export async function siteDefaultLevelIssues(storage: Storage, levels: readonly LevelDefinition[], densityKgM3: number): Promise<FieldIssue[]> {
+  const rows = await storage.structures.activeOnSiteLevels();
   return rows.flatMap((row) => {
     try {
       return recordLevelProblems(row.recordJson as StructureRecord, levels, densityKgM3).map((problem) => ({

@@ -40,14 +40,14 @@ export const registerSchema = z.strictObject({
 });
 export type RegisterFile = z.infer<typeof registerSchema>;
 
-export function exportRegister(storage: Storage, nowMs: number): RegisterFile {
-  const site = getSite(storage);
+export async function exportRegister(storage: Storage, nowMs: number): Promise<RegisterFile> {
+  const site = await getSite(storage);
   return {
     format: registerFormat,
     version: 1,
     exportedAtMs: nowMs,
     site: settingsOf(siteView(site)),
-    sensors: listSensors(storage).map((s) => ({
+    sensors: (await listSensors(storage)).map((s) => ({
       key: s.key,
       name: s.name,
       heightM: s.heightM,
@@ -58,10 +58,10 @@ export function exportRegister(storage: Storage, nowMs: number): RegisterFile {
       mode: s.mode,
       silenceTimeoutMs: s.silenceTimeoutMs,
     })),
-    gateways: listGateways(storage)
+    gateways: (await listGateways(storage))
       .filter((g) => g.revokedAtMs === null)
       .map((g) => ({ name: g.name, username: g.username, sensorKeys: g.sensorKeys })),
-    structures: listStructures(storage).map((s) => ({
+    structures: (await listStructures(storage)).map((s) => ({
       record: s.record,
       orientationDeg: s.orientationDeg,
       location: s.location,
@@ -209,7 +209,7 @@ export interface ImportSummary {
 }
 
 /** Applies a register file in one transaction, after checking all of it. */
-export function importRegister(storage: Storage, file: RegisterFile, mode: 'merge' | 'replace', actor: string, nowMs: number): ImportSummary {
+export async function importRegister(storage: Storage, file: RegisterFile, mode: 'merge' | 'replace', actor: string, nowMs: number): Promise<ImportSummary> {
   // file.site was checked whole by siteFileSchema (the settings' one schema) when the file was read.
   const keys = new Set<string>();
   const names = new Set<string>();
@@ -227,71 +227,71 @@ export function importRegister(storage: Storage, file: RegisterFile, mode: 'merg
   });
   if (issues.length > 0) throw new Invalid(issues);
 
-  return storage.transaction(() => {
+  return await storage.transaction(async () => {
     const summary: ImportSummary = { siteUpdated: true, sensorsAdded: 0, sensorsUpdated: 0, sensorsRetired: 0, structuresAdded: 0, structuresUpdated: 0, structuresRetired: 0, gatewaysSkipped: file.gateways.length };
-    const site = getSite(storage);
+    const site = await getSite(storage);
     const { defaultLevels, ...siteRest } = file.site;
-    storage.site.update(site.id, { ...siteRest, ...(defaultLevels ? { defaultLevelsJson: defaultLevels } : {}), updatedAtMs: nowMs });
+    await storage.site.update(site.id, { ...siteRest, ...(defaultLevels ? { defaultLevelsJson: defaultLevels } : {}), updatedAtMs: nowMs });
 
-    const existingSensors = new Map(storage.sensors.all().map((s) => [s.key, s]));
+    const existingSensors = new Map((await storage.sensors.all()).map((s) => [s.key, s]));
     for (const s of file.sensors) {
       const old = existingSensors.get(s.key);
       if (old) {
-        storage.sensors.update(old.id, { ...s, retiredAtMs: null });
+        await storage.sensors.update(old.id, { ...s, retiredAtMs: null });
         if (old.retiredAtMs === null) summary.sensorsUpdated++;
         else summary.sensorsAdded++;
       } else {
-        storage.sensors.insert({ ...s, siteId: site.id, createdAtMs: nowMs });
+        await storage.sensors.insert({ ...s, siteId: site.id, createdAtMs: nowMs });
         summary.sensorsAdded++;
       }
     }
     if (mode === 'replace') {
       for (const old of existingSensors.values()) {
         if (old.retiredAtMs === null && !keys.has(old.key)) {
-          storage.sensors.update(old.id, { retiredAtMs: nowMs });
+          await storage.sensors.update(old.id, { retiredAtMs: nowMs });
           summary.sensorsRetired++;
         }
       }
     }
 
-    const existingStructures = new Map(storage.structures.active().map((s) => [s.name, s]));
+    const existingStructures = new Map((await storage.structures.active()).map((s) => [s.name, s]));
     const structureIssues: FieldIssue[] = [];
     // The same upserts as a single edit through the API (checked whole, name free, an audit row
     // each, its configurations included), here inside the import's one transaction: every
     // structure's problems are gathered, then the whole import is refused if any had one.
-    file.structures.forEach((input, i) => {
+    for (const [i, input] of file.structures.entries()) {
       const name = (input.record as { name?: unknown } | null)?.name;
       const old = typeof name === 'string' ? existingStructures.get(name) : undefined;
       try {
         if (old) {
-          updateStructure(storage, old.id, input, actor, nowMs, `import (${mode})`);
+          await updateStructure(storage, old.id, input, actor, nowMs, `import (${mode})`);
           summary.structuresUpdated++;
         } else {
-          createStructure(storage, site.id, input, actor, nowMs, `import (${mode})`);
+          await createStructure(storage, site.id, input, actor, nowMs, `import (${mode})`);
           summary.structuresAdded++;
         }
       } catch (err) {
         if (err instanceof Invalid) {
           structureIssues.push(...err.issues.map((issue) => ({ path: `register.structures.${i}.${issue.path}`, message: issue.message })));
-          return;
+          continue;
         }
         if (err instanceof Conflict) {
           structureIssues.push({ path: `register.structures.${i}.record.name`, message: err.message });
-          return;
+          continue;
         }
         throw err;
       }
-    });
+    }
     if (structureIssues.length > 0) throw new Invalid(structureIssues);
     if (mode === 'replace') {
       for (const old of existingStructures.values()) {
         if (!names.has(old.name)) {
-          storage.structures.update(old.id, { retiredAtMs: nowMs });
+          await storage.structures.update(old.id, { retiredAtMs: nowMs });
           summary.structuresRetired++;
         }
       }
     }
-    storage.audit.record({ actor, entity: 'register', entityId: site.id, action: `import (${mode})`, after: summary }, nowMs);
+    await storage.audit.record({ actor, entity: 'register', entityId: site.id, action: `import (${mode})`, after: summary }, nowMs);
     return summary;
   });
 }

@@ -34,46 +34,46 @@ export const sensorUpdateSchema = sensorInputSchema.omit({ key: true }).partial(
 
 export type SensorRecord = SensorRow;
 
-export function listSensors(storage: Storage): SensorRecord[] {
-  return storage.sensors.all().filter((s) => s.retiredAtMs === null);
+export async function listSensors(storage: Storage): Promise<SensorRecord[]> {
+  return (await storage.sensors.all()).filter((s) => s.retiredAtMs === null);
 }
 
-export function getSensor(storage: Storage, key: string): SensorRecord {
-  const row = storage.sensors.byKey(key);
+export async function getSensor(storage: Storage, key: string): Promise<SensorRecord> {
+  const row = await storage.sensors.byKey(key);
   if (!row || row.retiredAtMs !== null) throw new NotFound(`sensor "${key}"`);
   return row;
 }
 
-export function createSensor(storage: Storage, siteId: number, input: SensorInput, actor: string, nowMs: number): SensorRecord {
-  return storage.transaction(() => {
-    const existing = storage.sensors.byKey(input.key);
+export async function createSensor(storage: Storage, siteId: number, input: SensorInput, actor: string, nowMs: number): Promise<SensorRecord> {
+  return await storage.transaction(async () => {
+    const existing = await storage.sensors.byKey(input.key);
     if (existing && existing.retiredAtMs === null) throw new Conflict(`a sensor with key "${input.key}" exists`);
     let row: SensorRecord;
     if (existing) {
       // A retired key comes back into use: keep its id so its history stays with it.
-      row = storage.sensors.update(existing.id, { ...input, siteId, retiredAtMs: null });
+      row = await storage.sensors.update(existing.id, { ...input, siteId, retiredAtMs: null });
     } else {
-      row = storage.sensors.insert({ ...input, siteId, createdAtMs: nowMs });
+      row = await storage.sensors.insert({ ...input, siteId, createdAtMs: nowMs });
     }
-    storage.audit.record({ actor, entity: 'sensor', entityId: input.key, action: 'create', after: row }, nowMs);
+    await storage.audit.record({ actor, entity: 'sensor', entityId: input.key, action: 'create', after: row }, nowMs);
     return row;
   });
 }
 
-export function updateSensor(storage: Storage, key: string, patch: z.infer<typeof sensorUpdateSchema>, actor: string, nowMs: number): SensorRecord {
-  return storage.transaction(() => {
-    const before = getSensor(storage, key);
-    const after = storage.sensors.update(before.id, patch);
-    storage.audit.record({ actor, entity: 'sensor', entityId: key, action: 'update', before, after }, nowMs);
+export async function updateSensor(storage: Storage, key: string, patch: z.infer<typeof sensorUpdateSchema>, actor: string, nowMs: number): Promise<SensorRecord> {
+  return await storage.transaction(async () => {
+    const before = await getSensor(storage, key);
+    const after = await storage.sensors.update(before.id, patch);
+    await storage.audit.record({ actor, entity: 'sensor', entityId: key, action: 'update', before, after }, nowMs);
     return after;
   });
 }
 
 /** Retires a sensor: its readings stay in the log, its topic is refused from now on. */
-export function retireSensor(storage: Storage, key: string, actor: string, nowMs: number): void {
-  storage.transaction(() => {
-    const before = getSensor(storage, key);
-    storage.sensors.retire(before.id, nowMs);
-    storage.audit.record({ actor, entity: 'sensor', entityId: key, action: 'retire', before }, nowMs);
+export async function retireSensor(storage: Storage, key: string, actor: string, nowMs: number): Promise<void> {
+  await storage.transaction(async () => {
+    const before = await getSensor(storage, key);
+    await storage.sensors.retire(before.id, nowMs);
+    await storage.audit.record({ actor, entity: 'sensor', entityId: key, action: 'retire', before }, nowMs);
   });
 }

@@ -40,21 +40,21 @@ export interface ChecklistContext {
 const levelText = (levels: readonly LevelDefinition[]): string => JSON.stringify(levels.map((l) => [l.label, l.trigger, l.actionText.trim()]));
 
 /** The newest stored reading of any sensor (retired ones too), by the primary key: one seek per sensor. */
-function newestReading(storage: Storage): { sensorKey: string; sensorName: string; tsMs: number } | null {
+async function newestReading(storage: Storage): Promise<{ sensorKey: string; sensorName: string; tsMs: number } | null> {
   let best: { sensorKey: string; sensorName: string; tsMs: number } | null = null;
-  for (const s of storage.sensors.all()) {
+  for (const s of await storage.sensors.all()) {
     // Raw readings past retention are deleted; their minute rollups stay (the store looks at both).
-    const tsMs = storage.readings.newestDataMs(s.id);
+    const tsMs = await storage.readings.newestDataMs(s.id);
     if (tsMs !== null && (best === null || tsMs > best.tsMs)) best = { sensorKey: s.key, sensorName: s.name, tsMs };
   }
   return best;
 }
 
-export function setupChecklist(storage: Storage, ctx: ChecklistContext): SetupChecklist {
-  const site = getSite(storage);
-  const sensors = storage.sensors.active();
-  const gatewayLinks = storage.gateways.activeLinks();
-  const structures = storage.structures.active().map((s) => ({ name: s.name, levels: s.levelsJson }));
+export async function setupChecklist(storage: Storage, ctx: ChecklistContext): Promise<SetupChecklist> {
+  const site = await getSite(storage);
+  const sensors = await storage.sensors.active();
+  const gatewayLinks = await storage.gateways.activeLinks();
+  const structures = (await storage.structures.active()).map((s) => ({ name: s.name, levels: s.levelsJson }));
 
   const density = site.airDensityMode === 'fixed' ? `fixed ${site.fixedAirDensityKgM3 ?? '?'} kg/m³` : site.airDensityMode === 'isa' ? `ISA at ${site.altitudeM} m` : 'measured on site';
   const siteNow = `time zone ${site.timeZone}, terrain category ${site.terrainCategory}, air density ${density}`;
@@ -78,7 +78,7 @@ export function setupChecklist(storage: Storage, ctx: ChecklistContext): SetupCh
     ? [defaultsOwn ? "the site's default levels are the site's own" : null, ownLevels > 0 ? `${ownLevels} structure${ownLevels === 1 ? ' has' : 's have'} levels of ${ownLevels === 1 ? 'its' : 'their'} own` : null].filter(Boolean).join('; ').replace(/^./, (c) => c.toUpperCase()) + '.'
     : 'The levels and actions are still the wording Holdfast ships with.';
 
-  const reading = newestReading(storage);
+  const reading = await newestReading(storage);
   const publishDetail = reading
     ? `A reading arrived from ${reading.sensorName}.`
     : ctx.refusedSinceStart > 0

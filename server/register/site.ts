@@ -16,8 +16,8 @@ export { forecastFeedIntervalBoundsMs, forecastFeedUrlSchema, siteUpdateSchema, 
 
 export type { SiteRow };
 
-export function getSite(storage: Storage): SiteRow {
-  const row = storage.site.first();
+export async function getSite(storage: Storage): Promise<SiteRow> {
+  const row = await storage.site.first();
   if (!row) throw new NotFound('site');
   return row;
 }
@@ -34,10 +34,10 @@ export const newSiteAirDensityKgM3 = 1.25;
  * On a fresh database: one site with conservative defaults (fixed density 1.25 kg/m³, no height
  * reduction, no direction). An existing site is returned as it is.
  */
-export function ensureSite(storage: Storage, nowMs: number, name = 'Event site'): SiteRow {
-  const existing = storage.site.first();
+export async function ensureSite(storage: Storage, nowMs: number, name = 'Event site'): Promise<SiteRow> {
+  const existing = await storage.site.first();
   if (existing) return existing;
-  return storage.site.insert({
+  return await storage.site.insert({
     name,
     airDensityMode: 'fixed',
     fixedAirDensityKgM3: newSiteAirDensityKgM3,
@@ -47,9 +47,9 @@ export function ensureSite(storage: Storage, nowMs: number, name = 'Event site')
   });
 }
 
-export function updateSite(storage: Storage, patch: SiteUpdate, actor: string, nowMs: number): SiteRow {
-  return storage.transaction(() => {
-    const before = getSite(storage);
+export async function updateSite(storage: Storage, patch: SiteUpdate, actor: string, nowMs: number): Promise<SiteRow> {
+  return await storage.transaction(async () => {
+    const before = await getSite(storage);
     const { defaultLevels, ...rest } = patch;
     const mode = rest.airDensityMode ?? before.airDensityMode;
     if (mode === 'fixed' && (rest.fixedAirDensityKgM3 ?? before.fixedAirDensityKgM3) === null) {
@@ -61,11 +61,11 @@ export function updateSite(storage: Storage, patch: SiteUpdate, actor: string, n
         fixedAirDensityKgM3: rest.fixedAirDensityKgM3 === undefined ? before.fixedAirDensityKgM3 : rest.fixedAirDensityKgM3,
         altitudeM: rest.altitudeM ?? before.altitudeM,
       });
-      const issues = siteDefaultLevelIssues(storage, defaultLevels ?? before.defaultLevelsJson, density);
+      const issues = await siteDefaultLevelIssues(storage, defaultLevels ?? before.defaultLevelsJson, density);
       if (issues.length > 0) throw new Invalid(issues);
     }
-    const after = storage.site.update(before.id, { ...rest, ...(defaultLevels ? { defaultLevelsJson: defaultLevels } : {}), updatedAtMs: nowMs });
-    storage.audit.record({ actor, entity: 'site', entityId: before.id, action: 'update', before, after }, nowMs);
+    const after = await storage.site.update(before.id, { ...rest, ...(defaultLevels ? { defaultLevelsJson: defaultLevels } : {}), updatedAtMs: nowMs });
+    await storage.audit.record({ actor, entity: 'site', entityId: before.id, action: 'update', before, after }, nowMs);
     return after;
   });
 }

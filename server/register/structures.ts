@@ -74,12 +74,12 @@ export function structureView(row: StructureRow): StructureView {
  * site's design density. Returns the parsed
  * record or throws 400 naming every problem.
  */
-export function checkStructure(storage: Storage, input: StructureInput): StructureRecord {
+export async function checkStructure(storage: Storage, input: StructureInput): Promise<StructureRecord> {
   const issues: FieldIssue[] = [];
   const validation = validateStructureRecord(input.record);
   if (!validation.ok) issues.push(...validation.issues.map((i) => ({ path: i.path ? `record.${i.path}` : 'record', message: i.message })));
   if (input.sensorKeys && input.sensorKeys.length > 0) {
-    const known = new Set(storage.sensors.active().map((r) => r.key));
+    const known = new Set((await storage.sensors.active()).map((r) => r.key));
     input.sensorKeys.forEach((key, i) => {
       if (!known.has(key)) issues.push({ path: `sensorKeys.${i}`, message: `no sensor is registered with key "${key}"` });
     });
@@ -87,7 +87,7 @@ export function checkStructure(storage: Storage, input: StructureInput): Structu
   if (!validation.ok) throw new Invalid(issues);
   const record = validation.record;
   try {
-    const site = getSite(storage);
+    const site = await getSite(storage);
     // Mixed utilization and gust triggers can only be ordered once the structure is known; a
     // gust trigger at or above the effective limit would let the structure pass its limit first.
     // The same check the form's calculator shows (POST /api/assess at the design density).
@@ -107,12 +107,12 @@ export function checkStructure(storage: Storage, input: StructureInput): Structu
   return record;
 }
 
-export function listStructures(storage: Storage): StructureView[] {
-  return storage.structures.activeByName().map(structureView);
+export async function listStructures(storage: Storage): Promise<StructureView[]> {
+  return (await storage.structures.activeByName()).map(structureView);
 }
 
-export function getStructureRow(storage: Storage, id: number): StructureRow {
-  const row = storage.structures.byId(id);
+export async function getStructureRow(storage: Storage, id: number): Promise<StructureRow> {
+  const row = await storage.structures.byId(id);
   if (!row || row.retiredAtMs !== null) throw new NotFound(`structure ${id}`);
   return row;
 }
@@ -134,8 +134,8 @@ export function structureColumns(input: StructureInput, record: StructureRecord)
 }
 
 /** Structures are known by name on the board, in the log and in register files: one active structure per name. */
-function assertNameFree(storage: Storage, name: string, exceptId: number | null): void {
-  const clash = storage.structures.activeNamed(name).find((r) => r.id !== exceptId);
+async function assertNameFree(storage: Storage, name: string, exceptId: number | null): Promise<void> {
+  const clash = (await storage.structures.activeNamed(name)).find((r) => r.id !== exceptId);
   if (clash) throw new Conflict(`a structure named "${name}" is registered (id ${clash.id}); choose another name`);
 }
 
@@ -143,21 +143,21 @@ function assertNameFree(storage: Storage, name: string, exceptId: number | null)
  * Registers a structure: checked whole, its name free, one audit row. A register import calls it
  * per structure inside its own transaction (a savepoint here), with its own `action` words.
  */
-export function createStructure(storage: Storage, siteId: number, input: StructureInput, actor: string, nowMs: number, action = 'create'): StructureView {
-  return storage.transaction(() => {
-    const record = checkStructure(storage, input);
-    assertNameFree(storage, record.name, null);
-    const row = storage.structures.insert({ siteId, ...structureColumns(input, record), createdAtMs: nowMs, updatedAtMs: nowMs });
+export async function createStructure(storage: Storage, siteId: number, input: StructureInput, actor: string, nowMs: number, action = 'create'): Promise<StructureView> {
+  return await storage.transaction(async () => {
+    const record = await checkStructure(storage, input);
+    await assertNameFree(storage, record.name, null);
+    const row = await storage.structures.insert({ siteId, ...structureColumns(input, record), createdAtMs: nowMs, updatedAtMs: nowMs });
     const view = structureView(row);
-    storage.audit.record({ actor, entity: 'structure', entityId: row.id, action, after: view }, nowMs);
+    await storage.audit.record({ actor, entity: 'structure', entityId: row.id, action, after: view }, nowMs);
     return view;
   });
 }
 
 /** Changes a structure: the result checked whole, its name free, one audit row with before and after. */
-export function updateStructure(storage: Storage, id: number, patch: z.infer<typeof structureUpdateSchema>, actor: string, nowMs: number, action = 'update'): StructureView {
-  return storage.transaction(() => {
-    const before = structureView(getStructureRow(storage, id));
+export async function updateStructure(storage: Storage, id: number, patch: z.infer<typeof structureUpdateSchema>, actor: string, nowMs: number, action = 'update'): Promise<StructureView> {
+  return await storage.transaction(async () => {
+    const before = structureView(await getStructureRow(storage, id));
     const merged: StructureInput = {
       record: patch.record ?? before.record,
       orientationDeg: patch.orientationDeg ?? before.orientationDeg,
@@ -168,20 +168,20 @@ export function updateStructure(storage: Storage, id: number, patch: z.infer<typ
       sensorKeys: patch.sensorKeys === undefined ? before.sensorKeys : patch.sensorKeys,
       levels: patch.levels === undefined ? before.levels : patch.levels,
     };
-    const record = checkStructure(storage, merged);
-    assertNameFree(storage, record.name, id);
-    const row = storage.structures.update(id, { ...structureColumns(merged, record), updatedAtMs: nowMs });
+    const record = await checkStructure(storage, merged);
+    await assertNameFree(storage, record.name, id);
+    const row = await storage.structures.update(id, { ...structureColumns(merged, record), updatedAtMs: nowMs });
     const after = structureView(row);
-    storage.audit.record({ actor, entity: 'structure', entityId: id, action, before, after }, nowMs);
+    await storage.audit.record({ actor, entity: 'structure', entityId: id, action, before, after }, nowMs);
     return after;
   });
 }
 
 /** Retires a structure: it leaves the live board, its history stays in the log. */
-export function retireStructure(storage: Storage, id: number, actor: string, nowMs: number): void {
-  storage.transaction(() => {
-    const before = structureView(getStructureRow(storage, id));
-    storage.structures.update(id, { retiredAtMs: nowMs, updatedAtMs: nowMs });
-    storage.audit.record({ actor, entity: 'structure', entityId: id, action: 'retire', before }, nowMs);
+export async function retireStructure(storage: Storage, id: number, actor: string, nowMs: number): Promise<void> {
+  await storage.transaction(async () => {
+    const before = structureView(await getStructureRow(storage, id));
+    await storage.structures.update(id, { retiredAtMs: nowMs, updatedAtMs: nowMs });
+    await storage.audit.record({ actor, entity: 'structure', entityId: id, action: 'retire', before }, nowMs);
   });
 }

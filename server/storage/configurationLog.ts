@@ -84,6 +84,18 @@ export function overdueSignalsInWindow(db: Db, fromMs: number, toMs: number, str
   return rows.map((r) => ({ ...r, structureName: r.structureId === null ? null : (names.get(r.structureId) ?? null) }));
 }
 
+/** One switch as the history takes it: structure, time, the configuration switched to. */
+export interface ConfigurationSwitch {
+  s: number;
+  atMs: number;
+  to: string;
+}
+
+/** Every switch before `beforeMs`, oldest first. */
+export function configurationSwitchesBefore(db: Db, beforeMs: number): ConfigurationSwitch[] {
+  return db.$client.prepare('SELECT structure_id AS s, at_ms AS atMs, to_name AS "to" FROM configuration_changes WHERE at_ms < ? ORDER BY at_ms, id').all(beforeMs) as ConfigurationSwitch[];
+}
+
 /**
  * Which configuration each structure stood in at a moment, from the log: the target of its last
  * switch at or before that moment, else null (never switched by then: as registered, whose name
@@ -93,8 +105,8 @@ export function overdueSignalsInWindow(db: Db, fromMs: number, toMs: number, str
 export class ConfigurationHistory {
   private readonly byStructure = new Map<number, Array<{ atMs: number; to: string }>>();
 
-  constructor(db: Db, beforeMs: number) {
-    const rows = db.$client.prepare('SELECT structure_id AS s, at_ms AS atMs, to_name AS "to" FROM configuration_changes WHERE at_ms < ? ORDER BY at_ms, id').all(beforeMs) as Array<{ s: number; atMs: number; to: string }>;
+  /** From the switches, oldest first (configurationSwitchesBefore). */
+  constructor(rows: readonly ConfigurationSwitch[]) {
     for (const r of rows) {
       const list = this.byStructure.get(r.s) ?? [];
       list.push({ atMs: r.atMs, to: r.to });

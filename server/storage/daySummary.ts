@@ -16,7 +16,7 @@
 import { and, asc, desc, eq, gte, inArray, lt } from 'drizzle-orm';
 import { alertsTable, auditTable, levelChangesTable, sensorsTable, structuresTable } from '../../db/schema.ts';
 import { registeredConfigurationName, type StructureRecord } from '../engine/index.ts';
-import { ConfigurationHistory, configurationChangesInWindow, type ConfigurationChangeEntry } from './configurationLog.ts';
+import { ConfigurationHistory, configurationChangesInWindow, configurationSwitchesBefore, type ConfigurationChangeEntry } from './configurationLog.ts';
 import type { Db } from './database.ts';
 import { forecastCheck, type ForecastCheck } from './forecastCheck.ts';
 import { utilizationE4Unbounded } from './storedUnits.ts';
@@ -202,7 +202,7 @@ export function daySummary(db: Db, fromMs: number, toMs: number, nowMs: number):
 
   const actionDueMs = (sqlite.prepare('SELECT action_due_ms AS ms FROM sites ORDER BY id LIMIT 1').get() as { ms: number } | undefined)?.ms ?? 5 * 60_000;
   const switches = configurationChangesInWindow(db, fromMs, toMs);
-  const history = new ConfigurationHistory(db, fromMs);
+  const history = new ConfigurationHistory(configurationSwitchesBefore(db, fromMs));
   const lateAction = (a: { moveToConfiguration: string | null; raisedAtMs: number; actionDoneAtMs: number | null; overdueAtMs: number | null }): boolean | null =>
     a.moveToConfiguration === null ? null : a.overdueAtMs !== null || (a.actionDoneAtMs !== null && a.actionDoneAtMs - a.raisedAtMs > actionDueMs);
 

@@ -17,6 +17,8 @@ export interface RetentionOptions {
   sliceMs?: number;
   /** Called between statements; the default lets pending I/O and timers run. */
   pause?: () => Promise<void>;
+  /** Runs each statement (storage.ts: once no transaction is open on the connection); the default runs it at once. */
+  run?: <R>(statement: () => R) => Promise<R>;
 }
 
 const yieldToEventLoop = (): Promise<void> => new Promise((resolve) => setImmediate(resolve));
@@ -42,18 +44,24 @@ export async function removeRawReadingsBefore(sqlite: Database.Database, cutoffM
   const sliceMs = options.sliceMs ?? 3_600_000;
   if (!(sliceMs > 0)) throw new RangeError(`sliceMs must be > 0, got ${sliceMs}`);
   const pause = options.pause ?? yieldToEventLoop;
+  const run = options.run ?? (<R>(statement: () => R): Promise<R> => Promise.resolve(statement()));
   // Each of these uses the primary key (sensor_id, ts_ms): a seek, not a scan.
+  const nextSensor = sqlite.prepare('SELECT sensor_id AS id FROM readings WHERE sensor_id > ? ORDER BY sensor_id LIMIT 1');
   const oldest = sqlite.prepare('SELECT MIN(ts_ms) AS ts FROM readings WHERE sensor_id = ?');
   const removeSlice = sqlite.prepare('DELETE FROM readings WHERE sensor_id = ? AND ts_ms < ?');
   let removed = 0;
-  for (const sensorId of sensorsWithReadings(sqlite)) {
-    let from = (oldest.get(sensorId) as { ts: number | null }).ts;
+  // The sensors as sensorsWithReadings walks them, each step through `run`.
+  for (let after = Number.MIN_SAFE_INTEGER; ; ) {
+    const next = await run(() => nextSensor.get(after) as { id: number } | undefined);
+    if (!next) break;
+    const sensorId = (after = next.id);
+    let from = await run(() => (oldest.get(sensorId) as { ts: number | null }).ts);
     while (from !== null && from < cutoffMs) {
       const upTo = Math.min(cutoffMs, from + sliceMs);
-      removed += removeSlice.run(sensorId, upTo).changes;
+      removed += await run(() => removeSlice.run(sensorId, upTo).changes);
       await pause();
       // Re-read rather than step: a sensor that was away for weeks is not walked hour by hour.
-      from = (oldest.get(sensorId) as { ts: number | null }).ts;
+      from = await run(() => (oldest.get(sensorId) as { ts: number | null }).ts);
     }
   }
   return removed;

@@ -6,17 +6,26 @@
  * units (storedUnits.ts converts those) and never database errors by driver code (errors.ts
  * classifies them).
  *
- * `SqliteStorage` is the implementation (better-sqlite3 through drizzle). The store types are the
- * public shapes of its stores, so another implementation (PostgreSQL, the next step) provides the
- * same methods. The methods are synchronous, as better-sqlite3 is; `transaction(work)` runs
- * `work` as one unit (nested calls become savepoints), and every store call made inside it joins
- * that unit. The live path's rows (readings, rollups, level changes, alerts, acknowledgements) are
- * not written here but through the group-commit write queue (writeQueue.ts), which `writes` holds.
+ * `SqliteStorage` is the implementation (better-sqlite3 through drizzle): its store classes are
+ * synchronous, as better-sqlite3 is, and `Stored<T>` is the asynchronous face every caller sees,
+ * so a PostgreSQL implementation (node-postgres, async) provides, without a change outside
+ * storage/:
+ * - each store's methods as in `Stored<...Store>`: the same arguments, the same domain values,
+ *   as promises; errors classified to the same kinds (errors.ts);
+ * - `transaction(work)`: `work` (async) as one unit, BEGIN ... COMMIT, rolled back when it throws;
+ *   every store call made in its async context (AsyncLocalStorage) joins it, a transaction
+ *   started in it is a savepoint, and a call from elsewhere is not part of it (on a pool: the
+ *   transaction holds its own client; here, on one connection, transactions.ts makes others wait);
+ * - `writes`: the live path's group-commit write queue (writeQueue.ts: synchronous enqueue, its
+ *   own commits, each batch acknowledged after its commit), never part of a caller's transaction;
+ * - `close()`.
+ * The live path's rows (readings, rollups, level changes, alerts, acknowledgements) are not
+ * written through the stores but through that queue.
  */
 import { openDatabase, type Db, type OpenedDatabase } from './database.ts';
 import { AlertStore } from './alerts.ts';
 import { AuditStore } from './audit.ts';
-import { configurationChangesInWindow, ConfigurationHistory, lastConfigurations, overdueSignalsInWindow } from './configurationLog.ts';
+import { configurationChangesInWindow, ConfigurationHistory, configurationSwitchesBefore, lastConfigurations, overdueSignalsInWindow } from './configurationLog.ts';
 import { daySummary, sensorsInWindow } from './daySummary.ts';
 import { forecastCheck } from './forecastCheck.ts';
 import { ForecastPollStore } from './forecastPolls.ts';
@@ -35,10 +44,37 @@ import { removeRawReadingsBefore, type RetentionOptions } from './retention.ts';
 import { SensorStore } from './sensors.ts';
 import { SiteStore } from './sites.ts';
 import { StructureStore } from './structures.ts';
+import { Transactions } from './transactions.ts';
 import { rebuildNewestMinutes, WriteQueue } from './writeQueue.ts';
 
 /** The public shape of a class: what another implementation of a store must provide. */
 type Shape<T> = { [K in keyof T]: T[K] };
+
+/**
+ * A store as callers see it: each method `(...a) => R` as `(...a) => Promise<Awaited<R>>`, and
+ * each store it holds (the log's series and exports) the same way.
+ */
+export type Stored<T> = {
+  readonly [K in keyof T]: T[K] extends (...args: infer A) => infer R ? (...args: A) => Promise<Awaited<R>> : Stored<T[K]>;
+};
+
+/** `store` with every method run through `call` (transactions.ts): the synchronous SQLite store behind `Stored<T>`. */
+function stored<T extends object>(store: T, call: <R>(work: () => R) => Promise<R>): Stored<T> {
+  const held = new Map<PropertyKey, unknown>();
+  const face = new Proxy(store, {
+    get(target, key) {
+      if (held.has(key)) return held.get(key);
+      const value: unknown = Reflect.get(target, key);
+      let wrapped: unknown = value;
+      if (typeof value === 'function') wrapped = (...args: unknown[]): Promise<unknown> => call((): unknown => Reflect.apply(value, target, args));
+      else if (typeof value === 'object' && value !== null) wrapped = stored(value, call);
+      held.set(key, wrapped);
+      return wrapped;
+    },
+  });
+  // The proxy's methods return promises of what the store's return: `Stored<T>` says so.
+  return face as unknown as Stored<T>;
+}
 
 /** Reviewing the log: series, the day's summary, the forecast check, the plan's actions, exports. */
 export class LogStore {
@@ -72,7 +108,7 @@ export class LogStore {
 
   /** Which configuration each structure stood in at a moment before `beforeMs`. */
   configurationHistory(beforeMs: number): ConfigurationHistory {
-    return new ConfigurationHistory(this.db, beforeMs);
+    return new ConfigurationHistory(configurationSwitchesBefore(this.db, beforeMs));
   }
 
   /** Each structure's last configuration switch. */
@@ -85,104 +121,117 @@ type QueueArguments = ConstructorParameters<typeof WriteQueue> extends [unknown,
 
 /** The live path's writes and the upkeep of the raw log. */
 export class WriteStore {
-  constructor(private readonly opened: OpenedDatabase) {}
+  constructor(
+    private readonly opened: OpenedDatabase,
+    private readonly transactions: Transactions,
+  ) {}
 
   /**
    * Recomputes each sensor's newest minute rollup from its raw readings (a crash may have lost
    * what memory held) and returns each sensor's newest minute, for the write queue to start from.
    */
-  rebuildNewestMinutes(): Map<number, number> {
-    return rebuildNewestMinutes(this.opened.sqlite);
+  rebuildNewestMinutes(): Promise<Map<number, number>> {
+    return this.transactions.call(() => rebuildNewestMinutes(this.opened.sqlite));
   }
 
-  /** The group-commit queue on this database: the write queue's arguments after the connection (writeQueue.ts). */
-  queue(...args: QueueArguments): WriteQueue {
-    return new WriteQueue(this.opened.sqlite, ...args);
+  /**
+   * The group-commit queue on this database: the write queue's arguments after the connection
+   * (writeQueue.ts). Its commits on this connection wait for an open transaction's end.
+   */
+  queue(...[now, groupWindowMs, newestMinutes, options = {}]: QueueArguments): WriteQueue {
+    return new WriteQueue(this.opened.sqlite, now, groupWindowMs, newestMinutes, { ...options, gate: this.transactions });
   }
 
-  /** Deletes raw readings older than the cutoff in small steps (the minute rollups stay). */
-  removeRawReadingsBefore(cutoffMs: number, options: RetentionOptions = {}): Promise<number> {
-    return removeRawReadingsBefore(this.opened.sqlite, cutoffMs, options);
+  /** Deletes raw readings older than the cutoff in small steps (the minute rollups stay), each outside any open transaction. */
+  removeRawReadingsBefore(cutoffMs: number, options: Omit<RetentionOptions, 'run'> = {}): Promise<number> {
+    return removeRawReadingsBefore(this.opened.sqlite, cutoffMs, { ...options, run: (statement) => this.transactions.call(statement) });
   }
 }
 
 export interface Storage {
   /** Where the data lives, for the health report (a file path, or ':memory:'). */
   readonly location: string;
-  /** Runs `work` as one transaction: every store call inside it commits together or not at all. */
-  transaction<T>(work: () => T): T;
-  readonly site: Shape<SiteStore>;
-  readonly sensors: Shape<SensorStore>;
-  readonly gateways: Shape<GatewayStore>;
-  readonly structures: Shape<StructureStore>;
-  readonly audit: Shape<AuditStore>;
-  readonly people: Shape<PeopleStore>;
-  readonly meta: Shape<MetaStore>;
-  readonly alerts: Shape<AlertStore>;
-  readonly levelChanges: Shape<LevelChangeStore>;
-  readonly readings: Shape<ReadingStore>;
-  readonly rejections: Shape<RejectionStore>;
-  readonly notifications: Shape<NotificationStore>;
-  readonly outbox: Shape<OutboxStore>;
-  readonly pushSubscriptions: Shape<PushSubscriptionStore>;
-  readonly forecastPolls: Shape<ForecastPollStore>;
-  readonly log: Shape<LogStore>;
+  /**
+   * Runs `work` as one transaction: every store call made in it (in its async context) commits
+   * together or not at all; nested calls are savepoints; calls from elsewhere are not part of it.
+   */
+  transaction<T>(work: () => Promise<T>): Promise<T>;
+  readonly site: Stored<SiteStore>;
+  readonly sensors: Stored<SensorStore>;
+  readonly gateways: Stored<GatewayStore>;
+  readonly structures: Stored<StructureStore>;
+  readonly audit: Stored<AuditStore>;
+  readonly people: Stored<PeopleStore>;
+  readonly meta: Stored<MetaStore>;
+  readonly alerts: Stored<AlertStore>;
+  readonly levelChanges: Stored<LevelChangeStore>;
+  readonly readings: Stored<ReadingStore>;
+  readonly rejections: Stored<RejectionStore>;
+  readonly notifications: Stored<NotificationStore>;
+  readonly outbox: Stored<OutboxStore>;
+  readonly pushSubscriptions: Stored<PushSubscriptionStore>;
+  readonly forecastPolls: Stored<ForecastPollStore>;
+  readonly log: Stored<LogStore>;
+  /** The live path's write queue (synchronous enqueue, its own commits) and the raw log's upkeep. */
   readonly writes: Shape<WriteStore>;
-  close(): void;
+  close(): Promise<void>;
 }
 
 export class SqliteStorage implements Storage {
   readonly location: string;
-  readonly site: SiteStore;
-  readonly sensors: SensorStore;
-  readonly gateways: GatewayStore;
-  readonly structures: StructureStore;
-  readonly audit: AuditStore;
-  readonly people: PeopleStore;
-  readonly meta: MetaStore;
-  readonly alerts: AlertStore;
-  readonly levelChanges: LevelChangeStore;
-  readonly readings: ReadingStore;
-  readonly rejections: RejectionStore;
-  readonly notifications: NotificationStore;
-  readonly outbox: OutboxStore;
-  readonly pushSubscriptions: PushSubscriptionStore;
-  readonly forecastPolls: ForecastPollStore;
-  readonly log: LogStore;
+  readonly site: Stored<SiteStore>;
+  readonly sensors: Stored<SensorStore>;
+  readonly gateways: Stored<GatewayStore>;
+  readonly structures: Stored<StructureStore>;
+  readonly audit: Stored<AuditStore>;
+  readonly people: Stored<PeopleStore>;
+  readonly meta: Stored<MetaStore>;
+  readonly alerts: Stored<AlertStore>;
+  readonly levelChanges: Stored<LevelChangeStore>;
+  readonly readings: Stored<ReadingStore>;
+  readonly rejections: Stored<RejectionStore>;
+  readonly notifications: Stored<NotificationStore>;
+  readonly outbox: Stored<OutboxStore>;
+  readonly pushSubscriptions: Stored<PushSubscriptionStore>;
+  readonly forecastPolls: Stored<ForecastPollStore>;
+  readonly log: Stored<LogStore>;
   readonly writes: WriteStore;
+  private readonly transactions: Transactions;
 
   /** On an opened database (openDatabase): tests that also look at the tables directly keep `opened`. */
   constructor(readonly opened: OpenedDatabase) {
     const { db } = opened;
+    const transactions = (this.transactions = new Transactions(opened.sqlite));
+    const call = <R>(work: () => R): Promise<R> => transactions.call(work);
     this.location = opened.file;
-    this.site = new SiteStore(db);
-    this.sensors = new SensorStore(db);
-    this.gateways = new GatewayStore(db);
-    this.structures = new StructureStore(db);
-    this.audit = new AuditStore(db);
-    this.people = new PeopleStore(db);
-    this.meta = new MetaStore(db);
-    this.alerts = new AlertStore(db);
-    this.levelChanges = new LevelChangeStore(db);
-    this.readings = new ReadingStore(db);
-    this.rejections = new RejectionStore(db);
-    this.notifications = new NotificationStore(db);
-    this.outbox = new OutboxStore(db);
-    this.pushSubscriptions = new PushSubscriptionStore(db);
-    this.forecastPolls = new ForecastPollStore(db);
-    this.log = new LogStore(db);
-    this.writes = new WriteStore(opened);
+    this.site = stored(new SiteStore(db), call);
+    this.sensors = stored(new SensorStore(db), call);
+    this.gateways = stored(new GatewayStore(db), call);
+    this.structures = stored(new StructureStore(db), call);
+    this.audit = stored(new AuditStore(db), call);
+    this.people = stored(new PeopleStore(db), call);
+    this.meta = stored(new MetaStore(db), call);
+    this.alerts = stored(new AlertStore(db), call);
+    this.levelChanges = stored(new LevelChangeStore(db), call);
+    this.readings = stored(new ReadingStore(db), call);
+    this.rejections = stored(new RejectionStore(db), call);
+    this.notifications = stored(new NotificationStore(db), call);
+    this.outbox = stored(new OutboxStore(db), call);
+    this.pushSubscriptions = stored(new PushSubscriptionStore(db), call);
+    this.forecastPolls = stored(new ForecastPollStore(db), call);
+    this.log = stored(new LogStore(db), call);
+    this.writes = new WriteStore(opened, transactions);
   }
 
-  transaction<T>(work: () => T): T {
-    // IMMEDIATE: the write lock is taken at BEGIN (waiting on the busy timeout). The commit thread
-    // writes on its own connection; a deferred transaction that reads first and then writes would
-    // fail with SQLITE_BUSY at once when the thread holds the lock (commitThread.ts).
-    return this.opened.sqlite.transaction(work).immediate();
+  transaction<T>(work: () => Promise<T>): Promise<T> {
+    return this.transactions.transaction(work);
   }
 
-  close(): void {
-    this.opened.sqlite.close();
+  /** Closes the connection once no transaction is open. */
+  close(): Promise<void> {
+    return this.transactions.call(() => {
+      this.opened.sqlite.close();
+    });
   }
 }
 

@@ -24,7 +24,7 @@
  * runs there, on the worker's connection, and this instance forwards to it; tests, tools and the
  * demo's past day use it in-thread.
  *
- * Raw prepared statements, not the query builder: this is the per-message path. About 460 lines:
+ * Raw prepared statements, not the query builder: this is the per-message path. About 500 lines:
  * the statements, the transaction, the rollups and the backlog are one commit path, in one file
  * so the worker and the in-thread queue cannot differ.
  */
@@ -98,6 +98,17 @@ export interface WriteQueueStats {
   lastCommitAtMs: number | null;
 }
 
+/**
+ * What in-thread commits wait for: a caller's transaction open on the same connection
+ * (storage/transactions.ts). Without it a commit would join that transaction, and be rolled back
+ * with it after its batches were acknowledged.
+ */
+export interface CommitGate {
+  readonly idle: boolean;
+  /** Runs `commit` now when idle, else as soon as the open transaction ends. */
+  whenIdle(commit: () => void): void;
+}
+
 export class WriteQueue {
   private pending: Pending[] = [];
   /** Per sensor: its newest minute, and what that minute gathered since it was last written. */
@@ -134,6 +145,7 @@ export class WriteQueue {
   private readonly commitMinutes: (aggregates: MinuteAggregate[]) => void;
   /** Set with `commitThread`: every call goes to the commit thread (commitThread.ts). */
   private readonly thread: CommitThread | null = null;
+  private readonly gate: CommitGate | null;
 
   /**
    * @param groupWindowMs how long the first batch of a group waits for company before the commit.
@@ -149,14 +161,16 @@ export class WriteQueue {
    *   file (commitThread.ts): the same guarantee, off the event loop. `flush` then only sends,
    *   `writeOpenMinutes` and `settle` resolve once the worker has written, and `groupWindowMs`
    *   is not used (groups gather while the previous one commits).
+   * @param options.gate in-thread commits wait while it is not idle (storage.ts gives its transactions).
    */
   constructor(
     sqlite: Database.Database,
     private readonly now: () => number = Date.now,
     private readonly groupWindowMs = 0,
     newestMinutes: ReadonlyMap<number, number> = new Map(),
-    options: { commitThread?: boolean } = {},
+    options: { commitThread?: boolean; gate?: CommitGate } = {},
   ) {
+    this.gate = options.gate ?? null;
     if (options.commitThread) {
       if (sqlite.memory) throw new Error('a commit thread needs a database file, not :memory:');
       // Checkpoints (copying the WAL into the file, with an fsync) are the commit thread's: one
@@ -238,6 +252,7 @@ export class WriteQueue {
   /** Commits the backlog and everything pending now (also used at shutdown). */
   flush(): void {
     if (this.thread) return this.thread.flush();
+    if (this.gate && !this.gate.idle) return this.gate.whenIdle(() => this.flush());
     this.scheduled = false;
     const pending = this.pending;
     if (pending.length === 0 && this.backlog.length === 0) return;
@@ -269,12 +284,11 @@ export class WriteQueue {
   /**
    * Writes what each sensor's newest minute gathered since it was last written (the 1 Hz tick;
    * shutdown). Nothing is lost when the database cannot write: the sums stay in memory and go
-   * with the next call that succeeds. In-thread, done when the call returns.
+   * with the next call that succeeds. In-thread, done when the call returns (when a transaction is open, once it ends).
    */
   writeOpenMinutes(): Promise<void> {
     if (this.thread) return this.thread.writeOpenMinutes();
-    this.writeOpenMinutesNow();
-    return Promise.resolve();
+    return this.whenIdle(() => this.writeOpenMinutesNow());
   }
 
   private writeOpenMinutesNow(): void {
@@ -293,13 +307,29 @@ export class WriteQueue {
 
   /**
    * Commits everything pending and the open minutes: shutdown, and tools that read right after
-   * writing. In-thread, done when the call returns.
+   * writing. In-thread, done when the call returns (when a transaction is open, once it ends).
    */
   settle(): Promise<void> {
     if (this.thread) return this.thread.settle();
-    this.flush();
-    this.writeOpenMinutesNow();
-    return Promise.resolve();
+    return this.whenIdle(() => {
+      this.flush();
+      this.writeOpenMinutesNow();
+    });
+  }
+
+  /** Runs `commit` now, or (with a gate not idle) once the open transaction has ended. */
+  private whenIdle(commit: () => void): Promise<void> {
+    const gate = this.gate;
+    if (!gate || gate.idle) {
+      commit();
+      return Promise.resolve();
+    }
+    return new Promise((resolve) =>
+      gate.whenIdle(() => {
+        commit();
+        resolve();
+      }),
+    );
   }
 
   /** True while the last commit failed or rows wait in the backlog. */

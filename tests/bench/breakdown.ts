@@ -36,14 +36,14 @@ export interface BreakdownResult {
   commitUs: Array<{ perCommit: number; us: number }>;
 }
 
-function open(templateDir: string, dir: string) {
+async function open(templateDir: string, dir: string) {
   copyTemplate(templateDir, dir);
   const opened = openDatabase(path.join(dir, 'holdfast.sqlite'));
   const { sqlite } = opened;
   const storage = new SqliteStorage(opened);
-  const registry = new Registry(storage);
+  const registry = await Registry.load(storage);
   const watch = new Watch({ hub: new LiveHub() });
-  watch.configure(siteSettings(storage), registry.sensors(), storage.structures.active(), initialState(storage));
+  watch.configure(await siteSettings(storage), registry.sensors(), await storage.structures.active(), await initialState(storage));
   return { sqlite, registry, watch, queue: new WriteQueue(sqlite) };
 }
 
@@ -59,8 +59,8 @@ function messages(fleet: Fleet, count: number, seed: number, baseMeanMps: number
 }
 
 /** Runs the pipeline's steps over `count` readings, committing every `perCommit`; returns per-reading times. */
-function feed(templateDir: string, dir: string, msgs: Array<{ key: string; payload: Buffer }>, perCommit: number) {
-  const { sqlite, registry, watch, queue } = open(templateDir, dir);
+async function feed(templateDir: string, dir: string, msgs: Array<{ key: string; payload: Buffer }>, perCommit: number) {
+  const { sqlite, registry, watch, queue } = await open(templateDir, dir);
   try {
     const takes: number[] = [];
     let parseMs = 0;
@@ -93,14 +93,14 @@ function feed(templateDir: string, dir: string, msgs: Array<{ key: string; paylo
   }
 }
 
-export function runBreakdown(o: { templateDir: string; workDir: string; fleet: Fleet; readings: number; naturalGroup: number; largeGroup: number; seed: number; baseMeanMps: number }): BreakdownResult {
+export async function runBreakdown(o: { templateDir: string; workDir: string; fleet: Fleet; readings: number; naturalGroup: number; largeGroup: number; seed: number; baseMeanMps: number }): Promise<BreakdownResult> {
   const msgs = messages(o.fleet, o.readings, o.seed, o.baseMeanMps);
   const us = (ms: number): number => (1000 * ms) / msgs.length;
   const groups = [...new Set([1, o.naturalGroup, o.largeGroup])];
   const commitUs: BreakdownResult['commitUs'] = [];
-  let main: ReturnType<typeof feed> | null = null;
+  let main: Awaited<ReturnType<typeof feed>> | null = null;
   for (const g of groups) {
-    const r = feed(o.templateDir, path.join(o.workDir, `breakdown-${g}`), msgs, g);
+    const r = await feed(o.templateDir, path.join(o.workDir, `breakdown-${g}`), msgs, g);
     commitUs.push({ perCommit: g, us: us(r.commitMs) });
     if (g === o.naturalGroup) main = r;
   }

@@ -79,13 +79,12 @@ async function generate(file: string, p: FestivalParams, log: (line: string) => 
   const { sqlite } = opened;
   const db = new SqliteStorage(opened);
   try {
-    ensureSite(db, p.startMs, 'Brackenfold Common');
-    updateSite(db, { name: 'Brackenfold Common — festival week (benchmark log, invented)', timeZone: 'Europe/London' }, 'benchmark set-up', p.startMs);
-    const site = getSite(db);
+    await ensureSite(db, p.startMs, 'Brackenfold Common');
+    await updateSite(db, { name: 'Brackenfold Common — festival week (benchmark log, invented)', timeZone: 'Europe/London' }, 'benchmark set-up', p.startMs);
+    const site = await getSite(db);
     const specs = Array.from({ length: p.sensors }, (_, i) => ({ key: `field-mast-${i + 1}`, heightM: [10, 8, 6, 4, 12][i % 5]! }));
-    const sensors = specs.map((s, i) =>
-      createSensor(db, site.id, { key: s.key, name: `Field mast ${i + 1}`, heightM: s.heightM, location: '', latDeg: null, lonDeg: null, unit: 'm/s', mode: 'samples', silenceTimeoutMs: 30_000 }, 'benchmark set-up', p.startMs),
-    );
+    const sensors = [];
+    for (const [i, s] of specs.entries()) sensors.push(await createSensor(db, site.id, { key: s.key, name: `Field mast ${i + 1}`, heightM: s.heightM, location: '', latDeg: null, lonDeg: null, unit: 'm/s', mode: 'samples', silenceTimeoutMs: 30_000 }, 'benchmark set-up', p.startMs));
     const windStates = specs.map((s) => createSensorWindState({ sensorKey: s.key }));
     const simulator = new WindSimulator({
       seed: p.seed,

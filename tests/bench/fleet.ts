@@ -214,12 +214,12 @@ export async function writeTemplate(o: TemplateOptions): Promise<Fleet> {
   const { sqlite } = opened;
   const db = new SqliteStorage(opened);
   try {
-    ensureSite(db, nowMs, benchSiteName);
-    updateSite(db, { name: benchSiteName, altitudeM: 0, terrainCategory: 'II', timeZone: 'Europe/London', airDensityMode: 'isa' }, actor, nowMs);
-    const site = getSite(db);
+    await ensureSite(db, nowMs, benchSiteName);
+    await updateSite(db, { name: benchSiteName, altitudeM: 0, terrainCategory: 'II', timeZone: 'Europe/London', airDensityMode: 'isa' }, actor, nowMs);
+    const site = await getSite(db);
     const sensors = benchSensors(o.sensors);
     for (const s of sensors) {
-      createSensor(db, site.id, { key: s.key, name: `Mast ${s.key.slice(5)}`, heightM: s.heightM, location: 'festival field', latDeg: null, lonDeg: null, unit: 'm/s', mode: 'samples', silenceTimeoutMs: 30_000 }, actor, nowMs);
+      await createSensor(db, site.id, { key: s.key, name: `Mast ${s.key.slice(5)}`, heightM: s.heightM, location: 'festival field', latDeg: null, lonDeg: null, unit: 'm/s', mode: 'samples', silenceTimeoutMs: 30_000 }, actor, nowMs);
     }
     const gateways = benchGateways(sensors, o.gateways);
     for (const g of gateways) {
@@ -228,7 +228,7 @@ export async function writeTemplate(o: TemplateOptions): Promise<Fleet> {
     const structures = benchStructures(o.structures, o.seed, o.minFirstTriggerMps, isaAirDensityKgM3(0));
     const kinds: Record<string, number> = {};
     for (const s of structures) {
-      createStructure(db, site.id, s.input, actor, nowMs);
+      await createStructure(db, site.id, s.input, actor, nowMs);
       const kind = (s.input.record as { kind: string }).kind;
       kinds[kind] = (kinds[kind] ?? 0) + 1;
     }

@@ -233,7 +233,7 @@ async function main(): Promise<void> {
       });
     } else rows.push({ what: '1 ingest, Mosquitto', measured: 'not run (no mosquitto binary)', target: '≥ 0.70', verdict: 'n/a' });
     load('ingest');
-    const breakdown = runBreakdown({ templateDir, workDir, fleet, readings: 20_000, naturalGroup: 100, largeGroup: 500, seed: settings.seed, baseMeanMps: settings.baseMeanMps });
+    const breakdown = await runBreakdown({ templateDir, workDir, fleet, readings: 20_000, naturalGroup: 100, largeGroup: 500, seed: settings.seed, baseMeanMps: settings.baseMeanMps });
     result.breakdown = breakdown;
     const commits = breakdown.commitUs.map((c) => `${c.us.toFixed(1)} µs at ${c.perCommit}/commit`).join(', ');
     log(`  in-process, per reading: parse ${breakdown.parseUs.toFixed(1)} µs, watch ${breakdown.takeUs.toFixed(1)} µs (${(100 * breakdown.slowTakeShare).toFixed(1)} % of readings move the site's highest gust and take ${breakdown.slowTakeMeanUs.toFixed(0)} µs re-assessing the structures; the rest ${breakdown.fastTakeMeanUs.toFixed(1)} µs), commit ${commits}`);

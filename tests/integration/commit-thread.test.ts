@@ -217,7 +217,7 @@ describe('the write queue on its commit thread', () => {
       const overlapped = new Set<number>();
       while (!done) {
         for (let i = 0; i < 20; i++) {
-          storage.transaction(() => {
+          await storage.transaction(async () => {
             const n = (count.get() as { n: number }).n;
             audit.run(Date.now(), JSON.stringify({ readingsSeen: n }));
             if (n > 0) overlapped.add(n);

@@ -310,28 +310,28 @@ describe('the feed’s own timer', () => {
     const opened = openDatabase(':memory:');
     const { db } = opened;
     const storage = new SqliteStorage(opened);
-    ensureSite(storage, 0);
+    await ensureSite(storage, 0);
     db.$client.prepare('UPDATE sites SET forecast_feed_url = ?, forecast_feed_interval_ms = ?').run(feedUrl, 20 * minuteMs);
     const clock = Date.UTC(2026, 5, 14, 9);
     mode = { body: 'time,gust (m/s)\n2026-06-14T12:00Z,9' };
     const good = new ForecastFeed({ storage, now: () => clock }, { timeoutMs: 2_000 });
-    good.start();
-    await waitFor(() => good.status().nextPollAtMs === clock + 20 * minuteMs, 5_000, 'the next poll planned an interval ahead');
-    expect(good.lastPoll()?.ok).toBe(true);
+    await good.start();
+    await waitFor(async () => (await good.status()).nextPollAtMs === clock + 20 * minuteMs, 5_000, 'the next poll planned an interval ahead');
+    expect((await good.lastPoll())?.ok).toBe(true);
     await good.stop();
 
     // Restarted a minute later: the address was polled a minute ago, so the next poll is 19 minutes away.
     const restarted = new ForecastFeed({ storage, now: () => clock + minuteMs }, { timeoutMs: 2_000 });
-    restarted.start();
-    expect(restarted.status().nextPollAtMs).toBe(clock + 20 * minuteMs);
+    await restarted.start();
+    expect((await restarted.status()).nextPollAtMs).toBe(clock + 20 * minuteMs);
     await restarted.stop();
 
     mode = { status: 503, body: 'busy' };
     db.$client.prepare('UPDATE sites SET forecast_feed_url = ?').run(`${feedUrl}&other=1`);
     const failing = new ForecastFeed({ storage, now: () => clock }, { timeoutMs: 2_000 });
-    failing.start();
-    await waitFor(() => failing.status().nextPollAtMs === clock + firstRetryMs, 5_000, 'a retry a minute ahead');
-    expect(failing.lastPoll(`${feedUrl}&other=1`)).toMatchObject({ ok: false, httpStatus: 503 });
+    await failing.start();
+    await waitFor(async () => (await failing.status()).nextPollAtMs === clock + firstRetryMs, 5_000, 'a retry a minute ahead');
+    expect(await failing.lastPoll(`${feedUrl}&other=1`)).toMatchObject({ ok: false, httpStatus: 503 });
     await failing.stop();
     db.$client.close();
   });

@@ -129,8 +129,8 @@ describe('the day report lists only what was on the register that day', async ()
   const opened = openDatabase(':memory:');
   const { db, sqlite } = opened;
   const storage = new SqliteStorage(opened);
-  const site = ensureSite(storage, at('2026-06-01T08:00:00Z'));
-  updateSite(storage, { timeZone: tz }, 'test', at('2026-06-01T08:00:00Z'));
+  const site = await ensureSite(storage, at('2026-06-01T08:00:00Z'));
+  await updateSite(storage, { timeZone: tz }, 'test', at('2026-06-01T08:00:00Z'));
   const sensor = (key: string, iso: string) => createSensor(storage, site.id, { key, name: key, heightM: 10, location: '', latDeg: null, lonDeg: null, unit: 'm/s', mode: 'samples', silenceTimeoutMs: 30_000 }, 'test', at(iso));
   const arch = (name: string, iso: string) =>
     createStructure(
@@ -150,17 +150,17 @@ describe('the day report lists only what was on the register that day', async ()
       at(iso),
     );
 
-  sensor('old-mast', '2026-06-01T09:00:00Z');
-  retireSensor(storage, 'old-mast', 'test', at('2026-06-05T09:00:00Z'));
-  sensor('north-mast', '2026-06-10T09:00:00Z');
-  sensor('west-mast', '2026-06-10T09:00:00Z');
+  await sensor('old-mast', '2026-06-01T09:00:00Z');
+  await retireSensor(storage, 'old-mast', 'test', at('2026-06-05T09:00:00Z'));
+  await sensor('north-mast', '2026-06-10T09:00:00Z');
+  await sensor('west-mast', '2026-06-10T09:00:00Z');
   // Retired at 12:00 site time on the day, its key registered again two days later.
-  retireSensor(storage, 'west-mast', 'test', at('2026-06-13T11:00:00Z'));
-  sensor('west-mast', '2026-06-15T07:30:00Z');
+  await retireSensor(storage, 'west-mast', 'test', at('2026-06-13T11:00:00Z'));
+  await sensor('west-mast', '2026-06-15T07:30:00Z');
   // Registered the morning after the day ("created today" when the report is read).
-  sensor('east-pole', '2026-06-14T08:00:00Z');
+  await sensor('east-pole', '2026-06-14T08:00:00Z');
   // Registered after the day too, but its gateway flushed a buffered reading taken on the day.
-  sensor('gate-pole', '2026-06-14T08:05:00Z');
+  await sensor('gate-pole', '2026-06-14T08:05:00Z');
   const gatePoleId = (sqlite.prepare("SELECT id FROM sensors WHERE key = 'gate-pole'").get() as { id: number }).id;
   const queue = new WriteQueue(sqlite);
   const batch = emptyWriteBatch();
@@ -168,13 +168,13 @@ describe('the day report lists only what was on the register that day', async ()
   void queue.enqueue(batch);
   queue.settle();
 
-  const gateArch = arch('Gate arch', '2026-06-10T09:00:00Z');
-  const marquee = arch('Hospitality marquee', '2026-06-14T09:00:00Z');
+  const gateArch = await arch('Gate arch', '2026-06-10T09:00:00Z');
+  const marquee = await arch('Hospitality marquee', '2026-06-14T09:00:00Z');
   // Up at 10:00 site time on the day, taken down at 16:00.
-  const booth = arch('Ticket booth banner', '2026-06-13T09:00:00Z');
-  retireStructure(storage, booth.id, 'test', at('2026-06-13T15:00:00Z'));
-  const oldStage = arch('Old stage wing', '2026-06-02T09:00:00Z');
-  retireStructure(storage, oldStage.id, 'test', at('2026-06-04T09:00:00Z'));
+  const booth = await arch('Ticket booth banner', '2026-06-13T09:00:00Z');
+  await retireStructure(storage, booth.id, 'test', at('2026-06-13T15:00:00Z'));
+  const oldStage = await arch('Old stage wing', '2026-06-02T09:00:00Z');
+  await retireStructure(storage, oldStage.id, 'test', at('2026-06-04T09:00:00Z'));
 
   const summary = daySummary(db, day.fromMs, day.toMs, at('2026-06-16T12:00:00Z'));
 

@@ -192,7 +192,7 @@ describe('alert e-mail', () => {
 
   it('escalates to the competent person when nobody acknowledges within the chain\'s minutes, and logs it', async () => {
     clock += 61_000;
-    ts.server.notifier.checkEscalations();
+    await ts.server.notifier.checkEscalations();
     const mail = await waitFor(() => mailsTo('ben@harbour.example').find((m) => m.text.includes('Escalated to you')), 10_000, 'the escalation e-mail');
     expect(mail.text.split(/\r?\n/)[0]).toBe('ACTION: Lower the LED wall to its bottom stop.');
     const esc = await admin.json('GET', '/api/notify/escalation');
@@ -200,7 +200,7 @@ describe('alert e-mail', () => {
     const audit = ts.server.db.$client.prepare(`SELECT actor, action FROM audit WHERE entity = 'alert' AND action = 'escalated'`).all();
     expect(audit).toEqual([{ actor: 'system', action: 'escalated' }]);
     // Checked again: the step is taken once.
-    ts.server.notifier.checkEscalations();
+    await ts.server.notifier.checkEscalations();
     expect((ts.server.db.$client.prepare('SELECT COUNT(*) AS n FROM notify_escalations').get() as { n: number }).n).toBe(1);
   });
 

@@ -21,21 +21,21 @@ describe('the ingest pipeline', () => {
     const storage = new SqliteStorage(opened);
     sqlite.prepare("INSERT INTO sites (id, name, default_levels_json, created_at_ms, updated_at_ms) VALUES (1, 'Brackenfold Common', '[]', 0, 0)").run();
     sqlite.prepare("INSERT INTO sensors (id, site_id, key, name, height_m, created_at_ms) VALUES (1, 1, 'north-mast', 'North mast', 10, 0)").run();
-    const rejections = new RejectionLog(storage.rejections, createLogger('silent'));
+    const rejections = await RejectionLog.open(storage.rejections, createLogger('silent'));
     const broken: ReadingConsumer = {
       take: () => {
         throw new TypeError("Cannot read properties of undefined (reading 'gustMps')");
       },
     };
     const queue = new WriteQueue(sqlite);
-    const pipeline = new IngestPipeline('wind', new Registry(storage), rejections, broken, queue);
+    const pipeline = new IngestPipeline('wind', await Registry.load(storage), rejections, broken, queue);
     await expect(pipeline.accept('wind/north-mast/reading', Buffer.from(JSON.stringify({ ts: Date.now(), speed: 8 })), Date.now())).resolves.toBeUndefined();
     queue.settle();
     expect(pipeline.counters).toMatchObject({ messages: 1, rejectedMessages: 1, acceptedReadings: 0 });
     expect(rejections.list('north-mast')).toEqual([expect.objectContaining({ reason: 'internal-error', count: 1 })]);
     expect(rejections.list('north-mast')[0]!.lastDetail).toMatch(/could not handle this message: TypeError/);
     expect((sqlite.prepare('SELECT COUNT(*) AS n FROM readings').get() as { n: number }).n).toBe(0);
-    rejections.flush();
+    await rejections.flush();
     sqlite.close();
   });
 });

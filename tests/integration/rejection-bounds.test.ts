@@ -18,12 +18,12 @@ function recordingLogger(lines: unknown[]): Logger {
 }
 
 describe('1,000 distinct unknown keys', () => {
-  it('make at most 200 + 1 entries, all 1,000 counted, and at most 20 log lines in the minute', () => {
+  it('make at most 200 + 1 entries, all 1,000 counted, and at most 20 log lines in the minute', async () => {
     const opened = openDatabase(':memory:');
     const { sqlite } = opened;
     const lines: unknown[] = [];
     let now = Date.UTC(2026, 7, 8, 12, 0, 0);
-    const log = new RejectionLog(new SqliteStorage(opened).rejections, recordingLogger(lines), () => now, (key) => key === 'gate-mast');
+    const log = await RejectionLog.open(new SqliteStorage(opened).rejections, recordingLogger(lines), () => now, (key) => key === 'gate-mast');
     for (let i = 0; i < 1000; i++) {
       now += 2;
       log.record(`ghost-${i}`, 'not-permitted', `no sensor is registered with the key "ghost-${i}"`);
@@ -43,7 +43,7 @@ describe('1,000 distinct unknown keys', () => {
     now += 61_000;
     log.record('ghost-5', 'not-permitted', 'again');
     expect(lines.some((l) => (l as { notLogged?: number }).notLogged === 1000 - maxRejectionLogLinesPerInterval + 1)).toBe(true);
-    log.flush();
+    await log.flush();
     expect((sqlite.prepare('SELECT COUNT(*) AS n FROM rejections').get() as { n: number }).n).toBe(maxRejectionKeys + 2);
   });
 });

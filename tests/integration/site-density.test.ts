@@ -27,9 +27,9 @@ function freshDatabase() {
 const t0 = Date.UTC(2026, 4, 2, 9, 0, 0);
 
 describe('the site default air density (design §2.1 v2)', () => {
-  it('a new site takes a fixed 1.25 kg/m³ (EN 1991-1-4 §4.5(1) Note 2), not ISA sea level 1.225 (ISO 2533)', () => {
+  it('a new site takes a fixed 1.25 kg/m³ (EN 1991-1-4 §4.5(1) Note 2), not ISA sea level 1.225 (ISO 2533)', async () => {
     const { db, sqlite } = freshDatabase();
-    const site = ensureSite(db, t0, 'Brackenfold Common');
+    const site = await ensureSite(db, t0, 'Brackenfold Common');
     expect(newSiteAirDensityKgM3).toBe(1.25);
     expect(site).toMatchObject({ airDensityMode: 'fixed', fixedAirDensityKgM3: 1.25 });
     // What the watch computes from those settings (server/engine/air.ts, mode 'fixed').
@@ -41,19 +41,19 @@ describe('the site default air density (design §2.1 v2)', () => {
     sqlite.close();
   });
 
-  it('an existing site keeps the density its competent person chose: ISA stays ISA after a restart', () => {
+  it('an existing site keeps the density its competent person chose: ISA stays ISA after a restart', async () => {
     const { db, sqlite } = freshDatabase();
-    ensureSite(db, t0);
-    updateSite(db, { airDensityMode: 'isa' }, 'competent person', t0 + 60_000);
-    expect(ensureSite(db, t0 + 120_000)).toMatchObject({ airDensityMode: 'isa' });
-    expect(getSite(db).airDensityMode).toBe('isa');
+    await ensureSite(db, t0);
+    await updateSite(db, { airDensityMode: 'isa' }, 'competent person', t0 + 60_000);
+    expect(await ensureSite(db, t0 + 120_000)).toMatchObject({ airDensityMode: 'isa' });
+    expect((await getSite(db)).airDensityMode).toBe('isa');
     sqlite.close();
   });
 
-  it('a site created before this change (the column default, ISA) is not rewritten by a restart', () => {
+  it('a site created before this change (the column default, ISA) is not rewritten by a restart', async () => {
     const { db, sqlite } = freshDatabase();
     sqlite.prepare("INSERT INTO sites (name, default_levels_json, created_at_ms, updated_at_ms) VALUES ('Older site', '[]', 0, 0)").run();
-    expect(ensureSite(db, t0)).toMatchObject({ name: 'Older site', airDensityMode: 'isa', fixedAirDensityKgM3: null });
+    expect(await ensureSite(db, t0)).toMatchObject({ name: 'Older site', airDensityMode: 'isa', fixedAirDensityKgM3: null });
     sqlite.close();
   });
 });

@@ -40,47 +40,57 @@ function thrown(work: () => unknown): unknown {
   throw new Error('expected the database to refuse');
 }
 
+/** The error `work`'s promise rejects with (a test fails when it resolves). */
+async function rejected(work: () => Promise<unknown>): Promise<unknown> {
+  try {
+    await work();
+  } catch (err) {
+    return err;
+  }
+  throw new Error('expected the database to refuse');
+}
+
 const newSensor = (siteId: number, key: string) => ({ siteId, key, name: key, heightM: 10, createdAtMs: 0 });
 
 describe('database errors by kind', () => {
-  it('a duplicate key is "unique", a broken foreign key or NOT NULL rule is "constraint"', () => {
+  it('a duplicate key is "unique", a broken foreign key or NOT NULL rule is "constraint"', async () => {
     const storage = openStorage(freshFile());
-    const site = storage.site.insert({ name: 'Error test site (invented)', defaultLevelsJson: [], createdAtMs: 0, updatedAtMs: 0 });
-    storage.sensors.insert(newSensor(site.id, 'north-mast'));
+    const site = await storage.site.insert({ name: 'Error test site (invented)', defaultLevelsJson: [], createdAtMs: 0, updatedAtMs: 0 });
+    await storage.sensors.insert(newSensor(site.id, 'north-mast'));
     // sensors.key is unique (db/schema.ts).
-    expect(classifyStorageError(thrown(() => storage.sensors.insert(newSensor(site.id, 'north-mast'))))).toBe('unique');
+    expect(classifyStorageError(await rejected(() => storage.sensors.insert(newSensor(site.id, 'north-mast'))))).toBe('unique');
     // site 999 does not exist: the foreign key refuses (foreign_keys = ON, storage/database.ts).
-    expect(classifyStorageError(thrown(() => storage.sensors.insert(newSensor(999, 'east-mast'))))).toBe('constraint');
+    expect(classifyStorageError(await rejected(() => storage.sensors.insert(newSensor(999, 'east-mast'))))).toBe('constraint');
     expect(classifyStorageError(thrown(() => storage.opened.sqlite.prepare('INSERT INTO sensors (site_id, key, height_m, created_at_ms) VALUES (?, ?, 10, 0)').run(site.id, 'west-mast')))).toBe('constraint');
-    storage.close();
+    await storage.close();
   });
 
-  it('a file that may not grow is "disk-full", a connection that may not write is "read-only"', () => {
+  it('a file that may not grow is "disk-full", a connection that may not write is "read-only"', async () => {
     const storage = openStorage(freshFile());
-    const site = storage.site.insert({ name: 'Error test site (invented)', defaultLevelsJson: [], createdAtMs: 0, updatedAtMs: 0 });
+    const site = await storage.site.insert({ name: 'Error test site (invented)', defaultLevelsJson: [], createdAtMs: 0, updatedAtMs: 0 });
     const { sqlite } = storage.opened;
     sqlite.pragma(`max_page_count = ${sqlite.pragma('page_count', { simple: true }) as number}`);
     // Enough rows to need a new page.
-    const full = thrown(() => storage.transaction(() => { for (let i = 0; i < 5_000; i++) storage.sensors.insert(newSensor(site.id, `mast-${i}`)); }));
+    const full = await rejected(() => storage.transaction(async () => { for (let i = 0; i < 5_000; i++) await storage.sensors.insert(newSensor(site.id, `mast-${i}`)); }));
     expect(classifyStorageError(full)).toBe('disk-full');
     sqlite.pragma('max_page_count = 1073741823');
     sqlite.pragma('query_only = ON');
-    expect(classifyStorageError(thrown(() => storage.sensors.insert(newSensor(site.id, 'gate-mast'))))).toBe('read-only');
+    expect(classifyStorageError(await rejected(() => storage.sensors.insert(newSensor(site.id, 'gate-mast'))))).toBe('read-only');
     sqlite.pragma('query_only = OFF');
-    storage.close();
+    await storage.close();
   });
 
-  it('another writer holding the lock is "busy"; a file that is not a database is "corrupt"', () => {
+  it('another writer holding the lock is "busy"; a file that is not a database is "corrupt"', async () => {
     const file = freshFile();
     const storage = openStorage(file);
-    const site = storage.site.insert({ name: 'Error test site (invented)', defaultLevelsJson: [], createdAtMs: 0, updatedAtMs: 0 });
+    const site = await storage.site.insert({ name: 'Error test site (invented)', defaultLevelsJson: [], createdAtMs: 0, updatedAtMs: 0 });
     const other = new Database(file);
     other.exec('BEGIN IMMEDIATE');
     storage.opened.sqlite.pragma('busy_timeout = 0');
-    expect(classifyStorageError(thrown(() => storage.sensors.insert(newSensor(site.id, 'busy-mast'))))).toBe('busy');
+    expect(classifyStorageError(await rejected(() => storage.sensors.insert(newSensor(site.id, 'busy-mast'))))).toBe('busy');
     other.exec('ROLLBACK');
     other.close();
-    storage.close();
+    await storage.close();
 
     const garbage = freshFile();
     fs.writeFileSync(garbage, 'this is a CSV export, not a database\n'.repeat(200));

@@ -222,9 +222,9 @@ describe('defects found in review (they failed on the code as reviewed; fixed si
     { label: 'Stop and clear', trigger: { kind: 'gust' as const, gustMps: stopMps }, actionText: 'Clear.' },
   ];
   /** The field issues of the 400 the call throws; [] when it does not throw. */
-  const issuesOf = (call: () => unknown): FieldIssue[] => {
+  const issuesOf = async (call: () => Promise<unknown>): Promise<FieldIssue[]> => {
     try {
-      call();
+      await call();
       return [];
     } catch (error) {
       if (error instanceof Invalid) return error.issues;
@@ -233,23 +233,23 @@ describe('defects found in review (they failed on the code as reviewed; fixed si
   };
   const marqueeInput = (levels: ReturnType<typeof gustLevels> | null): StructureInput => ({ ...demoInput('Food hall marquee'), record: registeredOpen, levels });
 
-  it('the save check refuses own levels above a weaker configuration’s limit (walls on 13.41 m/s at 1.25 kg/m³)', () => {
+  it('the save check refuses own levels above a weaker configuration’s limit (walls on 13.41 m/s at 1.25 kg/m³)', async () => {
     opened = openDatabase(':memory:');
     const storage = new SqliteStorage(opened);
-    ensureSite(storage, 0, 'Review site (invented)'); // new site: fixed 1.25 kg/m³
+    await ensureSite(storage, 0, 'Review site (invented)'); // new site: fixed 1.25 kg/m³
     // 14 m/s is below sides off (15.86·√(1.225/1.25) = 15.70) but above walls on (13.544·0.98995 = 13.41).
     expect(13.544 * Math.sqrt(rho / 1.25)).toBeLessThan(14);
-    const refused = issuesOf(() => createStructure(storage, 1, marqueeInput(gustLevels(14)), 'review', 0));
+    const refused = await issuesOf(() => createStructure(storage, 1, marqueeInput(gustLevels(14)), 'review', 0));
     expect(refused).toEqual([expect.objectContaining({ path: 'levels.2.trigger.gustMps', message: expect.stringContaining('in configuration "walls on"') })]);
   });
 
-  it('DEFECT 3 (fixed): site default levels are checked against every configuration (server/register/levelCheck.ts siteDefaultLevelIssues)', () => {
+  it('DEFECT 3 (fixed): site default levels are checked against every configuration (server/register/levelCheck.ts siteDefaultLevelIssues)', async () => {
     opened = openDatabase(':memory:');
     const storage = new SqliteStorage(opened);
-    ensureSite(storage, 0, 'Review site (invented)');
-    createStructure(storage, 1, marqueeInput(null), 'review', 0); // follows the site's (fractional) defaults
+    await ensureSite(storage, 0, 'Review site (invented)');
+    await createStructure(storage, 1, marqueeInput(null), 'review', 0); // follows the site's (fractional) defaults
     // The same 14 m/s Stop trigger, now as the site's default: it should be refused for "walls on" as well.
-    const refused = issuesOf(() => updateSite(storage, { defaultLevels: gustLevels(14) }, 'review', 1));
+    const refused = await issuesOf(() => updateSite(storage, { defaultLevels: gustLevels(14) }, 'review', 1));
     expect(refused).toEqual([expect.objectContaining({ path: 'defaultLevels.2.trigger.gustMps', message: expect.stringContaining('walls on') })]);
   });
 });

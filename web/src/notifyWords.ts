@@ -12,7 +12,7 @@ import type { Role } from '../../server/auth/roles.ts';
 export type { NotifyFilter, EscalationStep };
 
 /** One row of GET /api/notify/deliveries. */
-export type Delivery = ReturnType<Outbox['recent']>[number];
+export type Delivery = Awaited<ReturnType<Outbox['recent']>>[number];
 
 /** `/api/health`'s `notify` (and the counts GET /api/notify/deliveries repeats). */
 export interface NotifyHealth {

@@ -91,9 +91,9 @@ export function accessRoutes(deps: AccessRouteDeps): Hono<AppEnv> {
   const { accounts, limiter, now } = deps;
   const api = new Hono<AppEnv>();
 
-  api.get('/session', (c) => {
+  api.get('/session', async (c) => {
     const p = c.get('principal');
-    if (!p) return c.json({ signedIn: false, setupPending: accounts.setupPending });
+    if (!p) return c.json({ signedIn: false, setupPending: await accounts.setupPending() });
     return c.json({
       signedIn: true,
       kind: p.kind,
@@ -121,34 +121,34 @@ export function accessRoutes(deps: AccessRouteDeps): Hono<AppEnv> {
     undoUser();
     undoAddress();
     limiter.succeed(userKeys[0]!);
-    const session = accounts.openSession({ personId: person.id }, now());
+    const session = await accounts.openSession({ personId: person.id }, now());
     setSessionCookie(c, session.token, session.expiresAtMs, requestIsSecure(c, deps.trustProxy));
     return c.json({ signedIn: true, person, role: person.role, csrfToken: session.csrfToken, expiresAtMs: session.expiresAtMs });
   });
 
-  api.delete('/session', (c) => {
+  api.delete('/session', async (c) => {
     const p = c.get('principal');
-    if (p) accounts.closeSession(p.sessionTokenHash);
+    if (p) await accounts.closeSession(p.sessionTokenHash);
     clearSessionCookie(c);
     return c.json({ signedIn: false });
   });
 
-  api.post('/session/everywhere', requireRole('viewer'), (c) => {
+  api.post('/session/everywhere', requireRole('viewer'), async (c) => {
     const p = c.get('principal')!;
     if (p.kind !== 'person') throw new HttpError(403, 'a site link has no other sessions');
-    const closed = accounts.closeAllSessionsOf(p.person.id);
+    const closed = await accounts.closeAllSessionsOf(p.person.id);
     clearSessionCookie(c);
     return c.json({ signedIn: false, closedSessions: closed });
   });
 
-  api.get('/setup', (c) => c.json({ setupPending: accounts.setupPending }));
+  api.get('/setup', async (c) => c.json({ setupPending: await accounts.setupPending() }));
   api.post('/setup', async (c) => {
     const input = await jsonBody(c, setupSchema);
     const person = await accounts.completeSetup(input.code, input, now());
     return c.json({ person }, 201);
   });
 
-  api.get('/people', requireRole('admin'), (c) => c.json({ people: accounts.listPeople() }));
+  api.get('/people', requireRole('admin'), async (c) => c.json({ people: await accounts.listPeople() }));
   api.post('/people', requireRole('admin'), async (c) => {
     const input = await jsonBody(c, personInputSchema);
     return c.json({ person: await accounts.createPerson(input, principalName(c.get('principal')), now()) }, 201);
@@ -158,15 +158,15 @@ export function accessRoutes(deps: AccessRouteDeps): Hono<AppEnv> {
     return c.json({ person: await accounts.updatePerson(idParam(c), patch, principalName(c.get('principal')), now()) });
   });
 
-  api.get('/site-links', requireRole('competent-person'), (c) => c.json({ siteLinks: accounts.listSiteLinks(), linkAddress: linkAddress(c, deps.publicUrl, deps.trustProxy) }));
+  api.get('/site-links', requireRole('competent-person'), async (c) => c.json({ siteLinks: await accounts.listSiteLinks(), linkAddress: linkAddress(c, deps.publicUrl, deps.trustProxy) }));
   api.post('/site-links', requireRole('competent-person'), async (c) => {
     const input = await jsonBody(c, siteLinkSchema);
-    const link = accounts.createSiteLink(input.label, input.validHours * 3600_000, principalName(c.get('principal')), now());
+    const link = await accounts.createSiteLink(input.label, input.validHours * 3600_000, principalName(c.get('principal')), now());
     const address = linkAddress(c, deps.publicUrl, deps.trustProxy);
     return c.json({ id: link.id, label: input.label, expiresAtMs: link.expiresAtMs, url: `${address.origin}/link/${link.token}`, linkAddress: address }, 201);
   });
-  api.delete('/site-links/:id', requireRole('competent-person'), (c) => {
-    accounts.revokeSiteLink(idParam(c), principalName(c.get('principal')), now());
+  api.delete('/site-links/:id', requireRole('competent-person'), async (c) => {
+    await accounts.revokeSiteLink(idParam(c), principalName(c.get('principal')), now());
     return c.json({ revoked: true });
   });
 
@@ -176,11 +176,11 @@ export function accessRoutes(deps: AccessRouteDeps): Hono<AppEnv> {
 /** GET /link/:token — opens a read-only session for a steward and goes to the live board. */
 export function siteLinkOpener(deps: AccessRouteDeps): Hono<AppEnv> {
   const app = new Hono<AppEnv>();
-  app.get('/:token', (c) => {
-    const link = deps.accounts.liveSiteLink(c.req.param('token'), deps.now());
+  app.get('/:token', async (c) => {
+    const link = await deps.accounts.liveSiteLink(c.req.param('token'), deps.now());
     if (!link) return c.text('This site link is not valid: it may have expired or been withdrawn. Ask the site office for a new one.', 404);
     const lifetime = Math.max(0, link.expiresAtMs - deps.now());
-    const session = deps.accounts.openSession({ siteLinkId: link.id }, deps.now(), lifetime);
+    const session = await deps.accounts.openSession({ siteLinkId: link.id }, deps.now(), lifetime);
     setSessionCookie(c, session.token, session.expiresAtMs, requestIsSecure(c, deps.trustProxy));
     c.header('Referrer-Policy', 'no-referrer');
     return c.redirect('/', 303);

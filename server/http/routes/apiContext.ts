@@ -21,9 +21,9 @@ export interface ApiContext {
   accounts: Accounts;
   now: () => number;
   /** Re-reads the register into the live watch after a change. */
-  reloadRegister: () => void;
+  reloadRegister: () => Promise<void>;
   topicPrefix: string;
-  health: () => Record<string, unknown>;
+  health: () => Promise<Record<string, unknown>>;
   /** For what the routes notice that an operator should see (a stream client dropped). */
   log?: Logger;
   /** The forecast feed's poller (design §2.7); absent in contexts built without one. */

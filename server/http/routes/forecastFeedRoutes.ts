@@ -60,9 +60,9 @@ export function forecastFeedRoutes(ctx: ApiContext): Hono<AppEnv> {
     return ctx.forecastFeed;
   };
 
-  api.get('/forecast/feed', viewer, (c) => {
+  api.get('/forecast/feed', viewer, async (c) => {
     const nowMs = feed().now();
-    const s = feed().status(nowMs);
+    const s = await feed().status(nowMs);
     const rows = (s.lastSuccess?.rows ?? []).filter((r) => r.timeMs > nowMs - hourMs && r.timeMs <= nowMs + feedHorizonMs);
     const lastRowMs = s.lastSuccess?.rows?.reduce((max, r) => Math.max(max, r.timeMs), -Infinity) ?? null;
     return c.json({
@@ -78,7 +78,7 @@ export function forecastFeedRoutes(ctx: ApiContext): Hono<AppEnv> {
       consecutiveFailures: s.consecutiveFailures,
       nextPollAtMs: s.nextPollAtMs,
       problems: feedProblems(s, nowMs, rows.length, lastRowMs === null || !Number.isFinite(lastRowMs) ? null : lastRowMs),
-      predictions: s.lastSuccess === null ? null : { fromMs: nowMs, toMs: nowMs + feedHorizonMs, polledAtMs: s.lastSuccess.atMs, ...feedPredictions(ctx, rows, s.settings.heightM) },
+      predictions: s.lastSuccess === null ? null : { fromMs: nowMs, toMs: nowMs + feedHorizonMs, polledAtMs: s.lastSuccess.atMs, ...(await feedPredictions(ctx, rows, s.settings.heightM)) },
     });
   });
 
@@ -89,11 +89,11 @@ export function forecastFeedRoutes(ctx: ApiContext): Hono<AppEnv> {
   });
 
   api.get('/log/forecast', viewer, async (c) => {
-    const { fromMs, toMs } = windowOf((n) => c.req.query(n), ctx.now(), getSite(ctx.storage).timeZone);
+    const { fromMs, toMs } = windowOf((n) => c.req.query(n), ctx.now(), (await getSite(ctx.storage)).timeZone);
     if (toMs - fromMs > forecastCheckMaxWindowMs) throw HttpError.invalid([{ path: 'from', message: 'the forecast check spans at most 7 days' }]);
     // The newest minute of each sensor is summed in memory: write it first, as the other log reads do.
     await ctx.queue.writeOpenMinutes();
-    return c.json(ctx.storage.log.forecastCheck(fromMs, toMs, ctx.now()));
+    return c.json(await ctx.storage.log.forecastCheck(fromMs, toMs, ctx.now()));
   });
 
   return api;
@@ -104,8 +104,8 @@ export function forecastFeedRoutes(ctx: ApiContext): Hono<AppEnv> {
  * the ladder over every direction at the air density now, the row's gust moved from the feed's
  * height to the structure's, every configuration and the one the plan moves it to.
  */
-function feedPredictions(ctx: ApiContext, rows: readonly ForecastRow[], heightM: number) {
-  const site = getSite(ctx.storage);
+async function feedPredictions(ctx: ApiContext, rows: readonly ForecastRow[], heightM: number) {
+  const site = await getSite(ctx.storage);
   const all = ctx.watch.snapshot().structures;
   const states = all.filter((s) => !s.error && s.triggerGustsMps.length > 0);
   const ladders = states.map((s) => (s.limitGustMps === s.allDirectionsLimitGustMps ? s.triggerGustsMps : triggerLadderMps(s.levels, s.allDirectionsLimitGustMps)));
@@ -115,7 +115,7 @@ function feedPredictions(ctx: ApiContext, rows: readonly ForecastRow[], heightM:
     states.map((s, i) => ({ id: String(s.id), triggerGustsMps: ladders[i]!, heightFactor: heightFactor(s.referenceHeightM), chanceTriggers: chanceThresholds(s.levels, s.allDirectionsLimitGustMps) })),
   );
   const siteLevels = site.defaultLevelsJson;
-  const planned = states.map((s, i) => forecastConfigurations(ctx, s, ladders[i]!, heightFactor, siteLevels));
+  const planned = await Promise.all(states.map((s, i) => forecastConfigurations(ctx, s, ladders[i]!, heightFactor, siteLevels)));
   const plans = predictPlannedLevels(rows, planned.map((p) => p.structure));
   return {
     rows: predictions.map((p, i) => ({ timeMs: p.timeMs, meanMps: rows[i]!.meanMps, gustMps: p.gustMps, gustSource: p.gustSource, dirFromDeg: rows[i]!.dirFromDeg })),

@@ -35,6 +35,7 @@ import { z } from 'zod';
 import { principalName } from '../../auth/accounts.ts';
 import { roleAllows } from '../../auth/roles.ts';
 import { maxTextLength } from '../../engine/limits.ts';
+import type { StoredAlert } from '../../storage/alerts.ts';
 import { emptyWriteBatch } from '../../storage/writeBatch.ts';
 import { requireRole, type AppEnv } from '../access.ts';
 import { HttpError } from '../httpError.ts';
@@ -255,7 +256,7 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
     // at once and is stored when it can be.
     const open = ctx.watch.openAlert(id);
     if (!open) {
-      const stored = ctx.storage.alerts.byId(id);
+      const stored = await ctx.storage.alerts.byId(id);
       if (!stored) throw HttpError.notFound(`alert ${id}`);
       throw new HttpError(409, `alert ${id} was acknowledged by ${stored.acknowledgedBy ?? 'someone'}${stored.acknowledgedAtMs ? ` at ${new Date(stored.acknowledgedAtMs).toISOString()}` : ''}`);
     }
@@ -286,7 +287,19 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
       body.structureId !== undefined
         ? { words: `structure ${body.structureId}`, owns: (a: OpenAlert) => a.structureId === body.structureId, known: ctx.watch.structureStateById(body.structureId) !== null }
         : { words: `sensor "${body.sensorKey}"`, owns: (a: OpenAlert) => a.sensorKey === body.sensorKey, known: ctx.watch.sensorStateByKey(body.sensorKey!) !== null };
-    const open = ctx.watch.openAlerts().filter(subject.owns);
+    // The stored rows of the asked-for alerts that are not open for this subject, read first: from
+    // the choice below to marking them as being acknowledged nothing awaits, so no other
+    // acknowledgement of the same alerts comes between.
+    const storedRows = new Map<number, { row: StoredAlert | undefined; sensorKey: string | undefined }>();
+    const unread = (open: readonly OpenAlert[]) => (body.alertIds ?? []).filter((id) => !storedRows.has(id) && !open.some((a) => a.id === id));
+    let open = ctx.watch.openAlerts().filter(subject.owns);
+    for (let ids = unread(open); ids.length > 0; open = ctx.watch.openAlerts().filter(subject.owns), ids = unread(open)) {
+      for (const id of ids) {
+        const row = await ctx.storage.alerts.byId(id);
+        const sensorKey = row !== undefined && body.structureId === undefined && row.sensorId !== null ? (await ctx.storage.sensors.byId(row.sensorId))?.key : undefined;
+        storedRows.set(id, { row, sensorKey });
+      }
+    }
     if (!subject.known && open.length === 0) throw HttpError.notFound(subject.words);
 
     const waiting = open.filter((a) => a.acknowledgedAtMs === null && !beingAcknowledged.has(a.id));
@@ -311,12 +324,12 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
           return;
         }
         // Not open any more: acknowledged (and ended) already, or not an alert of this subject at all.
-        const stored = ctx.storage.alerts.byId(id);
+        const { row: stored, sensorKey } = storedRows.get(id)!;
         const ownsStored =
           stored !== undefined &&
           (body.structureId !== undefined
             ? stored.structureId === body.structureId
-            : stored.sensorId !== null && ctx.storage.sensors.byId(stored.sensorId)?.key === body.sensorKey);
+            : stored.sensorId !== null && sensorKey === body.sensorKey);
         if (stored && ownsStored && stored.acknowledgedAtMs !== null) alreadyAcknowledged.push({ id, acknowledgedBy: stored.acknowledgedBy, acknowledgedAtMs: stored.acknowledgedAtMs });
         else issues.push({ path: `alertIds.${i}`, message: `alert ${id} is not an alert of ${subject.words}` });
       });

@@ -95,7 +95,7 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
   const { storage } = ctx;
   const queries = storage.log.series;
   const viewer = requireRole('viewer');
-  const win = (c: { req: { query(name: string): string | undefined } }) => windowOf((n) => c.req.query(n), ctx.now(), getSite(storage).timeZone);
+  const win = async (c: { req: { query(name: string): string | undefined } }) => windowOf((n) => c.req.query(n), ctx.now(), (await getSite(storage)).timeZone);
   // Each sensor's newest minute rollup is summed in memory between ticks: write it before a
   // read, so the log and its exports include the reading that just came in.
   const withOpenMinutes: MiddlewareHandler<AppEnv> = async (_c, next) => {
@@ -105,81 +105,81 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
   api.use('/log/*', withOpenMinutes);
   api.use('/export/*', withOpenMinutes);
 
-  api.get('/log/wind', viewer, (c) => {
-    const { fromMs, toMs } = win(c);
+  api.get('/log/wind', viewer, async (c) => {
+    const { fromMs, toMs } = await win(c);
     const points = pointsParam(c.req.query('points'));
     const key = c.req.query('sensor');
     // The sensors on the register during the window (a retired sensor keeps its history; one
     // registered later has none), or the one asked for, retired or not.
-    const present = storage.log.sensorsInWindow(fromMs, toMs).map((p) => p.sensor);
-    const sensors = key ? [present.find((s) => s.key === key) ?? storage.sensors.byKey(key) ?? getSensor(storage, key)] : present;
+    const present = (await storage.log.sensorsInWindow(fromMs, toMs)).map((p) => p.sensor);
+    const sensors = key ? [present.find((s) => s.key === key) ?? (await storage.sensors.byKey(key)) ?? (await getSensor(storage, key))] : present;
     return c.json({
       fromMs,
       toMs,
-      sensors: sensors.map((s) => ({ key: s.key, name: s.name, heightM: s.heightM, series: queries.windSeries(s.id, fromMs, toMs, points) })),
+      sensors: await Promise.all(sensors.map(async (s) => ({ key: s.key, name: s.name, heightM: s.heightM, series: await queries.windSeries(s.id, fromMs, toMs, points) }))),
     });
   });
 
-  api.get('/log/structures/:id', viewer, (c) => {
+  api.get('/log/structures/:id', viewer, async (c) => {
     const id = idParam(c);
     // A retired structure's history stays in the log: only an id never registered is unknown.
-    const row = storage.structures.byId(id) ?? getStructureRow(storage, id);
-    const { fromMs, toMs } = win(c);
+    const row = (await storage.structures.byId(id)) ?? (await getStructureRow(storage, id));
+    const { fromMs, toMs } = await win(c);
     const points = pointsParam(c.req.query('points'));
-    const changes = storage.levelChanges.inWindow(fromMs, toMs, { structureId: id });
-    const alerts = storage.alerts.raisedInWindow(fromMs, toMs, { structureId: id });
+    const changes = await storage.levelChanges.inWindow(fromMs, toMs, { structureId: id });
+    const alerts = await storage.alerts.raisedInWindow(fromMs, toMs, { structureId: id });
     return c.json({
       fromMs,
       toMs,
       structure: { id: row.id, name: row.name, kind: row.kind },
       live: ctx.watch.structureStateById(id),
-      series: queries.structureSeries(id, fromMs, toMs, points),
+      series: await queries.structureSeries(id, fromMs, toMs, points),
       levelChanges: changes,
       alerts,
-      configurationChanges: storage.log.configurationChanges(fromMs, toMs, id),
-      overdueSignals: storage.log.overdueSignals(fromMs, toMs, id),
+      configurationChanges: await storage.log.configurationChanges(fromMs, toMs, id),
+      overdueSignals: await storage.log.overdueSignals(fromMs, toMs, id),
     });
   });
 
   // The plan's actions (design §2.5): configuration switches ("Done" on an alert, or by hand) and
   // actions signalled again as overdue, by the time they happened.
-  api.get('/log/configurations', viewer, (c) => {
-    const { fromMs, toMs } = win(c);
+  api.get('/log/configurations', viewer, async (c) => {
+    const { fromMs, toMs } = await win(c);
     const structure = structureParam(c.req.query('structure'));
-    return c.json({ fromMs, toMs, configurationChanges: storage.log.configurationChanges(fromMs, toMs, structure), overdueSignals: storage.log.overdueSignals(fromMs, toMs, structure) });
+    return c.json({ fromMs, toMs, configurationChanges: await storage.log.configurationChanges(fromMs, toMs, structure), overdueSignals: await storage.log.overdueSignals(fromMs, toMs, structure) });
   });
 
-  api.get('/log/levels', viewer, (c) => {
-    const { fromMs, toMs } = win(c);
+  api.get('/log/levels', viewer, async (c) => {
+    const { fromMs, toMs } = await win(c);
     const structure = structureParam(c.req.query('structure'));
-    const names = storage.structures.names();
-    const rows = storage.levelChanges.inWindow(fromMs, toMs, { ...(structure !== undefined ? { structureId: structure } : {}), limit: 20_000 });
+    const names = await storage.structures.names();
+    const rows = await storage.levelChanges.inWindow(fromMs, toMs, { ...(structure !== undefined ? { structureId: structure } : {}), limit: 20_000 });
     return c.json({ fromMs, toMs, levelChanges: rows.map((r) => ({ ...r, structureName: names.get(r.structureId) ?? null })) });
   });
 
-  api.get('/log/alerts', viewer, (c) => {
-    const { fromMs, toMs } = win(c);
-    const rows = storage.alerts.raisedInWindow(fromMs, toMs, { limit: 20_000 });
+  api.get('/log/alerts', viewer, async (c) => {
+    const { fromMs, toMs } = await win(c);
+    const rows = await storage.alerts.raisedInWindow(fromMs, toMs, { limit: 20_000 });
     return c.json({ fromMs, toMs, alerts: rows });
   });
 
-  api.get('/log/audit', viewer, (c) => {
-    const { fromMs, toMs } = win(c);
-    const rows = storage.audit.inWindow(fromMs, toMs, 20_000);
+  api.get('/log/audit', viewer, async (c) => {
+    const { fromMs, toMs } = await win(c);
+    const rows = await storage.audit.inWindow(fromMs, toMs, 20_000);
     return c.json({ fromMs, toMs, audit: rows });
   });
 
-  api.get('/log/summary', viewer, (c) => {
-    const { fromMs, toMs } = win(c);
-    return c.json(storage.log.daySummary(fromMs, toMs, ctx.now()));
+  api.get('/log/summary', viewer, async (c) => {
+    const { fromMs, toMs } = await win(c);
+    return c.json(await storage.log.daySummary(fromMs, toMs, ctx.now()));
   });
 
-  api.get('/export/:table{[a-z-]+\\.csv}', viewer, (c) => {
+  api.get('/export/:table{[a-z-]+\\.csv}', viewer, async (c) => {
     const table = c.req.param('table').replace(/\.csv$/, '') as (typeof csvTables)[number];
     if (!csvTables.includes(table)) throw HttpError.notFound(`export "${table}"`);
-    const { fromMs, toMs } = win(c);
-    const timeZone = getSite(storage).timeZone;
-    const csv = exportCsv(ctx, table, fromMs, toMs, timeZone);
+    const { fromMs, toMs } = await win(c);
+    const timeZone = (await getSite(storage)).timeZone;
+    const csv = await exportCsv(ctx, table, fromMs, toMs, timeZone);
     c.header('Content-Type', 'text/csv; charset=utf-8');
     // Named after the window's first date on the site's clock (day=2026-06-13 starts at 23:00 UTC the day before in summer in London).
     c.header('Content-Disposition', `attachment; filename="${table}-${new LocalTimes(timeZone).date(fromMs)}.csv"`);
@@ -188,7 +188,7 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
 
   api.post('/forecast', viewer, async (c) => {
     const input = await jsonBody(c, forecastSchema);
-    const site = getSite(storage);
+    const site = await getSite(storage);
     const table = parseForecastTable(input.text, {
       ...(input.unit ? { unit: input.unit } : {}),
       ...(input.dateOrder ? { dateOrder: input.dateOrder } : {}),
@@ -215,7 +215,7 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
     // (engine recordConfigurations → one structure model each), each at the air density now and
     // over every direction, with its own reference height; the current one as the watch has it.
     const siteLevels = site.defaultLevelsJson;
-    const planned = states.map((s, i) => forecastConfigurations(ctx, s, ladders[i]!, heightFactor, siteLevels));
+    const planned = await Promise.all(states.map((s, i) => forecastConfigurations(ctx, s, ladders[i]!, heightFactor, siteLevels)));
     const plans = predictPlannedLevels(table.rows, planned.map((p) => p.structure));
     return c.json({
       heightM: input.heightM,
@@ -248,14 +248,14 @@ export function logRoutes(ctx: ApiContext): Hono<AppEnv> {
 }
 
 /** A structure in the forecast check with every configuration: what `predictPlannedLevels` takes, and what the answer shows of each. */
-export function forecastConfigurations(
+export async function forecastConfigurations(
   ctx: ApiContext,
   state: StructureState,
   currentLadder: number[],
   heightFactor: (toHeightM: number) => number,
   siteLevels: readonly LevelDefinition[],
-): { structure: ForecastPlannedStructure; views: Array<{ name: string; current: boolean; referenceHeightM: number; limitGustMps: number; levels: Array<{ level: number; label: string; triggerGustMps: number }> }>; moveTo: Array<string | null> } {
-  const row = ctx.storage.structures.byId(state.id);
+): Promise<{ structure: ForecastPlannedStructure; views: Array<{ name: string; current: boolean; referenceHeightM: number; limitGustMps: number; levels: Array<{ level: number; label: string; triggerGustMps: number }> }>; moveTo: Array<string | null> }> {
+  const row = await ctx.storage.structures.byId(state.id);
   const key = (name: string) => name.trim().normalize('NFC').toLowerCase();
   const current = { name: state.configuration, triggerGustsMps: currentLadder, heightFactor: heightFactor(state.referenceHeightM), referenceHeightM: state.referenceHeightM, limitGustMps: state.allDirectionsLimitGustMps };
   let list: Array<typeof current> = [current];
@@ -327,7 +327,7 @@ const marginPct = (fraction: number | null | undefined): string => rounded(tenth
  * speeds to 0.1 m/s, utilization and margin to 0.1 % of capacity, directions to 1°, temperature
  * to 0.1 °C, pressure to 0.1 hPa, humidity to 1 %. README "CSV exports" lists the columns.
  */
-export function exportCsv(ctx: Pick<ApiContext, 'storage'>, table: (typeof csvTables)[number], fromMs: number, toMs: number, timeZone: string): string {
+export async function exportCsv(ctx: Pick<ApiContext, 'storage'>, table: (typeof csvTables)[number], fromMs: number, toMs: number, timeZone: string): Promise<string> {
   const { storage } = ctx;
   const local = new LocalTimes(timeZone);
   const iso = (ms: number | null) => (ms === null ? '' : new Date(ms).toISOString());
@@ -336,15 +336,13 @@ export function exportCsv(ctx: Pick<ApiContext, 'storage'>, table: (typeof csvTa
     case 'readings': {
       return toCsv(
         ['sensor', 'time_local', 'time_utc', 'speed_mps', 'gust_mps', 'dir_from_deg', 'temp_c', 'pressure_hpa', 'rh_pct', 'late'],
-        storage.log.exports
-          .readings(fromMs, toMs)
-          .map((r) => [r.sensorKey, loc(r.tsMs), iso(r.tsMs), rounded(r.speedMps, 1), rounded(r.gustMps, 1), rounded(r.dirDeg, 0), rounded(r.tempC, 1), r.pressurePa === null ? '' : rounded(r.pressurePa / 100, 1), rounded(r.rhPct, 0), r.late ? 'yes' : '']),
+        (await storage.log.exports.readings(fromMs, toMs)).map((r) => [r.sensorKey, loc(r.tsMs), iso(r.tsMs), rounded(r.speedMps, 1), rounded(r.gustMps, 1), rounded(r.dirDeg, 0), rounded(r.tempC, 1), r.pressurePa === null ? '' : rounded(r.pressurePa / 100, 1), rounded(r.rhPct, 0), r.late ? 'yes' : '']),
       );
     }
     case 'wind-minutes': {
       return toCsv(
         ['sensor', 'minute_local', 'minute_utc', 'samples', 'mean_mps', 'max_gust_mps', 'mean_dir_from_deg'],
-        storage.log.exports.windMinutes(fromMs, toMs).map((r) => {
+        (await storage.log.exports.windMinutes(fromMs, toMs)).map((r) => {
           // A bearing that rounds up to 360° is north, written 0.
           const dir = rounded(r.meanDirDeg, 0);
           return [r.sensorKey, loc(r.minuteMs), iso(r.minuteMs), r.samples, rounded(r.meanMps, 1), rounded(r.maxGustMps, 1), dir === '360' ? '0' : dir];
@@ -354,7 +352,7 @@ export function exportCsv(ctx: Pick<ApiContext, 'storage'>, table: (typeof csvTa
     case 'structure-minutes': {
       return toCsv(
         ['structure', 'minute_local', 'minute_utc', 'max_gust_mps', 'max_utilization_pct', 'min_margin_pct', 'max_level'],
-        storage.log.exports.structureMinutes(fromMs, toMs).map((r) => {
+        (await storage.log.exports.structureMinutes(fromMs, toMs)).map((r) => {
           // An infinite utilization: no resistance was left.
           const unbounded = !Number.isFinite(r.maxUtilization);
           return [r.structureName, loc(r.minuteMs), iso(r.minuteMs), rounded(r.maxGustMps, 1), unbounded ? 'unbounded' : pct(r.maxUtilization), unbounded ? 'none' : marginPct(r.maxUtilization), r.maxLevel];
@@ -362,9 +360,9 @@ export function exportCsv(ctx: Pick<ApiContext, 'storage'>, table: (typeof csvTa
       );
     }
     case 'level-changes': {
-      const rows = storage.log.exports.levelChanges(fromMs, toMs);
+      const rows = await storage.log.exports.levelChanges(fromMs, toMs);
       // The configuration each change was assessed in (design §2.5): the log's last switch at or before it, else the one as registered.
-      const history = storage.log.configurationHistory(toMs);
+      const history = await storage.log.configurationHistory(toMs);
       const registered = new Map<number, string>();
       const registeredName = (id: number, json: string): string => {
         let name = registered.get(id);
@@ -383,10 +381,10 @@ export function exportCsv(ctx: Pick<ApiContext, 'storage'>, table: (typeof csvTa
       );
     }
     case 'alerts': {
-      const rows = storage.alerts.raisedInWindow(fromMs, toMs);
-      const names = storage.structures.names();
-      const sensorNames = new Map(storage.sensors.all().map((s) => [s.id, s.key]));
-      const actionDueMs = getSite(storage).actionDueMs;
+      const rows = await storage.alerts.raisedInWindow(fromMs, toMs);
+      const names = await storage.structures.names();
+      const sensorNames = new Map((await storage.sensors.all()).map((s) => [s.id, s.key]));
+      const actionDueMs = (await getSite(storage)).actionDueMs;
       return toCsv(
         [
           'id', 'kind', 'structure', 'sensor', 'level', 'label', 'raised_local', 'raised_utc', 'gust_mps', 'utilization_pct', 'acknowledged_local', 'acknowledged_utc', 'acknowledged_by', 'note', 'cleared_local', 'cleared_utc', 'action',
@@ -422,7 +420,7 @@ export function exportCsv(ctx: Pick<ApiContext, 'storage'>, table: (typeof csvTa
       );
     }
     case 'configuration-changes': {
-      const rows = storage.log.configurationChanges(fromMs, toMs);
+      const rows = await storage.log.configurationChanges(fromMs, toMs);
       return toCsv(
         ['structure', 'time_local', 'time_utc', 'from', 'to', 'reason', 'by', 'alert_id', 'alert_level', 'alert_label', 'after_alert_min', 'signalled_overdue', 'note'],
         rows.map((r) => [
@@ -443,7 +441,7 @@ export function exportCsv(ctx: Pick<ApiContext, 'storage'>, table: (typeof csvTa
       );
     }
     case 'audit': {
-      const rows = storage.audit.inWindow(fromMs, toMs);
+      const rows = await storage.audit.inWindow(fromMs, toMs);
       return toCsv(
         ['time_local', 'time_utc', 'who', 'what', 'id', 'action', 'before', 'after'],
         rows.map((r) => [loc(r.atMs), iso(r.atMs), r.actor, r.entity, r.entityId, r.action, r.beforeJson === null ? '' : JSON.stringify(r.beforeJson), r.afterJson === null ? '' : JSON.stringify(r.afterJson)]),

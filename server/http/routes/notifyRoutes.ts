@@ -82,15 +82,15 @@ export function notifyRoutes(ctx: NotifyRoutesContext): Hono<AppEnv> {
    * full list of people, with usernames and sign-in state, stays the administrator's): id, name
    * and role of everyone not disabled.
    */
-  api.get('/notify/people', requireRole('competent-person'), (c) => {
-    const people = storage.people.activeByDisplayName();
+  api.get('/notify/people', requireRole('competent-person'), async (c) => {
+    const people = await storage.people.activeByDisplayName();
     return c.json({ people: people.map(({ id, displayName, role }) => ({ id, displayName, role })) });
   });
 
   // ---------- webhooks ----------
 
-  api.get('/notify/webhooks', requireRole('competent-person'), (c) => {
-    const rows = storage.notifications.webhooks().map(shownWebhook);
+  api.get('/notify/webhooks', requireRole('competent-person'), async (c) => {
+    const rows = (await storage.notifications.webhooks()).map(shownWebhook);
     const env = notifier.envWebhookUrl ? [{ id: 'env', name: 'ALERT_WEBHOOK_URL', url: notifier.envWebhookUrl, filter: allAlerts, enabled: true, source: 'environment' as const }] : [];
     return c.json({ webhooks: [...env, ...rows] });
   });
@@ -100,9 +100,9 @@ export function notifyRoutes(ctx: NotifyRoutesContext): Hono<AppEnv> {
     const atMs = ctx.now();
     const actor = principalName(c.get('principal'));
     const secret = newSecret();
-    const row = storage.transaction(() => {
-      const made = storage.notifications.insertWebhook({ name: body.name, url: body.url, secret, filterJson: body.filter ?? allAlerts, enabled: true, createdBy: actor, createdAtMs: atMs, updatedAtMs: atMs });
-      storage.audit.record({ actor, entity: 'notify', entityId: `webhook:${made.id}`, action: 'create', after: shownWebhook(made) }, atMs);
+    const row = await storage.transaction(async () => {
+      const made = await storage.notifications.insertWebhook({ name: body.name, url: body.url, secret, filterJson: body.filter ?? allAlerts, enabled: true, createdBy: actor, createdAtMs: atMs, updatedAtMs: atMs });
+      await storage.audit.record({ actor, entity: 'notify', entityId: `webhook:${made.id}`, action: 'create', after: shownWebhook(made) }, atMs);
       return made;
     });
     return c.json({ webhook: shownWebhook(row), secret }, 201);
@@ -111,13 +111,13 @@ export function notifyRoutes(ctx: NotifyRoutesContext): Hono<AppEnv> {
   api.patch('/notify/webhooks/:id', requireRole('competent-person'), async (c) => {
     const id = idParam(c);
     const body = await jsonBody(c, webhookUpdateSchema);
-    const before = storage.notifications.webhook(id);
+    const before = await storage.notifications.webhook(id);
     if (!before) throw HttpError.notFound(`webhook ${id}`);
     const atMs = ctx.now();
     const actor = principalName(c.get('principal'));
     const secret = body.renewSecret ? newSecret() : null;
-    const row = storage.transaction(() => {
-      const after = storage.notifications.updateWebhook(id, {
+    const row = await storage.transaction(async () => {
+      const after = await storage.notifications.updateWebhook(id, {
           ...(body.name !== undefined ? { name: body.name } : {}),
           ...(body.url !== undefined ? { url: body.url } : {}),
           ...(body.filter !== undefined ? { filterJson: body.filter } : {}),
@@ -125,37 +125,37 @@ export function notifyRoutes(ctx: NotifyRoutesContext): Hono<AppEnv> {
           ...(secret !== null ? { secret } : {}),
           updatedAtMs: atMs,
         });
-      storage.audit.record({ actor, entity: 'notify', entityId: `webhook:${id}`, action: secret ? 'update (new secret)' : 'update', before: shownWebhook(before), after: shownWebhook(after) }, atMs);
+      await storage.audit.record({ actor, entity: 'notify', entityId: `webhook:${id}`, action: secret ? 'update (new secret)' : 'update', before: shownWebhook(before), after: shownWebhook(after) }, atMs);
       return after;
     });
     return c.json(secret ? { webhook: shownWebhook(row), secret } : { webhook: shownWebhook(row) });
   });
 
-  api.delete('/notify/webhooks/:id', requireRole('competent-person'), (c) => {
+  api.delete('/notify/webhooks/:id', requireRole('competent-person'), async (c) => {
     const id = idParam(c);
-    const before = storage.notifications.webhook(id);
+    const before = await storage.notifications.webhook(id);
     if (!before) throw HttpError.notFound(`webhook ${id}`);
     const atMs = ctx.now();
-    storage.transaction(() => {
-      storage.notifications.deleteWebhook(id);
-      storage.audit.record({ actor: principalName(c.get('principal')), entity: 'notify', entityId: `webhook:${id}`, action: 'delete', before: shownWebhook(before) }, atMs);
+    await storage.transaction(async () => {
+      await storage.notifications.deleteWebhook(id);
+      await storage.audit.record({ actor: principalName(c.get('principal')), entity: 'notify', entityId: `webhook:${id}`, action: 'delete', before: shownWebhook(before) }, atMs);
     });
     return c.body(null, 204);
   });
 
-  api.post('/notify/webhooks/:id/test', requireRole('competent-person'), (c) => {
+  api.post('/notify/webhooks/:id/test', requireRole('competent-person'), async (c) => {
     const raw = c.req.param('id');
     const target = raw === 'env' ? 'webhook:env' : `webhook:${idParam(c)}`;
-    const result = notifier.testWebhook(target);
+    const result = await notifier.testWebhook(target);
     if ('error' in result) throw new HttpError(raw === 'env' || result.error.startsWith('no such') ? 404 : 409, result.error);
     return c.json(result, 202);
   });
 
   // ---------- escalation ----------
 
-  api.get('/notify/escalation', requireRole('competent-person'), (c) => {
-    const chains = storage.notifications.chains().map((r) => ({ level: r.level, steps: r.stepsJson, updatedBy: r.updatedBy, updatedAtMs: r.updatedAtMs }));
-    const recent = storage.notifications.recentSteps(100);
+  api.get('/notify/escalation', requireRole('competent-person'), async (c) => {
+    const chains = (await storage.notifications.chains()).map((r) => ({ level: r.level, steps: r.stepsJson, updatedBy: r.updatedBy, updatedAtMs: r.updatedAtMs }));
+    const recent = await storage.notifications.recentSteps(100);
     return c.json({ chains, recent: recent.map((r) => ({ alertId: r.alertId, step: r.step + 1, atMs: r.atMs, target: r.target, reached: r.reached })) });
   });
 
@@ -163,17 +163,17 @@ export function notifyRoutes(ctx: NotifyRoutesContext): Hono<AppEnv> {
     const body = await jsonBody(c, escalationChainsSchema);
     const atMs = ctx.now();
     const actor = principalName(c.get('principal'));
-    const before = storage.notifications.chains();
-    storage.transaction(() => {
-      storage.notifications.replaceChains(body.chains, actor, atMs);
-      storage.audit.record({ actor, entity: 'notify', entityId: 'escalation', action: 'update', before: before.map((r) => ({ level: r.level, steps: r.stepsJson })), after: body.chains }, atMs);
+    const before = await storage.notifications.chains();
+    await storage.transaction(async () => {
+      await storage.notifications.replaceChains(body.chains, actor, atMs);
+      await storage.audit.record({ actor, entity: 'notify', entityId: 'escalation', action: 'update', before: before.map((r) => ({ level: r.level, steps: r.stepsJson })), after: body.chains }, atMs);
     });
     return c.json({ chains: body.chains.filter((ch) => ch.steps.length > 0) });
   });
 
   // ---------- deliveries ----------
 
-  api.get('/notify/deliveries', requireRole('competent-person'), (c) => {
+  api.get('/notify/deliveries', requireRole('competent-person'), async (c) => {
     const limitText = c.req.query('limit');
     const limit = limitText === undefined ? 100 : Number(limitText);
     if (!Number.isInteger(limit) || limit < 1 || limit > 1000) throw HttpError.invalid([{ path: 'limit', message: 'must be a whole number from 1 to 1000' }]);
@@ -182,15 +182,15 @@ export function notifyRoutes(ctx: NotifyRoutesContext): Hono<AppEnv> {
     const alertText = c.req.query('alertId');
     const alertId = alertText === undefined ? undefined : Number(alertText);
     if (alertId !== undefined && (!Number.isInteger(alertId) || alertId < 1)) throw HttpError.invalid([{ path: 'alertId', message: 'must be an alert id (a whole number above 0)' }]);
-    return c.json({ ...notifier.health(), deliveries: notifier.outbox.recent(limit, { ...(status ? { status } : {}), ...(alertId !== undefined ? { alertId } : {}) }) });
+    return c.json({ ...(await notifier.health()), deliveries: await notifier.outbox.recent(limit, { ...(status ? { status } : {}), ...(alertId !== undefined ? { alertId } : {}) }) });
   });
 
   // ---------- one's own settings ----------
 
   const me = principalOf;
-  api.get('/me/notifications', requireRole('viewer'), (c) => {
+  api.get('/me/notifications', requireRole('viewer'), async (c) => {
     const person = me(c);
-    const row = storage.notifications.personSettings(person.id);
+    const row = await storage.notifications.personSettings(person.id);
     return c.json({ email: row?.email ?? null, filter: row ? storedFilter(row.filterJson) : allAlerts, emailAvailable: notifier.emailConfigured });
   });
 
@@ -198,16 +198,16 @@ export function notifyRoutes(ctx: NotifyRoutesContext): Hono<AppEnv> {
     const person = me(c);
     const body = await jsonBody(c, personSettingsSchema);
     const atMs = ctx.now();
-    const row = storage.notifications.personSettings(person.id);
+    const row = await storage.notifications.personSettings(person.id);
     const email = body.email !== undefined ? body.email : (row?.email ?? null);
     const filter = body.filter ?? (row ? storedFilter(row.filterJson) : allAlerts);
-    storage.notifications.savePersonSettings(person.id, email, filter, atMs);
+    await storage.notifications.savePersonSettings(person.id, email, filter, atMs);
     return c.json({ email, filter, emailAvailable: notifier.emailConfigured });
   });
 
-  api.post('/me/notifications/test', requireRole('viewer'), (c) => {
+  api.post('/me/notifications/test', requireRole('viewer'), async (c) => {
     const person = me(c);
-    const result = notifier.testPerson(person.id);
+    const result = await notifier.testPerson(person.id);
     if ('error' in result) throw new HttpError(409, result.error);
     return c.json(result, 202);
   });

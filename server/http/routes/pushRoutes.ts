@@ -37,16 +37,16 @@ export function pushRoutes(ctx: PushRoutesContext): Hono<AppEnv> {
     return c.json({ publicKey: push.keys?.publicKey ?? null, enabled: push.channel !== null, problem: push.problem });
   });
 
-  api.get('/me/push-subscriptions', requireRole('viewer'), (c) => {
+  api.get('/me/push-subscriptions', requireRole('viewer'), async (c) => {
     const person = personOf(c);
-    return c.json({ subscriptions: push.subscriptions.ofPerson(person.id).map(shownSubscription), enabled: push.channel !== null, publicKey: push.keys?.publicKey ?? null });
+    return c.json({ subscriptions: (await push.subscriptions.ofPerson(person.id)).map(shownSubscription), enabled: push.channel !== null, publicKey: push.keys?.publicKey ?? null });
   });
 
   api.post('/me/push-subscriptions', requireRole('viewer'), async (c) => {
     const person = personOf(c);
     if (!push.channel) throw new HttpError(409, `Web Push is off on this server: ${push.problem ?? 'no key'}`);
     const body = await jsonBody(c, pushSubscribeSchema);
-    const { row, created } = push.subscriptions.save(person.id, body, c.req.header('user-agent') ?? null, ctx.now());
+    const { row, created } = await push.subscriptions.save(person.id, body, c.req.header('user-agent') ?? null, ctx.now());
     return c.json({ subscription: shownSubscription(row) }, created ? 201 : 200);
   });
 
@@ -54,22 +54,22 @@ export function pushRoutes(ctx: PushRoutesContext): Hono<AppEnv> {
     const person = personOf(c);
     const id = idParam(c);
     const body = await jsonBody(c, pushLabelSchema);
-    const row = push.subscriptions.relabel(person.id, id, body.label, ctx.now());
+    const row = await push.subscriptions.relabel(person.id, id, body.label, ctx.now());
     if (!row) throw HttpError.notFound(`push subscription ${id}`);
     return c.json({ subscription: shownSubscription(row) });
   });
 
-  api.delete('/me/push-subscriptions/:id', requireRole('viewer'), (c) => {
+  api.delete('/me/push-subscriptions/:id', requireRole('viewer'), async (c) => {
     const person = personOf(c);
     const id = idParam(c);
-    if (!push.subscriptions.remove(person.id, id)) throw HttpError.notFound(`push subscription ${id}`);
+    if (!(await push.subscriptions.remove(person.id, id))) throw HttpError.notFound(`push subscription ${id}`);
     return c.body(null, 204);
   });
 
-  api.post('/me/push-subscriptions/:id/test', requireRole('viewer'), (c) => {
+  api.post('/me/push-subscriptions/:id/test', requireRole('viewer'), async (c) => {
     const person = personOf(c);
     const id = idParam(c);
-    const result = ctx.notifier.testPush(person.id, id, person.displayName);
+    const result = await ctx.notifier.testPush(person.id, id, person.displayName);
     if ('error' in result) throw new HttpError(result.status, result.error);
     return c.json(result, 202);
   });

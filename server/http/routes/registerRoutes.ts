@@ -58,44 +58,44 @@ export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
   const editor = requireRole('competent-person');
 
   // ---- site ----
-  api.get('/site', viewer, (c) => {
-    const site = getSite(ctx.storage);
+  api.get('/site', viewer, async (c) => {
+    const site = await getSite(ctx.storage);
     // The density now (the live board's) and the design density the levels are checked at on
     // save, which the register form's calculator uses too (register/levelCheck.ts).
     return c.json({ site: siteView(site), airDensityKgM3: ctx.watch.currentAirDensityKgM3, designAirDensityKgM3: siteDesignDensityKgM3(site) });
   });
   api.patch('/site', editor, async (c) => {
     const patch = await jsonPatchBody(c, siteUpdateSchema);
-    const site = updateSite(ctx.storage, patch, actor(c), ctx.now());
-    ctx.reloadRegister();
+    const site = await updateSite(ctx.storage, patch, actor(c), ctx.now());
+    await ctx.reloadRegister();
     return c.json({ site: siteView(site) });
   });
 
   // ---- sensors ----
-  const sensorView = (s: ReturnType<typeof getSensor>) => ({
+  const sensorView = (s: Awaited<ReturnType<typeof getSensor>>) => ({
     ...s,
     topic: readingTopic(ctx.topicPrefix, s.key),
     live: ctx.watch.sensorStateByKey(s.key),
     rejections: ctx.rejections.list(s.key),
   });
-  api.get('/sensors', viewer, (c) => c.json({ sensors: listSensors(ctx.storage).map(sensorView) }));
-  api.get('/sensors/:key', viewer, (c) => c.json({ sensor: sensorView(getSensor(ctx.storage, c.req.param('key'))) }));
+  api.get('/sensors', viewer, async (c) => c.json({ sensors: (await listSensors(ctx.storage)).map(sensorView) }));
+  api.get('/sensors/:key', viewer, async (c) => c.json({ sensor: sensorView(await getSensor(ctx.storage, c.req.param('key'))) }));
   api.post('/sensors', editor, async (c) => {
     const input = await jsonBody(c, sensorInputSchema);
-    const site = getSite(ctx.storage);
-    const sensor = createSensor(ctx.storage, site.id, input, actor(c), ctx.now());
-    ctx.registry.reload();
+    const site = await getSite(ctx.storage);
+    const sensor = await createSensor(ctx.storage, site.id, input, actor(c), ctx.now());
+    await ctx.registry.reload();
     return c.json({ sensor: sensorView(sensor) }, 201);
   });
   api.patch('/sensors/:key', editor, async (c) => {
     const patch = await jsonPatchBody(c, sensorUpdateSchema);
-    const sensor = updateSensor(ctx.storage, c.req.param('key'), patch, actor(c), ctx.now());
-    ctx.registry.reload();
+    const sensor = await updateSensor(ctx.storage, c.req.param('key'), patch, actor(c), ctx.now());
+    await ctx.registry.reload();
     return c.json({ sensor: sensorView(sensor) });
   });
-  api.delete('/sensors/:key', editor, (c) => {
-    retireSensor(ctx.storage, c.req.param('key'), actor(c), ctx.now());
-    ctx.registry.reload();
+  api.delete('/sensors/:key', editor, async (c) => {
+    await retireSensor(ctx.storage, c.req.param('key'), actor(c), ctx.now());
+    await ctx.registry.reload();
     return c.json({ retired: true });
   });
   /** Rejected payloads by sensor and reason (sensor key "*" = a topic that named no sensor). */
@@ -105,17 +105,17 @@ export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
    * only, grouped by who and why, bounded. Competent person: usernames and addresses are half of
    * a gateway's credentials.
    */
-  api.get('/refusals', editor, (c) => {
+  api.get('/refusals', editor, async (c) => {
     const book = ctx.rejections.refusals;
-    const broker = (ctx.health().broker ?? {}) as { kind?: string };
+    const broker = ((await ctx.health()).broker ?? {}) as { kind?: string };
     return c.json({ refusals: book.list(), total: book.totalCount, droppedGroups: book.droppedGroups, maxGroups: book.maxGroupCount, sinceMs: book.sinceMs, broker: broker.kind === 'embedded' ? 'embedded' : 'external' });
   });
 
   // ---- the first-start checklist ----
-  api.get('/setup/checklist', editor, (c) => {
-    const broker = (ctx.health().broker ?? {}) as { kind?: string };
-    const checklist = setupChecklist(ctx.storage, {
-      activePeople: ctx.accounts.listPeople().filter((p) => p.disabledAtMs === null).length,
+  api.get('/setup/checklist', editor, async (c) => {
+    const broker = ((await ctx.health()).broker ?? {}) as { kind?: string };
+    const checklist = await setupChecklist(ctx.storage, {
+      activePeople: (await ctx.accounts.listPeople()).filter((p) => p.disabledAtMs === null).length,
       brokerKind: broker.kind === 'embedded' ? 'embedded' : 'external',
       refusedSinceStart: ctx.rejections.refusals.totalCount,
     });
@@ -123,60 +123,62 @@ export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
   });
 
   // ---- gateways (credentials: competent person only, even to read) ----
-  api.get('/gateways', editor, (c) => c.json({ gateways: listGateways(ctx.storage) }));
-  api.get('/gateways/:id', editor, (c) => c.json({ gateway: getGateway(ctx.storage, idParam(c)) }));
+  api.get('/gateways', editor, async (c) => c.json({ gateways: await listGateways(ctx.storage) }));
+  api.get('/gateways/:id', editor, async (c) => c.json({ gateway: await getGateway(ctx.storage, idParam(c)) }));
   api.post('/gateways', editor, async (c) => {
     const input = await jsonBody(c, gatewayInputSchema);
-    const site = getSite(ctx.storage);
+    const site = await getSite(ctx.storage);
     const { gateway, password } = await createGateway(ctx.storage, site.id, input, actor(c), ctx.now());
-    ctx.registry.reload();
+    await ctx.registry.reload();
     return c.json({ gateway, password, note: 'The password is shown once. Store it in the gateway now.' }, 201);
   });
   api.patch('/gateways/:id', editor, async (c) => {
     const patch = await jsonPatchBody(c, gatewayUpdateSchema);
     const { gateway, password } = await updateGateway(ctx.storage, idParam(c), patch, actor(c), ctx.now());
-    ctx.registry.reload();
+    await ctx.registry.reload();
     return c.json(password ? { gateway, password, note: 'The new password is shown once.' } : { gateway });
   });
-  api.delete('/gateways/:id', editor, (c) => {
-    const gateway = revokeGateway(ctx.storage, idParam(c), actor(c), ctx.now());
-    ctx.registry.reload();
+  api.delete('/gateways/:id', editor, async (c) => {
+    const gateway = await revokeGateway(ctx.storage, idParam(c), actor(c), ctx.now());
+    await ctx.registry.reload();
     return c.json({ gateway });
   });
 
   // ---- structures ----
   const withLive = (view: ReturnType<typeof structureView>) => ({ ...view, live: ctx.watch.structureStateById(view.id) });
-  api.get('/structures', viewer, (c) => c.json({ structures: listStructures(ctx.storage).map(withLive) }));
-  api.get('/structures/:id', viewer, (c) => c.json({ structure: withLive(structureView(getStructureRow(ctx.storage, idParam(c)))) }));
+  api.get('/structures', viewer, async (c) => c.json({ structures: (await listStructures(ctx.storage)).map(withLive) }));
+  api.get('/structures/:id', viewer, async (c) => c.json({ structure: withLive(structureView(await getStructureRow(ctx.storage, idParam(c)))) }));
   api.post('/structures', editor, async (c) => {
     const input = await structureBody(c, structureInputSchema);
-    const site = getSite(ctx.storage);
-    const view = createStructure(ctx.storage, site.id, input, actor(c), ctx.now());
-    ctx.reloadRegister();
+    const site = await getSite(ctx.storage);
+    const view = await createStructure(ctx.storage, site.id, input, actor(c), ctx.now());
+    await ctx.reloadRegister();
     return c.json({ structure: withLive(view) }, 201);
   });
   api.patch('/structures/:id', editor, async (c) => {
     const id = idParam(c);
     const patch = (await structureBody(c, structureUpdateSchema, true)) as Partial<z.infer<typeof structureUpdateSchema>>;
-    const view = updateStructure(ctx.storage, id, patch, actor(c), ctx.now());
-    ctx.reloadRegister();
+    const view = await updateStructure(ctx.storage, id, patch, actor(c), ctx.now());
+    await ctx.reloadRegister();
     return c.json({ structure: withLive(view) });
   });
-  api.delete('/structures/:id', editor, (c) => {
-    retireStructure(ctx.storage, idParam(c), actor(c), ctx.now());
-    ctx.reloadRegister();
+  api.delete('/structures/:id', editor, async (c) => {
+    await retireStructure(ctx.storage, idParam(c), actor(c), ctx.now());
+    await ctx.reloadRegister();
     return c.json({ retired: true });
   });
 
   // ---- the whole register ----
-  api.get('/register', viewer, (c) => {
+  api.get('/register', viewer, async (c) => {
+    const file = await exportRegister(ctx.storage, ctx.now());
     c.header('Content-Disposition', 'attachment; filename="register.json"');
-    return c.json(exportRegister(ctx.storage, ctx.now()));
+    return c.json(file);
   });
-  api.get('/register.csv', viewer, (c) => {
+  api.get('/register.csv', viewer, async (c) => {
+    const file = await exportRegister(ctx.storage, ctx.now());
     c.header('Content-Type', 'text/csv; charset=utf-8');
     c.header('Content-Disposition', 'attachment; filename="register.csv"');
-    return c.body(registerCsv(exportRegister(ctx.storage, ctx.now())));
+    return c.body(registerCsv(file));
   });
   api.post('/register/import', editor, async (c) => {
     const type = (c.req.header('content-type') ?? '').toLowerCase();
@@ -190,9 +192,9 @@ export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
       mode = body.mode;
       register = check(registerSchema, body.register, 'register');
     }
-    const summary = importRegister(ctx.storage, register, mode, actor(c), ctx.now());
-    ctx.registry.reload();
-    ctx.reloadRegister();
+    const summary = await importRegister(ctx.storage, register, mode, actor(c), ctx.now());
+    await ctx.registry.reload();
+    await ctx.reloadRegister();
     return c.json({ imported: summary });
   });
 

@@ -45,11 +45,11 @@ export interface PushPayload {
 
 export interface PushChannelHooks {
   /** The subscription a target ('push:<id>') names, as stored now; null when it was removed. */
-  subscription(target: string): PushSubscriptionKeys | null;
+  subscription(target: string): Promise<PushSubscriptionKeys | null>;
   /** The push service said the subscription is gone (404/410): remove it. */
-  gone(subscriptionId: number, result: string): void;
+  gone(subscriptionId: number, result: string): Promise<void>;
   /** The push service took a message for it. */
-  delivered(subscriptionId: number, atMs: number): void;
+  delivered(subscriptionId: number, atMs: number): Promise<void>;
 }
 
 export class PushChannel implements Channel {
@@ -63,7 +63,7 @@ export class PushChannel implements Channel {
   ) {}
 
   async send(delivery: OutgoingDelivery, signal: AbortSignal): Promise<AttemptResult> {
-    const sub = this.hooks.subscription(delivery.target);
+    const sub = await this.hooks.subscription(delivery.target);
     if (sub === null) return { ok: false, result: 'the push subscription was removed (unsubscribed on the device, or expired)', permanent: true };
     const payload = delivery.payload as PushPayload;
     let details: ReturnType<typeof webpush.generateRequestDetails>;
@@ -83,11 +83,11 @@ export class PushChannel implements Channel {
       const text = (await res.text().catch(() => '')).replace(/\s+/g, ' ').trim().slice(0, 120);
       const result = `HTTP ${res.status}${text ? ` ${text}` : ''}`;
       if (res.status >= 200 && res.status < 300) {
-        this.hooks.delivered(sub.id, this.now());
+        await this.hooks.delivered(sub.id, this.now());
         return { ok: true, result };
       }
       if (res.status === 404 || res.status === 410) {
-        this.hooks.gone(sub.id, result);
+        await this.hooks.gone(sub.id, result);
         return { ok: false, result: `${result}: the subscription has expired or was unsubscribed; removed`, permanent: true };
       }
       if (res.status === 401 || res.status === 403) return { ok: false, result: `${result}: the push service refused our VAPID key (the device subscribed with another key: subscribe again)`, permanent: true };

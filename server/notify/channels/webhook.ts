@@ -21,13 +21,13 @@ export class WebhookChannel implements Channel {
 
   constructor(
     /** The webhook a target names, as it is now (a changed address or secret applies to retries); null when removed. */
-    private readonly endpoint: (target: string) => WebhookEndpoint | null,
+    private readonly endpoint: (target: string) => Promise<WebhookEndpoint | null>,
     private readonly now: () => number = Date.now,
     readonly timeoutMs = 10_000,
   ) {}
 
   async send(delivery: OutgoingDelivery, signal: AbortSignal): Promise<AttemptResult> {
-    const endpoint = this.endpoint(delivery.target);
+    const endpoint = await this.endpoint(delivery.target);
     if (endpoint === null) return { ok: false, result: 'the webhook was removed or switched off', permanent: true };
     const { body } = delivery.payload as WebhookPayload;
     const { timestamp, signature } = webhookSignature(endpoint.secret, body, this.now());
