@@ -204,7 +204,9 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
       tickRunning = false;
     }
   };
-  const tickTimer = setInterval(() => void tickNow(), options.tickMs ?? 1_000);
+  // A tick that throws is a defect: logged loudly, and the next tick runs as usual (an unhandled
+  // rejection would end the process and every alert with it).
+  const tickTimer = setInterval(() => void tickNow().catch((err: unknown) => log.error({ err }, 'the 1 Hz watch tick failed; it runs again in a second')), options.tickMs ?? 1_000);
 
   let retentionRunning = false;
   let closing = false;

@@ -155,7 +155,10 @@ export class Watch implements ReadingConsumer {
   private maxClampedSensorKey: string | null = null;
   private maxUnclampedSensorKey: string | null = null;
   private readonly startedAtMs: number;
-  private readonly now: () => number;
+  private readonly wallClock: () => number;
+  /** The watch's last time and the monotonic clock then (see `now`). */
+  private lastNowMs = -Infinity;
+  private lastMonotonicMs = 0;
   /** Structures whose shown state moved and is not yet in a `structures` frame: id → since when. */
   private readonly dirtyStructures = new Map<number, number>();
   /** Sensors whose frame row changed and is not yet sent: key → since when. */
@@ -166,12 +169,26 @@ export class Watch implements ReadingConsumer {
   private lastForesightAtMs = -Infinity;
   /** Structures whose foresight changed and is not yet in a `foresight` frame: id → since when. */
   private readonly foresightWaiting = new Map<number, number>();
-  /** Alert ids are given here (the alerts table never gets rows from anywhere else). */
   private params!: LevelStepParams;
 
   constructor(private readonly options: WatchOptions) {
-    this.now = options.now ?? Date.now;
+    this.wallClock = options.now ?? Date.now;
     this.startedAtMs = this.now();
+  }
+
+  /**
+   * The watch's time, ms since the epoch: the wall clock (or `wallMs`, a reading's arrival), but
+   * never before a time the watch has used. A clock stepped back (by NTP, or by hand on a site
+   * laptop) would otherwise make the level machine refuse the step, and every reading and tick
+   * after it fail; while the wall clock is behind, the watch's time goes on with the monotonic
+   * clock, so silence and hold timers keep running.
+   */
+  private now(wallMs: number = this.wallClock()): number {
+    const monotonicMs = performance.now();
+    const nowMs = wallMs >= this.lastNowMs ? wallMs : this.lastNowMs + Math.max(0, monotonicMs - this.lastMonotonicMs);
+    this.lastNowMs = nowMs;
+    this.lastMonotonicMs = monotonicMs;
+    return nowMs;
   }
 
   // ---------- configuration ----------
@@ -351,7 +368,8 @@ export class Watch implements ReadingConsumer {
 
   // ---------- the per-reading path ----------
 
-  take(sensor: RegisteredSensor, readings: readonly Reading[], receivedAtMs: number): { batch: WriteBatch; afterCommit: (() => void) | null } {
+  take(sensor: RegisteredSensor, readings: readonly Reading[], arrivedAtMs: number): { batch: WriteBatch; afterCommit: (() => void) | null } {
+    const receivedAtMs = this.now(arrivedAtMs);
     const batch = emptyWriteBatch();
     const live = this.sensors.get(sensor.id);
     let anyLive = false;
@@ -971,7 +989,8 @@ export class Watch implements ReadingConsumer {
    * The level is re-evaluated with the new configuration's ladder under the usual dead band and
    * hold time: a lowered screen does not clear Prepare at once.
    */
-  switchConfiguration(input: { structureId: number; name: string; by: string; actor: string; note: string | null; alertId: number | null; atMs: number }): ConfigurationSwitch {
+  switchConfiguration(request: { structureId: number; name: string; by: string; actor: string; note: string | null; alertId: number | null; atMs: number }): ConfigurationSwitch {
+    const input = { ...request, atMs: this.now(request.atMs) };
     const s = this.structures.get(input.structureId);
     if (!s) return { ok: false, status: 404, message: `structure ${input.structureId} is not on the register` };
     if (s.error !== null) return { ok: false, status: 409, message: `structure ${input.structureId} cannot be assessed (${s.error})` };

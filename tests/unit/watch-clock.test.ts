@@ -148,3 +148,48 @@ describe('a gateway whose clock lags (issue 13 item 2)', () => {
     expect(raised.filter((a) => a.kind === 'sensor-clock')).toHaveLength(1);
   });
 });
+
+describe('the server clock stepped back (NTP, or set by hand on a site laptop)', () => {
+  it('the watch keeps going: readings still raise the level, and a sensor that stops is still called silent on time', () => {
+    // The wall clock is this test's `now`; the monotonic clock (performance.now) runs on with real time.
+    let now = t0;
+    let monotonicMs = 1_000_000;
+    const realNow = performance.now;
+    performance.now = () => monotonicMs;
+    try {
+      const watch = new Watch({ hub: new LiveHub(100), now: () => now });
+      const s = sensor(30_000);
+      watch.configure(site, [s], [board]);
+      const limit = watch.structureStateById(7)!.limitGustMps;
+      const ladder = watch.structureStateById(7)!.triggerGustsMps;
+      const raised: AlertRow[] = [];
+      const levels: number[] = [];
+      let gatewayMs = t0;
+      const second = (gustMps: number | null) => {
+        now += 1_000;
+        monotonicMs += 1_000;
+        gatewayMs += 1_000;
+        if (gustMps !== null) {
+          const step = watch.take(s, [summary(gatewayMs, gustMps)], now);
+          raised.push(...step.batch.alerts);
+          levels.push(...step.batch.levelChanges.filter((c) => !c.noData).map((c) => c.toLevel));
+        }
+        const tick = watch.tick();
+        raised.push(...(tick?.batch.alerts ?? []));
+        levels.push(...(tick?.batch.levelChanges ?? []).filter((c) => !c.noData).map((c) => c.toLevel));
+      };
+      for (let i = 0; i < 120; i++) second(0.3 * limit);
+      expect(watch.structureStateById(7)!.level).toBe(0);
+      // The wall clock steps back an hour; the gateway's clock does not.
+      now -= 3_600_000;
+      for (let i = 0; i < 10; i++) second((ladder[0]! + ladder[1]!) / 2);
+      expect(levels.filter((l) => l > 0)).toEqual([1]);
+      expect(raised.filter((a) => a.kind === 'level').map((a) => a.level)).toEqual([1]);
+      // The sensor stops: silent after its 30 s, though the wall clock is still an hour behind.
+      for (let i = 0; i < 45; i++) second(null);
+      expect(raised.filter((a) => a.kind === 'sensor-silent')).toHaveLength(1);
+    } finally {
+      performance.now = realNow;
+    }
+  });
+});
