@@ -65,6 +65,11 @@ function nameKey(name: string): string {
   return name.trim().normalize('NFC').toLowerCase();
 }
 
+/** True when two configuration names name the same configuration (trimmed, ignoring case and Unicode composition): the one rule for the register, the levels and the live watch. */
+export function sameConfigurationName(a: string, b: string): boolean {
+  return nameKey(a) === nameKey(b);
+}
+
 /** The name of the record's configuration as registered: `configurationName`, else "as registered". */
 export function registeredConfigurationName(record: Pick<StructureRecord, 'configurationName'>): string {
   return record.configurationName ?? defaultRegisteredConfigurationName;

@@ -165,6 +165,7 @@ export {
   maxConfigurations,
   recordConfigurations,
   registeredConfigurationName,
+  sameConfigurationName,
   unchangeableFields,
   type Configuration,
   type ConfigurationAssessment,

@@ -5,7 +5,7 @@
  * Every change is written to the audit trail in the same transaction.
  */
 import { z } from 'zod';
-import { maxLabelLength, recordConfigurations, validateStructureRecord, type StructureRecord } from '../engine/index.ts';
+import { maxLabelLength, recordConfigurations, sameConfigurationName, validateStructureRecord, type StructureRecord } from '../engine/index.ts';
 import type { PathIssue as FieldIssue } from '../engine/issueWords.ts';
 import { Conflict, Invalid, NotFound } from '../domainErrors.ts';
 import { levelListSchema, type LevelDefinition } from '../levels/index.ts';
@@ -96,7 +96,7 @@ export async function checkStructure(storage: Storage, input: StructureInput): P
     // A level's action may move the structure only to a configuration it has.
     (input.levels ?? []).forEach((level, i) => {
       if (level.moveToConfiguration === undefined) return;
-      if (!configured.some((c) => c.name.trim().toLowerCase() === level.moveToConfiguration!.trim().toLowerCase())) {
+      if (!configured.some((c) => sameConfigurationName(c.name, level.moveToConfiguration!))) {
         issues.push({ path: `levels.${i}.moveToConfiguration`, message: `"${level.moveToConfiguration}" is not a configuration of this structure (it has ${configured.map((c) => `"${c.name}"`).join(', ')}); add it under configurations first` });
       }
     });

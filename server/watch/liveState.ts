@@ -4,7 +4,7 @@
  * level restored after a restart, a record that cannot be assessed. Nothing here is shown as it is:
  * watchState.ts holds what screens see.
  */
-import { isaSeaLevelDensityKgM3, recordConfigurations, type StructureRecord } from '../engine/index.ts';
+import { defaultRegisteredConfigurationName, isaSeaLevelDensityKgM3, recordConfigurations, type StructureRecord } from '../engine/index.ts';
 import type { WindStatistics } from '../foresight/index.ts';
 import type { RegisteredSensor } from '../ingest/registry.ts';
 import { initialLevelState, type LevelDefinition, type LevelState } from '../levels/index.ts';
@@ -115,11 +115,6 @@ export function restoredLevel(restored: { level: number; sinceMs: number } | und
   return { ...initial, level: restored.level, sinceMs: restored.sinceMs };
 }
 
-/** Configuration names are compared trimmed and ignoring case (engine/configuration.ts). */
-export function sameConfigurationName(a: string, b: string): boolean {
-  return a.trim().normalize('NFC').toLowerCase() === b.trim().normalize('NFC').toLowerCase();
-}
-
 /** The index of the configuration with the lowest effective limit at this density (the first on a tie). */
 export function weakestConfiguration(models: readonly StructureModel[], airDensityKgM3: number): number {
   let weakest = 0;
@@ -159,7 +154,7 @@ export function brokenStructure(row: StructureRow, err: unknown, nowMs: number, 
       warnings: [],
     },
     configurations: [],
-    configurationNames: ['as registered'],
+    configurationNames: [defaultRegisteredConfigurationName],
     configurationIndex: 0,
     configurationSinceMs: null,
     configurationBy: null,

@@ -34,6 +34,8 @@
 import {
   beaufortForce,
   caseAtGust,
+  defaultRegisteredConfigurationName,
+  sameConfigurationName,
   governingWords,
   exposureFactor,
   highestTravelSpeedMps,
@@ -112,7 +114,7 @@ export const defaultDirectionSectorHalfWidthDeg = 45;
 export type { OpenAlert } from '../levels/alertBook.ts';
 export type { SensorState, StructureState, StructureUpdate, SystemStatus } from './watchState.ts';
 import type { SensorState, StructureState, StructureUpdate, SystemStatus } from './watchState.ts';
-import { brokenStructure, clampedTriggerWarnings, configurationModels, restoredLevel, sameConfigurationName, weakestConfiguration, type ProfileRoots, type SensorLive, type StructureLive } from './liveState.ts';
+import { brokenStructure, clampedTriggerWarnings, configurationModels, restoredLevel, weakestConfiguration, type ProfileRoots, type SensorLive, type StructureLive } from './liveState.ts';
 
 export interface WatchOptions {
   hub: LiveHub;
@@ -1108,7 +1110,7 @@ export class Watch implements ReadingConsumer {
           : null,
       // Only while the gust is known: an estimate never stands in for missing data.
       foresight: s.level.noData || s.error !== null ? null : s.foresight,
-      configuration: s.configurationNames[s.configurationIndex] ?? 'as registered',
+      configuration: s.configurationNames[s.configurationIndex] ?? defaultRegisteredConfigurationName,
       configurationSinceMs: s.configurationSinceMs,
       configurationBy: s.configurationBy,
       configurations: s.configurations.map((model, i) => {

@@ -110,6 +110,28 @@ describe('the register keeps a record’s configurations', () => {
   });
 });
 
+describe('a level names a configuration as the watch does', () => {
+  it('by the same rule: trimmed, ignoring case and Unicode composition (an accented name typed on another phone)', async () => {
+    // "abaissé" written with a combining accent (NFD), as some keyboards send it; the configuration is named in NFC.
+    const composed = 'Abaissé';
+    const decomposed = ' abaisse\u0301 ';
+    expect(decomposed.trim()).not.toBe(composed.toLowerCase());
+    const record = { ...screenRecord, name: 'Side screen', configurations: [{ name: composed, changes: { bottomHeightM: 0.5 } }] };
+    const levels = [
+      { label: 'Prepare', trigger: { kind: 'utilization', fraction: 0.6 }, actionText: 'Lower the side screen.', moveToConfiguration: decomposed },
+      { label: 'Clear', trigger: { kind: 'utilization', fraction: 1 }, actionText: 'Clear the area.' },
+    ];
+    // Its own server: the register files below compare the source server's structures.
+    const own = await startTestServer();
+    try {
+      const created = await ok((await signedIn(own)).json('POST', '/api/structures', { record, location: 'Harrowgate Meadow', levels }), 201);
+      expect(created.structure.levels[0].moveToConfiguration).toBe(decomposed.trim());
+    } finally {
+      await own.stop();
+    }
+  });
+});
+
 describe('register files carry configurations', () => {
   it('JSON: export → import into a fresh server → the same records, configurations included, and each import is audited with its record', async () => {
     const exported = await ok(cp.json('GET', '/api/register'));
