@@ -165,9 +165,28 @@ export interface GustHeightTransfer {
 export function gustHeightFactor({ fromHeightM, toHeightM, terrainCategory, allowReduction }: GustHeightTransfer): number {
   assertHeight('gustHeightFactor', 'fromHeightM', fromHeightM);
   assertHeight('gustHeightFactor', 'toHeightM', toHeightM);
-  const clamped = Math.sqrt(exposureFactor(toHeightM, terrainCategory) / exposureFactor(fromHeightM, terrainCategory));
-  const unclamped = Math.sqrt(unclampedExposureFactor(toHeightM, terrainCategory) / unclampedExposureFactor(fromHeightM, terrainCategory));
-  const ratio = Math.max(clamped, unclamped);
+  return heightFactorBetween(profileRoots(fromHeightM, terrainCategory), profileRoots(toHeightM, terrainCategory), allowReduction);
+}
+
+/** √c_e(z) at one height, clamped at z_min (§4.3.2) and unclamped: the two halves of a height transfer. */
+export interface ProfileRoots {
+  clamped: number;
+  unclamped: number;
+}
+
+/**
+ * The height's part of `gustHeightFactor`: √c_e(z) clamped and unclamped. The factor from one
+ * height to another is their ratio (`heightFactorBetween`), so a caller that transfers between
+ * many heights (the live watch: every sensor to every structure) keeps one per height.
+ */
+export function profileRoots(heightM: number, terrainCategory: TerrainCategory): ProfileRoots {
+  assertHeight('profileRoots', 'heightM', heightM);
+  return { clamped: Math.sqrt(exposureFactor(heightM, terrainCategory)), unclamped: Math.sqrt(unclampedExposureFactor(heightM, terrainCategory)) };
+}
+
+/** `gustHeightFactor` from the profile roots of the two heights: max of the clamped and unclamped ratios, and at least 1 unless `allowReduction`. */
+export function heightFactorBetween(from: ProfileRoots, to: ProfileRoots, allowReduction: boolean): number {
+  const ratio = Math.max(to.clamped / from.clamped, to.unclamped / from.unclamped);
   return allowReduction ? ratio : Math.max(1, ratio);
 }
 

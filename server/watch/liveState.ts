@@ -4,7 +4,7 @@
  * level restored after a restart, a record that cannot be assessed. Nothing here is shown as it is:
  * watchState.ts holds what screens see.
  */
-import { defaultRegisteredConfigurationName, isaSeaLevelDensityKgM3, recordConfigurations, type StructureRecord } from '../engine/index.ts';
+import { defaultRegisteredConfigurationName, isaSeaLevelDensityKgM3, recordConfigurations, type ProfileRoots, type StructureRecord } from '../engine/index.ts';
 import type { WindStatistics } from '../foresight/index.ts';
 import type { RegisteredSensor } from '../ingest/registry.ts';
 import { initialLevelState, type LevelDefinition, type LevelState } from '../levels/index.ts';
@@ -13,11 +13,6 @@ import type { StructureForesight } from './structureForesight.ts';
 import { densityDependent, structureModel, type DensityDependent, type StructureModel, type StructureRow } from './structureModel.ts';
 
 /** √c_e at a height, with and without the z_min clamp (EN 1991-1-4 §4.3.2; design §2.2 v2). */
-export interface ProfileRoots {
-  clamped: number;
-  unclamped: number;
-}
-
 export interface SensorLive {
   sensor: RegisteredSensor;
   wind: SensorWindState;

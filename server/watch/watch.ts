@@ -35,13 +35,14 @@ import {
   beaufortForce,
   caseAtGust,
   defaultRegisteredConfigurationName,
+  heightFactorBetween,
+  profileRoots,
   sameConfigurationName,
+  type ProfileRoots,
   governingWords,
-  exposureFactor,
   highestTravelSpeedMps,
   isaSeaLevelDensityKgM3,
   siteAirDensity,
-  unclampedExposureFactor,
   utilizationAtGust,
   type AssessedDirections,
   type CaseAtGust,
@@ -114,7 +115,7 @@ export const defaultDirectionSectorHalfWidthDeg = 45;
 export type { OpenAlert } from '../levels/alertBook.ts';
 export type { SensorState, StructureState, StructureUpdate, SystemStatus } from './watchState.ts';
 import type { SensorState, StructureState, StructureUpdate, SystemStatus } from './watchState.ts';
-import { brokenStructure, clampedTriggerWarnings, configurationModels, restoredLevel, weakestConfiguration, type ProfileRoots, type SensorLive, type StructureLive } from './liveState.ts';
+import { brokenStructure, clampedTriggerWarnings, configurationModels, restoredLevel, weakestConfiguration, type SensorLive, type StructureLive } from './liveState.ts';
 
 export interface WatchOptions {
   hub: LiveHub;
@@ -339,14 +340,13 @@ export class Watch implements ReadingConsumer {
    * a mast below z_min is never credited with the wind at z_min (design §2.2 v2).
    */
   private profileRoots(heightM: number): ProfileRoots {
-    const z = Math.max(0.1, Math.min(heightM, maxDimensionM));
-    return { clamped: Math.sqrt(exposureFactor(z, this.site.terrainCategory)), unclamped: Math.sqrt(unclampedExposureFactor(z, this.site.terrainCategory)) };
+    // Registered heights are within the profile's range; a stored one outside it is taken at its bound.
+    return profileRoots(Math.max(0, Math.min(heightM, maxDimensionM)), this.site.terrainCategory);
   }
 
-  /** The height factor from a sensor to a structure (as `gustHeightFactor`), with the site's reduction rule. */
+  /** The height factor from a sensor to a structure (engine `gustHeightFactor`), with the site's reduction rule. */
   private heightFactor(sensor: SensorLive, structure: StructureLive): number {
-    const ratio = Math.max(structure.profile.clamped / sensor.profile.clamped, structure.profile.unclamped / sensor.profile.unclamped);
-    return this.site.heightReductionEnabled ? ratio : Math.max(1, ratio);
+    return heightFactorBetween(sensor.profile, structure.profile, this.site.heightReductionEnabled);
   }
 
   private updateAirDensity(): boolean {
