@@ -1,5 +1,5 @@
 /**
- * The alert book (design §2.4): every alert of a site from its raise to its end, in one place.
+ * The alert book (design §2.6): every alert of a site from its raise to its end, in one place.
  * Pure: no I/O and no clock (times come in as ms since the Unix epoch). Each change returns the
  * domain events it caused, in order; the live watch turns them into rows for the store
  * (storage/alertRows.ts) and, only after the commit, into announcements on the live stream and the
@@ -16,7 +16,6 @@
  *   until it is both cleared and acknowledged, so an alert nobody saw is never lost from a screen.
  */
 
-import { listedAlerts } from '../live/liveEvents.ts';
 
 /**
  * - 'level': a structure reached a higher level.
@@ -74,6 +73,11 @@ export type AlertEvent =
   | { type: 'alert-acknowledged'; alert: OpenAlert; atMs: number; by: string; note: string | null; actor: string }
   | { type: 'action-done'; alert: OpenAlert; atMs: number; by: string }
   | { type: 'alert-cleared'; alert: OpenAlert; atMs: number };
+
+/** The alerts a screen lists: not yet acknowledged, or not yet ended; newest first. */
+export function listedAlerts<A extends Pick<OpenAlert, 'acknowledgedAtMs' | 'clearedAtMs' | 'raisedAtMs'>>(alerts: readonly A[]): A[] {
+  return alerts.filter((a) => a.acknowledgedAtMs === null || a.clearedAtMs === null).sort((a, b) => b.raisedAtMs - a.raisedAtMs);
+}
 
 export class AlertBook {
   private readonly alerts = new Map<number, OpenAlert>();

@@ -1,5 +1,5 @@
 /**
- * What every alert says (design §2.4): its label, the line a crew reads first, and the action. One
+ * What every alert says (design §2.6): its label, the line a crew reads first, and the action. One
  * wording for the live watch, the log, e-mail, push and webhooks (they all carry these texts). The
  * level alerts carry the competent person's own action text; the texts below are ours.
  */

@@ -3,7 +3,7 @@
  *
  * Without uplift every load (force, overturning moment) goes with q = ½ρv² while the resistance
  * is fixed, so utilization goes with v² and U = fraction at v = v_limit · √fraction (design §2.3,
- * §2.4). Since v2 factors uplift with the wind and takes self-weight alone as resistance, this
+ * §2.6). Since v2 factors uplift with the wind and takes self-weight alone as resistance, this
  * holds with uplift too.
  */
 import { maxTriggerFraction } from './levelDefinition.ts';

@@ -1,5 +1,5 @@
 /**
- * Levels: the staged alert plan of each structure (design §2.4), its level machine with gust,
+ * Levels: the staged alert plan of each structure (design §2.6), its level machine with gust,
  * utilization and chance triggers, and the alert book with its words (the forecast check is in
  * foresight/, design §5 v2).
  * Pure: no I/O, no clock; times come in as ms since the Unix epoch, speeds in m/s.

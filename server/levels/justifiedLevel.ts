@@ -2,7 +2,7 @@
  * The level a gust reaches on a ladder of trigger gusts, and the check that a ladder is usable.
  *
  * A ladder is the ascending list of trigger gusts (m/s) of levels 1..n for one structure; level 0
- * (calm) has no trigger. A gust *reaches* a level when it is at or above its trigger (design §2.4:
+ * (calm) has no trigger. A gust *reaches* a level when it is at or above its trigger (design §2.6:
  * "escalate when the gust reaches a trigger"), so a gust equal to a trigger counts.
  */
 import { checkLevelOrder } from './levelOrder.ts';

@@ -1,5 +1,5 @@
 /**
- * Level definitions: the staged plan a competent person writes for a structure (design §2.4).
+ * Level definitions: the staged plan a competent person writes for a structure (design §2.6).
  *
  * Level 0 is calm (below every trigger) and is not written down; levels 1..n are, in order.
  * A trigger is either a fraction of the structure's load capacity (a governing utilization) or

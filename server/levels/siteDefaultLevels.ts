@@ -1,5 +1,5 @@
 /**
- * The levels a new site starts with (design §2.4); the competent person edits them per site and
+ * The levels a new site starts with (design §2.6); the competent person edits them per site and
  * may override them per structure.
  *
  * Triggers: 60 % and 80 % of the structure's maximum wind load capacity follow published event

@@ -1,7 +1,7 @@
 /**
- * The level state machine of one structure (design §2.4). Pure: time comes in with each input.
+ * The level state machine of one structure (design §2.6). Pure: time comes in with each input.
  *
- * Rules (design §2.4 is our own model; the numbers are defaults the competent person may change):
+ * Rules (design §2.6 is our own model; the numbers are defaults the competent person may change):
  * - Escalate at once when the governing gust reaches (≥) a higher level's trigger gust, possibly
  *   several levels at a time; one 'escalated' event names the new level.
  * - De-escalate only after the gust has stayed below the current level's trigger × (1 − dead band)
@@ -93,7 +93,7 @@ export interface LevelStep {
   readonly events: readonly LevelEvent[];
 }
 
-/** Design §2.4 defaults: a 10 % dead band and a 15-minute hold (our model, set per site). */
+/** Design §2.6 defaults: a 10 % dead band and a 15-minute hold (our model, set per site). */
 export const defaultLevelStepParams: LevelStepParams = Object.freeze({
   deadBandFraction: 0.1,
   holdTimeMs: 15 * 60 * 1000,

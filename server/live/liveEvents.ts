@@ -51,7 +51,5 @@ export function byUrgency(a: Pick<StructureState, 'noData' | 'level' | 'margin'>
   return (a.margin ?? -Infinity) - (b.margin ?? -Infinity);
 }
 
-/** The alerts a screen lists: not yet acknowledged, or not yet ended; newest first. */
-export function listedAlerts<A extends Pick<OpenAlert, 'acknowledgedAtMs' | 'clearedAtMs' | 'raisedAtMs'>>(alerts: readonly A[]): A[] {
-  return alerts.filter((a) => a.acknowledgedAtMs === null || a.clearedAtMs === null).sort((a, b) => b.raisedAtMs - a.raisedAtMs);
-}
+/** Which alerts a screen lists: the alert book's rule (levels/alertBook.ts), here for the web app. */
+export { listedAlerts } from '../levels/alertBook.ts';

@@ -131,7 +131,7 @@ export function structureForesight(input: ForesightInput): StructureForesight {
   };
 }
 
-/** How long a refresh of the figures is trusted by the level machine: older, a chance is unknown (our own choice: six refreshes at 5 s, the silence timeout of a sensor, design §2.4). */
+/** How long a refresh of the figures is trusted by the level machine: older, a chance is unknown (our own choice: six refreshes at 5 s, the silence timeout of a sensor, design §2.6). */
 export const foresightTrustedForMs = 30_000;
 
 /**

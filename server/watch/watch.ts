@@ -1,6 +1,6 @@
 /**
  * The live watch: per-sensor wind, per-structure load margin and level, and the open alerts,
- * held in memory and fed by every accepted reading (design.md 2.2–2.4, data flow of 5).
+ * held in memory and fed by every accepted reading (design.md 2.2–2.7, data flow of 5).
  *
  * Per reading: the sensor's wind state takes it (3-s gust, 10-min mean); if it is live (not a
  * late reading from a buffered batch) the structures it governs are re-evaluated in the same

@@ -1,6 +1,6 @@
 /**
  * Plausibility of a sensor's readings: the closed list of reasons a sensor's data is suspect, and
- * the limits behind them. A suspect sensor raises a sensor alert (design.md §2.4); its readings
+ * the limits behind them. A suspect sensor raises a sensor alert (design.md §2.6); its readings
  * still count for the gust, because a real extreme must never be thrown away as an error
  * (decision support, conservative).
  */

@@ -1,6 +1,6 @@
 /**
  * Staleness: a sensor is silent when nothing usable has arrived for longer than its silence
- * timeout (default 30 s, design.md §2.4). A silent sensor raises a sensor alert, and its current
+ * timeout (default 30 s, design.md §2.6). A silent sensor raises a sensor alert, and its current
  * gust is unknown, never "calm".
  */
 import type { SensorWindState } from './sensorWindState.ts';

@@ -34,7 +34,7 @@ export const meanWindowMs = 600_000;
  */
 export const sampleSpanCapMs = gustWindowMs;
 
-/** Default silence timeout: 30 s (design.md §2.4). */
+/** Default silence timeout: 30 s (design.md §2.6). */
 export const defaultSilenceTimeoutMs = 30_000;
 
 /**

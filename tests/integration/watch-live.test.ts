@@ -2,7 +2,7 @@
  * End to end through a real broker: a gust published over MQTT moves a structure to the right
  * level, the level change and its alert appear on the live stream, the alert can be
  * acknowledged, and the log shows it all; a silent sensor leaves the structure with "no data".
- * Model: design.md 2.2–2.4. The clock is the test's, so silence can be simulated.
+ * Model: design.md 2.2–2.6. The clock is the test's, so silence can be simulated.
  */
 import mqtt, { type MqttClient } from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';

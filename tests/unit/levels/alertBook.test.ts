@@ -1,5 +1,5 @@
 /**
- * The alert book and the alert words (design.md §2.4, our own model): a raise is the first signal,
+ * The alert book and the alert words (design.md §2.6, our own model): a raise is the first signal,
  * an unacknowledged alert is signalled again every 2 minutes (our choice, common practice for alarms
  * that need a human answer), an action that moves a structure is signalled once more as overdue,
  * the first acknowledgement is the one kept, and an alert leaves the book only once it is both

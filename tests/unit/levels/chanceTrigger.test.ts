@@ -1,14 +1,14 @@
 /**
  * The chance trigger (design §2.7 v2, issue 17): a level that rises when the estimated chance that
  * the gust at the structure reaches a fraction of its capacity within T minutes is over p, with the
- * dead band and hold time acting on the chance as they act on the gust (design §2.4).
+ * dead band and hold time acting on the chance as they act on the gust (design §2.6).
  *
  * Sources: the chance is Rice's expected up-crossing count N = ν·T·exp(−(x − U)²/(2σ²)),
  * P = 1 − e^(−N) (S. O. Rice, Bell System Technical Journal 23–24, 1944–45; A. G. Davenport,
  * Proc. ICE 28, 1964, for wind), worked by hand below with Math.exp only. The threshold x is the gust
  * at that fraction of the limit, x = v_lim·√f, because every utilization is proportional to the
  * dynamic pressure ½ρv² (EN 1991-1-4 §5.3, F = c_f·q·A). "Over 20 %" is read strictly, the hold and
- * dead band are our own model (design §2.4, common practice for staged wind plans).
+ * dead band are our own model (design §2.6, common practice for staged wind plans).
  */
 import { describe, expect, it } from 'vitest';
 import { initialLevelState, levelListSchema, stepLevel, type LevelChance, type LevelState, type LevelStepParams } from '../../../server/levels/index.ts';
@@ -97,7 +97,7 @@ describe('chance trigger: order against the structure', () => {
   it('a plan the checks accept gives a ladder the level machine takes, even with triggers under the 0.01 m/s floor', () => {
     // Review case: gust triggers 0.004 and 0.008 m/s (the schema takes any gust > 0) and a chance on a
     // fraction of 1e-8 (20·√1e-8 = 0.002 m/s) were both floored to 0.01, a ladder [0.01, 0.01] that
-    // stepLevel refuses (it must rise strictly, design §2.4), so every reading of the structure threw.
+    // stepLevel refuses (it must rise strictly, design §2.6), so every reading of the structure threw.
     const tiny = [
       [{ label: 'A', trigger: { kind: 'gust' as const, gustMps: 0.004 }, actionText: '' }, { label: 'B', trigger: { kind: 'gust' as const, gustMps: 0.008 }, actionText: '' }],
       [{ label: 'A', trigger: { kind: 'chance' as const, fraction: 1e-8, withinMinutes: 30, probability: 0.2 }, actionText: '' }, { label: 'B', trigger: { kind: 'utilization' as const, fraction: 2e-8 }, actionText: '' }],

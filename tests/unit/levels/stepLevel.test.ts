@@ -1,6 +1,6 @@
 /**
  * The rules checked here (escalate at once, dead band, hold time, no data kept, never calm) are
- * our own model from design.md §2.4; the 60 %/80 % triggers follow the Cardiff Council Bute Park
+ * our own model from design.md §2.6; the 60 %/80 % triggers follow the Cardiff Council Bute Park
  * event organisers' guide (2020); the 10 % band and 15-minute hold are design defaults.
  */
 import { describe, expect, it } from 'vitest';
@@ -57,7 +57,7 @@ describe('staged triggers of a 20 m/s limit', () => {
 });
 
 describe('defaults', () => {
-  it('are a 10 % dead band and a 15-minute hold (design.md §2.4)', () => {
+  it('are a 10 % dead band and a 15-minute hold (design.md §2.6)', () => {
     expect(defaultLevelStepParams).toEqual({ deadBandFraction: 0.1, holdTimeMs: 15 * minuteMs });
     expect(levelStepParams()).toEqual(defaultLevelStepParams);
     expect(levelStepParams({ holdTimeMs: 5 * minuteMs })).toEqual({ deadBandFraction: 0.1, holdTimeMs: 5 * minuteMs });
