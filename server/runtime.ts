@@ -146,7 +146,10 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
   const hub = new LiveHub();
   let systemStatus: () => SystemStatus = () => ({ storageOk: true, storageError: null, storageBacklogRows: 0, brokerOk: true, brokerState: 'starting' });
   const watch = new Watch({ hub, now, onNotice: (message, detail) => log.info(detail, message), systemStatus: () => systemStatus() });
-  const reloadRegister = async (): Promise<void> => watch.configure(await siteSettings(storage), registry.sensors(), await activeStructures(storage));
+  // One reload at a time, in the order asked: a slower earlier read must never be applied after a newer one.
+  let reloads: Promise<void> = Promise.resolve();
+  const reloadRegister = (): Promise<void> =>
+    (reloads = reloads.catch(() => undefined).then(async () => watch.configure(await siteSettings(storage), registry.sensors(), await activeStructures(storage))));
   watch.configure(await siteSettings(storage), registry.sensors(), await activeStructures(storage), await initialState(storage));
   registry.onReload(reloadRegister);
 

@@ -25,6 +25,7 @@ export class Registry {
   private sensorsById = new Map<number, RegisteredSensor>();
   private gatewaysByUsername = new Map<string, RegisteredGateway>();
   private listeners: Array<() => void | Promise<void>> = [];
+  private reloading: Promise<void> = Promise.resolve();
 
   /** Empty until `reload` (or made loaded by `Registry.load`). */
   constructor(private readonly storage: Pick<Storage, 'sensors' | 'gateways'>) {}
@@ -37,8 +38,13 @@ export class Registry {
   }
 
   /** Re-reads sensors and gateways, then runs the listeners; call (and await) after every change to them. */
-  async reload(): Promise<void> {
-    // Read in the order they are asked for, applied in the same order: the newest reload wins.
+  reload(): Promise<void> {
+    // One at a time, in the order asked for: a slower earlier read is never applied after a newer one.
+    this.reloading = this.reloading.catch(() => undefined).then(() => this.read());
+    return this.reloading;
+  }
+
+  private async read(): Promise<void> {
     const [sensors, gateways, links] = await Promise.all([this.storage.sensors.active(), this.storage.gateways.active(), this.storage.gateways.links()]);
     this.sensorsByKey = new Map();
     this.sensorsById = new Map();

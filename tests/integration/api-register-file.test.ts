@@ -169,8 +169,15 @@ describe('register export (GET /api/register, /api/register.csv)', () => {
 describe('register round trip', () => {
   it('JSON: export → import into a fresh server → export again gives the same register', async () => {
     const exported = await ok(cp.json('GET', '/api/register'));
+    const registerEvents: number[] = [];
+    const stop = jsonTarget.server.hub.observe((event) => {
+      if (event.kind === 'register') registerEvents.push(event.id);
+    });
     const summary = (await ok(jsonAdmin.json('POST', '/api/register/import', { mode: 'merge', register: exported }))).imported;
+    stop();
     expect(summary).toEqual({ siteUpdated: true, sensorsAdded: 3, sensorsUpdated: 0, sensorsRetired: 0, structuresAdded: 5, structuresUpdated: 0, structuresRetired: 0, gatewaysSkipped: 1 });
+    // One import, one reload of the live board (one `register` event), not one per reload path.
+    expect(registerEvents).toHaveLength(1);
 
     const again = await ok(jsonAdmin.json('GET', '/api/register'));
     // Gateways carry no password in the file, so an import makes none (README, registerFile.ts).

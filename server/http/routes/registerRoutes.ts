@@ -193,8 +193,9 @@ export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
       register = check(registerSchema, body.register, 'register');
     }
     const summary = await importRegister(ctx.storage, register, mode, actor(c), ctx.now());
+    // The registry's reload reloads the watch too (runtime.ts); the site block may have changed the forecast feed.
     await ctx.registry.reload();
-    await ctx.reloadRegister();
+    await ctx.forecastFeed?.settingsChanged();
     return c.json({ imported: summary });
   });
 
