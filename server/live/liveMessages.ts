@@ -1,6 +1,7 @@
 /**
  * What the live watch has to say on the stream once its batch is committed (nothing is announced
- * before its commit): messages typed by the stream's event map (liveEvents.ts). A record's
+ * before its commit, or, while the database cannot write, before its rows are held for the retry:
+ * writeQueue.ts): messages typed by the stream's event map (liveEvents.ts). A record's
  * payload may be given as a function, read only when it is published, so the stream carries the
  * state as it stands after the commit; the once-a-second frames come as their JSON text.
  */
