@@ -7,7 +7,7 @@
  * of the exported figures (0.1 m/s, 0.1 %).
  */
 import { describe, expect, it } from 'vitest';
-import { rounded } from '../../server/http/routes/logRoutes.ts';
+import { rounded } from '../../server/http/routes/logExports.ts';
 import { LocalTimes, zonedDayWindow } from '../../server/http/routes/zonedDay.ts';
 
 /** "YYYY-MM-DD HH:MM:SS" straight from Intl.DateTimeFormat's parts, one formatting per instant. */
