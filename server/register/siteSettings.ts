@@ -19,6 +19,7 @@ import { fixedAirDensityRangeKgM3, maxDimensionM, maxSiteNameLength, maxUrlLengt
 import { terrainCategories } from '../engine/windProfile.ts';
 import { forecastSpeedUnits } from '../foresight/forecastSpeedUnit.ts';
 import { levelListSchema, type LevelDefinition } from '../levels/levelDefinition.ts';
+import { defaultLevelStepParams } from '../levels/stepLevel.ts';
 import type { SiteRow } from '../storage/sites.ts';
 
 export { airDensityModes, forecastSpeedUnits, terrainCategories };
@@ -37,8 +38,8 @@ export const siteSettingDefaults = {
   heightReductionEnabled: false,
   directionalEnabled: false,
   directionSectorHalfWidthDeg: 45,
-  deadBandFraction: 0.1,
-  holdTimeMs: 15 * 60_000,
+  deadBandFraction: defaultLevelStepParams.deadBandFraction,
+  holdTimeMs: defaultLevelStepParams.holdTimeMs,
   actionDueMs: 5 * 60_000,
   forecastFeedUrl: null,
   forecastFeedIntervalMs: 30 * 60_000,

@@ -87,12 +87,10 @@ import {
 } from './liveFrames.ts';
 import { densityDependent, type DensityDependent, type StructureRow } from './structureModel.ts';
 import { maxDimensionM, maxPlausibleSpeedMps } from '../engine/limits.ts';
-import type { WatchSiteSettings } from '../register/siteSettings.ts';
+import { siteSettingDefaults, type WatchSiteSettings } from '../register/siteSettings.ts';
 
 /** A reading older than this at receipt is "late" (from a gateway's buffer): stored, not used live. */
 export const liveReadingMaxAgeMs = 60_000;
-/** A level's action that moves the structure is overdue this long after its alert unless the site sets otherwise (design §2.5; common practice: minutes, not seconds). */
-export const defaultActionDueMs = 5 * 60_000;
 
 /** The outcome of `Watch.switchConfiguration`: what to store and then announce, or why not. */
 export type ConfigurationSwitch =
@@ -108,8 +106,6 @@ const startGraceMs = 30_000;
 /** The site settings the watch takes, derived from the settings' one schema (register/siteSettings.ts). */
 export type SiteSettings = WatchSiteSettings;
 
-/** Default half-width of the directional sector (design §2.2 v2: ±45°). */
-export const defaultDirectionSectorHalfWidthDeg = 45;
 
 /** An alert in the alert book (levels/alertBook.ts). */
 export type { OpenAlert } from '../levels/alertBook.ts';
@@ -463,7 +459,6 @@ export class Watch implements ReadingConsumer {
     return s.gustMps !== null && !sensorSilent(s.wind, nowMs) && s.implausibleAlertId === null && !s.stuck;
   }
 
-  /** The structure's governing gust now: value, sensor and its direction; null when no sensor is live. */
   /** The governing gust at the structure, its sensor, that sensor's mean direction and the gust's own time stamp. */
   private governingGust(s: StructureLive, nowMs: number): { gustMps: number; sensorKey: string; dirDeg: number | null; atMs: number } | null {
     if (s.model.sensorKeys === null && !this.site.directionalEnabled) {
@@ -503,7 +498,7 @@ export class Watch implements ReadingConsumer {
   /** The directions assessed for this structure now: the sector around the mean direction, or all. */
   private sector(s: StructureLive, windFromDeg: number | null): AssessedDirections {
     if (!this.site.directionalEnabled || windFromDeg === null) return null;
-    const halfWidthDeg = this.site.directionSectorHalfWidthDeg ?? defaultDirectionSectorHalfWidthDeg;
+    const halfWidthDeg = this.site.directionSectorHalfWidthDeg ?? siteSettingDefaults.directionSectorHalfWidthDeg;
     if (halfWidthDeg >= 180) return null;
     // Whole degrees: the card, the governing sensor and the level ladder all use this same sector.
     return { centreDeg: Math.round(windFromDeg - s.model.orientationDeg), halfWidthDeg };
@@ -980,7 +975,7 @@ export class Watch implements ReadingConsumer {
   }
 
   private actionDueMs(): number {
-    return this.site.actionDueMs ?? defaultActionDueMs;
+    return this.site.actionDueMs ?? siteSettingDefaults.actionDueMs;
   }
 
   /**
