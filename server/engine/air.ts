@@ -17,6 +17,8 @@ export const isaSeaLevelTemperatureK = 288.15;
 export const isaSeaLevelPressurePa = 101_325;
 /** ISO 2533 sea-level density, kg/m³ (also the calculator's default, design §4). */
 export const isaSeaLevelDensityKgM3 = 1.225;
+/** The air density EN 1991-1-4 §4.5(1) Note 2 recommends, kg/m³: a new site's fixed density and the floor of the design density. */
+export const recommendedAirDensityKgM3 = 1.25;
 /** ISO 2533 troposphere temperature lapse rate, K/m. */
 export const isaLapseRateKPerM = 0.0065;
 /** ISO 2533 specific gas constant of dry air, J/(kg·K). */
@@ -147,6 +149,17 @@ export function siteAirDensity(
   } catch {
     return { densityKgM3: isaAirDensityKgM3(site.altitudeM), basis: 'isa' };
   }
+}
+
+/**
+ * The density a structure's levels are checked at on save and the register form calculates at:
+ * the site's fixed density, else ISA at the site's altitude, and never less than the 1.25 kg/m³
+ * EN 1991-1-4 §4.5 recommends (denser air lowers the limit, so the check errs toward refusing).
+ * Not the measured density: a save must not depend on the weather at that moment.
+ */
+export function siteDesignDensityKgM3(site: { airDensityMode: string; fixedAirDensityKgM3: number | null; altitudeM: number }): number {
+  const density = site.airDensityMode === 'fixed' && site.fixedAirDensityKgM3 !== null ? site.fixedAirDensityKgM3 : isaAirDensityKgM3(site.altitudeM);
+  return Math.max(density, recommendedAirDensityKgM3);
 }
 
 /** The site's air density in kg/m³ (see `airDensity` for the basis). */

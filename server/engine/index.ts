@@ -19,7 +19,9 @@ export { standardGravityMps2 } from './gravity.ts';
 export { dynamicPressurePa, speedForDynamicPressureMps } from './dynamicPressure.ts';
 export {
   airDensity,
+  recommendedAirDensityKgM3,
   siteAirDensity,
+  siteDesignDensityKgM3,
   airDensityKgM3,
   airDensityModes,
   assertAirDensity,

@@ -8,6 +8,7 @@
 import { maxDimensionM, maxPlausibleSpeedMps } from './limits.ts';
 import { assertAbove, assertInRange } from './rangeCheck.ts';
 import { dynamicPressurePa } from './dynamicPressure.ts';
+import { recommendedAirDensityKgM3 } from './air.ts';
 
 export const terrainCategories = ['0', 'I', 'II', 'III', 'IV'] as const;
 export type TerrainCategory = (typeof terrainCategories)[number];
@@ -93,7 +94,7 @@ export function meanWindMps({ baseWindMps, heightM, terrainCategory, orographyFa
  * ρ defaults to 1.25 kg/m³, the value EN 1991-1-4 §4.5 recommends.
  */
 export function peakVelocityPressurePa(input: ProfileInput & { airDensityKgM3?: number }): number {
-  const { heightM, terrainCategory, orographyFactor = 1, airDensityKgM3 = 1.25 } = input;
+  const { heightM, terrainCategory, orographyFactor = 1, airDensityKgM3 = recommendedAirDensityKgM3 } = input;
   assertAbove('peakVelocityPressurePa', 'airDensityKgM3', airDensityKgM3, 0);
   const meanMps = meanWindMps(input);
   return (1 + 7 * turbulenceIntensity(heightM, terrainCategory, orographyFactor)) * dynamicPressurePa(meanMps, airDensityKgM3);

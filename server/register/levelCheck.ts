@@ -4,20 +4,10 @@
  * at or above the limit, a fraction above 100 %. Used for a structure's own levels and for the
  * site's default levels, which every structure without its own list follows.
  */
-import { isaAirDensityKgM3, liveStructure, recordConfigurations, structureLimits, type StructureRecord } from '../engine/index.ts';
+import { liveStructure, recordConfigurations, structureLimits, type StructureRecord } from '../engine/index.ts';
 import type { PathIssue as FieldIssue } from '../engine/issueWords.ts';
 import { levelProblems, type LevelDefinition, type LevelProblem } from '../levels/index.ts';
 import type { Storage } from '../storage/storage.ts';
-
-/**
- * The density a structure's levels are checked at on save: the site's fixed density, else ISA at
- * the site's altitude, and never less than the EN 1991-1-4 §4.5 recommended 1.25 kg/m³ (denser
- * air lowers the limit, so the check errs toward refusing).
- */
-export function siteDesignDensityKgM3(site: { airDensityMode: string; fixedAirDensityKgM3: number | null; altitudeM: number }): number {
-  const density = site.airDensityMode === 'fixed' && site.fixedAirDensityKgM3 !== null ? site.fixedAirDensityKgM3 : isaAirDensityKgM3(site.altitudeM);
-  return Math.max(density, 1.25);
-}
 
 /** A level problem in one of the record's configurations (`configuration` 0 is the record as registered). */
 export interface ConfigurationLevelProblem extends LevelProblem {

@@ -8,7 +8,8 @@ import { Invalid, NotFound } from '../domainErrors.ts';
 import { siteDefaultLevels } from '../levels/siteDefaultLevels.ts';
 import type { Storage } from '../storage/storage.ts';
 import type { SiteRow } from '../storage/sites.ts';
-import { siteDefaultLevelIssues, siteDesignDensityKgM3 } from './levelCheck.ts';
+import { recommendedAirDensityKgM3, siteDesignDensityKgM3 } from '../engine/index.ts';
+import { siteDefaultLevelIssues } from './levelCheck.ts';
 import type { SiteUpdate } from './siteSettings.ts';
 
 // The settings' one schema and the forms derived from it (siteSettings.ts).
@@ -28,7 +29,7 @@ export async function getSite(storage: Storage): Promise<SiteRow> {
  * competent person may choose ISA at the site's altitude or another fixed value; an existing
  * site keeps what was chosen. The calculator (POST /api/assess) keeps ISA sea level (design §4).
  */
-export const newSiteAirDensityKgM3 = 1.25;
+export const newSiteAirDensityKgM3 = recommendedAirDensityKgM3;
 
 /**
  * On a fresh database: one site with conservative defaults (fixed density 1.25 kg/m³, no height

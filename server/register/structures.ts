@@ -5,13 +5,13 @@
  * Every change is written to the audit trail in the same transaction.
  */
 import { z } from 'zod';
-import { maxLabelLength, recordConfigurations, sameConfigurationName, validateStructureRecord, type StructureRecord } from '../engine/index.ts';
+import { maxLabelLength, recordConfigurations, sameConfigurationName, siteDesignDensityKgM3, validateStructureRecord, type StructureRecord } from '../engine/index.ts';
 import type { PathIssue as FieldIssue } from '../engine/issueWords.ts';
 import { Conflict, Invalid, NotFound } from '../domainErrors.ts';
 import { levelListSchema, type LevelDefinition } from '../levels/index.ts';
 import type { Storage } from '../storage/storage.ts';
 import type { StructureRow } from '../storage/structures.ts';
-import { siteDesignDensityKgM3, structureLevelIssues } from './levelCheck.ts';
+import { structureLevelIssues } from './levelCheck.ts';
 import { getSite } from './site.ts';
 
 export const structureInputSchema = z.strictObject({

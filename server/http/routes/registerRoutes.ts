@@ -4,7 +4,7 @@
  * person. Every change reloads the live watch and is written to the audit trail.
  */
 import { Hono, type Context } from 'hono';
-import { validateStructureRecord } from '../../engine/index.ts';
+import { siteDesignDensityKgM3, validateStructureRecord } from '../../engine/index.ts';
 import { HttpError, fieldIssues, type FieldIssue } from '../httpError.ts';
 import { z } from 'zod';
 import { principalName } from '../../auth/accounts.ts';
@@ -13,7 +13,6 @@ import { exportRegister, importRegister, registerCsv, registerFromCsv, registerS
 import { createSensor, getSensor, listSensors, retireSensor, sensorInputSchema, sensorUpdateSchema, updateSensor } from '../../register/sensors.ts';
 import { getSite, siteUpdateSchema, updateSite } from '../../register/site.ts';
 import { siteView } from '../../register/siteSettings.ts';
-import { siteDesignDensityKgM3 } from '../../register/levelCheck.ts';
 import { createStructure, getStructureRow, listStructures, retireStructure, structureInputSchema, structureUpdateSchema, structureView, updateStructure } from '../../register/structures.ts';
 import { readingTopic } from '../../ingest/topic.ts';
 import { setupChecklist } from '../../register/setupChecklist.ts';

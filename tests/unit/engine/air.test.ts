@@ -7,7 +7,9 @@ import {
   isaTemperatureK,
   moistAirDensityKgM3,
   saturationVapourPressurePa,
+  recommendedAirDensityKgM3,
   siteAirDensity,
+  siteDesignDensityKgM3,
 } from '../../../server/engine/index.ts';
 
 describe('International Standard Atmosphere (ISO 2533 / ICAO Doc 7488)', () => {
@@ -114,5 +116,14 @@ describe("the site's air density modes (design §2.1)", () => {
     // Fixed without a value (the settings refuse it; a stored row could lack it): ISA, never a guess.
     expect(siteAirDensity({ airDensityMode: 'fixed', fixedAirDensityKgM3: null, altitudeM: 0 }, null).basis).toBe('isa');
     expect(siteAirDensity({ airDensityMode: 'isa', fixedAirDensityKgM3: 1.3, altitudeM: 1000 }, { tempC: -10, pressurePa: 90_000, rhPct: null }).densityKgM3).toBe(isaAirDensityKgM3(1000));
+  });
+
+  it('the design density (levels checked on save): fixed or ISA, never under the 1.25 kg/m³ EN 1991-1-4 §4.5(1) Note 2 recommends, and never the weather of the moment', () => {
+    expect(recommendedAirDensityKgM3).toBe(1.25);
+    expect(siteDesignDensityKgM3({ airDensityMode: 'isa', fixedAirDensityKgM3: null, altitudeM: 0 })).toBe(1.25);
+    expect(siteDesignDensityKgM3({ airDensityMode: 'fixed', fixedAirDensityKgM3: 1.3, altitudeM: 0 })).toBe(1.3);
+    expect(siteDesignDensityKgM3({ airDensityMode: 'fixed', fixedAirDensityKgM3: 1.2, altitudeM: 0 })).toBe(1.25);
+    // Measured: ISA at the altitude (1.1673 at 500 m, ISO 2533), floored at 1.25.
+    expect(siteDesignDensityKgM3({ airDensityMode: 'measured', fixedAirDensityKgM3: null, altitudeM: 500 })).toBe(1.25);
   });
 });
