@@ -12,7 +12,7 @@
  */
 import type { Watch } from '../watch/watch.ts';
 import type { WriteBatch } from '../storage/writeBatch.ts';
-import { emptyWriteBatch } from '../storage/writeBatch.ts';
+import { acknowledgementBatch } from '../storage/writeBatch.ts';
 import { demoAcknowledgeNotes, demoConfigurationNotes } from './demoSite.ts';
 import type { Random } from './random.ts';
 
@@ -80,7 +80,7 @@ export class DemoCrew {
         const note = demoConfigurationNotes(kind).seenLate;
         const by = plan.by;
         // Stored first, then the watch marks it and the stream says so, as the acknowledge route does.
-        void Promise.resolve(this.options.store({ ...emptyWriteBatch(), acknowledgements: [{ alertId: alert.id, atMs: nowMs, by, note, actor: demoActor }] })).then(() =>
+        void Promise.resolve(this.options.store(acknowledgementBatch({ alertId: alert.id, atMs: nowMs, by, note, actor: demoActor }))).then(() =>
           watch.acknowledged(alert.id, by, note, nowMs),
         );
       }

@@ -10,7 +10,7 @@ import type { LiveHub } from '../live/liveHub.ts';
 import type { Logger } from '../log.ts';
 import { getSite } from '../register/site.ts';
 import type { Storage } from '../storage/storage.ts';
-import { emptyWriteBatch } from '../storage/writeBatch.ts';
+import { acknowledgementBatch } from '../storage/writeBatch.ts';
 import type { WriteQueue } from '../storage/writeQueue.ts';
 import type { OpenAlert, Watch } from '../watch/watch.ts';
 import { ackLinkLifetimeMs, ackSecret, checkAckToken, makeAckToken, type AckClaim } from './ackTokens.ts';
@@ -288,7 +288,7 @@ export class Notifier {
     if (!(await this.deps.storage.notifications.useToken(claim.nonce, claim.alertId, nowMs))) return { status: 410, message: 'this acknowledge link was used just now; each link works once' };
     const note = 'acknowledged from the e-mail link';
     // Stored (or held while the disk refuses) before the stream and the notifications say so, as the app's acknowledgement is.
-    await this.deps.queue.enqueue({ ...emptyWriteBatch(), acknowledgements: [{ alertId: claim.alertId, atMs: nowMs, by: person.displayName, note, actor: `${person.displayName} (${person.username}) by e-mail link` }] });
+    await this.deps.queue.enqueue(acknowledgementBatch({ alertId: claim.alertId, atMs: nowMs, by: person.displayName, note, actor: `${person.displayName} (${person.username}) by e-mail link` }));
     const alert = this.deps.watch.acknowledged(claim.alertId, person.displayName, note, nowMs) ?? { ...open, acknowledgedAtMs: nowMs, acknowledgedBy: person.displayName, acknowledgeNote: note };
     return { status: 200, alert, by: person.displayName };
   }

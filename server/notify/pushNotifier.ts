@@ -10,7 +10,7 @@ import { roleAllows, type Role } from '../auth/roles.ts';
 import type { Config } from '../config.ts';
 import type { Logger } from '../log.ts';
 import type { Storage } from '../storage/storage.ts';
-import { emptyWriteBatch } from '../storage/writeBatch.ts';
+import { acknowledgementBatch } from '../storage/writeBatch.ts';
 import type { WriteQueue } from '../storage/writeQueue.ts';
 import type { OpenAlert, Watch } from '../watch/watch.ts';
 import { PushChannel, type PushPayload } from './channels/push.ts';
@@ -177,7 +177,7 @@ export class PushNotifier {
     if (!(await this.consume(claim, nowMs))) return { status: 409, message: 'this button was used just now; each works once' };
     const note = 'acknowledged from the push notification';
     // Stored (or held while the disk refuses) before the stream and the notifications say so, as the app's acknowledgement is.
-    await this.deps.queue.enqueue({ ...emptyWriteBatch(), acknowledgements: [{ alertId: claim.alertId, atMs: nowMs, by: person.displayName, note, actor: `${person.displayName} (${person.username}) by push notification` }] });
+    await this.deps.queue.enqueue(acknowledgementBatch({ alertId: claim.alertId, atMs: nowMs, by: person.displayName, note, actor: `${person.displayName} (${person.username}) by push notification` }));
     const alert = this.deps.watch.acknowledged(claim.alertId, person.displayName, note, nowMs) ?? { ...open, acknowledgedAtMs: nowMs, acknowledgedBy: person.displayName, acknowledgeNote: note };
     return { status: 200, action: 'ack', alert, by: person.displayName, message: `Acknowledged by ${person.displayName}.` };
   }

@@ -34,8 +34,8 @@ export class AlertStore {
     return options.limit === undefined ? query.all() : query.limit(options.limit).all();
   }
 
-  /** Records an acknowledgement outside the live path (the demo's history). */
+  /** Records an acknowledgement outside the live path (the demo's history); an alert already acknowledged keeps its first. */
   acknowledge(id: number, atMs: number, by: string, note: string | null): void {
-    this.db.update(alertsTable).set({ acknowledgedAtMs: atMs, acknowledgedBy: by, acknowledgeNote: note }).where(eq(alertsTable.id, id)).run();
+    this.db.update(alertsTable).set({ acknowledgedAtMs: atMs, acknowledgedBy: by, acknowledgeNote: note }).where(and(eq(alertsTable.id, id), isNull(alertsTable.acknowledgedAtMs))).run();
   }
 }

@@ -80,6 +80,11 @@ export function emptyWriteBatch(): WriteBatch {
   return { readings: [], structureMinutes: [], levelChanges: [], alerts: [], clearedAlerts: [], acknowledgements: [], configurationChanges: [], actionsDone: [], overdue: [] };
 }
 
+/** The batch of acknowledgements (the board, an e-mail link, a push button, the demo crew): stored before the watch marks them. */
+export function acknowledgementBatch(...rows: AcknowledgementRow[]): WriteBatch {
+  return { ...emptyWriteBatch(), acknowledgements: rows };
+}
+
 export function batchRowCount(batch: WriteBatch): number {
   return (
     batch.readings.length +

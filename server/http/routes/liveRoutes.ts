@@ -36,7 +36,7 @@ import { principalName } from '../../auth/accounts.ts';
 import { roleAllows } from '../../auth/roles.ts';
 import { maxTextLength } from '../../engine/limits.ts';
 import type { StoredAlert } from '../../storage/alerts.ts';
-import { emptyWriteBatch } from '../../storage/writeBatch.ts';
+import { acknowledgementBatch } from '../../storage/writeBatch.ts';
 import { requireRole, type AppEnv } from '../access.ts';
 import { HttpError } from '../httpError.ts';
 import { idParam, jsonBody } from '../validate.ts';
@@ -270,7 +270,7 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
     beingAcknowledged.set(id, by);
     let stored = true;
     try {
-      ({ stored } = await ctx.queue.enqueue({ ...emptyWriteBatch(), acknowledgements: [{ alertId: id, atMs, by, note, actor: principalName(principal) }] }));
+      ({ stored } = await ctx.queue.enqueue(acknowledgementBatch({ alertId: id, atMs, by, note, actor: principalName(principal) })));
     } finally {
       beingAcknowledged.delete(id);
     }
@@ -343,10 +343,7 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
     let stored = true;
     try {
       if (chosen.length > 0) {
-        ({ stored } = await ctx.queue.enqueue({
-          ...emptyWriteBatch(),
-          acknowledgements: chosen.map((a) => ({ alertId: a.id, atMs, by, note, actor: principalName(principal) })),
-        }));
+        ({ stored } = await ctx.queue.enqueue(acknowledgementBatch(...chosen.map((a) => ({ alertId: a.id, atMs, by, note, actor: principalName(principal) })))));
       }
     } finally {
       for (const a of chosen) beingAcknowledged.delete(a.id);
