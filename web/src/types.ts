@@ -164,10 +164,10 @@ export interface RefusalsAnswer {
   broker: 'embedded' | 'external';
 }
 
-// ---------- Configurations and plan actions (issue 14; design §2.5) ----------
-// The server sends these as it gains the issue's server part. Until then every field may be
-// missing, so the screens read them through web/src/configurationState.ts, which checks each one
-// and treats a missing configuration as unknown, never as the one registered.
+// ---------- Configurations and plan actions (design §2.5) ----------
+// Written here rather than taken from the server's types: a limit no gust reaches is Infinity on
+// the server and null in JSON. The screens read them through web/src/configurationState.ts, which
+// checks each one and treats a missing configuration as unknown, never as the one registered.
 
 /** One configuration of a structure in its live state (StructureState.configurations), as registered first. */
 export interface LiveConfiguration {
