@@ -6,6 +6,7 @@
  * button takes the same path as POST /api/structures/:id/configuration with `alertId`
  * (Watch.switchConfiguration, then the write queue, then the announcement).
  */
+import { Invalid, NotFound } from '../domainErrors.ts';
 import { roleAllows, type Role } from '../auth/roles.ts';
 import type { Config } from '../config.ts';
 import type { Logger } from '../log.ts';
@@ -45,7 +46,7 @@ export interface PushNotifierDeps {
   timeoutMs?: number;
 }
 
-type Recipient = { sub: PushSubscriptionRow; person: { id: number; displayName: string; role: string; username: string } };
+type Recipient = { sub: PushSubscriptionRow; person: { id: number; displayName: string; role: Role; username: string } };
 
 export class PushNotifier {
   readonly subscriptions: Storage['pushSubscriptions'];
@@ -94,7 +95,7 @@ export class PushNotifier {
   }
 
   private buttons(alert: OpenAlert, event: NotifyEventName, person: Recipient['person']): PushButton[] {
-    if (!roleAllows(person.role as Role, actingRole)) return [];
+    if (!roleAllows(person.role, actingRole)) return [];
     const expiresAtMs = this.deps.now() + pushActionLifetimeMs;
     return buttonsFor(alert, event).map((b) => ({ ...b, token: makePushActionToken(this.deps.secret, { action: b.action, alertId: alert.id, personId: person.id, expiresAtMs }) }));
   }
@@ -195,7 +196,11 @@ export class PushNotifier {
       alertId: open.id,
       atMs: nowMs,
     });
-    if (!result.ok) return { status: result.status === 400 ? 409 : result.status, message: result.message };
+    if (!result.ok) {
+      // The button acted on an alert the crew saw: whatever stops it now is a clash with the state, not bad input.
+      const { error } = result;
+      return { status: error instanceof NotFound ? 404 : 409, message: error instanceof Invalid ? error.issues.map((i) => i.message).join('; ') : error.message };
+    }
     // Synchronous from the checks to the switch: no other tap of this button can come between.
     await this.consume(claim, nowMs);
     await this.deps.queue.enqueue(result.batch);

@@ -28,7 +28,7 @@ export class PushSubscriptionStore {
   }
 
   /** Every subscription of a person who may still sign in, with the person. */
-  active(): Array<{ sub: PushSubscriptionRow; person: { id: number; displayName: string; role: string; username: string } }> {
+  active(): Array<{ sub: PushSubscriptionRow; person: { id: number; displayName: string; role: (typeof peopleTable.$inferSelect)['role']; username: string } }> {
     return this.db
       .select({ sub: notifyPushSubscriptionsTable, person: { id: peopleTable.id, displayName: peopleTable.displayName, role: peopleTable.role, username: peopleTable.username } })
       .from(notifyPushSubscriptionsTable)

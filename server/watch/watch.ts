@@ -52,6 +52,7 @@ import type { Reading } from '../ingest/payload.ts';
 import type { ReadingConsumer } from '../ingest/pipeline.ts';
 import type { RegisteredSensor } from '../ingest/registry.ts';
 import type { LiveHub } from '../live/liveHub.ts';
+import { Conflict, Invalid, NotFound } from '../domainErrors.ts';
 import type { WriteBatch } from '../storage/writeBatch.ts';
 import { batchRowCount, emptyWriteBatch } from '../storage/writeBatch.ts';
 import { summaryStatistics, windowStatistics } from '../foresight/index.ts';
@@ -92,10 +93,10 @@ import { siteSettingDefaults, type WatchSiteSettings } from '../register/siteSet
 /** A reading older than this at receipt is "late" (from a gateway's buffer): stored, not used live. */
 export const liveReadingMaxAgeMs = 60_000;
 
-/** The outcome of `Watch.switchConfiguration`: what to store and then announce, or why not. */
+/** The outcome of `Watch.switchConfiguration`: what to store and then announce, or why not (a domain error, mapped to HTTP once, http/app.ts). */
 export type ConfigurationSwitch =
   | { ok: true; batch: WriteBatch; announce: () => void; structure: StructureState; alert: OpenAlert | null }
-  | { ok: false; status: 400 | 404 | 409; message: string; path?: string };
+  | { ok: false; error: Invalid | NotFound | Conflict };
 
 /** How often the foresight figures are refreshed (they move with the 10-minute statistics, not each gust). */
 const foresightIntervalMs = 5_000;
@@ -989,19 +990,19 @@ export class Watch implements ReadingConsumer {
   switchConfiguration(request: { structureId: number; name: string; by: string; actor: string; note: string | null; alertId: number | null; atMs: number }): ConfigurationSwitch {
     const input = { ...request, atMs: this.now(request.atMs) };
     const s = this.structures.get(input.structureId);
-    if (!s) return { ok: false, status: 404, message: `structure ${input.structureId} is not on the register` };
-    if (s.error !== null) return { ok: false, status: 409, message: `structure ${input.structureId} cannot be assessed (${s.error})` };
+    if (!s) return { ok: false, error: new NotFound(`structure ${input.structureId}`) };
+    if (s.error !== null) return { ok: false, error: new Conflict(`structure ${input.structureId} cannot be assessed (${s.error})`) };
     const index = s.configurationNames.findIndex((n) => sameConfigurationName(n, input.name));
-    if (index < 0) return { ok: false, status: 400, path: 'configuration', message: `"${input.name}" is not a configuration of ${s.model.name}; it has ${s.configurationNames.map((n) => `"${n}"`).join(', ')}` };
+    if (index < 0) return { ok: false, error: new Invalid([{ path: 'configuration', message: `"${input.name}" is not a configuration of ${s.model.name}; it has ${s.configurationNames.map((n) => `"${n}"`).join(', ')}` }]) };
     let alert: OpenAlert | null = null;
     if (input.alertId !== null) {
       alert = this.book.get(input.alertId) ?? null;
-      if (alert === null || alert.structureId !== input.structureId) return { ok: false, status: 409, message: `alert ${input.alertId} is not an open alert of ${s.model.name}` };
-      if (alert.moveToConfiguration === null) return { ok: false, status: 400, path: 'alertId', message: `the action of alert ${alert.id} (${alert.label}) does not move the structure to another configuration` };
-      if (!sameConfigurationName(alert.moveToConfiguration, input.name)) return { ok: false, status: 400, path: 'configuration', message: `the action of alert ${alert.id} (${alert.label}) moves ${s.model.name} to "${alert.moveToConfiguration}", not "${input.name}"` };
-      if (alert.actionDoneAtMs !== null) return { ok: false, status: 409, message: `the action of alert ${alert.id} was marked done by ${alert.actionDoneBy ?? 'someone'} at ${new Date(alert.actionDoneAtMs).toISOString()}` };
+      if (alert === null || alert.structureId !== input.structureId) return { ok: false, error: new Conflict(`alert ${input.alertId} is not an open alert of ${s.model.name}`) };
+      if (alert.moveToConfiguration === null) return { ok: false, error: new Invalid([{ path: 'alertId', message: `the action of alert ${alert.id} (${alert.label}) does not move the structure to another configuration` }]) };
+      if (!sameConfigurationName(alert.moveToConfiguration, input.name)) return { ok: false, error: new Invalid([{ path: 'configuration', message: `the action of alert ${alert.id} (${alert.label}) moves ${s.model.name} to "${alert.moveToConfiguration}", not "${input.name}"` }]) };
+      if (alert.actionDoneAtMs !== null) return { ok: false, error: new Conflict(`the action of alert ${alert.id} was marked done by ${alert.actionDoneBy ?? 'someone'} at ${new Date(alert.actionDoneAtMs).toISOString()}`) };
     } else if (index === s.configurationIndex) {
-      return { ok: false, status: 409, message: `${s.model.name} is already in configuration "${s.configurationNames[index]}"` };
+      return { ok: false, error: new Conflict(`${s.model.name} is already in configuration "${s.configurationNames[index]}"`) };
     }
 
     const batch = emptyWriteBatch();

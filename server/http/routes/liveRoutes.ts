@@ -235,10 +235,7 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
     const by = principal.kind === 'person' ? principal.person.displayName : principalName(principal);
     const note = body.note && body.note.length > 0 ? body.note : null;
     const result = ctx.watch.switchConfiguration({ structureId: id, name: body.configuration, by, actor: principalName(principal), note, alertId: body.alertId ?? null, atMs: ctx.now() });
-    if (!result.ok) {
-      if (result.status === 400) throw HttpError.invalid([{ path: result.path ?? 'configuration', message: result.message }]);
-      throw new HttpError(result.status, result.message);
-    }
+    if (!result.ok) throw result.error;
     const { stored } = await ctx.queue.enqueue(result.batch);
     result.announce();
     return c.json({ structure: ctx.watch.structureStateById(id), alert: result.alert, stored });
