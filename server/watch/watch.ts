@@ -63,7 +63,7 @@ import type { WatchEvent } from './watchEvents.ts';
 import { byUrgency } from '../live/liveEvents.ts';
 import { publishMessages, type LiveMessage } from '../live/liveMessages.ts';
 import { foresightCell, foresightIdentity, levelChances, structureForesight, type StructureForesight } from './structureForesight.ts';
-import { acceptReading, threeSecondMeans, clockOffsetAlertMs, clockOffsetClearMs, clockOffsetMs, createSensorWindState, noteArrival, sensorSilent, stuckSensors, windSnapshot } from '../wind/index.ts';
+import { acceptReading, threeSecondMeans, clockOffsetAlertMs, clockOffsetClearMs, clockOffsetMs, createSensorWindState, noteArrival, noteTenMinuteMean, sensorSilent, stuckSensors, tenMinuteGustFactor, windSnapshot } from '../wind/index.ts';
 import type { FrameRow } from '../live/frames.ts';
 import { selectFrame } from '../live/frames.ts';
 import {
@@ -851,16 +851,8 @@ export class Watch implements ReadingConsumer {
       } else if (live.wind.newestMode === 'raw') {
         live.statistics = windowStatistics(threeSecondMeans(live.wind, nowMs), nowMs);
       } else live.statistics = null;
-      live.gustFactor = snap.mean10minMps !== null && snap.mean10minMps > 0.5 && snap.peakGust10minMps !== null ? Math.min(10, Math.max(1, snap.peakGust10minMps / snap.mean10minMps)) : null;
-      const lastAt = live.meanAtMs.at(-1) ?? -Infinity;
-      if (snap.mean10minMps !== null && snap.mean10minMps <= maxPlausibleSpeedMps && nowMs - lastAt >= 60_000) {
-        live.meanAtMs.push(nowMs);
-        live.meanMps.push(snap.mean10minMps);
-        while (live.meanAtMs.length > 0 && live.meanAtMs[0]! < nowMs - 3_600_000) {
-          live.meanAtMs.shift();
-          live.meanMps.shift();
-        }
-      }
+      live.gustFactor = tenMinuteGustFactor(snap.mean10minMps, snap.peakGust10minMps);
+      if (snap.mean10minMps !== null && snap.mean10minMps <= maxPlausibleSpeedMps) noteTenMinuteMean({ atMs: live.meanAtMs, meanMps: live.meanMps }, nowMs, snap.mean10minMps);
     }
     for (const s of this.structures.values()) this.refreshForesight(s, nowMs);
   }

@@ -18,6 +18,7 @@ export {
   type WindMode,
 } from './sensorWindState.ts';
 export { acceptReading, type IgnoredReason } from './acceptReading.ts';
+export { noteTenMinuteMean, tenMinuteGustFactor, gustFactorFloorMeanMps, gustFactorRange, type MeanHistory } from './meanHistory.ts';
 export { windSnapshot, peakGustMps, type WindSnapshot } from './windSnapshot.ts';
 export { sensorSilent } from './sensorSilent.ts';
 export { noteArrival, clockOffsetMs, clockOffsetAlertMs, clockOffsetClearMs } from './clockOffset.ts';
