@@ -7,7 +7,7 @@ import type { WriteQueue } from '../storage/writeQueue.ts';
 import type { WriteBatch } from '../storage/writeBatch.ts';
 import { parseReadingPayload, type Reading } from './payload.ts';
 import type { RegisteredSensor, Registry } from './registry.ts';
-import type { RejectionLog } from './rejections.ts';
+import type { IngestRejectReason, RejectionLog } from './rejections.ts';
 import type { ReadingSink } from './sink.ts';
 import { sensorKeyOfTopic } from './topic.ts';
 
@@ -40,7 +40,7 @@ export class IngestPipeline implements ReadingSink {
     private readonly queue: WriteQueue,
   ) {}
 
-  refuse(sensorKey: string, reason: string, detail: string): void {
+  refuse(sensorKey: string, reason: IngestRejectReason, detail: string): void {
     this.counters.messages++;
     this.counters.rejectedMessages++;
     this.rejections.record(sensorKey, reason, detail);
@@ -80,7 +80,7 @@ export class IngestPipeline implements ReadingSink {
     afterCommit?.();
   }
 
-  private reject(sensorKey: string, reason: string, detail: string): void {
+  private reject(sensorKey: string, reason: IngestRejectReason, detail: string): void {
     this.counters.rejectedMessages++;
     this.rejections.record(sensorKey, reason, detail);
   }

@@ -10,11 +10,20 @@
  * short excerpt of its payload. Grouped by who and why, so a gateway retrying every few seconds
  * fills one line, not the book; at most `maxRefusalGroups` groups, the stalest dropped first.
  */
+import { rejectReasons } from './payloads/parseResult.ts';
 import type { RejectionCount, RejectionStore } from '../storage/rejections.ts';
 import type { Stored } from '../storage/storage.ts';
 import type { Logger } from '../log.ts';
 
 export type { RejectionCount };
+
+/**
+ * Every reason a message is rejected and counted: a payload's or a reading's (payloads/parseResult.ts),
+ * and the message's own: a topic that is not a reading topic, a key no sensor has, a gateway
+ * publishing for a sensor it is not linked to, and a server defect while handling it.
+ */
+export const ingestRejectReasons = [...rejectReasons, 'bad-topic', 'unknown-sensor', 'not-permitted', 'internal-error'] as const;
+export type IngestRejectReason = (typeof ingestRejectReasons)[number];
 
 /** How often the same sensor and reason may reach the log. */
 export const rejectionLogIntervalMs = 60_000;
@@ -71,7 +80,7 @@ export class RejectionLog {
     }
   }
 
-  record(givenKey: string, reason: string, detail: string): void {
+  record(givenKey: string, reason: IngestRejectReason, detail: string): void {
     const atMs = this.now();
     const bucketed = !this.sensorKeys.has(givenKey) && this.sensorKeys.size >= maxRejectionKeys && !this.isRegistered(givenKey);
     const sensorKey = bucketed ? otherKeysBucket : givenKey;

@@ -7,8 +7,10 @@
  * held (README, "If the database cannot write"). It rejects only on a defect (a commit worker that
  * failed its group); the message is then left unacknowledged so the broker delivers it again.
  */
+import type { IngestRejectReason } from './rejections.ts';
+
 export interface ReadingSink {
   accept(topic: string, payload: Uint8Array, receivedAtMs: number): Promise<void>;
   /** Counts a refused message (unknown gateway topic...) without looking at its payload. */
-  refuse(sensorKey: string, reason: string, detail: string): void;
+  refuse(sensorKey: string, reason: IngestRejectReason, detail: string): void;
 }

@@ -37,7 +37,7 @@ describe('1,000 distinct unknown keys', () => {
     expect(other.lastDetail).toContain('ghost-999');
     expect(lines.length).toBe(maxRejectionLogLinesPerInterval);
     // A registered sensor still gets its own entry past the cap.
-    log.record('gate-mast', 'invalid-json', 'body is not JSON');
+    log.record('gate-mast', 'not-json', 'body is not JSON');
     expect(log.list('gate-mast')).toHaveLength(1);
     // A minute later the left-out lines are summed in one line.
     now += 61_000;
