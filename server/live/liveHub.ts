@@ -27,6 +27,9 @@ export function sseBytes(event: LiveEvent): Uint8Array {
 
 export type LiveListener = (event: LiveEvent) => void;
 
+/** An observer inside the server: the event as sent, and the typed record it was made from (null for a frame published as text). */
+export type LiveObserver = (event: LiveEvent, record: { [K in LiveEventKind]: { kind: K; payload: LiveEventMap[K] } }[LiveEventKind] | null) => void;
+
 export class LiveHub {
   private readonly ring: LiveEvent[];
   private nextId = 1;
@@ -35,7 +38,7 @@ export class LiveHub {
   private bytes = 0;
   private readonly listeners = new Set<LiveListener>();
   /** Listeners inside the server (the notifier), not counted as stream clients. */
-  private readonly observers = new Set<LiveListener>();
+  private readonly observers = new Set<LiveObserver>();
 
   /**
    * @param capacity most events kept for replay
@@ -51,11 +54,15 @@ export class LiveHub {
 
   /** An event of the typed map (liveEvents.ts), serialized once here. */
   publish<K extends LiveEventKind>(kind: K, payload: LiveEventMap[K]): LiveEvent {
-    return this.publishText(kind, JSON.stringify(payload));
+    return this.send(kind, JSON.stringify(payload), { kind, payload } as Parameters<LiveObserver>[1]);
   }
 
   /** An event whose JSON text is already written (the once-a-second frames build their own). */
   publishText(kind: LiveEventKind, data: string): LiveEvent {
+    return this.send(kind, data, null);
+  }
+
+  private send(kind: LiveEventKind, data: string, record: Parameters<LiveObserver>[1]): LiveEvent {
     if (data.includes('\n')) throw new RangeError(`live event data must be one line (kind ${kind})`);
     const event: LiveEvent = { id: this.nextId++, kind, data };
     if (this.size === this.capacity) this.dropOldest();
@@ -64,7 +71,7 @@ export class LiveHub {
     this.bytes += event.data.length;
     while (this.bytes > this.maxBytes && this.size > 1) this.dropOldest();
     for (const listener of this.listeners) listener(event);
-    for (const observer of this.observers) observer(event);
+    for (const observer of this.observers) observer(event, record);
     return event;
   }
 
@@ -81,7 +88,7 @@ export class LiveHub {
   }
 
   /** Like `subscribe`, for a part of the server (not counted in `listenerCount`); the listener must only queue the event and return. */
-  observe(listener: LiveListener): () => void {
+  observe(listener: LiveObserver): () => void {
     this.observers.add(listener);
     return () => this.observers.delete(listener);
   }

@@ -4,6 +4,7 @@
  * a clear or its action done) after the commit; the tracker keeps each alert's last state so an
  * update says which field it set: an acknowledgement, a clear, or both.
  */
+import type { LiveEventMap } from '../live/liveEvents.ts';
 import type { OpenAlert } from '../watch/watch.ts';
 
 export const notifyEventNames = ['alert.raised', 'alert.resignalled', 'alert.escalated', 'alert.acknowledged', 'alert.cleared', 'alert.overdue'] as const;
@@ -15,7 +16,8 @@ export interface NotifyEvent {
   alert: OpenAlert;
 }
 
-export type HubAlert = OpenAlert & { resignal?: boolean; overdue?: boolean };
+/** An alert record as the watch publishes it after its commit (live/liveEvents.ts): raised or signalled again, or updated. */
+export type HubAlert = LiveEventMap['alert'] | (LiveEventMap['alert-update'] & { resignal?: undefined; overdue?: undefined });
 
 export class AlertEventTracker {
   /** Each alert still open, as last seen (the escalation chain reads it too). */

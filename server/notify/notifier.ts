@@ -20,7 +20,7 @@ import { WebhookChannel, type WebhookEndpoint } from './channels/webhook.ts';
 import { Dispatcher } from './dispatcher.ts';
 import { alertEmail, testEmail } from './emailMessage.ts';
 import { dueSteps, escalationChainSchema, type EscalationStep } from './escalation.ts';
-import { AlertEventTracker, type HubAlert, type NotifyEvent, type NotifyEventName } from './events.ts';
+import { AlertEventTracker, type NotifyEvent, type NotifyEventName } from './events.ts';
 import { filterPasses, storedFilter } from './filter.ts';
 import type { NewDelivery, Outbox } from './outbox.ts';
 import { PushNotifier } from './pushNotifier.ts';
@@ -120,15 +120,11 @@ export class Notifier {
       if (!set) this.taken.set(r.alertId, (set = new Set()));
       set.add(r.step);
     }
-    this.unsubscribe = this.deps.hub.observe((event) => {
-      if (event.kind !== 'alert' && event.kind !== 'alert-update') return;
-      // The listener runs inside the publisher's turn: parse and queue in memory only.
-      try {
-        this.waiting.push(...this.tracker.take(event.kind, JSON.parse(event.data) as HubAlert));
-      } catch (err) {
-        this.deps.log.error({ err: String(err) }, 'notifications: an alert event could not be read');
-        return;
-      }
+    // Fed the typed alert records the watch publishes after their commit, not the stream's JSON.
+    this.unsubscribe = this.deps.hub.observe((_event, record) => {
+      if (record === null || (record.kind !== 'alert' && record.kind !== 'alert-update')) return;
+      // The observer runs inside the publisher's turn: queue in memory only.
+      this.waiting.push(...this.tracker.take(record.kind, record.payload));
       this.scheduleProcessing();
     });
     this.escalationTimer = setInterval(() => void this.checkEscalations(), this.options.escalationCheckMs ?? 5_000);
