@@ -71,11 +71,12 @@ export interface StartOptions {
   /** The forecast feed's timer, timeout and size cap (tests turn the timer off and poll by hand). */
   forecastFeed?: ForecastFeedOptions;
   /**
-   * Group commits on a worker thread with its own connection (commitThread.ts). Default: on with
-   * the embedded broker, off with an external one (MQTT_URL), where `npm run bench` measured the
-   * thread slower (0.75 against 0.90–0.96 of a counting subscriber) and heavier (peaks of 223–340 MB
-   * against 154–229 MB: the subscriber keeps reading while a commit runs). False commits on the
-   * main connection: also for tests that inject a fault into that connection.
+   * Group commits on a worker thread with its own connection (commitThread.ts). Default: off, with
+   * either broker: on the two-core benchmark machine the worker competes with the event loop and
+   * the publisher for a core, and `npm run bench` measured it slower and heavier with the embedded
+   * broker too (median of 3 interleaved repeats: 0.45 against 0.67 of a counting subscriber, 0.31
+   * against 0.38 of the bare broker hook, 67 against 49 µs CPU per reading, 168 against 125 MB
+   * peak), as before with an external one (0.75 against 0.90–0.96 of a counting subscriber).
    */
   commitThread?: boolean;
 }
@@ -142,7 +143,11 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
   const rejections = await RejectionLog.open(storage.rejections, log, now, (key) => registry.sensorByKey(key) !== undefined);
   // Each sensor's newest minute rollup lived in memory until the last stop: recompute it.
   const newestMinutes = await storage.writes.rebuildNewestMinutes();
-  const queue = storage.writes.queue(now, config.mqttUrl ? 0 : 2, newestMinutes, { commitThread: options.commitThread ?? config.mqttUrl === null });
+  // No group window with either broker: a batch commits on the next turn with whatever arrived
+  // meanwhile, and the embedded broker reads a gateway's next packets only once its last read is
+  // acknowledged, so a window is added to every round (`npm run bench`, embedded, median of 3:
+  // 2 ms gave 0.32 of the bare broker hook against 0.45 without, and 57 against 45 µs CPU a reading).
+  const queue = storage.writes.queue(now, 0, newestMinutes, { commitThread: options.commitThread ?? false });
   const hub = new LiveHub();
   let systemStatus: () => SystemStatus = () => ({ storageOk: true, storageError: null, storageBacklogRows: 0, brokerOk: true, brokerState: 'starting' });
   const watch = new Watch({ hub, now, onNotice: (message, detail) => log.info(detail, message), systemStatus: () => systemStatus() });

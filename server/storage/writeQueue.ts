@@ -20,9 +20,9 @@
  * After a crash, `rebuildNewestMinutes` recomputes each sensor's newest minute from its raw
  * readings, so the log never misses what the memory held.
  *
- * The server runs it on the commit thread (`commitThread: true`, commitThread.ts): the same class
- * runs there, on the worker's connection, and this instance forwards to it; tests, tools and the
- * demo's past day use it in-thread.
+ * The server runs it in-thread, on the main connection (runtime.ts says why). With
+ * `commitThread: true` (commitThread.ts) the same class runs on a worker's connection and this
+ * instance forwards to it.
  *
  * Raw prepared statements, not the query builder: this is the per-message path. About 500 lines:
  * the statements, the transaction, the rollups and the backlog are one commit path, in one file
@@ -150,10 +150,10 @@ export class WriteQueue {
   /**
    * @param groupWindowMs how long the first batch of a group waits for company before the commit.
    *   A commit writes a WAL page per sensor touched, so 100 readings in one commit cost about a
-   *   fifth of 100 commits (`npm run bench`). Worth it only where messages arrive concurrently
-   *   (the embedded broker takes every gateway's packets at once: 2 ms, a small part of the 50 ms
-   *   budget from reading to screen); the external-broker subscriber already hands over all
-   *   messages of one socket read in the same turn (0: next turn).
+   *   fifth of 100 commits (`npm run bench`). The server uses 0 (next turn) with either broker:
+   *   both hand over every message of one socket read in the same turn, and a broker that reads
+   *   a connection's next packets only after acknowledging its last read waits out the window on
+   *   every round (runtime.ts).
    * @param newestMinutes each sensor's newest stored minute, from `rebuildNewestMinutes` at start:
    *   a sensor's first reading after a restart that is older than that minute (a replayed, late
    *   one) is then upserted at once rather than held as the sensor's open minute.
