@@ -3,13 +3,16 @@
  * cleanly on SIGINT/SIGTERM. Startup problems (a port in use, a bad setting) end the process
  * with one plain message naming the setting to change.
  */
-import { ConfigError, configFromEnv } from './config.ts';
-import { PortInUseError } from './ingest/embeddedBroker.ts';
-import { createLogger } from './log.ts';
-import { startServer } from './runtime.ts';
-import { runDemo } from './demo/demo.ts';
+// First the garbage collector's settings; the rest is imported once they are set, since loading
+// the modules already grows the young generation (static imports all load before any runs).
+import './heapSettings.ts';
 
 async function main(): Promise<void> {
+  const { ConfigError, configFromEnv } = await import('./config.ts');
+  const { PortInUseError } = await import('./ingest/embeddedBroker.ts');
+  const { createLogger } = await import('./log.ts');
+  const { startServer } = await import('./runtime.ts');
+  const { runDemo } = await import('./demo/demo.ts');
   let config;
   try {
     config = configFromEnv(process.env, process.argv.slice(2));
