@@ -30,7 +30,7 @@ import { createRequire } from 'node:module';
 import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { Worker } from 'node:worker_threads';
-import type { ReadingRow, WriteBatch } from './writeBatch.ts';
+import { batchRowCount, emptyWriteBatch, type ReadingRow, type WriteBatch } from './writeBatch.ts';
 import type { WriteOutcome, WriteQueueStats } from './writeQueue.ts';
 
 /** After a worker died before it ever answered, the pause before the next one starts. */
@@ -52,11 +52,9 @@ export interface EncodedGroup {
 const orNaN = (v: number | null): number => (v === null ? Number.NaN : v);
 const orNull = (v: number): number | null => (Number.isNaN(v) ? null : v);
 
+/** Rows other than readings (those cross as numbers; the rest is cloned). */
 function hasRest(b: WriteBatch): boolean {
-  return (
-    b.structureMinutes.length + b.levelChanges.length + b.alerts.length + b.clearedAlerts.length + b.acknowledgements.length + b.configurationChanges.length + b.actionsDone.length + b.overdue.length >
-    0
-  );
+  return batchRowCount(b) > b.readings.length;
 }
 
 export function encodeGroup(batches: readonly WriteBatch[]): EncodedGroup {
@@ -111,7 +109,7 @@ export function decodeGroup(group: EncodedGroup): WriteBatch[] {
       });
       o += readingWidth;
     }
-    batches.push({ readings: rows, structureMinutes: [], levelChanges: [], alerts: [], clearedAlerts: [], acknowledgements: [], configurationChanges: [], actionsDone: [], overdue: [] });
+    batches.push({ ...emptyWriteBatch(), readings: rows });
   }
   for (const [i, others] of group.rest) Object.assign(batches[i]!, others);
   return batches;
