@@ -19,6 +19,7 @@ import { LiveHub } from './live/liveHub.ts';
 import type { Logger } from './log.ts';
 import { ensureSite, getSite } from './register/site.ts';
 import { siteView } from './register/siteSettings.ts';
+import { openAlertOfRow } from './storage/alertRows.ts';
 import type { Db, OpenedDatabase } from './storage/database.ts';
 import { openStorage, type Storage } from './storage/storage.ts';
 import type { WriteQueue } from './storage/writeQueue.ts';
@@ -100,29 +101,7 @@ export async function initialState(storage: Storage): Promise<InitialState> {
   const alertRows = await storage.alerts.open();
   const alerts: OpenAlert[] = alertRows.map((r) => {
     const sensor = r.sensorId !== null ? sensorKeys.get(r.sensorId) : undefined;
-    return {
-      id: r.id,
-      kind: r.kind as OpenAlert['kind'],
-      structureId: r.structureId,
-      sensorKey: sensor?.key ?? null,
-      level: r.level,
-      label: r.label,
-      actionText: r.actionText,
-      raisedAtMs: r.raisedAtMs,
-      gustMps: r.gustMps,
-      utilization: r.utilization,
-      lastSignalledAtMs: r.raisedAtMs,
-      clearedAtMs: r.clearedAtMs,
-      acknowledgedAtMs: r.acknowledgedAtMs,
-      acknowledgedBy: r.acknowledgedBy,
-      acknowledgeNote: r.acknowledgeNote,
-      subject: r.structureId !== null ? (structureNames.get(r.structureId) ?? `structure ${r.structureId}`) : (sensor?.name ?? 'sensor'),
-      moveToConfiguration: r.moveToConfiguration,
-      actionDoneAtMs: r.actionDoneAtMs,
-      actionDoneBy: r.actionDoneBy,
-      actionDueAtMs: r.moveToConfiguration === null ? null : r.raisedAtMs + actionDueMs,
-      overdueAtMs: r.overdueAtMs,
-    };
+    return openAlertOfRow(r, { sensor, structureName: r.structureId !== null ? structureNames.get(r.structureId) : undefined, actionDueMs });
   });
   const maxId = await storage.alerts.maxId();
   // Each structure's last configuration switch: after a restart it is assessed as it stands.

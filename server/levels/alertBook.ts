@@ -74,6 +74,11 @@ export type AlertEvent =
   | { type: 'action-done'; alert: OpenAlert; atMs: number; by: string }
   | { type: 'alert-cleared'; alert: OpenAlert; atMs: number };
 
+/** When a level's action that moves the structure is due: the site's action time after the raise; null for an alert without such an action. */
+export function actionDueAtMs(raisedAtMs: number, moveToConfiguration: string | null, actionDueMs: number): number | null {
+  return moveToConfiguration === null ? null : raisedAtMs + actionDueMs;
+}
+
 /** The alerts a screen lists: not yet acknowledged, or not yet ended; newest first. */
 export function listedAlerts<A extends Pick<OpenAlert, 'acknowledgedAtMs' | 'clearedAtMs' | 'raisedAtMs'>>(alerts: readonly A[]): A[] {
   return alerts.filter((a) => a.acknowledgedAtMs === null || a.clearedAtMs === null).sort((a, b) => b.raisedAtMs - a.raisedAtMs);
@@ -127,7 +132,7 @@ export class AlertBook {
       moveToConfiguration: input.moveToConfiguration,
       actionDoneAtMs: null,
       actionDoneBy: null,
-      actionDueAtMs: input.moveToConfiguration === null ? null : input.raisedAtMs + actionDueMs,
+      actionDueAtMs: actionDueAtMs(input.raisedAtMs, input.moveToConfiguration, actionDueMs),
       overdueAtMs: null,
     };
     this.alerts.set(alert.id, alert);
