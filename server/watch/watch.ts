@@ -264,7 +264,8 @@ export class Watch implements ReadingConsumer {
           modelKey,
           density: densityDependent(model, this.airDensityKgM3),
           profile: this.profileRoots(model.referenceHeightM),
-          level: old?.level ?? restoredLevel(restored, nowMs),
+          // A rebuild from the log (`initial`) takes the log's level, as at a start; a register reload keeps the live one.
+          level: initial !== undefined ? restoredLevel(restored, nowMs) : (old?.level ?? restoredLevel(restored, nowMs)),
           gustMps: old?.gustMps ?? null,
           governingSensorKey: old?.governingSensorKey ?? null,
           windFromDeg: old?.windFromDeg ?? null,
@@ -655,6 +656,9 @@ export class Watch implements ReadingConsumer {
           this.record(this.book.clear(s.noDataAlertId, event.atMs), batch, announcements);
           s.noDataAlertId = null;
         }
+        // A level alert above the level the structure is at now (restored from a log whose level
+        // it no longer matches) ends here, as it would have at the drop: never "in force" below it.
+        this.record(this.book.clearLevelsAbove(s.model.id, s.level.level, event.atMs), batch, announcements);
         break;
       }
     }
