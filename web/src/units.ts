@@ -103,6 +103,15 @@ function formatter(timeZone: string, kind: 'time' | 'hm' | 'datetime' | 'date' |
 export const clockTime = (ms: number, timeZone: string): string => formatter(timeZone, 'time').format(ms);
 /** "14:03" in the site's zone (per-minute values: seconds would be false precision). */
 export const hourMinute = (ms: number, timeZone: string): string => formatter(timeZone, 'hm').format(ms);
+/**
+ * "14:03" for a time on today's date in the site's zone, "13 Jun, 14:03" for one on another day:
+ * an alert from yesterday evening must not read as this afternoon's.
+ */
+export const dayAwareTime = (ms: number, timeZone: string, nowMs: number = Date.now()): string =>
+  dayOf(ms, timeZone) === dayOf(nowMs, timeZone) ? hourMinute(ms, timeZone) : dateTime(ms, timeZone);
+/** As `dayAwareTime`, with seconds on today's date ("14:03:07"). */
+export const dayAwareClockTime = (ms: number, timeZone: string, nowMs: number = Date.now()): string =>
+  dayOf(ms, timeZone) === dayOf(nowMs, timeZone) ? clockTime(ms, timeZone) : dateTime(ms, timeZone);
 /** "13 Jun, 14:03" in the site's zone. */
 export const dateTime = (ms: number, timeZone: string): string => formatter(timeZone, 'datetime').format(ms);
 /** "Sat 13 Jun 2026" in the site's zone. */

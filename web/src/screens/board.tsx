@@ -43,7 +43,7 @@ import { may, session } from '../session.ts';
 import { site, useTimeZone } from '../site.ts';
 import { useStore } from '../store.ts';
 import type { OpenAlert, SensorState, StructureState } from '../types.ts';
-import { beaufortText, clockTime, compassPoint, duration, hourMinute, speed, speedNumber, speedUnitLabels, unitSpace } from '../units.ts';
+import { beaufortText, clockTime, compassPoint, dayAwareClockTime, dayAwareTime, duration, speed, speedNumber, speedUnitLabels, unitSpace } from '../units.ts';
 import { maxTextLength } from '../../../server/engine/limits.ts';
 
 /**
@@ -257,7 +257,7 @@ function AckStatus({ a, tz, canAck }: { a: OpenAlert; tz: string; canAck: boolea
   if (a.acknowledgedAtMs !== null) {
     return (
       <span class="ack-done">
-        ✓&nbsp;Acknowledged by {a.acknowledgedBy} at {clockTime(a.acknowledgedAtMs, tz)}
+        ✓&nbsp;Acknowledged by {a.acknowledgedBy} at {dayAwareClockTime(a.acknowledgedAtMs, tz)}
         {a.acknowledgeNote ? `: “${a.acknowledgeNote}”` : ''}
       </span>
     );
@@ -330,8 +330,8 @@ function FoldedLine({ a, tz, canAck }: { a: OpenAlert; tz: string; canAck: boole
     <li class={`folded-line tone-${tone}`}>
       <LevelShape tone={tone} size={18} />
       <span>
-        <strong>{a.kind === 'level' ? `Level ${a.level} · ${a.label}` : a.label}</strong> raised {hourMinute(a.raisedAtMs, tz)}
-        {a.clearedAtMs !== null ? `, ended ${hourMinute(a.clearedAtMs, tz)}` : ', still in force'} · <AckStatus a={a} tz={tz} canAck={canAck} />
+        <strong>{a.kind === 'level' ? `Level ${a.level} · ${a.label}` : a.label}</strong> raised {dayAwareTime(a.raisedAtMs, tz)}
+        {a.clearedAtMs !== null ? `, ended ${dayAwareTime(a.clearedAtMs, tz)}` : ', still in force'} · <AckStatus a={a} tz={tz} canAck={canAck} />
       </span>
     </li>
   );
@@ -345,12 +345,12 @@ function NoDataBlock({ a, tz, canAck, headed = false }: { a: OpenAlert; tz: stri
       {headed ? null : (
         <p class="nodata-h">
           <LevelShape tone="nodata" size={20} /> <strong>{a.label}</strong>
-          {ended ? ` — readings came back at ${hourMinute(a.clearedAtMs!, tz)}` : ` since ${hourMinute(a.raisedAtMs, tz)}: the wind at this structure is unknown`}
+          {ended ? ` — readings came back at ${dayAwareTime(a.clearedAtMs!, tz)}` : ` since ${dayAwareTime(a.raisedAtMs, tz)}: the wind at this structure is unknown`}
         </p>
       )}
       {ended ? null : <p class="alert-action">{a.actionText}</p>}
       <p class="alert-meta">
-        Raised {hourMinute(a.raisedAtMs, tz)} · <AckStatus a={a} tz={tz} canAck={canAck} />
+        Raised {dayAwareTime(a.raisedAtMs, tz)} · <AckStatus a={a} tz={tz} canAck={canAck} />
       </p>
     </div>
   );
@@ -395,11 +395,11 @@ export function StructureAlertCard({ g }: { g: StructureAlertGroup }) {
           <p class="alert-meta">
             {current ? (
               <>
-                Reached {hourMinute(current.raisedAtMs, tz)}
+                Reached {dayAwareTime(current.raisedAtMs, tz)}
                 {current.gustMps !== null ? ` at ${speed(current.gustMps, unit)}` : ''} · <strong class="alert-holds">in force</strong> · <AckStatus a={current} tz={tz} canAck={canAck} />
               </>
             ) : c.sinceMs !== null ? (
-              <>At this level since {hourMinute(c.sinceMs, tz)}</>
+              <>At this level since {dayAwareTime(c.sinceMs, tz)}</>
             ) : null}
           </p>
         </div>
@@ -449,10 +449,10 @@ export function SensorAlertCard({ g }: { g: SensorAlertGroup }) {
       {g.alerts.map((a) => (
         <div key={a.id} class="sensor-alert-item">
           {a !== g.alerts.find((x) => x.label === heading) ? <p class="nodata-h"><strong>{a.label}</strong></p> : null}
-          {a.clearedAtMs !== null ? <p class="alert-state is-ended">Condition ended at {hourMinute(a.clearedAtMs, tz)}</p> : null}
+          {a.clearedAtMs !== null ? <p class="alert-state is-ended">Condition ended at {dayAwareTime(a.clearedAtMs, tz)}</p> : null}
           <p class="alert-action">{a.actionText}</p>
           <p class="alert-meta">
-            Raised {hourMinute(a.raisedAtMs, tz)}
+            Raised {dayAwareTime(a.raisedAtMs, tz)}
             {a.clearedAtMs === null ? (
               <>
                 {' '}
