@@ -153,10 +153,14 @@ describe.skipIf(skipBrowserTests)('the log and the day report, the morning after
     await signInThroughForm(page, baseUrl, cpLogin.username, cpLogin.password);
     await page.goto(`${baseUrl}/#/log`);
     await page.locator('#log-day').waitFor();
+    const yesterdayLoaded = page.waitForResponse((r) => r.url().includes(`/api/log/wind?day=${yesterday}`));
     await page.fill('#log-day', yesterday);
+    await yesterdayLoaded;
     await page.locator('table caption', { hasText: 'Structures on the register' }).waitFor();
-    // Every chart drawn: the wind of each sensor and the utilization chart.
+    // Every chart drawn: the wind of each sensor and the utilization chart, and yesterday's, not
+    // the last 24 hours' the page opened with (those include the sensor registered today).
     await expect.poll(() => page.locator('figure.chart-fig canvas').count(), { timeout: 10_000 }).toBeGreaterThanOrEqual(demoSensors.length + 1);
+    await expect.poll(() => page.locator('figure.chart-fig figcaption', { hasText: newSensorName }).count(), { timeout: 10_000 }).toBe(0);
     return { context, page };
   }
 
