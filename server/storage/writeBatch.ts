@@ -87,11 +87,13 @@ export function acknowledgementBatch(...rows: AcknowledgementRow[]): WriteBatch 
 
 /** Every field of a batch is a list of rows: a field of another type fails the type check here. */
 type ListsOnly<T> = { [K in keyof T]: T[K] extends readonly unknown[] ? T[K] : never };
-export const everyBatchFieldIsAList: WriteBatch extends ListsOnly<WriteBatch> ? true : never = true;
+const everyBatchFieldIsAList: WriteBatch extends ListsOnly<WriteBatch> ? true : never = true;
+void everyBatchFieldIsAList;
 
 /** Rows of every kind in the batch (every field is a list of rows, so a new kind is counted without a change here). */
 export function batchRowCount(batch: WriteBatch): number {
+  // for-in, not Object.values: the queue counts every message's batch at each commit, and this allocates nothing.
   let rows = 0;
-  for (const list of Object.values(batch) as unknown[][]) rows += list.length;
+  for (const field in batch) rows += (batch as unknown as Record<string, unknown[]>)[field]!.length;
   return rows;
 }
