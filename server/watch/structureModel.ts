@@ -18,6 +18,8 @@ export interface StructureModel extends LiveStructure {
   /** Keys of the governing sensors; null = every sensor on the site (the highest governs). */
   sensorKeys: ReadonlySet<string> | null;
   levels: readonly LevelDefinition[];
+  /** Whether a level rises on a chance trigger (structureForesight.ts): such a structure is never calm by its gust alone. */
+  hasChanceLevel: boolean;
 }
 
 /** What depends on the air density: recomputed when the density changes. */
@@ -40,6 +42,7 @@ export interface StructureRow {
 export function structureModel(row: StructureRow, siteLevels: readonly LevelDefinition[]): StructureModel {
   const keys = row.sensorKeysJson as string[] | null;
   const live = liveStructure(row.recordJson as StructureRecord);
+  const levels = (row.levelsJson as LevelDefinition[] | null) ?? siteLevels;
   // Field by field, not spread: objects built as `{ ...x, more }` each got a shape (hidden class)
   // of their own (990 for 1,000 structures), so every read of a model on the per-reading path
   // missed V8's inline caches; re-assessing 1,000 structures took 2.0 ms instead of 0.7 ms
@@ -55,7 +58,8 @@ export function structureModel(row: StructureRow, siteLevels: readonly LevelDefi
     orientationDeg: row.orientationDeg,
     mobile: row.mobile,
     sensorKeys: keys && keys.length > 0 ? new Set(keys) : null,
-    levels: (row.levelsJson as LevelDefinition[] | null) ?? siteLevels,
+    levels,
+    hasChanceLevel: levels.some((l) => l.trigger.kind === 'chance'),
   };
 }
 
