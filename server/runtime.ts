@@ -220,9 +220,9 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
   const retentionTimer = setInterval(runRetention, 3_600_000);
   retentionTimer.unref();
 
-  // Fed by the live hub's alert events, which are published after their commit (design §5).
+  // Fed by the watch's alert events, handed over after their commit (design §5 v2).
   let publicBase = config.publicUrl ?? '';
-  const notifier = await Notifier.open({ storage, config, hub, watch, queue, now, log, publicBase: () => publicBase }, options.notify);
+  const notifier = await Notifier.open({ storage, config, watch, queue, now, log, publicBase: () => publicBase }, options.notify);
   await notifier.start();
 
   // The forecast feed (design §2.7): its own unref'd timer and requests, never in ingest's way.

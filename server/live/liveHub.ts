@@ -37,7 +37,7 @@ export class LiveHub {
   private size = 0;
   private bytes = 0;
   private readonly listeners = new Set<LiveListener>();
-  /** Listeners inside the server (the notifier), not counted as stream clients. */
+  /** Listeners inside the server (tests, tools), not counted as stream clients; alert channels take the watch's alert events instead (watch/alertEventObservers.ts). */
   private readonly observers = new Set<LiveObserver>();
 
   /**

@@ -1,10 +1,12 @@
 /**
- * Live-hub alert events → notification events (design §4b, issue 16). The hub publishes `alert`
- * (`{...OpenAlert, resignal, overdue?}`) and `alert-update` (the alert after an acknowledgement,
- * a clear or its action done) after the commit; the tracker keeps each alert's last state so an
- * update says which field it set: an acknowledgement, a clear, or both.
+ * The alert book's committed domain events (levels/alertBook.ts `AlertEvent`, handed over by the
+ * watch after their commit: watch/alertEventObservers.ts) → notification events (design §4b,
+ * issue 16), in one place. An event says what happened, so nothing is worked out by comparing
+ * states: a raise, a re-signal, an overdue action, an acknowledgement and a clear each give one
+ * notification event; an action marked done gives none of its own (the acknowledgement it brings,
+ * when nobody had acknowledged, is an event of its own).
  */
-import type { LiveEventMap } from '../live/liveEvents.ts';
+import type { AlertEvent } from '../levels/alertBook.ts';
 import type { OpenAlert } from '../watch/watch.ts';
 
 export const notifyEventNames = ['alert.raised', 'alert.resignalled', 'alert.escalated', 'alert.acknowledged', 'alert.cleared', 'alert.overdue'] as const;
@@ -16,32 +18,45 @@ export interface NotifyEvent {
   alert: OpenAlert;
 }
 
-/** An alert record as the watch publishes it after its commit (live/liveEvents.ts): raised or signalled again, or updated. */
-export type HubAlert = LiveEventMap['alert'] | (LiveEventMap['alert-update'] & { resignal?: undefined; overdue?: undefined });
+/** The notification event of one alert event, or null (an action done); `alert` is the alert as it stands after the commit. */
+export function notifyEventOf(e: AlertEvent, alert: OpenAlert): NotifyEvent | null {
+  switch (e.type) {
+    case 'alert-raised':
+      return { event: 'alert.raised', atMs: alert.raisedAtMs, alert };
+    case 'alert-resignalled':
+      return { event: 'alert.resignalled', atMs: e.atMs, alert };
+    case 'action-overdue':
+      return { event: 'alert.overdue', atMs: e.atMs, alert };
+    case 'alert-acknowledged':
+      return { event: 'alert.acknowledged', atMs: e.atMs, alert };
+    case 'alert-cleared':
+      return { event: 'alert.cleared', atMs: e.atMs, alert };
+    case 'action-done':
+      return null;
+  }
+}
 
-export class AlertEventTracker {
-  /** Each alert still open, as last seen (the escalation chain reads it too). */
+/**
+ * The alerts open as committed (the escalation chain reads them): seeded with the alerts restored
+ * at start (which are never notified as raised again), kept by the committed events.
+ */
+export class CommittedAlerts {
   readonly open = new Map<number, OpenAlert>();
 
-  /** The alerts open at start (rebuilt from the log), so their later updates are told apart. */
   seed(alerts: readonly OpenAlert[]): void {
     for (const a of alerts) this.open.set(a.id, { ...a });
   }
 
-  take(kind: 'alert' | 'alert-update', alert: HubAlert): NotifyEvent[] {
-    const { resignal, overdue, ...plain } = alert;
-    const prev = this.open.get(alert.id);
+  /** Committed events → notification events, each with a copy of its alert as it stands now (after the commit). */
+  take(events: readonly AlertEvent[]): NotifyEvent[] {
     const out: NotifyEvent[] = [];
-    if (kind === 'alert') {
-      if (overdue === true) out.push({ event: 'alert.overdue', atMs: plain.overdueAtMs ?? plain.lastSignalledAtMs, alert: plain });
-      else if (resignal === true) out.push({ event: 'alert.resignalled', atMs: plain.lastSignalledAtMs, alert: plain });
-      else out.push({ event: 'alert.raised', atMs: plain.raisedAtMs, alert: plain });
-    } else {
-      if (plain.acknowledgedAtMs !== null && (prev === undefined || prev.acknowledgedAtMs === null)) out.push({ event: 'alert.acknowledged', atMs: plain.acknowledgedAtMs, alert: plain });
-      if (plain.clearedAtMs !== null && (prev === undefined || prev.clearedAtMs === null)) out.push({ event: 'alert.cleared', atMs: plain.clearedAtMs, alert: plain });
+    for (const e of events) {
+      const alert = { ...e.alert };
+      const n = notifyEventOf(e, alert);
+      if (n) out.push(n);
+      if (alert.acknowledgedAtMs !== null && alert.clearedAtMs !== null) this.open.delete(alert.id);
+      else this.open.set(alert.id, alert);
     }
-    if (plain.acknowledgedAtMs !== null && plain.clearedAtMs !== null) this.open.delete(plain.id);
-    else this.open.set(plain.id, plain);
     return out;
   }
 }

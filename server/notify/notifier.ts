@@ -1,12 +1,12 @@
 /**
- * Alert notifications (design §4b, issue 16): fed by the live hub's `alert` and `alert-update`
- * events, which are published after their commit. A hub listener only queues the event in memory;
- * on the next turn each event becomes outbox rows (one per recipient and channel) and the
- * dispatcher sends them, each with its own timeout: nothing here runs on the reading's path, and
- * no channel waits for another. The escalation chain is checked every few seconds.
+ * Alert notifications (design §4b, issue 16): fed by the watch's alert events (levels/alertBook.ts
+ * `AlertEvent`), handed over only after their commit (`Watch.observeAlertEvents`,
+ * watch/alertEventObservers.ts) and mapped to notification events once (events.ts). The observer
+ * only queues them in memory; on the next turn each event becomes outbox rows (one per recipient
+ * and channel) and the dispatcher sends them, each with its own timeout: nothing here runs on the
+ * reading's path, and no channel waits for another. The escalation chain is checked every few seconds.
  */
 import type { Config } from '../config.ts';
-import type { LiveHub } from '../live/liveHub.ts';
 import type { Logger } from '../log.ts';
 import { getSite } from '../register/site.ts';
 import type { Storage } from '../storage/storage.ts';
@@ -20,7 +20,7 @@ import { WebhookChannel, type WebhookEndpoint } from './channels/webhook.ts';
 import { Dispatcher } from './dispatcher.ts';
 import { alertEmail, testEmail } from './emailMessage.ts';
 import { dueSteps, escalationChainSchema, type EscalationStep } from './escalation.ts';
-import { AlertEventTracker, type NotifyEvent, type NotifyEventName } from './events.ts';
+import { CommittedAlerts, type NotifyEvent, type NotifyEventName } from './events.ts';
 import { filterPasses, storedFilter } from './filter.ts';
 import type { NewDelivery, Outbox } from './outbox.ts';
 import { PushNotifier } from './pushNotifier.ts';
@@ -46,7 +46,7 @@ export interface NotifierOptions {
 export interface NotifierDeps {
   storage: Storage;
   config: Config;
-  hub: LiveHub;
+  /** Its committed alert events feed the notifications; acknowledgements by link go through it. */
   watch: Watch;
   queue: WriteQueue;
   /** The server's clock (alert times). */
@@ -65,7 +65,8 @@ export class Notifier {
   /** Web Push: subscriptions, the VAPID key, the notification buttons (pushNotifier.ts). */
   readonly push: PushNotifier;
   private readonly dispatcher: Dispatcher;
-  private readonly tracker = new AlertEventTracker();
+  /** The alerts open as committed, for the escalation chain. */
+  private readonly committed = new CommittedAlerts();
   private readonly waiting: NotifyEvent[] = [];
   private processing = false;
   private unsubscribe: (() => void) | null = null;
@@ -114,17 +115,16 @@ export class Notifier {
 
   async start(): Promise<void> {
     const stepsTaken = await this.deps.storage.notifications.stepsTaken();
-    this.tracker.seed(this.deps.watch.openAlerts());
+    // Restored from the log: open, never notified as raised again.
+    this.committed.seed(this.deps.watch.openAlerts());
     for (const r of stepsTaken) {
       let set = this.taken.get(r.alertId);
       if (!set) this.taken.set(r.alertId, (set = new Set()));
       set.add(r.step);
     }
-    // Fed the typed alert records the watch publishes after their commit, not the stream's JSON.
-    this.unsubscribe = this.deps.hub.observe((_event, record) => {
-      if (record === null || (record.kind !== 'alert' && record.kind !== 'alert-update')) return;
-      // The observer runs inside the publisher's turn: queue in memory only.
-      this.waiting.push(...this.tracker.take(record.kind, record.payload));
+    // The watch's alert events, after their commit. The observer runs in the committing turn: queue in memory only.
+    this.unsubscribe = this.deps.watch.observeAlertEvents((events) => {
+      this.waiting.push(...this.committed.take(events));
       this.scheduleProcessing();
     });
     this.escalationTimer = setInterval(() => void this.checkEscalations(), this.options.escalationCheckMs ?? 5_000);
@@ -220,7 +220,7 @@ export class Notifier {
     }
     if (chains.size === 0) return;
     const items: NewDelivery[] = [];
-    for (const alert of this.tracker.open.values()) {
+    for (const alert of this.committed.open.values()) {
       if (alert.kind !== 'level' || alert.level === null || alert.acknowledgedAtMs !== null || alert.clearedAtMs !== null) continue;
       const steps = chains.get(alert.level);
       if (!steps) continue;

@@ -56,10 +56,11 @@ import { Conflict, Invalid, NotFound } from '../domainErrors.ts';
 import type { WriteBatch } from '../storage/writeBatch.ts';
 import { batchRowCount, emptyWriteBatch } from '../storage/writeBatch.ts';
 import { summaryStatistics, windowStatistics } from '../foresight/index.ts';
-import { AlertBook, defaultResignalIntervalMs, type NewAlert, type OpenAlert } from '../levels/alertBook.ts';
+import { AlertBook, defaultResignalIntervalMs, type AlertEvent, type NewAlert, type OpenAlert } from '../levels/alertBook.ts';
 import { chanceRiseWords, clockOffsetWords, escalationWords, noDataWords, sensorClockWords, sensorImplausibleWords, sensorSilentWords, sensorUnusableWords, type SensorFacts } from '../levels/alertWords.ts';
 import { watchEventRows } from '../storage/watchRows.ts';
 import type { WatchEvent } from './watchEvents.ts';
+import { AlertEventObservers, type AlertEventObserver } from './alertEventObservers.ts';
 import { byUrgency } from '../live/liveEvents.ts';
 import { publishMessages, type LiveMessage } from '../live/liveMessages.ts';
 import { foresightCell, foresightIdentity, levelChances, structureForesight, type StructureForesight } from './structureForesight.ts';
@@ -147,6 +148,8 @@ export class Watch implements ReadingConsumer {
   private structuresBySensorKey = new Map<string, StructureLive[]>();
   /** Every alert from raise to end (levels/alertBook.ts); the watch says when, the book keeps them. */
   private readonly book = new AlertBook();
+  /** Who hears of the book's events once committed (the notification channels: alertEventObservers.ts). */
+  private readonly alertObservers = new AlertEventObservers((err) => this.options.onNotice?.('an alert-event observer failed', { err: String(err) }));
   private airDensityKgM3 = isaSeaLevelDensityKgM3;
   private airDensityBasis: 'isa' | 'measured' | 'fixed' = 'isa';
   /** Site-wide maxima of the decomposition above; recomputed per live reading. */
@@ -773,14 +776,17 @@ export class Watch implements ReadingConsumer {
    * Domain events (watchEvents.ts, levels/alertBook.ts) into the batch (storage/watchRows.ts) and
    * into stream messages that go out after the commit: a raise, a re-signal or an overdue action as
    * an `alert` message; a clear, an acknowledgement or an action done as one `alert-update` per
-   * alert. A structure's own events reach the stream as its `structure` message (evaluate).
+   * alert; then the alert events themselves for the observers (`observeAlertEvents`). A
+   * structure's own events reach the stream as its `structure` message (evaluate).
    */
   private record(events: readonly WatchEvent[], batch: WriteBatch, announcements: LiveMessage[]): void {
     if (events.length === 0) return;
     watchEventRows(events, this.site.id, batch);
     const updated = new Map<number, OpenAlert>();
+    const alertEvents: AlertEvent[] = [];
     for (const e of events) {
       if (!('alert' in e)) continue;
+      alertEvents.push(e);
       const alert = e.alert;
       if (e.type === 'alert-raised') announcements.push({ kind: 'alert', payload: () => ({ ...alert, resignal: false }) });
       else if (e.type === 'alert-resignalled') announcements.push({ kind: 'alert', payload: () => ({ ...alert, resignal: true }) });
@@ -788,6 +794,7 @@ export class Watch implements ReadingConsumer {
       else updated.set(alert.id, alert);
     }
     for (const alert of updated.values()) announcements.push({ kind: 'alert-update', payload: alert });
+    if (alertEvents.length > 0) announcements.push({ kind: 'alert-events', events: alertEvents, to: this.alertObservers });
   }
 
   /** A sensor's facts for the alert texts (levels/alertWords.ts). */
@@ -1037,12 +1044,27 @@ export class Watch implements ReadingConsumer {
 
   // ---------- acknowledgement ----------
 
-  /** Marks an alert acknowledged in memory and announces it (the caller has stored it). */
+  /**
+   * Marks an alert acknowledged in memory and announces it: the stream, then the observers (the
+   * caller has stored it, or had it held: this is its after-commit step).
+   */
   acknowledged(id: number, by: string, note: string | null, atMs: number): OpenAlert | null {
     const alert = this.book.get(id);
     if (!alert) return null;
-    if (this.book.acknowledge(id, { by, note, atMs, actor: by }).length > 0) this.options.hub.publish('alert-update', alert);
+    const events = this.book.acknowledge(id, { by, note, atMs, actor: by });
+    if (events.length > 0) {
+      this.options.hub.publish('alert-update', alert);
+      this.alertObservers.deliver(events);
+    }
     return alert;
+  }
+
+  /**
+   * The seam for alert channels: `observer` gets the alert book's events (raised, re-signalled,
+   * overdue, acknowledged, action done, cleared) after their commit, in order. Returns the unsubscribe.
+   */
+  observeAlertEvents(observer: AlertEventObserver): () => void {
+    return this.alertObservers.observe(observer);
   }
 
   /** The configuration a level's action moves the structure to, as the structure names it; null when it has none of that name (a site default level). */

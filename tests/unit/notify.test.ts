@@ -6,7 +6,7 @@
 import { createHmac } from 'node:crypto';
 import { describe, expect, it } from 'vitest';
 import { checkAckToken, makeAckToken } from '../../server/notify/ackTokens.ts';
-import { AlertEventTracker } from '../../server/notify/events.ts';
+import { CommittedAlerts } from '../../server/notify/events.ts';
 import { filterPasses, notifyFilterSchema, storedFilter } from '../../server/notify/filter.ts';
 import { dueSteps, escalationChainsSchema } from '../../server/notify/escalation.ts';
 import { defaultMaxAttempts, defaultRetryDelaysMs, retryDelayMs } from '../../server/notify/retrySchedule.ts';
@@ -30,16 +30,17 @@ describe('retry schedule', () => {
   });
 });
 
-describe('hub events to notification events', () => {
-  it('tells raised, re-signalled, overdue, acknowledged and cleared apart by what changed', () => {
-    const t = new AlertEventTracker();
-    expect(t.take('alert', { ...base, resignal: false }).map((e) => [e.event, e.atMs])).toEqual([['alert.raised', 1_000]]);
-    expect(t.take('alert', { ...base, lastSignalledAtMs: 121_000, resignal: true }).map((e) => e.event)).toEqual(['alert.resignalled']);
-    expect(t.take('alert', { ...base, overdueAtMs: 301_000, lastSignalledAtMs: 301_000, resignal: true, overdue: true }).map((e) => [e.event, e.atMs])).toEqual([['alert.overdue', 301_000]]);
-    expect(t.take('alert-update', { ...base, actionDoneAtMs: 302_000 })).toEqual([]);
-    expect(t.take('alert-update', { ...base, acknowledgedAtMs: 400_000, acknowledgedBy: 'Ana' }).map((e) => e.event)).toEqual(['alert.acknowledged']);
-    // The same acknowledgement again (the update of a clear) is not announced twice.
-    expect(t.take('alert-update', { ...base, acknowledgedAtMs: 400_000, acknowledgedBy: 'Ana', clearedAtMs: 500_000 }).map((e) => e.event)).toEqual(['alert.cleared']);
+describe('alert events to notification events', () => {
+  it('tells raised, re-signalled, overdue, acknowledged and cleared apart by the committed alert events', () => {
+    const t = new CommittedAlerts();
+    const raised = { kind: 'level' as const, structureId: 3, sensorId: null, sensorKey: 'north-mast', level: 2, label: 'Lower', actionText: 'Lower the wall.', raisedAtMs: 1_000, gustMps: 13.04, utilization: 0.75, moveToConfiguration: null, subject: 'LED wall' };
+    expect(t.take([{ type: 'alert-raised', alert: { ...base }, raised }]).map((e) => [e.event, e.atMs])).toEqual([['alert.raised', 1_000]]);
+    expect(t.take([{ type: 'alert-resignalled', alert: { ...base, lastSignalledAtMs: 121_000 }, atMs: 121_000 }]).map((e) => e.event)).toEqual(['alert.resignalled']);
+    expect(t.take([{ type: 'action-overdue', alert: { ...base, overdueAtMs: 301_000, lastSignalledAtMs: 301_000 }, atMs: 301_000 }]).map((e) => [e.event, e.atMs])).toEqual([['alert.overdue', 301_000]]);
+    expect(t.take([{ type: 'action-done', alert: { ...base, actionDoneAtMs: 302_000 }, atMs: 302_000, by: 'Ana' }])).toEqual([]);
+    expect(t.take([{ type: 'alert-acknowledged', alert: { ...base, acknowledgedAtMs: 400_000, acknowledgedBy: 'Ana' }, atMs: 400_000, by: 'Ana', note: null, actor: 'Ana' }]).map((e) => e.event)).toEqual(['alert.acknowledged']);
+    // The clear of an alert acknowledged before announces the clear only, not the acknowledgement again.
+    expect(t.take([{ type: 'alert-cleared', alert: { ...base, acknowledgedAtMs: 400_000, acknowledgedBy: 'Ana', clearedAtMs: 500_000 }, atMs: 500_000 }]).map((e) => e.event)).toEqual(['alert.cleared']);
     expect(t.open.has(base.id)).toBe(false);
   });
 });
