@@ -147,21 +147,39 @@ export function compactStability(coefficients: StabilityCoefficients): CompactSt
   };
 }
 
+export interface CompactCase {
+  readonly element: string | null;
+  readonly directionDeg: number;
+  readonly criterion: Criterion;
+  readonly tippingEdge: Edge;
+  readonly perPa: number;
+}
+
+/**
+ * The case over every direction, kept per structure: it does not move with the wind (every
+ * utilization is k·q), and the live watch asks for it for every structure whose gust moved.
+ * A compact stability is never changed once built (compactStability).
+ */
+const allDirectionsCase = new WeakMap<CompactStability, CompactCase>();
+
 /** The governing case of a compact structure: part, direction, criterion, edge and k (the first on a tie). */
-export function compactGoverningCase(
-  stability: CompactStability,
-  sector: AssessedDirections = null,
-): { element: string | null; directionDeg: number; criterion: Criterion; tippingEdge: Edge; perPa: number } {
+export function compactGoverningCase(stability: CompactStability, sector: AssessedDirections = null): CompactCase {
+  if (sector === null) {
+    const kept = allDirectionsCase.get(stability);
+    if (kept !== undefined) return kept;
+  }
   const count = stability.directionsDeg.length;
   const found = highestK(stability.directionsDeg, stability.parts.length, (p, d) => stability.k[p * count + d]!, sector);
   const index = found.part * count + found.direction;
-  return {
+  const worst: CompactCase = {
     element: stability.parts[found.part]!,
     directionDeg: stability.directionsDeg[found.direction]!,
     criterion: criteria[stability.criterion[index]!]!,
     tippingEdge: edges[stability.edge[index]!]!,
     perPa: stability.k[index]!,
   };
+  if (sector === null) allDirectionsCase.set(stability, worst);
+  return worst;
 }
 
 /** The structure's coefficients, full (the calculator's) or compact (the watch's). */

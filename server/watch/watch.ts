@@ -123,7 +123,11 @@ export interface WatchOptions {
   resignalIntervalMs?: number;
   /** Called on level changes and sensor trouble, for the server log. */
   onNotice?: (message: string, detail: Record<string, unknown>) => void;
-  /** Re-assess every structure through `evaluate`, without the calm shortcut of `evaluateSiteWide` (for the test that compares the two). */
+  /**
+   * Take the full paths only: every structure through `evaluate` (no calm shortcut in
+   * `evaluateSiteWide`) and the stream's structure rows from the whole card (no `windUpdate`).
+   * For the test that compares the two.
+   */
   reassessInFull?: boolean;
 }
 
@@ -159,6 +163,10 @@ export class Watch implements ReadingConsumer {
   private maxSensorKey: string | null = null;
   private maxClampedSensorKey: string | null = null;
   private maxUnclampedSensorKey: string | null = null;
+  /** The sensors behind the three maxima, for `settleCalm` (set by `prepareCalmShortcut`). */
+  private calmClamped: SensorLive | undefined = undefined;
+  private calmUnclamped: SensorLive | undefined = undefined;
+  private calmFastest: SensorLive | undefined = undefined;
   private readonly startedAtMs: number;
   private readonly wallClock: () => number;
   /** The watch's last time and the monotonic clock then (see `now`). */
@@ -419,8 +427,7 @@ export class Watch implements ReadingConsumer {
     const moved = this.recomputeMaxima(receivedAtMs);
     // Structures on every sensor change only when a site-wide maximum moved (or with direction);
     // structures with their own sensor list only when one of theirs reported.
-    if (this.site.directionalEnabled) for (const s of this.allSensorStructures) this.evaluate(s, receivedAtMs, batch, announcements);
-    else if (moved) this.evaluateSiteWide(receivedAtMs, batch, announcements);
+    if (moved || this.site.directionalEnabled) this.evaluateSiteWide(receivedAtMs, batch, announcements);
     for (const s of this.structuresBySensorKey.get(sensor.key) ?? noStructures) this.evaluate(s, receivedAtMs, batch, announcements);
     // The sensor's wind goes to the stream in the next once-a-second `winds` frame (tick).
     return { batch, afterCommit: announcements.length > 0 ? () => publishMessages(this.options.hub, announcements) : null };
@@ -591,67 +598,67 @@ export class Watch implements ReadingConsumer {
   }
 
   /**
-   * `evaluate` for every structure that takes its wind from all sensors, without directional
-   * assessment, after a site-wide maximum moved (1.6 % of readings with 100 sensors, each then
-   * touching every such structure). A calm structure (level 0, with data, no chance trigger, its
-   * gust under its first trigger) is settled here with the same arithmetic as `governingGust` and
-   * the same steps as `evaluate`'s calm branch, without allocating; any other goes through
-   * `evaluate`. The governing sensors are looked up once, not per structure.
+   * `evaluate` for every structure that takes its wind from all sensors, after a site-wide
+   * maximum moved (1.6 % of readings with 100 sensors, each then touching every such structure)
+   * or, with directional assessment, after every live reading. Without directional assessment a
+   * calm structure is settled by `settleCalm`, without the per-structure result objects of
+   * `governingGust` and `evaluate`; the tick takes the same shortcut.
    */
   private evaluateSiteWide(nowMs: number, batch: WriteBatch, announcements: LiveMessage[]): void {
-    if (this.maxGustMps < 0 || this.options.reassessInFull === true) {
-      for (const s of this.allSensorStructures) this.evaluate(s, nowMs, batch, announcements);
-      return;
-    }
-    const clampedKey = this.maxClampedSensorKey!;
-    const unclampedKey = this.maxUnclampedSensorKey!;
-    const maxKey = this.maxSensorKey!;
-    const clamped = this.sensorsByKey.get(clampedKey);
-    const unclamped = this.sensorsByKey.get(unclampedKey);
-    const fastest = this.sensorsByKey.get(maxKey);
-    const perClamped = this.maxGustPerClamped;
-    const perUnclamped = this.maxGustPerUnclamped;
-    const maxGust = this.maxGustMps;
-    const noReduction = !this.site.heightReductionEnabled;
+    const shortcut = this.prepareCalmShortcut();
     for (const s of this.allSensorStructures) {
       if (s.error !== null) continue;
-      const level = s.level;
-      if (level.level !== 0 || level.noData || s.model.hasChanceLevel) {
-        this.evaluate(s, nowMs, batch, announcements);
-        continue;
-      }
-      // As governingGust: max over sensors of g·max(rc_t/rc_s, ru_t/ru_s), and ≥ g without reduction.
-      let gust = s.profile.clamped * perClamped;
-      let live = clamped;
-      let key = clampedKey;
-      const fromUnclamped = s.profile.unclamped * perUnclamped;
-      if (fromUnclamped > gust) {
-        gust = fromUnclamped;
-        live = unclamped;
-        key = unclampedKey;
-      }
-      if (noReduction && maxGust >= gust) {
-        gust = maxGust;
-        live = fastest;
-        key = maxKey;
-      }
-      const gustMps = Math.min(gust, maxPlausibleSpeedMps);
-      if (!(gustMps < s.density.triggerGustsMps[0]!)) {
-        this.evaluate(s, nowMs, batch, announcements);
-        continue;
-      }
-      // evaluate's calm branch: the level machine would change nothing.
-      s.gustMps = gustMps;
-      s.governingSensorKey = key;
-      s.windFromDeg = live?.meanDirDeg ?? null;
-      const gustAtMs = live?.wind.newestTsMs ?? nowMs;
-      this.noteMinute(s, Number.isFinite(gustAtMs) ? Math.min(gustAtMs, nowMs) : nowMs, gustMps, batch);
-      s.evaluatedAtMs = nowMs;
-      const shown = s.shown;
-      if (shown === null || shown.level !== 0 || shown.noData || shown.sensorKey !== key || Math.abs((shown.gustMps ?? -1) - gustMps) >= 0.05) {
-        this.markShown(s, nowMs);
-      }
+      if (!shortcut || !this.settleCalm(s, nowMs, batch)) this.evaluate(s, nowMs, batch, announcements);
     }
+  }
+
+  /** The governing sensors of the site-wide maxima, looked up once per pass (see `settleCalm`); false when there is no shortcut to take. */
+  private prepareCalmShortcut(): boolean {
+    if (this.maxGustMps < 0 || this.site.directionalEnabled || this.options.reassessInFull === true) return false;
+    this.calmClamped = this.sensorsByKey.get(this.maxClampedSensorKey!);
+    this.calmUnclamped = this.sensorsByKey.get(this.maxUnclampedSensorKey!);
+    this.calmFastest = this.sensorsByKey.get(this.maxSensorKey!);
+    return true;
+  }
+
+  /**
+   * A structure on every sensor, without directional assessment, settled as `evaluate`'s calm
+   * branch would settle it (level 0, with data, no chance trigger, the gust under the first
+   * trigger), with `governingGust`'s arithmetic; false, and nothing changed, for any other.
+   * Only after `prepareCalmShortcut` returned true in the same pass.
+   */
+  private settleCalm(s: StructureLive, nowMs: number, batch: WriteBatch): boolean {
+    const level = s.level;
+    if (level.level !== 0 || level.noData || s.model.hasChanceLevel || s.model.sensorKeys !== null) return false;
+    // As governingGust: max over sensors of g·max(rc_t/rc_s, ru_t/ru_s), and ≥ g without reduction.
+    let gust = s.profile.clamped * this.maxGustPerClamped;
+    let live = this.calmClamped;
+    let key = this.maxClampedSensorKey!;
+    const fromUnclamped = s.profile.unclamped * this.maxGustPerUnclamped;
+    if (fromUnclamped > gust) {
+      gust = fromUnclamped;
+      live = this.calmUnclamped;
+      key = this.maxUnclampedSensorKey!;
+    }
+    if (!this.site.heightReductionEnabled && this.maxGustMps >= gust) {
+      gust = this.maxGustMps;
+      live = this.calmFastest;
+      key = this.maxSensorKey!;
+    }
+    const gustMps = Math.min(gust, maxPlausibleSpeedMps);
+    if (!(gustMps < s.density.triggerGustsMps[0]!)) return false;
+    // evaluate's calm branch: the level machine would change nothing.
+    s.gustMps = gustMps;
+    s.governingSensorKey = key;
+    s.windFromDeg = live?.meanDirDeg ?? null;
+    const gustAtMs = live?.wind.newestTsMs ?? nowMs;
+    this.noteMinute(s, Number.isFinite(gustAtMs) ? Math.min(gustAtMs, nowMs) : nowMs, gustMps, batch);
+    s.evaluatedAtMs = nowMs;
+    const shown = s.shown;
+    if (shown === null || shown.level !== 0 || shown.noData || shown.sensorKey !== key || Math.abs((shown.gustMps ?? -1) - gustMps) >= 0.05) {
+      this.markShown(s, nowMs);
+    }
+    return true;
   }
 
   /** Notes what the next announcement will show of the structure, and queues it for the once-a-second frame. */
@@ -867,10 +874,12 @@ export class Watch implements ReadingConsumer {
     }
     this.recomputeMaxima(nowMs);
 
+    const shortcut = this.prepareCalmShortcut();
     for (const s of this.structures.values()) {
       if (s.error !== null) continue;
-      // Re-evaluate: a sensor may have gone silent (→ no data), or a hold may have run out.
-      this.evaluate(s, nowMs, batch, announcements);
+      // Re-evaluate: a sensor may have gone silent (→ no data), or a hold may have run out (a
+      // calm structure has neither: settleCalm).
+      if (!shortcut || !this.settleCalm(s, nowMs, batch)) this.evaluate(s, nowMs, batch, announcements);
       if (s.level.noData && s.noDataAlertId === null && nowMs - this.startedAtMs >= startGraceMs) this.raiseNoData(s, nowMs, batch, announcements);
       if (s.minuteDirty) this.pushMinute(s, batch);
     }
@@ -1216,6 +1225,7 @@ export class Watch implements ReadingConsumer {
   }
 
   structureUpdate(s: StructureLive): StructureUpdate {
+    if (!this.site.directionalEnabled && this.options.reassessInFull !== true) return this.windUpdate(s);
     const state = this.structureState(s);
     return {
       id: state.id,
@@ -1244,6 +1254,38 @@ export class Watch implements ReadingConsumer {
             triggerGustsMps: state.triggerGustsMps,
           }
         : {}),
+    };
+  }
+
+  /**
+   * `structureUpdate` over every direction: only the fields that follow the wind, worked out as
+   * `structureState` does, without the rest of the card (every configuration's limits, the level
+   * list, the warnings), which the once-a-second frame does not send. Building the whole card for
+   * every structure whose gust moved made the tick the longest task on the event loop.
+   */
+  private windUpdate(s: StructureLive): StructureUpdate {
+    let utilization: number | null = null;
+    let calculatedUtilization: number | null = null;
+    if (s.gustMps !== null && !s.level.noData && s.error === null) {
+      const found = caseAtGust(s.model.stability, s.gustMps, this.airDensityKgM3, this.sector(s, s.windFromDeg));
+      utilization = found.utilization;
+      calculatedUtilization = Number.isFinite(found.calculatedUtilization) ? found.calculatedUtilization : null;
+    }
+    const unbounded = utilization !== null && !Number.isFinite(utilization);
+    return {
+      id: s.model.id,
+      level: s.level.level,
+      levelLabel: s.level.level > 0 ? (s.model.levels[s.level.level - 1]?.label ?? null) : null,
+      levelSinceMs: s.level.sinceMs,
+      noData: s.level.noData || s.error !== null,
+      gustMps: s.level.noData ? null : s.gustMps,
+      governingSensorKey: s.level.noData ? null : s.governingSensorKey,
+      windFromDeg: s.windFromDeg,
+      utilization: unbounded ? null : utilization,
+      calculatedUtilization,
+      margin: utilization === null || unbounded ? null : 1 - utilization,
+      unbounded,
+      evaluatedAtMs: s.evaluatedAtMs,
     };
   }
 

@@ -115,7 +115,7 @@ export function longTasks(profile: CpuProfile, minMs: number): Array<{ startMs: 
           per.set(l.key, e);
         }
       }
-      const top = [...per.values()].filter((e) => e.where.startsWith('server/') || e.where.includes('node_modules/') || e.name === '(garbage collector)').sort((a, b) => b.ms - a.ms).slice(0, 8);
+      const top = [...per.values()].filter((e) => e.where.startsWith('server/') || e.where.startsWith('dist/server/') || e.where.includes('node_modules/') || e.name === '(garbage collector)').sort((a, b) => b.ms - a.ms).slice(0, 8);
       out.push({ startMs: (taskStart - profile.startTime) / 1000, durationMs: (end - taskStart) / 1000, top });
     }
     taskStart = -1;

@@ -1,7 +1,8 @@
 /**
- * The watch's shortcut for calm structures (watch.ts `evaluateSiteWide`) must change nothing:
- * two watches fed the same readings, one taking every structure through the full `evaluate`
- * (`reassessInFull`), must write the same rows, raise the same alerts and show the same cards.
+ * The watch's shortcuts (watch.ts `evaluateSiteWide` for calm structures, `windUpdate` for the
+ * stream's structure rows) must change nothing: two watches fed the same readings, one taking the
+ * full paths only (`reassessInFull`), must write the same rows, raise the same alerts, publish
+ * the same stream and show the same cards.
  * The wind is invented and seeded (demo-style data: this is a check of the code against itself,
  * the physics is checked elsewhere); the gusts sweep from calm to past the first triggers and
  * back, over sensors at different heights, with and without height reduction (design §2.2 v2).
@@ -60,7 +61,8 @@ function random(seed: number): () => number {
 
 function run(heightReductionEnabled: boolean, reassessInFull: boolean, seed: number): string[] {
   let now = t0;
-  const watch = new Watch({ hub: new LiveHub(100), now: () => now, reassessInFull });
+  const hub = new LiveHub(100_000, 1e9);
+  const watch = new Watch({ hub, now: () => now, reassessInFull });
   const sensors = heights.map((h, i) => sensor(i + 1, h));
   watch.configure(testSite({ heightReductionEnabled }), sensors, Array.from({ length: 60 }, (_, i) => board(i + 1)));
   const next = random(seed);
@@ -74,21 +76,24 @@ function run(heightReductionEnabled: boolean, reassessInFull: boolean, seed: num
     // Now and then a mast stops reporting for a while (silence takes it out of the maxima).
     if (s.id === 6 && step % 1_000 > 700) continue;
     const reading: Reading = { tsMs: now - Math.floor(next() * 3_000), speedMps: gust / 1.4, gustMps: gust, dirDeg: Math.floor(next() * 360), tempC: null, pressurePa: null, rhPct: null };
-    const { batch } = watch.take(s, [reading], now);
+    const { batch, afterCommit } = watch.take(s, [reading], now);
     out.push(JSON.stringify(batch));
+    afterCommit?.();
     if (step % 7 === 0) {
       const ticked = watch.tick();
       out.push(JSON.stringify(ticked?.batch ?? null));
+      ticked?.afterCommit();
     }
     if (step % 250 === 0) out.push(JSON.stringify(watch.snapshot().structures));
   }
+  for (const event of hub.since(0) ?? []) out.push(`${event.kind} ${event.data}`);
   out.push(JSON.stringify(watch.snapshot()));
   return out;
 }
 
 describe('the calm shortcut when a site-wide gust moves', () => {
   for (const heightReductionEnabled of [false, true]) {
-    it(`writes, raises and shows exactly what the full re-assessment does (height reduction ${heightReductionEnabled ? 'on' : 'off'})`, () => {
+    it(`writes, raises, publishes and shows exactly what the full paths do (height reduction ${heightReductionEnabled ? 'on' : 'off'})`, () => {
       const full = run(heightReductionEnabled, true, 20261203);
       const shortcut = run(heightReductionEnabled, false, 20261203);
       expect(shortcut.length).toBe(full.length);
@@ -98,6 +103,8 @@ describe('the calm shortcut when a site-wide gust moves', () => {
       const levelRows = full.filter((line) => line.includes('"levelChanges":[{')).length;
       expect(levelRows).toBeGreaterThan(10);
       expect(last.structures.length).toBe(60);
+      // The stream's once-a-second structure rows are part of what is compared.
+      expect(full.filter((line) => line.startsWith('structures ')).length).toBeGreaterThan(100);
     });
   }
 });
