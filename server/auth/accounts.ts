@@ -116,7 +116,7 @@ export class Accounts {
   async checkPassword(username: string, password: string): Promise<Person | null> {
     const row = await this.storage.people.byUsername(username);
     // Hash anyway for an unknown user, so timing does not tell which usernames exist.
-    const ok = await verifyPassword(password, row?.passwordHash ?? 'scrypt$8192$8$10$AAAAAAAAAAAAAAAAAAAAAA==$AAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAA=');
+    const ok = await verifyPassword(password, row?.passwordHash ?? 'scrypt$32768$8$1$AAAAAAAAAAAAAAAAAAAAAA==$AAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAA=');
     if (!row || !ok || row.disabledAtMs !== null) return null;
     return toPerson(row);
   }

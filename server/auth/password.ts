@@ -1,30 +1,24 @@
 /**
  * Password hashing with scrypt (memory-hard; RFC 7914) from Node's crypto. Stored as
- * `scrypt$N$r$p$saltB64$hashB64` so the cost can change without breaking old hashes (a hash
- * made with other parameters still verifies with its own).
- *
- * N = 2^13, r = 8, p = 10: one of the equivalent settings the OWASP Password Storage Cheat Sheet
- * lists for scrypt (its minimum is N = 2^17, r = 8, p = 1, or the same work with a smaller N and a
- * larger p; from memory). Memory is 128·r·N = 8 MiB per derivation, the parallel lanes running one
- * after another; about 170 ms per hash on this machine. The earlier N = 2^15, r = 8, p = 1 did a
- * quarter of that minimum's work and held 32 MiB, which showed as the server's resident-memory
- * peak when a gateway signed in under load (`npm run bench`, VmHWM).
+ * `scrypt$N$r$p$saltB64$hashB64` so the cost can rise later without breaking old hashes.
+ * N = 2^15, r = 8, p = 1 uses 32 MiB and about 50 ms per hash on this machine — slow enough to
+ * hurt guessing, fast enough for sign-in and MQTT CONNECT.
  */
 import { randomBytes, scrypt, timingSafeEqual } from 'node:crypto';
 
-const costN = 2 ** 13;
+const costN = 2 ** 15;
 const blockSizeR = 8;
-const parallelP = 10;
+const parallelP = 1;
 const keyLengthBytes = 32;
 const maxmemBytes = 64 * 1024 * 1024;
 
 /**
- * One derivation at a time per lane: each holds 8 MiB, and a burst of sign-ins or gateway
- * connections must not multiply the server's memory (measured with the earlier 32 MiB setting: 4 at
- * once took resident memory from 226 to 315 MB). The web (people signing in, passwords being set) and the broker (gateways
+ * One derivation at a time per lane: each holds 32 MiB, and a burst of sign-ins or gateway
+ * connections must not multiply the server's memory (measured: 4 at once took resident memory
+ * from 226 to 315 MB). The web (people signing in, passwords being set) and the broker (gateways
  * connecting) have a lane each, so a flood of wrong-password CONNECTs cannot make a crew member's
  * sign-in wait behind it, nor a flood of web guesses hold back a gateway (issue 13 item 3): at most
- * two derivations, 16 MiB, run at once. Sign-in speed is not what matters here; the sign-in
+ * two derivations, 64 MiB, run at once. Sign-in speed is not what matters here; the sign-in
  * limiters refuse cheaply, before any derivation, once a username or an address is locked.
  */
 export type PasswordLane = 'web' | 'broker';
