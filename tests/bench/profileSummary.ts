@@ -5,11 +5,14 @@
  *
  *   node --import tsx tests/bench/profileSummary.ts <file.cpuprofile> [top=25] [filter]
  *   node --import tsx tests/bench/profileSummary.ts <file.cpuprofile> --long [minMs=20]
+ *   node --import tsx tests/bench/profileSummary.ts <file.heapprofile> --allocations [top=25]
  *
  * `filter` keeps only functions whose file path contains it (e.g. `server/`). `--long` lists the
  * long tasks instead: stretches of busy samples (no idle sample between them) of at least
  * `minMs`, each with the functions that took most of it (with callees) — what blocks the event
- * loop, and so what a reading that arrives meanwhile waits for.
+ * loop, and so what a reading that arrives meanwhile waits for. `--allocations` reads a sampling
+ * heap profile (serverHook.ts BENCH_ALLOCATION_DIR) and lists the functions that allocated most,
+ * by their own allocations.
  */
 import fs from 'node:fs';
 import path from 'node:path';
@@ -136,8 +139,37 @@ export function longTasks(profile: CpuProfile, minMs: number): Array<{ startMs: 
   return out;
 }
 
+interface HeapProfileNode {
+  callFrame: { functionName: string; url: string; lineNumber: number };
+  selfSize: number;
+  children: HeapProfileNode[];
+}
+
+/** Bytes allocated per function (own allocations), largest first. */
+export function allocationsByFunction(head: HeapProfileNode): { totalBytes: number; functions: Array<{ name: string; where: string; bytes: number }> } {
+  const per = new Map<string, { name: string; where: string; bytes: number }>();
+  let totalBytes = 0;
+  const stack: HeapProfileNode[] = [head];
+  while (stack.length > 0) {
+    const n = stack.pop()!;
+    const l = label({ id: 0, callFrame: { ...n.callFrame, columnNumber: 0 } });
+    const e = per.get(l.key) ?? { name: l.name, where: l.where, bytes: 0 };
+    e.bytes += n.selfSize;
+    per.set(l.key, e);
+    totalBytes += n.selfSize;
+    stack.push(...n.children);
+  }
+  return { totalBytes, functions: [...per.values()].sort((a, b) => b.bytes - a.bytes) };
+}
+
 function main(): void {
   const [file, topArg, filter] = process.argv.slice(2);
+  if (file && topArg === '--allocations') {
+    const { totalBytes, functions } = allocationsByFunction((JSON.parse(fs.readFileSync(file, 'utf8')) as { head: HeapProfileNode }).head);
+    console.log(`${path.basename(file)}: ${(totalBytes / 2 ** 20).toFixed(1)} MB allocated (sampled)`);
+    for (const f of functions.slice(0, Number(filter ?? 25))) console.log(`${(f.bytes / 2 ** 20).toFixed(1).padStart(8)} MB ${((100 * f.bytes) / totalBytes).toFixed(1).padStart(5)} %  ${f.name}  ${f.where}`);
+    return;
+  }
   if (file && topArg === '--long') {
     const minMs = Number(filter ?? 20);
     const tasks = longTasks(JSON.parse(fs.readFileSync(file, 'utf8')) as CpuProfile, minMs);

@@ -31,6 +31,7 @@
  *   BENCH_FESTIVAL_SENSORS, BENCH_FESTIVAL_DAYS, BENCH_FESTIVAL_HZ   the generated log (10, 6, 1)
  *   BENCH_QUERY_REPS, BENCH_FULLSCAN_REPS                            timed repetitions (10, 3)
  *   BENCH_PROFILE=1          server processes write CPU profiles to tests/artifacts/profiles/
+ *   BENCH_ALLOCATIONS=1      server processes write allocation samples (.heapprofile) there too
  *                            (read them with tests/bench/profileSummary.ts)
  *   BENCH_MEMORY_TRACE=1     the latency server appends process.memoryUsage() to
  *                            tests/artifacts/bench-memory.jsonl every 500 ms (=gc: every 2 s after
@@ -93,11 +94,13 @@ const settings = {
 };
 
 function serverEnv(extra: Record<string, string> = {}): Record<string, string> {
-  const hooks = settings.profile || Object.keys(extra).length > 0;
+  const allocations = env.BENCH_ALLOCATIONS === '1';
+  const hooks = settings.profile || allocations || Object.keys(extra).length > 0;
   if (!hooks) return {};
   return {
     NODE_OPTIONS: `--import tsx --import ${path.resolve('tests/bench/serverHook.ts')}${env.BENCH_MEMORY_TRACE === 'gc' ? ' --expose-gc' : ''}`,
     ...(settings.profile ? { BENCH_PROFILE_DIR: profileDir } : {}),
+    ...(allocations ? { BENCH_ALLOCATION_DIR: profileDir } : {}),
     ...extra,
   };
 }

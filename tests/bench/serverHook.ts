@@ -6,6 +6,10 @@
  * - BENCH_PROFILE_DIR: starts V8's sampling profiler at once and writes
  *   `<dir>/server-<pid>.cpuprofile` when the process exits (the server exits on SIGTERM). Read it
  *   with profileSummary.ts.
+ * - BENCH_ALLOCATION_DIR: samples what the process allocates (V8's sampling heap profiler, one
+ *   sample per 4 kB allocated, counting objects already collected) and writes
+ *   `<dir>/server-<pid>.heapprofile` at exit: bytes allocated per function, to tell where the
+ *   garbage collector's work comes from. Read it with profileSummary.ts `--allocations`.
  * - BENCH_MEMORY_FILE: appends `process.memoryUsage()` as a JSON line every 500 ms (V8 heap,
  *   external and array buffers beside the resident set), to tell where resident memory goes.
  *   With `--expose-gc` in NODE_OPTIONS as well, every fourth sample is taken right after a full
@@ -34,6 +38,23 @@ if (dir) {
     });
   };
   process.on('exit', write);
+}
+
+const allocationDir = process.env.BENCH_ALLOCATION_DIR;
+if (allocationDir) {
+  const session = new Session();
+  session.connect();
+  session.post('HeapProfiler.startSampling', { samplingInterval: 4096, includeObjectsCollectedByMajorGC: true, includeObjectsCollectedByMinorGC: true } as never);
+  let written = false;
+  process.on('exit', () => {
+    if (written) return;
+    written = true;
+    session.post('HeapProfiler.stopSampling', (err, result) => {
+      if (err || !result) return;
+      fs.mkdirSync(allocationDir, { recursive: true });
+      fs.writeFileSync(path.join(allocationDir, `server-${process.pid}.heapprofile`), JSON.stringify(result.profile));
+    });
+  });
 }
 
 const memoryFile = process.env.BENCH_MEMORY_FILE;
