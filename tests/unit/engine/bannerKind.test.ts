@@ -12,15 +12,12 @@ import {
   expandStructure,
   freeStandingWallMeanCpNet,
   stabilityCoefficients,
-  standardGravityMps2,
   type BodyCoefficients,
 } from '../../../server/engine/index.ts';
 import { direction, expectRelative, issuePaths, record } from './kindTestSupport.ts';
 import { freeStandingWallStretchCpNet, wallZoneAt } from '../../../server/engine/kinds/boardCoefficient.ts';
 import { bannerLayout } from '../../../server/engine/kinds/banner.ts';
 import { demoStructures } from '../../../server/demo/demoSite.ts';
-
-const g = standardGravityMps2;
 
 describe('EN 1991-1-4 Table 7.9 over a stretch of a free-standing wall (references.md §1, §9)', () => {
   // Wall 15 m long and 2 m high: l/h = 7.5, halfway between the rows l/h 5 and l/h 10 (linear in l/h).

@@ -13,8 +13,6 @@ import {
 import { issuePaths, record } from './kindTestSupport.ts';
 import { shellCoefficients } from '../../../server/engine/kinds/shell.ts';
 
-const g = 9.80665;
-
 function direction(report: ReturnType<typeof assessStructure>, directionDeg: number) {
   const found = report.directions.find((entry) => Math.abs(entry.directionDeg - directionDeg) < 1e-9);
   if (!found) throw new Error(`direction ${directionDeg} not assessed`);

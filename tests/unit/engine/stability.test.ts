@@ -20,8 +20,6 @@ import {
   type ExpandedStructure,
 } from '../../../server/engine/index.ts';
 
-const g = 9.80665;
-
 /** A board 4 m² (2 m wide × 2 m high) at 1.5 m on a 1 m deep × 2 m wide base with 200 kg at the middle. */
 const board: ExpandedStructure = {
   baseDepthM: 1,

@@ -22,7 +22,6 @@ import {
   assessCoefficients,
   assessStructure,
   defaultCoefficients,
-  directionUtilizations,
   expandStructure,
   stabilityCoefficients,
   validateStructureRecord,
