@@ -59,12 +59,12 @@ function random(seed: number): () => number {
   };
 }
 
-function run(heightReductionEnabled: boolean, reassessInFull: boolean, seed: number): string[] {
+function run(heightReductionEnabled: boolean, reassessInFull: boolean, seed: number, measuredAir = false): string[] {
   let now = t0;
   const hub = new LiveHub(100_000, 1e9);
   const watch = new Watch({ hub, now: () => now, reassessInFull });
   const sensors = heights.map((h, i) => sensor(i + 1, h));
-  watch.configure(testSite({ heightReductionEnabled }), sensors, Array.from({ length: 60 }, (_, i) => board(i + 1)));
+  watch.configure(testSite({ heightReductionEnabled, ...(measuredAir ? { airDensityMode: 'measured' as const } : {}) }), sensors, Array.from({ length: 60 }, (_, i) => board(i + 1)));
   const next = random(seed);
   const out: string[] = [];
   for (let step = 0; step < 4_000; step++) {
@@ -75,7 +75,7 @@ function run(heightReductionEnabled: boolean, reassessInFull: boolean, seed: num
     const s = sensors[Math.floor(next() * sensors.length)]!;
     // Now and then a mast stops reporting for a while (silence takes it out of the maxima).
     if (s.id === 6 && step % 1_000 > 700) continue;
-    const reading: Reading = { tsMs: now - Math.floor(next() * 3_000), speedMps: gust / 1.4, gustMps: gust, dirDeg: Math.floor(next() * 360), tempC: null, pressurePa: null, rhPct: null };
+    const reading: Reading = { tsMs: now - Math.floor(next() * 3_000), speedMps: gust / 1.4, gustMps: gust, dirDeg: Math.floor(next() * 360), tempC: measuredAir ? -5 + 30 * next() : null, pressurePa: measuredAir ? 99_000 + 3_000 * next() : null, rhPct: null };
     const { batch, afterCommit } = watch.take(s, [reading], now);
     out.push(JSON.stringify(batch));
     afterCommit?.();
@@ -92,6 +92,19 @@ function run(heightReductionEnabled: boolean, reassessInFull: boolean, seed: num
 }
 
 describe('the calm shortcut when a site-wide gust moves', () => {
+  it('writes, raises, publishes and shows exactly what the full paths do with measured air density (the ladder moves with the air)', () => {
+    const full = run(false, true, 20261204, true);
+    const shortcut = run(false, false, 20261204, true);
+    expect(shortcut.length).toBe(full.length);
+    for (let i = 0; i < full.length; i++) expect(shortcut[i], `output ${i}`).toBe(full[i]);
+    const last = JSON.parse(full[full.length - 1]!) as { air: { basis: string; densityKgM3: number } };
+    expect(last.air.basis).toBe('measured');
+    // The density moved during the run (each structure card carries the one it was judged at).
+    const densities = new Set(full.filter((line) => line.startsWith('[{')).flatMap((line) => (JSON.parse(line) as Array<{ airDensityKgM3: number }>).map((c) => c.airDensityKgM3)));
+    expect(densities.size).toBeGreaterThan(1);
+    expect(full.filter((line) => line.includes('"levelChanges":[{')).length).toBeGreaterThan(10);
+  });
+
   for (const heightReductionEnabled of [false, true]) {
     it(`writes, raises, publishes and shows exactly what the full paths do (height reduction ${heightReductionEnabled ? 'on' : 'off'})`, () => {
       const full = run(heightReductionEnabled, true, 20261203);
