@@ -7,7 +7,7 @@
  * never on the reading.
  */
 import { liveStructure, structureLimits, type AssessedDirections, type LiveStructure, type StructureLimits, type StructureRecord } from '../engine/index.ts';
-import { triggerLadderMps, type LevelDefinition } from '../levels/index.ts';
+import { maxLevelCount, triggerLadderMps, type LevelDefinition } from '../levels/index.ts';
 
 export interface StructureModel extends LiveStructure {
   id: number;
@@ -43,6 +43,8 @@ export function structureModel(row: StructureRow, siteLevels: readonly LevelDefi
   const keys = row.sensorKeysJson as string[] | null;
   const live = liveStructure(row.recordJson as StructureRecord);
   const levels = (row.levelsJson as LevelDefinition[] | null) ?? siteLevels;
+  // The register refuses these (levelDefinition.ts); a row from elsewhere is shown as it is, not run.
+  if (!Array.isArray(levels) || levels.length < 1 || levels.length > maxLevelCount) throw new Error(`its stored level list has ${Array.isArray(levels) ? levels.length : 'no'} levels (1 to ${maxLevelCount} are needed): save its levels again, or leave them to the site's`);
   // Field by field, not spread: objects built as `{ ...x, more }` each got a shape (hidden class)
   // of their own (990 for 1,000 structures), so every read of a model on the per-reading path
   // missed V8's inline caches; re-assessing 1,000 structures took 2.0 ms instead of 0.7 ms

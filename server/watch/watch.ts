@@ -155,6 +155,10 @@ export class Watch implements ReadingConsumer {
   /** Who hears of the book's events once committed (the notification channels: alertEventObservers.ts). */
   private readonly alertObservers = new AlertEventObservers((err) => this.options.onNotice?.('an alert-event observer failed', { err: String(err) }));
   private airDensityKgM3 = isaSeaLevelDensityKgM3;
+  /** The density every structure's limits and ladder were last built at (configure, refreshDensity). */
+  private ladderAirDensityKgM3 = isaSeaLevelDensityKgM3;
+  /** The density when every structure last went to the stream because the density moved (tick). */
+  private streamedAirDensityKgM3 = isaSeaLevelDensityKgM3;
   private airDensityBasis: 'isa' | 'measured' | 'fixed' = 'isa';
   /** Site-wide maxima of the decomposition above; recomputed per live reading. */
   private maxGustMps = -1;
@@ -243,6 +247,8 @@ export class Watch implements ReadingConsumer {
     this.sensorsByKey = new Map([...nextSensors.values()].map((s) => [s.sensor.key, s]));
 
     this.updateAirDensity();
+    this.ladderAirDensityKgM3 = this.airDensityKgM3;
+    this.streamedAirDensityKgM3 = this.airDensityKgM3;
     const nextStructures = new Map<number, StructureLive>();
     for (const row of structures) {
       const old = this.structures.get(row.id);
@@ -373,7 +379,10 @@ export class Watch implements ReadingConsumer {
       }
     }
     const result = siteAirDensity(this.site, measured);
-    const changed = Math.abs(result.densityKgM3 - this.airDensityKgM3) > 1e-4 || result.basis !== this.airDensityBasis;
+    // Against the density the ladders were built at, not the last tick's: a slow drift (air
+    // cooling over an evening) moves less than the bound from one tick to the next, and the
+    // ladders would never follow it.
+    const changed = Math.abs(result.densityKgM3 - this.ladderAirDensityKgM3) > 1e-4 || result.basis !== this.airDensityBasis;
     this.airDensityKgM3 = result.densityKgM3;
     this.airDensityBasis = result.basis;
     return changed;
@@ -559,6 +568,20 @@ export class Watch implements ReadingConsumer {
 
   private evaluate(s: StructureLive, nowMs: number, batch: WriteBatch, announcements: LiveMessage[]): void {
     if (s.error !== null) return;
+    try {
+      this.evaluateStructure(s, nowMs, batch, announcements);
+    } catch (err) {
+      // A structure whose stored data the level machine refuses (or a defect of ours) must not
+      // stop the rest of the site: thrown out of take(), every reading would be refused. It shows
+      // the error on its card and counts as no data, as a record that cannot be assessed does.
+      s.error = `cannot be assessed: ${err instanceof Error ? err.message : String(err)}`;
+      this.options.onNotice?.('a structure cannot be assessed', { structureId: s.model.id, name: s.model.name, error: s.error });
+      if (!this.dirtyStructures.has(s.model.id)) this.dirtyStructures.set(s.model.id, nowMs);
+      announcements.push({ kind: 'structure', payload: () => this.structureState(s) });
+    }
+  }
+
+  private evaluateStructure(s: StructureLive, nowMs: number, batch: WriteBatch, announcements: LiveMessage[]): void {
     const governing = this.governingGust(s, nowMs);
     const wasNoData = s.level.noData;
     const previousLevel = s.level.level;
@@ -852,6 +875,13 @@ export class Watch implements ReadingConsumer {
     // Measured air density follows temperature and pressure, which change over minutes: once a
     // second here is plenty, and keeps a look across every sensor off the per-reading path.
     if (this.site.airDensityMode === 'measured' && this.updateAirDensity()) this.refreshDensity();
+    // Every margin moves with the density (U = k·½ρv²): once it has moved 0.2 % since the stream
+    // last had every structure, each goes out again, or a screen would keep the old margins until
+    // the gust moved.
+    if (Math.abs(this.airDensityKgM3 - this.streamedAirDensityKgM3) >= 0.002 * this.streamedAirDensityKgM3) {
+      this.streamedAirDensityKgM3 = this.airDensityKgM3;
+      for (const s of this.structures.values()) if (!this.dirtyStructures.has(s.model.id)) this.dirtyStructures.set(s.model.id, nowMs);
+    }
 
     // Stuck sensors (reading zero while their neighbours read wind) need every sensor's state.
     const stuck = new Set(stuckSensors([...this.sensors.values()].map((s) => s.wind), nowMs).map((s) => s.sensorKey));
@@ -1043,6 +1073,7 @@ export class Watch implements ReadingConsumer {
   }
 
   private refreshDensity(): void {
+    this.ladderAirDensityKgM3 = this.airDensityKgM3;
     for (const s of this.structures.values()) {
       if (s.error === null) {
         s.density = densityDependent(s.model, this.airDensityKgM3);
