@@ -22,6 +22,17 @@ function sensor(id: number, heightM: number): RegisteredSensor {
   return { id, siteId: 1, key: `mast-${id}`, name: `mast ${id}`, heightM, location: '', latDeg: null, lonDeg: null, unit: 'm/s', mode: 'summaries', silenceTimeoutMs: 30_000, createdAtMs: t0, retiredAtMs: null };
 }
 
+/** A level on a chance (design §2.7 v2) and one on a utilization, and gust levels (invented plans). */
+const chanceLevels = [
+  { label: 'Prepare', trigger: { kind: 'chance', fraction: 0.9, withinMinutes: 30, probability: 0.1 }, actionText: 'Close the lane beside it.' },
+  { label: 'Take down', trigger: { kind: 'utilization', fraction: 1 }, actionText: 'Take it down.' },
+];
+const gustLevels = [
+  { label: 'Watch', trigger: { kind: 'gust', gustMps: 9 }, actionText: 'Watch it.' },
+  { label: 'Lower', trigger: { kind: 'gust', gustMps: 13 }, actionText: 'Lower it.' },
+  { label: 'Clear', trigger: { kind: 'utilization', fraction: 0.95 }, actionText: 'Clear the area.' },
+];
+
 /** Invented boards: tops from 1.5 to 12 m, ballast from light to heavy, so first triggers spread over the gusts fed. */
 function board(id: number): StructureRow {
   const topM = 1.5 + ((id * 7) % 21) * 0.5;
@@ -33,7 +44,7 @@ function board(id: number): StructureRow {
     orientationDeg: (id * 37) % 360,
     mobile: false,
     sensorKeysJson: id % 9 === 0 ? ['mast-2', 'mast-4'] : null,
-    levelsJson: null,
+    levelsJson: id % 7 === 0 ? chanceLevels : id % 5 === 0 ? gustLevels : null,
     recordJson: {
       kind: 'custom',
       name: `Board ${id}`,
@@ -92,6 +103,27 @@ function run(heightReductionEnabled: boolean, reassessInFull: boolean, seed: num
 }
 
 describe('the calm shortcut when a site-wide gust moves', () => {
+  it('rises exactly as the full paths do for a gust exactly at a first trigger (9 m/s on a board under the mast)', () => {
+    const outputs = [true, false].map((reassessInFull) => {
+      let now = t0;
+      const watch = new Watch({ hub: new LiveHub(1_000), now: () => now, reassessInFull });
+      const masts = [sensor(1, 10)];
+      // Board 5 (gust levels, top under the mast): without height reduction it takes the mast's gust as it is.
+      watch.configure(testSite(), masts, [board(5)]);
+      const out: string[] = [];
+      for (const gust of [6, 8.99, 9, 9, 8.5]) {
+        now += 1_000;
+        out.push(JSON.stringify(watch.take(masts[0]!, [{ tsMs: now, speedMps: gust / 1.4, gustMps: gust, dirDeg: 200, tempC: null, pressurePa: null, rhPct: null }], now).batch));
+        out.push(JSON.stringify(watch.structureStateById(5)));
+      }
+      return out;
+    });
+    expect(outputs[1]).toEqual(outputs[0]);
+    const state = JSON.parse(outputs[0]!.at(-1)!) as { level: number; triggerGustsMps: number[]; gustMps: number };
+    expect(state.triggerGustsMps[0]).toBe(9);
+    expect(state.level).toBe(1);
+  });
+
   it('writes, raises, publishes and shows exactly what the full paths do with measured air density (the ladder moves with the air)', () => {
     const full = run(false, true, 20261204, true);
     const shortcut = run(false, false, 20261204, true);

@@ -149,6 +149,30 @@ describe('stability properties over seeded structures (design §2.3 v2)', () => 
     }
   });
 
+  it('the compact form’s case over every direction, kept per structure, stays right when sectors are asked for in between (sector, all, sector, all)', () => {
+    const random = seededRandom(22);
+    for (const structure of structures({ uplift: true, elements: true }, 22)) {
+      const full = stabilityCoefficients(structure);
+      const compact = compactStability(full);
+      const sectors = [
+        { centreDeg: between(random, 0, 360), halfWidthDeg: between(random, 15, 90) },
+        null,
+        { centreDeg: between(random, 0, 360), halfWidthDeg: between(random, 5, 40) },
+        null,
+        null,
+      ];
+      for (const sector of sectors) {
+        const a = governingCase(full, sector);
+        const b = compactGoverningCase(compact, sector);
+        expect(b.perPa).toBe(a.direction.utilizationPerPa.governing);
+        expect(b.directionDeg).toBe(a.direction.directionDeg);
+        expect(b.element).toBe(a.part.element);
+        expect(b.criterion).toBe(a.direction.governing);
+        expect(b.tippingEdge).toBe(a.direction.tippingEdge);
+      }
+    }
+  });
+
   it('the live assessment (engine/liveAssessment.ts) on the compact form gives the calculator’s utilization, limit and case (assessCoefficients), with and without a rating', () => {
     const random = seededRandom(21);
     for (const structure of structures({ uplift: true, elements: true }, 21)) {
