@@ -1182,49 +1182,18 @@ export class Watch implements ReadingConsumer {
 
   structureState(s: StructureLive): StructureState {
     const m = s.model;
-    let utilization: number | null = null;
-    let calculatedUtilization: number | null = null;
-    let governing: string | null = null;
-    let governingDirectionDeg: number | null = null;
-    let governingElement: string | null = null;
-    let governingText: string | null = null;
-    if (s.gustMps !== null && !s.level.noData && s.error === null) {
-      const a = this.assess(s, s.gustMps, s.windFromDeg);
-      utilization = a.utilization;
-      calculatedUtilization = Number.isFinite(a.calculatedUtilization) ? a.calculatedUtilization : null;
-      governing = a.governing;
-      governingDirectionDeg = a.directionDeg;
-      governingElement = a.element;
-      governingText = a.text;
-    } else if (s.error === null && s.model.levels.length > 0) {
-      // No wind to judge by: what governs over every direction, so the card can still say it.
-      const a = this.assess(s, 0, null);
-      governing = a.governing;
-      governingDirectionDeg = a.directionDeg;
-      governingElement = a.element;
-      governingText = a.text;
-    }
-    const unbounded = utilization !== null && !Number.isFinite(utilization);
+    const judged = s.gustMps !== null && !s.level.noData && s.error === null;
+    // No wind to judge by: what governs over every direction, so the card can still say it.
+    const a = judged ? this.assess(s, s.gustMps!, s.windFromDeg) : s.error === null && m.levels.length > 0 ? this.assess(s, 0, null) : null;
     const current = s.error === null ? this.currentDensity(s, s.windFromDeg) : s.density;
     return {
-      id: m.id,
+      ...this.windFields(s, judged ? a : null),
       name: m.name,
       kind: m.kind,
-      level: s.level.level,
-      levelLabel: s.level.level > 0 ? (m.levels[s.level.level - 1]?.label ?? null) : null,
-      levelSinceMs: s.level.sinceMs,
-      noData: s.level.noData || s.error !== null,
-      gustMps: s.level.noData ? null : s.gustMps,
-      governingSensorKey: s.level.noData ? null : s.governingSensorKey,
-      windFromDeg: s.windFromDeg,
-      utilization: unbounded ? null : utilization,
-      calculatedUtilization,
-      governing,
-      governingDirectionDeg,
-      governingElement,
-      governingText,
-      margin: utilization === null || unbounded ? null : 1 - utilization,
-      unbounded,
+      governing: a?.governing ?? null,
+      governingDirectionDeg: a?.directionDeg ?? null,
+      governingElement: a?.element ?? null,
+      governingText: a?.text ?? null,
       limitGustMps: current.limitGustMps,
       allDirectionsLimitGustMps: s.density.limitGustMps,
       calculatedLimitGustMps: s.density.calculatedLimitGustMps,
@@ -1234,7 +1203,6 @@ export class Watch implements ReadingConsumer {
       triggerGustsMps: current.triggerGustsMps,
       levels: m.levels.map((l, i) => ({ level: i + 1, label: l.label, actionText: l.actionText, triggerGustMps: current.triggerGustsMps[i]!, trigger: l.trigger })),
       warnings: [...(s.configurationWarning === null ? [] : [s.configurationWarning]), ...m.warnings, ...clampedTriggerWarnings(m.levels, current.limitGustMps)],
-      evaluatedAtMs: s.evaluatedAtMs,
       error: s.error,
       mobile: m.mobile,
       sensorKeys: m.sensorKeys === null ? null : [...m.sensorKeys],
@@ -1295,13 +1263,16 @@ export class Watch implements ReadingConsumer {
    * every structure whose gust moved made the tick the longest task on the event loop.
    */
   private windUpdate(s: StructureLive): StructureUpdate {
-    let utilization: number | null = null;
-    let calculatedUtilization: number | null = null;
-    if (s.gustMps !== null && !s.level.noData && s.error === null) {
-      const found = caseAtGust(s.model.stability, s.gustMps, this.airDensityKgM3, this.sector(s, s.windFromDeg));
-      utilization = found.utilization;
-      calculatedUtilization = Number.isFinite(found.calculatedUtilization) ? found.calculatedUtilization : null;
-    }
+    const judged = s.gustMps !== null && !s.level.noData && s.error === null;
+    return this.windFields(s, judged ? caseAtGust(s.model.stability, s.gustMps!, this.airDensityKgM3, this.sector(s, s.windFromDeg)) : null);
+  }
+
+  /**
+   * The fields of a structure that follow the wind: the stream's row, and the same fields of the
+   * card. `found`: the governing case at the structure's gust, null while there is none to judge by.
+   */
+  private windFields(s: StructureLive, found: CaseAtGust | null): StructureUpdate {
+    const utilization = found === null ? null : found.utilization;
     const unbounded = utilization !== null && !Number.isFinite(utilization);
     return {
       id: s.model.id,
@@ -1313,7 +1284,7 @@ export class Watch implements ReadingConsumer {
       governingSensorKey: s.level.noData ? null : s.governingSensorKey,
       windFromDeg: s.windFromDeg,
       utilization: unbounded ? null : utilization,
-      calculatedUtilization,
+      calculatedUtilization: found !== null && Number.isFinite(found.calculatedUtilization) ? found.calculatedUtilization : null,
       margin: utilization === null || unbounded ? null : 1 - utilization,
       unbounded,
       evaluatedAtMs: s.evaluatedAtMs,

@@ -8,6 +8,7 @@
  * back, over sensors at different heights, with and without height reduction (design §2.2 v2).
  */
 import { describe, expect, it } from 'vitest';
+import { seededRandom } from '../../server/demo/random.ts';
 import type { Reading } from '../../server/ingest/payload.ts';
 import type { RegisteredSensor } from '../../server/ingest/registry.ts';
 import { LiveHub } from '../../server/live/liveHub.ts';
@@ -58,25 +59,14 @@ function board(id: number): StructureRow {
   };
 }
 
-/** A small seeded generator (mulberry32), so a failure can be replayed. */
-function random(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
 function run(heightReductionEnabled: boolean, reassessInFull: boolean, seed: number, measuredAir = false): string[] {
   let now = t0;
   const hub = new LiveHub(100_000, 1e9);
   const watch = new Watch({ hub, now: () => now, reassessInFull });
   const sensors = heights.map((h, i) => sensor(i + 1, h));
   watch.configure(testSite({ heightReductionEnabled, ...(measuredAir ? { airDensityMode: 'measured' as const } : {}) }), sensors, Array.from({ length: 60 }, (_, i) => board(i + 1)));
-  const next = random(seed);
+  // Seeded, so a failure can be replayed.
+  const next = seededRandom(seed);
   const out: string[] = [];
   for (let step = 0; step < 4_000; step++) {
     now += 150 + Math.floor(next() * 200);

@@ -34,6 +34,17 @@ const structureCount = 300;
 const exact = 1e-9;
 const rho = 1.25;
 
+/** The compact form's governing case is the full coefficients' (k, direction, part, criterion, edge). */
+function expectSameCase(compact: ReturnType<typeof compactStability>, full: ReturnType<typeof stabilityCoefficients>, sector: Parameters<typeof governingCase>[1]): void {
+  const a = governingCase(full, sector);
+  const b = compactGoverningCase(compact, sector);
+  expect(b.perPa).toBe(a.direction.utilizationPerPa.governing);
+  expect(b.directionDeg).toBe(a.direction.directionDeg);
+  expect(b.element).toBe(a.part.element);
+  expect(b.criterion).toBe(a.direction.governing);
+  expect(b.tippingEdge).toBe(a.direction.tippingEdge);
+}
+
 function expectRelativelyClose(actual: number, expected: number, tolerance = exact): void {
   expect(Math.abs(actual - expected)).toBeLessThanOrEqual(tolerance * Math.abs(expected));
 }
@@ -138,14 +149,7 @@ describe('stability properties over seeded structures (design §2.3 v2)', () => 
     for (const structure of structures({ uplift: true, elements: true }, 20)) {
       const full = stabilityCoefficients(structure);
       const compact = compactStability(full);
-      for (const sector of [null, { centreDeg: between(random, 0, 360), halfWidthDeg: between(random, 15, 90) }]) {
-        const a = governingCase(full, sector);
-        const b = compactGoverningCase(compact, sector);
-        expect(b.perPa).toBe(a.direction.utilizationPerPa.governing);
-        expect(b.directionDeg).toBe(a.direction.directionDeg);
-        expect(b.element).toBe(a.part.element);
-        expect(b.criterion).toBe(a.direction.governing);
-      }
+      for (const sector of [null, { centreDeg: between(random, 0, 360), halfWidthDeg: between(random, 15, 90) }]) expectSameCase(compact, full, sector);
     }
   });
 
@@ -161,15 +165,7 @@ describe('stability properties over seeded structures (design §2.3 v2)', () => 
         null,
         null,
       ];
-      for (const sector of sectors) {
-        const a = governingCase(full, sector);
-        const b = compactGoverningCase(compact, sector);
-        expect(b.perPa).toBe(a.direction.utilizationPerPa.governing);
-        expect(b.directionDeg).toBe(a.direction.directionDeg);
-        expect(b.element).toBe(a.part.element);
-        expect(b.criterion).toBe(a.direction.governing);
-        expect(b.tippingEdge).toBe(a.direction.tippingEdge);
-      }
+      for (const sector of sectors) expectSameCase(compact, full, sector);
     }
   });
 
