@@ -876,8 +876,8 @@ export class Watch implements ReadingConsumer {
     // second here is plenty, and keeps a look across every sensor off the per-reading path.
     if (this.site.airDensityMode === 'measured' && this.updateAirDensity()) this.refreshDensity();
     // Every margin moves with the density (U = k·½ρv²): once it has moved 0.2 % since the stream
-    // last had every structure, each goes out again, or a screen would keep the old margins until
-    // the gust moved.
+    // last had every structure (our own bound: a fifth of the whole per cent a card shows), each
+    // goes out again, or a screen would keep the old margins until the gust moved.
     if (Math.abs(this.airDensityKgM3 - this.streamedAirDensityKgM3) >= 0.002 * this.streamedAirDensityKgM3) {
       this.streamedAirDensityKgM3 = this.airDensityKgM3;
       for (const s of this.structures.values()) if (!this.dirtyStructures.has(s.model.id)) this.dirtyStructures.set(s.model.id, nowMs);
