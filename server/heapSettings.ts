@@ -19,11 +19,12 @@
  * V8 reads both flags each time it decides (new-space growth, the next collection's limit), so
  * setting them in a running process takes effect; Node warns that changing V8 flags at run time
  * may do nothing or misbehave: if an upgrade stops reading them, the heap grows as before and
- * `npm run bench` shows it. Only the server process (`npm start`, `npm run demo`) sets them; tests
+ * `npm run bench` shows it. Starting a worker thread puts them back (v8Flags.ts sets them again). Only the server process (`npm start`, `npm run demo`) sets them; tests
  * and tools run with V8's defaults.
  */
 import v8 from 'node:v8';
 import { PerformanceObserver } from 'node:perf_hooks';
+import { setRuntimeV8Flag } from './v8Flags.ts';
 
 const youngGenerationCapBytes = 8 * 2 ** 20;
 
@@ -34,9 +35,9 @@ function allowGrowth(allow: boolean): void {
   const factor = allow ? 2 : 1;
   if (factor === growthFactor) return;
   growthFactor = factor;
-  v8.setFlagsFromString(`--semi-space-growth-factor=${factor}`);
+  setRuntimeV8Flag('semi-space-growth-factor', factor);
 }
 
 allowGrowth(youngGenerationBytes() < youngGenerationCapBytes);
 new PerformanceObserver(() => allowGrowth(youngGenerationBytes() < youngGenerationCapBytes)).observe({ entryTypes: ['gc'] });
-v8.setFlagsFromString('--heap-growing-percent=30');
+setRuntimeV8Flag('heap-growing-percent', 30);

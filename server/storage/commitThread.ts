@@ -26,12 +26,10 @@
  * flight is sent to it again, still unacknowledged until it commits (`enqueue` never rejects
  * while the queue is open). Readings and alerts are inserted once however often they are sent.
  */
-import { createRequire } from 'node:module';
-import path from 'node:path';
-import { fileURLToPath, pathToFileURL } from 'node:url';
-import { Worker } from 'node:worker_threads';
+import type { Worker } from 'node:worker_threads';
 import { batchRowCount, emptyWriteBatch, type ReadingRow, type WriteBatch } from './writeBatch.ts';
 import type { WriteOutcome, WriteQueueStats } from './writeQueue.ts';
+import { startStorageWorker } from './workerScript.ts';
 
 /** After a worker died before it ever answered, the pause before the next one starts. */
 const restartPauseMs = 5_000;
@@ -156,23 +154,10 @@ interface Request {
   reject: (err: Error) => void;
 }
 
-/** The worker's script: compiled JavaScript beside this file, or (tests, tsx) the TypeScript source loaded through tsx. */
 function startWorker(file: string, newestMinutes: ReadonlyMap<number, number>): Worker {
-  const here = fileURLToPath(import.meta.url);
-  const ext = path.extname(here);
-  const script = pathToFileURL(path.join(path.dirname(here), `commitWorker${ext}`));
-  const workerData = { file, newestMinutes: [...newestMinutes] };
   // Young generation kept small: the worker holds a group or two of rows at a time (its backlog,
   // while the disk is full, lives in the old generation, which is left unbounded).
-  const resourceLimits = { maxYoungGenerationSizeMb: 4 };
-  // None of the main thread's preloads (NODE_OPTIONS --import, a profiler hook say): the worker needs none.
-  const execArgv: string[] = [];
-  const env = { ...process.env };
-  delete env.NODE_OPTIONS;
-  if (ext !== '.ts') return new Worker(script, { workerData, resourceLimits, execArgv, env });
-  const tsx = pathToFileURL(createRequire(import.meta.url).resolve('tsx/esm/api')).href;
-  const boot = `import(${JSON.stringify(tsx.replace(/index\.cjs$/, 'index.mjs'))}).then((m) => { m.register(); return import(${JSON.stringify(script.href)}); })`;
-  return new Worker(boot, { eval: true, workerData, resourceLimits, execArgv, env });
+  return startStorageWorker('commitWorker', { file, newestMinutes: [...newestMinutes] }, { maxYoungGenerationSizeMb: 4 });
 }
 
 export class CommitThread {

@@ -23,6 +23,7 @@
  * written through the stores but through that queue.
  */
 import { openDatabase, type Db, type OpenedDatabase } from './database.ts';
+import { CheckpointThread } from './checkpointThread.ts';
 import { AlertStore } from './alerts.ts';
 import { AuditStore } from './audit.ts';
 import { configurationChangesInWindow, ConfigurationHistory, configurationSwitchesBefore, lastConfigurations, overdueSignalsInWindow } from './configurationLog.ts';
@@ -198,10 +199,17 @@ export class SqliteStorage implements Storage {
   readonly writes: WriteStore;
   private readonly transactions: Transactions;
 
+  /** Set with `checkpointThread`: copies the log into the file off the event loop (checkpointThread.ts). */
+  readonly checkpoints: CheckpointThread | null;
+
   /** On an opened database (openDatabase): tests that also look at the tables directly keep `opened`. */
-  constructor(readonly opened: OpenedDatabase) {
+  constructor(
+    readonly opened: OpenedDatabase,
+    options: StorageOptions = {},
+  ) {
     const { db } = opened;
     const transactions = (this.transactions = new Transactions(opened.sqlite));
+    this.checkpoints = options.checkpointThread ? new CheckpointThread(opened.sqlite, { onMain: (work) => transactions.call(work), onFailure: options.onCheckpointFailure }) : null;
     const call = <R>(work: () => R): Promise<R> => transactions.call(work);
     this.location = opened.file;
     this.site = stored(new SiteStore(db), call);
@@ -227,15 +235,23 @@ export class SqliteStorage implements Storage {
     return this.transactions.transaction(work);
   }
 
-  /** Closes the connection once no transaction is open. */
-  close(): Promise<void> {
+  /** Closes the connection once no transaction is open (the checkpoint thread first). */
+  async close(): Promise<void> {
+    await this.checkpoints?.stop();
     return this.transactions.call(() => {
       this.opened.sqlite.close();
     });
   }
 }
 
+export interface StorageOptions {
+  /** Checkpoints on a worker thread instead of inside the main thread's commits (checkpointThread.ts); a file only. */
+  checkpointThread?: boolean;
+  /** The checkpoint thread failed (the main connection checkpoints on its own again). */
+  onCheckpointFailure?: (why: string) => void;
+}
+
 /** Opens (and migrates) the SQLite database in `file` (':memory:' for a throwaway one). */
-export function openStorage(file: string): SqliteStorage {
-  return new SqliteStorage(openDatabase(file));
+export function openStorage(file: string, options: StorageOptions = {}): SqliteStorage {
+  return new SqliteStorage(openDatabase(file), options);
 }
