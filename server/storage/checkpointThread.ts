@@ -92,10 +92,13 @@ export class CheckpointThread {
     const data: CheckpointWorkerData = { file: sqlite.name, intervalMs: options.intervalMs ?? 200, catchUpMs: options.catchUpMs ?? 5, longLogFrames: options.longLogFrames ?? 4096 };
     // It holds one prepared statement: the smallest heap V8 allows is plenty.
     this.worker = startStorageWorker('checkpointWorker', data, { maxYoungGenerationSizeMb: 1, maxOldGenerationSizeMb: 8 });
-    this.worker.unref();
+    // It keeps the process alive only until its first answer (someone may be awaiting `ready`
+    // with nothing else running); after that, the server's sockets do.
     this.ready = new Promise<void>((resolve) => {
       this.worker.once('message', () => resolve());
       this.worker.once('exit', () => resolve());
+    }).then(() => {
+      this.worker.unref();
     });
     this.worker.on('message', (reply: CheckpointReply) => {
       if (reply.kind !== 'round') return;
