@@ -955,7 +955,8 @@ export class Watch implements ReadingConsumer {
       }
       const f = s.level.noData || s.error !== null ? null : s.foresight;
       const urgency = f === null || 'unknown' in f ? 0 : s.level.level * 10 + Math.max(f.limitChance30, f.nextChance30 ?? 0);
-      rows.set(id, { cells: withAgo([id, foresightCell(f), s.foresightAtMs], foresightColumns, foresightAgoColumns, nowMs), urgency, waitingSinceMs: since });
+      const atMs = s.foresightAtMs;
+      rows.set(id, { cells: () => withAgo([id, foresightCell(f), atMs], foresightColumns, foresightAgoColumns, nowMs), urgency, waitingSinceMs: since });
     }
     const frame = selectFrame(nowMs, foresightColumns, foresightAgoColumns, rows, foresightFrameBudgetChars, foresightOverdueAfterMs);
     for (const id of frame.sent) this.foresightWaiting.delete(id);
@@ -1061,7 +1062,7 @@ export class Watch implements ReadingConsumer {
         continue;
       }
       const update = this.structureUpdate(s);
-      structureRows.set(id, { cells: withAgo(structureCells(update, directional), columns, structureAgoColumns, nowMs), urgency: structureUrgency(update), waitingSinceMs: since });
+      structureRows.set(id, { cells: () => withAgo(structureCells(update, directional), columns, structureAgoColumns, nowMs), urgency: structureUrgency(update), waitingSinceMs: since });
     }
     const budget = structuresFrameBudgetChars + Math.max(0, windsFrameBudgetChars - winds.rowChars);
     const structures = selectFrame(nowMs, columns, structureAgoColumns, structureRows, budget, structuresOverdueAfterMs);

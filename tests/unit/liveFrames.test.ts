@@ -49,6 +49,26 @@ describe('selectFrame', () => {
     expect(frame.sent).toEqual(['older-starved', 'starved']);
   });
 
+  it('ends the frame at the first row that does not fit, and builds no row it does not send', () => {
+    // `["windy",9]` is 12 characters with its comma, `["a-much-longer-key",5]` 25, `["x",1]` 8:
+    // the second does not fit in 30, so the smaller, less urgent third waits too (its turn is after).
+    let built = 0;
+    const lazy = (cells: unknown[]) => () => {
+      built++;
+      return cells;
+    };
+    const candidates = new Map<string, FrameRow>([
+      ['windy', { cells: lazy(['windy', 9]), urgency: 9, waitingSinceMs: t0 }],
+      ['long', { cells: lazy(['a-much-longer-key', 5]), urgency: 5, waitingSinceMs: t0 }],
+      ['x', { cells: lazy(['x', 1]), urgency: 1, waitingSinceMs: t0 }],
+    ]);
+    const frame = selectFrame(t0, ['key', 'u'], [], candidates, 30, 10_000);
+    expect(frame.sent).toEqual(['windy']);
+    expect(frame.rowChars).toBe(12);
+    // The first two rows were built (the second to find it does not fit); the third never was.
+    expect(built).toBe(2);
+  });
+
   it('always sends one row, however small the budget, and nothing when nothing changed', () => {
     expect(selectFrame(t0, ['key', 'u'], [], rows([['only', 1, t0]]), 1, 10_000).sent).toEqual(['only']);
     expect(selectFrame(t0, ['key', 'u'], [], rows([]), 1_000, 10_000).data).toBeNull();
