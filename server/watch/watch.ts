@@ -129,6 +129,12 @@ export interface WatchOptions {
    * For the test that compares the two.
    */
   reassessInFull?: boolean;
+  /**
+   * Structures whose foresight a tick refreshes itself when the 5-s refresh is due; the rest wait
+   * for `continueForesight` (the server calls it in slices, between other work, so the refresh of
+   * 1,000 structures is not one long pause of the event loop). Default: all of them, in the tick.
+   */
+  foresightSliceSize?: number;
 }
 
 export interface InitialState {
@@ -186,6 +192,10 @@ export class Watch implements ReadingConsumer {
   private lastForesightAtMs = -Infinity;
   /** Structures whose foresight changed and is not yet in a `foresight` frame: id → since when. */
   private readonly foresightWaiting = new Map<number, number>();
+  /** The structures still to refresh in the current foresight round, and that round's time. */
+  private foresightQueue: StructureLive[] = [];
+  private foresightQueueAt = 0;
+  private foresightRoundMs = 0;
   private params!: LevelStepParams;
 
   constructor(private readonly options: WatchOptions) {
@@ -985,7 +995,32 @@ export class Watch implements ReadingConsumer {
       live.gustFactor = tenMinuteGustFactor(snap.mean10minMps, snap.peakGust10minMps);
       if (snap.mean10minMps !== null && snap.mean10minMps <= maxPlausibleSpeedMps) noteTenMinuteMean({ atMs: live.meanAtMs, meanMps: live.meanMps }, nowMs, snap.mean10minMps);
     }
-    for (const s of this.structures.values()) this.refreshForesight(s, nowMs);
+    // A round left unfinished (nobody called continueForesight) is finished first.
+    this.continueForesight(Infinity);
+    this.foresightQueue = [...this.structures.values()];
+    this.foresightQueueAt = 0;
+    this.foresightRoundMs = nowMs;
+    this.continueForesight(this.options.foresightSliceSize ?? Infinity);
+  }
+
+  /**
+   * Refreshes the foresight of up to `maxCount` more structures of the current round (worked out
+   * at the round's time); true while some remain. A structure removed meanwhile is skipped; one
+   * added meanwhile waits for the next round, as before.
+   */
+  continueForesight(maxCount: number): boolean {
+    const queue = this.foresightQueue;
+    let done = 0;
+    while (this.foresightQueueAt < queue.length && done < maxCount) {
+      const s = queue[this.foresightQueueAt++]!;
+      if (this.structures.get(s.model.id) !== s) continue;
+      this.refreshForesight(s, this.foresightRoundMs);
+      done++;
+    }
+    if (this.foresightQueueAt < queue.length) return true;
+    this.foresightQueue = [];
+    this.foresightQueueAt = 0;
+    return false;
   }
 
   /**
