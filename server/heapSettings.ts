@@ -30,12 +30,9 @@ const youngGenerationCapBytes = 8 * 2 ** 20;
 
 const youngGenerationBytes = (): number => v8.getHeapSpaceStatistics().find((s) => s.space_name === 'new_space')?.space_size ?? 0;
 
-let growthFactor = 0;
+// Set after every collection even when unchanged: a worker's start undoes it (v8Flags.ts).
 function allowGrowth(allow: boolean): void {
-  const factor = allow ? 2 : 1;
-  if (factor === growthFactor) return;
-  growthFactor = factor;
-  setRuntimeV8Flag('semi-space-growth-factor', factor);
+  setRuntimeV8Flag('semi-space-growth-factor', allow ? 2 : 1);
 }
 
 allowGrowth(youngGenerationBytes() < youngGenerationCapBytes);

@@ -1,11 +1,15 @@
 /**
  * V8 flags the server sets while it runs (heapSettings.ts), kept so they can be set again: in
- * Node 20, starting a worker thread puts V8's flags back to what the command line gave, for the
- * whole process. Seen on the benchmark machine: with the growth factor set to 1, the main
+ * Node 20, starting a worker thread undid the young generation's growth factor for the whole
+ * process. Seen on the benchmark machine: with the factor set to 1 at run time, the main
  * thread's young generation stayed at 2 MB without a worker and grew to 32 MB once one had
- * started; set again once the worker is online, it stayed at 2 MB. storage/workerScript.ts calls
- * `reapplyRuntimeV8Flags` when each of its workers is online. Nothing is set on import: tests
- * and tools, which never call `setRuntimeV8Flag`, keep V8's defaults.
+ * started; set again once the worker was online, it stayed at 2 MB. A run-time `--trace-gc`
+ * survived the same start, so not every flag is touched; from memory, V8 raises a growth factor
+ * under 2 to 2 when it configures a new isolate's heap (not checked in V8's source).
+ * storage/workerScript.ts calls `reapplyRuntimeV8Flags` when each of its workers is online and
+ * when it first answers; heapSettings.ts sets the factor again after every collection as well,
+ * for workers started elsewhere. Nothing is set on import: tests and tools, which never call
+ * `setRuntimeV8Flag`, keep V8's defaults.
  */
 import v8 from 'node:v8';
 

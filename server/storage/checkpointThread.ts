@@ -13,17 +13,22 @@
  *   were, so the ack-after-commit guarantee and a crash's recovery are SQLite's, unchanged.
  * - The log starts again from its beginning only when a writer finds every frame copied. Under a
  *   steady feed the main thread commits while the worker copies, so that moment may not come:
- *   once the log passes `longLogFrames`, the worker says so and the main thread runs one PASSIVE
- *   checkpoint itself, between its commits. The worker has copied all but the newest frames, so
- *   this one is short, and the next commit starts the log again. `journal_size_limit` then cuts
- *   the file back.
+ *   once the log passes `longLogFrames`, the worker asks for a moment without commits, the main
+ *   thread holds the connection (`hold`: commits wait, as behind an open transaction, while the
+ *   event loop goes on), the worker copies the rest and answers, and the next commit starts the
+ *   log again. `journal_size_limit` then cuts the file back. Without `hold` (a bare connection),
+ *   the worker copies the rest without it and the log may take longer to start again.
  * - If the worker fails or exits, the main connection checkpoints on its own again, as SQLite's
  *   default (`onFailure` is told why). Nothing is lost either way: the log holds every commit
  *   until it is copied.
+ * - With the commit thread (commitThread.ts) the writer is that thread's connection, which
+ *   checkpoints inside its own commits (SQLite's default, off the event loop already); the
+ *   rounds here then mostly find nothing to copy.
  *
  * A worker is about 9 MB resident (measured on the benchmark machine with this file's limits).
  */
 import type Database from 'better-sqlite3';
+import { performance } from 'node:perf_hooks';
 import type { Worker } from 'node:worker_threads';
 import { startStorageWorker } from './workerScript.ts';
 
@@ -34,8 +39,14 @@ export interface CheckpointWorkerData {
   longLogFrames: number;
 }
 
-export type CheckpointRequest = { kind: 'stop' } | { kind: 'resume' };
-export type CheckpointReply = { kind: 'round'; logFrames: number; copiedFrames: number; tookMs: number; long: boolean } | { kind: 'stopped' };
+export type CheckpointRequest = { kind: 'stop' } | { kind: 'finish' };
+interface CheckpointRun {
+  busy: boolean;
+  logFrames: number;
+  copiedFrames: number;
+  tookMs: number;
+}
+export type CheckpointReply = ({ kind: 'round'; long: boolean } & CheckpointRun) | ({ kind: 'finished' } & CheckpointRun) | { kind: 'stopped' };
 
 export interface CheckpointThreadOptions {
   /** Pause between checkpoints while the worker keeps up, ms (200). */
@@ -44,8 +55,8 @@ export interface CheckpointThreadOptions {
   catchUpMs?: number;
   /** Log length past which the main thread finishes a checkpoint itself, frames (4,096: 16 MiB of 4 KiB pages). */
   longLogFrames?: number;
-  /** Runs the main thread's checkpoint outside any open transaction (storage.ts gives its transaction gate). */
-  onMain?: (work: () => void) => unknown;
+  /** Holds the main connection's commits until released (storage.ts gives its transactions' `hold`). */
+  hold?: () => Promise<() => void>;
   /** The worker failed: the main connection checkpoints on its own from now on. */
   onFailure?: (why: string) => void;
 }
@@ -56,8 +67,10 @@ export interface CheckpointStats {
   logFrames: number;
   copiedFrames: number;
   maxRoundMs: number;
-  /** Checkpoints the main thread ran because the log had grown long. */
-  mainCheckpoints: number;
+  /** Times the log had grown long and the worker finished it while the main connection was held. */
+  finishes: number;
+  /** The longest hold of the main connection's commits, ms. */
+  maxHoldMs: number;
   /** The longest log a round found, frames; rounds that found it started again since the last. */
   maxLogFrames: number;
   restarts: number;
@@ -70,7 +83,7 @@ const sqliteDefaultAutoCheckpointPages = 1000;
 const journalSizeLimitBytes = 64 * 2 ** 20;
 
 export class CheckpointThread {
-  readonly stats: CheckpointStats = { rounds: 0, logFrames: 0, copiedFrames: 0, maxRoundMs: 0, mainCheckpoints: 0, maxLogFrames: 0, restarts: 0, failure: null };
+  readonly stats: CheckpointStats = { rounds: 0, logFrames: 0, copiedFrames: 0, maxRoundMs: 0, finishes: 0, maxHoldMs: 0, maxLogFrames: 0, restarts: 0, failure: null };
   private readonly worker: Worker;
   /**
    * Settles once the worker has answered (or could not start). The server waits for it before loading the
@@ -81,6 +94,8 @@ export class CheckpointThread {
   private stopping: Promise<void> | null = null;
   private exited = false;
   private lastLogFrames = 0;
+  private finishing = false;
+  private finished: (() => void) | null = null;
 
   constructor(
     private readonly sqlite: Database.Database,
@@ -101,15 +116,21 @@ export class CheckpointThread {
       this.worker.unref();
     });
     this.worker.on('message', (reply: CheckpointReply) => {
-      if (reply.kind !== 'round') return;
+      if (reply.kind === 'stopped') return;
+      if (reply.kind === 'finished') {
+        this.finished?.();
+        return;
+      }
       this.stats.rounds++;
+      // Another connection was checkpointing (the commit thread's): this round tells nothing.
+      if (reply.busy) return;
+      if (reply.logFrames < this.lastLogFrames) this.stats.restarts++;
+      this.lastLogFrames = reply.logFrames;
       this.stats.logFrames = reply.logFrames;
       this.stats.copiedFrames = reply.copiedFrames;
-      if (reply.logFrames < this.stats.maxLogFrames && reply.logFrames < this.lastLogFrames) this.stats.restarts++;
-      this.lastLogFrames = reply.logFrames;
       if (reply.logFrames > this.stats.maxLogFrames) this.stats.maxLogFrames = reply.logFrames;
       if (reply.tookMs > this.stats.maxRoundMs) this.stats.maxRoundMs = reply.tookMs;
-      if (reply.long) this.checkpointOnMain();
+      if (reply.long) void this.finishHeld();
     });
     this.worker.on('error', (err) => this.fail(`the checkpoint worker failed: ${err.message}`));
     this.worker.on('exit', (code) => {
@@ -118,25 +139,34 @@ export class CheckpointThread {
     });
   }
 
-  /** The worker waits (up to a second) for this one's answer, so the checkpoint lock is free here. */
-  private checkpointOnMain(): void {
-    const resume = (): void => {
-      if (this.stopping !== null || this.exited) return;
-      const request: CheckpointRequest = { kind: 'resume' };
-      this.worker.postMessage(request);
-    };
-    const work = (): void => {
-      if (!this.sqlite.open || this.stats.failure !== null) return;
-      this.sqlite.pragma('wal_checkpoint(PASSIVE)');
-      this.stats.mainCheckpoints++;
-    };
+  /**
+   * The log has grown long: holds the main connection's commits (if it can), has the worker copy
+   * the rest, and releases them. The hold is let go after a second whatever happens.
+   */
+  private async finishHeld(): Promise<void> {
+    if (this.finishing || this.stopping !== null || this.exited) return;
+    this.finishing = true;
+    let release: (() => void) | null = null;
     try {
-      const waiting = this.options.onMain ? this.options.onMain(work) : work();
-      // A failed checkpoint loses nothing (the log keeps every frame); the next long round tries again.
-      if (waiting instanceof Promise) waiting.then(resume, resume);
-      else resume();
-    } catch {
-      resume();
+      release = this.options.hold ? await this.options.hold() : null;
+      const heldAt = performance.now();
+      if (this.stopping !== null || this.exited) return;
+      await new Promise<void>((resolve) => {
+        const timer = setTimeout(resolve, 1_000);
+        this.finished = () => {
+          clearTimeout(timer);
+          resolve();
+        };
+        const request: CheckpointRequest = { kind: 'finish' };
+        this.worker.postMessage(request);
+      });
+      this.stats.finishes++;
+      const heldMs = performance.now() - heldAt;
+      if (release !== null && heldMs > this.stats.maxHoldMs) this.stats.maxHoldMs = heldMs;
+    } finally {
+      this.finished = null;
+      release?.();
+      this.finishing = false;
     }
   }
 

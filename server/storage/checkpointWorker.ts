@@ -3,9 +3,10 @@
  * and every `intervalMs` one PASSIVE checkpoint (https://www.sqlite.org/pragma.html#pragma_wal_checkpoint):
  * it copies the committed frames of the write-ahead log into the database file and syncs both,
  * never waiting for a reader or a writer and never holding up either. When commits arrived while
- * it copied, the next round comes after `catchUpMs` instead. Each round past `longLogFrames`
- * frames tells the main thread, which finishes the copy from its own connection (checkpointThread.ts
- * says why), and waits for its answer.
+ * it copied, the next round comes after `catchUpMs` instead. A round that finds the log past
+ * `longLogFrames` frames asks the main thread for a moment without commits and waits; given it
+ * (a `finish` request), it checkpoints once more, so that every frame is copied and the next
+ * commit starts the log again, and answers.
  */
 import { parentPort, workerData } from 'node:worker_threads';
 import { performance } from 'node:perf_hooks';
@@ -16,33 +17,47 @@ const { file, intervalMs, catchUpMs, longLogFrames } = workerData as CheckpointW
 const port = parentPort!;
 const sqlite = new Database(file, { fileMustExist: true });
 const checkpoint = sqlite.prepare('PRAGMA wal_checkpoint(PASSIVE)');
+/** How long a long round waits for the main thread's `finish` before going on without it. */
+const finishTimeoutMs = 1_000;
 
 let timer: NodeJS.Timeout | undefined;
-/** How long a round waits for the main thread's checkpoint before going on without it. */
-const mainAnswerTimeoutMs = 1_000;
 let stopped = false;
+
+/**
+ * One PASSIVE checkpoint. Its row: busy (1 when another connection was checkpointing, and then
+ * log and checkpointed are −1: sqlite3_wal_checkpoint_v2, https://www.sqlite.org/c3ref/wal_checkpoint_v2.html),
+ * log (frames in the log), checkpointed (frames copied).
+ */
+function run(): { busy: boolean; logFrames: number; copiedFrames: number; tookMs: number } {
+  const startedAt = performance.now();
+  const r = checkpoint.get() as { busy: number; log: number; checkpointed: number };
+  return { busy: r.busy !== 0, logFrames: r.log, copiedFrames: r.checkpointed, tookMs: performance.now() - startedAt };
+}
+
+function schedule(ms: number): void {
+  if (timer !== undefined) clearTimeout(timer);
+  timer = stopped ? undefined : setTimeout(round, ms);
+}
 
 function round(): void {
   timer = undefined;
   if (stopped) return;
-  const startedAt = performance.now();
-  // One row: busy (0: never, in PASSIVE mode), log (frames in the log), checkpointed (frames copied).
-  const r = checkpoint.get() as { busy: number; log: number; checkpointed: number };
-  const tookMs = performance.now() - startedAt;
-  const behind = r.log > r.checkpointed;
-  const long = r.log >= longLogFrames;
-  const reply: CheckpointReply = { kind: 'round', logFrames: r.log, copiedFrames: r.checkpointed, tookMs, long };
+  const r = run();
+  const long = !r.busy && r.logFrames >= longLogFrames;
+  const reply: CheckpointReply = { kind: 'round', ...r, long };
   port.postMessage(reply);
-  // A long log: the main thread finishes this copy, and a checkpoint here meanwhile would only
-  // make it find the checkpoint lock taken; the next round waits for its answer (or a second).
-  if (long) timer = setTimeout(round, mainAnswerTimeoutMs);
-  else timer = setTimeout(round, behind ? catchUpMs : intervalMs);
+  if (r.busy) schedule(catchUpMs);
+  else if (long) schedule(finishTimeoutMs);
+  else schedule(r.logFrames > r.copiedFrames ? catchUpMs : intervalMs);
 }
 
 port.on('message', (req: CheckpointRequest) => {
-  if (req.kind === 'resume') {
-    if (timer !== undefined) clearTimeout(timer);
-    timer = setTimeout(round, intervalMs);
+  if (req.kind === 'finish') {
+    if (stopped) return;
+    const r = run();
+    const reply: CheckpointReply = { kind: 'finished', ...r };
+    port.postMessage(reply);
+    schedule(intervalMs);
     return;
   }
   stopped = true;

@@ -23,7 +23,7 @@
  * written through the stores but through that queue.
  */
 import { openDatabase, type Db, type OpenedDatabase } from './database.ts';
-import { CheckpointThread } from './checkpointThread.ts';
+import { CheckpointThread, type CheckpointThreadOptions } from './checkpointThread.ts';
 import { AlertStore } from './alerts.ts';
 import { AuditStore } from './audit.ts';
 import { configurationChangesInWindow, ConfigurationHistory, configurationSwitchesBefore, lastConfigurations, overdueSignalsInWindow } from './configurationLog.ts';
@@ -209,7 +209,7 @@ export class SqliteStorage implements Storage {
   ) {
     const { db } = opened;
     const transactions = (this.transactions = new Transactions(opened.sqlite));
-    this.checkpoints = options.checkpointThread ? new CheckpointThread(opened.sqlite, { onMain: (work) => transactions.call(work), onFailure: options.onCheckpointFailure }) : null;
+    this.checkpoints = options.checkpointThread ? new CheckpointThread(opened.sqlite, { ...options.checkpoints, hold: () => transactions.hold(), onFailure: options.onCheckpointFailure }) : null;
     const call = <R>(work: () => R): Promise<R> => transactions.call(work);
     this.location = opened.file;
     this.site = stored(new SiteStore(db), call);
@@ -249,6 +249,8 @@ export interface StorageOptions {
   checkpointThread?: boolean;
   /** The checkpoint thread failed (the main connection checkpoints on its own again). */
   onCheckpointFailure?: (why: string) => void;
+  /** The checkpoint thread's timing and long-log mark (tests; checkpointThread.ts has the defaults). */
+  checkpoints?: Pick<CheckpointThreadOptions, 'intervalMs' | 'catchUpMs' | 'longLogFrames'>;
 }
 
 /** Opens (and migrates) the SQLite database in `file` (':memory:' for a throwaway one). */

@@ -69,6 +69,25 @@ export class Transactions {
     else this.commits.push(commit);
   }
 
+  /**
+   * Holds this connection as an open transaction would (store calls and write-queue commits wait)
+   * until the returned function is called: a moment with no writer on it, for the checkpoint
+   * thread (checkpointThread.ts). Taken once no transaction is open; nothing runs inside it.
+   */
+  hold(): Promise<() => void> {
+    return new Promise((resolve) => {
+      const take = (): void => {
+        const token = {};
+        this.open = token;
+        resolve(() => {
+          if (this.open === token) this.end();
+        });
+      };
+      if (this.open === null) take();
+      else this.waiting.push(take);
+    });
+  }
+
   transaction<T>(work: () => Promise<T>): Promise<T> {
     const frame = this.context.getStore();
     if (frame !== undefined && this.open !== null && frame.root === this.open) return this.nested(frame, work);

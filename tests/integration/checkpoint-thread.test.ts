@@ -7,6 +7,7 @@
  * committed frames without blocking the writer; the log restarts from its beginning at the first
  * write after every frame has been copied.
  */
+import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
@@ -97,37 +98,55 @@ describe('checkpoints on a worker thread', () => {
     await storage.close();
   });
 
-  it('a log grown long under a steady feed is finished by the main thread and starts again, so it stays bounded', async () => {
-    const file = path.join(freshDir(), 'steady.sqlite');
-    const sqlite = new Database(file);
-    sqlite.pragma('journal_mode = WAL');
-    sqlite.pragma('synchronous = NORMAL');
-    sqlite.exec('CREATE TABLE samples (k INTEGER PRIMARY KEY, v BLOB NOT NULL)');
-    const thread = new CheckpointThread(sqlite, { intervalMs: 10, catchUpMs: 1, longLogFrames: 256 });
-    // The server starts it with the database, long before the first reading; here, wait for it.
-    await until('the first round', () => thread.stats.rounds > 0);
-    const insert = sqlite.prepare('INSERT INTO samples (k, v) VALUES (?, ?)');
-    const blob = Buffer.alloc(3000, 7);
+  it('a log grown long under a steady feed is finished while commits are held, starts again, and stays bounded', async () => {
+    const file = path.join(freshDir(), 'holdfast.sqlite');
+    const storage = openStorage(file, { checkpointThread: true, checkpoints: { intervalMs: 10, catchUpMs: 1, longLogFrames: 256 } });
+    const site = await storage.site.insert({ name: 'Brackenfold Common', defaultLevelsJson: [], createdAtMs: 0, updatedAtMs: 0 });
+    const sensorIds: number[] = [];
+    for (let i = 0; i < 40; i++) sensorIds.push((await storage.sensors.insert({ siteId: site.id, key: `mast-${i}`, name: `Mast ${i}`, heightM: 10, createdAtMs: 0 })).id);
+    const thread = storage.checkpoints!;
+    await thread.ready;
+    const queue = storage.writes.queue(Date.now, 0);
     let maxLogBytes = 0;
-    // About 60 MB through the log, one page-sized row a commit, yielding only now and then.
-    for (let k = 0; k < 20_000; k++) {
-      insert.run(k, blob);
-      if (k % 50 === 0) {
-        maxLogBytes = Math.max(maxLogBytes, size(`${file}-wal`));
-        await new Promise((r) => setImmediate(r));
-      }
+    // 3,000 commits of 40 sensors' readings (a page or more each), as fast as the queue takes them.
+    for (let c = 0; c < 3000; c++) {
+      const batch = emptyWriteBatch();
+      for (const sensorId of sensorIds) batch.readings.push(...readings(sensorId, c, 1).readings);
+      expect((await queue.enqueue(batch)).stored).toBe(true);
+      if (c % 50 === 0) maxLogBytes = Math.max(maxLogBytes, size(`${file}-wal`));
     }
-    await until('a main-thread checkpoint', () => thread.stats.mainCheckpoints > 0);
-    // Bounded: the log started again many times, and never held more than a few multiples of the
-    // long mark, against the ~40,000 frames of 20,000 commits in a log never started again. The file
-    // may stay longer (journal_size_limit 64 MiB), but not as long as that.
+    queue.stop();
+    await until('a finish with the commits held', () => thread.stats.finishes > 0);
+    // Bounded: the log started again many times and never held more than a few multiples of the
+    // long mark, against the tens of thousands of frames of 3,000 commits in a log never started
+    // again. The file may stay longer (journal_size_limit 64 MiB), but not as long as that.
     expect(thread.stats.restarts).toBeGreaterThan(5);
     expect(thread.stats.maxLogFrames).toBeLessThan(16 * 256);
     expect(maxLogBytes).toBeLessThan(70 * 2 ** 20);
     expect(thread.stats.failure).toBeNull();
-    await thread.stop();
-    expect(sqlite.prepare('SELECT count(*) AS n FROM samples').get()).toEqual({ n: 20_000 });
-    sqlite.close();
+    const reader = new Database(file, { readonly: true });
+    expect(reader.prepare('SELECT count(*) AS n FROM readings').get()).toEqual({ n: 3000 * 40 });
+    reader.close();
+    await storage.close();
+  });
+
+  it('holding the connection makes store calls and commits wait until it is let go', async () => {
+    const { storage, sensorId } = await freshStorage(false);
+    const queue = storage.writes.queue(Date.now, 0);
+    // transactions.ts `hold`, reached through the store's transaction gate as the checkpoint thread does.
+    const transactions = (storage as unknown as { transactions: { hold(): Promise<() => void> } }).transactions;
+    const release = await transactions.hold();
+    let committed = false;
+    let read = false;
+    const commit = queue.enqueue(readings(sensorId, 0, 5)).then(() => (committed = true));
+    const call = storage.sensors.active().then(() => (read = true));
+    await new Promise((r) => setTimeout(r, 100));
+    expect([committed, read]).toEqual([false, false]);
+    release();
+    await Promise.all([commit, call]);
+    expect([committed, read]).toEqual([true, true]);
+    queue.stop();
+    await storage.close();
   });
 
   it('if the worker dies, the main connection checkpoints on its own again and says why', async () => {
@@ -148,6 +167,11 @@ describe('checkpoints on a worker thread', () => {
     await thread.stop();
     sqlite.close();
   });
+
+  it('keeps a process that waits for it alive until it has started (the server awaits it before anything else runs)', () => {
+    const out = execFileSync(process.execPath, ['--import', 'tsx', path.resolve('tests/fixtures/openStorageReady.ts')], { encoding: 'utf8', env: { ...process.env, NODE_OPTIONS: '' }, timeout: 60_000 });
+    expect(out.trim()).toBe('ready');
+  }, 70_000);
 
   it('refuses an in-memory database (it has no log to copy)', () => {
     const sqlite = new Database(':memory:');
