@@ -87,17 +87,24 @@ async function startPublisher(o: IngestOptions, url: string, withCredentials: bo
  * (its sensor would count as silent and every structure would show "no data") for any run of
  * up to about 30 s; the warm-up is stamped 10 s back, before the main burst's first reading.
  */
-async function bursts(o: IngestOptions, pub: Publisher, beforeMain: () => Promise<void> | void, afterWarmup: () => Promise<void>): Promise<Extract<PublisherReply, { kind: 'burst-done' }>> {
+/**
+ * The warm-up burst, then the main one. `sentAtMs` is this process's clock when the main burst was
+ * asked for: a run whose end is also timed here (the Mosquitto server run) measures against it,
+ * not against the publisher's `startedAtMs`, because two processes' clocks can disagree by
+ * seconds after the machine's clock is stepped (seen once: a run of −4.1 s).
+ */
+async function bursts(o: IngestOptions, pub: Publisher, beforeMain: () => Promise<void> | void, afterWarmup: () => Promise<void>): Promise<Extract<PublisherReply, { kind: 'burst-done' }> & { sentAtMs: number }> {
   const now = Date.now();
   pub.send({ cmd: 'burst', count: o.warmupReadings, inflight: o.inflight, t0Ms: now - 10_000, stepMs: o.stepMs, deadlineMs: wallMs() + 60_000 });
   const warm = await pub.next('burst-done', 65_000);
   if (warm.acked !== o.warmupReadings) throw new Error(`warm-up: ${warm.acked} of ${o.warmupReadings} acknowledged`);
   await afterWarmup();
   await beforeMain();
+  const sentAtMs = wallMs();
   pub.send({ cmd: 'burst', count: o.readings, inflight: o.inflight, t0Ms: Date.now() - 2_000, stepMs: o.stepMs, deadlineMs: wallMs() + 120_000 });
   const main = await pub.next('burst-done', 125_000);
   if (main.timedOut || main.acked !== o.readings) throw new Error(`main burst: ${main.acked} of ${o.readings} acknowledged (${main.errors} errors, timed out: ${main.timedOut})`);
-  return main;
+  return { ...main, sentAtMs };
 }
 
 function storedFigures(dataDir: string): IngestRun['stored'] {
@@ -296,7 +303,8 @@ async function mosquittoServer(o: IngestOptions, repeat: number): Promise<Ingest
     const cpuUsPerReading = cpu.usPerReading(o.readings);
     const mem = memory.stop();
     memory = null;
-    const seconds = (end - main.startedAtMs) / 1000;
+    // Both ends on this process's clock (bursts says why).
+    const seconds = (end - main.sentAtMs) / 1000;
     await stopGracefully(s);
     return serverRun('mosquitto', o, repeat, seconds, cpuUsPerReading, dataDir, mem);
   } finally {
