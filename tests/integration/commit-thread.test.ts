@@ -224,7 +224,11 @@ describe('the write queue on its commit thread', () => {
           });
           transactions++;
         }
-        await new Promise((r) => setImmediate(r));
+        // A millisecond with no transaction between bursts: the thread's commit waits for the
+        // write lock in SQLite's busy handler, which retries at intervals (up to 100 ms apart,
+        // from memory of sqliteDefaultBusyCallback); with bursts back to back it found the lock
+        // free at none of its retries in 5 s once on a loaded CI machine, and held its batch.
+        await new Promise((r) => setTimeout(r, 1));
       }
       expect((await all).every((o) => o.stored)).toBe(true);
       // The transactions ran while the thread was committing (they saw several counts).
