@@ -46,7 +46,7 @@ interface CheckpointRun {
   copiedFrames: number;
   tookMs: number;
 }
-export type CheckpointReply = ({ kind: 'round'; long: boolean } & CheckpointRun) | ({ kind: 'finished' } & CheckpointRun) | { kind: 'stopped' };
+export type CheckpointReply = ({ kind: 'round'; long: boolean } & CheckpointRun) | ({ kind: 'finished' } & CheckpointRun) | { kind: 'failed'; message: string } | { kind: 'stopped' };
 
 export interface CheckpointThreadOptions {
   /** Pause between checkpoints while the worker keeps up, ms (200). */
@@ -74,6 +74,10 @@ export interface CheckpointStats {
   /** The longest log a round found, frames; rounds that found it started again since the last. */
   maxLogFrames: number;
   restarts: number;
+  /** Checkpoints that failed (a full disk, an I/O error) and the last one's error; the worker goes on. */
+  failedRounds: number;
+  lastError: string | null;
+  /** Why the worker stopped for good (it exited or crashed): the main connection checkpoints again. */
   failure: string | null;
 }
 
@@ -83,7 +87,7 @@ const sqliteDefaultAutoCheckpointPages = 1000;
 const journalSizeLimitBytes = 64 * 2 ** 20;
 
 export class CheckpointThread {
-  readonly stats: CheckpointStats = { rounds: 0, logFrames: 0, copiedFrames: 0, maxRoundMs: 0, finishes: 0, maxHoldMs: 0, maxLogFrames: 0, restarts: 0, failure: null };
+  readonly stats: CheckpointStats = { rounds: 0, logFrames: 0, copiedFrames: 0, maxRoundMs: 0, finishes: 0, maxHoldMs: 0, maxLogFrames: 0, restarts: 0, failedRounds: 0, lastError: null, failure: null };
   private readonly worker: Worker;
   /**
    * Settles once the worker has answered (or could not start). The server waits for it before loading the
@@ -117,6 +121,13 @@ export class CheckpointThread {
     });
     this.worker.on('message', (reply: CheckpointReply) => {
       if (reply.kind === 'stopped') return;
+      if (reply.kind === 'failed') {
+        // A full disk or an I/O error: the worker tries again in a second (the log keeps every frame).
+        this.stats.failedRounds++;
+        this.stats.lastError = reply.message;
+        this.finished?.();
+        return;
+      }
       if (reply.kind === 'finished') {
         this.finished?.();
         return;

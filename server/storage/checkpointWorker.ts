@@ -39,10 +39,22 @@ function schedule(ms: number): void {
   timer = stopped ? undefined : setTimeout(round, ms);
 }
 
+/** After a failed checkpoint (a full disk, an I/O error), the pause before the next try. */
+const failedPauseMs = 1_000;
+
 function round(): void {
   timer = undefined;
   if (stopped) return;
-  const r = run();
+  let r: ReturnType<typeof run>;
+  try {
+    r = run();
+  } catch (err) {
+    // Nothing is lost (the log keeps every frame); the worker tries again, and stays.
+    const reply: CheckpointReply = { kind: 'failed', message: err instanceof Error ? err.message : String(err) };
+    port.postMessage(reply);
+    schedule(failedPauseMs);
+    return;
+  }
   const long = !r.busy && r.logFrames >= longLogFrames;
   const reply: CheckpointReply = { kind: 'round', ...r, long };
   port.postMessage(reply);
@@ -54,10 +66,14 @@ function round(): void {
 port.on('message', (req: CheckpointRequest) => {
   if (req.kind === 'finish') {
     if (stopped) return;
-    const r = run();
-    const reply: CheckpointReply = { kind: 'finished', ...r };
+    let reply: CheckpointReply;
+    try {
+      reply = { kind: 'finished', ...run() };
+    } catch (err) {
+      reply = { kind: 'failed', message: err instanceof Error ? err.message : String(err) };
+    }
     port.postMessage(reply);
-    schedule(intervalMs);
+    schedule(reply.kind === 'failed' ? failedPauseMs : intervalMs);
     return;
   }
   stopped = true;
