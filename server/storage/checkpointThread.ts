@@ -97,7 +97,6 @@ export class CheckpointThread {
   readonly ready: Promise<void>;
   private stopping: Promise<void> | null = null;
   private exited = false;
-  private lastLogFrames = 0;
   private finishing = false;
   private finished: (() => void) | null = null;
 
@@ -135,8 +134,7 @@ export class CheckpointThread {
       this.stats.rounds++;
       // Another connection was checkpointing (the commit thread's): this round tells nothing.
       if (reply.busy) return;
-      if (reply.logFrames < this.lastLogFrames) this.stats.restarts++;
-      this.lastLogFrames = reply.logFrames;
+      if (reply.logFrames < this.stats.logFrames) this.stats.restarts++;
       this.stats.logFrames = reply.logFrames;
       this.stats.copiedFrames = reply.copiedFrames;
       if (reply.logFrames > this.stats.maxLogFrames) this.stats.maxLogFrames = reply.logFrames;
