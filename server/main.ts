@@ -12,7 +12,6 @@ async function main(): Promise<void> {
   const { PortInUseError } = await import('./ingest/embeddedBroker.ts');
   const { createLogger } = await import('./log.ts');
   const { startServer } = await import('./runtime.ts');
-  const { runDemo } = await import('./demo/demo.ts');
   let config;
   try {
     config = configFromEnv(process.env, process.argv.slice(2));
@@ -22,7 +21,8 @@ async function main(): Promise<void> {
   }
   const log = createLogger(config.logLevel);
   try {
-    const server = config.demo ? await runDemo(config, log) : await startServer(config, log);
+    // The demo's simulated anemometers (and the MQTT client they publish with) load only for --demo.
+    const server = config.demo ? await (await import('./demo/demo.ts')).runDemo(config, log) : await startServer(config, log);
     let stopping = false;
     const stop = (signal: string) => {
       if (stopping) return;

@@ -15,7 +15,7 @@ import type { WriteQueue } from '../storage/writeQueue.ts';
 import type { OpenAlert, Watch } from '../watch/watch.ts';
 import { ackLinkLifetimeMs, ackSecret, checkAckToken, makeAckToken, type AckClaim } from './ackTokens.ts';
 import type { Channel } from './channels/channel.ts';
-import { EmailChannel } from './channels/email.ts';
+import type { EmailChannel } from './channels/email.ts';
 import { WebhookChannel, type WebhookEndpoint } from './channels/webhook.ts';
 import { Dispatcher } from './dispatcher.ts';
 import { alertEmail, testEmail } from './emailMessage.ts';
@@ -79,7 +79,10 @@ export class Notifier {
 
   /** The notifier, with its signing key (made on first start) and the outbox's last failure read. */
   static async open(deps: NotifierDeps, options: NotifierOptions = {}): Promise<Notifier> {
-    return new Notifier(deps, options, await ackSecret(deps.storage, deps.now()), await deps.storage.outbox.lastFailure());
+    const { smtpUrl, smtpFrom } = deps.config;
+    // The SMTP client (nodemailer, about 3 MB of resident memory) is loaded only when e-mail is configured.
+    const email = smtpUrl && smtpFrom ? new (await import('./channels/email.ts')).EmailChannel(smtpUrl, smtpFrom, options.emailTimeoutMs) : null;
+    return new Notifier(deps, options, await ackSecret(deps.storage, deps.now()), await deps.storage.outbox.lastFailure(), email);
   }
 
   private constructor(
@@ -87,6 +90,7 @@ export class Notifier {
     private readonly options: NotifierOptions,
     secret: Buffer,
     lastError: { atMs: number; target: string; channel: string; result: string } | null,
+    email: EmailChannel | null,
   ) {
     this.outbox = deps.storage.outbox;
     this.secret = secret;
@@ -94,7 +98,7 @@ export class Notifier {
     const dispatchNow = options.dispatchNow ?? Date.now;
     const channels = new Map<string, Channel>();
     channels.set('webhook', new WebhookChannel((target) => this.webhookEndpoint(target), dispatchNow, options.webhookTimeoutMs));
-    this.email = config.smtpUrl && config.smtpFrom ? new EmailChannel(config.smtpUrl, config.smtpFrom, options.emailTimeoutMs) : null;
+    this.email = email;
     if (this.email) channels.set('email', this.email);
     this.push = new PushNotifier({ storage: deps.storage, config, watch: deps.watch, queue: deps.queue, now: deps.now, log: deps.log, secret: this.secret, dispatchNow, ...(options.pushTimeoutMs ? { timeoutMs: options.pushTimeoutMs } : {}) });
     if (this.push.channel) channels.set('push', this.push.channel);
