@@ -13,6 +13,7 @@
 import { createHash } from 'node:crypto';
 import { createServer, type Server, type Socket } from 'node:net';
 import { Aedes, type Client } from 'aedes';
+import * as mqttPacket from 'mqtt-packet';
 import type { Logger } from '../log.ts';
 import { verifyPassword } from '../auth/password.ts';
 import { SignInLimiter, type SignInLimiterOptions } from '../auth/signInLimiter.ts';
@@ -101,6 +102,12 @@ export class EmbeddedBroker {
 
   async start(): Promise<void> {
     const { registry, sink, log, topicPrefix } = this.options;
+    // aedes writes packets with mqtt-packet, which by default builds a cache of one 2-byte Buffer
+    // for every packet id (65,536 Buffers: 6.5 MB of the server's heap, seen in a heap snapshot
+    // under `npm run bench`) the first time it writes one. Off, the two bytes are made per packet:
+    // the switch mqtt-packet documents for this (writeToStream.js, `cacheNumbers`), and the one
+    // mqtt.js sets with its `writeCache: false` option.
+    mqttPacket.writeToStream.cacheNumbers = false;
     const now = this.options.now ?? Date.now;
     const addressOfClient = (client: Client | null | undefined): string | null => (client ? (this.addressOf.get(client.conn) ?? (client.conn as Partial<Socket>).remoteAddress ?? null) : null);
     const record = (entry: RefusalInput): void => this.options.refusals?.record(entry);
@@ -117,7 +124,7 @@ export class EmbeddedBroker {
         if (!gateway) return refuse('unknown gateway or no password', returnCodeBadCredentials, 'unknown-username', `no gateway has the username "${username}" (or it was revoked)`);
         if (password === undefined) return refuse('unknown gateway or no password', returnCodeBadCredentials, 'no-password', `gateway "${username}" connected without a password`);
         // A gateway reconnecting with the password it used before is not hashed again: scrypt
-        // costs 32 MiB and ~50 ms, and after a site's network blip every gateway reconnects at once.
+        // costs about 140 ms (auth/password.ts), and after a site's network blip every gateway reconnects at once.
         const digest = createHash('sha256').update(password).digest('hex');
         // A client id belongs to the gateway using it: another gateway connecting with it would
         // take over the session and knock the first one offline (issue 13 item 5).
