@@ -7,6 +7,7 @@
 import path from 'node:path';
 import { serve, type ServerType } from '@hono/node-server';
 import { Accounts } from './auth/accounts.ts';
+import { derivePasswordsWith } from './auth/password.ts';
 import { SignInLimiter } from './auth/signInLimiter.ts';
 import type { Config } from './config.ts';
 import { createApp } from './http/app.ts';
@@ -128,6 +129,9 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     onCheckpointFailure: (why) => log.error({ why }, 'checkpoints are back on the main thread (SQLite default); nothing is lost, but commits may pause the live path'),
   });
   await storage.checkpoints?.ready;
+  // Password derivations on the checkpoint worker too: one thread, one reused scrypt block (auth/password.ts).
+  const checkpoints = storage.checkpoints;
+  const passwordsBackToPool = checkpoints ? derivePasswordsWith((job) => checkpoints.derive(job)) : () => undefined;
   const { opened } = storage;
   const { db } = opened;
   await ensureSite(storage, now());
@@ -180,6 +184,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
       await broker.stop().catch(() => undefined);
       queue.stop(); // ends the commit thread, which would keep the process alive
       await storage.close();
+      passwordsBackToPool();
       throw err;
     }
   }
@@ -387,6 +392,7 @@ export async function startServer(config: Config, log: Logger, options: StartOpt
     queue.stop();
     await rejections.flush();
     await storage.close();
+    passwordsBackToPool();
   };
   return running;
 }

@@ -15,7 +15,7 @@ import { maxNameLength, maxPasswordLength } from '../engine/limits.ts';
 import { Conflict, NotFound, Refused } from '../domainErrors.ts';
 import type { PersonRow } from '../storage/people.ts';
 import type { Storage } from '../storage/storage.ts';
-import { hashPassword, verifyPassword } from './password.ts';
+import { hashPassword, passwordHashIsCurrent, unmatchablePasswordHash, verifyPassword } from './password.ts';
 import { roles, type Role } from './roles.ts';
 import { newToken, tokenHash } from './tokens.ts';
 
@@ -116,8 +116,10 @@ export class Accounts {
   async checkPassword(username: string, password: string): Promise<Person | null> {
     const row = await this.storage.people.byUsername(username);
     // Hash anyway for an unknown user, so timing does not tell which usernames exist.
-    const ok = await verifyPassword(password, row?.passwordHash ?? 'scrypt$32768$8$1$AAAAAAAAAAAAAAAAAAAAAA==$AAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAA=');
+    const ok = await verifyPassword(password, row?.passwordHash ?? unmatchablePasswordHash);
     if (!row || !ok || row.disabledAtMs !== null) return null;
+    // A hash from the first release's parameters is made again with today's, while the password is at hand.
+    if (!passwordHashIsCurrent(row.passwordHash)) await this.storage.people.update(row.id, { passwordHash: await hashPassword(password) });
     return toPerson(row);
   }
 

@@ -26,6 +26,7 @@
  *   rounds here then mostly find nothing to copy.
  *
  * A worker is about 9 MB resident (measured on the benchmark machine with this file's limits).
+ * The same worker derives password hashes (`derive`, for auth/password.ts): see checkpointWorker.ts.
  */
 import type Database from 'better-sqlite3';
 import { performance } from 'node:perf_hooks';
@@ -39,14 +40,26 @@ export interface CheckpointWorkerData {
   longLogFrames: number;
 }
 
-export type CheckpointRequest = { kind: 'stop' } | { kind: 'finish' };
+/** A password derivation the worker runs for auth/password.ts (`derive`). */
+export interface DeriveRequest {
+  kind: 'derive';
+  id: number;
+  password: string;
+  salt: Uint8Array;
+  n: number;
+  r: number;
+  p: number;
+  keyLength: number;
+  maxmem: number;
+}
+export type CheckpointRequest = { kind: 'stop' } | { kind: 'finish' } | DeriveRequest;
 interface CheckpointRun {
   busy: boolean;
   logFrames: number;
   copiedFrames: number;
   tookMs: number;
 }
-export type CheckpointReply = ({ kind: 'round'; long: boolean } & CheckpointRun) | ({ kind: 'finished' } & CheckpointRun) | { kind: 'failed'; message: string } | { kind: 'stopped' };
+export type CheckpointReply = ({ kind: 'round'; long: boolean } & CheckpointRun) | ({ kind: 'finished' } & CheckpointRun) | { kind: 'failed'; message: string } | { kind: 'stopped' } | { kind: 'derived'; id: number; key: Uint8Array } | { kind: 'derived'; id: number; error: string };
 
 export interface CheckpointThreadOptions {
   /** Pause between checkpoints while the worker keeps up, ms (200). */
@@ -99,6 +112,11 @@ export class CheckpointThread {
   private exited = false;
   private finishing = false;
   private finished: (() => void) | null = null;
+  private nextDerivation = 1;
+  private readonly derivations = new Map<number, { resolve: (key: Buffer | null) => void; reject: (err: Error) => void }>();
+  /** Password derivations the worker ran (health, tests). */
+  derived = 0;
+  private answered = false;
 
   constructor(
     private readonly sqlite: Database.Database,
@@ -110,16 +128,25 @@ export class CheckpointThread {
     const data: CheckpointWorkerData = { file: sqlite.name, intervalMs: options.intervalMs ?? 200, catchUpMs: options.catchUpMs ?? 5, longLogFrames: options.longLogFrames ?? 4096 };
     // It holds one prepared statement: the smallest heap V8 allows is plenty.
     this.worker = startStorageWorker('checkpointWorker', data, { maxYoungGenerationSizeMb: 1, maxOldGenerationSizeMb: 8 });
-    // It keeps the process alive only until its first answer (someone may be awaiting `ready`
-    // with nothing else running); after that, the server's sockets do.
     this.ready = new Promise<void>((resolve) => {
       this.worker.once('message', () => resolve());
       this.worker.once('exit', () => resolve());
     }).then(() => {
-      this.worker.unref();
+      this.answered = true;
+      this.keepAliveWhileNeeded();
     });
     this.worker.on('message', (reply: CheckpointReply) => {
       if (reply.kind === 'stopped') return;
+      if (reply.kind === 'derived') {
+        const waiting = this.derivations.get(reply.id);
+        this.derivations.delete(reply.id);
+        this.keepAliveWhileNeeded();
+        if ('key' in reply) {
+          this.derived++;
+          waiting?.resolve(Buffer.from(reply.key.buffer, reply.key.byteOffset, reply.key.byteLength));
+        } else waiting?.reject(new Error(reply.error));
+        return;
+      }
       if (reply.kind === 'failed') {
         // A full disk or an I/O error: the worker tries again in a second (the log keeps every frame).
         this.stats.failedRounds++;
@@ -144,7 +171,36 @@ export class CheckpointThread {
     this.worker.on('error', (err) => this.fail(`the checkpoint worker failed: ${err.message}`));
     this.worker.on('exit', (code) => {
       this.exited = true;
+      // Derivations it had not answered run where the caller runs them without a worker.
+      for (const waiting of this.derivations.values()) waiting.resolve(null);
+      this.derivations.clear();
       if (this.stopping === null) this.fail(`the checkpoint worker exited (code ${code})`);
+    });
+  }
+
+  /**
+   * The worker keeps the process alive until its first answer and while a derivation is waiting
+   * for it (someone may be awaiting either with nothing else running, such as the server creating
+   * its first administrator before it listens); otherwise the server's sockets do.
+   */
+  private keepAliveWhileNeeded(): void {
+    if (this.exited) return;
+    if (!this.answered || this.derivations.size > 0) this.worker.ref();
+    else this.worker.unref();
+  }
+
+  /**
+   * One scrypt derivation on the worker (auth/password.ts's `PasswordDeriver`); null once the
+   * worker has stopped or is stopping, and then the caller derives it itself.
+   */
+  derive(job: { password: string; salt: Buffer; n: number; r: number; p: number; keyLength: number; maxmem: number }): Promise<Buffer | null> {
+    if (this.exited || this.stopping !== null) return Promise.resolve(null);
+    const id = this.nextDerivation++;
+    return new Promise<Buffer | null>((resolve, reject) => {
+      this.derivations.set(id, { resolve, reject });
+      this.keepAliveWhileNeeded();
+      const request: CheckpointRequest = { kind: 'derive', id, ...job };
+      this.worker.postMessage(request);
     });
   }
 
