@@ -6,6 +6,7 @@
 import { Hono, type Context } from 'hono';
 import { siteDesignDensityKgM3, validateStructureRecord } from '../../engine/index.ts';
 import { HttpError, fieldIssues, type FieldIssue } from '../httpError.ts';
+import { jsonList } from '../jsonList.ts';
 import { z } from 'zod';
 import { principalName } from '../../auth/accounts.ts';
 import { createGateway, gatewayInputSchema, gatewayUpdateSchema, getGateway, listGateways, revokeGateway, updateGateway } from '../../register/gateways.ts';
@@ -145,7 +146,7 @@ export function registerRoutes(ctx: ApiContext): Hono<AppEnv> {
 
   // ---- structures ----
   const withLive = (view: ReturnType<typeof structureView>) => ({ ...view, live: ctx.watch.structureStateById(view.id) });
-  api.get('/structures', viewer, async (c) => c.json({ structures: (await listStructures(ctx.storage)).map(withLive) }));
+  api.get('/structures', viewer, async (c) => jsonList(c, 'structures', await listStructures(ctx.storage), withLive));
   api.get('/structures/:id', viewer, async (c) => c.json({ structure: withLive(structureView(await getStructureRow(ctx.storage, idParam(c)))) }));
   api.post('/structures', editor, async (c) => {
     const input = await structureBody(c, structureInputSchema);
