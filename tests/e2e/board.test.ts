@@ -303,6 +303,20 @@ describe.skipIf(skip)('the live board through a windy spell', () => {
     await screenshot(page, 'board-spell-phone');
   });
 
+  it("strikes a silent sensor's numbers on the Sensors screen and keeps them legible", async () => {
+    // On a second page, so the board's page stays where the next steps read it.
+    const sensorsPage = await context.newPage();
+    await sensorsPage.goto(`${e2e.baseUrl}/#/sensors`);
+    const mastB = sensorsPage.locator('.sensor-card', { hasText: 'Mast B' });
+    await mastB.locator('dd.struck .fig-note').waitFor();
+    await expect(mastB.locator('.state-bad').first().textContent()).resolves.toContain('silent');
+    // WCAG 2.1 AA contrast (axe-core's color-contrast rule) holds for the struck mean and its
+    // Beaufort note too: struck numbers are for reading, only not for acting on.
+    expect(await seriousAxeViolations(sensorsPage).then(describeViolations)).toBe('');
+    await screenshot(sensorsPage, 'sensors-silent-phone');
+    await sensorsPage.close();
+  });
+
   it('labels the gust now, the 10-minute peak and the mean, states the levels\' rule, and gives the trend a scale and a span', async () => {
     await expect(page.locator('[data-testid=gust-now] .fig-label').textContent()).resolves.toBe('Gust now (3 s)');
     await expect(page.locator('[data-testid=peak-gust] .fig-label').textContent()).resolves.toBe('Peak gust, 10 min');

@@ -113,6 +113,10 @@ describe.skipIf(skip)('web app in a real browser', () => {
     await page.fill('#sn-key', sensorKey);
     await page.fill('#sn-name', 'Mast A');
     await page.fill('#sn-h', '10');
+    // This gateway publishes only when a step tells it to, and the later steps (acknowledge, log,
+    // site link, units, axe-core) run for longer than the default 30 s on a slow machine: a
+    // 15-min silence timeout keeps Mast A reporting through the day these steps stand for.
+    await page.fill('#sn-silent', '900');
     await page.getByRole('button', { name: 'Register sensor' }).click();
     await page.getByRole('heading', { name: 'Mast A' }).waitFor();
     await page.getByText('no reading yet').first().waitFor();
