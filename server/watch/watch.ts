@@ -20,7 +20,7 @@
  * What lives elsewhere: alerts in the alert book and their words (levels/alertBook.ts,
  * alertWords.ts), the level machine (levels/stepLevel.ts), the estimates (structureForesight.ts),
  * the stream frames (liveFrames.ts), the in-memory state and its rules (liveState.ts) and what
- * screens see (watchState.ts). Why this file is still long (about 1,200 lines): it is one class
+ * screens see (watchState.ts). Why this file is still long (about 1,400 lines): it is one class
  * because every step of the per-reading path and the tick reads and changes the same in-memory
  * state (sensors, structures, the site-wide gust maxima, the book), and its methods are those steps
  * in order; splitting them across files would pass that state through every call.

@@ -39,6 +39,7 @@ import type { StoredAlert } from '../../storage/alerts.ts';
 import { acknowledgementBatch } from '../../storage/writeBatch.ts';
 import { requireRole, type AppEnv } from '../access.ts';
 import { HttpError } from '../httpError.ts';
+import { jsonObject, jsonPieces } from '../jsonList.ts';
 import { idParam, jsonBody } from '../validate.ts';
 import { sseBytes, type LiveEvent } from '../../live/liveHub.ts';
 import type { OpenAlert } from '../../watch/watch.ts';
@@ -121,7 +122,8 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
   /** Alerts being stored by an "acknowledge all", by id: the name of who is acknowledging them. */
   const beingAcknowledged = new Map<number, string>();
 
-  api.get('/live', requireRole('viewer'), (c) => c.json(ctx.watch.snapshot()));
+  // In pieces, as the stream's snapshot (jsonList.ts): every screen fetches it when the register changes.
+  api.get('/live', requireRole('viewer'), (c) => jsonObject(c, ctx.watch.snapshot(), 'structures'));
 
   api.get('/stream', requireRole('viewer'), (c) => {
     const header = c.req.header('last-event-id') ?? c.req.query('lastEventId');
@@ -182,7 +184,14 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
       let sentUpTo: number;
       if (missed === null) {
         sentUpTo = ctx.hub.lastId;
-        await write({ id: String(sentUpTo), event: 'snapshot', data: JSON.stringify(ctx.watch.snapshot()) });
+        // One event written in pieces (jsonList.ts): the JSON has no line break, so the pieces
+        // make one `data:` line, and the snapshot's figures are of the instant it was taken.
+        await writeBytes(`id: ${sentUpTo}\nevent: snapshot\ndata: `);
+        for (const piece of jsonPieces(ctx.watch.snapshot(), 'structures')) {
+          if (stream.aborted) break;
+          await writeBytes(piece);
+        }
+        if (!stream.aborted) await writeBytes('\n\n');
       } else {
         sentUpTo = lastSeen!;
         for (const e of missed) {
