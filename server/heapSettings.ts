@@ -21,6 +21,9 @@
  * may do nothing or misbehave: if an upgrade stops reading them, the heap grows as before and
  * `npm run bench` shows it. Starting a worker thread puts them back (v8Flags.ts sets them again). Only the server process (`npm start`, `npm run demo`) sets them; tests
  * and tools run with V8's defaults.
+ *
+ * Outside V8, glibc's allocator is set by package.json's start and demo scripts, before node
+ * starts (glibc reads it only then): `MALLOC_MMAP_THRESHOLD_=1048576` (README, configuration).
  */
 import v8 from 'node:v8';
 import { PerformanceObserver } from 'node:perf_hooks';

@@ -2,10 +2,29 @@
  * Runs the server as a separate process (`node --import tsx server/main.ts`), so a test can kill
  * it with SIGKILL mid-stream and start it again on the same data folder, as a crash would.
  * `compiled: true` runs `dist/server/main.js` instead, as `npm start` does (build first): the
- * benchmarks and the soak measure the server as shipped, without the tsx loader's memory.
+ * benchmarks and the soak measure the server as shipped, without the tsx loader's memory, and
+ * with the environment package.json's start script sets before node (`startScriptEnv`).
  */
 import { spawn, type ChildProcess } from 'node:child_process';
+import fs from 'node:fs';
 import readline from 'node:readline';
+
+/**
+ * The variables package.json's `start` script sets in front of `node dist/server/main.js`
+ * (`NAME=value … node dist/server/main.js`), read from the script itself so a compiled server
+ * started here runs as `npm start` runs it.
+ */
+export function startScriptEnv(): Record<string, string> {
+  const scripts = (JSON.parse(fs.readFileSync('package.json', 'utf8')) as { scripts: Record<string, string> }).scripts;
+  const found = /(?:^|&&\s*)((?:[A-Za-z_][A-Za-z0-9_]*=\S+\s+)*)node dist\/server\/main\.js/.exec(scripts.start ?? '');
+  if (!found) throw new Error('package.json\'s start script does not run node dist/server/main.js');
+  return Object.fromEntries(
+    found[1]!
+      .split(/\s+/)
+      .filter((a) => a.length > 0)
+      .map((a) => [a.slice(0, a.indexOf('=')), a.slice(a.indexOf('=') + 1)]),
+  );
+}
 
 export interface ServerProcess {
   proc: ChildProcess;
@@ -20,7 +39,7 @@ export async function spawnServer(env: Record<string, string>, timeoutMs = 20_00
   const args = options.compiled ? ['dist/server/main.js'] : ['--import', 'tsx', 'server/main.ts'];
   const proc = spawn(process.execPath, args, {
     cwd: process.cwd(),
-    env: { ...process.env, HOST: '127.0.0.1', MQTT_HOST: '127.0.0.1', PORT: '0', LOG_LEVEL: 'info', ...env },
+    env: { ...process.env, ...(options.compiled ? startScriptEnv() : {}), HOST: '127.0.0.1', MQTT_HOST: '127.0.0.1', PORT: '0', LOG_LEVEL: 'info', ...env },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   const logLines: Array<Record<string, unknown>> = [];
