@@ -318,7 +318,7 @@ async function main(): Promise<void> {
     const ack = (a: FanoutResult['baseline']): string => `p50 ${ms(a.p50Ms)} ms, p99 ${ms(a.p99Ms)} ms, max ${ms(a.maxMs)} ms (${a.acked} of ${a.published} acknowledged, ${a.skipped} skipped)`;
     log(`  ack with no stream client (baseline, two phases pooled): ${ack(fan.baseline)}`);
     log(`  ack with ${fan.clients} stream clients: ${ack(fan.withClients)}`);
-    log(`  per client: ${(fan.bytesPerSPerClient.mean / 1024).toFixed(1)} kB/s mean, ${(fan.bytesPerSPerClient.max / 1024).toFixed(1)} kB/s max; ${fan.clientsOpenAtEnd} of ${fan.clients} still open, ${fan.snapshots} snapshots re-sent`);
+    log(`  per client: ${(fan.bytesPerSPerClient.mean / 1024).toFixed(1)} kB/s mean, ${(fan.bytesPerSPerClient.max / 1024).toFixed(1)} kB/s max; ${fan.clientsOpenAtEnd} of ${fan.clients} still open, ${fan.snapshots} snapshots re-sent; the ${fan.clients} connected and read their snapshots in ${(fan.openingMs / 1000).toFixed(1)} s`);
     rows.push({
       what: `7 stream bytes per client (${fleet.sensors.length} sensors, ${fleet.structures} structures)`,
       measured: `${(fan.bytesPerSPerClient.mean / 1024).toFixed(1)} kB/s mean (max ${(fan.bytesPerSPerClient.max / 1024).toFixed(1)})`,

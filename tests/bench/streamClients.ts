@@ -14,7 +14,8 @@ export type StreamClientsCommand =
   | { cmd: 'close' };
 
 export type StreamClientsReply =
-  | { kind: 'opened'; open: number }
+  /** Every stream open and its first snapshot read to its end. */
+  | { kind: 'opened'; open: number; snapshotsRead: number }
   | { kind: 'measured'; seconds: number; bytesPerClient: number[]; open: number; snapshots: number }
   | { kind: 'closed' }
   | { kind: 'error'; message: string };
@@ -24,6 +25,8 @@ interface Client {
   bytes: number;
   open: boolean;
   snapshots: number;
+  /** Its first snapshot event read to its end (the blank line after it: its JSON has no line break). */
+  firstSnapshotRead: boolean;
 }
 
 let clients: Client[] = [];
@@ -32,7 +35,7 @@ const send = (reply: StreamClientsReply): void => void process.send?.(reply);
 
 function openOne(url: string, cookie: string): Promise<Client> {
   return new Promise((resolve, reject) => {
-    const client: Client = { req: null as unknown as http.ClientRequest, bytes: 0, open: false, snapshots: 0 };
+    const client: Client = { req: null as unknown as http.ClientRequest, bytes: 0, open: false, snapshots: 0, firstSnapshotRead: false };
     client.req = http.get(`${url}/api/stream`, { agent: false, headers: { cookie, accept: 'text/event-stream' } }, (res) => {
       if (res.statusCode !== 200) {
         reject(new Error(`GET /api/stream answered ${res.statusCode}`));
@@ -49,6 +52,11 @@ function openOne(url: string, cookie: string): Promise<Client> {
         while (at >= 0) {
           client.snapshots++;
           at = text.indexOf('event: snapshot', at + 1);
+        }
+        if (!client.firstSnapshotRead && client.snapshots > 0) {
+          // The first blank line after the snapshot's event line ends it.
+          const from = Math.max(0, text.indexOf('event: snapshot'));
+          if (text.indexOf('\n\n', from) >= 0) client.firstSnapshotRead = true;
         }
         tail = text.slice(-16);
       });
@@ -68,7 +76,10 @@ process.on('message', (m: StreamClientsCommand) => {
           const batch = await Promise.all(Array.from({ length: Math.min(50, m.count - i) }, () => openOne(m.url, m.cookie)));
           clients.push(...batch);
         }
-        send({ kind: 'opened', open: clients.filter((c) => c.open).length });
+        // Until every client has read its first snapshot (or its stream has ended), at most 110 s.
+        const deadline = performance.now() + 110_000;
+        while (clients.some((c) => c.open && !c.firstSnapshotRead) && performance.now() < deadline) await new Promise((resolve) => setTimeout(resolve, 100));
+        send({ kind: 'opened', open: clients.filter((c) => c.open).length, snapshotsRead: clients.filter((c) => c.firstSnapshotRead).length });
       } else if (m.cmd === 'measure-start') {
         for (const c of clients) {
           c.bytes = 0;
