@@ -42,6 +42,7 @@ import { HttpError } from '../httpError.ts';
 import { jsonObject, jsonPieces } from '../jsonList.ts';
 import { idParam, jsonBody } from '../validate.ts';
 import { sseBytes, type LiveEvent } from '../../live/liveHub.ts';
+import { SnapshotShare } from '../../live/sharedSnapshot.ts';
 import type { OpenAlert } from '../../watch/watch.ts';
 import type { ApiContext } from './apiContext.ts';
 
@@ -125,6 +126,12 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
   // In pieces, as the stream's snapshot (jsonList.ts): every screen fetches it when the register changes.
   api.get('/live', requireRole('viewer'), (c) => jsonObject(c, ctx.watch.snapshot(), 'structures'));
 
+  // Phones that connect together share one snapshot (live/sharedSnapshot.ts).
+  const snapshots = new SnapshotShare(
+    () => ctx.hub.lastId,
+    () => jsonPieces(ctx.watch.snapshot(), 'structures'),
+  );
+
   api.get('/stream', requireRole('viewer'), (c) => {
     const header = c.req.header('last-event-id') ?? c.req.query('lastEventId');
     const lastSeen = header !== undefined && /^[0-9]{1,15}$/.test(header) ? Number(header) : null;
@@ -183,11 +190,12 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
       const missed = lastSeen === null ? null : ctx.hub.since(lastSeen);
       let sentUpTo: number;
       if (missed === null) {
-        sentUpTo = ctx.hub.lastId;
+        const snapshot = snapshots.get();
+        sentUpTo = snapshot.lastId;
         // One event written in pieces (jsonList.ts): the JSON has no line break, so the pieces
         // make one `data:` line, and the snapshot's figures are of the instant it was taken.
         await writeBytes(`id: ${sentUpTo}\nevent: snapshot\ndata: `);
-        for (const piece of jsonPieces(ctx.watch.snapshot(), 'structures')) {
+        for (const piece of snapshot.pieces) {
           if (stream.aborted) break;
           await writeBytes(piece);
         }
