@@ -41,10 +41,12 @@ function jsonResponse(c: Context, pieces: Iterator<string>): Response {
 /**
  * The JSON text of an object in pieces of about `chunkChars`, with the array at `listKey` written
  * an item at a time and every other property as JSON.stringify writes it: joined, the pieces are
- * `JSON.stringify(value)` (with `toJson`, of the value with the list's items mapped). For the live stream's `snapshot` event, whose 1,000 structures made
- * one string of about 3 MB and its encoded copy (the stream's resident memory went from 133 to
- * 148 MB while a screen connected, under `npm run bench`). The value is built first, so its
- * figures are of one instant however long the pieces take to go.
+ * `JSON.stringify(value)` (with `toJson`, of the value with the list's items mapped). For the
+ * live stream's `snapshot` event and GET /api/live, whose 1,000 structures made one string of
+ * about 3 MB and its encoded copy per screen (an instrumented `npm run bench` run saw the server
+ * go from 133 to 148 MB resident as one screen connected; without instrumentation the difference
+ * was within the runs' spread). The value is built first, so its figures are of one instant
+ * however long the pieces take to go.
  */
 export function* jsonPieces(value: Record<string, unknown>, listKey: string, toJson: (item: unknown) => unknown = (item) => item): Generator<string, void, undefined> {
   let piece = '{';

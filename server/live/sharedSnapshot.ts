@@ -2,8 +2,8 @@
  * The stream's `snapshot` event, built once for the clients that connect within a second of each
  * other while nothing is announced (the hub's last event id unchanged). After a site's network
  * comes back, every phone reconnects at once, and each built the whole snapshot for itself: with
- * 1,000 structures their states and about 3 MB of JSON, some 30 ms of the event loop per phone
- * (`npm run bench`, benchmark 7: 500 clients took about 48 s to connect and read theirs).
+ * 1,000 structures their states and about 3 MB of JSON (`npm run bench`, benchmark 7: 500
+ * clients took 47.6–51.7 s to connect and read theirs, about 0.1 s each; shared, 5.4–5.7 s).
  *
  * Shared, a snapshot is up to a second old, as a fresh one is up to a second behind the
  * once-a-second frames: whatever changed since it was built is in the next frame (the frames

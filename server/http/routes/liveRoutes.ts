@@ -183,8 +183,21 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
         await stream.write(bytes);
         writingSinceMs = null;
       };
-      const write = (message: { id?: string; event: string; data: string; retry?: number }): Promise<void> =>
-        writeBytes(`${message.id !== undefined ? `id: ${message.id}\n` : ''}event: ${message.event}\ndata: ${message.data}\n${message.retry !== undefined ? `retry: ${message.retry}\n` : ''}\n`);
+      /**
+       * One event. Data given in pieces (the snapshot: jsonList.ts jsonPieces) is written a piece
+       * at a time; JSON has no line break, so the pieces make one `data:` line.
+       */
+      const write = async (message: { id?: string; event: string; data: string | Iterable<string>; retry?: number }): Promise<void> => {
+        const head = `${message.id !== undefined ? `id: ${message.id}\n` : ''}event: ${message.event}\ndata: `;
+        const end = `\n${message.retry !== undefined ? `retry: ${message.retry}\n` : ''}\n`;
+        if (typeof message.data === 'string') return writeBytes(`${head}${message.data}${end}`);
+        await writeBytes(head);
+        for (const piece of message.data) {
+          if (stream.aborted) return;
+          await writeBytes(piece);
+        }
+        await writeBytes(end);
+      };
       // Retry after 2 s when the connection drops (EventSource reconnects by itself).
       await write({ event: 'hello', data: JSON.stringify({ lastEventId: ctx.hub.lastId }), retry: 2000 });
       const missed = lastSeen === null ? null : ctx.hub.since(lastSeen);
@@ -192,14 +205,7 @@ export function liveRoutes(ctx: ApiContext): Hono<AppEnv> {
       if (missed === null) {
         const snapshot = snapshots.get();
         sentUpTo = snapshot.lastId;
-        // One event written in pieces (jsonList.ts): the JSON has no line break, so the pieces
-        // make one `data:` line, and the snapshot's figures are of the instant it was taken.
-        await writeBytes(`id: ${sentUpTo}\nevent: snapshot\ndata: `);
-        for (const piece of snapshot.pieces) {
-          if (stream.aborted) break;
-          await writeBytes(piece);
-        }
-        if (!stream.aborted) await writeBytes('\n\n');
+        await write({ id: String(sentUpTo), event: 'snapshot', data: snapshot.pieces });
       } else {
         sentUpTo = lastSeen!;
         for (const e of missed) {
